@@ -1,0 +1,157 @@
+/**
+ * The design of one resonant transformer, in SI base units (m, F, H, V, Hz, W, K, rad, Ω).
+ *
+ * This is what the physics core receives. The CLI parses design files (strings with units) into
+ * this shape; the core never sees a unit string. Geometry conventions (../shared/DESIGN.md):
+ * the floor is the plane z = 0; `baseHeight` is the bottom of the winding above the floor; the
+ * primary is a set of coaxial rings whose diameters are to the conductor's centre line.
+ */
+
+/** Enamel insulation build grades of IEC 60317-0-1 (grade 1 thin … grade 3 thick), or bare wire. */
+export type InsulationGrade = 'none' | 'grade1' | 'grade2' | 'grade3';
+
+export interface WireSpec {
+  /** Bare copper diameter, m. */
+  bareDiameter: number;
+  /** The AWG number when the wire was given as a gauge (informational). */
+  awg?: number;
+  /** Insulation build grade; decides the overall diameter unless `overallDiameter` is given. */
+  insulation: InsulationGrade;
+  /** Overall (insulated) diameter, m, when the builder measured it. */
+  overallDiameter?: number;
+}
+
+export interface SecondarySpec {
+  /** Outside diameter of the coil form, m. The wire's centre line sits at (formDiameter + d)/2. */
+  formDiameter: number;
+  wire: WireSpec;
+  /** Number of turns; with `windingLength` absent, the length follows from pitch × turns. */
+  turns?: number;
+  /** Axial length of the winding, m; with `turns` absent, turns = windingLength / pitch. */
+  windingLength?: number;
+  /** Axial distance between turn centres, m. Close-wound (pitch = overall wire diameter) when absent. */
+  pitch?: number;
+  /** Bottom of the winding above the floor, m. */
+  baseHeight: number;
+  /** Voltage distribution along the winding for the field solve. */
+  voltageProfile: 'linear' | 'quarter_wave';
+}
+
+export interface ToroidSpec {
+  shape: 'toroid';
+  /** Overall outside diameter, m. */
+  outerDiameter: number;
+  /** Diameter of the tube (minor diameter), m. */
+  tubeDiameter: number;
+  /** Mid-plane above the top of the winding, m (with a secondary). */
+  heightAboveWinding?: number;
+  /** Mid-plane above the floor, m (topload alone). */
+  centerHeight?: number;
+}
+
+export interface SphereSpec {
+  shape: 'sphere';
+  /** Sphere diameter, m. */
+  diameter: number;
+  /** Centre above the top of the winding, m (with a secondary). */
+  heightAboveWinding?: number;
+  /** Centre above the floor, m (topload alone). */
+  centerHeight?: number;
+}
+
+export type ToploadSpec = ToroidSpec | SphereSpec;
+
+export interface PrimarySpec {
+  shape: 'flat_spiral' | 'helix' | 'cone';
+  /** Diameter of the innermost ring, to the conductor's centre line, m. */
+  innerDiameter: number;
+  /** Number of rings available (may be fractional: the last ring is partial). */
+  turns: number;
+  /** Conductor (tube or wire) diameter, m. */
+  conductorDiameter: number;
+  /** Gap between neighbouring conductors, m; pitch = conductorDiameter + turnSpacing. */
+  turnSpacing: number;
+  /** Height of the innermost ring above the secondary's bottom turn, m. */
+  elevation: number;
+  /** Cone angle above the horizontal, rad (cone only). */
+  coneAngle?: number;
+  /** A fixed tap (turns from the inner end); when absent the tap is chosen to tune. */
+  tapTurns?: number;
+  /** Conductor material resistivity at 20 °C, Ω·m (copper tube by default). */
+  resistivity?: number;
+}
+
+export interface StrikeRailSpec {
+  /** Diameter of the grounded ring's centre line, m. */
+  diameter: number;
+  /** Conductor diameter, m. */
+  conductorDiameter: number;
+  /** Height above the secondary's bottom turn, m (same datum as the primary's elevation). */
+  elevation: number;
+}
+
+export interface TankSpec {
+  /** Tank (primary) capacitance, F. */
+  capacitance: number;
+  /** Voltage the capacitor is charged to before each shot (spark gap), V. */
+  chargeVoltage?: number;
+  /** DC voltage rating of the capacitor bank, V (optional check). */
+  voltageRating?: number;
+}
+
+export interface SparkGapDriver {
+  kind: 'spark_gap';
+  gap: 'static' | 'rotary';
+  /** Firings per second, Hz. */
+  breakRate: number;
+  /** Equivalent resistance of the conducting gap, Ω (common practice ≈ 1 Ω). */
+  gapResistance?: number;
+  /** Whether the gap quenches at the first primary current zero after the first transfer. */
+  quench: boolean;
+}
+
+export interface SolidStateDriver {
+  kind: 'solid_state';
+  bridge: 'full' | 'half';
+  /** DC bus voltage, V. */
+  busVoltage: number;
+  /** Primary peak current limit, A. */
+  currentLimit?: number;
+  /** Length of one burst, s. */
+  onTime?: number;
+  /** Length of one burst in drive cycles (alternative to onTime). */
+  cycles?: number;
+  /** Bursts per second, Hz. */
+  repetitionRate: number;
+}
+
+export type DriverSpec = SparkGapDriver | SolidStateDriver;
+
+export interface EnvironmentSpec {
+  /** Altitude above sea level, m (standard atmosphere for the air density). */
+  altitude: number;
+  /** Air temperature, K. */
+  temperature: number;
+  /** Peek's surface (irregularity) factor m, 1 for polished. */
+  surfaceFactor?: number;
+  /** Streamer length assumed for loading the topload, m (0: unloaded). */
+  streamerLength?: number;
+}
+
+export interface Design {
+  secondary?: SecondarySpec;
+  topload?: ToploadSpec;
+  primary?: PrimarySpec;
+  strikeRail?: StrikeRailSpec;
+  tank?: TankSpec;
+  driver?: DriverSpec;
+  environment: EnvironmentSpec;
+}
+
+/** Standard environment when a design gives none: sea level, 20 °C, polished terminal. */
+export const DEFAULT_ENVIRONMENT: EnvironmentSpec = {
+  altitude: 0,
+  temperature: 293.15,
+  surfaceFactor: 1,
+  streamerLength: 0,
+};

@@ -1,0 +1,41 @@
+/**
+ * One evaluation of one design: the physics core's single entry point.
+ *
+ * Pure: a function of the SI design alone, no I/O, no globals. The stages run in the order in which
+ * their results are needed: the secondary's geometry and inductance, the electrostatic solve
+ * (capacitances, fields, breakout), the primary and its tuning (which needs the total capacitance),
+ * then the dynamics of the coupled circuit and the outcome metrics with their warnings.
+ */
+import type { Design } from './design.ts';
+import { emptyMetrics, type Metrics } from './metrics.ts';
+import type { DesignProblem, EvalContext } from './context.ts';
+import { secondaryStage } from './stages/secondary-stage.ts';
+import { electrostaticsStage } from './stages/electrostatics-stage.ts';
+import { primaryStage } from './stages/primary-stage.ts';
+import { dynamicsStage } from './stages/dynamics-stage.ts';
+import { outcomeStage } from './stages/outcome-stage.ts';
+
+export interface Evaluation {
+  metrics: Metrics;
+  warnings: string[];
+  /** Empty for a buildable design; otherwise why it cannot be built (infeasible). */
+  problems: DesignProblem[];
+}
+
+const STAGES: ReadonlyArray<(context: EvalContext) => void> = [
+  secondaryStage,
+  electrostaticsStage,
+  primaryStage,
+  dynamicsStage,
+  outcomeStage,
+];
+
+/** Evaluates one design through every stage of the physics core. */
+export function evaluateDesign(design: Design): Evaluation {
+  const context: EvalContext = { design, metrics: emptyMetrics(), warnings: [], problems: [] };
+  for (const stage of STAGES) {
+    stage(context);
+    if (context.problems.length > 0) break;
+  }
+  return { metrics: context.metrics, warnings: context.warnings, problems: context.problems };
+}

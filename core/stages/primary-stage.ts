@@ -1,0 +1,6 @@
+/** Stage of the evaluation pipeline (see core/evaluate.ts): primary. */
+import type { EvalContext } from '../context.ts';
+
+export function primaryStage(context: EvalContext): void {
+  void context; // filled in by the primary work
+}
