@@ -148,10 +148,9 @@ export interface Design {
   environment: EnvironmentSpec;
 }
 
-/** Standard environment when a design gives none: sea level, 20 °C, polished terminal. */
+/** Standard environment when a design gives none: sea level, 20 °C (the stages choose their own
+ * defaults for the surface factor and the streamer length when those are absent). */
 export const DEFAULT_ENVIRONMENT: EnvironmentSpec = {
   altitude: 0,
   temperature: 293.15,
-  surfaceFactor: 1,
-  streamerLength: 0,
 };
