@@ -1,0 +1,248 @@
+/**
+ * The design file's vocabulary: every section and field, its kind of quantity, its limits, its
+ * default and its meaning. This table is the single source from which the zod schemas of design and
+ * sweep files (cli/design-schema.ts), the JSON Schema (`coilfront schema`) and the README's
+ * reference are made, so a field is described once.
+ */
+import type { QuantityKind } from './units.ts';
+
+export type FieldSpec =
+  | {
+      type: 'quantity';
+      kind: QuantityKind;
+      /** 'positive' > 0, 'nonnegative' ≥ 0, 'fraction' in (0, 1], 'any'. */
+      range: 'positive' | 'nonnegative' | 'fraction' | 'any';
+      integer?: boolean;
+      optional?: boolean;
+      default?: number;
+      description: string;
+    }
+  | { type: 'enum'; values: readonly string[]; optional?: boolean; default?: string; description: string }
+  | { type: 'boolean'; optional?: boolean; default?: boolean; description: string }
+  | { type: 'wire'; optional?: boolean; description: string };
+
+export interface SectionSpec {
+  description: string;
+  optional: boolean;
+  fields: Record<string, FieldSpec>;
+  /** Sections with several forms (topload shape, driver kind): the key and the form's own fields. */
+  variants?: { key: string; forms: Record<string, Record<string, FieldSpec>> };
+}
+
+const length = (description: string, extra: Partial<FieldSpec & { type: 'quantity' }> = {}): FieldSpec => ({
+  type: 'quantity',
+  kind: 'length',
+  range: 'positive',
+  description,
+  ...extra,
+});
+
+export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
+  secondary: {
+    description: 'the tall single-layer secondary winding',
+    optional: true,
+    fields: {
+      form_diameter: length('outside diameter of the coil form'),
+      wire: { type: 'wire', description: "wire size: 'AWG n' (ASTM B258) or a bare copper diameter such as '0.6 mm'" },
+      insulation: {
+        type: 'enum',
+        values: ['grade_1', 'grade_2', 'grade_3', 'none'],
+        optional: true,
+        default: 'grade_2',
+        description: 'enamel build grade of IEC 60317-0-1 (grade_2 ≈ heavy build), or none for bare wire',
+      },
+      wire_overall_diameter: length('measured insulated wire diameter; overrides the grade', { optional: true }),
+      turns: {
+        type: 'quantity',
+        kind: 'dimensionless',
+        range: 'positive',
+        optional: true,
+        description: 'number of turns (give turns or winding_length)',
+      },
+      winding_length: length('axial length of the winding (give turns or winding_length)', { optional: true }),
+      pitch: length('axial distance between turn centres; close-wound (the insulated diameter) when absent', {
+        optional: true,
+      }),
+      base_height: length('bottom of the winding above the floor', { range: 'nonnegative', optional: true, default: 0 }),
+      voltage_profile: {
+        type: 'enum',
+        values: ['linear', 'quarter_wave'],
+        optional: true,
+        default: 'linear',
+        description: 'voltage distribution along the winding used by the field solve',
+      },
+    },
+  },
+  topload: {
+    description: 'the top terminal',
+    optional: true,
+    fields: {
+      height_above_winding: length('mid-plane (sphere: centre) above the top of the winding', {
+        range: 'any',
+        optional: true,
+      }),
+      center_height: length('mid-plane (sphere: centre) above the floor, for a topload without a secondary', {
+        optional: true,
+      }),
+    },
+    variants: {
+      key: 'shape',
+      forms: {
+        toroid: {
+          outer_diameter: length('overall outside diameter of the toroid'),
+          tube_diameter: length('diameter of the tube (minor diameter)'),
+        },
+        sphere: { diameter: length('diameter of the sphere') },
+      },
+    },
+  },
+  primary: {
+    description: 'the primary winding, modelled as coaxial rings',
+    optional: true,
+    fields: {
+      inner_diameter: length("diameter of the innermost ring, to the conductor's centre line"),
+      turns: { type: 'quantity', kind: 'dimensionless', range: 'positive', description: 'number of rings (a fraction makes the last ring partial)' },
+      conductor_diameter: length('diameter of the conductor (tube or wire)'),
+      turn_spacing: length('gap between neighbouring conductors; pitch = conductor diameter + spacing', {
+        range: 'nonnegative',
+      }),
+      elevation: length("height of the innermost ring above the secondary's bottom turn", {
+        range: 'any',
+        optional: true,
+        default: 0,
+      }),
+      tap_turns: {
+        type: 'quantity',
+        kind: 'dimensionless',
+        range: 'positive',
+        optional: true,
+        description: 'fixed tap, turns from the inner end; chosen to tune the tank to the secondary when absent',
+      },
+    },
+    variants: {
+      key: 'shape',
+      forms: {
+        flat_spiral: {},
+        helix: {},
+        cone: {
+          cone_angle: {
+            type: 'quantity',
+            kind: 'angle',
+            range: 'positive',
+            description: 'rise of the cone above the horizontal',
+          },
+        },
+      },
+    },
+  },
+  strike_rail: {
+    description: 'a grounded ring above the primary that catches strikes',
+    optional: true,
+    fields: {
+      diameter: length("diameter of the ring's centre line"),
+      conductor_diameter: length('diameter of the rail conductor'),
+      elevation: length("height above the secondary's bottom turn", { range: 'any', optional: true, default: 0 }),
+    },
+  },
+  tank: {
+    description: 'the tank capacitor',
+    optional: true,
+    fields: {
+      capacitance: { type: 'quantity', kind: 'capacitance', range: 'positive', description: 'tank capacitance' },
+      charge_voltage: {
+        type: 'quantity',
+        kind: 'voltage',
+        range: 'positive',
+        optional: true,
+        description: 'voltage the capacitor is charged to before each shot (spark-gap driver)',
+      },
+      voltage_rating: {
+        type: 'quantity',
+        kind: 'voltage',
+        range: 'positive',
+        optional: true,
+        description: 'DC rating of the capacitor bank, for the rating check',
+      },
+    },
+  },
+  driver: {
+    description: 'what drives the primary',
+    optional: true,
+    fields: {},
+    variants: {
+      key: 'kind',
+      forms: {
+        spark_gap: {
+          gap: { type: 'enum', values: ['static', 'rotary'], optional: true, default: 'static', description: 'kind of gap' },
+          break_rate: { type: 'quantity', kind: 'frequency', range: 'positive', description: 'firings per second' },
+          gap_resistance: {
+            type: 'quantity',
+            kind: 'resistance',
+            range: 'nonnegative',
+            optional: true,
+            description: 'equivalent resistance of the conducting gap (common practice about 1 ohm)',
+          },
+          quench: {
+            type: 'boolean',
+            optional: true,
+            default: true,
+            description: 'the gap opens at the first primary current zero after the first energy transfer',
+          },
+        },
+        solid_state: {
+          bridge: { type: 'enum', values: ['full', 'half'], optional: true, default: 'full', description: 'bridge topology' },
+          bus_voltage: { type: 'quantity', kind: 'voltage', range: 'positive', description: 'DC bus voltage' },
+          current_limit: {
+            type: 'quantity',
+            kind: 'current',
+            range: 'positive',
+            optional: true,
+            description: 'primary peak current at which the burst is cut short',
+          },
+          on_time: { type: 'quantity', kind: 'time', range: 'positive', optional: true, description: 'length of one burst' },
+          cycles: {
+            type: 'quantity',
+            kind: 'dimensionless',
+            range: 'positive',
+            integer: true,
+            optional: true,
+            description: 'length of one burst in drive cycles (instead of on_time)',
+          },
+          repetition_rate: { type: 'quantity', kind: 'frequency', range: 'positive', description: 'bursts per second' },
+        },
+      },
+    },
+  },
+  environment: {
+    description: 'the air around the coil',
+    optional: true,
+    fields: {
+      altitude: length('altitude above sea level (standard atmosphere)', { range: 'any', optional: true, default: 0 }),
+      temperature: {
+        type: 'quantity',
+        kind: 'temperature',
+        range: 'positive',
+        optional: true,
+        default: 293.15,
+        description: 'air temperature',
+      },
+      surface_factor: {
+        type: 'quantity',
+        kind: 'dimensionless',
+        range: 'fraction',
+        optional: true,
+        description: "Peek's surface factor of the topload, 1 for polished (default: see the physics notes)",
+      },
+      streamer_length: length('streamer length assumed for loading the topload; estimated from power when absent', {
+        range: 'nonnegative',
+        optional: true,
+      }),
+    },
+  },
+};
+
+/** The fields of a section in a given form (variant), the variant key excluded. */
+export function sectionFields(section: SectionSpec, form: string | undefined): Record<string, FieldSpec> {
+  if (!section.variants || form === undefined) return section.fields;
+  return { ...section.fields, ...(section.variants.forms[form] ?? {}) };
+}

@@ -1,0 +1,433 @@
+/**
+ * Reading the design tree of design files and sweep files, validated with zod leaf schemas made from
+ * the field table (cli/design-fields.ts).
+ *
+ * A design file's tree becomes a *normal tree*: the same sections and field names, every quantity an
+ * SI number, every wire a `WireValue`. In a sweep file any leaf may instead be a range (`{ from, to,
+ * integer, scale, step }`) or a set (`{ choose: [...] }`), and a whole section may be a set of
+ * sections (toroids on hand); those places become `Dimension`s of the design space, and the normal
+ * tree holds a `DimensionSlot` there, to be filled from a sample point.
+ */
+import * as z from 'zod';
+import { stringify as yamlStringify } from 'yaml';
+import { DESIGN_SECTIONS, sectionFields, type FieldSpec, type SectionSpec } from './design-fields.ts';
+import { describeValue, readQuantity, describeKind } from './units.ts';
+import type { InputIssue } from './input-error.ts';
+import { suggest } from './suggest.ts';
+
+/** A wire as written: a gauge or a bare diameter (SI). */
+export type WireValue = { awg: number } | { bareDiameter: number };
+
+export type LeafValue = number | string | boolean | WireValue;
+
+/** A section of the normal tree: field name → value (or a slot in a sweep). */
+export type NormalSection = Record<string, LeafValue | DimensionSlot>;
+
+/** The normal tree: section name → section (or a slot when a sweep chooses whole sections). */
+export type NormalTree = Record<string, NormalSection | DimensionSlot>;
+
+/** Marks where a sweep dimension's value goes. */
+export class DimensionSlot {
+  constructor(readonly dimension: number) {}
+}
+
+/** One dimension of a design space. */
+export type Dimension =
+  | {
+      kind: 'range';
+      /** Path in the file: ['secondary', 'turns']. */
+      path: string[];
+      field: FieldSpec & { type: 'quantity' };
+      from: number;
+      to: number;
+      scale: 'linear' | 'log';
+      integer: boolean;
+      step: number | null;
+    }
+  | {
+      kind: 'choose';
+      path: string[];
+      /** Normal values (leaf values, or whole normal sections). */
+      values: Array<LeafValue | NormalSection>;
+      /** Short labels for CSV columns, as the user wrote each choice. */
+      labels: string[];
+    };
+
+type Mode = 'design' | 'sweep';
+
+interface WalkState {
+  mode: Mode;
+  issues: InputIssue[];
+  dimensions: Dimension[];
+}
+
+function isMapping(value: unknown): value is Record<string, unknown> {
+  return typeof value === 'object' && value !== null && !Array.isArray(value);
+}
+
+function unknownKeyMessage(key: string, known: string[]): string {
+  const guess = suggest(key, known);
+  return guess ? `unknown key '${key}' (did you mean '${guess}'?)` : `unknown key '${key}'; expected one of ${known.join(', ')}`;
+}
+
+// ---------------------------------------------------------------- leaf schemas (zod)
+
+const AWG_PATTERN = /^\s*(?:AWG\s*#?\s*(\d{1,2}|0{1,4}|[1-4]\/0)|#?\s*(\d{1,2}|0{1,4}|[1-4]\/0)\s*AWG)\s*$/i;
+
+/** The AWG number of '0000' (−3), '4/0' (−3), '00' (−1), '26' (26). */
+function awgNumber(text: string): number {
+  if (/^[1-4]\/0$/.test(text)) return 1 - Number(text[0]);
+  if (/^0+$/.test(text)) return 1 - text.length;
+  return Number(text);
+}
+
+function wireSchema() {
+  return z.unknown().transform((input, context): WireValue => {
+    if (typeof input === 'string') {
+      const gauge = AWG_PATTERN.exec(input);
+      if (gauge) {
+        const n = awgNumber(gauge[1] ?? gauge[2]!);
+        if (n < -3 || n > 44) {
+          context.addIssue({ code: 'custom', message: `unknown wire gauge '${input}': AWG runs from 0000 to 44` });
+          return z.NEVER;
+        }
+        return { awg: n };
+      }
+      if (/awg/i.test(input)) {
+        context.addIssue({ code: 'custom', message: `unknown wire gauge '${input}': write 'AWG 26' (0000 to 44)` });
+        return z.NEVER;
+      }
+    }
+    if (typeof input === 'number' && input >= 1e-2) {
+      context.addIssue({
+        code: 'custom',
+        message: `expected a wire: 'AWG n' or a bare diameter like '0.6 mm', got ${input} (a bare number is metres; did you mean 'AWG ${input}'?)`,
+      });
+      return z.NEVER;
+    }
+    const diameter = readQuantity(input, 'length');
+    if (!diameter.ok) {
+      context.addIssue({ code: 'custom', message: `expected a wire: 'AWG n' or a bare diameter like '0.6 mm', got ${describeValue(input)}` });
+      return z.NEVER;
+    }
+    if (!(diameter.value > 0)) {
+      context.addIssue({ code: 'custom', message: `expected a positive wire diameter, got ${describeValue(input)}` });
+      return z.NEVER;
+    }
+    if (diameter.value > 0.02) {
+      context.addIssue({ code: 'custom', message: `a wire diameter of ${describeValue(input)} is not a winding wire (above 20 mm)` });
+      return z.NEVER;
+    }
+    return { bareDiameter: diameter.value };
+  });
+}
+
+function rangePhrase(field: FieldSpec & { type: 'quantity' }): string {
+  const what = field.kind === 'dimensionless' ? (field.integer ? 'integer' : 'number') : describeKind(field.kind).replace(/^an? /, '');
+  switch (field.range) {
+    case 'positive':
+      return `a positive ${what}`;
+    case 'nonnegative':
+      return `a non-negative ${what}`;
+    case 'fraction':
+      return `a ${what} above 0 and at most 1`;
+    default:
+      return `${describeKind(field.kind)}`;
+  }
+}
+
+function quantitySchema(field: FieldSpec & { type: 'quantity' }) {
+  return z.unknown().transform((input, context): number => {
+    const result = readQuantity(input, field.kind);
+    if (!result.ok) {
+      context.addIssue({ code: 'custom', message: result.reason });
+      return z.NEVER;
+    }
+    const value = result.value;
+    const inRange =
+      field.range === 'positive'
+        ? value > 0
+        : field.range === 'nonnegative'
+          ? value >= 0
+          : field.range === 'fraction'
+            ? value > 0 && value <= 1
+            : true;
+    if (!inRange || (field.integer && !Number.isInteger(value))) {
+      context.addIssue({ code: 'custom', message: `expected ${field.integer ? rangePhrase(field).replace('number', 'integer') : rangePhrase(field)}, got ${describeValue(input)}` });
+      return z.NEVER;
+    }
+    return value;
+  });
+}
+
+const leafSchemaCache = new Map<FieldSpec, z.ZodType<LeafValue>>();
+
+/** The zod schema of one leaf of the design tree. */
+export function leafSchema(field: FieldSpec): z.ZodType<LeafValue> {
+  let schema = leafSchemaCache.get(field);
+  if (schema) return schema;
+  switch (field.type) {
+    case 'quantity':
+      schema = quantitySchema(field);
+      break;
+    case 'wire':
+      schema = wireSchema();
+      break;
+    case 'boolean':
+      schema = z.boolean({ error: (issue) => `expected true or false, got ${describeValue(issue.input)}` });
+      break;
+    case 'enum':
+      schema = z.unknown().transform((input, context): string => {
+        if (typeof input === 'string' && field.values.includes(input)) return input;
+        const guess = typeof input === 'string' ? suggest(input, [...field.values]) : null;
+        context.addIssue({
+          code: 'custom',
+          message: `expected one of ${field.values.join(', ')}, got ${describeValue(input)}${guess ? ` (did you mean '${guess}'?)` : ''}`,
+        });
+        return z.NEVER;
+      });
+      break;
+  }
+  leafSchemaCache.set(field, schema);
+  return schema;
+}
+
+function readLeaf(field: FieldSpec, input: unknown, path: Array<string | number>, issues: InputIssue[]): LeafValue | undefined {
+  const result = leafSchema(field).safeParse(input);
+  if (result.success) return result.data;
+  const issue = result.error.issues[0]!;
+  issues.push({ path: [...path, ...issue.path.map((p) => (typeof p === 'symbol' ? String(p) : p))], message: issue.message });
+  return undefined;
+}
+
+// ---------------------------------------------------------------- sweep leaves: ranges and sets
+
+const RANGE_KEYS = ['from', 'to', 'integer', 'scale', 'step'];
+
+function readRange(field: FieldSpec, input: Record<string, unknown>, path: string[], state: WalkState): DimensionSlot | undefined {
+  const issues = state.issues;
+  if (field.type !== 'quantity') {
+    issues.push({ path, message: `a range needs a numeric field; use { choose: [...] } for ${field.type === 'wire' ? 'wire sizes' : 'this field'}` });
+    return undefined;
+  }
+  for (const key of Object.keys(input)) {
+    if (!RANGE_KEYS.includes(key)) {
+      issues.push({ path: [...path, key], message: unknownKeyMessage(key, RANGE_KEYS) });
+      return undefined;
+    }
+  }
+  for (const key of ['from', 'to']) {
+    if (!(key in input)) {
+      issues.push({ path, message: `a range needs both 'from' and 'to'; '${key}' is missing` });
+      return undefined;
+    }
+  }
+  const before = issues.length;
+  const from = readLeaf(field, input.from, [...path, 'from'], issues) as number | undefined;
+  const to = readLeaf(field, input.to, [...path, 'to'], issues) as number | undefined;
+  if (issues.length > before || from === undefined || to === undefined) return undefined;
+  if (!(from < to)) {
+    issues.push({
+      path,
+      message:
+        from === to
+          ? `'from' equals 'to' (${describeValue(input.from)}); give a fixed value instead of a range`
+          : `reversed range: 'from' (${describeValue(input.from)}) must be below 'to' (${describeValue(input.to)})`,
+    });
+    return undefined;
+  }
+  let integer = false;
+  if (input.integer !== undefined) {
+    if (typeof input.integer !== 'boolean') {
+      issues.push({ path: [...path, 'integer'], message: `expected true or false, got ${describeValue(input.integer)}` });
+      return undefined;
+    }
+    integer = input.integer;
+  }
+  let scale: 'linear' | 'log' = 'linear';
+  if (input.scale !== undefined) {
+    if (input.scale !== 'linear' && input.scale !== 'log') {
+      issues.push({ path: [...path, 'scale'], message: `expected linear or log, got ${describeValue(input.scale)}` });
+      return undefined;
+    }
+    scale = input.scale;
+  }
+  if (scale === 'log' && !(from > 0)) {
+    issues.push({ path: [...path, 'from'], message: `a log-scale range needs a positive 'from', got ${describeValue(input.from)}` });
+    return undefined;
+  }
+  let step: number | null = null;
+  if (input.step !== undefined) {
+    const stepField: FieldSpec = { ...field, range: 'positive', integer: false };
+    const value = readLeaf(stepField, input.step, [...path, 'step'], issues) as number | undefined;
+    if (value === undefined) return undefined;
+    if (scale === 'log') {
+      issues.push({ path: [...path, 'step'], message: `'step' cannot be combined with scale: log` });
+      return undefined;
+    }
+    step = value;
+  }
+  if (integer && Math.floor(to) < Math.ceil(from)) {
+    issues.push({ path, message: `no integer lies between ${from} and ${to}` });
+    return undefined;
+  }
+  state.dimensions.push({ kind: 'range', path, field, from, to, scale, integer: integer || (field.integer ?? false), step });
+  return new DimensionSlot(state.dimensions.length - 1);
+}
+
+function labelOf(input: unknown): string {
+  if (typeof input === 'string' || typeof input === 'number' || typeof input === 'boolean') return String(input);
+  return yamlStringify(input, { collectionStyle: 'flow' }).trim();
+}
+
+function readChoose(
+  input: Record<string, unknown>,
+  path: string[],
+  state: WalkState,
+  readOne: (item: unknown, itemPath: Array<string | number>) => LeafValue | NormalSection | undefined,
+): DimensionSlot | undefined {
+  const keys = Object.keys(input);
+  if (keys.length !== 1) {
+    const extra = keys.find((k) => k !== 'choose')!;
+    state.issues.push({ path: [...path, extra], message: `a set takes only 'choose', got '${extra}' beside it` });
+    return undefined;
+  }
+  const items = input.choose;
+  if (!Array.isArray(items)) {
+    state.issues.push({ path: [...path, 'choose'], message: `expected a list of choices, got ${describeValue(items)}` });
+    return undefined;
+  }
+  if (items.length === 0) {
+    state.issues.push({ path: [...path, 'choose'], message: 'the set is empty; give at least one choice' });
+    return undefined;
+  }
+  const values: Array<LeafValue | NormalSection> = [];
+  for (let i = 0; i < items.length; i++) {
+    const value = readOne(items[i], [...path, 'choose', i]);
+    if (value === undefined) return undefined;
+    values.push(value);
+  }
+  state.dimensions.push({ kind: 'choose', path, values, labels: items.map(labelOf) });
+  return new DimensionSlot(state.dimensions.length - 1);
+}
+
+// ---------------------------------------------------------------- sections and the tree
+
+function readSection(
+  name: string,
+  section: SectionSpec,
+  input: unknown,
+  path: string[],
+  state: WalkState,
+): NormalSection | DimensionSlot | undefined {
+  if (state.mode === 'sweep' && isMapping(input) && 'choose' in input) {
+    return readChoose(input, path, state, (item, itemPath) =>
+      readSection(name, section, item, itemPath as string[], { ...state, mode: 'design' }) as NormalSection | undefined,
+    );
+  }
+  if (!isMapping(input)) {
+    state.issues.push({ path, message: `expected a mapping of ${name} fields, got ${describeValue(input)}` });
+    return undefined;
+  }
+  let form: string | undefined;
+  const output: NormalSection = {};
+  if (section.variants) {
+    const key = section.variants.key;
+    const forms = Object.keys(section.variants.forms);
+    const given = input[key];
+    if (given === undefined) {
+      state.issues.push({ path: [...path, key], message: `required: one of ${forms.join(', ')}` });
+      return undefined;
+    }
+    if (typeof given !== 'string' || !forms.includes(given)) {
+      const guess = typeof given === 'string' ? suggest(given, forms) : null;
+      state.issues.push({
+        path: [...path, key],
+        message: `expected one of ${forms.join(', ')}, got ${describeValue(given)}${guess ? ` (did you mean '${guess}'?)` : ''}`,
+      });
+      return undefined;
+    }
+    form = given;
+    output[key] = given;
+  }
+  const fields = sectionFields(section, form);
+  const known = [...(section.variants ? [section.variants.key] : []), ...Object.keys(fields)];
+  for (const key of Object.keys(input)) {
+    if (!known.includes(key)) {
+      const inOtherForm = section.variants
+        ? Object.entries(section.variants.forms).find(([, f]) => key in f)?.[0]
+        : undefined;
+      state.issues.push({
+        path: [...path, key],
+        message: inOtherForm
+          ? `'${key}' belongs to ${section.variants!.key} ${inOtherForm}, not ${form}`
+          : unknownKeyMessage(key, known),
+      });
+      return undefined;
+    }
+  }
+  for (const [key, field] of Object.entries(fields)) {
+    const value = input[key];
+    const fieldPath = [...path, key];
+    if (value === undefined || value === null) {
+      if (!field.optional) {
+        state.issues.push({ path: fieldPath, message: `required: ${field.description}` });
+        return undefined;
+      }
+      continue;
+    }
+    if (state.mode === 'sweep' && isMapping(value) && ('from' in value || 'to' in value || 'choose' in value)) {
+      const slot =
+        'choose' in value
+          ? readChoose(value, fieldPath, state, (item, itemPath) => readLeaf(field, item, itemPath, state.issues))
+          : readRange(field, value, fieldPath, state);
+      if (slot === undefined) return undefined;
+      output[key] = slot;
+      continue;
+    }
+    const leaf = readLeaf(field, value, fieldPath, state.issues);
+    if (leaf === undefined) return undefined;
+    output[key] = leaf;
+  }
+  return output;
+}
+
+/** What reading a design tree gives: the normal tree and (in sweeps) the dimensions of the space. */
+export interface TreeReading {
+  tree: NormalTree;
+  dimensions: Dimension[];
+  issues: InputIssue[];
+}
+
+/**
+ * Reads a design tree (the whole design file, or a sweep file's `design:`).
+ * @param input the parsed YAML/JSON value
+ * @param mode 'design' (fixed values only) or 'sweep' (ranges and sets allowed)
+ * @param basePath path prefix for messages (['design'] in sweep files)
+ */
+export function readDesignTree(input: unknown, mode: Mode, basePath: string[] = []): TreeReading {
+  const state: WalkState = { mode, issues: [], dimensions: [] };
+  const tree: NormalTree = {};
+  if (!isMapping(input)) {
+    state.issues.push({ path: basePath, message: `expected a mapping of sections (secondary, topload, primary, …), got ${describeValue(input)}` });
+    return { tree, dimensions: [], issues: state.issues };
+  }
+  const names = Object.keys(DESIGN_SECTIONS);
+  for (const key of Object.keys(input)) {
+    if (!names.includes(key)) {
+      state.issues.push({ path: [...basePath, key], message: unknownKeyMessage(key, names) });
+      return { tree, dimensions: [], issues: state.issues };
+    }
+  }
+  for (const [name, section] of Object.entries(DESIGN_SECTIONS)) {
+    const value = input[name];
+    if (value === undefined || value === null) continue;
+    const read = readSection(name, section, value, [...basePath, name], state);
+    if (read === undefined) break;
+    tree[name] = read;
+  }
+  if (state.issues.length === 0 && !('secondary' in tree) && !('topload' in tree)) {
+    state.issues.push({ path: basePath, message: 'a design needs a secondary, a topload, or both' });
+  }
+  return { tree, dimensions: state.dimensions, issues: state.issues };
+}

@@ -1,0 +1,75 @@
+/**
+ * Practical units for people: the unit each metric and each design field is shown in, in reports and
+ * in CSV column names (`resonant_frequency_kHz`, `wire_length_m`, `form_diameter_mm`). Values are
+ * SI everywhere else; this is the only place they are scaled.
+ */
+import type { DisplayUnit, QuantityKind } from './units.ts';
+
+const unit = (label: string, divisor: number): DisplayUnit => ({ label, divisor });
+
+/** Display unit of each metric (metrics not listed are shown in their SI unit). */
+export const METRIC_DISPLAY: Record<string, DisplayUnit> = {
+  winding_length: unit('mm', 1e-3),
+  wire_length: unit('m', 1),
+  wire_mass: unit('kg', 1),
+  secondary_dc_resistance: unit('ohm', 1),
+  secondary_ac_resistance: unit('ohm', 1),
+  secondary_inductance: unit('mH', 1e-3),
+  secondary_inductance_filament: unit('mH', 1e-3),
+  secondary_self_capacitance: unit('pF', 1e-12),
+  secondary_self_capacitance_medhurst: unit('pF', 1e-12),
+  topload_capacitance: unit('pF', 1e-12),
+  total_capacitance: unit('pF', 1e-12),
+  resonant_frequency: unit('kHz', 1e3),
+  loaded_resonant_frequency: unit('kHz', 1e3),
+  topload_field_per_volt: unit('per_m', 1),
+  topload_underside_field_per_volt: unit('per_m', 1),
+  winding_top_field_per_volt: unit('per_m', 1),
+  topload_onset_field: unit('kV_per_cm', 1e5),
+  breakout_voltage: unit('kV', 1e3),
+  primary_inductance: unit('uH', 1e-6),
+  primary_full_inductance: unit('uH', 1e-6),
+  primary_frequency: unit('kHz', 1e3),
+  mutual_inductance: unit('uH', 1e-6),
+  primary_outer_diameter: unit('mm', 1e-3),
+  primary_resistance: unit('ohm', 1),
+  mode_frequency_low: unit('kHz', 1e3),
+  mode_frequency_high: unit('kHz', 1e3),
+  transfer_time: unit('us', 1e-6),
+  energy_per_shot: unit('J', 1),
+  input_power: unit('W', 1),
+  peak_voltage: unit('kV', 1e3),
+  topload_peak_field: unit('kV_per_cm', 1e5),
+  axial_gradient: unit('kV_per_m', 1e3),
+  overall_height: unit('m', 1),
+  spark_length: unit('m', 1),
+};
+
+/** Display unit of each kind of design quantity. */
+export const KIND_DISPLAY: Record<QuantityKind, DisplayUnit> = {
+  length: unit('mm', 1e-3),
+  capacitance: unit('nF', 1e-9),
+  inductance: unit('uH', 1e-6),
+  voltage: unit('kV', 1e3),
+  current: unit('A', 1),
+  frequency: unit('Hz', 1),
+  power: unit('W', 1),
+  angle: unit('deg', Math.PI / 180),
+  temperature: unit('K', 1),
+  time: unit('us', 1e-6),
+  resistance: unit('ohm', 1),
+  dimensionless: unit('', 1),
+};
+
+/** Human spelling of a display label: 'kV_per_cm' → 'kV/cm', 'us' → 'µs', 'per_m' → '/m'. */
+export function humanUnit(label: string): string {
+  return label.replace(/^per_/, '/').replace(/_per_/g, '/').replace(/^us$/, 'µs').replace(/^uH$/, 'µH');
+}
+
+/** A number with a few significant digits for reports: 44.40, 0.1234, 1.235e+6. */
+export function formatNumber(value: number, digits = 4): string {
+  if (value === 0) return '0';
+  const magnitude = Math.abs(value);
+  if (magnitude >= 1e7 || magnitude < 1e-4) return value.toExponential(digits - 1);
+  return String(Number(value.toPrecision(digits)));
+}

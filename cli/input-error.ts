@@ -1,0 +1,40 @@
+/**
+ * Errors of input, built in one place so that every message has one format:
+ * `FILE: field.path: reason` on one line, exit code 2, never a stack trace.
+ */
+
+/** One problem found in an input file, with the path of the field in the file's own names. */
+export interface InputIssue {
+  path: ReadonlyArray<string | number>;
+  message: string;
+}
+
+/** Formats a field path the way a user writes it: `secondary.turns`, `design.primary.turns`, `objectives[1]`. */
+export function formatPath(path: ReadonlyArray<string | number>): string {
+  let text = '';
+  for (const part of path) {
+    if (typeof part === 'number') text += `[${part}]`;
+    else text += text === '' ? part : `.${part}`;
+  }
+  return text;
+}
+
+/** A problem with the user's input; the CLI prints `message` alone and exits with code 2. */
+export class InputError extends Error {
+  readonly exitCode = 2;
+  constructor(message: string) {
+    super(message);
+    this.name = 'InputError';
+  }
+}
+
+/** An InputError for a field of a file: `file: path: reason`. */
+export function fieldError(file: string, issue: InputIssue): InputError {
+  const where = formatPath(issue.path);
+  return new InputError(where === '' ? `${file}: ${issue.message}` : `${file}: ${where}: ${issue.message}`);
+}
+
+/** An InputError for a command-line option: `--option: reason`. */
+export function optionError(option: string, reason: string): InputError {
+  return new InputError(`${option}: ${reason}`);
+}

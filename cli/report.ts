@@ -1,0 +1,123 @@
+/**
+ * The readable report of one evaluation (`coilfront evaluate FILE`): grouped values with practical
+ * units, then the warnings, then the safety cautions.
+ */
+import { METRICS } from '../core/metrics.ts';
+import type { Evaluation } from '../core/evaluate.ts';
+import { METRIC_DISPLAY, formatNumber, humanUnit } from './display-units.ts';
+import { safetyBlock } from './safety.ts';
+
+interface Group {
+  title: string;
+  keys: string[];
+  note?: string;
+}
+
+const GROUPS: Group[] = [
+  {
+    title: 'Secondary',
+    keys: [
+      'secondary_turns',
+      'winding_length',
+      'winding_aspect_ratio',
+      'wire_length',
+      'wire_mass',
+      'secondary_dc_resistance',
+      'secondary_ac_resistance',
+      'secondary_inductance',
+      'secondary_inductance_filament',
+      'secondary_q',
+    ],
+  },
+  {
+    title: 'Capacitance, field and resonance',
+    keys: [
+      'secondary_self_capacitance',
+      'secondary_self_capacitance_medhurst',
+      'topload_capacitance',
+      'total_capacitance',
+      'resonant_frequency',
+      'loaded_resonant_frequency',
+      'topload_field_per_volt',
+      'topload_underside_field_per_volt',
+      'winding_top_field_per_volt',
+      'air_density_factor',
+      'topload_onset_field',
+      'breakout_voltage',
+    ],
+    note: "breakout voltage is a corona-onset estimate (Peek's law), not a guarantee of streamers",
+  },
+  {
+    title: 'Primary, coupling and tuning',
+    keys: [
+      'primary_full_inductance',
+      'primary_tap_turns',
+      'primary_inductance',
+      'primary_frequency',
+      'primary_outer_diameter',
+      'mutual_inductance',
+      'coupling',
+      'full_transfer_coupling',
+    ],
+  },
+  {
+    title: 'Energy transfer',
+    keys: [
+      'primary_resistance',
+      'mode_frequency_low',
+      'mode_frequency_high',
+      'transfer_time',
+      'energy_per_shot',
+      'input_power',
+      'peak_voltage',
+      'breakout_margin',
+      'topload_peak_field',
+      'axial_gradient',
+      'primary_strike_margin',
+      'tank_voltage_margin',
+    ],
+  },
+  {
+    title: 'Outcome',
+    keys: ['overall_height', 'spark_length'],
+    note: 'spark length: common practice rule of thumb from input power, not a physical model',
+  },
+];
+
+function line(key: string, value: number | null): string {
+  const info = METRICS.find((m) => m.key === key);
+  const label = info?.description ?? key;
+  const display = METRIC_DISPLAY[key];
+  let shown = 'n/a';
+  if (value !== null) {
+    const scaled = display ? value / display.divisor : value;
+    const unitText = display ? humanUnit(display.label) : info?.unit && info.unit !== 'count' ? info.unit : '';
+    shown = `${formatNumber(scaled)}${unitText ? ` ${unitText}` : ''}`;
+  }
+  return `  ${label.padEnd(74, ' ')} ${shown}`;
+}
+
+/** The report as text. */
+export function formatReport(file: string, evaluation: Evaluation): string {
+  const out: string[] = [`coilfront evaluation of ${file}`, ''];
+  const listed = new Set<string>();
+  for (const group of GROUPS) {
+    const present = group.keys.filter((key) => key in evaluation.metrics);
+    group.keys.forEach((key) => listed.add(key));
+    if (present.every((key) => evaluation.metrics[key] === null)) continue;
+    out.push(group.title);
+    for (const key of present) if (evaluation.metrics[key] !== null) out.push(line(key, evaluation.metrics[key]!));
+    if (group.note) out.push(`  (${group.note})`);
+    out.push('');
+  }
+  const others = Object.keys(evaluation.metrics).filter((key) => !listed.has(key) && evaluation.metrics[key] !== null);
+  if (others.length > 0) {
+    out.push('Other');
+    for (const key of others) out.push(line(key, evaluation.metrics[key]!));
+    out.push('');
+  }
+  out.push(evaluation.warnings.length > 0 ? 'Warnings' : 'Warnings: none');
+  for (const warning of evaluation.warnings) out.push(`  - ${warning}`);
+  out.push('', safetyBlock(), '');
+  return out.join('\n');
+}
