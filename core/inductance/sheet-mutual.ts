@@ -1,0 +1,96 @@
+/**
+ * Mutual inductance between a coaxial ring and a single-layer winding.
+ *
+ * Two functions: the plain sum over the winding's turns (the reference), and the same quantity
+ * with the winding as a uniform current sheet, integrated by Gauss–Legendre after a sinh change of
+ * variable. Turn centres sit at bottom + (j + ½) p, so the turn sum is the midpoint rule of the
+ * sheet integral; for an integrand that is analytic near the real axis the midpoint rule's error
+ * is only the Euler–Maclaurin end terms, of order (p/ℓ)², far below 10⁻⁴ for real windings.
+ */
+import { coaxialLoopMutualInductance } from './coaxial-loops.ts';
+import { gaussLegendreRule } from './gauss-legendre.ts';
+
+/** A single-layer winding seen as a coaxial current sheet, SI; z above the floor. */
+export interface WindingSheet {
+  /** Radius of the wire's centre line, m. */
+  radius: number;
+  /** Bottom of the winding (bottom edge of the first turn's pitch cell), m. */
+  bottomZ: number;
+  /** Top of the winding, m: bottomZ + turns × pitch. */
+  topZ: number;
+  /** Number of turns (may be fractional). */
+  turns: number;
+}
+
+/**
+ * Mutual inductance of a ring and a winding by summing Maxwell's formula over the turns, H.
+ * Turn j (from 0) sits at bottomZ + (j + ½) p with p = (topZ − bottomZ)/turns; a fractional last
+ * turn counts with its fraction as weight. Cost: ceil(N) Maxwell evaluations.
+ * @param ringRadius m
+ * @param ringZ height of the ring, m
+ * @param winding the winding
+ * Source: Maxwell (1873) §701, superposition.
+ */
+export function ringToTurnsMutualInductance(ringRadius: number, ringZ: number, winding: WindingSheet): number {
+  const pitch = (winding.topZ - winding.bottomZ) / winding.turns;
+  const count = Math.ceil(winding.turns - 1e-9);
+  let total = 0;
+  for (let j = 0; j < count; j++) {
+    const weight = Math.min(1, winding.turns - j);
+    const turnZ = winding.bottomZ + (j + 0.5) * pitch;
+    total += weight * coaxialLoopMutualInductance(ringRadius, winding.radius, turnZ - ringZ);
+  }
+  return total;
+}
+
+/** Gauss–Legendre points per panel; panels are at most PANEL_WIDTH wide in the sinh variable. */
+const POINTS_PER_PANEL = 12;
+const PANEL_WIDTH = 1.5;
+const PANEL_RULE = gaussLegendreRule(POINTS_PER_PANEL);
+
+/** ∫ M(r, a, ζ) dζ over ζ = h sinh u, u in [u1, u2] (u1 < u2), by composite Gauss–Legendre. */
+function integrateInSinhVariable(ringRadius: number, sheetRadius: number, scale: number, u1: number, u2: number): number {
+  const panels = Math.max(1, Math.ceil((u2 - u1) / PANEL_WIDTH));
+  const width = (u2 - u1) / panels;
+  let total = 0;
+  for (let panel = 0; panel < panels; panel++) {
+    const centre = u1 + (panel + 0.5) * width;
+    for (let i = 0; i < POINTS_PER_PANEL; i++) {
+      const u = centre + 0.5 * width * PANEL_RULE.nodes[i];
+      const zeta = scale * Math.sinh(u);
+      total += PANEL_RULE.weights[i] * 0.5 * width * scale * Math.cosh(u) * coaxialLoopMutualInductance(ringRadius, sheetRadius, zeta);
+    }
+  }
+  return total;
+}
+
+/**
+ * Mutual inductance of a ring and a winding modelled as a uniform current sheet of N/ℓ turns per
+ * metre over [bottomZ, topZ], H: M = (N/ℓ) ∫ M_Maxwell(r, a, z − z_ring) dz.
+ *
+ * The integrand peaks where the sheet passes the ring, with width of order |r − a|; the change of
+ * variable z − z_ring = h sinh u with h = max(|r − a|, 10⁻³ (r + a)) spreads that peak evenly, the
+ * interval is split at the ring's height, and each part is integrated with 12-point Gauss–Legendre
+ * panels of width ≤ 1.5 in u. Agrees with the turn sum to better than 10⁻⁶ for windings of
+ * hundreds of turns (tests), at a few dozen Maxwell evaluations instead of N.
+ * @param ringRadius m (> 0; a ring on the sheet itself, r = a, needs r ≠ a within the winding)
+ * @param ringZ height of the ring, m
+ * @param winding the winding
+ * Source: Maxwell (1873) §701 integrated over the current sheet; Gauss–Legendre per A&S §25.4.29.
+ */
+export function ringToSheetMutualInductance(ringRadius: number, ringZ: number, winding: WindingSheet): number {
+  const length = winding.topZ - winding.bottomZ;
+  if (!(length > 0) || !(winding.turns > 0)) return Number.NaN;
+  const scale = Math.max(Math.abs(ringRadius - winding.radius), 1e-3 * (ringRadius + winding.radius));
+  const u1 = Math.asinh((winding.bottomZ - ringZ) / scale);
+  const u2 = Math.asinh((winding.topZ - ringZ) / scale);
+  let integral: number;
+  if (u1 < 0 && u2 > 0) {
+    integral =
+      integrateInSinhVariable(ringRadius, winding.radius, scale, u1, 0) +
+      integrateInSinhVariable(ringRadius, winding.radius, scale, 0, u2);
+  } else {
+    integral = integrateInSinhVariable(ringRadius, winding.radius, scale, u1, u2);
+  }
+  return (winding.turns / length) * integral;
+}
