@@ -1,0 +1,104 @@
+/**
+ * Writing a whole file so that a crash at any instant leaves either the old file or the new one,
+ * never a mixture: write a temporary file in the same directory, fsync it, rename it over the
+ * target (atomic on POSIX file systems), then fsync the directory so the rename itself survives a
+ * power cut. Used for checkpoints, summaries and every output file of a run.
+ */
+import { open, rename, unlink } from 'node:fs/promises';
+import { basename, dirname, join, resolve } from 'node:path';
+import { toDiskError } from './disk-error.ts';
+import { nodeFileSystem, syncDirectorySync, writeAllSync, type DurableFileSystem } from './file-system.ts';
+
+/** Options of {@link writeFileAtomicSync} and {@link writeFileAtomic}. */
+export interface AtomicWriteOptions {
+  /** Permission bits of a newly created file; 0o644 unless given. */
+  mode?: number;
+  /** The file operations to use (tests put a failing disk here); node:fs unless given. */
+  fileSystem?: DurableFileSystem;
+}
+
+let temporaryCounter = 0;
+
+/**
+ * The temporary name for writing `path`: in the same directory (so the rename does not cross file
+ * systems), hidden, unique to this process and call, ending in `.tmp` so a leftover is recognisable.
+ */
+export function temporaryPathFor(path: string): string {
+  temporaryCounter = (temporaryCounter + 1) % Number.MAX_SAFE_INTEGER;
+  return join(dirname(path), `.${basename(path)}.${process.pid}-${temporaryCounter}.tmp`);
+}
+
+function toBytes(data: string | Uint8Array): Uint8Array {
+  return typeof data === 'string' ? Buffer.from(data, 'utf8') : data;
+}
+
+/**
+ * Replaces the file at `path` with `data` (a string is written as UTF-8) atomically and durably.
+ * On failure the previous file, if any, is untouched, the temporary file is removed, and a
+ * {@link DiskError} is thrown ("cannot write 'x': no space left on the device (ENOSPC)").
+ *
+ * @example writeFileAtomicSync('runs/night/checkpoint.json', JSON.stringify(state))
+ */
+export function writeFileAtomicSync(path: string, data: string | Uint8Array, options: AtomicWriteOptions = {}): void {
+  const fileSystem = options.fileSystem ?? nodeFileSystem;
+  const temporary = temporaryPathFor(path);
+  let fd: number | undefined;
+  try {
+    fd = fileSystem.openSync(temporary, 'wx', options.mode ?? 0o644);
+    writeAllSync(fileSystem, fd, toBytes(data));
+    fileSystem.fsyncSync(fd);
+    const closing = fd;
+    fd = undefined;
+    fileSystem.closeSync(closing);
+    fileSystem.renameSync(temporary, path);
+  } catch (error) {
+    if (fd !== undefined) {
+      try {
+        fileSystem.closeSync(fd);
+      } catch {
+        // already failing; the first error is the one to report
+      }
+    }
+    try {
+      fileSystem.unlinkSync(temporary);
+    } catch {
+      // it may never have been created
+    }
+    throw toDiskError(error, path, 'write');
+  }
+  try {
+    syncDirectorySync(fileSystem, dirname(resolve(path)));
+  } catch (error) {
+    throw toDiskError(error, dirname(resolve(path)), 'sync');
+  }
+}
+
+/**
+ * The asynchronous form of {@link writeFileAtomicSync}, with the same guarantees and errors
+ * (node:fs/promises underneath; the directory sync is the synchronous call, it is brief).
+ *
+ * @example await writeFileAtomic('runs/night/summary.json', text)
+ */
+export async function writeFileAtomic(path: string, data: string | Uint8Array, options: { mode?: number } = {}): Promise<void> {
+  const temporary = temporaryPathFor(path);
+  let created = false;
+  try {
+    const handle = await open(temporary, 'wx', options.mode ?? 0o644);
+    created = true;
+    try {
+      await handle.writeFile(toBytes(data));
+      await handle.sync();
+    } finally {
+      await handle.close();
+    }
+    await rename(temporary, path);
+  } catch (error) {
+    if (created) await unlink(temporary).catch(() => undefined);
+    throw toDiskError(error, path, 'write');
+  }
+  try {
+    syncDirectorySync(nodeFileSystem, dirname(resolve(path)));
+  } catch (error) {
+    throw toDiskError(error, dirname(resolve(path)), 'sync');
+  }
+}
