@@ -1,6 +1,134 @@
-/** Stage of the evaluation pipeline (see core/evaluate.ts): primary. */
-import type { EvalContext } from '../context.ts';
+/**
+ * Stage of the evaluation pipeline (see core/evaluate.ts): the primary's inductance, its tuning
+ * to the secondary, the mutual inductance and the coupling.
+ *
+ * Conventions (for the design-file reference):
+ * - Rings: ceil(turns) coaxial rings at the positions of primary/rings.ts; a fractional `turns`
+ *   makes the last ring partial. A ring counts with weight w (1 whole, the fraction for the ring a
+ *   tap lands on): L1(t) = Σ w_i w_j M_ij and M(t) = Σ w_i M_i, exact at whole turns and smooth
+ *   between them.
+ * - Ring self-inductance: current on the conductor's surface (the primary runs at RF),
+ *   μ0 r (ln(8r/ρ) − 2) with ρ the conductor's radius; mutuals by Maxwell at the centre lines.
+ * - Mutual inductance to the secondary: each ring against the winding as a uniform current sheet at
+ *   the wire's centre-line radius over [bottomZ, topZ].
+ * - Tap: `tapTurns` when given (0 < tap ≤ turns); otherwise, with a tank and the electrostatic
+ *   solution, the tap in [1, turns] with 1/(2π √(L1 C1)) = 1/(2π √(L2 C2)), C2 the total
+ *   capacitance at the top of the winding; if the target is out of reach the nearer end is used
+ *   and a warning says so. Without a tank or without the electrostatic solution: the whole primary,
+ *   and `primary_tap_turns` is null.
+ * - `primary_inductance`, `mutual_inductance`, `coupling`: of the primary as tapped.
+ *   `primary_outer_diameter`: twice the centre-line radius of the outermost ring.
+ * - Clearance: the innermost ring's inner edge (inner_diameter/2 − conductor radius) must lie
+ *   outside the winding's outer radius (form radius + insulated wire diameter), whatever its height.
+ */
+import type { EvalContext, PrimaryGeometry } from '../context.ts';
+import { primaryRings } from '../primary/rings.ts';
+import { primaryConductorLength, primaryInductanceAtTap, primaryInductanceTable } from '../primary/inductance.ts';
+import { lcResonantFrequency, tuneTap } from '../primary/tuning.ts';
+import { couplingCoefficient, ringMutualInductances, tappedMutualInductance } from '../coupling.ts';
+
+/** A length in millimetres for messages. */
+function mm(metres: number): string {
+  return `${Number((metres * 1e3).toPrecision(4))} mm`;
+}
+
+/** An inductance in microhenries for messages. */
+function microhenries(henries: number): string {
+  return `${Number((henries * 1e6).toPrecision(4))} µH`;
+}
 
 export function primaryStage(context: EvalContext): void {
-  void context; // filled in by the primary work
+  const spec = context.design.primary;
+  if (!spec) return;
+  const { metrics, problems, warnings, design } = context;
+  const secondary = context.secondary;
+  const conductorRadius = spec.conductorDiameter / 2;
+  if (!(spec.turns >= 1)) {
+    problems.push({ field: 'primary.turns', reason: `the primary needs at least one turn, got ${spec.turns}` });
+    return;
+  }
+  if (!(spec.conductorDiameter > 0)) {
+    problems.push({ field: 'primary.conductor_diameter', reason: `the conductor diameter must be positive, got ${mm(spec.conductorDiameter)}` });
+    return;
+  }
+  if (!(spec.turnSpacing >= 0)) {
+    problems.push({ field: 'primary.turn_spacing', reason: `neighbouring turns would overlap: turn spacing ${mm(spec.turnSpacing)}` });
+    return;
+  }
+  if (!(spec.innerDiameter / 2 > conductorRadius)) {
+    problems.push({
+      field: 'primary.inner_diameter',
+      reason: `the innermost ring (${mm(spec.innerDiameter)}) is no wider than its conductor (${mm(spec.conductorDiameter)})`,
+    });
+    return;
+  }
+  if (secondary) {
+    const windingOuterRadius = secondary.radius + secondary.overallDiameter / 2;
+    const innerEdge = spec.innerDiameter / 2 - conductorRadius;
+    if (innerEdge <= windingOuterRadius) {
+      problems.push({
+        field: 'primary.inner_diameter',
+        reason: `the innermost ring's inner edge (radius ${mm(innerEdge)}) touches or lies inside the secondary winding (outer radius ${mm(windingOuterRadius)})`,
+      });
+      return;
+    }
+  }
+  if (spec.tapTurns !== undefined && !(spec.tapTurns > 0 && spec.tapTurns <= spec.turns)) {
+    problems.push({ field: 'primary.tap_turns', reason: `the tap (${spec.tapTurns} turns) must lie within the primary's ${spec.turns} turns` });
+    return;
+  }
+
+  const rings = primaryRings(spec, secondary?.bottomZ ?? 0);
+  const table = primaryInductanceTable(rings, conductorRadius);
+  const fullInductance = primaryInductanceAtTap(table, spec.turns);
+  const tankCapacitance = design.tank?.capacitance;
+  const totalCapacitance = context.electrostatics?.totalCapacitance;
+
+  let tapTurns = spec.turns;
+  let reportedTap: number | null = null;
+  if (spec.tapTurns !== undefined) {
+    tapTurns = spec.tapTurns;
+    reportedTap = tapTurns;
+  } else if (secondary && tankCapacitance !== undefined && totalCapacitance !== undefined && totalCapacitance > 0) {
+    const tuning = tuneTap(table, secondary.inductance, totalCapacitance, tankCapacitance, spec.turns);
+    tapTurns = tuning.tapTurns;
+    reportedTap = tapTurns;
+    if (tuning.status !== 'tuned') {
+      const lowest = primaryInductanceAtTap(table, Math.min(1, spec.turns));
+      warnings.push(
+        `the primary cannot be tuned: needs ${microhenries(tuning.requiredInductance)}, has ${microhenries(lowest)}–${microhenries(fullInductance)}`,
+      );
+    }
+  }
+  const inductance = primaryInductanceAtTap(table, tapTurns);
+
+  let mutual: number | null = null;
+  if (secondary) {
+    const ringMutuals = ringMutualInductances(rings, {
+      radius: secondary.radius,
+      bottomZ: secondary.bottomZ,
+      topZ: secondary.topZ,
+      turns: secondary.turns,
+    });
+    mutual = tappedMutualInductance(ringMutuals, tapTurns);
+    metrics.mutual_inductance = mutual;
+    metrics.coupling = couplingCoefficient(mutual, inductance, secondary.inductance);
+  }
+  let outerRadius = 0;
+  for (const ring of rings) outerRadius = Math.max(outerRadius, ring.r);
+
+  const geometry: PrimaryGeometry = {
+    rings,
+    conductorRadius,
+    tapTurns,
+    inductance,
+    mutual,
+    conductorLength: primaryConductorLength(rings, tapTurns),
+  };
+  context.primary = geometry;
+  metrics.primary_inductance = inductance;
+  metrics.primary_tap_turns = reportedTap;
+  metrics.primary_full_inductance = fullInductance;
+  metrics.primary_frequency = tankCapacitance !== undefined ? lcResonantFrequency(inductance, tankCapacitance) : null;
+  metrics.primary_outer_diameter = 2 * outerRadius;
 }
