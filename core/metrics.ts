@@ -51,7 +51,7 @@ export const METRICS: readonly MetricInfo[] = [
   metric('coupling', '', 'coupling coefficient k = M / sqrt(L1 L2)'),
   metric('primary_outer_diameter', 'm', 'diameter of the outermost primary ring'),
   // --- losses and dynamics ---
-  metric('primary_resistance', 'ohm', 'AC resistance of the tapped primary conductor at the operating frequency'),
+  metric('primary_resistance', 'ohm', "series resistance of the primary loop as simulated: the tapped conductor's AC resistance at the tank frequency plus, for a spark gap, the gap's equivalent resistance while conducting (primary_conductor_resistance + gap_resistance)"),
   metric('secondary_q', '', 'quality factor of the loaded secondary, 2πfL/R'),
   metric('mode_frequency_low', 'Hz', 'lower normal-mode frequency of the coupled circuit'),
   metric('mode_frequency_high', 'Hz', 'upper normal-mode frequency of the coupled circuit'),
@@ -68,6 +68,9 @@ export const METRICS: readonly MetricInfo[] = [
   // --- outcome ---
   metric('overall_height', 'm', 'highest point of the topload (or winding) above the floor'),
   metric('spark_length', 'm', 'spark length estimate from input power (common practice, rule of thumb)'),
+  // --- appended: the parts of primary_resistance ---
+  metric('primary_conductor_resistance', 'ohm', 'AC resistance (skin effect) of the tapped primary conductor at the tank frequency'),
+  metric('gap_resistance', 'ohm', "spark gap's equivalent resistance while conducting (included in primary_resistance; common practice 1 ohm unless given)"),
 ];
 
 export const METRIC_KEYS: readonly string[] = METRICS.map((m) => m.key);
