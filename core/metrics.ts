@@ -71,6 +71,8 @@ export const METRICS: readonly MetricInfo[] = [
   // --- appended: the parts of primary_resistance ---
   metric('primary_conductor_resistance', 'ohm', 'AC resistance (skin effect) of the tapped primary conductor at the tank frequency'),
   metric('gap_resistance', 'ohm', "spark gap's equivalent resistance while conducting (included in primary_resistance; common practice 1 ohm unless given)"),
+  // --- appended: electrostatics ---
+  metric('topload_peak_field_angle', 'rad', 'where the topload peak field sits: angle around the tube (toroid) or elevation (sphere) from the outer equator, positive upward'),
 ];
 
 export const METRIC_KEYS: readonly string[] = METRICS.map((m) => m.key);
