@@ -1,0 +1,154 @@
+/**
+ * Assembly of the collocation matrix of the axisymmetric boundary-element model.
+ *
+ * Entry (i, j) is the potential at the collocation point of element i due to unit surface charge
+ * density on panel j (unit line charge on a thin ring), with the floor z = 0 represented by the
+ * image of every element (charge −σ at z → −z): the ring potential (Smythe; see ring-kernel.ts)
+ *   a_ij = (1/(π ε0)) ∫_j r′ K(m)/d₊ ds′  −  (same with z′ → −z′).
+ * Quadrature (documented rule, checked in the tests against refined assembly):
+ *   distance to the panel midpoint ≥ 4 × panel length: 2-point Gauss–Legendre;
+ *   ≥ 1.5 ×: 4-point; nearer: the panel is bisected recursively (near-singular neighbours);
+ *   the panel's own collocation point: the logarithmic singularity of K is subtracted in closed
+ *   form, K = P(m1) + Q(m1) ln(1/m1) with Q(0) = ½ (A&S 17.3.34), and the smooth remainder
+ *   integrated by 8-point Gauss–Legendre on each half of the panel.
+ * A thin ring's own entry is the ring potential on its wire surface (distance = wire radius from
+ * the centre line), the thin-wire approximation (accurate to O(wire radius / ring radius)).
+ */
+import { ellipticKLogPart, ellipticKSmoothPart } from './elliptic-polynomial.ts';
+import { GAUSS4_NODES, GAUSS4_WEIGHTS, GAUSS8_NODES, GAUSS8_WEIGHTS } from './gauss-legendre.ts';
+import { PANEL_THIN_RING, panelPoint, type PanelLayout } from './panels.ts';
+import { VACUUM_PERMITTIVITY } from './ring-kernel.ts';
+
+/** Distance/length ratio at and beyond which a panel is integrated with 2 points. */
+export const FAR_RATIO = 4;
+/** Distance/length ratio at and beyond which 4 points suffice; nearer panels are bisected. */
+export const NEAR_RATIO = 1.5;
+const MAX_BISECTION_DEPTH = 14;
+
+/**
+ * K(m)/d₊ for a ring through (sourceR, sourceZ) seen from (r, z), m1 = d₋²/d₊² (A&S 17.3.34).
+ * Units 1/m.
+ */
+function ringKernel(r: number, z: number, sourceR: number, sourceZ: number): number {
+  const dz = z - sourceZ;
+  const sum = r + sourceR;
+  const difference = r - sourceR;
+  const plus2 = sum * sum + dz * dz;
+  const m1 = (difference * difference + dz * dz) / plus2;
+  const k =
+    1.38629436112 + m1 * (0.09666344259 + m1 * (0.03590092383 + m1 * (0.03742563713 + m1 * 0.01451196212))) -
+    (0.5 + m1 * (0.12498593597 + m1 * (0.06880248576 + m1 * (0.03328355346 + m1 * 0.00441787012)))) * Math.log(m1);
+  return k / Math.sqrt(plus2);
+}
+
+const scratchPoint = new Float64Array(2);
+
+/** ∫ r′K/d₊ ds′ over the parameter interval [ta, tb] of panel j, adaptive by distance. */
+function integrateAdaptive(layout: PanelLayout, j: number, ta: number, tb: number, r: number, z: number, depth: number): number {
+  const halfSpan = 0.5 * (tb - ta);
+  const centre = 0.5 * (ta + tb);
+  const pieceLength = layout.length[j] * halfSpan;
+  panelPoint(layout, j, centre, scratchPoint);
+  const dr = r - scratchPoint[0];
+  const dz = z - scratchPoint[1];
+  const distance2 = dr * dr + dz * dz;
+  if (distance2 >= NEAR_RATIO * NEAR_RATIO * pieceLength * pieceLength || depth >= MAX_BISECTION_DEPTH) {
+    // 4-point Gauss on the piece; ds/dt = length/2 on the whole panel.
+    let sum = 0;
+    const jacobian = 0.5 * layout.length[j] * halfSpan;
+    for (let q = 0; q < 4; q++) {
+      panelPoint(layout, j, centre + halfSpan * GAUSS4_NODES[q], scratchPoint);
+      sum += GAUSS4_WEIGHTS[q] * jacobian * scratchPoint[0] * ringKernel(r, z, scratchPoint[0], scratchPoint[1]);
+    }
+    return sum;
+  }
+  return (
+    integrateAdaptive(layout, j, ta, centre, r, z, depth + 1) + integrateAdaptive(layout, j, centre, tb, r, z, depth + 1)
+  );
+}
+
+/** ∫ r′K/d₊ ds′ over panel j seen from (r, z) ≠ its own midpoint. */
+export function panelIntegral(layout: PanelLayout, j: number, r: number, z: number): number {
+  if (layout.kind[j] === PANEL_THIN_RING) return layout.midR[j] * ringKernel(r, z, layout.midR[j], layout.midZ[j]);
+  const dr = r - layout.midR[j];
+  const dz = z - layout.midZ[j];
+  const distance2 = dr * dr + dz * dz;
+  const length = layout.length[j];
+  if (distance2 >= FAR_RATIO * FAR_RATIO * length * length) {
+    const o = 2 * j;
+    return (
+      layout.gauss2W[o] * ringKernel(r, z, layout.gauss2R[o], layout.gauss2Z[o]) +
+      layout.gauss2W[o + 1] * ringKernel(r, z, layout.gauss2R[o + 1], layout.gauss2Z[o + 1])
+    );
+  }
+  if (distance2 >= NEAR_RATIO * NEAR_RATIO * length * length) {
+    const o = 4 * j;
+    let sum = 0;
+    for (let q = 0; q < 4; q++) sum += layout.gauss4W[o + q] * ringKernel(r, z, layout.gauss4R[o + q], layout.gauss4Z[o + q]);
+    return sum;
+  }
+  return integrateAdaptive(layout, j, -1, 1, r, z, 0);
+}
+
+/**
+ * ∫ r′K/d₊ ds′ over panel j seen from its own midpoint, with the log singularity subtracted:
+ * K/d₊·r′ = r′/d₊ [P + Q ln(s²/m1)] − g(s) ln s², g = Q r′/d₊, g(0) = ¼, and
+ * ∫ ln s² ds over [−h/2, h/2] = 2h(ln(h/2) − 1) in closed form.
+ */
+export function panelSelfIntegral(layout: PanelLayout, j: number): number {
+  if (layout.kind[j] === PANEL_THIN_RING) {
+    const ringR = layout.midR[j];
+    return ringR * ringKernel(ringR, layout.midZ[j] + layout.geometry[5 * j + 2], ringR, layout.midZ[j]);
+  }
+  const r0 = layout.midR[j];
+  const z0 = layout.midZ[j];
+  const length = layout.length[j];
+  const half = 0.5 * length;
+  const g0 = 0.25;
+  let sum = 0;
+  for (let side = -1; side <= 1; side += 2) {
+    for (let q = 0; q < 8; q++) {
+      const t = side * 0.5 * (1 + GAUSS8_NODES[q]); // in (−1, 0) or (0, 1)
+      panelPoint(layout, j, t, scratchPoint);
+      const sourceR = scratchPoint[0];
+      const dz = z0 - scratchPoint[1];
+      const sum2 = (r0 + sourceR) ** 2 + dz * dz;
+      const minus2 = (r0 - sourceR) ** 2 + dz * dz;
+      const m1 = minus2 / sum2;
+      const plus = Math.sqrt(sum2);
+      const s = t * half;
+      const s2 = s * s;
+      const logPart = ellipticKLogPart(m1);
+      const regular = (sourceR / plus) * (ellipticKSmoothPart(m1) + logPart * Math.log((s2 * sum2) / minus2));
+      const g = (logPart * sourceR) / plus;
+      const remainder = -(g - g0) * Math.log(s2);
+      // Each half spans t ∈ [0, 1] with weight ½·w; ds = half·dt.
+      sum += 0.5 * GAUSS8_WEIGHTS[q] * half * (regular + remainder);
+    }
+  }
+  sum += -g0 * 2 * length * (Math.log(half) - 1);
+  return sum;
+}
+
+/**
+ * The dense collocation matrix, row-major n × n, V per (C/m²) (V per C/m for thin rings).
+ * @param layout panels of the arrangement
+ * @param floor true to include the grounded floor z = 0 by images
+ */
+export function assembleCollocationMatrix(layout: PanelLayout, floor: boolean): Float64Array {
+  const n = layout.count;
+  const matrix = new Float64Array(n * n);
+  const scale = 1 / (Math.PI * VACUUM_PERMITTIVITY);
+  for (let i = 0; i < n; i++) {
+    const r = layout.midR[i];
+    const z = layout.midZ[i];
+    const row = i * n;
+    for (let j = 0; j < n; j++) {
+      let value = i === j ? panelSelfIntegral(layout, j) : panelIntegral(layout, j, r, z);
+      // Image in the floor: the panel's image seen from (r, z) equals the panel seen from (r, −z).
+      if (floor) value -= panelIntegral(layout, j, r, -z);
+      matrix[row + j] = scale * value;
+    }
+  }
+  return matrix;
+}

@@ -1,0 +1,306 @@
+/**
+ * One electrostatic field solve of an axisymmetric arrangement: topload, secondary winding with
+ * its voltage distribution, grounded rings (primary turns, strike rail) and the floor as an image
+ * plane; ring-charge boundary elements (panels.ts, assembly.ts), dense LU (dense-lu.ts).
+ *
+ * Definitions (potentials per volt at the top of the winding, V = 1):
+ * - winding: a cylindrical sheet at the wire's centre radius from the base to the top whose
+ *   potential is φ(z): linear, (z − base)/length, or a quarter-wave sine, sin(π/2·(z − base)/length);
+ *   the coil form's dielectric is ignored (the sheet sits in air);
+ * - topload at 1, grounded rings and the floor at 0;
+ * - total capacitance (energy based): C_total = 2W/V² with W = ½ Σ q_i V_i over all real charges,
+ *   i.e. C_total = Σ_j ∫_j σ φ dA (the images carry no energy of their own: the floor is at 0);
+ * - topload capacitance: the charge on the topload per volt (in situ, with the winding and the
+ *   grounds present);
+ * - secondary self-capacitance: the same energy capacitance for the winding alone (no topload, the
+ *   same grounds and floor);
+ * - surface field on the topload (a conductor): E = σ/ε0, peak refined by a parabola through the
+ *   largest collocation value and its neighbours;
+ * - winding top field: the outside normal field of the sheet, mean over its top 5 % of length
+ *   (a sheet's edge density is singular, so its pointwise peak depends on the mesh; the band mean
+ *   converges). It is the field of the equivalent sheet, not of a wire's surface.
+ *
+ * Panel counts (documented convergence rule, checked in the tests): the defaults of
+ * `defaultPanelCounts` are chosen so that doubling them changes every capacitance by < 0.2 % over
+ * the geometries of the tests; `resolution` multiplies them.
+ */
+import {
+  discPanels,
+  groundedRingPanels,
+  spherePanels,
+  toroidPanels,
+  windingPanels,
+  type GroundedRing,
+  type ToploadBody,
+  type WindingBody,
+} from './bodies.ts';
+import { assembleCollocationMatrix } from './assembly.ts';
+import { luFactor, luSolve } from './dense-lu.ts';
+import { buildPanelLayout, type PanelLayout, type PanelShape } from './panels.ts';
+import { VACUUM_PERMITTIVITY } from './ring-kernel.ts';
+import { windingOutsideField } from './surface-field.ts';
+
+/** Voltage distribution along the winding. */
+export type WindingProfile = 'linear' | 'quarter_wave';
+
+/** What the field solve sees, SI, heights above the floor. */
+export interface FieldArrangement {
+  topload?: ToploadBody;
+  winding?: WindingBody & { profile: WindingProfile };
+  groundedRings?: readonly GroundedRing[];
+  /** Include the grounded floor z = 0 (image plane). */
+  floor: boolean;
+}
+
+/** Panel counts per body (grounded rings are one element each). */
+export interface PanelCounts {
+  topload: number;
+  winding: number;
+}
+
+export interface FieldSolveOptions {
+  /** Multiplies the default panel counts (2 doubles every count). Default 1. */
+  resolution?: number;
+  /** Explicit counts, overriding the defaults. */
+  panelCounts?: Partial<PanelCounts>;
+}
+
+/** Result of `solveField`, per volt at the top of the winding (or on the topload alone), SI. */
+export interface FieldSolution {
+  panelCounts: PanelCounts;
+  /** Unknowns of the full system. */
+  unknowns: number;
+  /** Energy-based capacitance 2W/V², F. */
+  totalCapacitance: number;
+  /** Topload charge per volt, F (null without a topload). */
+  toploadCapacitance: number | null;
+  /** Energy capacitance of the winding alone (no topload), F (null without a winding). */
+  selfCapacitance: number | null;
+  /** Peak topload surface field per volt, 1/m. */
+  toploadPeakFieldPerVolt: number | null;
+  /** Where the peak sits: angle around the tube (toroid) or elevation (sphere, disc: null), rad,
+   * 0 at the outer equator, positive upward. */
+  toploadPeakAngle: number | null;
+  /** Topload surface field per volt at its lowest point (angle −π/2), 1/m. */
+  toploadUndersideFieldPerVolt: number | null;
+  /** Mean outside field of the winding sheet per volt over its top 5 %, 1/m. */
+  windingTopFieldPerVolt: number | null;
+  /** Panels and solved densities (σ, C/m² per volt; λ, C/m per volt for thin rings). */
+  layout: PanelLayout;
+  density: Float64Array;
+  /** Index range of the topload's panels in the layout. */
+  toploadPanels: { first: number; count: number };
+}
+
+/** Base panel counts: toroid 31, sphere 28, disc 40, winding 30 (see the convergence tests). */
+export function defaultPanelCounts(arrangement: FieldArrangement, resolution = 1): PanelCounts {
+  const topload = arrangement.topload;
+  let toploadCount = 0;
+  if (topload?.shape === 'toroid') toploadCount = 31;
+  else if (topload?.shape === 'sphere') toploadCount = 28;
+  else if (topload?.shape === 'disc') toploadCount = 40;
+  const scaleCount = (count: number) => Math.max(1, Math.round(count * resolution));
+  return {
+    topload: topload ? scaleCount(toploadCount) : 0,
+    winding: arrangement.winding ? scaleCount(30) : 0,
+  };
+}
+
+/** The share of the winding length at the top over which the top field is averaged. */
+export const WINDING_TOP_BAND = 0.05;
+
+function windingPotential(winding: NonNullable<FieldArrangement['winding']>, z: number): number {
+  const x = (z - winding.bottomZ) / (winding.topZ - winding.bottomZ);
+  return winding.profile === 'quarter_wave' ? Math.sin((Math.PI / 2) * x) : x;
+}
+
+/** ∫ φ dA over panel j (4-point Gauss nodes). */
+function potentialWeightedArea(layout: PanelLayout, j: number, potential: (z: number) => number): number {
+  let sum = 0;
+  for (let q = 0; q < 4; q++) sum += 2 * Math.PI * layout.gauss4W[4 * j + q] * potential(layout.gauss4Z[4 * j + q]);
+  return sum;
+}
+
+/** Parabola vertex through three points, clamped to the bracket; returns [x, y]. */
+function parabolaPeak(x0: number, y0: number, x1: number, y1: number, x2: number, y2: number): [number, number] {
+  const denominator = (x0 - x1) * (x0 - x2) * (x1 - x2);
+  if (denominator === 0) return [x1, y1];
+  const a = (x2 * (y1 - y0) + x1 * (y0 - y2) + x0 * (y2 - y1)) / denominator;
+  const b = (x2 * x2 * (y0 - y1) + x1 * x1 * (y2 - y0) + x0 * x0 * (y1 - y2)) / denominator;
+  if (!(a < 0)) return [x1, y1];
+  const xv = Math.min(Math.max(-b / (2 * a), Math.min(x0, x2)), Math.max(x0, x2));
+  const c = y1 - a * x1 * x1 - b * x1;
+  return [xv, Math.max(y1, a * xv * xv + b * xv + c)];
+}
+
+function midAngle(layout: PanelLayout, j: number): number {
+  const o = 5 * j;
+  return 0.5 * (layout.geometry[o + 3] + layout.geometry[o + 4]);
+}
+
+/** Peak field, its angle and the underside field over the topload's panels. */
+function toploadFields(
+  topload: ToploadBody,
+  layout: PanelLayout,
+  density: Float64Array,
+  first: number,
+  count: number,
+): { peak: number; angle: number | null; underside: number } {
+  const field = (k: number) => Math.abs(density[first + k]) / VACUUM_PERMITTIVITY;
+  let best = 0;
+  for (let k = 1; k < count; k++) if (field(k) > field(best)) best = k;
+  if (topload.shape === 'disc') return { peak: field(best), angle: null, underside: field(0) };
+  const angle = (k: number) => midAngle(layout, first + k);
+  let x0: number, y0: number, x2: number, y2: number;
+  if (topload.shape === 'toroid') {
+    const before = (best - 1 + count) % count;
+    const after = (best + 1) % count;
+    x0 = angle(before) - (before > best ? 2 * Math.PI : 0);
+    x2 = angle(after) + (after < best ? 2 * Math.PI : 0);
+    y0 = field(before);
+    y2 = field(after);
+  } else if (best === 0) {
+    // South pole: the field is even about the pole (mirror the first panel).
+    x0 = -Math.PI - angle(0);
+    y0 = field(0);
+    x2 = angle(1);
+    y2 = field(1);
+  } else if (best === count - 1) {
+    x0 = angle(best - 1);
+    y0 = field(best - 1);
+    x2 = Math.PI - angle(best);
+    y2 = field(best);
+  } else {
+    x0 = angle(best - 1);
+    y0 = field(best - 1);
+    x2 = angle(best + 1);
+    y2 = field(best + 1);
+  }
+  const [peakAngle, peak] = parabolaPeak(x0, y0, angle(best), field(best), x2, y2);
+  // Underside (angle −π/2): linear interpolation between the collocation points around it.
+  let underside = field(0);
+  if (topload.shape === 'toroid') {
+    for (let k = 0; k < count - 1; k++) {
+      const a0 = angle(k);
+      const a1 = angle(k + 1);
+      if (a0 <= -Math.PI / 2 && a1 >= -Math.PI / 2) {
+        const w = (-Math.PI / 2 - a0) / (a1 - a0);
+        underside = (1 - w) * field(k) + w * field(k + 1);
+        break;
+      }
+    }
+  } else {
+    // Sphere: even about the south pole; linear extrapolation of the first two panels to the pole.
+    const a0 = angle(0) + Math.PI / 2;
+    const a1 = angle(1) + Math.PI / 2;
+    const y0f = field(0);
+    const y1f = field(1);
+    // Even function: fit y = c0 + c2·a² through the two points.
+    const c2 = (y1f - y0f) / (a1 * a1 - a0 * a0);
+    underside = y0f - c2 * a0 * a0;
+  }
+  return { peak, angle: peakAngle, underside };
+}
+
+/** Solves the arrangement for V = 1 at the top; null when the system is singular. */
+export function solveField(arrangement: FieldArrangement, options: FieldSolveOptions = {}): FieldSolution | null {
+  const defaults = defaultPanelCounts(arrangement, options.resolution ?? 1);
+  const counts: PanelCounts = {
+    topload: arrangement.topload ? (options.panelCounts?.topload ?? defaults.topload) : 0,
+    winding: arrangement.winding ? (options.panelCounts?.winding ?? defaults.winding) : 0,
+  };
+  // Order: winding, grounded rings, topload last (so the winding-alone system is the leading block).
+  const shapes: PanelShape[] = [];
+  const winding = arrangement.winding;
+  if (winding) shapes.push(...windingPanels(winding, counts.winding));
+  const windingCount = shapes.length;
+  shapes.push(...groundedRingPanels(arrangement.groundedRings ?? []));
+  const leadingCount = shapes.length;
+  const topload = arrangement.topload;
+  if (topload?.shape === 'toroid') shapes.push(...toroidPanels(topload, counts.topload));
+  else if (topload?.shape === 'sphere') shapes.push(...spherePanels(topload, counts.topload));
+  else if (topload?.shape === 'disc') shapes.push(...discPanels(topload, counts.topload));
+  const toploadCount = shapes.length - leadingCount;
+  counts.topload = toploadCount;
+  const layout = buildPanelLayout(shapes);
+  const n = layout.count;
+  if (n === 0) return null;
+
+  const potential = new Float64Array(n);
+  for (let j = 0; j < windingCount; j++) potential[j] = windingPotential(winding!, layout.midZ[j]);
+  for (let j = leadingCount; j < n; j++) potential[j] = 1;
+
+  const matrix = assembleCollocationMatrix(layout, arrangement.floor);
+  // The winding-alone system (leading block) before the full matrix is factored in place.
+  let selfCapacitance: number | null = null;
+  if (winding) {
+    if (toploadCount > 0) {
+      const block = new Float64Array(leadingCount * leadingCount);
+      for (let i = 0; i < leadingCount; i++) block.set(matrix.subarray(i * n, i * n + leadingCount), i * leadingCount);
+      const pivots = luFactor(block, leadingCount);
+      if (!pivots) return null;
+      const alone = potential.slice(0, leadingCount);
+      luSolve(block, leadingCount, pivots, alone);
+      selfCapacitance = windingEnergyCapacitance(layout, alone, windingCount, winding);
+    }
+  }
+  const pivots = luFactor(matrix, n);
+  if (!pivots) return null;
+  const density = potential.slice();
+  luSolve(matrix, n, pivots, density);
+  if (!density.every(Number.isFinite)) return null;
+
+  let totalCapacitance = 0;
+  let toploadCapacitance: number | null = null;
+  if (winding) totalCapacitance += windingEnergyCapacitance(layout, density, windingCount, winding);
+  if (toploadCount > 0) {
+    let charge = 0;
+    for (let j = leadingCount; j < n; j++) charge += density[j] * layout.area[j];
+    toploadCapacitance = charge;
+    totalCapacitance += charge;
+  }
+  if (winding && toploadCount === 0) selfCapacitance = totalCapacitance;
+
+  let fields: { peak: number; angle: number | null; underside: number } | null = null;
+  if (topload && toploadCount > 0) fields = toploadFields(topload, layout, density, leadingCount, toploadCount);
+
+  let windingTopFieldPerVolt: number | null = null;
+  if (winding) {
+    const bandStart = winding.topZ - WINDING_TOP_BAND * (winding.topZ - winding.bottomZ);
+    let weighted = 0;
+    let area = 0;
+    for (let i = windingCount - 1; i >= 0; i--) {
+      if (i < windingCount - 1 && layout.midZ[i] < bandStart) break;
+      weighted += windingOutsideField(layout, i, density, arrangement.floor) * layout.area[i];
+      area += layout.area[i];
+    }
+    windingTopFieldPerVolt = Math.abs(weighted / area);
+  }
+
+  return {
+    panelCounts: counts,
+    unknowns: n,
+    totalCapacitance,
+    toploadCapacitance,
+    selfCapacitance,
+    toploadPeakFieldPerVolt: fields ? fields.peak : null,
+    toploadPeakAngle: fields ? fields.angle : null,
+    toploadUndersideFieldPerVolt: fields ? fields.underside : null,
+    windingTopFieldPerVolt,
+    layout,
+    density,
+    toploadPanels: { first: leadingCount, count: toploadCount },
+  };
+}
+
+function windingEnergyCapacitance(
+  layout: PanelLayout,
+  density: Float64Array,
+  windingCount: number,
+  winding: NonNullable<FieldArrangement['winding']>,
+): number {
+  let sum = 0;
+  const potential = (z: number) => windingPotential(winding, z);
+  for (let j = 0; j < windingCount; j++) sum += density[j] * potentialWeightedArea(layout, j, potential);
+  return sum;
+}
