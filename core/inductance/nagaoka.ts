@@ -2,7 +2,7 @@
  * Inductance of a uniform cylindrical current sheet: Lorenz's formula written with Nagaoka's
  * coefficient, L_s = μ0 N² π a² / l · K_N(D/l).
  */
-import { ellipticKE, ellipticKEComplement } from '../elliptic.ts';
+import { agmSeries } from './agm-series.ts';
 import { VACUUM_PERMEABILITY } from './vacuum.ts';
 
 /**
@@ -21,13 +21,16 @@ export function nagaokaCoefficient(diameterOverLength: number): number {
   const denominator = 1 + x * x;
   const m = (x * x) / denominator; // k²
   const m1 = 1 / denominator; // k′², formed without subtraction
-  // Near m → 1 (short coils) the complementary parameter keeps K exact.
-  const { k: bigK, e: bigE } = m < 0.5 ? ellipticKE(m) : ellipticKEComplement(m1);
+  // K − E = K (m + tail)/2 without cancellation (agm-series.ts), so (K − E)/m stays exact for
+  // long coils (m → 0); m1 = 1/(1 + x²) is formed directly for short coils (m → 1).
+  const { completeK, tail } = agmSeries(m, m1);
+  const kMinusEOverM = (completeK * (1 + tail / m)) / 2;
+  const completeE = completeK - m * kMinusEOverM;
   const k = Math.sqrt(m);
   const kPrime = Math.sqrt(m1);
   // E − k = (E − 1) + (1 − k), with 1 − k = k′²/(1 + k) to avoid one cancellation.
-  const eMinusK = bigE - 1 + m1 / (1 + k);
-  const bracket = (m1 / m) * (bigK - bigE) + eMinusK;
+  const eMinusK = completeE - 1 + m1 / (1 + k);
+  const bracket = m1 * kMinusEOverM + eMinusK;
   return (4 / (3 * Math.PI * kPrime)) * bracket;
 }
 
