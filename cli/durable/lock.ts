@@ -1,0 +1,263 @@
+/**
+ * A run directory's lock: one file naming the process that sweeps into the directory (pid, host,
+ * boot id), so a second process refuses to write there. A lock left by a run that died (its pid no
+ * longer alive on this host, or the host rebooted since) is stale and taken over.
+ *
+ * The lock file is written completely to a temporary file and then hard-linked into place, which
+ * fails if a lock exists (atomic, also on NFS), so a lock file is never seen half-written. Taking
+ * over moves the stale file aside by rename (only one process can), checks it moved the stale lock
+ * and not a fresh one, and then links its own.
+ */
+import { mkdirSync, readFileSync } from 'node:fs';
+import { hostname as osHostname } from 'node:os';
+import { join } from 'node:path';
+import { randomUUID } from 'node:crypto';
+import { toDiskError } from './disk-error.ts';
+import { nodeFileSystem, writeAllSync, type DurableFileSystem } from './file-system.ts';
+
+/** The lock's file name inside a run directory. */
+export const RUN_LOCK_FILE = 'run.lock';
+
+/** Who holds a lock, as written in the lock file (JSON). */
+export interface RunLockHolder {
+  pid: number;
+  hostname: string;
+  /** Linux's /proc/sys/kernel/random/boot_id at the time of locking, or null elsewhere. */
+  bootId: string | null;
+  /** ISO 8601 time the lock was taken. */
+  startedAt: string;
+  /** Random; tells this lock from a later one of the same pid. */
+  token: string;
+}
+
+/** A lock held by this process. */
+export interface RunLock {
+  /** The lock file's path. */
+  readonly path: string;
+  readonly holder: RunLockHolder;
+  /** The holder of the stale lock this one replaced, or null. */
+  readonly tookOverFrom: RunLockHolder | null;
+  /** Removes the lock file if it is still this lock; safe to call twice. */
+  release(): void;
+}
+
+/** Options of {@link acquireRunLock}; the defaults describe this process. */
+export interface RunLockOptions {
+  pid?: number;
+  hostname?: string;
+  bootId?: string | null;
+  /** Whether a pid is alive on this host; by signal 0 unless given. */
+  isProcessAlive?: (pid: number) => boolean;
+  now?: () => Date;
+  fileSystem?: DurableFileSystem;
+}
+
+/** The directory is locked by another live (or unknown) run. One-line message, with what to do. */
+export class RunLockError extends Error {
+  readonly lockPath: string;
+  readonly holder: RunLockHolder | null;
+  constructor(message: string, lockPath: string, holder: RunLockHolder | null) {
+    super(message);
+    this.name = 'RunLockError';
+    this.lockPath = lockPath;
+    this.holder = holder;
+  }
+}
+
+/** True when `pid` names a live process on this host (EPERM: alive, someone else's). */
+export function isProcessAlive(pid: number): boolean {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch (error) {
+    return (error as { code?: string }).code === 'EPERM';
+  }
+}
+
+/** This boot's id on Linux, or null where there is none. */
+export function currentBootId(): string | null {
+  try {
+    return readFileSync('/proc/sys/kernel/random/boot_id', 'utf8').trim() || null;
+  } catch {
+    return null;
+  }
+}
+
+function parseHolder(text: string): RunLockHolder | null {
+  try {
+    const value = JSON.parse(text) as Partial<RunLockHolder>;
+    if (typeof value.pid !== 'number' || typeof value.hostname !== 'string' || typeof value.token !== 'string') return null;
+    return {
+      pid: value.pid,
+      hostname: value.hostname,
+      bootId: typeof value.bootId === 'string' ? value.bootId : null,
+      startedAt: typeof value.startedAt === 'string' ? value.startedAt : '?',
+      token: value.token,
+    };
+  } catch {
+    return null;
+  }
+}
+
+/** Reads the holder of the lock in `directory`, or null when there is no (readable) lock. */
+export function readRunLock(directory: string): RunLockHolder | null {
+  try {
+    return parseHolder(readFileSync(join(directory, RUN_LOCK_FILE), 'utf8'));
+  } catch {
+    return null;
+  }
+}
+
+function readText(fileSystem: DurableFileSystem, path: string): string | null {
+  try {
+    return fileSystem.readFileSync(path).toString('utf8');
+  } catch (error) {
+    if ((error as { code?: string }).code === 'ENOENT') return null;
+    throw error;
+  }
+}
+
+/**
+ * Takes the lock of run directory `directory` (created if missing) for this process. Throws a
+ * {@link RunLockError} when another live run holds it, or a run on another host (whose liveness
+ * cannot be checked from here), or the lock file is unreadable; a DiskError when the directory
+ * cannot be written. A stale lock (same host, and its pid is gone or the host rebooted) is taken
+ * over and reported in `tookOverFrom`.
+ *
+ * @example
+ *   const lock = acquireRunLock('runs/night')
+ *   try { await sweep() } finally { lock.release() }
+ */
+export function acquireRunLock(directory: string, options: RunLockOptions = {}): RunLock {
+  const fileSystem = options.fileSystem ?? nodeFileSystem;
+  const alive = options.isProcessAlive ?? isProcessAlive;
+  const path = join(directory, RUN_LOCK_FILE);
+  const holder: RunLockHolder = {
+    pid: options.pid ?? process.pid,
+    hostname: options.hostname ?? osHostname(),
+    bootId: options.bootId === undefined ? currentBootId() : options.bootId,
+    startedAt: (options.now ?? (() => new Date()))().toISOString(),
+    token: randomUUID(),
+  };
+  const text = `${JSON.stringify(holder)}\n`;
+  const temporary = join(directory, `.${RUN_LOCK_FILE}.${holder.token}.tmp`);
+  try {
+    mkdirSync(directory, { recursive: true });
+    const fd = fileSystem.openSync(temporary, 'wx', 0o644);
+    try {
+      writeAllSync(fileSystem, fd, Buffer.from(text, 'utf8'));
+      fileSystem.fsyncSync(fd);
+    } finally {
+      fileSystem.closeSync(fd);
+    }
+  } catch (error) {
+    throw toDiskError(error, path, 'lock');
+  }
+  try {
+    let tookOverFrom: RunLockHolder | null = null;
+    for (let attempt = 0; attempt < 8; attempt++) {
+      try {
+        createLockFile(fileSystem, temporary, path, text);
+        return makeLock(fileSystem, path, holder, tookOverFrom);
+      } catch (error) {
+        if ((error as { code?: string }).code !== 'EEXIST') throw toDiskError(error, path, 'lock');
+      }
+      const existingText = readText(fileSystem, path);
+      if (existingText === null) continue; // released meanwhile: try again
+      const existing = parseHolder(existingText);
+      if (existing === null) {
+        throw new RunLockError(
+          `'${directory}' holds a lock file that cannot be read; if no sweep runs there, delete '${path}'`,
+          path,
+          null,
+        );
+      }
+      const stale =
+        existing.hostname === holder.hostname &&
+        ((existing.bootId !== null && holder.bootId !== null && existing.bootId !== holder.bootId) || !alive(existing.pid));
+      if (!stale) {
+        const where = existing.hostname === holder.hostname ? '' : ` on host ${existing.hostname}`;
+        throw new RunLockError(
+          `'${directory}' is in use by process ${existing.pid}${where} since ${existing.startedAt}; wait for it to finish, or if that run is gone, delete '${path}'`,
+          path,
+          existing,
+        );
+      }
+      // Move the stale lock aside; only one process can move a given file.
+      const aside = join(directory, `.${RUN_LOCK_FILE}.${holder.token}.stale`);
+      try {
+        fileSystem.renameSync(path, aside);
+      } catch (error) {
+        if ((error as { code?: string }).code === 'ENOENT') continue; // another process moved it first
+        throw toDiskError(error, path, 'lock');
+      }
+      const movedText = readText(fileSystem, aside);
+      if (movedText !== existingText) {
+        // A fresh lock replaced the stale one before our rename: put it back and report it.
+        try {
+          fileSystem.linkSync(aside, path);
+        } catch {
+          // a third lock is in place; ours stays out either way
+        }
+        fileSystem.unlinkSync(aside);
+        const fresh = movedText === null ? null : parseHolder(movedText);
+        throw new RunLockError(
+          `'${directory}' is in use by process ${fresh?.pid ?? '?'} since ${fresh?.startedAt ?? '?'}; wait for it to finish`,
+          path,
+          fresh,
+        );
+      }
+      fileSystem.unlinkSync(aside);
+      tookOverFrom = existing;
+    }
+    throw new RunLockError(`'${directory}': could not take the lock '${path}' (it keeps changing); try again`, path, null);
+  } finally {
+    try {
+      fileSystem.unlinkSync(temporary);
+    } catch {
+      // already gone
+    }
+  }
+}
+
+/**
+ * Puts the lock file in place unless one exists (EEXIST): a hard link of the complete temporary
+ * file; where the file system has no hard links, an exclusive create and write instead.
+ */
+function createLockFile(fileSystem: DurableFileSystem, temporary: string, path: string, text: string): void {
+  try {
+    fileSystem.linkSync(temporary, path);
+    return;
+  } catch (error) {
+    const code = (error as { code?: string }).code;
+    if (code !== 'EPERM' && code !== 'ENOTSUP' && code !== 'ENOSYS' && code !== 'EOPNOTSUPP') throw error;
+  }
+  const fd = fileSystem.openSync(path, 'wx', 0o644);
+  try {
+    writeAllSync(fileSystem, fd, Buffer.from(text, 'utf8'));
+    fileSystem.fsyncSync(fd);
+  } finally {
+    fileSystem.closeSync(fd);
+  }
+}
+
+function makeLock(fileSystem: DurableFileSystem, path: string, holder: RunLockHolder, tookOverFrom: RunLockHolder | null): RunLock {
+  let released = false;
+  return {
+    path,
+    holder,
+    tookOverFrom,
+    release() {
+      if (released) return;
+      released = true;
+      const current = readText(fileSystem, path);
+      if (current !== null && parseHolder(current)?.token === holder.token) {
+        try {
+          fileSystem.unlinkSync(path);
+        } catch (error) {
+          if ((error as { code?: string }).code !== 'ENOENT') throw toDiskError(error, path, 'unlock');
+        }
+      }
+    },
+  };
+}
