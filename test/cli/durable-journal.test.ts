@@ -6,6 +6,8 @@ import { join } from 'node:path';
 import { decodeJournal, encodeJournalRecord, openJournal, readJournal } from '../../cli/durable/journal.ts';
 import { DiskError } from '../../cli/durable/disk-error.ts';
 import { faultyFileSystem } from './durable-faulty-disk.ts';
+import { transpileDurableModules } from './durable-child-modules.ts';
+import { spawn } from 'node:child_process';
 
 let directory: string;
 beforeEach(() => {
@@ -66,17 +68,25 @@ describe('openJournal(path) and readJournal(path)', () => {
     expect(readJournal(path).records).toEqual([...payloads.slice(0, 2), payloads[3]]);
   });
 
-  it('yields exactly the records before the cut when the file is cut at any byte of its last record', () => {
+  it('yields exactly the records before the cut when the file is cut at any byte of its last record, and appends after it', () => {
     const path = join(directory, 'journal.cfj');
     const ends = writeJournal(path, payloads);
     const whole = readFileSync(path);
     const lastStart = ends.at(-2)!;
+    const cutPath = join(directory, 'cut.cfj');
     for (let cut = lastStart; cut < whole.length; cut++) {
-      const contents = decodeJournal(whole.subarray(0, cut));
+      writeFileSync(cutPath, whole);
+      truncateSync(cutPath, cut);
+      const contents = readJournal(cutPath);
       expect(contents.records).toEqual(payloads.slice(0, -1));
       expect(contents.validBytes).toBe(lastStart);
       expect(contents.tornTail).toBe(cut > lastStart);
       if (cut > lastStart) expect(contents.problem).toMatch(/^record 6 at byte \d+ is cut short/);
+      // resuming: the torn record is cut off and the next append follows the last complete one
+      const journal = openJournal(cutPath);
+      journal.append({ kind: 'resumed' });
+      journal.close();
+      expect(readJournal(cutPath)).toMatchObject({ records: [...payloads.slice(0, -1), { kind: 'resumed' }], tornTail: false });
     }
   });
 
@@ -182,5 +192,35 @@ describe('openJournal(path) and readJournal(path)', () => {
 
   it('refuses a payload that is not JSON-representable', () => {
     expect(() => encodeJournalRecord(undefined)).toThrow(TypeError);
+  });
+
+  it('keeps a readable prefix of the appends when the writing process is killed with SIGKILL', async () => {
+    const code = join(directory, 'code');
+    transpileDurableModules(['journal', 'crc32', 'disk-error', 'file-system'], code);
+    writeFileSync(
+      join(code, 'writer.js'),
+      `import { openJournal } from './journal.js';
+const journal = openJournal(process.argv[2]);
+let n = journal.recordCount;
+console.log('ready');
+for (;;) {
+  journal.append({ n, filler: 'x'.repeat(n % 97) });
+  if (n % 50 === 0) journal.sync();
+  n++;
+}
+`,
+    );
+    const path = join(directory, 'killed.cfj');
+    for (let round = 0; round < 3; round++) {
+      await new Promise<void>((resolve, reject) => {
+        const child = spawn(process.execPath, [join(code, 'writer.js'), path], { stdio: ['ignore', 'pipe', 'inherit'] });
+        child.stdout.setEncoding('utf8').once('data', () => setTimeout(() => child.kill('SIGKILL'), 30 + 40 * round));
+        child.on('error', reject);
+        child.on('exit', () => resolve());
+      });
+      const contents = readJournal(path);
+      expect(contents.records.length).toBeGreaterThan(0);
+      contents.records.forEach((record, position) => expect(record).toEqual({ n: position, filler: 'x'.repeat(position % 97) }));
+    }
   });
 });

@@ -3,7 +3,7 @@ import { spawn, spawnSync } from 'node:child_process';
 import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { hostname, tmpdir } from 'node:os';
 import { join } from 'node:path';
-import ts from 'typescript';
+import { transpileDurableModules } from './durable-child-modules.ts';
 import { acquireRunLock, currentBootId, readRunLock, RUN_LOCK_FILE, RunLockError } from '../../cli/durable/lock.ts';
 
 let directory: string;
@@ -95,19 +95,10 @@ describe('acquireRunLock(directory)', () => {
 
 describe('acquireRunLock(directory) by racing processes', () => {
   it('lets exactly one of five processes take over a stale lock', async () => {
-    // Node 20 cannot run TypeScript: transpile the lock and its two imports into the temp folder.
     const code = join(directory, 'code');
     const runs = join(directory, 'run');
-    mkdirSync(code);
+    transpileDurableModules(['lock', 'disk-error', 'file-system'], code);
     mkdirSync(runs);
-    writeFileSync(join(code, 'package.json'), '{"type":"module"}');
-    for (const name of ['lock', 'disk-error', 'file-system']) {
-      const source = readFileSync(new URL(`../../cli/durable/${name}.ts`, import.meta.url), 'utf8');
-      const output = ts.transpileModule(source, {
-        compilerOptions: { module: ts.ModuleKind.ESNext, target: ts.ScriptTarget.ES2022, rewriteRelativeImportExtensions: true, verbatimModuleSyntax: true },
-      }).outputText;
-      writeFileSync(join(code, `${name}.js`), output);
-    }
     // Each racer says 'ready', spins until the 'go' file appears, tries the lock, prints the outcome,
     // and a winner holds the lock until the 'done' file appears (so no late racer finds it free).
     writeFileSync(
