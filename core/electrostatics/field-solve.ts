@@ -92,17 +92,17 @@ export interface FieldSolution {
   toploadPanels: { first: number; count: number };
 }
 
-/** Base panel counts: toroid 31, sphere 28, disc 40, winding 30 (see the convergence tests). */
+/** Base panel counts: toroid 25, sphere 24, disc 40, winding 24 (see the convergence tests). */
 export function defaultPanelCounts(arrangement: FieldArrangement, resolution = 1): PanelCounts {
   const topload = arrangement.topload;
   let toploadCount = 0;
-  if (topload?.shape === 'toroid') toploadCount = 31;
-  else if (topload?.shape === 'sphere') toploadCount = 28;
+  if (topload?.shape === 'toroid') toploadCount = 25;
+  else if (topload?.shape === 'sphere') toploadCount = 24;
   else if (topload?.shape === 'disc') toploadCount = 40;
   const scaleCount = (count: number) => Math.max(1, Math.round(count * resolution));
   return {
     topload: topload ? scaleCount(toploadCount) : 0,
-    winding: arrangement.winding ? scaleCount(30) : 0,
+    winding: arrangement.winding ? scaleCount(24) : 0,
   };
 }
 
@@ -266,15 +266,20 @@ export function solveField(arrangement: FieldArrangement, options: FieldSolveOpt
 
   let windingTopFieldPerVolt: number | null = null;
   if (winding) {
+    // Mean over the band [top − 5 % of length, top]: each panel weighted by its overlap with it.
     const bandStart = winding.topZ - WINDING_TOP_BAND * (winding.topZ - winding.bottomZ);
     let weighted = 0;
-    let area = 0;
+    let overlap = 0;
     for (let i = windingCount - 1; i >= 0; i--) {
-      if (i < windingCount - 1 && layout.midZ[i] < bandStart) break;
-      weighted += windingOutsideField(layout, i, density, arrangement.floor) * layout.area[i];
-      area += layout.area[i];
+      const o = 5 * i;
+      const low = Math.min(layout.geometry[o + 1], layout.geometry[o + 3]);
+      const high = Math.max(layout.geometry[o + 1], layout.geometry[o + 3]);
+      const inside = high - Math.max(low, bandStart);
+      if (!(inside > 0)) break;
+      weighted += windingOutsideField(layout, i, density, arrangement.floor) * inside;
+      overlap += inside;
     }
-    windingTopFieldPerVolt = Math.abs(weighted / area);
+    windingTopFieldPerVolt = Math.abs(weighted / overlap);
   }
 
   return {

@@ -10,7 +10,7 @@
  * integrated on the own panel with the substitution t = ±u² and 8-point Gauss–Legendre.
  */
 import { ellipticEFromComplement, ellipticKFromComplement } from './elliptic-polynomial.ts';
-import { GAUSS4_NODES, GAUSS4_WEIGHTS, GAUSS8_NODES, GAUSS8_WEIGHTS } from './gauss-legendre.ts';
+import { GAUSS8_NODES, GAUSS8_WEIGHTS } from './gauss-legendre.ts';
 import { NEAR_RATIO, FAR_RATIO } from './assembly.ts';
 import { PANEL_THIN_RING, panelPoint, type PanelLayout } from './panels.ts';
 import { VACUUM_PERMITTIVITY } from './ring-kernel.ts';
@@ -18,7 +18,7 @@ import { VACUUM_PERMITTIVITY } from './ring-kernel.ts';
 const MAX_DEPTH = 14;
 const point = new Float64Array(2);
 
-/** 2r′·[K − ((r′² − r² + Δz²)/d₋²)E]/(r d₊): radial field kernel per unit ds′ and unit σ·4πε0. */
+/** [K − ((r′² − r² + Δz²)/d₋²)E]·2/(r d₊): radial field kernel per unit charge × 4πε0·π/… (see below). */
 function radialKernel(r: number, z: number, sourceR: number, sourceZ: number): number {
   const dz = z - sourceZ;
   const plus2 = (r + sourceR) ** 2 + dz * dz;
@@ -26,24 +26,29 @@ function radialKernel(r: number, z: number, sourceR: number, sourceZ: number): n
   const m1 = minus2 / plus2;
   const k = ellipticKFromComplement(m1);
   const e = ellipticEFromComplement(m1);
-  return ((2 * sourceR) / r) * (k - ((sourceR * sourceR - r * r + dz * dz) / minus2) * e) / Math.sqrt(plus2);
+  return (2 / r) * (k - ((sourceR * sourceR - r * r + dz * dz) / minus2) * e) / Math.sqrt(plus2);
 }
 
+/** ∫ r′·radialKernel ds′ over the parameter interval [ta, tb] of panel j, adaptive by distance. */
 function integrateRadial(layout: PanelLayout, j: number, ta: number, tb: number, r: number, z: number, depth: number): number {
   const halfSpan = 0.5 * (tb - ta);
   const centre = 0.5 * (ta + tb);
   const pieceLength = layout.length[j] * halfSpan;
   panelPoint(layout, j, centre, point);
   const distance2 = (r - point[0]) ** 2 + (z - point[1]) ** 2;
+  if (depth === 0 && distance2 >= FAR_RATIO * FAR_RATIO * pieceLength * pieceLength) {
+    const o = 2 * j;
+    return (
+      layout.gauss2W[o] * radialKernel(r, z, layout.gauss2R[o], layout.gauss2Z[o]) +
+      layout.gauss2W[o + 1] * radialKernel(r, z, layout.gauss2R[o + 1], layout.gauss2Z[o + 1])
+    );
+  }
   if (distance2 >= NEAR_RATIO * NEAR_RATIO * pieceLength * pieceLength || depth >= MAX_DEPTH) {
-    const rule = distance2 >= FAR_RATIO * FAR_RATIO * pieceLength * pieceLength ? 4 : 8;
-    const nodes = rule === 4 ? GAUSS4_NODES : GAUSS8_NODES;
-    const weights = rule === 4 ? GAUSS4_WEIGHTS : GAUSS8_WEIGHTS;
     let sum = 0;
     const jacobian = 0.5 * layout.length[j] * halfSpan;
-    for (let q = 0; q < rule; q++) {
-      panelPoint(layout, j, centre + halfSpan * nodes[q], point);
-      sum += weights[q] * jacobian * radialKernel(r, z, point[0], point[1]);
+    for (let q = 0; q < 8; q++) {
+      panelPoint(layout, j, centre + halfSpan * GAUSS8_NODES[q], point);
+      sum += GAUSS8_WEIGHTS[q] * jacobian * point[0] * radialKernel(r, z, point[0], point[1]);
     }
     return sum;
   }
@@ -62,7 +67,7 @@ function selfRadial(layout: PanelLayout, j: number): number {
       const t = side * u * u;
       panelPoint(layout, j, t, point);
       // dt = 2u du, du weight ½·w.
-      sum += 0.5 * GAUSS8_WEIGHTS[q] * 2 * u * half * radialKernel(r0, z0, point[0], point[1]);
+      sum += 0.5 * GAUSS8_WEIGHTS[q] * 2 * u * half * point[0] * radialKernel(r0, z0, point[0], point[1]);
     }
   }
   return sum;
