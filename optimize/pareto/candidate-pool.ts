@@ -1,0 +1,427 @@
+import type { Scored } from './scored.ts';
+import { BoundedBest } from './bounded-best.ts';
+import { rankCandidates } from './rank-candidates.ts';
+
+/** One kept candidate with the caller's payload (e.g. its design and metrics row). */
+export interface PoolEntry<T> {
+  item: Scored;
+  payload: T;
+  /** Feasible: how many offered feasible candidates dominate it (0 = on the Pareto front); null infeasible. */
+  dominatedBy: number | null;
+}
+
+/** A kept candidate in final order, from {@link CandidatePool.ranked}. */
+export interface RankedEntry<T> extends PoolEntry<T> {
+  /** 1-based Pareto rank (feasible), 0 for infeasible. */
+  paretoRank: number;
+  /** Crowding distance in its front (Infinity at the boundaries), 0 for infeasible. */
+  crowding: number;
+}
+
+/** Serialised candidate (plain JSON; objectives are finite numbers). */
+export interface PoolRecord<T> {
+  index: number;
+  violation: number;
+  objectives: number[];
+  dominatedBy: number | null;
+  payload: T;
+}
+
+/** The serialised form of a {@link CandidatePool}: plain JSON data for checkpoints and shard files. */
+export interface CandidatePoolData<T> {
+  kind: 'coilfront-candidate-pool';
+  version: 1;
+  keep: number;
+  objectiveCount: number;
+  feasible: PoolRecord<T>[];
+  infeasible: PoolRecord<T>[];
+}
+
+interface InfeasiblePayload<T> {
+  objectives: Float64Array;
+  payload: T;
+}
+
+/**
+ * The main thread's bounded, exact, order-independent store of the best candidates of a sweep: the
+ * "K-dominance filter". With K = keep:
+ *
+ * - feasible candidates, two or more objectives: keep every point dominated by fewer than K of the
+ *   feasible points offered so far; drop a kept point once K kept points dominate it; reject an offer that
+ *   K kept points dominate;
+ * - feasible, one objective: the K smallest by (value, index), a bounded top-K;
+ * - infeasible: separately, the K smallest by (violation, index).
+ *
+ * Claims (the tests check each against brute force on random sets in random arrival orders), with S the set
+ * of feasible points offered, D(p) = {q ∈ S : q dominates p}, and F(S) = {p ∈ S : |D(p)| < K}:
+ *
+ * (a) The kept set is exactly F(S), whatever the order of arrival. Invariant: after each offer the kept set
+ *     is F of the points seen. If q dominates p then D(q) ⊂ D(p) and q ∉ D(q), so |D(q)| < |D(p)| (domination
+ *     is a strict partial order: transitive, irreflexive). Hence F is closed under "dominated-by" (every
+ *     dominator of a kept point is kept), and a kept point's count over the kept set equals its count over
+ *     all points seen. A point p with |D(p)| ≥ K also has ≥ K kept dominators, by induction on |D(p)|: if
+ *     some q ∈ D(p) is not kept, q has ≥ K kept dominators (|D(q)| < |D(p)|), and they all dominate p by
+ *     transitivity (a dropped point's K dominators also dominate everything it dominates). So counting
+ *     over the kept set decides membership exactly; a newcomer p adds one to the counts of exactly the
+ *     points it dominates (a rejected p dominates no kept point, else that point would have ≥ K
+ *     dominators); points reaching K leave. F(S) depends only on S, not on the order.
+ * (b) Closed under "dominated-by" (above), so the Pareto rank of a kept point — the length of the longest
+ *     chain of dominators above it — is the same on the kept set as on S.
+ * (c) Let front F be the front of S where the K-th candidate of the final order falls; fronts 1 .. F−1
+ *     hold fewer than K points. A point of front f ≤ F is dominated only by points of fronts < f, fewer
+ *     than K, so it is kept: fronts 1 .. F are complete in the pool, their crowding distances (computed
+ *     within a front) are the same, and rankCandidates on the pool gives the same first K as on S.
+ * (d) Merge: F(F(A) ∪ F(B)) = F(A ∪ B). A point with fewer than K dominators in A ∪ B has fewer in A (and in
+ *     B), so it is in F(A) ∪ F(B) =: U, as are its dominators; its count in U is its count in A ∪ B. A point
+ *     of U with ≥ K dominators in A ∪ B has ≥ K in U, by the induction of (a) (a dominator outside U has ≥ K
+ *     dominators within A or within B).
+ *
+ * Equal objective vectors do not dominate each other (all of them stay while fewer than K points dominate
+ * them). Offering a sample index that is already kept is ignored, and one that was dropped is rejected
+ * again, so re-offering (overlapping shards, a replayed batch) is harmless as long as an index always comes
+ * with the same values. The kept set is bounded by the data, not only by K: it is about K·(ln(n/K))^(M−1)/
+ * (M−1)! points for n independent uniform objectives (2·10^4 to 10^5 at n = 10^6, K = 1000, M = 3 to 4) and
+ * grows with ties; memory stays flat in n for correlated objectives.
+ *
+ * Cost of an offer: O(M·n_kept) at worst (scan for dominators, stopped at K; on acceptance, a scan for
+ * the points it dominates and one array shift). Points are kept sorted by the sum of their objectives, so
+ * only points with a smaller or equal sum can dominate a newcomer, and only those with a greater or equal
+ * sum can be dominated by it.
+ *
+ * Feasible objectives must be finite numbers (the caller turns NaN or infinite metrics into infeasible
+ * candidates); a violation must be a number ≥ 0.
+ * @example
+ * const pool = new CandidatePool<number[]>(1000, 2);
+ * pool.offer({ index: 7, violation: 0, objectives: Float64Array.of(-3.2e5, 0.41) }, metricsRow);
+ * const best = pool.ranked(); // the first 1000 in final order, with Pareto rank and crowding
+ * const front = pool.front(); // every non-dominated feasible candidate seen, for front.csv
+ */
+export class CandidatePool<T> {
+  readonly keep: number;
+  readonly objectiveCount: number;
+
+  // Feasible, objectiveCount ≥ 2: struct of arrays sorted by key (the sum of the objectives).
+  private count = 0;
+  private capacity = 0;
+  private keys = new Float64Array(0);
+  private objectives = new Float64Array(0);
+  private dominatorCounts = new Int32Array(0);
+  private sampleIndices = new Float64Array(0);
+  private payloads: T[] = [];
+  private readonly keptIndices = new Set<number>();
+  private readonly removed: number[] = [];
+
+  // Feasible with one objective (or none): bounded top-K by (value, index).
+  private readonly single: BoundedBest<T> | null;
+  // Infeasible: bounded top-K by (violation, index).
+  private readonly infeasible: BoundedBest<InfeasiblePayload<T>>;
+
+  /**
+   * @param keep K, the number of candidates the final ranking must get exactly right (--keep), ≥ 1.
+   * @param objectiveCount number of objectives (0 for a feasibility-only sweep).
+   */
+  constructor(keep: number, objectiveCount: number) {
+    if (!Number.isInteger(keep) || keep < 1) {
+      throw new RangeError(`CandidatePool: keep must be an integer of at least 1, got ${keep}`);
+    }
+    if (!Number.isInteger(objectiveCount) || objectiveCount < 0) {
+      throw new RangeError(`CandidatePool: objectiveCount must be a non-negative integer, got ${objectiveCount}`);
+    }
+    this.keep = keep;
+    this.objectiveCount = objectiveCount;
+    this.single = objectiveCount <= 1 ? new BoundedBest<T>(keep) : null;
+    this.infeasible = new BoundedBest<InfeasiblePayload<T>>(keep);
+  }
+
+  /** Number of candidates kept (feasible and infeasible). */
+  get size(): number {
+    return this.feasibleSize + this.infeasible.size;
+  }
+
+  /** Number of feasible candidates kept. */
+  get feasibleSize(): number {
+    return this.single === null ? this.count : this.single.size;
+  }
+
+  /**
+   * Offers one evaluated candidate. The objectives are copied; `item` may be reused by the caller.
+   * @returns true if it is kept (for now), false if it is rejected.
+   * @throws RangeError for a NaN or negative violation, a wrong number of objectives, or a feasible item
+   *   with a non-finite objective.
+   */
+  offer(item: Scored, payload: T): boolean {
+    const { index, violation, objectives } = item;
+    if (!(violation >= 0)) {
+      throw new RangeError(`CandidatePool.offer: violation must be a number ≥ 0, got ${violation} (index ${index})`);
+    }
+    if (violation > 0) {
+      return this.infeasible.offer(violation, index, { objectives: Float64Array.from(objectives), payload });
+    }
+    const m = this.objectiveCount;
+    if (objectives.length !== m) {
+      throw new RangeError(`CandidatePool.offer: objectives must have ${m} values, got ${objectives.length} (index ${index})`);
+    }
+    let key = 0;
+    for (let j = 0; j < m; j++) {
+      const value = objectives[j];
+      if (!Number.isFinite(value)) {
+        throw new RangeError(`CandidatePool.offer: feasible objectives must be finite, got ${value} (index ${index})`);
+      }
+      key += value;
+    }
+    if (this.single !== null) return this.single.offer(m === 0 ? 0 : objectives[0], index, payload);
+    if (this.keptIndices.has(index)) return true;
+    return this.offerFeasible(key, index, objectives, payload);
+  }
+
+  private offerFeasible(key: number, index: number, point: Float64Array, payload: T): boolean {
+    const m = this.objectiveCount;
+    const keep = this.keep;
+    const stored = this.objectives;
+    // Only points with key ≤ key(point) can dominate it: scan them, stop at K dominators.
+    const upper = this.upperBound(key);
+    let dominators = 0;
+    for (let i = 0; i < upper; i++) {
+      const base = i * m;
+      let strictly = false;
+      let j = 0;
+      for (; j < m; j++) {
+        const q = stored[base + j];
+        const p = point[j];
+        if (q > p) break;
+        if (q < p) strictly = true;
+      }
+      if (j === m && strictly && ++dominators >= keep) return false;
+    }
+    // Kept: every point with key ≥ key(point) that it dominates gains one dominator; at K it leaves.
+    const lower = this.lowerBound(key);
+    const removed = this.removed;
+    removed.length = 0;
+    for (let i = lower; i < this.count; i++) {
+      const base = i * m;
+      let strictly = false;
+      let j = 0;
+      for (; j < m; j++) {
+        const q = stored[base + j];
+        const p = point[j];
+        if (p > q) break;
+        if (p < q) strictly = true;
+      }
+      if (j === m && strictly && ++this.dominatorCounts[i] >= keep) removed.push(i);
+    }
+    if (removed.length > 0) this.compact(removed);
+    this.insertAt(this.upperBound(key), key, index, point, dominators, payload);
+    return true;
+  }
+
+  /** Removes the listed positions (ascending) from the sorted arrays in one pass. */
+  private compact(positions: number[]): void {
+    const m = this.objectiveCount;
+    let write = positions[0];
+    let next = 0;
+    for (let read = positions[0]; read < this.count; read++) {
+      if (next < positions.length && positions[next] === read) {
+        this.keptIndices.delete(this.sampleIndices[read]);
+        next++;
+        continue;
+      }
+      this.keys[write] = this.keys[read];
+      this.dominatorCounts[write] = this.dominatorCounts[read];
+      this.sampleIndices[write] = this.sampleIndices[read];
+      this.payloads[write] = this.payloads[read];
+      this.objectives.copyWithin(write * m, read * m, read * m + m);
+      write++;
+    }
+    this.count = write;
+    this.payloads.length = write;
+  }
+
+  private insertAt(position: number, key: number, index: number, point: ArrayLike<number>, dominators: number, payload: T): void {
+    const m = this.objectiveCount;
+    if (this.count === this.capacity) this.grow();
+    const n = this.count;
+    this.keys.copyWithin(position + 1, position, n);
+    this.dominatorCounts.copyWithin(position + 1, position, n);
+    this.sampleIndices.copyWithin(position + 1, position, n);
+    this.objectives.copyWithin((position + 1) * m, position * m, n * m);
+    this.keys[position] = key;
+    this.dominatorCounts[position] = dominators;
+    this.sampleIndices[position] = index;
+    for (let j = 0; j < m; j++) this.objectives[position * m + j] = point[j];
+    this.payloads.splice(position, 0, payload);
+    this.keptIndices.add(index);
+    this.count = n + 1;
+  }
+
+  private grow(): void {
+    const m = this.objectiveCount;
+    const capacity = Math.max(64, this.capacity * 2);
+    const keys = new Float64Array(capacity);
+    keys.set(this.keys.subarray(0, this.count));
+    const objectives = new Float64Array(capacity * m);
+    objectives.set(this.objectives.subarray(0, this.count * m));
+    const counts = new Int32Array(capacity);
+    counts.set(this.dominatorCounts.subarray(0, this.count));
+    const indices = new Float64Array(capacity);
+    indices.set(this.sampleIndices.subarray(0, this.count));
+    this.keys = keys;
+    this.objectives = objectives;
+    this.dominatorCounts = counts;
+    this.sampleIndices = indices;
+    this.capacity = capacity;
+  }
+
+  /** First position whose key is > key. */
+  private upperBound(key: number): number {
+    let low = 0;
+    let high = this.count;
+    while (low < high) {
+      const middle = (low + high) >>> 1;
+      if (this.keys[middle] <= key) low = middle + 1;
+      else high = middle;
+    }
+    return low;
+  }
+
+  /** First position whose key is ≥ key. */
+  private lowerBound(key: number): number {
+    let low = 0;
+    let high = this.count;
+    while (low < high) {
+      const middle = (low + high) >>> 1;
+      if (this.keys[middle] < key) low = middle + 1;
+      else high = middle;
+    }
+    return low;
+  }
+
+  /** The kept feasible candidates, by sample index. */
+  feasibleEntries(): PoolEntry<T>[] {
+    const entries: PoolEntry<T>[] = [];
+    if (this.single !== null) {
+      const kept = this.single.entries();
+      let smaller = 0;
+      kept.forEach((entry, i) => {
+        if (i > 0 && entry.key !== kept[i - 1].key) smaller = i;
+        const objectives = this.objectiveCount === 0 ? new Float64Array(0) : Float64Array.of(entry.key);
+        entries.push({
+          item: { index: entry.index, violation: 0, objectives },
+          payload: entry.payload,
+          dominatedBy: this.objectiveCount === 0 ? 0 : smaller,
+        });
+      });
+    } else {
+      const m = this.objectiveCount;
+      for (let i = 0; i < this.count; i++) {
+        entries.push({
+          item: {
+            index: this.sampleIndices[i],
+            violation: 0,
+            objectives: this.objectives.slice(i * m, i * m + m),
+          },
+          payload: this.payloads[i],
+          dominatedBy: this.dominatorCounts[i],
+        });
+      }
+    }
+    return entries.sort((a, b) => a.item.index - b.item.index);
+  }
+
+  /** The kept infeasible candidates (the K with the smallest violation), by sample index. */
+  infeasibleEntries(): PoolEntry<T>[] {
+    return this.infeasible
+      .entries()
+      .map(({ key, index, payload }) => ({
+        item: { index, violation: key, objectives: payload.objectives.slice() },
+        payload: payload.payload,
+        dominatedBy: null,
+      }))
+      .sort((a, b) => a.item.index - b.item.index);
+  }
+
+  /** Every kept candidate: feasible ones by index, then infeasible ones by index. */
+  entries(): PoolEntry<T>[] {
+    return [...this.feasibleEntries(), ...this.infeasibleEntries()];
+  }
+
+  /**
+   * The non-dominated feasible candidates of everything offered (front.csv), by index: the kept points
+   * that nothing dominates. With one objective: those sharing the smallest value (at most K of them).
+   */
+  front(): PoolEntry<T>[] {
+    return this.feasibleEntries().filter((entry) => entry.dominatedBy === 0);
+  }
+
+  /**
+   * The first `limit` candidates (default K) in final order (see rankCandidates): exactly those of the
+   * whole stream, by claim (c).
+   */
+  ranked(limit = this.keep): RankedEntry<T>[] {
+    const all = this.entries();
+    const { order, paretoRank, crowding } = rankCandidates(
+      all.map((entry) => entry.item),
+      limit,
+    );
+    return order.map((position) => ({ ...all[position], paretoRank: paretoRank[position], crowding: crowding[position] }));
+  }
+
+  /** Adds everything another pool kept (e.g. another shard's): the result is the pool of the union, claim (d). */
+  merge(other: CandidatePool<T>): void {
+    if (other.keep !== this.keep || other.objectiveCount !== this.objectiveCount) {
+      throw new RangeError(
+        `CandidatePool.merge: pools must share keep and objectiveCount, got ${other.keep}/${other.objectiveCount} and ${this.keep}/${this.objectiveCount}`,
+      );
+    }
+    for (const entry of other.entries()) this.offer(entry.item, entry.payload);
+  }
+
+  /** Plain data for a checkpoint or shard file (payloads must be JSON-serialisable for JSON.stringify). */
+  toJSON(): CandidatePoolData<T> {
+    const record = (entry: PoolEntry<T>): PoolRecord<T> => ({
+      index: entry.item.index,
+      violation: entry.item.violation,
+      objectives: Array.from(entry.item.objectives),
+      dominatedBy: entry.dominatedBy,
+      payload: entry.payload,
+    });
+    return {
+      kind: 'coilfront-candidate-pool',
+      version: 1,
+      keep: this.keep,
+      objectiveCount: this.objectiveCount,
+      feasible: this.feasibleEntries().map(record),
+      infeasible: this.infeasibleEntries().map(record),
+    };
+  }
+
+  /**
+   * Rebuilds a pool from {@link CandidatePool.toJSON} data, in O(n log n): the stored dominator counts are
+   * taken as they are (data written by toJSON), not recomputed.
+   */
+  static restore<T>(data: CandidatePoolData<T>): CandidatePool<T> {
+    if (data.kind !== 'coilfront-candidate-pool' || data.version !== 1) {
+      throw new RangeError(`CandidatePool.restore: data must be a version 1 candidate pool, got ${data.kind} ${data.version}`);
+    }
+    const pool = new CandidatePool<T>(data.keep, data.objectiveCount);
+    for (const record of data.infeasible) {
+      pool.offer({ index: record.index, violation: record.violation, objectives: Float64Array.from(record.objectives) }, record.payload);
+    }
+    if (pool.single !== null) {
+      for (const record of data.feasible) {
+        pool.offer({ index: record.index, violation: 0, objectives: Float64Array.from(record.objectives) }, record.payload);
+      }
+      return pool;
+    }
+    const m = data.objectiveCount;
+    const sorted = data.feasible
+      .map((record) => ({ record, key: record.objectives.reduce((sum, value) => sum + value, 0) }))
+      .sort((a, b) => a.key - b.key || a.record.index - b.record.index);
+    for (const { record, key } of sorted) {
+      if (record.objectives.length !== m || !(record.dominatedBy !== null && record.dominatedBy >= 0 && record.dominatedBy < data.keep)) {
+        throw new RangeError(`CandidatePool.restore: record ${record.index} is not a kept feasible candidate of this pool`);
+      }
+      pool.insertAt(pool.count, key, record.index, record.objectives, record.dominatedBy, record.payload);
+    }
+    return pool;
+  }
+}
