@@ -13,45 +13,10 @@ import { stringify as yamlStringify } from 'yaml';
 import { DESIGN_SECTIONS, sectionFields, type FieldSpec, type SectionSpec } from './design-fields.ts';
 import { describeValue, readQuantity, describeKind } from './units.ts';
 import type { InputIssue } from './input-error.ts';
+import type { Dimension, DimensionSlot, LeafValue, NormalSection, NormalTree, WireValue } from '../optimize/design-tree.ts';
 import { suggest } from './suggest.ts';
 
-/** A wire as written: a gauge or a bare diameter (SI). */
-export type WireValue = { awg: number } | { bareDiameter: number };
-
-export type LeafValue = number | string | boolean | WireValue;
-
-/** A section of the normal tree: field name → value (or a slot in a sweep). */
-export type NormalSection = Record<string, LeafValue | DimensionSlot>;
-
-/** The normal tree: section name → section (or a slot when a sweep chooses whole sections). */
-export type NormalTree = Record<string, NormalSection | DimensionSlot>;
-
-/** Marks where a sweep dimension's value goes. */
-export class DimensionSlot {
-  constructor(readonly dimension: number) {}
-}
-
-/** One dimension of a design space. */
-export type Dimension =
-  | {
-      kind: 'range';
-      /** Path in the file: ['secondary', 'turns']. */
-      path: string[];
-      field: FieldSpec & { type: 'quantity' };
-      from: number;
-      to: number;
-      scale: 'linear' | 'log';
-      integer: boolean;
-      step: number | null;
-    }
-  | {
-      kind: 'choose';
-      path: string[];
-      /** Normal values (leaf values, or whole normal sections). */
-      values: Array<LeafValue | NormalSection>;
-      /** Short labels for CSV columns, as the user wrote each choice. */
-      labels: string[];
-    };
+export type { Dimension, DimensionSlot, LeafValue, NormalSection, NormalTree, WireValue } from '../optimize/design-tree.ts';
 
 type Mode = 'design' | 'sweep';
 
@@ -271,8 +236,8 @@ function readRange(field: FieldSpec, input: Record<string, unknown>, path: strin
     issues.push({ path, message: `no integer lies between ${from} and ${to}` });
     return undefined;
   }
-  state.dimensions.push({ kind: 'range', path, field, from, to, scale, integer: integer || (field.integer ?? false), step });
-  return new DimensionSlot(state.dimensions.length - 1);
+  state.dimensions.push({ kind: 'range', path, quantity: field.kind, from, to, scale, integer: integer || (field.integer ?? false), step });
+  return { slot: state.dimensions.length - 1 };
 }
 
 function labelOf(input: unknown): string {
@@ -308,7 +273,7 @@ function readChoose(
     values.push(value);
   }
   state.dimensions.push({ kind: 'choose', path, values, labels: items.map(labelOf) });
-  return new DimensionSlot(state.dimensions.length - 1);
+  return { slot: state.dimensions.length - 1 };
 }
 
 // ---------------------------------------------------------------- sections and the tree
@@ -429,5 +394,6 @@ export function readDesignTree(input: unknown, mode: Mode, basePath: string[] = 
   if (state.issues.length === 0 && !('secondary' in tree) && !('topload' in tree)) {
     state.issues.push({ path: basePath, message: 'a design needs a secondary, a topload, or both' });
   }
-  return { tree, dimensions: state.dimensions, issues: state.issues };
+  const dimensions = state.dimensions.map((dimension) => ({ ...dimension, path: dimension.path.slice(basePath.length) }));
+  return { tree, dimensions, issues: state.issues };
 }

@@ -58,6 +58,10 @@ export const KIND_DISPLAY: Record<QuantityKind, DisplayUnit> = {
   temperature: unit('K', 1),
   time: unit('us', 1e-6),
   resistance: unit('ohm', 1),
+  mass: unit('kg', 1),
+  energy: unit('J', 1),
+  field: unit('kV_per_cm', 1e5),
+  inverse_length: unit('per_m', 1),
   dimensionless: unit('', 1),
 };
 

@@ -2,7 +2,7 @@
  * A design file, from path to the physics core's SI `Design`: read, parse, validate, build.
  */
 import type { Design } from '../core/design.ts';
-import { buildDesign } from './build-design.ts';
+import { buildDesign } from '../optimize/build-design.ts';
 import { readDesignTree, type NormalTree } from './design-schema.ts';
 import { fieldError } from './input-error.ts';
 import { readInputFile } from './read-file.ts';

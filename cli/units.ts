@@ -18,6 +18,10 @@ export type QuantityKind =
   | 'temperature'
   | 'time'
   | 'resistance'
+  | 'mass'
+  | 'energy'
+  | 'field'
+  | 'inverse_length'
   | 'dimensionless';
 
 interface UnitDefinition {
@@ -91,6 +95,16 @@ const UNITS: Record<QuantityKind, Record<string, UnitDefinition>> = {
     'kΩ': { scale: 1e3 },
     'mΩ': { scale: 1e-3 },
   },
+  mass: { kg: { scale: 1 }, g: { scale: 1e-3 }, lb: { scale: 0.45359237 } },
+  energy: { J: { scale: 1 }, kJ: { scale: 1e3 }, mJ: { scale: 1e-3 } },
+  field: {
+    'V/m': { scale: 1 },
+    'kV/m': { scale: 1e3 },
+    'MV/m': { scale: 1e6 },
+    'kV/cm': { scale: 1e5 },
+    'kV/mm': { scale: 1e6 },
+  },
+  inverse_length: { '1/m': { scale: 1 }, '/m': { scale: 1 }, '1/cm': { scale: 100 }, '/cm': { scale: 100 } },
   dimensionless: { '': { scale: 1 }, '%': { scale: 0.01 } },
 };
 
@@ -115,6 +129,10 @@ const ARTICLE: Record<QuantityKind, string> = {
   temperature: 'a temperature',
   time: 'a time',
   resistance: 'a resistance',
+  mass: 'a mass',
+  energy: 'an energy',
+  field: 'an electric field',
+  inverse_length: 'a field per volt',
   dimensionless: 'a plain number',
 };
 
@@ -174,6 +192,10 @@ function example(kind: QuantityKind): string {
     temperature: "'20 degC'",
     time: "'200 us'",
     resistance: "'1.2 ohm'",
+    mass: "'2.5 kg'",
+    energy: "'40 J'",
+    field: "'25 kV/cm'",
+    inverse_length: "'3 1/m'",
     dimensionless: "'0.9'",
   };
   return examples[kind];

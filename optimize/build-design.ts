@@ -1,13 +1,20 @@
 /**
  * From a normal tree (SI numbers, field names of the file) to the physics core's `Design`, with the
- * checks that involve more than one field. Every problem is an InputIssue naming the field.
+ * checks that involve more than one field. Every problem is an FieldIssue naming the field.
  */
 import type { Design, DriverSpec, InsulationGrade, PrimarySpec, ToploadSpec, WireSpec } from '../core/design.ts';
 import { DEFAULT_ENVIRONMENT } from '../core/design.ts';
 import { awgDiameter } from '../core/wire/awg.ts';
-import type { InputIssue } from './input-error.ts';
-import type { LeafValue, NormalSection, NormalTree, WireValue } from './design-schema.ts';
-import { DimensionSlot } from './design-schema.ts';
+import { isSlot, type DimensionSlot, type LeafValue, type NormalSection, type NormalTree, type WireValue } from './design-tree.ts';
+
+/** One problem with a design's fields: the path in the file's names and a one-line reason. */
+export interface FieldIssue {
+  path: ReadonlyArray<string | number>;
+  message: string;
+  /** True when the problem depends on the values (a sweep marks that design infeasible), false when
+   * the fields given cannot make a design at all (the sweep file is refused). */
+  byValue?: boolean;
+}
 
 const GRADES: Record<string, InsulationGrade> = {
   grade_1: 'grade1',
@@ -29,9 +36,9 @@ function text(section: NormalSection, key: string): string | undefined {
 function section(tree: NormalTree, name: string): NormalSection | undefined {
   const value = tree[name];
   if (value === undefined) return undefined;
-  if (value instanceof DimensionSlot) throw new Error(`section ${name} still holds a sweep slot`);
+  if (isSlot(value)) throw new Error(`section ${name} still holds a sweep slot`);
   for (const leaf of Object.values(value)) {
-    if (leaf instanceof DimensionSlot) throw new Error(`section ${name} still holds a sweep slot`);
+    if (isSlot(leaf)) throw new Error(`section ${name} still holds a sweep slot`);
   }
   return value;
 }
@@ -50,7 +57,7 @@ function wireSpec(value: LeafValue | DimensionSlot | undefined, secondary: Norma
 
 export interface DesignBuild {
   design: Design | null;
-  issues: InputIssue[];
+  issues: FieldIssue[];
 }
 
 /**
@@ -58,7 +65,7 @@ export interface DesignBuild {
  * @param basePath prefix of field paths in messages (['design'] for sweep files)
  */
 export function buildDesign(tree: NormalTree, basePath: string[] = []): DesignBuild {
-  const issues: InputIssue[] = [];
+  const issues: FieldIssue[] = [];
   const at = (...path: string[]) => [...basePath, ...path];
   const design: Design = { environment: { ...DEFAULT_ENVIRONMENT } };
 
@@ -84,7 +91,7 @@ export function buildDesign(tree: NormalTree, basePath: string[] = []): DesignBu
     if (pitch !== undefined) spec.pitch = pitch;
     else if (turns !== undefined && windingLength !== undefined) spec.pitch = windingLength / turns;
     if (wire.overallDiameter !== undefined && wire.overallDiameter < wire.bareDiameter) {
-      issues.push({ path: at('secondary', 'wire_overall_diameter'), message: 'the insulated diameter is smaller than the bare wire' });
+      issues.push({ path: at('secondary', 'wire_overall_diameter'), message: 'the insulated diameter is smaller than the bare wire' , byValue: true });
     }
     design.secondary = spec;
   }
@@ -101,6 +108,7 @@ export function buildDesign(tree: NormalTree, basePath: string[] = []): DesignBu
         issues.push({
           path: at('topload', 'tube_diameter'),
           message: `the tube (${mm(spec.tubeDiameter)}) must be smaller than the outer diameter (${mm(spec.outerDiameter)})`,
+          byValue: true,
         });
       }
     } else {
@@ -134,12 +142,12 @@ export function buildDesign(tree: NormalTree, basePath: string[] = []): DesignBu
     };
     const coneAngle = num(primary, 'cone_angle');
     if (coneAngle !== undefined) {
-      if (coneAngle >= Math.PI / 2) issues.push({ path: at('primary', 'cone_angle'), message: 'a cone angle must be below 90 deg (use shape: helix)' });
+      if (coneAngle >= Math.PI / 2) issues.push({ path: at('primary', 'cone_angle'), message: 'a cone angle must be below 90 deg (use shape: helix)' , byValue: true });
       spec.coneAngle = coneAngle;
     }
     const tap = num(primary, 'tap_turns');
     if (tap !== undefined) {
-      if (tap > spec.turns) issues.push({ path: at('primary', 'tap_turns'), message: `the tap (${tap}) lies beyond the last turn (${spec.turns})` });
+      if (tap > spec.turns) issues.push({ path: at('primary', 'tap_turns'), message: `the tap (${tap}) lies beyond the last turn (${spec.turns})` , byValue: true });
       spec.tapTurns = tap;
     }
     design.primary = spec;

@@ -1,0 +1,74 @@
+/**
+ * The files of a run directory and the identity record that ties them together (run.json). A resumed
+ * run, `show`, `refine` and `merge` all start here.
+ */
+import { existsSync, mkdirSync, readdirSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { InputError } from './input-error.ts';
+import { writeFileAtomicSync } from './durable/atomic-write.ts';
+
+export const RUN_FILES = {
+  run: 'run.json',
+  spec: 'spec.yaml',
+  checkpoint: 'checkpoint.json',
+  candidates: 'candidates.csv',
+  front: 'front.csv',
+  summary: 'summary.json',
+  all: 'all.csv',
+  refined: 'refined.csv',
+  refinedDesigns: 'refined.json',
+} as const;
+
+export function journalName(generation: number): string {
+  return `journal-${generation}.log`;
+}
+
+/** What identifies a run: everything that decides its results. */
+export interface RunRecord {
+  format: 'coilfront-run';
+  version: 1;
+  spec_hash: string;
+  seed: number;
+  method: string;
+  samples: number;
+  range: [number, number];
+  shard: { index: number; count: number; source: string } | null;
+  keep: number;
+  batch_size: number;
+  all: boolean;
+  created: string;
+}
+
+export function readRunRecord(directory: string): RunRecord {
+  const path = join(directory, RUN_FILES.run);
+  if (!existsSync(path)) throw new InputError(`${directory}: not a coilfront run directory (no ${RUN_FILES.run})`);
+  try {
+    const record = JSON.parse(readFileSync(path, 'utf8')) as RunRecord;
+    if (record.format !== 'coilfront-run') throw new Error('wrong format');
+    return record;
+  } catch {
+    throw new InputError(`${path}: damaged run record; the run cannot be resumed from this directory`);
+  }
+}
+
+export function writeRunRecord(directory: string, record: RunRecord): void {
+  writeFileAtomicSync(join(directory, RUN_FILES.run), `${JSON.stringify(record, null, 2)}\n`);
+}
+
+/** Creates the output directory, refusing a non-empty one unless `overwrite`. */
+export function prepareOutputDirectory(directory: string, overwrite: boolean): void {
+  if (existsSync(directory)) {
+    const entries = readdirSync(directory);
+    if (entries.length > 0 && !overwrite) {
+      throw new InputError(
+        `--out ${directory}: the directory is not empty; choose another, resume it with --resume ${directory}, or pass --overwrite`,
+      );
+    }
+  } else {
+    try {
+      mkdirSync(directory, { recursive: true });
+    } catch (error) {
+      throw new InputError(`--out ${directory}: cannot create the directory (${(error as NodeJS.ErrnoException).code ?? 'error'})`);
+    }
+  }
+}

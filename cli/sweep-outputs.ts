@@ -1,0 +1,146 @@
+/**
+ * The files a sweep leaves for the morning: candidates.csv (the ranked top K), front.csv (the whole
+ * non-dominated feasible set), summary.json (identity, counts, constraint rejections, hypervolume,
+ * metric quantiles, parameter sensitivities, timing). Written atomically, so a reader never sees half
+ * a file, and from the order-independent state alone, so they are byte-identical however the run went.
+ */
+import { join } from 'node:path';
+import { quantileSorted, sampleRankCorrelation } from 'simple-statistics';
+import { METRIC_KEYS } from '../core/metrics.ts';
+import type { Dimension } from '../optimize/design-tree.ts';
+import { defaultReferencePoint, hypervolume } from '../optimize/pareto/hypervolume.ts';
+import type { RankedEntry } from '../optimize/pareto/candidate-pool.ts';
+import type { CandidateRow, SweepState } from '../optimize/sweep-state.ts';
+import { toCsv, type Cell } from './csv.ts';
+import { writeFileAtomicSync } from './durable/atomic-write.ts';
+import { candidateCells, columnSet } from './sweep-columns.ts';
+import type { SweepSpec } from './sweep-spec.ts';
+
+export interface RunIdentity {
+  specHash: string;
+  seed: number;
+  method: string;
+  /** Samples of the whole sweep (all shards). */
+  samples: number;
+  /** The index range this run covers. */
+  range: [number, number];
+  shard: { index: number; count: number } | null;
+  keep: number;
+}
+
+export interface Timing {
+  wallSeconds: number;
+  designsPerSecond: number;
+  workers: number;
+}
+
+const QUANTILES = [0, 0.05, 0.25, 0.5, 0.75, 0.95, 1];
+
+/** Rows of a ranked list in CSV cells. */
+export function rankedRows(dimensions: readonly Dimension[], ranked: readonly RankedEntry<CandidateRow>[]): Cell[][] {
+  return ranked.map((entry, position) =>
+    candidateCells(
+      dimensions,
+      {
+        rank: position + 1,
+        paretoRank: entry.item.violation === 0 ? entry.paretoRank : null,
+        crowding: entry.item.violation === 0 ? entry.crowding : null,
+        feasible: entry.item.violation === 0,
+        violation: entry.item.violation,
+        index: entry.item.index,
+      },
+      entry.payload,
+    ),
+  );
+}
+
+/** The front in a stable order for plotting: by the first objective, then the others, then index. */
+export function sortedFront(state: SweepState): RankedEntry<CandidateRow>[] {
+  const front = state.pool.front().map((entry) => ({ ...entry, paretoRank: 1, crowding: 0 }));
+  front.sort((a, b) => {
+    for (let j = 0; j < a.item.objectives.length; j++) {
+      const difference = a.item.objectives[j]! - b.item.objectives[j]!;
+      if (difference !== 0) return difference;
+    }
+    return a.item.index - b.item.index;
+  });
+  return front;
+}
+
+/** Hypervolume of the front, minimisation convention, with its reference point (spec or default). */
+export function frontHypervolume(
+  front: readonly { item: { objectives: Float64Array } }[],
+  reference: readonly number[] | null,
+): { value: number; reference_point: number[] } | null {
+  if (front.length === 0 && !reference) return null;
+  const points = front.map((entry) => entry.item.objectives);
+  const point = reference ? Float64Array.from(reference) : defaultReferencePoint(points);
+  return { value: points.length === 0 ? 0 : hypervolume(points, point), reference_point: Array.from(point) };
+}
+
+function summaryStatistics(spec: SweepSpec, state: SweepState): { quantiles: Record<string, Record<string, number>>; sensitivities: Record<string, Record<string, number | null>> } {
+  const items = state.sample.items();
+  const dimensionCount = spec.dimensions.length;
+  const quantiles: Record<string, Record<string, number>> = {};
+  METRIC_KEYS.forEach((key, m) => {
+    const values = items.map((item) => item.payload[dimensionCount + m]!).filter((v) => Number.isFinite(v)).sort((a, b) => a - b);
+    if (values.length === 0) return;
+    const entry: Record<string, number> = {};
+    for (const q of QUANTILES) entry[`q${String(Math.round(q * 100)).padStart(2, '0')}`] = quantileSorted(values, q);
+    quantiles[key] = entry;
+  });
+  const sensitivities: Record<string, Record<string, number | null>> = {};
+  spec.dimensions.forEach((dimension, d) => {
+    const row: Record<string, number | null> = {};
+    for (const objective of spec.objectives) {
+      const column = dimensionCount + METRIC_KEYS.indexOf(objective.metric);
+      const pairs = items.map((item) => [item.payload[d]!, item.payload[column]!]).filter(([x, y]) => Number.isFinite(x) && Number.isFinite(y));
+      let rho: number | null = null;
+      if (pairs.length >= 3) {
+        const value = sampleRankCorrelation(pairs.map((p) => p[0]!), pairs.map((p) => p[1]!));
+        rho = Number.isFinite(value) ? value : null;
+      }
+      row[objective.metric] = rho;
+    }
+    sensitivities[dimension.path.join('.')] = row;
+  });
+  return { quantiles, sensitivities };
+}
+
+/** The summary.json object (timing under "timing", the only part that differs between equal runs). */
+export function summaryObject(spec: SweepSpec, state: SweepState, identity: RunIdentity, timing: Timing, complete: boolean): Record<string, unknown> {
+  const front = sortedFront(state);
+  const { quantiles, sensitivities } = summaryStatistics(spec, state);
+  return {
+    format: 'coilfront-summary',
+    version: 1,
+    complete,
+    spec_hash: identity.specHash,
+    seed: identity.seed,
+    method: identity.method,
+    samples: identity.samples,
+    range: identity.range,
+    shard: identity.shard,
+    keep: identity.keep,
+    counts: { ...state.counts },
+    constraints: spec.constraints.map((constraint, c) => ({ ...constraint, rejected: state.rejectedBy[c] })),
+    objectives: spec.objectives,
+    front_size: front.length,
+    hypervolume: frontHypervolume(front, spec.referencePoint),
+    sample_size: state.sample.size,
+    quantiles,
+    sensitivities,
+    timing: { wall_seconds: timing.wallSeconds, designs_per_second: timing.designsPerSecond, workers: timing.workers },
+    units: 'SI base units (H, F, Hz, V, m, kg, ohm, V/m); hypervolume in the minimisation convention, maximised objectives negated',
+  };
+}
+
+/** Writes candidates.csv, front.csv and summary.json into `directory`. */
+export function writeSweepOutputs(directory: string, spec: SweepSpec, state: SweepState, identity: RunIdentity, timing: Timing, complete: boolean): void {
+  const columns = columnSet(spec.dimensions);
+  const ranked = state.pool.ranked(identity.keep);
+  writeFileAtomicSync(join(directory, 'candidates.csv'), toCsv(columns.header, rankedRows(spec.dimensions, ranked)));
+  const front = sortedFront(state);
+  writeFileAtomicSync(join(directory, 'front.csv'), toCsv(columns.header, rankedRows(spec.dimensions, front)));
+  writeFileAtomicSync(join(directory, 'summary.json'), `${JSON.stringify(summaryObject(spec, state, identity, timing, complete), null, 2)}\n`);
+}

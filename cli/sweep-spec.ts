@@ -1,0 +1,348 @@
+/**
+ * Sweep files: the design tree with ranges and sets, the constraints, the objectives and the sampling
+ * settings, read and validated into a `SweepSpec`. Every problem is one line naming the field path.
+ */
+import { createHash } from 'node:crypto';
+import * as z from 'zod';
+import { METRIC_KEYS } from '../core/metrics.ts';
+import { buildDesign } from '../optimize/build-design.ts';
+import { fillSlots, type Dimension, type NormalTree } from '../optimize/design-tree.ts';
+import { readDesignTree } from './design-schema.ts';
+import { fieldError, InputError, type InputIssue } from './input-error.ts';
+import { metricKind } from './metric-kinds.ts';
+import { readInputFile } from './read-file.ts';
+import { suggest } from './suggest.ts';
+import { describeValue, readQuantity } from './units.ts';
+
+export type SamplingMethod = 'sobol' | 'lhs' | 'grid' | 'random';
+
+export interface ConstraintSpec {
+  metric: string;
+  min?: number;
+  max?: number;
+}
+
+export interface ObjectiveSpec {
+  metric: string;
+  sense: 'minimize' | 'maximize';
+}
+
+export interface SweepSpec {
+  /** The design space: the normal tree with slots, and its dimensions. */
+  tree: NormalTree;
+  dimensions: Dimension[];
+  constraints: ConstraintSpec[];
+  objectives: ObjectiveSpec[];
+  method: SamplingMethod;
+  /** Number of designs (for a grid: the product of its levels). */
+  samples: number;
+  seed: number;
+  /** Grid levels of each dimension (grid method), else null. */
+  gridLevels: number[] | null;
+  /** Hypervolume reference point in the minimisation convention (maximised objectives negated), SI. */
+  referencePoint: number[] | null;
+  /** Shard count for scheduler environments that give only an index (JOB_COMPLETION_INDEX). */
+  shardCount: number | null;
+  /** sha256 of the canonical JSON of the file's content: the identity of a run. */
+  hash: string;
+}
+
+/** Above this many designs a sweep is refused unless --force (a day of a small workstation). */
+export const MAX_SAMPLES_WITHOUT_FORCE = 20_000_000;
+/** Never more than this: 2^32 Sobol points; index arithmetic stays exact. */
+export const MAX_SAMPLES = 2 ** 32;
+
+const TOP_KEYS = ['design', 'constraints', 'objectives', 'sweep'];
+const SWEEP_KEYS = ['method', 'samples', 'seed', 'levels', 'shard_count', 'reference_point'];
+
+function isMapping(value: unknown): value is Record<string, unknown> {
+  return typeof value === 'object' && value !== null && !Array.isArray(value);
+}
+
+function unknownKey(path: Array<string | number>, key: string, known: string[]): InputIssue {
+  const guess = suggest(key, known);
+  return { path: [...path, key], message: guess ? `unknown key '${key}' (did you mean '${guess}'?)` : `unknown key '${key}'; expected one of ${known.join(', ')}` };
+}
+
+function unknownMetric(path: Array<string | number>, key: string): InputIssue {
+  const guess = suggest(key, [...METRIC_KEYS]);
+  return { path, message: `unknown metric '${key}'${guess ? ` (did you mean '${guess}'?)` : '; see the README for the list'}` };
+}
+
+const integerSetting = (what: string, min: number, max: number) =>
+  z.unknown().transform((input, context): number => {
+    if (typeof input !== 'number' || !Number.isInteger(input) || input < min || input > max) {
+      context.addIssue({ code: 'custom', message: `expected ${what} from ${min} to ${max}, got ${describeValue(input)}` });
+      return z.NEVER;
+    }
+    return input;
+  });
+
+const methodSchema = z.unknown().transform((input, context): SamplingMethod => {
+  const methods = ['sobol', 'lhs', 'grid', 'random'] as const;
+  if (typeof input === 'string' && (methods as readonly string[]).includes(input)) return input as SamplingMethod;
+  const guess = typeof input === 'string' ? suggest(input, [...methods]) : null;
+  context.addIssue({ code: 'custom', message: `expected one of sobol, lhs, grid, random, got ${describeValue(input)}${guess ? ` (did you mean '${guess}'?)` : ''}` });
+  return z.NEVER;
+});
+
+function readBound(metric: string, input: unknown, path: Array<string | number>, issues: InputIssue[]): number | undefined {
+  const kind = metricKind(metric)!;
+  const result = readQuantity(input, kind);
+  if (!result.ok) {
+    issues.push({ path, message: result.reason });
+    return undefined;
+  }
+  return result.value;
+}
+
+function readConstraints(input: unknown, issues: InputIssue[]): ConstraintSpec[] {
+  if (input === undefined || input === null) return [];
+  if (!isMapping(input)) {
+    issues.push({ path: ['constraints'], message: `expected a mapping of metric: { min, max }, got ${describeValue(input)}` });
+    return [];
+  }
+  const constraints: ConstraintSpec[] = [];
+  for (const [metric, bounds] of Object.entries(input)) {
+    const path = ['constraints', metric];
+    if (!METRIC_KEYS.includes(metric)) {
+      issues.push(unknownMetric(path, metric));
+      return [];
+    }
+    if (!isMapping(bounds)) {
+      issues.push({ path, message: `expected { min, max } (one or both), got ${describeValue(bounds)}` });
+      return [];
+    }
+    for (const key of Object.keys(bounds)) {
+      if (key !== 'min' && key !== 'max') {
+        issues.push(unknownKey(path, key, ['min', 'max']));
+        return [];
+      }
+    }
+    const constraint: ConstraintSpec = { metric };
+    if (bounds.min !== undefined) {
+      const min = readBound(metric, bounds.min, [...path, 'min'], issues);
+      if (min === undefined) return [];
+      constraint.min = min;
+    }
+    if (bounds.max !== undefined) {
+      const max = readBound(metric, bounds.max, [...path, 'max'], issues);
+      if (max === undefined) return [];
+      constraint.max = max;
+    }
+    if (constraint.min === undefined && constraint.max === undefined) {
+      issues.push({ path, message: 'give min, max or both' });
+      return [];
+    }
+    if (constraint.min !== undefined && constraint.max !== undefined && constraint.min > constraint.max) {
+      issues.push({ path, message: `min (${describeValue(bounds.min)}) is above max (${describeValue(bounds.max)}): no design can satisfy it` });
+      return [];
+    }
+    constraints.push(constraint);
+  }
+  return constraints;
+}
+
+function readObjectives(input: unknown, issues: InputIssue[]): ObjectiveSpec[] {
+  if (!Array.isArray(input)) {
+    issues.push({ path: ['objectives'], message: input === undefined ? 'required: a list of { maximize: metric } or { minimize: metric }' : `expected a list of { maximize: metric } or { minimize: metric }, got ${describeValue(input)}` });
+    return [];
+  }
+  if (input.length < 1 || input.length > 4) {
+    issues.push({ path: ['objectives'], message: `expected 1 to 4 objectives, got ${input.length}` });
+    return [];
+  }
+  const objectives: ObjectiveSpec[] = [];
+  for (let i = 0; i < input.length; i++) {
+    const item = input[i];
+    const path = ['objectives', i];
+    let sense: 'minimize' | 'maximize' | undefined;
+    let metric: unknown;
+    if (typeof item === 'string' && /^(maximize|minimize)\s*:?\s*\S+$/.test(item)) {
+      const [word, name] = item.split(/\s*:\s*|\s+/);
+      sense = word as 'minimize' | 'maximize';
+      metric = name;
+    } else if (isMapping(item) && Object.keys(item).length === 1) {
+      const key = Object.keys(item)[0]!;
+      if (key !== 'maximize' && key !== 'minimize') {
+        issues.push(unknownKey(path, key, ['maximize', 'minimize']));
+        return [];
+      }
+      sense = key;
+      metric = item[key];
+    } else {
+      issues.push({ path, message: `expected { maximize: metric } or { minimize: metric }, got ${describeValue(item)}` });
+      return [];
+    }
+    if (typeof metric !== 'string' || !METRIC_KEYS.includes(metric)) {
+      issues.push(typeof metric === 'string' ? unknownMetric([...path, sense], metric) : { path: [...path, sense], message: `expected a metric name, got ${describeValue(metric)}` });
+      return [];
+    }
+    if (objectives.some((o) => o.metric === metric)) {
+      issues.push({ path: [...path, sense], message: `'${metric}' is already an objective` });
+      return [];
+    }
+    objectives.push({ metric, sense });
+  }
+  return objectives;
+}
+
+function canonicalJson(value: unknown): string {
+  if (Array.isArray(value)) return `[${value.map(canonicalJson).join(',')}]`;
+  if (isMapping(value)) {
+    return `{${Object.keys(value)
+      .sort()
+      .map((key) => `${JSON.stringify(key)}:${canonicalJson(value[key])}`)
+      .join(',')}}`;
+  }
+  return JSON.stringify(value ?? null);
+}
+
+/** Number of levels of a dimension when it is discrete (sets, integers, steps), else null. */
+export function discreteLevels(dimension: Dimension): number | null {
+  if (dimension.kind === 'choose') return dimension.values.length;
+  if (dimension.integer) return Math.floor(dimension.to) - Math.ceil(dimension.from) + 1;
+  if (dimension.step !== null) return Math.floor((dimension.to - dimension.from) / dimension.step + 1e-9) + 1;
+  return null;
+}
+
+export interface SweepReadOptions {
+  force?: boolean;
+}
+
+/** Reads and validates a sweep from its parsed value. Throws the first problem as an InputError. */
+export function sweepFromValue(value: unknown, file: string, options: SweepReadOptions = {}): SweepSpec {
+  const issues: InputIssue[] = [];
+  const fail = (): never => {
+    throw fieldError(file, issues[0]!);
+  };
+  if (!isMapping(value)) {
+    throw new InputError(`${file}: expected a mapping with design, constraints, objectives and sweep, got ${describeValue(value)}`);
+  }
+  for (const key of Object.keys(value)) if (!TOP_KEYS.includes(key)) issues.push(unknownKey([], key, TOP_KEYS));
+  if (issues.length) fail();
+  if (value.design === undefined) {
+    issues.push({ path: ['design'], message: 'required: the design tree, where leaves may be ranges or sets' });
+    fail();
+  }
+  const reading = readDesignTree(value.design, 'sweep', ['design']);
+  if (reading.issues.length) {
+    issues.push(reading.issues[0]!);
+    fail();
+  }
+  const constraints = readConstraints(value.constraints, issues);
+  if (issues.length) fail();
+  const objectives = readObjectives(value.objectives, issues);
+  if (issues.length) fail();
+
+  const sweep = value.sweep ?? {};
+  if (!isMapping(sweep)) {
+    issues.push({ path: ['sweep'], message: `expected a mapping (method, samples, seed), got ${describeValue(sweep)}` });
+    fail();
+  }
+  const settings = sweep as Record<string, unknown>;
+  for (const key of Object.keys(settings)) if (!SWEEP_KEYS.includes(key)) issues.push(unknownKey(['sweep'], key, SWEEP_KEYS));
+  if (issues.length) fail();
+  const parseSetting = <T>(key: string, schema: z.ZodType<T>, fallback: T): T => {
+    if (settings[key] === undefined) return fallback;
+    const result = schema.safeParse(settings[key]);
+    if (result.success) return result.data;
+    issues.push({ path: ['sweep', key], message: result.error.issues[0]!.message });
+    return fallback;
+  };
+  const method = parseSetting('method', methodSchema, 'sobol' as SamplingMethod);
+  const seed = parseSetting('seed', integerSetting('an integer seed', 0, 2 ** 32 - 1), 1);
+  const levels = parseSetting('levels', integerSetting('a number of grid levels', 2, 1000), 5);
+  const shardCount = parseSetting('shard_count', integerSetting('a shard count', 1, 100_000), null as number | null);
+  let samples = 0;
+  if (issues.length) fail();
+  const dimensions = reading.dimensions;
+  let gridLevels: number[] | null = null;
+  if (method === 'grid') {
+    if (settings.samples !== undefined) {
+      issues.push({ path: ['sweep', 'samples'], message: 'a grid has no sample count: its size is the product of its levels (set sweep.levels)' });
+      fail();
+    }
+    gridLevels = dimensions.map((d) => discreteLevels(d) ?? levels);
+    samples = gridLevels.reduce((product, n) => product * n, 1);
+  } else {
+    if (settings.samples === undefined) {
+      issues.push({ path: ['sweep', 'samples'], message: `required for method ${method}: the number of designs to evaluate` });
+      fail();
+    }
+    samples = parseSetting('samples', integerSetting('a whole number of samples', 1, MAX_SAMPLES), 0);
+    if (issues.length) fail();
+    if (method === 'sobol' && dimensions.length > 64) {
+      issues.push({ path: ['design'], message: `${dimensions.length} varied fields; Sobol sampling here supports up to 64 (use lhs or random)` });
+      fail();
+    }
+  }
+  if (samples > MAX_SAMPLES) {
+    issues.push({ path: ['sweep', method === 'grid' ? 'levels' : 'samples'], message: `${samples} designs is beyond the limit of ${MAX_SAMPLES}` });
+    fail();
+  }
+  if (samples > MAX_SAMPLES_WITHOUT_FORCE && !options.force) {
+    issues.push({
+      path: ['sweep', method === 'grid' ? 'levels' : 'samples'],
+      message: `${samples} designs is more than ${MAX_SAMPLES_WITHOUT_FORCE}; run with --force if you mean it`,
+    });
+    fail();
+  }
+  if (dimensions.length === 0) {
+    issues.push({ path: ['design'], message: 'nothing varies: give at least one range or set (or use coilfront evaluate)' });
+    fail();
+  }
+  // The reference point: a mapping metric -> value, in objective units.
+  let referencePoint: number[] | null = null;
+  if (settings.reference_point !== undefined) {
+    const given = settings.reference_point;
+    if (!isMapping(given)) {
+      issues.push({ path: ['sweep', 'reference_point'], message: `expected a mapping objective metric: value, got ${describeValue(given)}` });
+      fail();
+    }
+    const point: number[] = [];
+    for (const objective of objectives) {
+      const bound = (given as Record<string, unknown>)[objective.metric];
+      if (bound === undefined) {
+        issues.push({ path: ['sweep', 'reference_point', objective.metric], message: 'required: one value for each objective' });
+        fail();
+      }
+      const read = readBound(objective.metric, bound, ['sweep', 'reference_point', objective.metric], issues);
+      if (read === undefined) fail();
+      point.push(objective.sense === 'maximize' ? -read! : read!);
+    }
+    for (const key of Object.keys(given as object)) {
+      if (!objectives.some((o) => o.metric === key)) {
+        issues.push({ path: ['sweep', 'reference_point', key], message: `'${key}' is not an objective` });
+        fail();
+      }
+    }
+    referencePoint = point;
+  }
+  // Structural check: the first corner of the space must build as a design (field combinations).
+  const probe = fillSlots(reading.tree, dimensions, dimensions.map((d) => (d.kind === 'range' ? d.from : 0)));
+  const built = buildDesign(probe, ['design']);
+  const structural = built.issues.find((issue) => !issue.byValue);
+  if (structural) {
+    issues.push(structural);
+    fail();
+  }
+  return {
+    tree: reading.tree,
+    dimensions,
+    constraints,
+    objectives,
+    method,
+    samples,
+    seed,
+    gridLevels,
+    referencePoint,
+    shardCount,
+    hash: createHash('sha256').update(canonicalJson(value)).digest('hex'),
+  };
+}
+
+/** Loads a sweep file (YAML or JSON). */
+export function loadSweepFile(file: string, options: SweepReadOptions = {}): SweepSpec {
+  return sweepFromValue(readInputFile(file), file, options);
+}

@@ -1,0 +1,76 @@
+/**
+ * The normal tree: a design as the file names it, every quantity already an SI number, every wire a
+ * gauge or a bare diameter. A sweep's design space is a normal tree with *slots* where its dimensions
+ * go; filling the slots from a sample point gives one design's tree. Plain data throughout (no class
+ * instances), so a space travels to worker threads, into checkpoints and into summary.json as it is.
+ */
+
+/** A wire as written: a gauge or a bare diameter (SI). */
+export type WireValue = { awg: number } | { bareDiameter: number };
+
+export type LeafValue = number | string | boolean | WireValue;
+
+/** Marks where a sweep dimension's value goes: `{ slot: 3 }` is dimension 3. */
+export interface DimensionSlot {
+  slot: number;
+}
+
+/** A section of the normal tree: field name → value (or a slot in a sweep). */
+export type NormalSection = Record<string, LeafValue | DimensionSlot>;
+
+/** The normal tree: section name → section (or a slot when a sweep chooses whole sections). */
+export type NormalTree = Record<string, NormalSection | DimensionSlot>;
+
+/** One dimension of a design space. */
+export type Dimension =
+  | {
+      kind: 'range';
+      /** Path in the file: ['secondary', 'turns']. */
+      path: string[];
+      /** Kind of quantity (for display units), e.g. 'length', 'dimensionless'. */
+      quantity: string;
+      from: number;
+      to: number;
+      scale: 'linear' | 'log';
+      integer: boolean;
+      /** Spacing of allowed values from `from`, or null for a continuum. */
+      step: number | null;
+    }
+  | {
+      kind: 'choose';
+      path: string[];
+      /** Normal values (leaf values, or whole normal sections). */
+      values: Array<LeafValue | NormalSection>;
+      /** Short labels for CSV columns, as the user wrote each choice. */
+      labels: string[];
+    };
+
+export function isSlot(value: unknown): value is DimensionSlot {
+  return typeof value === 'object' && value !== null && 'slot' in value && Object.keys(value).length === 1;
+}
+
+/** The value a dimension takes for each design: a number (range) or a choice's position (set). */
+export type DimensionValue = number;
+
+/**
+ * Fills the slots of a space's tree with dimension values: ranges put their number, sets put the
+ * chosen value (a whole section for section sets). Pure; the space's tree is not changed.
+ */
+export function fillSlots(tree: NormalTree, dimensions: readonly Dimension[], values: ArrayLike<number>): NormalTree {
+  const filled: NormalTree = {};
+  const valueOf = (slot: DimensionSlot): LeafValue | NormalSection => {
+    const dimension = dimensions[slot.slot]!;
+    const value = values[slot.slot]!;
+    return dimension.kind === 'range' ? value : dimension.values[value]!;
+  };
+  for (const [name, section] of Object.entries(tree)) {
+    if (isSlot(section)) {
+      filled[name] = valueOf(section) as NormalSection;
+      continue;
+    }
+    const out: NormalSection = {};
+    for (const [key, leaf] of Object.entries(section)) out[key] = isSlot(leaf) ? (valueOf(leaf) as LeafValue) : leaf;
+    filled[name] = out;
+  }
+  return filled;
+}

@@ -1,0 +1,210 @@
+/**
+ * What the main thread keeps of a sweep while it runs: the counts, how many designs each constraint
+ * rejected, the exact bounded store of the best candidates (CandidatePool: top-K and the whole
+ * non-dominated feasible set), and a uniform sample of feasible designs for the summary statistics.
+ *
+ * Everything here is a function of the *set* of evaluated designs, never of the order in which batches
+ * came back: the same sweep gives the same state with 1 or 16 workers, after a resume, or merged from
+ * cluster shards. Memory is bounded by `keep` and the sample size, not by the number of samples.
+ */
+import { METRIC_KEYS, metricIndex } from '../core/metrics.ts';
+import { STATUS_FAILED, STATUS_OK, STATUS_PROBLEM, type BatchResult } from './evaluate-batch.ts';
+import { CandidatePool, type CandidatePoolData } from './pareto/candidate-pool.ts';
+import { totalViolation } from './pareto/constraint-violation.ts';
+import { IndexSample, type IndexSampleData } from './sampling/index-sample.ts';
+
+export interface ObjectiveDefinition {
+  metric: string;
+  sense: 'minimize' | 'maximize';
+}
+
+export interface ConstraintDefinition {
+  metric: string;
+  min?: number;
+  max?: number;
+}
+
+/** One candidate as stored: its dimension values, every metric (null where none), status and reason. */
+export interface CandidateRow {
+  values: number[];
+  metrics: Array<number | null>;
+  status: number;
+  reason: string | null;
+  warnings: number;
+}
+
+/** Violation given to designs that could not be built (after every evaluated infeasible design). */
+export const PROBLEM_VIOLATION = 1e9;
+/** Violation given to designs whose evaluation failed (last of all). */
+export const FAILED_VIOLATION = 2e9;
+
+export interface SweepCounts {
+  evaluated: number;
+  feasible: number;
+  /** Evaluated, but violating at least one constraint (or lacking an objective). */
+  infeasible: number;
+  /** Could not be built as given (impossible geometry): infeasible with a reason. */
+  impossible: number;
+  /** The evaluation threw, gave a non-finite metric, or its worker died twice. */
+  failed: number;
+}
+
+export interface SweepStateData {
+  kind: 'coilfront-sweep-state';
+  version: 1;
+  counts: SweepCounts;
+  rejectedBy: number[];
+  pool: CandidatePoolData<CandidateRow>;
+  sample: IndexSampleData<number[]>;
+}
+
+/** Size of the feasible sample behind summary quantiles and rank correlations. */
+export const SUMMARY_SAMPLE_SIZE = 10_000;
+
+export class SweepState {
+  counts: SweepCounts = { evaluated: 0, feasible: 0, infeasible: 0, impossible: 0, failed: 0 };
+  rejectedBy: number[];
+  pool: CandidatePool<CandidateRow>;
+  /** Feasible designs: dimension values followed by metrics (NaN as null). */
+  sample: IndexSample<number[]>;
+  private readonly constraintColumns: number[];
+  private readonly objectiveColumns: number[];
+
+  constructor(
+    readonly objectives: readonly ObjectiveDefinition[],
+    readonly constraints: readonly ConstraintDefinition[],
+    readonly keep: number,
+    readonly seed: number,
+  ) {
+    this.rejectedBy = constraints.map(() => 0);
+    this.pool = new CandidatePool<CandidateRow>(keep, objectives.length);
+    this.sample = new IndexSample<number[]>(SUMMARY_SAMPLE_SIZE, seed);
+    this.constraintColumns = constraints.map((c) => metricIndex(c.metric));
+    this.objectiveColumns = objectives.map((o) => metricIndex(o.metric));
+  }
+
+  /** Objective vector of a metrics row in the minimisation convention, or null if one is missing. */
+  objectiveVector(metrics: ArrayLike<number>, offset = 0): Float64Array | null {
+    const vector = new Float64Array(this.objectives.length);
+    for (let j = 0; j < this.objectives.length; j++) {
+      const value = metrics[offset + this.objectiveColumns[j]!]!;
+      if (!Number.isFinite(value)) return null;
+      vector[j] = this.objectives[j]!.sense === 'maximize' ? -value : value;
+    }
+    return vector;
+  }
+
+  /** Constraint violation of a metrics row (Deb 2000; missing constrained metric counts 1). */
+  violationOf(metrics: ArrayLike<number>, offset = 0): number {
+    const values = this.constraintColumns.map((column) => metrics[offset + column]!);
+    return totalViolation(values, this.constraints);
+  }
+
+  /** Takes in one batch of results: sample indices `start + row`. */
+  offerBatch(result: BatchResult, dimensionCount: number): void {
+    const metricCount = METRIC_KEYS.length;
+    const reasons = new Map(result.reasons);
+    for (let row = 0; row < result.count; row++) {
+      const index = result.start + row;
+      const offset = row * metricCount;
+      const status = result.status[row]!;
+      this.counts.evaluated++;
+      const candidate = (reason: string | null, rowStatus: number): CandidateRow => ({
+        values: Array.from(result.values.subarray(row * dimensionCount, (row + 1) * dimensionCount)),
+        metrics: Array.from(result.metrics.subarray(offset, offset + metricCount), (v) => (Number.isFinite(v) ? v : null)),
+        status: rowStatus,
+        reason,
+        warnings: result.warningCounts[row]!,
+      });
+      if (status !== STATUS_OK) {
+        if (status === STATUS_PROBLEM) this.counts.impossible++;
+        else this.counts.failed++;
+        const violation = status === STATUS_FAILED ? FAILED_VIOLATION : PROBLEM_VIOLATION;
+        this.pool.offer(
+          { index, violation, objectives: new Float64Array(this.objectives.length) },
+          candidate(reasons.get(row) ?? 'not evaluated', status),
+        );
+        continue;
+      }
+      let violation = this.violationOf(result.metrics, offset);
+      for (let c = 0; c < this.constraints.length; c++) {
+        const value = result.metrics[offset + this.constraintColumns[c]!]!;
+        const { min, max } = this.constraints[c]!;
+        if (!Number.isFinite(value) || (min !== undefined && value < min) || (max !== undefined && value > max)) this.rejectedBy[c]!++;
+      }
+      const objectives = this.objectiveVector(result.metrics, offset);
+      let reason: string | null = null;
+      if (objectives === null) {
+        const missing = this.objectives.find((o) => !Number.isFinite(result.metrics[offset + metricIndex(o.metric)]!))!;
+        reason = `objective ${missing.metric} is not available for this design`;
+        violation = Math.max(violation, 0) + 1;
+      } else if (violation > 0) {
+        reason = this.describeViolation(result.metrics, offset);
+      }
+      const row_ = candidate(reason, status);
+      if (violation > 0) {
+        this.counts.infeasible++;
+        this.pool.offer({ index, violation, objectives: objectives ?? new Float64Array(this.objectives.length) }, row_);
+        continue;
+      }
+      this.counts.feasible++;
+      this.pool.offer({ index, violation: 0, objectives: objectives! }, row_);
+      const sampleRow = [...row_.values, ...Array.from(result.metrics.subarray(offset, offset + metricCount))];
+      this.sample.offer(index, sampleRow.map((v) => (Number.isFinite(v) ? v : Number.NaN)));
+    }
+  }
+
+  /** Which constraints a row violates, in words: 'resonant_frequency below its min; overall_height above its max'. */
+  describeViolation(metrics: ArrayLike<number>, offset = 0): string {
+    const parts: string[] = [];
+    for (let c = 0; c < this.constraints.length; c++) {
+      const value = metrics[offset + this.constraintColumns[c]!]!;
+      const { metric, min, max } = this.constraints[c]!;
+      if (!Number.isFinite(value)) parts.push(`${metric} not available`);
+      else if (min !== undefined && value < min) parts.push(`${metric} below its min`);
+      else if (max !== undefined && value > max) parts.push(`${metric} above its max`);
+    }
+    return parts.join('; ');
+  }
+
+  /** Adds another state (another shard's): the result is the state of the union of their designs. */
+  merge(other: SweepState): void {
+    for (const key of Object.keys(this.counts) as Array<keyof SweepCounts>) this.counts[key] += other.counts[key];
+    other.rejectedBy.forEach((n, c) => (this.rejectedBy[c]! += n));
+    this.pool.merge(other.pool);
+    this.sample.merge(other.sample);
+  }
+
+  toJSON(): SweepStateData {
+    return {
+      kind: 'coilfront-sweep-state',
+      version: 1,
+      counts: { ...this.counts },
+      rejectedBy: [...this.rejectedBy],
+      pool: this.pool.toJSON(),
+      sample: jsonSafeSample(this.sample.toJSON()),
+    };
+  }
+
+  static restore(
+    data: SweepStateData,
+    objectives: readonly ObjectiveDefinition[],
+    constraints: readonly ConstraintDefinition[],
+    keep: number,
+    seed: number,
+  ): SweepState {
+    const state = new SweepState(objectives, constraints, keep, seed);
+    state.counts = { ...data.counts };
+    state.rejectedBy = [...data.rejectedBy];
+    state.pool = CandidatePool.restore(data.pool);
+    state.sample = IndexSample.restore({
+      ...data.sample,
+      items: data.sample.items.map((item) => ({ index: item.index, payload: item.payload.map((v) => (v === null ? Number.NaN : v)) })),
+    });
+    return state;
+  }
+}
+
+function jsonSafeSample(data: IndexSampleData<number[]>): IndexSampleData<number[]> {
+  return { ...data, items: data.items.map((item) => ({ index: item.index, payload: item.payload.map((v) => (Number.isFinite(v) ? v : (null as unknown as number))) })) };
+}

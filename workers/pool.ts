@@ -1,0 +1,87 @@
+/**
+ * The worker pool: piscina threads that evaluate batches of designs of one design space. Only this
+ * folder knows about threads; optimize/ sees a BatchEvaluator.
+ *
+ * A worker that dies (throws outside a design, exits, runs out of memory) is replaced by piscina; the
+ * batch it held is retried once, and if it fails again its designs come back as failed rows with the
+ * reason, so a sweep always goes on.
+ */
+import { availableParallelism } from 'node:os';
+import { fileURLToPath } from 'node:url';
+import { Piscina } from 'piscina';
+import { METRIC_KEYS } from '../core/metrics.ts';
+import type { SpaceDefinition } from '../optimize/design-space.ts';
+import { STATUS_FAILED, type BatchEvaluator, type BatchResult, type BatchTask } from '../optimize/evaluate-batch.ts';
+
+/** Default number of threads: the machine's available parallelism. */
+export function defaultWorkerCount(): number {
+  return Math.max(1, availableParallelism());
+}
+
+export interface PoolOptions {
+  threads: number;
+  /** Called once for each batch that had to be retried, with the reason (for the log). */
+  onRetry?: (task: BatchTask, reason: string) => void;
+}
+
+function failedResult(task: BatchTask, dimensions: number, reason: string): BatchResult {
+  const count = task.count;
+  return {
+    start: task.kind === 'indices' ? task.start : -1,
+    count,
+    values: task.kind === 'values' ? task.values.slice() : new Float64Array(count * dimensions).fill(Number.NaN),
+    metrics: new Float64Array(count * METRIC_KEYS.length).fill(Number.NaN),
+    status: new Uint8Array(count).fill(STATUS_FAILED),
+    reasons: Array.from({ length: count }, (_, row) => [row, reason] as [number, string]),
+    warningCounts: new Uint16Array(count),
+  };
+}
+
+/** A BatchEvaluator backed by a piscina pool of `threads` workers. */
+export function createWorkerPool(space: SpaceDefinition, options: PoolOptions): BatchEvaluator & { threads: number } {
+  const threads = Math.max(1, Math.floor(options.threads));
+  const pool = new Piscina({
+    filename: resolveWorkerFile(),
+    minThreads: threads,
+    maxThreads: threads,
+    idleTimeout: 60_000,
+    workerData: { space },
+    // Workers inherit the environment (the test crash hook reads it).
+    env: process.env as Record<string, string>,
+  });
+  const dimensions = space.dimensions.length;
+  const run = async (task: BatchTask): Promise<BatchResult> => {
+    try {
+      return (await pool.run(task)) as BatchResult;
+    } catch (first) {
+      const reason = describeFailure(first);
+      options.onRetry?.(task, reason);
+      try {
+        return (await pool.run(task)) as BatchResult;
+      } catch (second) {
+        return failedResult(task, dimensions, `worker failed twice on this batch: ${describeFailure(second)}`);
+      }
+    }
+  };
+  return {
+    threads,
+    evaluate: run,
+    close: async () => {
+      await pool.destroy();
+    },
+  };
+}
+
+function describeFailure(error: unknown): string {
+  if (error instanceof Error) return error.message.split('\n')[0]!;
+  return String(error);
+}
+
+function resolveWorkerFile(): string {
+  const here = fileURLToPath(import.meta.url);
+  // Built: dist/workers/pool.js → dist/workers/evaluate-worker.js. From sources under vitest:
+  // workers/pool.ts → dist/workers/evaluate-worker.js (workers must be built JS; `npm test` builds).
+  if (here.endsWith('.js')) return here.replace(/pool\.js$/, 'evaluate-worker.js');
+  return here.replace(/workers[\\/]pool\.ts$/, 'dist/workers/evaluate-worker.js');
+}
+
