@@ -1,0 +1,246 @@
+/**
+ * One burst of a solid-state bridge driving the tank circuit (a double-resonant drive).
+ *
+ * The bridge puts a square wave e(t) = ±E in series with the primary loop (E = bus voltage for a
+ * full bridge, half of it for a half bridge) and switches at each zero of the primary current, so
+ * e always has the sign of i1: the drive follows the circuit's own resonance, as current-feedback
+ * drivers do (common practice [C]). The burst ends at the on-time, after the given number of drive
+ * cycles, or when |i1| reaches the current limit, whichever comes first; the bridge then stops.
+ *
+ * The circuit (circuit.ts) is integrated by the classical fourth-order Runge–Kutta method on a
+ * fixed step of 1/256 of the upper mode's period (Butcher, Numerical Methods for Ordinary
+ * Differential Equations, 2008, §23), each switching instant and the current-limit instant being
+ * located inside its step by secant iteration so that no step straddles a change of e.
+ */
+import type { CoupledCircuit } from './circuit.ts';
+import { losslessModeFrequencies } from './circuit.ts';
+
+/** The bridge, SI. */
+export interface BridgeDrive {
+  /** Amplitude E of the square wave across the primary loop, V. */
+  driveVoltage: number;
+  /** Peak primary current at which the burst is cut, A (none: unlimited). */
+  currentLimit?: number;
+  /** Burst length, s. */
+  onTime?: number;
+  /** Burst length in drive cycles (two switchings each). */
+  cycles?: number;
+}
+
+export type BurstEnd = 'on_time' | 'cycles' | 'current_limit' | 'step_limit';
+
+/** What one burst does, SI. */
+export interface SolidStateBurst {
+  /** When the burst ended, s, and why. */
+  endTime: number;
+  endReason: BurstEnd;
+  /** Completed drive cycles (switchings / 2). */
+  cycles: number;
+  /** Largest |v2| during the burst, V. */
+  peakVoltage: number;
+  /** Largest |i1| and |v1| during the burst, A and V. */
+  peakPrimaryCurrent: number;
+  peakTankVoltage: number;
+  /** Energy drawn from the supply, ∫ e·i1 dt, J. */
+  energyFromSource: number;
+  /** Energy dissipated in R1 and R2, ∫ (R1 i1² + R2 i2²) dt, J. */
+  energyDissipated: number;
+  /** State [v1, v2, i1, i2] at the end. */
+  finalState: Float64Array;
+}
+
+/** Steps per period of the upper normal mode. */
+export const STEPS_PER_CYCLE = 256;
+/** Upper bound on integration steps (≈ 4000 cycles). */
+const MAX_STEPS = 1_000_000;
+
+/**
+ * Simulates one burst from rest (all voltages and currents zero).
+ * @param circuit lumped values, SI (C1 is the tank capacitor in series with the bridge)
+ * @param drive the bridge
+ * Needs onTime or cycles (else the burst runs to the step limit). Cost: 256 RK4 steps per cycle.
+ */
+export function solidStateBurst(circuit: CoupledCircuit, drive: BridgeDrive): SolidStateBurst {
+  const [, omegaHigh] = losslessModeFrequencies(circuit);
+  const step = (2 * Math.PI) / omegaHigh / STEPS_PER_CYCLE;
+  const constants = stepConstants(circuit);
+  const state = new Float64Array(5); // v1, v2, i1, i2, dissipated energy
+  const trial = new Float64Array(5);
+  const onTime = drive.onTime ?? Infinity;
+  const switchLimit = drive.cycles === undefined ? Infinity : 2 * drive.cycles;
+  const currentLimit = drive.currentLimit ?? Infinity;
+  let polarity = 1;
+  let switchings = 0;
+  let time = 0;
+  let energyFromSource = 0;
+  let peakVoltage = 0;
+  let peakPrimaryCurrent = 0;
+  let peakTankVoltage = 0;
+  let endReason: BurstEnd = 'step_limit';
+
+  const advance = (from: Float64Array, to: Float64Array, length: number): void => {
+    rungeKuttaStep(constants, polarity * drive.driveVoltage, from, to, length);
+  };
+  const accept = (next: Float64Array): void => {
+    energyFromSource += polarity * drive.driveVoltage * circuit.primaryCapacitance * (next[0] - state[0]);
+    state.set(next);
+    peakVoltage = Math.max(peakVoltage, Math.abs(state[1]));
+    peakPrimaryCurrent = Math.max(peakPrimaryCurrent, Math.abs(state[2]));
+    peakTankVoltage = Math.max(peakTankVoltage, Math.abs(state[0]));
+  };
+
+  for (let n = 0; n < MAX_STEPS; n++) {
+    const length = Math.min(step, onTime - time);
+    if (length <= 0) {
+      endReason = 'on_time';
+      break;
+    }
+    advance(state, trial, length);
+    // Events inside this step, as fractions of it: the current crossing the limit, or reversing.
+    const limitFraction = Math.abs(trial[2]) >= currentLimit
+      ? locate(state, trial, length, (s) => Math.abs(s[2]) - currentLimit, advance)
+      : Infinity;
+    const reverseFraction = polarity * trial[2] < 0 && n > 0
+      ? locate(state, trial, length, (s) => polarity * s[2], advance)
+      : Infinity;
+    const fraction = Math.min(limitFraction, reverseFraction);
+    if (fraction === Infinity) {
+      accept(trial);
+      time += length;
+      if (length < step) {
+        endReason = 'on_time';
+        break;
+      }
+      continue;
+    }
+    advance(state, trial, fraction * length);
+    accept(trial);
+    time += fraction * length;
+    if (limitFraction <= reverseFraction) {
+      endReason = 'current_limit';
+      break;
+    }
+    polarity = -polarity;
+    switchings++;
+    if (switchings >= switchLimit) {
+      endReason = 'cycles';
+      break;
+    }
+  }
+  return {
+    endTime: time,
+    endReason,
+    cycles: switchings / 2,
+    peakVoltage,
+    peakPrimaryCurrent,
+    peakTankVoltage,
+    energyFromSource,
+    energyDissipated: state[4],
+    finalState: state.slice(0, 4),
+  };
+}
+
+/**
+ * Fraction θ ∈ (0, 1] of a step at which g(state) reaches zero, by secant iteration on θ
+ * (g(start) has the opposite sign of g(end)); refines to ~1e-12 of the step.
+ */
+function locate(
+  start: Float64Array,
+  end: Float64Array,
+  length: number,
+  g: (s: Float64Array) => number,
+  advance: (from: Float64Array, to: Float64Array, length: number) => void,
+): number {
+  const probe = new Float64Array(5);
+  let lowFraction = 0;
+  let lowValue = g(start);
+  let highFraction = 1;
+  let highValue = g(end);
+  if (lowValue === 0) return 0;
+  let fraction = 1;
+  for (let iteration = 0; iteration < 30; iteration++) {
+    // regula falsi with the Illinois modification
+    fraction = lowFraction - (lowValue * (highFraction - lowFraction)) / (highValue - lowValue);
+    advance(start, probe, fraction * length);
+    const value = g(probe);
+    if (Math.abs(value) === 0 || highFraction - lowFraction < 1e-12) break;
+    if (Math.sign(value) === Math.sign(lowValue)) {
+      lowFraction = fraction;
+      lowValue = value;
+      highValue /= 2;
+    } else {
+      highFraction = fraction;
+      highValue = value;
+      lowValue /= 2;
+    }
+    if (Math.abs(value) < 1e-13 * (Math.abs(g(start)) + Math.abs(g(end)))) break;
+  }
+  return fraction;
+}
+
+/** The circuit's constants in the form the integrator uses: 1/C and the inverse inductance matrix. */
+interface StepConstants {
+  inverseC1: number;
+  inverseC2: number;
+  r1: number;
+  r2: number;
+  /** (L⁻¹) entries: [[g11, g12], [g12, g22]] = [[L2, −M], [−M, L1]] / (L1L2 − M²) */
+  g11: number;
+  g12: number;
+  g22: number;
+}
+
+function stepConstants(circuit: CoupledCircuit): StepConstants {
+  const determinant = circuit.primaryInductance * circuit.secondaryInductance - circuit.mutualInductance ** 2;
+  return {
+    inverseC1: 1 / circuit.primaryCapacitance,
+    inverseC2: 1 / circuit.secondaryCapacitance,
+    r1: circuit.primaryResistance,
+    r2: circuit.secondaryResistance,
+    g11: circuit.secondaryInductance / determinant,
+    g12: -circuit.mutualInductance / determinant,
+    g22: circuit.primaryInductance / determinant,
+  };
+}
+
+/**
+ * One classical RK4 step (Butcher 2008, §23) of the loop equations (circuit.ts) with a constant
+ * source e in the primary loop; state [v1, v2, i1, i2, W_R], W_R = ∫(R1 i1² + R2 i2²) dt.
+ */
+function rungeKuttaStep(k: StepConstants, source: number, from: Float64Array, to: Float64Array, h: number): void {
+  const { inverseC1, inverseC2, r1, r2, g11, g12, g22 } = k;
+  const v1 = from[0], v2 = from[1], i1 = from[2], i2 = from[3];
+  // stage 1
+  let a1 = source - r1 * i1 - v1;
+  let a2 = -r2 * i2 - v2;
+  const dv1a = i1 * inverseC1, dv2a = i2 * inverseC2;
+  const di1a = g11 * a1 + g12 * a2, di2a = g12 * a1 + g22 * a2;
+  const pa = r1 * i1 * i1 + r2 * i2 * i2;
+  // stage 2
+  let sv1 = v1 + 0.5 * h * dv1a, sv2 = v2 + 0.5 * h * dv2a, si1 = i1 + 0.5 * h * di1a, si2 = i2 + 0.5 * h * di2a;
+  a1 = source - r1 * si1 - sv1;
+  a2 = -r2 * si2 - sv2;
+  const dv1b = si1 * inverseC1, dv2b = si2 * inverseC2;
+  const di1b = g11 * a1 + g12 * a2, di2b = g12 * a1 + g22 * a2;
+  const pb = r1 * si1 * si1 + r2 * si2 * si2;
+  // stage 3
+  sv1 = v1 + 0.5 * h * dv1b; sv2 = v2 + 0.5 * h * dv2b; si1 = i1 + 0.5 * h * di1b; si2 = i2 + 0.5 * h * di2b;
+  a1 = source - r1 * si1 - sv1;
+  a2 = -r2 * si2 - sv2;
+  const dv1c = si1 * inverseC1, dv2c = si2 * inverseC2;
+  const di1c = g11 * a1 + g12 * a2, di2c = g12 * a1 + g22 * a2;
+  const pc = r1 * si1 * si1 + r2 * si2 * si2;
+  // stage 4
+  sv1 = v1 + h * dv1c; sv2 = v2 + h * dv2c; si1 = i1 + h * di1c; si2 = i2 + h * di2c;
+  a1 = source - r1 * si1 - sv1;
+  a2 = -r2 * si2 - sv2;
+  const dv1d = si1 * inverseC1, dv2d = si2 * inverseC2;
+  const di1d = g11 * a1 + g12 * a2, di2d = g12 * a1 + g22 * a2;
+  const pd = r1 * si1 * si1 + r2 * si2 * si2;
+  const sixth = h / 6;
+  to[0] = v1 + sixth * (dv1a + 2 * dv1b + 2 * dv1c + dv1d);
+  to[1] = v2 + sixth * (dv2a + 2 * dv2b + 2 * dv2c + dv2d);
+  to[2] = i1 + sixth * (di1a + 2 * di1b + 2 * di1c + di1d);
+  to[3] = i2 + sixth * (di2a + 2 * di2b + 2 * di2c + di2d);
+  to[4] = from[4] + sixth * (pa + 2 * pb + 2 * pc + pd);
+}
