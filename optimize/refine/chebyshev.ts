@@ -116,9 +116,13 @@ export function frontExtent(front: ReadonlyArray<ArrayLike<number>>): FrontExten
 /**
  * A utopian reference point z_i = ideal_i − margin·(nadir_i − ideal_i) (margin·1 where the range
  * is 0), strictly better than every front point, as the Chebyshev method requires for proper
- * Pareto optima (Miettinen 1999, Part II §3.4). Default margin 0.05 (common practice).
+ * Pareto optima (Miettinen 1999, Part II §3.4). Default margin 1 (ours): a sweep's front can lie
+ * well above the true front, and once a refined point passes below the reference point in some
+ * objective the Chebyshev merit stops seeing that objective (only the augmentation term does); on
+ * ZDT1 from a coarse sample, margin 1 gave more hypervolume than the customary small margin
+ * 0.05 (test/optimize/refine-chebyshev.test.ts pins both).
  */
-export function utopianPoint(extent: FrontExtent, margin = 0.05): Float64Array {
+export function utopianPoint(extent: FrontExtent, margin = 1): Float64Array {
   const count = extent.ideal.length;
   const reference = new Float64Array(count);
   for (let i = 0; i < count; i++) {
@@ -195,11 +199,11 @@ export interface ChebyshevPlan {
 
 /**
  * Plans a multi-objective refinement: `count` starts spread over the front (`chooseStarts`), a
- * utopian reference point just below the front's ideal point, and for each start the weights of
+ * utopian reference point below the front's ideal point (`utopianPoint`, `margin`), and for each start the weights of
  * `weightsForFrontPoint`. With one objective the weights are [1] and the merit is the objective
  * itself up to a positive affine map, so refinement is plain minimisation.
  */
-export function planChebyshevStarts(front: ReadonlyArray<ArrayLike<number>>, count: number, margin = 0.05): ChebyshevPlan {
+export function planChebyshevStarts(front: ReadonlyArray<ArrayLike<number>>, count: number, margin = 1): ChebyshevPlan {
   const extent = frontExtent(front);
   const reference = utopianPoint(extent, margin);
   const starts = chooseStarts(front, count).map((frontIndex) => ({

@@ -1,5 +1,5 @@
 import type { EvaluationCache } from './evaluation-cache.ts';
-import { isBetterMerit } from './merit.ts';
+import { isBetterMerit, meritDistance } from './merit.ts';
 import type { Merit } from './merit.ts';
 import { copyMixedPoint, mixedPoint } from './mixed-point.ts';
 import type { MixedPoint } from './mixed-point.ts';
@@ -18,6 +18,14 @@ export interface RefineStartOptions {
   maxEvaluations?: number;
   /** Most Nelder–Mead + neighbour-pass rounds (default 8). */
   maxRounds?: number;
+  /**
+   * Most Nelder–Mead runs in a row within a round (default 4): a converged run is started again
+   * from its result with a fresh simplex while the last run improved the merit by more than its
+   * fatol, the simple remedy for a stagnating simplex (C. T. Kelley, "Detection and remediation of
+   * stagnation in the Nelder–Mead algorithm using a sufficient decrease condition", SIAM J.
+   * Optim. 10 (1999) 43–55, restarts with a new simplex at the best point).
+   */
+  maxNelderMeadRuns?: number;
   /**
    * Options of each Nelder–Mead run on the continuous coordinates (default bounds: the unit cube;
    * its maxEvaluations is capped by what is left of the start's budget).
@@ -90,6 +98,9 @@ export async function refineStart<R>(
   const budget = options.maxEvaluations ?? 200 * (dimension + 1);
   if (!Number.isInteger(budget) || budget < 1) throw refineRangeError('refineStart', 'an integer maxEvaluations >= 1', budget);
   const maxRounds = options.maxRounds ?? 8;
+  const maxNelderMeadRuns = options.maxNelderMeadRuns ?? 4;
+  if (!Number.isInteger(maxNelderMeadRuns) || maxNelderMeadRuns < 1) throw refineRangeError('refineStart', 'an integer maxNelderMeadRuns >= 1', maxNelderMeadRuns);
+  const nelderMeadOptions = options.nelderMead ?? {};
   if (!Number.isInteger(maxRounds) || maxRounds < 1) throw refineRangeError('refineStart', 'an integer maxRounds >= 1', maxRounds);
 
   const ledger = new StartLedger(cache, meritOf, budget);
@@ -107,12 +118,14 @@ export async function refineStart<R>(
       break;
     }
     rounds++;
-    if (dimension > 0) {
-      const run = await nelderMeadWithLevels(incumbent, ledger, options.nelderMead ?? {});
-      nelderMeadRuns.push(run.result);
-      const improved = isBetterMerit(run.merit, incumbent.merit);
-      if (improved) incumbent = { point: run.point, merit: run.merit };
+    for (let run = 0; dimension > 0 && run < maxNelderMeadRuns && ledger.remaining > 0; run++) {
+      const outcome = await nelderMeadWithLevels(incumbent, ledger, nelderMeadOptions);
+      nelderMeadRuns.push(outcome.result);
+      const improved = isBetterMerit(outcome.merit, incumbent.merit);
+      const gain = improved ? meritDistance(outcome.merit, incumbent.merit) : 0;
+      if (improved) incumbent = { point: outcome.point, merit: outcome.merit };
       trace.push({ phase: 'nelder-mead', evaluationsUsed: ledger.used, merit: incumbent.merit, improved });
+      if (outcome.result.status !== 'converged' || gain <= (nelderMeadOptions.fatol ?? 1e-4)) break;
     }
     if (levelCounts.length === 0) {
       status = ledger.remaining === 0 ? 'max_evaluations' : 'converged';
