@@ -5,7 +5,7 @@
  * with the winding as a uniform current sheet, integrated by Gauss–Legendre after a sinh change of
  * variable. Turn centres sit at bottom + (j + ½) p, so the turn sum is the midpoint rule of the
  * sheet integral; for an integrand that is analytic near the real axis the midpoint rule's error
- * is only the Euler–Maclaurin end terms, of order (p/ℓ)², far below 10⁻⁴ for real windings.
+ * is only the Euler–Maclaurin end terms (p²/24)·f′, below 10⁻⁴ for real windings.
  */
 import { coaxialLoopMutualInductance } from './coaxial-loops.ts';
 import { gaussLegendreRule } from './gauss-legendre.ts';
@@ -71,8 +71,10 @@ function integrateInSinhVariable(ringRadius: number, sheetRadius: number, scale:
  * The integrand peaks where the sheet passes the ring, with width of order |r − a|; the change of
  * variable z − z_ring = h sinh u with h = max(|r − a|, 10⁻³ (r + a)) spreads that peak evenly, the
  * interval is split at the ring's height, and each part is integrated with 12-point Gauss–Legendre
- * panels of width ≤ 1.5 in u. Agrees with the turn sum to better than 10⁻⁶ for windings of
- * hundreds of turns (tests), at a few dozen Maxwell evaluations instead of N.
+ * panels of width ≤ 1.5 in u: about a hundred Maxwell evaluations instead of N. The quadrature
+ * error is below 2·10⁻⁷ even for a ring one pitch from the winding (tests, against a 40 000-turn
+ * sum); against the sum over the actual turns the difference is the physical end term of the
+ * midpoint rule, (p²/24)·f′ at the winding ends, up to 10⁻⁵ in the tests (rings ≥ 10 pitches away).
  * @param ringRadius m (> 0; a ring on the sheet itself, r = a, needs r ≠ a within the winding)
  * @param ringZ height of the ring, m
  * @param winding the winding
