@@ -1,6 +1,161 @@
-/** Stage of the evaluation pipeline (see core/evaluate.ts): dynamics. */
+/**
+ * Stage of the evaluation pipeline (see core/evaluate.ts): dynamics.
+ *
+ * Losses (secondary and primary AC resistance, the spark gap's resistance), the lumped coupled
+ * circuit they make with the inductances, the tank and the total capacitance, and what one shot
+ * (spark gap) or burst (solid state) of that circuit does. The circuit simulated is exactly the
+ * one the metrics describe: R1 = primary_resistance, L1 = primary_inductance, C1 = the tank
+ * capacitance, M = coupling·√(L1 L2), R2 = secondary_ac_resistance, L2 = secondary_inductance,
+ * C2 = total_capacitance; a spark-gap shot starts with v1 = charge_voltage and all else at rest.
+ */
 import type { EvalContext } from '../context.ts';
+import type { SolidStateDriver, SparkGapDriver } from '../design.ts';
+import { copperResistivity } from '../wire/copper.ts';
+import { roundConductorAcResistance, solenoidAcResistance } from '../losses/resistance.ts';
+import type { CoupledCircuit } from '../dynamics/circuit.ts';
+import { coupledModes } from '../dynamics/coupled-modes.ts';
+import { nearestFullTransferCoupling } from '../dynamics/full-transfer.ts';
+import { sparkGapShot } from '../dynamics/spark-gap.ts';
+import { solidStateBurst } from '../dynamics/solid-state.ts';
+import { formatNumber, formatQuantity, SPARK_GAP_COUPLING_LIMIT, TANK_RATING_FACTOR } from '../outcome/warnings.ts';
+
+/** Equivalent resistance of a conducting spark gap when the design gives none, Ω (common practice, REFERENCES §8.4 [C]: of order 1 Ω). */
+export const DEFAULT_GAP_RESISTANCE = 1;
+
+/** Longest burst simulated, in cycles of the upper mode (beyond it the burst is cut, with a warning). */
+const MAX_BURST_CYCLES = 3000;
 
 export function dynamicsStage(context: EvalContext): void {
-  void context; // filled in by the dynamics work
+  const { design, metrics, warnings } = context;
+  const secondary = context.secondary;
+  const electrostatics = context.electrostatics;
+  if (!secondary || !electrostatics || !(electrostatics.totalCapacitance > 0)) return;
+
+  // --- secondary losses ---
+  const l2 = secondary.inductance;
+  const c2 = electrostatics.totalCapacitance;
+  const f2 = positive(metrics.resonant_frequency) ?? 1 / (2 * Math.PI * Math.sqrt(l2 * c2));
+  const r2 = solenoidAcResistance(secondary.dcResistance, secondary.wireLength, secondary.bareDiameter, secondary.pitch, f2);
+  metrics.secondary_ac_resistance = r2;
+  metrics.secondary_q = (2 * Math.PI * f2 * l2) / r2;
+
+  // --- primary losses and the coupled circuit ---
+  const primary = context.primary;
+  const tank = design.tank;
+  if (!primary || !tank || !design.primary) return;
+  const l1 = primary.inductance;
+  const c1 = tank.capacitance;
+  const f1 = 1 / (2 * Math.PI * Math.sqrt(l1 * c1));
+  const resistivity = design.primary.resistivity ?? copperResistivity(design.environment.temperature);
+  const conductorResistance = roundConductorAcResistance(primary.conductorLength, primary.conductorRadius, resistivity, f1);
+  const driver = design.driver;
+  const gapResistance = driver?.kind === 'spark_gap' ? (driver.gapResistance ?? DEFAULT_GAP_RESISTANCE) : 0;
+  const r1 = conductorResistance + gapResistance;
+  metrics.primary_conductor_resistance = conductorResistance;
+  metrics.gap_resistance = driver?.kind === 'spark_gap' ? gapResistance : null;
+  metrics.primary_resistance = r1;
+
+  const coupling = positive(metrics.coupling) ?? (primary.mutual !== null ? Math.abs(primary.mutual) / Math.sqrt(l1 * l2) : null);
+  if (coupling === null || !(coupling < 1)) return;
+  const circuit: CoupledCircuit = {
+    primaryInductance: l1,
+    primaryCapacitance: c1,
+    primaryResistance: r1,
+    secondaryInductance: l2,
+    secondaryCapacitance: c2,
+    secondaryResistance: r2,
+    mutualInductance: coupling * Math.sqrt(l1 * l2),
+  };
+  metrics.full_transfer_coupling = nearestFullTransferCoupling(coupling).coupling;
+  const modes = coupledModes(circuit, 1);
+  if (modes !== null) {
+    const frequencies = Array.from(modes.rateIm, (omega) => Math.abs(omega) / (2 * Math.PI)).sort((a, b) => a - b);
+    if (frequencies[0] > 0) {
+      metrics.mode_frequency_low = frequencies[0];
+      metrics.mode_frequency_high = frequencies[3];
+    }
+  }
+  if (!driver) return;
+  if (driver.kind === 'spark_gap') runSparkGap(context, circuit, driver, coupling);
+  else runSolidState(context, circuit, driver);
+  void warnings;
+}
+
+function runSparkGap(context: EvalContext, circuit: CoupledCircuit, driver: SparkGapDriver, coupling: number): void {
+  const { design, metrics, warnings } = context;
+  if (coupling > SPARK_GAP_COUPLING_LIMIT) {
+    warnings.push(
+      `coupling ${formatNumber(coupling)} is high for a spark gap (common practice ≤ ${SPARK_GAP_COUPLING_LIMIT}): poor quenching and racing arcs likely`,
+    );
+  }
+  const chargeVoltage = design.tank?.chargeVoltage;
+  if (chargeVoltage === undefined || !(chargeVoltage > 0)) {
+    warnings.push('no tank charge_voltage given: energy per shot, transfer time and peak voltage not computed');
+    return;
+  }
+  const energy = 0.5 * circuit.primaryCapacitance * chargeVoltage * chargeVoltage;
+  metrics.energy_per_shot = energy;
+  metrics.input_power = energy * driver.breakRate;
+  tankRatingCheck(context, chargeVoltage, 'the charge voltage');
+  const shot = sparkGapShot(circuit, chargeVoltage, driver.quench);
+  if (shot === null) {
+    warnings.push(
+      `the coupled circuit has no two ringing modes (coupling ${formatNumber(coupling)}, primary ${formatQuantity(circuit.primaryResistance, 'Ω')}): transfer time and peak voltage not computed`,
+    );
+    return;
+  }
+  metrics.transfer_time = shot.transferTime;
+  metrics.peak_voltage = shot.peakVoltage;
+  if (shot.transferTime === null) {
+    warnings.push('the primary energy never dips before it could return (losses too high for a transfer): peak voltage is over ¾ of a beat');
+  }
+}
+
+function runSolidState(context: EvalContext, circuit: CoupledCircuit, driver: SolidStateDriver): void {
+  const { metrics, warnings } = context;
+  if (driver.onTime === undefined && driver.cycles === undefined) {
+    warnings.push('solid-state driver without on_time or cycles: the burst is not simulated');
+    return;
+  }
+  const driveVoltage = driver.bridge === 'full' ? driver.busVoltage : driver.busVoltage / 2;
+  const upperPeriod = 1 / (metrics.mode_frequency_high ?? 1 / (2 * Math.PI * Math.sqrt(circuit.primaryInductance * circuit.primaryCapacitance)));
+  let onTime = driver.onTime;
+  let cycles = driver.cycles;
+  if ((onTime ?? Infinity) > MAX_BURST_CYCLES * upperPeriod && (cycles ?? Infinity) > MAX_BURST_CYCLES) {
+    warnings.push(`burst longer than ${MAX_BURST_CYCLES} cycles: simulated for the first ${MAX_BURST_CYCLES} only`);
+    onTime = MAX_BURST_CYCLES * upperPeriod;
+    cycles = undefined;
+  }
+  const burst = solidStateBurst(circuit, { driveVoltage, currentLimit: driver.currentLimit, onTime, cycles });
+  metrics.energy_per_shot = burst.energyFromSource;
+  metrics.input_power = burst.energyFromSource * driver.repetitionRate;
+  metrics.peak_voltage = burst.peakVoltage;
+  metrics.transfer_time = null; // a driven burst has no single transfer
+  if (burst.endReason === 'current_limit') {
+    warnings.push(
+      `primary current reached the ${formatQuantity(driver.currentLimit ?? 0, 'A')} limit after ${formatNumber(burst.cycles)} cycles (${formatQuantity(burst.endTime, 's')}): the burst ends there`,
+    );
+  }
+  tankRatingCheck(context, burst.peakTankVoltage, 'the peak tank voltage in the burst');
+}
+
+/** tank_voltage_margin and its warning. */
+function tankRatingCheck(context: EvalContext, workingVoltage: number, what: string): void {
+  const rating = context.design.tank?.voltageRating;
+  if (rating === undefined || !(workingVoltage > 0)) return;
+  const margin = rating / workingVoltage;
+  context.metrics.tank_voltage_margin = margin;
+  if (margin < 1) {
+    context.warnings.push(
+      `tank capacitor rated ${formatQuantity(rating, 'V')} is below ${what} ${formatQuantity(workingVoltage, 'V')} (margin ${formatNumber(margin)}): it will fail`,
+    );
+  } else if (margin < TANK_RATING_FACTOR) {
+    context.warnings.push(
+      `tank capacitor rating ${formatQuantity(rating, 'V')} is only ${formatNumber(margin)}× ${what} ${formatQuantity(workingVoltage, 'V')} (common practice ≥ ${TANK_RATING_FACTOR}–2×)`,
+    );
+  }
+}
+
+function positive(value: number | null | undefined): number | null {
+  return value !== null && value !== undefined && Number.isFinite(value) && value > 0 ? value : null;
 }

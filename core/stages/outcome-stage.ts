@@ -1,6 +1,104 @@
-/** Stage of the evaluation pipeline (see core/evaluate.ts): outcome. */
+/**
+ * Stage of the evaluation pipeline (see core/evaluate.ts): outcome.
+ *
+ * What the peak voltage means for the builder: breakout margin, topload field, axial gradient,
+ * strike clearance to the primary, overall height, the spark-length rule of thumb and the
+ * streamer-loaded frequency, and the warnings.
+ */
 import type { EvalContext } from '../context.ts';
+import { overallHeight } from '../outcome/overall-height.ts';
+import { loadedResonantFrequency, sparkLengthEstimate, streamerCapacitance } from '../outcome/spark-length.ts';
+import { LONG_GAP_WITHSTAND_GRADIENT, primaryStrikeMargin, toploadCentreHeight, toploadToRingDistance } from '../outcome/clearance.ts';
+import { AXIAL_GRADIENT_LIMIT, formatNumber, formatQuantity, TUNING_TOLERANCE } from '../outcome/warnings.ts';
 
 export function outcomeStage(context: EvalContext): void {
-  void context; // filled in by the outcome work
+  const { design, metrics, warnings } = context;
+  const secondary = context.secondary;
+  const electrostatics = context.electrostatics;
+  metrics.overall_height = overallHeight(design, secondary);
+
+  tuningCheck(context);
+
+  const peak = metrics.peak_voltage;
+  const power = metrics.input_power;
+  const sparkLength = power !== null && Number.isFinite(power) ? sparkLengthEstimate(power) : null;
+  metrics.spark_length = sparkLength;
+  if (sparkLength !== null && secondary && electrostatics && design.environment.streamerLength === undefined) {
+    metrics.loaded_resonant_frequency = loadedResonantFrequency(
+      secondary.inductance,
+      electrostatics.totalCapacitance,
+      streamerCapacitance(sparkLength),
+    );
+  }
+  if (peak === null || !(peak > 0)) return;
+
+  const breakout = electrostatics?.breakoutVoltage ?? null;
+  if (breakout !== null && breakout > 0) {
+    const margin = breakout / peak;
+    metrics.breakout_margin = margin;
+    if (margin < 1) {
+      warnings.push(
+        `the topload breaks out at ${formatQuantity(breakout, 'V')}, below the peak voltage ${formatQuantity(peak, 'V')} (breakout margin ${formatNumber(margin)}): streamers start all round before the peak`,
+      );
+    } else {
+      warnings.push(
+        `the topload holds at the peak voltage ${formatQuantity(peak, 'V')} (breakout margin ${formatNumber(margin)}): without a breakout point it never breaks out, and racing arcs or strikes become likely`,
+      );
+    }
+  }
+  const fieldPerVolt = electrostatics?.toploadFieldPerVolt ?? null;
+  if (fieldPerVolt !== null) metrics.topload_peak_field = fieldPerVolt * peak;
+
+  if (secondary) {
+    const gradient = peak / secondary.windingLength;
+    metrics.axial_gradient = gradient;
+    if (gradient > AXIAL_GRADIENT_LIMIT) {
+      warnings.push(
+        `axial gradient ${formatQuantity(gradient, 'V/m')} along the winding exceeds ${formatQuantity(AXIAL_GRADIENT_LIMIT, 'V/m')} (common practice, from memory): racing arcs likely`,
+      );
+    }
+  }
+
+  const primary = context.primary;
+  if (secondary && primary && primary.rings.length > 0 && design.secondary) {
+    const outerRing = primary.rings[primary.rings.length - 1];
+    const driver = design.driver;
+    const primaryVoltage = driver?.kind === 'solid_state' ? driver.busVoltage : (design.tank?.chargeVoltage ?? 0);
+    const strike = primaryStrikeMargin(outerRing, primary.conductorRadius, secondary, design.secondary.voltageProfile, peak, primaryVoltage);
+    metrics.primary_strike_margin = Number.isFinite(strike.margin) ? strike.margin : null;
+    if (strike.margin < 1) {
+      warnings.push(
+        `primary-to-secondary strike risk: ${formatQuantity(strike.voltage, 'V')} across ${formatQuantity(strike.gap, 'm')} of air between the outer primary ring and the winding at its height (strike margin ${formatNumber(strike.margin)} at ${formatQuantity(LONG_GAP_WITHSTAND_GRADIENT, 'V/m')}, common practice)`,
+      );
+    }
+    if (design.topload && !design.strikeRail && sparkLength !== null) {
+      const centre = toploadCentreHeight(design.topload, secondary.topZ);
+      if (centre !== null) {
+        const reach = toploadToRingDistance(design.topload, centre, outerRing);
+        if (sparkLength >= reach) {
+          warnings.push(
+            `spark length estimate ${formatQuantity(sparkLength, 'm')} (common practice) reaches the outer primary ring ${formatQuantity(reach, 'm')} from the topload: fit a grounded strike rail`,
+          );
+        }
+      }
+    }
+  }
+}
+
+/** Warns when the tank at the reported tap is off the secondary's frequency. */
+function tuningCheck(context: EvalContext): void {
+  const { metrics, design, warnings } = context;
+  const primaryFrequency = metrics.primary_frequency;
+  const secondaryFrequency = metrics.resonant_frequency;
+  const primarySpec = design.primary;
+  if (primaryFrequency === null || secondaryFrequency === null || !primarySpec || !design.tank) return;
+  if (!(primaryFrequency > 0) || !(secondaryFrequency > 0)) return;
+  const mistuning = primaryFrequency / secondaryFrequency - 1;
+  if (Math.abs(mistuning) <= TUNING_TOLERANCE) return;
+  const tap = metrics.primary_tap_turns ?? context.primary?.tapTurns ?? null;
+  const atEnd = tap !== null && tap >= primarySpec.turns - 1e-6 && primarySpec.tapTurns === undefined;
+  const where = atEnd ? `even at its last turn (${formatNumber(primarySpec.turns)} turns)` : `at the tap (${tap === null ? '?' : formatNumber(tap)} turns)`;
+  warnings.push(
+    `the primary tunes to ${formatQuantity(primaryFrequency, 'Hz')} ${where}, the secondary to ${formatQuantity(secondaryFrequency, 'Hz')} (${formatNumber(100 * mistuning)} %)${atEnd ? ': it cannot be tuned with the given turns' : ''}`,
+  );
 }
