@@ -64,7 +64,7 @@ export const METRICS: readonly MetricInfo[] = [
   metric('topload_peak_field', 'V/m', 'peak topload surface field at the peak voltage'),
   metric('axial_gradient', 'V/m', 'peak voltage over the winding length'),
   metric('primary_strike_margin', '', 'air-gap withstand between the primary outer ring and the winding over the voltage there'),
-  metric('tank_voltage_margin', '', 'capacitor rating over the charge voltage'),
+  metric('tank_voltage_margin', '', 'capacitor rating over the charge voltage (spark gap) or over the peak tank voltage of the burst (solid state)'),
   // --- outcome ---
   metric('overall_height', 'm', 'highest point of the topload (or winding) above the floor'),
   metric('spark_length', 'm', 'spark length estimate from input power (common practice, rule of thumb)'),
