@@ -8,6 +8,20 @@ import { InputError } from './input-error.ts';
 import type { CliIo } from './io.ts';
 import { evaluateCommand } from './evaluate-command.ts';
 import { sweepCommand, type SweepOptions } from './sweep-command.ts';
+import { batchEvaluate } from './batch-evaluate.ts';
+import { checkCommand } from './check-command.ts';
+import { designFileSchema, sweepSchema } from './json-schema.ts';
+import { showCommand } from './show-command.ts';
+import { mergeCommand } from './merge-command.ts';
+import { demoCommand } from './demo-command.ts';
+
+/** Commander parser of whole-number options: a usage error (exit 2) for anything else. */
+function integer(option: string) {
+  return (text: string): number => {
+    if (!/^\s*\d+\s*$/.test(text)) throw new InvalidArgumentError(`${option}: expected a whole number, got '${text}'`);
+    return Number(text);
+  };
+}
 
 export async function runCli(argv: string[], io: CliIo): Promise<number> {
   let exitCode = 0;
@@ -22,16 +36,64 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
   program
     .command('evaluate')
     .description('evaluate one design file and print a report (or --json)')
-    .argument('<file>', 'design file, YAML or JSON')
+    .argument('[file]', 'design file, YAML or JSON')
     .option('--json', 'print the JSON contract (SI units) instead of the report')
-    .action((file: string, options: { json?: boolean }) => {
+    .option('--batch <jsonl>', "evaluate one JSON design per line ('-' for stdin), one JSON result per line out")
+    .action(async (file: string | undefined, options: { json?: boolean; batch?: string }) => {
+      if (options.batch !== undefined) {
+        if (file !== undefined) throw new InputError('evaluate: give a design file or --batch, not both');
+        exitCode = await batchEvaluate(options.batch, io);
+        return;
+      }
+      if (file === undefined) throw new InputError('evaluate: give a design file (or --batch FILE.jsonl)');
       exitCode = evaluateCommand(file, options, io);
     });
 
-  const integer = (option: string) => (text: string) => {
-    if (!/^\s*\d+\s*$/.test(text)) throw new InvalidArgumentError(`expected a whole number, got '${text}'`);
-    return Number(text);
-  };
+  program
+    .command('check')
+    .description('validate a sweep file, show its dimensions and estimate its run time')
+    .argument('<spec>', 'sweep file, YAML or JSON')
+    .option('--workers <n>', 'workers to estimate for', integer('--workers'))
+    .option('--force', 'allow sample counts beyond the documented limit')
+    .action((spec: string, options: { workers?: number; force?: boolean }) => {
+      exitCode = checkCommand(spec, options, io);
+    });
+
+  program
+    .command('schema')
+    .description('print the JSON Schema of sweep files (or --design: of design files)')
+    .option('--design', 'the schema of design files')
+    .action((options: { design?: boolean }) => {
+      io.out(`${JSON.stringify(options.design ? designFileSchema() : sweepSchema(), null, 2)}\n`);
+    });
+
+  program
+    .command('show')
+    .description('print the design file of a ranked candidate of a run')
+    .argument('<run>', 'run directory')
+    .argument('[rank]', 'rank in candidates.csv')
+    .option('--refined <rank>', 'a design of refined.csv instead')
+    .action((run: string, rank: string | undefined, options: { refined?: string }) => {
+      exitCode = showCommand(run, rank, options, io);
+    });
+
+  program
+    .command('merge')
+    .description('merge the shard directories of one sweep into the outputs of a single run')
+    .argument('<shards...>', 'shard run directories')
+    .option('--out <dir>', 'directory for the merged results')
+    .option('--overwrite', 'write into a non-empty output directory')
+    .action((shards: string[], options: { out?: string; overwrite?: boolean }) => {
+      exitCode = mergeCommand(shards, options, io);
+    });
+
+  program
+    .command('demo')
+    .description('sweep the example science-centre scenario into runs/demo and print the best five')
+    .option('--workers <n>', 'worker threads', integer('--workers'))
+    .action(async (options: { workers?: number }) => {
+      exitCode = await demoCommand(options, io);
+    });
 
   program
     .command('sweep')

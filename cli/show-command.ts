@@ -1,0 +1,73 @@
+/**
+ * `coilfront show RUN_DIR RANK` prints the complete design file of a ranked candidate (or, with
+ * `--refined`, of a refined design), in SI numbers with practical units as comments, so that a row
+ * of the spreadsheet goes straight to `coilfront evaluate` and gives the same metrics.
+ */
+import { existsSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { parse as parseCsv } from 'csv-parse/sync';
+import { DesignSpace } from '../optimize/design-space.ts';
+import { isSlot, type NormalTree } from '../optimize/design-tree.ts';
+import { DESIGN_SECTIONS, sectionFields } from './design-fields.ts';
+import { KIND_DISPLAY, formatNumber } from './display-units.ts';
+import { InputError } from './input-error.ts';
+import type { CliIo } from './io.ts';
+import { RUN_FILES } from './run-directory.ts';
+import { loadRunSpec, spaceDefinitionOf } from './sweep-command.ts';
+
+/** A design's normal tree as YAML text: exact SI numbers, a unit comment beside each quantity. */
+export function treeToYaml(tree: NormalTree, heading: string[]): string {
+  const lines = heading.map((line) => `# ${line}`);
+  for (const [name, section] of Object.entries(tree)) {
+    if (isSlot(section)) continue;
+    const spec = DESIGN_SECTIONS[name]!;
+    const form = spec.variants ? (section[spec.variants.key] as string) : undefined;
+    const fields = sectionFields(spec, form);
+    lines.push(`${name}:`);
+    for (const [key, value] of Object.entries(section)) {
+      if (isSlot(value)) continue;
+      const field = fields[key];
+      if (typeof value === 'object') {
+        lines.push('awg' in value ? `  ${key}: AWG ${value.awg}` : `  ${key}: ${value.bareDiameter}  # ${formatNumber(value.bareDiameter * 1000, 6)} mm`);
+      } else if (typeof value === 'number' && field?.type === 'quantity' && field.kind !== 'dimensionless') {
+        const display = KIND_DISPLAY[field.kind];
+        lines.push(`  ${key}: ${value}  # ${formatNumber(value / display.divisor, 6)} ${display.label}`);
+      } else {
+        lines.push(`  ${key}: ${typeof value === 'string' ? value : String(value)}`);
+      }
+    }
+  }
+  return `${lines.join('\n')}\n`;
+}
+
+function readCsvRows(path: string): Record<string, string>[] {
+  if (!existsSync(path)) throw new InputError(`${path}: no such file`);
+  return parseCsv(readFileSync(path, 'utf8'), { columns: true, skip_empty_lines: true }) as Record<string, string>[];
+}
+
+export function showCommand(directory: string, rankText: string | undefined, options: { refined?: string }, io: CliIo): number {
+  const spec = loadRunSpec(directory);
+  const space = new DesignSpace(spaceDefinitionOf(spec));
+  const wanted = options.refined ?? rankText;
+  if (wanted === undefined || !/^\d+$/.test(wanted) || Number(wanted) < 1) {
+    throw new InputError(`show: expected a rank (1, 2, …), got '${wanted ?? ''}'`);
+  }
+  const rank = Number(wanted);
+  if (options.refined !== undefined) {
+    const path = join(directory, RUN_FILES.refinedDesigns);
+    if (!existsSync(path)) throw new InputError(`${directory}: no refined designs yet (run coilfront refine ${directory})`);
+    const designs = JSON.parse(readFileSync(path, 'utf8')) as { rank: number; values: number[] }[];
+    const entry = designs.find((d) => d.rank === rank);
+    if (!entry) throw new InputError(`${directory}: there is no refined design of rank ${rank} (${designs.length} in refined.csv)`);
+    const sampled = space.designOf(entry.values);
+    io.out(treeToYaml(sampled.tree, [`refined design ${rank} of ${directory}`, 'SI units; practical units in the comments']));
+    return 0;
+  }
+  const rows = readCsvRows(join(directory, RUN_FILES.candidates));
+  const row = rows.find((r) => r.rank === String(rank));
+  if (!row) throw new InputError(`${directory}: there is no candidate of rank ${rank} (${rows.length} in candidates.csv)`);
+  const index = Number(row.sample_index);
+  const sampled = space.designAt(index);
+  io.out(treeToYaml(sampled.tree, [`candidate ${rank} of ${directory} (sample ${index})`, 'SI units; practical units in the comments']));
+  return 0;
+}
