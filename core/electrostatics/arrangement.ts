@@ -131,21 +131,27 @@ function groundedRings(
     });
   }
   const accepted: GroundedRing[] = [];
+  const reported = new Set<string>();
+  const report = (field: string, reason: string) => {
+    // One problem per field: the first ring that fails says why.
+    if (!reported.has(field)) problems.push({ field, reason });
+    reported.add(field);
+  };
   for (const ring of rings) {
     if (!(ring.r > ring.wireRadius) || !(ring.wireRadius > 0)) {
-      problems.push({ field: ring.field.replace('elevation', 'conductor_diameter'), reason: `${ring.what} (radius ${mm(ring.r)}) is not a ring with a conductor of ${mm(2 * ring.wireRadius)}` });
+      report(ring.field.replace('elevation', 'conductor_diameter'), `${ring.what} (radius ${mm(ring.r)}) is not a ring with a conductor of ${mm(2 * ring.wireRadius)}`);
       continue;
     }
     if (!(ring.z - ring.wireRadius > 0)) {
-      problems.push({ field: ring.field, reason: `${ring.what} reaches the floor (its centre is at ${mm(ring.z)})` });
+      report(ring.field, `${ring.what} reaches the floor (its centre is at ${mm(ring.z)})`);
       continue;
     }
     if (!(distanceToWinding(ring.r, ring.z, secondary) > ring.wireRadius)) {
-      problems.push({ field: ring.field, reason: `${ring.what} (radius ${mm(ring.r)}) touches the winding (radius ${mm(secondary.radius)})` });
+      report(ring.field, `${ring.what} (radius ${mm(ring.r)}) touches the winding (radius ${mm(secondary.radius)})`);
       continue;
     }
     if (topload && !(distanceToTopload(ring.r, ring.z, topload) > ring.wireRadius)) {
-      problems.push({ field: ring.field, reason: `${ring.what} (radius ${mm(ring.r)}, at ${mm(ring.z)}) touches the topload` });
+      report(ring.field, `${ring.what} (radius ${mm(ring.r)}, at ${mm(ring.z)}) touches the topload`);
       continue;
     }
     accepted.push({ r: ring.r, z: ring.z, wireRadius: ring.wireRadius });
