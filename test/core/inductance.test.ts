@@ -9,6 +9,7 @@ import { roundWireSolenoidInductance } from '../../core/inductance/rosa.ts';
 import { loopSumSolenoidInductance } from '../../core/inductance/filament-sum.ts';
 import { ringToSheetMutualInductance, ringToTurnsMutualInductance } from '../../core/inductance/sheet-mutual.ts';
 import { currentSheetInductance } from '../../core/inductance/nagaoka.ts';
+import { gaussLegendreRule } from '../../core/inductance/gauss-legendre.ts';
 
 const SEED = 20261201;
 
@@ -136,6 +137,25 @@ describe('ringToSheetMutualInductance against the sum over turns (ringToTurnsMut
       const byTurns = ringToTurnsMutualInductance(ringRadius, ringZ, fine);
       expect(Math.abs(bySheet / byTurns - 1)).toBeLessThan(2e-7);
     }
+  });
+
+  test('integrated over a second coaxial sheet it gives the mutual inductance that Nagaoka’s formula implies', () => {
+    // Two coaxial sheets of equal radius a and turn density n on [0, l1] and [l1 + g, l1 + g + l2]:
+    // superposition of current-sheet self-inductances F(x) = L_s(a, x, n x) gives exactly
+    // 2 M = F(l1 + g + l2) − F(l1 + g) − F(g + l2) + F(g) (Lorenz/Nagaoka, exact elliptic form).
+    const radius = 0.1;
+    const density = 1000;
+    const [l1, gap, l2] = [0.3, 0.05, 0.2];
+    const sheet = (x: number) => currentSheetInductance(radius, x, density * x);
+    const expected = (sheet(l1 + gap + l2) - sheet(l1 + gap) - sheet(gap + l2) + sheet(gap)) / 2;
+    const winding = { radius, bottomZ: 0, topZ: l1, turns: density * l1 };
+    const rule = gaussLegendreRule(48);
+    let integral = 0;
+    for (let i = 0; i < rule.nodes.length; i++) {
+      const z = l1 + gap + (l2 * (rule.nodes[i] + 1)) / 2;
+      integral += (rule.weights[i] * l2) / 2 * ringToSheetMutualInductance(radius, z, winding);
+    }
+    expect(Math.abs((density * integral) / expected - 1)).toBeLessThan(1e-9);
   });
 
   test('a ring round the middle of a long winding links μ0 n π a² (infinite-solenoid limit, exact)', () => {
