@@ -69,14 +69,15 @@ describe('writeFileAtomicSync(path, data)', () => {
     expect(readdirSync(directory).sort()).toEqual(['plain', 'taken']);
   });
 
-  it.skipIf(process.getuid?.() === 0 || process.platform === 'win32')('reports permission denied in a read-only directory', async () => {
-    const { chmodSync } = await import('node:fs');
-    chmodSync(directory, 0o500);
-    try {
-      expect(() => writeFileAtomicSync(join(directory, 'x.json'), 'x')).toThrow(/permission denied \(EACCES\)$/);
-    } finally {
-      chmodSync(directory, 0o700);
+  it('reports permission denied and a read-only file system when the temporary file cannot be made', () => {
+    // injected: the tests run as root in CI, where a real permission check never fails
+    const path = join(directory, 'x.json');
+    writeFileAtomicSync(path, 'kept');
+    for (const [code, reason] of [['EACCES', 'permission denied'], ['EROFS', 'the file system is read-only']]) {
+      const disk = faultyFileSystem({ failCalls: ['openSync'], code });
+      expect(() => writeFileAtomicSync(path, 'x', { fileSystem: disk })).toThrow(`cannot write '${path}': ${reason} (${code})`);
     }
+    expect(readFileSync(path, 'utf8')).toBe('kept');
   });
 });
 

@@ -211,7 +211,7 @@ for (;;) {
 `,
     );
     const path = join(directory, 'killed.cfj');
-    for (let round = 0; round < 3; round++) {
+    for (let round = 0; round < 2; round++) {
       await new Promise<void>((resolve, reject) => {
         const child = spawn(process.execPath, [join(code, 'writer.js'), path], { stdio: ['ignore', 'pipe', 'inherit'] });
         child.stdout.setEncoding('utf8').once('data', () => setTimeout(() => child.kill('SIGKILL'), 30 + 40 * round));
