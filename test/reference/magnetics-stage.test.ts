@@ -13,6 +13,10 @@ import { primaryStage } from '../../core/stages/primary-stage.ts';
 import { roundWireSolenoidInductance } from '../../core/inductance/rosa.ts';
 import { insulatedDiameter } from '../../core/wire/insulation.ts';
 import { awgDiameter } from '../../core/wire/awg.ts';
+import { coaxialLoopMutualInductance } from '../../core/inductance/coaxial-loops.ts';
+import { loopSelfInductance } from '../../core/inductance/loop.ts';
+import { ringToTurnsMutualInductance } from '../../core/inductance/sheet-mutual.ts';
+import { primaryRings, ringWeights } from '../../core/primary/rings.ts';
 
 function context(design: Partial<Design>): EvalContext {
   return { design: { environment: DEFAULT_ENVIRONMENT, ...design }, metrics: emptyMetrics(), warnings: [], problems: [] };
@@ -146,5 +150,39 @@ describe('primaryStage against independent formulas', () => {
     });
     expect(results[1].coupling as number).toBeGreaterThan(results[0].coupling as number);
     expect(results[1].coupling as number).toBeLessThan(results[2].coupling as number);
+  });
+});
+
+describe('primaryStage wiring against a direct computation (ring × turn sums, no fast paths)', () => {
+  const cases: Array<[string, SecondarySpec, PrimarySpec]> = [
+    ['flat spiral, AWG 24 grade 2', { formDiameter: 0.16, wire: { bareDiameter: awgDiameter(24), insulation: 'grade2' }, turns: 900, baseHeight: 0.4, voltageProfile: 'linear' },
+      { shape: 'flat_spiral', innerDiameter: 0.22, turns: 9.5, conductorDiameter: 6.35e-3, turnSpacing: 5e-3, elevation: 0.01, tapTurns: 7.3 }],
+    ['helix, 0.5 mm metric grade 1', { formDiameter: 0.11, wire: { bareDiameter: 0.5e-3, insulation: 'grade1' }, windingLength: 0.45, baseHeight: 0.3, voltageProfile: 'linear' },
+      { shape: 'helix', innerDiameter: 0.2, turns: 6, conductorDiameter: 4e-3, turnSpacing: 8e-3, elevation: -0.02, tapTurns: 5 }],
+    ['cone 30°, AWG 28 with a given pitch', { formDiameter: 0.09, wire: { bareDiameter: awgDiameter(28), insulation: 'grade3' }, turns: 1300, pitch: 0.45e-3, baseHeight: 0.2, voltageProfile: 'linear' },
+      { shape: 'cone', innerDiameter: 0.15, turns: 12, conductorDiameter: 5e-3, turnSpacing: 4e-3, elevation: 0, coneAngle: Math.PI / 6, tapTurns: 10.25 }],
+  ];
+  test.each(cases)('%s: L1, M and k agree with the direct sums to 1e-4', (_name, secondary, primary) => {
+    const evaluation = context({ secondary, primary });
+    secondaryStage(evaluation);
+    primaryStage(evaluation);
+    expect(evaluation.problems).toEqual([]);
+    const geometry = evaluation.secondary!;
+    const rings = primaryRings(primary, geometry.bottomZ);
+    const weights = ringWeights(rings.length, primary.tapTurns!);
+    let l1 = 0;
+    let mutual = 0;
+    const winding = { radius: geometry.radius, bottomZ: geometry.bottomZ, topZ: geometry.topZ, turns: geometry.turns };
+    for (let i = 0; i < rings.length; i++) {
+      for (let j = 0; j < rings.length; j++) {
+        const term = i === j ? loopSelfInductance(rings[i].r, primary.conductorDiameter / 2, 'surface') : coaxialLoopMutualInductance(rings[i].r, rings[j].r, rings[j].z - rings[i].z);
+        l1 += weights[i] * weights[j] * term;
+      }
+      mutual += weights[i] * ringToTurnsMutualInductance(rings[i].r, rings[i].z, winding);
+    }
+    const k = mutual / Math.sqrt(l1 * (evaluation.metrics.secondary_inductance as number));
+    expect(relativeError(evaluation.metrics.primary_inductance as number, l1)).toBeLessThan(1e-12);
+    expect(relativeError(evaluation.metrics.mutual_inductance as number, mutual)).toBeLessThan(1e-4);
+    expect(relativeError(evaluation.metrics.coupling as number, k)).toBeLessThan(1e-4);
   });
 });
