@@ -534,10 +534,14 @@ export class NelderMead {
     return spread;
   }
 
-  /** True when, in some coordinate, every vertex lies on the same (finite) bound. */
+  /**
+   * True when, in some coordinate, every vertex lies on the same (finite) bound. A coordinate
+   * whose bounds coincide is fixed, not collapsed, and is skipped.
+   */
   private isCollapsedOnBound(): boolean {
     if (!this.simplexComplete) return false;
     for (let k = 0; k < this.dimension; k++) {
+      if (this.lower[k] === this.upper[k]) continue;
       if (this.allOnBound(k, this.lower[k]) || this.allOnBound(k, this.upper[k])) return true;
     }
     return false;

@@ -126,6 +126,13 @@ describe('bounds are never crossed', () => {
     expect([withoutRestarts.evaluations, withRestarts.evaluations, withRestarts.restarts]).toEqual([65, 99, 1]); // regression figures
   });
 
+  test('a coordinate with equal bounds stays fixed and is not taken for a collapse (no restarts)', () => {
+    const result = minimize((x) => (x[0] - 0.3) ** 2 + (x[1] - 0.5) ** 2, [0.9, 0.5], { lower: [0, 0.5], upper: [1, 0.5] });
+    expect(result.restarts).toBe(0);
+    expect(result.x[1]).toBe(0.5);
+    expect(result.x[0]).toBeCloseTo(0.3, 3);
+  });
+
   test('a start on the upper bound of every coordinate gets a simplex of full width (reflected inside)', () => {
     const machine = new NelderMead([1, 1, 1]);
     const simplex = machine.ask();
