@@ -12,9 +12,12 @@
 
 # --signal above sends SIGTERM to this script 5 minutes before the job's time limit; `exec` makes
 # coilfront this script's process, so it receives it, finishes its batches and writes a checkpoint.
-# --time-limit stops it cleanly even earlier. A stopped shard continues with the same line plus --resume.
-exec coilfront sweep spec.yaml --out "runs/night-shard-$SLURM_ARRAY_TASK_ID" \
-  --workers "$SLURM_CPUS_PER_TASK" --time-limit 9h30m
+# --time-limit stops it cleanly even earlier. Submitting the same array again continues each shard.
+out="runs/night-shard-$SLURM_ARRAY_TASK_ID"
+if [ -e "$out/run.json" ]; then
+  exec coilfront sweep --resume "$out" --workers "$SLURM_CPUS_PER_TASK" --time-limit 9h30m
+fi
+exec coilfront sweep spec.yaml --out "$out" --workers "$SLURM_CPUS_PER_TASK" --time-limit 9h30m
 
 # When all 8 tasks have finished (for example in a job submitted with --dependency=afterok:JOBID):
 #   coilfront merge runs/night-shard-{1..8} --out runs/night
