@@ -9,7 +9,7 @@
  * which on the sheet itself (a = r) reduces to (K − E)/(π r d₊): a logarithmic singularity only,
  * integrated on the own panel with the substitution t = ±u² and 8-point Gauss–Legendre.
  */
-import { ellipticEFromComplement, ellipticKFromComplement } from './elliptic-polynomial.ts';
+import { ellipticKLogPart, ellipticKSmoothPart } from './elliptic-polynomial.ts';
 import { GAUSS8_NODES, GAUSS8_WEIGHTS } from './gauss-legendre.ts';
 import { NEAR_RATIO, FAR_RATIO } from './assembly.ts';
 import { PANEL_THIN_RING, panelPoint, type PanelLayout } from './panels.ts';
@@ -18,14 +18,18 @@ import { VACUUM_PERMITTIVITY } from './ring-kernel.ts';
 const MAX_DEPTH = 14;
 const point = new Float64Array(2);
 
-/** [K − ((r′² − r² + Δz²)/d₋²)E]·2/(r d₊): radial field kernel per unit charge × 4πε0·π/… (see below). */
+/** 2[K − ((r′² − r² + Δz²)/d₋²)E]/(r d₊): the radial ring field (ring-kernel.ts) times 2π·4πε0/q, 1/m²; with r′ ds′ σ/(4πε0) it is the field of the charge σ·2πr′ds′. */
 function radialKernel(r: number, z: number, sourceR: number, sourceZ: number): number {
   const dz = z - sourceZ;
   const plus2 = (r + sourceR) ** 2 + dz * dz;
   const minus2 = (r - sourceR) ** 2 + dz * dz;
   const m1 = minus2 / plus2;
-  const k = ellipticKFromComplement(m1);
-  const e = ellipticEFromComplement(m1);
+  // K and E from one logarithm (A&S 17.3.34 and 17.3.36, as in elliptic-polynomial.ts).
+  const logInverse = -Math.log(m1);
+  const k = ellipticKSmoothPart(m1) + ellipticKLogPart(m1) * logInverse;
+  const e =
+    1 + m1 * (0.44325141463 + m1 * (0.0626060122 + m1 * (0.04757383546 + m1 * 0.01736506451))) +
+    m1 * (0.2499836831 + m1 * (0.09200180037 + m1 * (0.04069697526 + m1 * 0.00526449639))) * logInverse;
   return (2 / r) * (k - ((sourceR * sourceR - r * r + dz * dz) / minus2) * e) / Math.sqrt(plus2);
 }
 
