@@ -8,9 +8,12 @@ import { refineRangeError } from './refine-errors.ts';
  * Sources: R. E. Steuer and E.-U. Choo, "An interactive weighted Tchebycheff procedure for
  * multiple objective programming", Math. Programming 26 (1983) 326–344 (the augmented weighted
  * Tchebycheff metric); K. Miettinen, "Nonlinear Multiobjective Optimization", Kluwer 1999,
- * Part II §3.4 (weighted metrics; every Pareto optimum is the minimum of some weighted Chebyshev
- * problem with a utopian reference point, and the augmentation term keeps the minima properly
- * Pareto optimal rather than weakly). Equation numbers are not quoted: cited from memory.
+ * Part II, the chapter on weighted metrics (every Pareto optimum is the minimum of some weighted
+ * Chebyshev problem with a utopian reference point, and the augmentation term keeps the minima
+ * properly Pareto optimal rather than weakly). Bibliographic details and these statements are
+ * cited from memory; no equation numbers are quoted. Miettinen writes the augmentation as
+ * ρ·Σ (f_i − z_i), unweighted, which we follow (issue 7 suggested ρ·Σ w_i (f_i − z_i); either
+ * serves, the weighted form only rescales ρ per objective).
  */
 
 /** Options of the Chebyshev merit. */
@@ -95,7 +98,7 @@ export interface FrontExtent {
 /**
  * Ideal and nadir points of a set of objective vectors (all minimised): the per-objective minimum
  * and maximum. Over a non-dominated set the maximum is that set's nadir point (Miettinen 1999,
- * Part I §2.4; from memory). Non-finite entries are skipped.
+ * Part I; from memory). Non-finite entries are skipped.
  */
 export function frontExtent(front: ReadonlyArray<ArrayLike<number>>): FrontExtent {
   if (front.length === 0) throw refineRangeError('frontExtent', 'at least one point', 0);
@@ -116,7 +119,7 @@ export function frontExtent(front: ReadonlyArray<ArrayLike<number>>): FrontExten
 /**
  * A utopian reference point z_i = ideal_i − margin·(nadir_i − ideal_i) (margin·1 where the range
  * is 0), strictly better than every front point, as the Chebyshev method requires for proper
- * Pareto optima (Miettinen 1999, Part II §3.4). Default margin 1 (ours): a sweep's front can lie
+ * Pareto optima (Miettinen 1999, Part II). Default margin 1 (ours): a sweep's front can lie
  * well above the true front, and once a refined point passes below the reference point in some
  * objective the Chebyshev merit stops seeing that objective (only the augmentation term does); on
  * ZDT1 from a coarse sample, margin 1 gave more hypervolume than the customary small margin

@@ -2,6 +2,25 @@
  * The refinement engine: Nelder–Mead with Deb's feasibility order, Chebyshev scalarisation over a
  * front, and a neighbour pass over discrete parameters with a shared evaluation cache. Pure
  * algorithms: no physics, no I/O, no threads; evaluation comes in as an async batch function.
+ *
+ * Driving many starts through one pool (sketch; `pool.evaluate` returns, per point, the
+ * objectives to minimise and the total violation):
+ *
+ * ```ts
+ * const batch = coalesceBatches((points: MixedPoint[]) => pool.evaluate(points), { maxBatchSize: 512 });
+ * const cache = new EvaluationCache(batch);                      // shared: no design twice
+ * const plan = planChebyshevStarts(frontObjectives, 16);         // starts, weights, reference
+ * const results = await refineStarts(
+ *   plan.starts.map((s) => frontDesigns[s.frontIndex]),          // { continuous, levels }
+ *   cache,
+ *   (i) => (record) => ({
+ *     violation: record.violation,
+ *     value: chebyshevMerit(record.objectives, plan.starts[i].weights, plan.reference, plan.nadir),
+ *   }),
+ *   { levelCounts, maxEvaluations: Math.floor(totalBudget / plan.starts.length) },
+ * );
+ * const everything = cache.entries();                            // every design evaluated, for the front merge
+ * ```
  */
 
 // --- merits and their order ---

@@ -31,7 +31,7 @@ export function toMerit(input: Merit | number): Merit {
 
 /**
  * Deb's feasibility rules as a comparator (K. Deb, "An efficient constraint handling method for
- * genetic algorithms", Comput. Methods Appl. Mech. Engrg. 186 (2000) 311–338, §3): a feasible
+ * genetic algorithms", Comput. Methods Appl. Mech. Engrg. 186 (2000) 311–338; details from memory): a feasible
  * point beats an infeasible one; two feasible points compare by value; two infeasible points
  * compare by total violation. Ours adds one tie-break Deb leaves open: equal violations compare
  * by value. The result is the lexicographic order on (violation, value).

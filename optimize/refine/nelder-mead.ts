@@ -10,7 +10,7 @@ import { refineRangeError, refineStateError } from './refine-errors.ts';
  * Sources: J. A. Nelder and R. Mead, "A simplex method for function minimization", Computer J. 7
  * (1965) 308–313; the step rules as stated by J. C. Lagarias, J. A. Reeds, M. H. Wright and P. E.
  * Wright, "Convergence properties of the Nelder–Mead simplex method in low dimensions", SIAM J.
- * Optim. 9 (1998) 112–147, §2; adaptive coefficients from F. Gao and L. Han, "Implementing the
+ * Optim. 9 (1998) 112–147, section 2 (from memory); adaptive coefficients from F. Gao and L. Han, "Implementing the
  * Nelder–Mead simplex algorithm with adaptive parameters", Comput. Optim. Appl. 51 (2012) 259–277.
  *
  * The contract follows scipy's `minimize(method='Nelder-Mead')` (scipy/optimize/_optimize.py):
@@ -123,7 +123,7 @@ const BOUND_TOUCH_TOLERANCE = 1e-12; // relative; a coordinate this close to a b
 
 /**
  * The Nelder–Mead coefficients for dimension n. Standard (Nelder & Mead 1965): ρ = 1, χ = 2,
- * γ = 0.5, σ = 0.5. Adaptive (Gao & Han 2012, eq. 4.1): ρ = 1, χ = 1 + 2/n, γ = 0.75 − 1/(2n),
+ * γ = 0.5, σ = 0.5. Adaptive (Gao & Han 2012; as scipy implements them): ρ = 1, χ = 1 + 2/n, γ = 0.75 − 1/(2n),
  * σ = 1 − 1/n, which equal the standard ones at n = 2.
  */
 export function nelderMeadCoefficients(dimension: number, adaptive: boolean): NelderMeadCoefficients {
@@ -574,7 +574,7 @@ function resolveCoefficients(dimension: number, options: NelderMeadOptions): Nel
     contraction: options.contraction ?? base.contraction,
     shrink: options.shrink ?? base.shrink,
   };
-  // Lagarias et al. 1998, eq. 2.1: ρ > 0, χ > 1, χ > ρ, 0 < γ < 1, 0 < σ < 1. At n = 1 the
+  // Lagarias et al. 1998 (conditions recalled from memory): ρ > 0, χ > 1, χ > ρ, 0 < γ < 1, 0 < σ < 1. At n = 1 the
   // adaptive shrink is 0; we keep it legal by falling back to the standard 0.5 there.
   if (coefficients.shrink === 0 && options.shrink === undefined) coefficients.shrink = 0.5;
   const { reflection, expansion, contraction, shrink } = coefficients;

@@ -9,10 +9,10 @@ describe('nelderMeadCoefficients', () => {
   test('nelderMeadCoefficients(n, false) is Nelder & Mead 1965: ρ 1, χ 2, γ 0.5, σ 0.5', () => {
     expect(nelderMeadCoefficients(7, false)).toEqual({ reflection: 1, expansion: 2, contraction: 0.5, shrink: 0.5 });
   });
-  test('nelderMeadCoefficients(2, true) equals the standard ones (Gao & Han 2012, §4)', () => {
+  test('nelderMeadCoefficients(2, true) equals the standard ones (Gao & Han 2012: their formulas at n = 2)', () => {
     expect(nelderMeadCoefficients(2, true)).toEqual(nelderMeadCoefficients(2, false));
   });
-  test('nelderMeadCoefficients(10, true) is 1, 1 + 2/n, 0.75 − 1/(2n), 1 − 1/n (Gao & Han 2012, eq. 4.1)', () => {
+  test('nelderMeadCoefficients(10, true) is 1, 1 + 2/n, 0.75 − 1/(2n), 1 − 1/n (Gao & Han 2012, as in the adaptive option of scipy)', () => {
     expect(nelderMeadCoefficients(10, true)).toEqual({ reflection: 1, expansion: 1.2, contraction: 0.7, shrink: 0.9 });
   });
   test('nelderMeadCoefficients(0, false) throws', () => {

@@ -37,7 +37,7 @@ describe('weightsForFrontPoint', () => {
     );
   });
 
-  test('the scalarised minimum over the front y = 1 − √x lies on the ray from the reference through the start (Miettinen 1999, Part II §3.4)', () => {
+  test('the scalarised minimum over the front y = 1 − √x lies on the ray from the reference through the start (Miettinen 1999, Part II; exact solution by bisection)', () => {
     // Exact solution by bisection of (t − z1)/(s1 − z1) = (1 − √t − z2)/(s2 − z2) on [0, 1].
     const reference = [-0.05, -0.05];
     const start = [0.3, 0.8];
