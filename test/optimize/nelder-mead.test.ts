@@ -27,6 +27,22 @@ describe('compareMerits (Deb 2000 feasibility rules)', () => {
     expect(compareMerits({ violation: 0.5, value: 100 }, { violation: 2, value: -100 })).toBeLessThan(0);
     expect(compareMerits({ violation: 0.5, value: 1 }, { violation: 0.5, value: 1 })).toBe(0);
   });
+  test('on any finite set, Deb\'s order is the order of the exact penalty value + P·violation once P is large enough', () => {
+    // Exact-penalty view (common practice): with P > max |Δvalue| / min positive |Δviolation| the
+    // penalised order equals the lexicographic (violation, value) order of compareMerits.
+    fc.assert(
+      fc.property(
+        fc.array(fc.record({ violation: fc.oneof(fc.constant(0), fc.integer({ min: 1, max: 50 }).map((k) => k / 10)), value: fc.integer({ min: -100, max: 100 }) }), { minLength: 2, maxLength: 12 }),
+        (merits) => {
+          const penalty = 201 / 0.1 + 1;
+          const byDeb = merits.map((_, i) => i).sort((a, b) => compareMerits(merits[a], merits[b]) || a - b);
+          const byPenalty = merits.map((_, i) => i).sort((a, b) => merits[a].value + penalty * merits[a].violation - (merits[b].value + penalty * merits[b].violation) || a - b);
+          expect(byPenalty).toEqual(byDeb);
+        },
+      ),
+      { numRuns: 200, seed: 3 },
+    );
+  });
   test('toMerit reads NaN as +Infinity and rejects a negative violation', () => {
     expect(toMerit(NaN)).toEqual({ violation: 0, value: Infinity });
     expect(toMerit({ violation: NaN, value: 1 })).toEqual({ violation: Infinity, value: 1 });
