@@ -14,6 +14,7 @@ import { designFileSchema, sweepSchema } from './json-schema.ts';
 import { showCommand } from './show-command.ts';
 import { mergeCommand } from './merge-command.ts';
 import { demoCommand } from './demo-command.ts';
+import { refineCommand, type RefineCommandOptions } from './refine-command.ts';
 
 /** Commander parser of whole-number options: a usage error (exit 2) for anything else. */
 function integer(option: string) {
@@ -75,6 +76,17 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .option('--refined <rank>', 'a design of refined.csv instead')
     .action((run: string, rank: string | undefined, options: { refined?: string }) => {
       exitCode = showCommand(run, rank, options, io);
+    });
+
+  program
+    .command('refine')
+    .description("polish a sweep's best candidates and its Pareto front with Nelder-Mead")
+    .argument('<run>', 'run directory of a sweep')
+    .option('--starts <n>', 'number of starts', integer('--starts'), 8)
+    .option('--evaluations <n>', 'total evaluation budget, shared by the starts', integer('--evaluations'), 2000)
+    .option('--workers <n>', 'worker threads (default: available parallelism)', integer('--workers'))
+    .action(async (run: string, options: RefineCommandOptions) => {
+      exitCode = await refineCommand(run, options, io);
     });
 
   program

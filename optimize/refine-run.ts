@@ -1,0 +1,140 @@
+/**
+ * A whole refinement of a sweep's result: starts from the best candidates (one objective) or spread
+ * over the Pareto front (Chebyshev scalarisations, several objectives), the engine of
+ * optimize/refine/ driven through a BatchEvaluator, and the refined designs merged with the front.
+ * Deterministic: the same state and budget give the same designs, whatever the number of workers.
+ */
+import { METRIC_KEYS } from '../core/metrics.ts';
+import type { Dimension } from './design-tree.ts';
+import { STATUS_OK, type BatchEvaluator } from './evaluate-batch.ts';
+import { mixedSpaceOf, pointOfValues, valuesOfPoint } from './mixed-space.ts';
+import { CandidatePool } from './pareto/candidate-pool.ts';
+import { hypervolume, defaultReferencePoint } from './pareto/hypervolume.ts';
+import { coalesceBatches } from './refine/batch-coalescer.ts';
+import { chebyshevMerit, planChebyshevStarts } from './refine/chebyshev.ts';
+import { EvaluationCache } from './refine/evaluation-cache.ts';
+import type { Merit } from './refine/merit.ts';
+import { mixedPointKey, type MixedPoint } from './refine/mixed-point.ts';
+import { refineStarts, type RefineStartResult } from './refine/refine-start.ts';
+import type { CandidateRow, SweepState } from './sweep-state.ts';
+
+export interface RefineOptions {
+  starts: number;
+  /** Total evaluation budget, shared evenly by the starts. */
+  evaluations: number;
+  /** Hypervolume reference point (minimisation convention), or null for the default from the sweep's front. */
+  referencePoint: number[] | null;
+  /** Batch size of pool tasks. */
+  batchSize: number;
+}
+
+interface RefineRecord {
+  row: CandidateRow;
+  violation: number;
+  objectives: Float64Array | null;
+}
+
+export interface RefineOutcome {
+  /** Every feasible design the refinement evaluated, ranked, with exact dimension values. */
+  refined: CandidatePool<CandidateRow>;
+  /** The sweep's front merged with the refined designs (non-dominated feasible set). */
+  merged: CandidatePool<CandidateRow>;
+  hypervolumeBefore: number | null;
+  hypervolumeAfter: number | null;
+  referencePoint: number[] | null;
+  evaluations: number;
+  startResults: RefineStartResult[];
+}
+
+export async function refineSweep(
+  dimensions: readonly Dimension[],
+  state: SweepState,
+  sampleCount: number,
+  evaluator: BatchEvaluator,
+  options: RefineOptions,
+): Promise<RefineOutcome> {
+  const space = mixedSpaceOf(dimensions);
+  const metricCount = METRIC_KEYS.length;
+  const objectiveCount = state.objectives.length;
+
+  // The evaluator of mixed points: dimension values to the pool as one 'values' task per chunk.
+  const evaluateMixed = async (points: MixedPoint[]): Promise<RefineRecord[]> => {
+    const values = new Float64Array(points.length * dimensions.length);
+    points.forEach((point, i) => values.set(valuesOfPoint(dimensions, space, point), i * dimensions.length));
+    const result = await evaluator.evaluate({ kind: 'values', values, count: points.length });
+    const reasons = new Map(result.reasons);
+    return points.map((_, row) => {
+      const offset = row * metricCount;
+      const metrics = result.metrics.subarray(offset, offset + metricCount);
+      const ok = result.status[row] === STATUS_OK;
+      const objectives = ok ? state.objectiveVector(metrics) : null;
+      const violation = ok ? state.violationOf(metrics) + (objectives ? 0 : 1) : Number.POSITIVE_INFINITY;
+      return {
+        violation,
+        objectives,
+        row: {
+          values: Array.from(result.values.subarray(row * dimensions.length, (row + 1) * dimensions.length)),
+          metrics: Array.from(metrics, (v) => (Number.isFinite(v) ? v : null)),
+          status: result.status[row]!,
+          reason: reasons.get(row) ?? (violation > 0 && ok ? state.describeViolation(metrics) : null),
+          warnings: result.warningCounts[row]!,
+        },
+      };
+    });
+  };
+  const cache = new EvaluationCache<RefineRecord>(coalesceBatches(evaluateMixed, { maxBatchSize: options.batchSize }));
+
+  // Starts and their merits.
+  const feasible = state.pool.front();
+  let startRows: CandidateRow[];
+  let meritOfStart: (start: number) => (record: RefineRecord) => Merit;
+  const before = feasible.map((entry) => entry.item.objectives);
+  const reference = options.referencePoint ? Float64Array.from(options.referencePoint) : before.length > 0 ? defaultReferencePoint(before) : null;
+  if (objectiveCount >= 2 && feasible.length > 0) {
+    const ordered = [...feasible].sort((a, b) => a.item.index - b.item.index);
+    const plan = planChebyshevStarts(ordered.map((entry) => entry.item.objectives), Math.min(options.starts, ordered.length));
+    startRows = plan.starts.map((start) => ordered[start.frontIndex]!.payload);
+    meritOfStart = (start) => (record) => ({
+      violation: record.violation,
+      value: record.objectives ? chebyshevMerit(record.objectives, plan.starts[start]!.weights, plan.reference, plan.nadir) : Number.POSITIVE_INFINITY,
+    });
+  } else {
+    const ranked = state.pool.ranked(options.starts);
+    startRows = ranked.map((entry) => entry.payload);
+    meritOfStart = () => (record) => ({
+      violation: record.violation,
+      value: record.objectives && objectiveCount === 1 ? record.objectives[0]! : 0,
+    });
+  }
+  const budget = Math.max(dimensions.length + 2, Math.floor(options.evaluations / Math.max(1, startRows.length)));
+  const startPoints = startRows.map((row) => pointOfValues(dimensions, space, row.values));
+  const startResults = await refineStarts(
+    startPoints.map((point) => ({ continuous: point.continuous, levels: point.levels })),
+    cache,
+    meritOfStart,
+    { levelCounts: space.levelCounts, maxEvaluations: budget },
+  );
+
+  // Every evaluated design, in a deterministic order (by its key), gets an index after the samples.
+  const entries = cache.entries().map((entry) => ({ key: mixedPointKey(entry.point), entry })).sort((a, b) => (a.key < b.key ? -1 : a.key > b.key ? 1 : 0));
+  const refined = new CandidatePool<CandidateRow>(state.keep, objectiveCount);
+  const merged = new CandidatePool<CandidateRow>(state.keep, objectiveCount);
+  for (const entry of feasible) merged.offer(entry.item, entry.payload);
+  entries.forEach(({ entry }, k) => {
+    const record = entry.record;
+    if (record.violation !== 0 || !record.objectives) return;
+    const item = { index: sampleCount + k, violation: 0, objectives: record.objectives };
+    refined.offer(item, record.row);
+    merged.offer(item, record.row);
+  });
+  const after = merged.front().map((entry) => entry.item.objectives);
+  return {
+    refined,
+    merged,
+    hypervolumeBefore: reference && before.length > 0 ? hypervolume(before, reference) : null,
+    hypervolumeAfter: reference && after.length > 0 ? hypervolume(after, reference) : null,
+    referencePoint: reference ? Array.from(reference) : null,
+    evaluations: cache.evaluations,
+    startResults,
+  };
+}
