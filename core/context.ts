@@ -50,7 +50,7 @@ export interface Ring {
 export interface PrimaryGeometry {
   /** Rings from the inner end outward; z above the floor. */
   rings: Ring[];
-  /** Weight of each ring for the full primary (1, the last may be partial). */
+  /** Radius of the primary conductor (tube or wire), m. */
   conductorRadius: number;
   /** The tap used (turns from the inner end), possibly fractional. */
   tapTurns: number;

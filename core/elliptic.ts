@@ -41,7 +41,8 @@ function agmPair(m: number, m1: number): EllipticPair {
     sum += power * c * c;
     a = nextA;
     b = nextB;
-    if (Math.abs(c) <= 1e-17 * a) break;
+    // Once a and b agree to about an ulp the next term (≈ c²/4a) is far below double precision.
+    if (Math.abs(c) <= 1e-15 * a) break;
   }
   const k = Math.PI / (2 * a);
   return { k, e: k * (1 - sum) };
