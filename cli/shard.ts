@@ -213,6 +213,21 @@ export function resolveShard(input: ResolveShardInput): Shard | null {
 }
 
 /**
+ * A shard in words for the run's log, saying where it came from, so a sweep that a scheduler's
+ * variables cut into a slice never does so silently.
+ *
+ * @example describeShard({ index: 3, count: 8, source: 'slurm' })
+ *   // 'shard 3/8 (from SLURM_ARRAY_TASK_ID; --shard 1/1 runs the whole sweep)'
+ */
+export function describeShard(shard: Shard): string {
+  const origin =
+    shard.source === 'flag'
+      ? 'from --shard'
+      : `from ${shard.source === 'slurm' ? 'SLURM_ARRAY_TASK_ID' : 'JOB_COMPLETION_INDEX'}; --shard 1/1 runs the whole sweep`;
+  return `shard ${shard.index}/${shard.count} (${origin})`;
+}
+
+/**
  * The sample indices of shard `index` of `count` over `total` samples: the half-open range
  * [floor((index−1)·total/count), floor(index·total/count)), as [start, end]. Exact for any totals
  * up to Number.MAX_SAFE_INTEGER (the products are taken in BigInt). Throws RangeError for

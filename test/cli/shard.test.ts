@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { checkCoverage, parseShard, parseShardCount, resolveShard, shardFromEnvironment, shardIndices } from '../../cli/shard.ts';
+import { checkCoverage, describeShard, parseShard, parseShardCount, resolveShard, shardFromEnvironment, shardIndices } from '../../cli/shard.ts';
 import { InputError } from '../../cli/input-error.ts';
 
 describe('parseShard(text)', () => {
@@ -88,6 +88,14 @@ describe('resolveShard(input)', () => {
   it('refuses --shard-count without an index, and disagreeing --shard and --shard-count', () => {
     expect(() => resolveShard({ env: {}, countFlag: 8 })).toThrow(/^--shard-count: needs a shard index/);
     expect(() => resolveShard({ shardFlag: '1/3', countFlag: 4, env: {} })).toThrow('--shard: 1/3 disagrees with --shard-count 4');
+  });
+});
+
+describe('describeShard(shard)', () => {
+  it('says where the shard came from, and how to run the whole sweep instead', () => {
+    expect(describeShard({ index: 2, count: 4, source: 'flag' })).toBe('shard 2/4 (from --shard)');
+    expect(describeShard({ index: 3, count: 8, source: 'slurm' })).toBe('shard 3/8 (from SLURM_ARRAY_TASK_ID; --shard 1/1 runs the whole sweep)');
+    expect(describeShard({ index: 1, count: 8, source: 'kubernetes' })).toBe('shard 1/8 (from JOB_COMPLETION_INDEX; --shard 1/1 runs the whole sweep)');
   });
 });
 
