@@ -7,11 +7,12 @@
  * line in the meridian plane with normal +r, so only the radial ring field is needed (ring-kernel.ts):
  *   E_r = q/(4πε0) · (1/(π r)) [K − ((a² − r² + Δz²)/d₋²) E] / d₊,
  * which on the sheet itself (a = r) reduces to (K − E)/(π r d₊): a logarithmic singularity only,
- * integrated on the own panel with the substitution t = ±u² and 8-point Gauss–Legendre.
+ * integrated on the own panel with the substitution t = ±u² and 8-point Gauss–Legendre. Other
+ * panels follow the distance rules of assembly.ts (midpoint, 2-point, 4-point, bisection).
  */
 import { ellipticKLogPart, ellipticKSmoothPart } from './elliptic-polynomial.ts';
-import { GAUSS8_NODES, GAUSS8_WEIGHTS } from './gauss-legendre.ts';
-import { NEAR_RATIO, FAR_RATIO } from './assembly.ts';
+import { GAUSS4_NODES, GAUSS4_WEIGHTS, GAUSS8_NODES, GAUSS8_WEIGHTS } from './gauss-legendre.ts';
+import { DISTANT_RATIO, FAR_RATIO, NEAR_RATIO } from './assembly.ts';
 import { PANEL_THIN_RING, panelPoint, type PanelLayout } from './panels.ts';
 import { VACUUM_PERMITTIVITY } from './ring-kernel.ts';
 
@@ -40,6 +41,9 @@ function integrateRadial(layout: PanelLayout, j: number, ta: number, tb: number,
   const pieceLength = layout.length[j] * halfSpan;
   panelPoint(layout, j, centre, point);
   const distance2 = (r - point[0]) ** 2 + (z - point[1]) ** 2;
+  if (depth === 0 && distance2 >= DISTANT_RATIO * DISTANT_RATIO * pieceLength * pieceLength) {
+    return (layout.area[j] / (2 * Math.PI)) * radialKernel(r, z, layout.midR[j], layout.midZ[j]);
+  }
   if (depth === 0 && distance2 >= FAR_RATIO * FAR_RATIO * pieceLength * pieceLength) {
     const o = 2 * j;
     return (
@@ -50,9 +54,9 @@ function integrateRadial(layout: PanelLayout, j: number, ta: number, tb: number,
   if (distance2 >= NEAR_RATIO * NEAR_RATIO * pieceLength * pieceLength || depth >= MAX_DEPTH) {
     let sum = 0;
     const jacobian = 0.5 * layout.length[j] * halfSpan;
-    for (let q = 0; q < 8; q++) {
-      panelPoint(layout, j, centre + halfSpan * GAUSS8_NODES[q], point);
-      sum += GAUSS8_WEIGHTS[q] * jacobian * point[0] * radialKernel(r, z, point[0], point[1]);
+    for (let q = 0; q < 4; q++) {
+      panelPoint(layout, j, centre + halfSpan * GAUSS4_NODES[q], point);
+      sum += GAUSS4_WEIGHTS[q] * jacobian * point[0] * radialKernel(r, z, point[0], point[1]);
     }
     return sum;
   }
