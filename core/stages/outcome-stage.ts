@@ -85,20 +85,20 @@ export function outcomeStage(context: EvalContext): void {
   }
 }
 
-/** Warns when the tank at the reported tap is off the secondary's frequency. */
+/**
+ * Warns when a tap fixed in the design (primary.tap_turns) leaves the tank off the secondary's
+ * frequency. (A primary that cannot be tuned at any tap is reported by the primary stage.)
+ */
 function tuningCheck(context: EvalContext): void {
   const { metrics, design, warnings } = context;
   const primaryFrequency = metrics.primary_frequency;
   const secondaryFrequency = metrics.resonant_frequency;
   const primarySpec = design.primary;
   if (primaryFrequency === null || secondaryFrequency === null || !primarySpec || !design.tank) return;
-  if (!(primaryFrequency > 0) || !(secondaryFrequency > 0)) return;
+  if (primarySpec.tapTurns === undefined || !(primaryFrequency > 0) || !(secondaryFrequency > 0)) return;
   const mistuning = primaryFrequency / secondaryFrequency - 1;
   if (Math.abs(mistuning) <= TUNING_TOLERANCE) return;
-  const tap = metrics.primary_tap_turns ?? context.primary?.tapTurns ?? null;
-  const atEnd = tap !== null && tap >= primarySpec.turns - 1e-6 && primarySpec.tapTurns === undefined;
-  const where = atEnd ? `even at its last turn (${formatNumber(primarySpec.turns)} turns)` : `at the tap (${tap === null ? '?' : formatNumber(tap)} turns)`;
   warnings.push(
-    `the primary tunes to ${formatQuantity(primaryFrequency, 'Hz')} ${where}, the secondary to ${formatQuantity(secondaryFrequency, 'Hz')} (${formatNumber(100 * mistuning)} %)${atEnd ? ': it cannot be tuned with the given turns' : ''}`,
+    `the tank at the fixed tap (${formatNumber(primarySpec.tapTurns)} turns) tunes to ${formatQuantity(primaryFrequency, 'Hz')}, the secondary to ${formatQuantity(secondaryFrequency, 'Hz')} (${mistuning > 0 ? '+' : ''}${formatNumber(100 * mistuning)} %, tolerance ±${formatNumber(100 * TUNING_TOLERANCE)} %)`,
   );
 }

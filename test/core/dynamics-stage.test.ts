@@ -268,12 +268,16 @@ describe('outcomeStage', () => {
     expect(raised.metrics.primary_strike_margin!).toBeLessThan(flat.metrics.primary_strike_margin!);
   });
 
-  test('warns when the primary cannot be tuned with its turns', () => {
-    const context = makeContext(sparkGap);
-    context.metrics.primary_frequency = 1.2 * secondaryFrequency;
-    context.metrics.primary_tap_turns = 12;
-    run(context);
-    expect(context.warnings.some((w) => w.includes('cannot be tuned') && w.includes('12 turns'))).toBe(true);
+  test('warns when a fixed tap leaves the tank off the secondary frequency, not when the tap was chosen to tune', () => {
+    const fixed = makeContext(sparkGap);
+    fixed.design.primary!.tapTurns = 8;
+    fixed.metrics.primary_frequency = 1.2 * secondaryFrequency;
+    run(fixed);
+    expect(fixed.warnings.some((w) => w.includes('fixed tap (8 turns)') && w.includes('+20 %'))).toBe(true);
+    const chosen = makeContext(sparkGap);
+    chosen.metrics.primary_frequency = 1.2 * secondaryFrequency; // the primary stage reports that case itself
+    run(chosen);
+    expect(chosen.warnings.some((w) => w.includes('tap'))).toBe(false);
   });
 });
 
