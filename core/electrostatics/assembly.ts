@@ -138,18 +138,54 @@ export function panelSelfIntegral(layout: PanelLayout, j: number): number {
 
 /**
  * The dense collocation matrix, row-major n × n, V per (C/m²) (V per C/m for thin rings).
+ *
+ * Structure used: the ring kernel K(m)/d₊ is symmetric in field and source point (d₊, d₋ are), and
+ * so is its image term (z + z′). Where a pair is distant both ways (or involves a thin ring, whose
+ * entry is a single node anyway), entries (i, j) and (j, i) are (area_j/2π)·k and (area_i/2π)·k of
+ * the same kernel value k, computed once. The entries are the same numbers as without the pairing.
  * @param layout panels of the arrangement
  * @param floor true to include the grounded floor z = 0 by images
+ * @param pairDistant false to evaluate every entry on its own (reference path for the tests)
  */
-export function assembleCollocationMatrix(layout: PanelLayout, floor: boolean): Float64Array {
+export function assembleCollocationMatrix(layout: PanelLayout, floor: boolean, pairDistant = true): Float64Array {
   const n = layout.count;
   const matrix = new Float64Array(n * n);
   const scale = 1 / (Math.PI * VACUUM_PERMITTIVITY);
+  const done = pairDistant ? new Uint8Array(n * n) : null;
+  if (done) {
+    const distant2 = DISTANT_RATIO * DISTANT_RATIO;
+    for (let i = 0; i < n; i++) {
+      const ri = layout.midR[i];
+      const zi = layout.midZ[i];
+      const li = layout.kind[i] === PANEL_THIN_RING ? 0 : layout.length[i];
+      const weightI = (layout.area[i] / (2 * Math.PI)) * scale;
+      for (let j = i + 1; j < n; j++) {
+        const lj = layout.kind[j] === PANEL_THIN_RING ? 0 : layout.length[j];
+        const dr = ri - layout.midR[j];
+        const dz = zi - layout.midZ[j];
+        const longest = Math.max(li, lj);
+        if (dr * dr + dz * dz < distant2 * longest * longest) continue;
+        const zj = layout.midZ[j];
+        if (floor) {
+          const dzImage = zi + zj;
+          const longestImage2 = distant2 * longest * longest;
+          if (dr * dr + dzImage * dzImage < longestImage2) continue;
+        }
+        let kernel = ringKernel(ri, zi, layout.midR[j], zj);
+        if (floor) kernel -= ringKernel(ri, -zi, layout.midR[j], zj);
+        matrix[i * n + j] = (layout.area[j] / (2 * Math.PI)) * scale * kernel;
+        matrix[j * n + i] = weightI * kernel;
+        done[i * n + j] = 1;
+        done[j * n + i] = 1;
+      }
+    }
+  }
   for (let i = 0; i < n; i++) {
     const r = layout.midR[i];
     const z = layout.midZ[i];
     const row = i * n;
     for (let j = 0; j < n; j++) {
+      if (done && done[row + j]) continue;
       let value = i === j ? panelSelfIntegral(layout, j) : panelIntegral(layout, j, r, z);
       // Image in the floor: the panel's image seen from (r, z) equals the panel seen from (r, −z).
       if (floor) value -= panelIntegral(layout, j, r, -z);
