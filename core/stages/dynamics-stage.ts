@@ -35,7 +35,9 @@ export function dynamicsStage(context: EvalContext): void {
   const l2 = secondary.inductance;
   const c2 = electrostatics.totalCapacitance;
   const f2 = positive(metrics.resonant_frequency) ?? 1 / (2 * Math.PI * Math.sqrt(l2 * c2));
+  if (!(secondary.dcResistance > 0) || !(secondary.wireLength > 0) || !(secondary.bareDiameter > 0) || !(l2 > 0)) return;
   const r2 = solenoidAcResistance(secondary.dcResistance, secondary.wireLength, secondary.bareDiameter, secondary.pitch, f2);
+  if (!Number.isFinite(r2)) return;
   metrics.secondary_ac_resistance = r2;
   metrics.secondary_q = (2 * Math.PI * f2 * l2) / r2;
 
@@ -45,6 +47,7 @@ export function dynamicsStage(context: EvalContext): void {
   if (!primary || !tank || !design.primary) return;
   const l1 = primary.inductance;
   const c1 = tank.capacitance;
+  if (!(l1 > 0) || !(c1 > 0) || !(primary.conductorLength > 0) || !(primary.conductorRadius > 0)) return;
   const f1 = 1 / (2 * Math.PI * Math.sqrt(l1 * c1));
   const resistivity = design.primary.resistivity ?? copperResistivity(design.environment.temperature);
   const conductorResistance = roundConductorAcResistance(primary.conductorLength, primary.conductorRadius, resistivity, f1);

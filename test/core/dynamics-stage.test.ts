@@ -5,6 +5,7 @@
  * warnings. The design below is an invented demo scenario.
  */
 import { describe, expect, test } from 'vitest';
+import fc from 'fast-check';
 import type { Design, SolidStateDriver, SparkGapDriver } from '../../core/design.ts';
 import type { EvalContext, SecondaryGeometry, PrimaryGeometry, ElectrostaticSolution } from '../../core/context.ts';
 import { emptyMetrics } from '../../core/metrics.ts';
@@ -200,6 +201,18 @@ describe('outcomeStage', () => {
     expect(high.breakout_margin! / low.breakout_margin!).toBeCloseTo(0.5, 9);
     expect(low.topload_peak_field).toBeCloseTo(8.5 * low.peak_voltage!, 6);
     expect(low.axial_gradient).toBeCloseTo(low.peak_voltage! / 0.8, 6);
+  });
+
+  test('property: breakout_margin × peak_voltage is the breakout voltage for any charge voltage (margin ∝ 1/V)', () => {
+    fc.assert(
+      fc.property(fc.double({ min: 2e3, max: 60e3, noNaN: true }), (chargeVoltage) => {
+        const { metrics } = run(makeContext(sparkGap, { tank: { capacitance: tankCapacitance, chargeVoltage } }));
+        const reference = run(makeContext(sparkGap)).metrics;
+        const ratio = metrics.breakout_margin! / reference.breakout_margin!;
+        return Math.abs(ratio * (chargeVoltage / 15e3) - 1) < 1e-9 && Math.abs((metrics.breakout_margin! * metrics.peak_voltage!) / (3.2e6 / 8.5) - 1) < 1e-12;
+      }),
+      { numRuns: 25, seed: 7 },
+    );
   });
 
   test('overall height is the toroid mid-plane plus half the tube, or the winding top without a topload', () => {
