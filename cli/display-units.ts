@@ -23,6 +23,7 @@ export const METRIC_DISPLAY: Record<string, DisplayUnit> = {
   resonant_frequency: unit('kHz', 1e3),
   loaded_resonant_frequency: unit('kHz', 1e3),
   topload_field_per_volt: unit('per_m', 1),
+  topload_peak_field_angle: unit('deg', Math.PI / 180),
   topload_underside_field_per_volt: unit('per_m', 1),
   winding_top_field_per_volt: unit('per_m', 1),
   topload_onset_field: unit('kV_per_cm', 1e5),

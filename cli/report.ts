@@ -39,6 +39,7 @@ const GROUPS: Group[] = [
       'resonant_frequency',
       'loaded_resonant_frequency',
       'topload_field_per_volt',
+      'topload_peak_field_angle',
       'topload_underside_field_per_volt',
       'winding_top_field_per_volt',
       'air_density_factor',
@@ -64,6 +65,8 @@ const GROUPS: Group[] = [
     title: 'Energy transfer',
     keys: [
       'primary_resistance',
+      'primary_conductor_resistance',
+      'gap_resistance',
       'mode_frequency_low',
       'mode_frequency_high',
       'transfer_time',
@@ -84,9 +87,60 @@ const GROUPS: Group[] = [
   },
 ];
 
+/** Short labels for the report (the metric descriptions in core/metrics.ts say more). */
+const LABELS: Record<string, string> = {
+  secondary_turns: 'turns',
+  winding_length: 'winding length',
+  winding_aspect_ratio: 'winding length / form diameter',
+  wire_length: 'wire length',
+  wire_mass: 'copper mass',
+  secondary_dc_resistance: 'DC resistance',
+  secondary_ac_resistance: 'AC resistance at resonance (skin + proximity)',
+  secondary_inductance: 'inductance (Nagaoka + Rosa)',
+  secondary_inductance_filament: 'inductance (loop sum, cross-check)',
+  secondary_q: 'Q of the secondary',
+  secondary_self_capacitance: 'bare-winding capacitance (field solve)',
+  secondary_self_capacitance_medhurst: 'self-capacitance (Medhurst, cross-check)',
+  topload_capacitance: 'topload capacitance in place',
+  total_capacitance: 'total capacitance at the top (energy based)',
+  resonant_frequency: 'resonant frequency',
+  loaded_resonant_frequency: 'resonant frequency with streamer loading',
+  topload_field_per_volt: 'topload peak surface field per volt',
+  topload_underside_field_per_volt: 'topload underside field per volt',
+  winding_top_field_per_volt: 'field on the top turns per volt',
+  topload_peak_field_angle: 'where the topload peak field sits (from the outer equator)',
+  air_density_factor: 'relative air density',
+  topload_onset_field: "corona-onset field (Peek's law)",
+  breakout_voltage: 'breakout voltage (corona-onset estimate)',
+  primary_full_inductance: 'inductance of the whole primary',
+  primary_tap_turns: 'tap for tuning (turns from the inner end)',
+  primary_inductance: 'inductance at the tap',
+  primary_frequency: 'tank frequency at the tap',
+  primary_outer_diameter: 'outer ring diameter',
+  mutual_inductance: 'mutual inductance',
+  coupling: 'coupling coefficient k',
+  full_transfer_coupling: 'nearest full-transfer coupling',
+  primary_resistance: 'primary loop resistance (conductor + gap)',
+  primary_conductor_resistance: 'primary conductor AC resistance',
+  gap_resistance: 'gap resistance while conducting',
+  mode_frequency_low: 'lower mode frequency',
+  mode_frequency_high: 'upper mode frequency',
+  transfer_time: 'time to the first energy transfer',
+  energy_per_shot: 'energy per shot or burst',
+  input_power: 'average input power',
+  peak_voltage: 'peak secondary voltage (if the topload held)',
+  breakout_margin: 'breakout margin (breakout / peak voltage)',
+  topload_peak_field: 'topload peak field at the peak voltage',
+  axial_gradient: 'axial gradient along the winding',
+  primary_strike_margin: 'primary-to-secondary strike margin',
+  tank_voltage_margin: 'tank capacitor rating margin',
+  overall_height: 'overall height',
+  spark_length: 'spark length (rule of thumb, common practice)',
+};
+
 function line(key: string, value: number | null): string {
   const info = METRICS.find((m) => m.key === key);
-  const label = info?.description ?? key;
+  const label = LABELS[key] ?? info?.description ?? key;
   const display = METRIC_DISPLAY[key];
   let shown = 'n/a';
   if (value !== null) {
@@ -94,7 +148,7 @@ function line(key: string, value: number | null): string {
     const unitText = display ? humanUnit(display.label) : info?.unit && info.unit !== 'count' ? info.unit : '';
     shown = `${formatNumber(scaled)}${unitText ? ` ${unitText}` : ''}`;
   }
-  return `  ${label.padEnd(74, ' ')} ${shown}`;
+  return `  ${label.padEnd(58, ' ')} ${shown}`;
 }
 
 /** The report as text. */
