@@ -30,6 +30,11 @@ export interface BridgeDrive {
   onTime?: number;
   /** Burst length in drive cycles (two switchings each). */
   cycles?: number;
+  /**
+   * Secondary voltage at which the topload breaks out, V: the burst is not cut there (the peak is
+   * what the secondary would reach if the topload held), but the first time it is reached is reported.
+   */
+  breakoutVoltage?: number;
 }
 
 export type BurstEnd = 'on_time' | 'cycles' | 'current_limit' | 'step_limit';
@@ -52,6 +57,9 @@ export interface SolidStateBurst {
   energyDissipated: number;
   /** State [v1, v2, i1, i2] at the end. */
   finalState: Float64Array;
+  /** First time |v2| reached drive.breakoutVoltage (to within one step), s, and the cycles completed by then; null if never. */
+  breakoutTime: number | null;
+  breakoutCycles: number | null;
 }
 
 /** Steps per period of the upper normal mode. */
@@ -85,6 +93,9 @@ export function solidStateBurst(circuit: CoupledCircuit, drive: BridgeDrive): So
   let peakTankVoltage = 0;
   let endReason: BurstEnd = 'step_limit';
   const tankCapacitance = circuit.primaryCapacitance;
+  const breakoutVoltage = drive.breakoutVoltage ?? Infinity;
+  let breakoutTime: number | null = null;
+  let breakoutCycles: number | null = null;
 
   for (let n = 0; n < MAX_STEPS; n++) {
     const remaining = onTime - time;
@@ -108,6 +119,10 @@ export function solidStateBurst(circuit: CoupledCircuit, drive: BridgeDrive): So
       peakPrimaryCurrent = Math.max(peakPrimaryCurrent, Math.abs(state[2]));
       peakTankVoltage = Math.max(peakTankVoltage, Math.abs(state[0]));
       time += length;
+      if (breakoutTime === null && peakVoltage >= breakoutVoltage) {
+        breakoutTime = time;
+        breakoutCycles = switchings / 2;
+      }
       if (!full) {
         endReason = 'on_time';
         break;
@@ -127,6 +142,10 @@ export function solidStateBurst(circuit: CoupledCircuit, drive: BridgeDrive): So
     peakPrimaryCurrent = Math.max(peakPrimaryCurrent, Math.abs(state[2]));
     peakTankVoltage = Math.max(peakTankVoltage, Math.abs(state[0]));
     time += fraction * length;
+    if (breakoutTime === null && peakVoltage >= breakoutVoltage) {
+      breakoutTime = time;
+      breakoutCycles = switchings / 2;
+    }
     if (limitFraction <= reverseFraction) {
       endReason = 'current_limit';
       break;
@@ -148,6 +167,8 @@ export function solidStateBurst(circuit: CoupledCircuit, drive: BridgeDrive): So
     energyFromSource,
     energyDissipated: state[4],
     finalState: state.slice(0, 4),
+    breakoutTime,
+    breakoutCycles,
   };
 }
 

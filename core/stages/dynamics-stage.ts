@@ -129,7 +129,8 @@ function runSolidState(context: EvalContext, circuit: CoupledCircuit, driver: So
     onTime = MAX_BURST_CYCLES * upperPeriod;
     cycles = undefined;
   }
-  const burst = solidStateBurst(circuit, { driveVoltage, currentLimit: driver.currentLimit, onTime, cycles });
+  const breakoutVoltage = context.electrostatics?.breakoutVoltage ?? undefined;
+  const burst = solidStateBurst(circuit, { driveVoltage, currentLimit: driver.currentLimit, onTime, cycles, breakoutVoltage: breakoutVoltage ?? undefined });
   metrics.energy_per_shot = burst.energyFromSource;
   metrics.input_power = burst.energyFromSource * driver.repetitionRate;
   metrics.peak_voltage = burst.peakVoltage;
@@ -137,6 +138,11 @@ function runSolidState(context: EvalContext, circuit: CoupledCircuit, driver: So
   if (burst.endReason === 'current_limit') {
     warnings.push(
       `primary current reached the ${formatQuantity(driver.currentLimit ?? 0, 'A')} limit after ${formatNumber(burst.cycles)} cycles (${formatQuantity(burst.endTime, 's')}): the burst ends there`,
+    );
+  }
+  if (burst.breakoutTime !== null && breakoutVoltage) {
+    warnings.push(
+      `the topload reaches its breakout voltage ${formatQuantity(breakoutVoltage, 'V')} after ${formatNumber(burst.breakoutCycles ?? 0)} cycles (${formatQuantity(burst.breakoutTime, 's')}) of the ${formatQuantity(burst.endTime, 's')} burst; the peak voltage assumes it held`,
     );
   }
   tankRatingCheck(context, burst.peakTankVoltage, 'the peak tank voltage in the burst');

@@ -62,6 +62,19 @@ describe('solidStateBurst', () => {
     expect(limited.peakVoltage).toBeLessThan(free.peakVoltage);
   });
 
+  test('reports when the secondary first reaches a breakout voltage, without cutting the burst', () => {
+    const free = solidStateBurst(base, { driveVoltage: 340, onTime: 60e-6 });
+    const breakout = 0.6 * free.peakVoltage;
+    const burst = solidStateBurst(base, { driveVoltage: 340, onTime: 60e-6, breakoutVoltage: breakout });
+    expect(burst.peakVoltage).toBe(free.peakVoltage);
+    expect(burst.breakoutTime!).toBeGreaterThan(0);
+    expect(burst.breakoutTime!).toBeLessThan(60e-6);
+    // just before the reported time the secondary was below breakout (a shorter burst stays under it)
+    const shorter = solidStateBurst(base, { driveVoltage: 340, onTime: burst.breakoutTime! * 0.98 });
+    expect(shorter.peakVoltage).toBeLessThan(breakout);
+    expect(free.breakoutTime).toBeNull();
+  });
+
   test('a longer on-time never lowers the peak secondary voltage; a half bridge (E/2) gives half of it (linear circuit)', () => {
     let previous = 0;
     for (const onTime of [10e-6, 20e-6, 40e-6, 80e-6]) {

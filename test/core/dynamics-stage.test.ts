@@ -186,6 +186,14 @@ describe('dynamicsStage with a solid-state bridge', () => {
     expect(context.warnings.some((w) => w.includes('150 A limit'))).toBe(true);
   });
 
+  test('warns when the topload reaches breakout during the burst', () => {
+    const context = makeContext({ ...bridge, onTime: 400e-6 });
+    context.electrostatics = { ...context.electrostatics!, breakoutVoltage: 60e3 };
+    run(context);
+    expect(context.metrics.peak_voltage!).toBeGreaterThan(60e3);
+    expect(context.warnings.some((w) => w.includes('reaches its breakout voltage 60 kV') && w.includes('cycles'))).toBe(true);
+  });
+
   test('needs on_time or cycles', () => {
     const context = run(makeContext({ ...bridge, onTime: undefined }));
     expect(context.metrics.peak_voltage).toBeNull();
