@@ -4,6 +4,7 @@
  * target (atomic on POSIX file systems), then fsync the directory so the rename itself survives a
  * power cut. Used for checkpoints, summaries and every output file of a run.
  */
+import { readdirSync, unlinkSync } from 'node:fs';
 import { open, rename, unlink } from 'node:fs/promises';
 import { basename, dirname, join, resolve } from 'node:path';
 import { toDiskError } from './disk-error.ts';
@@ -26,6 +27,36 @@ let temporaryCounter = 0;
 export function temporaryPathFor(path: string): string {
   temporaryCounter = (temporaryCounter + 1) % Number.MAX_SAFE_INTEGER;
   return join(dirname(path), `.${basename(path)}.${process.pid}-${temporaryCounter}.tmp`);
+}
+
+/** Matches the names {@link temporaryPathFor} makes (and the run lock's temporary files). */
+const TEMPORARY_NAME = /^\..+\.(?:\d+-\d+|[0-9a-f-]{36})\.(?:tmp|stale)$/;
+
+/**
+ * Removes the temporary files that writes cut off by a crash left in `directory` (names as made by
+ * {@link temporaryPathFor}: hidden, ending in `.tmp`), and returns their names. Call it only while
+ * no other process writes there (under the run lock), e.g. when resuming a run.
+ *
+ * @example removeLeftoverTemporaryFiles('runs/night') // ['.checkpoint.json.4711-12.tmp']
+ */
+export function removeLeftoverTemporaryFiles(directory: string): string[] {
+  const removed: string[] = [];
+  let names: string[];
+  try {
+    names = readdirSync(directory);
+  } catch (error) {
+    throw toDiskError(error, directory, 'read');
+  }
+  for (const name of names) {
+    if (!TEMPORARY_NAME.test(name)) continue;
+    try {
+      unlinkSync(join(directory, name));
+      removed.push(name);
+    } catch (error) {
+      if ((error as { code?: string }).code !== 'ENOENT') throw toDiskError(error, join(directory, name), 'remove');
+    }
+  }
+  return removed.sort();
 }
 
 function toBytes(data: string | Uint8Array): Uint8Array {

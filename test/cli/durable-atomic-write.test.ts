@@ -2,7 +2,7 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync, mkdirSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { writeFileAtomic, writeFileAtomicSync } from '../../cli/durable/atomic-write.ts';
+import { removeLeftoverTemporaryFiles, temporaryPathFor, writeFileAtomic, writeFileAtomicSync } from '../../cli/durable/atomic-write.ts';
 import { DiskError, isOutOfSpace, toDiskError } from '../../cli/durable/disk-error.ts';
 import { faultyFileSystem } from './durable-faulty-disk.ts';
 
@@ -92,6 +92,22 @@ describe('writeFileAtomic(path, data)', () => {
 
   it('throws a DiskError and removes nothing else when the directory is missing', async () => {
     await expect(writeFileAtomic(join(directory, 'absent', 'x.csv'), 'x')).rejects.toThrow(/no such file or directory \(ENOENT\)$/);
+  });
+});
+
+describe('removeLeftoverTemporaryFiles(directory)', () => {
+  it('removes the temporary files of cut-off writes and nothing else', () => {
+    const leftover = temporaryPathFor(join(directory, 'checkpoint.json'));
+    writeFileSync(leftover, 'half');
+    writeFileSync(join(directory, '.run.lock.0f8e2c1a-5b7d-4e3f-9a2b-1c4d5e6f7a8b.tmp'), '');
+    for (const keep of ['checkpoint.json', 'notes.tmp', '.hidden', 'journal-0.log']) writeFileSync(join(directory, keep), '');
+    expect(removeLeftoverTemporaryFiles(directory)).toEqual(['.checkpoint.json.' + leftover.split('.checkpoint.json.')[1], '.run.lock.0f8e2c1a-5b7d-4e3f-9a2b-1c4d5e6f7a8b.tmp'].sort());
+    expect(readdirSync(directory).sort()).toEqual(['.hidden', 'checkpoint.json', 'journal-0.log', 'notes.tmp']);
+    expect(removeLeftoverTemporaryFiles(directory)).toEqual([]);
+  });
+
+  it('throws a DiskError for a missing directory', () => {
+    expect(() => removeLeftoverTemporaryFiles(join(directory, 'absent'))).toThrow(/^cannot read '.*absent': no such file or directory \(ENOENT\)$/);
   });
 });
 
