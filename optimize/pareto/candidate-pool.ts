@@ -1,6 +1,7 @@
 import type { Scored } from './scored.ts';
 import { BoundedBest } from './bounded-best.ts';
 import { rankCandidates } from './rank-candidates.ts';
+import { DominanceIndex } from './dominance-index.ts';
 
 /** One kept candidate with the caller's payload (e.g. its design and metrics row). */
 export interface PoolEntry<T> {
@@ -83,10 +84,9 @@ interface InfeasiblePayload<T> {
  * (M−1)! points for n independent uniform objectives (2·10^4 to 10^5 at n = 10^6, K = 1000, M = 3 to 4) and
  * grows with ties; memory stays flat in n for correlated objectives.
  *
- * Cost of an offer: O(M·n_kept) at worst (scan for dominators, stopped at K; on acceptance, a scan for
- * the points it dominates and one array shift). Points are kept sorted by the sum of their objectives, so
- * only points with a smaller or equal sum can dominate a newcomer, and only those with a greater or equal
- * sum can be dominated by it.
+ * Cost of an offer: the kept points sit in a k-d tree with bounding boxes (dominance-index.ts), so a
+ * rejection usually stops after counting K dominators in a few whole subtrees, and an acceptance visits
+ * only the subtrees that can hold its dominators or the points it dominates; O(M·n_kept) at worst.
  *
  * Feasible objectives must be finite numbers (the caller turns NaN or infinite metrics into infeasible
  * candidates); a violation must be a number ≥ 0.
@@ -100,16 +100,9 @@ export class CandidatePool<T> {
   readonly keep: number;
   readonly objectiveCount: number;
 
-  // Feasible, objectiveCount ≥ 2: struct of arrays sorted by key (the sum of the objectives).
-  private count = 0;
-  private capacity = 0;
-  private keys = new Float64Array(0);
-  private objectives = new Float64Array(0);
-  private dominatorCounts = new Int32Array(0);
-  private sampleIndices = new Float64Array(0);
-  private payloads: T[] = [];
+  // Feasible, objectiveCount ≥ 2: the kept points with their dominator counts, in a k-d tree.
+  private readonly index: DominanceIndex | null;
   private readonly keptIndices = new Set<number>();
-  private readonly removed: number[] = [];
 
   // Feasible with one objective (or none): bounded top-K by (value, index).
   private readonly single: BoundedBest<T> | null;
@@ -130,6 +123,7 @@ export class CandidatePool<T> {
     this.keep = keep;
     this.objectiveCount = objectiveCount;
     this.single = objectiveCount <= 1 ? new BoundedBest<T>(keep) : null;
+    this.index = objectiveCount <= 1 ? null : new DominanceIndex(objectiveCount);
     this.infeasible = new BoundedBest<InfeasiblePayload<T>>(keep);
   }
 
@@ -140,7 +134,7 @@ export class CandidatePool<T> {
 
   /** Number of feasible candidates kept. */
   get feasibleSize(): number {
-    return this.single === null ? this.count : this.single.size;
+    return this.single === null ? this.index!.liveCount : this.single.size;
   }
 
   /**
@@ -161,138 +155,33 @@ export class CandidatePool<T> {
     if (objectives.length !== m) {
       throw new RangeError(`CandidatePool.offer: objectives must have ${m} values, got ${objectives.length} (index ${index})`);
     }
-    let key = 0;
     for (let j = 0; j < m; j++) {
       const value = objectives[j];
       if (!Number.isFinite(value)) {
         throw new RangeError(`CandidatePool.offer: feasible objectives must be finite, got ${value} (index ${index})`);
       }
-      key += value;
     }
     if (this.single !== null) return this.single.offer(m === 0 ? 0 : objectives[0], index, payload);
     if (this.keptIndices.has(index)) return true;
-    return this.offerFeasible(key, index, objectives, payload);
+    return this.offerFeasible(index, objectives, payload);
   }
 
-  private offerFeasible(key: number, index: number, point: Float64Array, payload: T): boolean {
-    const m = this.objectiveCount;
+  private offerFeasible(sampleIndex: number, point: Float64Array, payload: T): boolean {
     const keep = this.keep;
-    const stored = this.objectives;
-    // Only points with key ≤ key(point) can dominate it: scan them, stop at K dominators.
-    const upper = this.upperBound(key);
-    let dominators = 0;
-    for (let i = 0; i < upper; i++) {
-      const base = i * m;
-      let strictly = false;
-      let j = 0;
-      for (; j < m; j++) {
-        const q = stored[base + j];
-        const p = point[j];
-        if (q > p) break;
-        if (q < p) strictly = true;
+    const index = this.index!;
+    // Rejected when K kept points dominate it (the count stops at K).
+    const dominators = index.countDominators(point, keep);
+    if (dominators >= keep) return false;
+    // Kept: every kept point it dominates gains one dominator; at K it leaves.
+    index.forEachDominated(point, (slot) => {
+      if (++index.dominatorCounts[slot] >= keep) {
+        this.keptIndices.delete(index.sampleIndices[slot]);
+        index.remove(slot);
       }
-      if (j === m && strictly && ++dominators >= keep) return false;
-    }
-    // Kept: every point with key ≥ key(point) that it dominates gains one dominator; at K it leaves.
-    const lower = this.lowerBound(key);
-    const removed = this.removed;
-    removed.length = 0;
-    for (let i = lower; i < this.count; i++) {
-      const base = i * m;
-      let strictly = false;
-      let j = 0;
-      for (; j < m; j++) {
-        const q = stored[base + j];
-        const p = point[j];
-        if (p > q) break;
-        if (p < q) strictly = true;
-      }
-      if (j === m && strictly && ++this.dominatorCounts[i] >= keep) removed.push(i);
-    }
-    if (removed.length > 0) this.compact(removed);
-    this.insertAt(this.upperBound(key), key, index, point, dominators, payload);
+    });
+    index.insert(point, dominators, sampleIndex, payload);
+    this.keptIndices.add(sampleIndex);
     return true;
-  }
-
-  /** Removes the listed positions (ascending) from the sorted arrays in one pass. */
-  private compact(positions: number[]): void {
-    const m = this.objectiveCount;
-    let write = positions[0];
-    let next = 0;
-    for (let read = positions[0]; read < this.count; read++) {
-      if (next < positions.length && positions[next] === read) {
-        this.keptIndices.delete(this.sampleIndices[read]);
-        next++;
-        continue;
-      }
-      this.keys[write] = this.keys[read];
-      this.dominatorCounts[write] = this.dominatorCounts[read];
-      this.sampleIndices[write] = this.sampleIndices[read];
-      this.payloads[write] = this.payloads[read];
-      this.objectives.copyWithin(write * m, read * m, read * m + m);
-      write++;
-    }
-    this.count = write;
-    this.payloads.length = write;
-  }
-
-  private insertAt(position: number, key: number, index: number, point: ArrayLike<number>, dominators: number, payload: T): void {
-    const m = this.objectiveCount;
-    if (this.count === this.capacity) this.grow();
-    const n = this.count;
-    this.keys.copyWithin(position + 1, position, n);
-    this.dominatorCounts.copyWithin(position + 1, position, n);
-    this.sampleIndices.copyWithin(position + 1, position, n);
-    this.objectives.copyWithin((position + 1) * m, position * m, n * m);
-    this.keys[position] = key;
-    this.dominatorCounts[position] = dominators;
-    this.sampleIndices[position] = index;
-    for (let j = 0; j < m; j++) this.objectives[position * m + j] = point[j];
-    this.payloads.splice(position, 0, payload);
-    this.keptIndices.add(index);
-    this.count = n + 1;
-  }
-
-  private grow(): void {
-    const m = this.objectiveCount;
-    const capacity = Math.max(64, this.capacity * 2);
-    const keys = new Float64Array(capacity);
-    keys.set(this.keys.subarray(0, this.count));
-    const objectives = new Float64Array(capacity * m);
-    objectives.set(this.objectives.subarray(0, this.count * m));
-    const counts = new Int32Array(capacity);
-    counts.set(this.dominatorCounts.subarray(0, this.count));
-    const indices = new Float64Array(capacity);
-    indices.set(this.sampleIndices.subarray(0, this.count));
-    this.keys = keys;
-    this.objectives = objectives;
-    this.dominatorCounts = counts;
-    this.sampleIndices = indices;
-    this.capacity = capacity;
-  }
-
-  /** First position whose key is > key. */
-  private upperBound(key: number): number {
-    let low = 0;
-    let high = this.count;
-    while (low < high) {
-      const middle = (low + high) >>> 1;
-      if (this.keys[middle] <= key) low = middle + 1;
-      else high = middle;
-    }
-    return low;
-  }
-
-  /** First position whose key is ≥ key. */
-  private lowerBound(key: number): number {
-    let low = 0;
-    let high = this.count;
-    while (low < high) {
-      const middle = (low + high) >>> 1;
-      if (this.keys[middle] < key) low = middle + 1;
-      else high = middle;
-    }
-    return low;
   }
 
   /** The kept feasible candidates, by sample index. */
@@ -312,15 +201,17 @@ export class CandidatePool<T> {
       });
     } else {
       const m = this.objectiveCount;
-      for (let i = 0; i < this.count; i++) {
+      const index = this.index!;
+      for (let slot = 0; slot < index.slotCount; slot++) {
+        if (index.live[slot] === 0) continue;
         entries.push({
           item: {
-            index: this.sampleIndices[i],
+            index: index.sampleIndices[slot],
             violation: 0,
-            objectives: this.objectives.slice(i * m, i * m + m),
+            objectives: index.objectives.slice(slot * m, slot * m + m),
           },
-          payload: this.payloads[i],
-          dominatedBy: this.dominatorCounts[i],
+          payload: index.payloads[slot] as T,
+          dominatedBy: index.dominatorCounts[slot],
         });
       }
     }
@@ -413,15 +304,14 @@ export class CandidatePool<T> {
       return pool;
     }
     const m = data.objectiveCount;
-    const sorted = data.feasible
-      .map((record) => ({ record, key: record.objectives.reduce((sum, value) => sum + value, 0) }))
-      .sort((a, b) => a.key - b.key || a.record.index - b.record.index);
-    for (const { record, key } of sorted) {
+    for (const record of data.feasible) {
       if (record.objectives.length !== m || !(record.dominatedBy !== null && record.dominatedBy >= 0 && record.dominatedBy < data.keep)) {
         throw new RangeError(`CandidatePool.restore: record ${record.index} is not a kept feasible candidate of this pool`);
       }
-      pool.insertAt(pool.count, key, record.index, record.objectives, record.dominatedBy, record.payload);
+      pool.index!.insert(record.objectives, record.dominatedBy, record.index, record.payload);
+      pool.keptIndices.add(record.index);
     }
+    pool.index!.rebuild();
     return pool;
   }
 }

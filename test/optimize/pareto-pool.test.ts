@@ -5,6 +5,7 @@ import { dominates } from '../../optimize/pareto/dominates.ts';
 import { rankCandidates } from '../../optimize/pareto/rank-candidates.ts';
 import type { Scored } from '../../optimize/pareto/scored.ts';
 import { uniformAt } from '../../optimize/random.ts';
+import { DominanceIndex } from '../../optimize/pareto/dominance-index.ts';
 
 const scored = (index: number, violation: number, objectives: number[]): Scored => ({
   index,
@@ -208,3 +209,60 @@ describe('CandidatePool behaviour', () => {
     expect(pool.ranked().length).toBe(50);
   });
 });
+
+describe('CandidatePool on larger streams (the k-d tree is rebuilt many times, points leave from inside it)', () => {
+  it.each([
+    [2, 'anticorrelated'],
+    [3, 'independent'],
+    [4, 'independent'],
+  ] as const)('matches brute force on 2 500 offers in %i objectives (%s, with repeated vectors), K = 25', (objectiveCount, kind) => {
+    const items = Array.from({ length: 2500 }, (_, i) => {
+      const source = i % 10 === 3 ? i - 3 : i; // every tenth offer repeats an earlier vector
+      const common = uniformAt(6, source, 50);
+      const objectives = Array.from({ length: objectiveCount }, (_, j) =>
+        kind === 'independent' ? Math.round(uniformAt(6, source, j) * 200) / 200 : (j % 2 === 0 ? common : 1 - common) + 0.1 * uniformAt(6, source, j),
+      );
+      return scored(i, 0, objectives);
+    });
+    const expected = bruteForceKept(items, 25);
+    const pool = new CandidatePool<null>(25, objectiveCount);
+    for (const item of shuffled(items, objectiveCount)) pool.offer(item, null);
+    expect(pool.feasibleEntries().map((e) => e.item.index)).toEqual(expected);
+    const whole = rankCandidates(items);
+    expect(pool.ranked().map((e) => e.item.index)).toEqual(whole.order.slice(0, 25).map((p) => items[p].index));
+  });
+});
+
+describe('DominanceIndex', () => {
+  it('countDominators and forEachDominated agree with brute force after random inserts and removals', () => {
+    const index = new DominanceIndex(3);
+    const stored = new Map<number, number[]>();
+    for (let i = 0; i < 3000; i++) {
+      const point = [0, 1, 2].map((j) => Math.floor(uniformAt(8, i, j) * 20));
+      index.insert(point, 0, i, null);
+      stored.set(i, point);
+      if (i % 3 === 0) {
+        // remove a random stored point by its sample index
+        const victim = Math.floor(uniformAt(8, i, 9) * (i + 1));
+        for (let slot = 0; slot < index.slotCount; slot++) {
+          if (index.live[slot] === 1 && index.sampleIndices[slot] === victim) {
+            index.remove(slot);
+            stored.delete(victim);
+          }
+        }
+      }
+      if (i % 250 === 0) {
+        const probe = [0, 1, 2].map((j) => Math.floor(uniformAt(9, i, j) * 20));
+        const dominators = [...stored.values()].filter((q) => dominates(q, probe)).length;
+        expect(index.countDominators(probe, Infinity)).toBe(dominators);
+        expect(Math.min(index.countDominators(probe, 5), 5)).toBe(Math.min(dominators, 5));
+        const visited: number[] = [];
+        index.forEachDominated(probe, (slot) => visited.push(index.sampleIndices[slot]));
+        const expectedVisited = [...stored.entries()].filter(([, q]) => dominates(probe, q)).map(([k]) => k);
+        expect(visited.sort((a, b) => a - b)).toEqual(expectedVisited.sort((a, b) => a - b));
+      }
+    }
+    expect(index.liveCount).toBe(stored.size);
+  });
+});
+
