@@ -49,13 +49,15 @@ export function coupledModes(circuit: CoupledCircuit, initialTankVoltage: number
   const b0 = 1; // a0 / leading / scale⁴
   const rootRe = new Float64Array(4);
   const rootIm = new Float64Array(4);
-  // Start from the lossless modes ±jω± shifted by a mean decay rate.
+  // Start from the lossless modes ±jω± shifted by a mean decay rate, each guess nudged by a
+  // different small amount so that no two coincide and conjugate symmetry is broken (the
+  // iteration needs distinct starts, and real roots of an overdamped mode need asymmetric ones).
   const [omegaLow, omegaHigh] = losslessModeFrequencies(circuit);
   const decay = (r1 / l1 + r2 / l2) / 4 / scale;
   const guesses = [omegaLow, -omegaLow, omegaHigh * 1.0001, -omegaHigh * 1.0001];
   for (let j = 0; j < 4; j++) {
-    rootRe[j] = -decay * (1 + 0.01 * j);
-    rootIm[j] = guesses[j] / scale + 1e-3 * (j - 1.5) * 0.01;
+    rootRe[j] = -decay * (1 + 0.01 * j) - 1e-4 * j;
+    rootIm[j] = guesses[j] / scale + 1e-5 * (j - 1.5);
   }
   if (!durandKerner(b3, b2, b1, b0, rootRe, rootIm)) return null;
   for (let j = 0; j < 4; j++) {

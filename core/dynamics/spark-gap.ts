@@ -9,7 +9,7 @@
  * resistive gap model is common practice (REFERENCES §8.4 [C]).
  */
 import type { CoupledCircuit } from './circuit.ts';
-import { primaryEnergy } from './circuit.ts';
+import { circuitEnergy, primaryEnergy } from './circuit.ts';
 import { coupledModes, coupledStateAt, ModalMarch, type CoupledModes } from './coupled-modes.ts';
 import { freeResonatorState } from './free-resonator.ts';
 
@@ -23,7 +23,11 @@ export interface SparkGapShot {
   /** Lower and upper normal-mode ringing frequencies (imaginary parts of the eigenvalues / 2π), Hz. */
   modeFrequencyLow: number;
   modeFrequencyHigh: number;
-  /** First minimum of the primary's stored energy ½C1v1² + ½L1i1², s; null when the primary energy only decays. */
+  /**
+   * First minimum of the primary's stored energy ½C1v1² + ½L1i1² (the mutual term left out), s:
+   * the deepest dip before the per-cycle minima of that energy rise again; null when they never
+   * rise within 1.5 beats (the primary's energy only decays: no transfer and return).
+   */
   transferTime: number | null;
   /** Primary stored energy at transferTime, J (null with it). */
   primaryEnergyAtTransfer: number | null;
@@ -42,9 +46,11 @@ export interface SparkGapShot {
  * @param circuit lumped values; primaryResistance includes the gap's conducting resistance
  * @param chargeVoltage tank voltage when the gap fires, V
  * @param quench true: the gap opens at the first primary current zero after the transfer time
+ *        (a zero within ⅛ of a primary period before it counts as at it)
  * @returns the shot, or null when the circuit has no two oscillating modes (k = 0, k ≥ 1,
  *          overdamped, or degenerate)
- * Peak window: up to transferTime + ½/f2, f2 = 1/(2π√(L2C2)); without a transfer, up to ¾ of a beat.
+ * Peak window: up to transferTime + ½/f2, f2 = 1/(2π√(L2C2)); without a transfer, up to where the
+ * search stopped (1.5 beats, or when the stored energy was spent) + ½/f2.
  * Cost: O(1/k) samples of the modal solution, ≈ 20 ns each.
  */
 export function sparkGapShot(circuit: CoupledCircuit, chargeVoltage: number, quench: boolean): SparkGapShot | null {
@@ -56,12 +62,24 @@ export function sparkGapShot(circuit: CoupledCircuit, chargeVoltage: number, que
   if (!(modeFrequencyLow > 0) || !(modeFrequencyHigh > modeFrequencyLow)) return null;
   const step = 1 / (modeFrequencyHigh * SAMPLES_PER_CYCLE);
   const beat = 1 / (modeFrequencyHigh - modeFrequencyLow);
-  const searchEnd = Math.min(0.75 * beat, MAX_SAMPLES * step);
+  // The first envelope null is near half a beat; the search stops at the first rise after it, so
+  // its limit (1.5 beats, never under 4 periods of the upper mode) only matters when W1 only decays.
+  const searchEnd = Math.min(Math.max(1.5 * beat, 4 * SAMPLES_PER_CYCLE * step), MAX_SAMPLES * step);
 
-  // 1. The first energy transfer: smallest primary energy before the energy can come back.
+  // 1. The first energy transfer: the first minimum of W1 = ½C1v1² + ½L1i1². W1 carries a ripple
+  // at twice the carrier frequency (the mutual term is left out), so its minimum over each period
+  // of the upper mode is followed: the transfer is over when those minima rise again (by more than
+  // 1e-6 of the shot energy). When they never rise — the primary's energy simply decays, as with a
+  // heavily damped primary — there is no transfer to report.
   const march = new ModalMarch(modes, 0, step);
+  const initialEnergy = 0.5 * circuit.primaryCapacitance * chargeVoltage * chargeVoltage;
+  const riseTolerance = 1e-6 * initialEnergy;
   let bestIndex = 0;
   let bestEnergy = Infinity;
+  let blockMinimum = Infinity;
+  let previousBlockMinimum = Infinity;
+  let rose = false;
+  let lastIndex = 0;
   const sampleCount = Math.ceil(searchEnd / step);
   for (let n = 0; n <= sampleCount; n++) {
     const energy = primaryEnergy(circuit, march.state[0], march.state[2]);
@@ -69,8 +87,20 @@ export function sparkGapShot(circuit: CoupledCircuit, chargeVoltage: number, que
       bestEnergy = energy;
       bestIndex = n;
     }
+    blockMinimum = Math.min(blockMinimum, energy);
+    lastIndex = n;
+    if (n % SAMPLES_PER_CYCLE === SAMPLES_PER_CYCLE - 1) {
+      if (blockMinimum > previousBlockMinimum + riseTolerance) {
+        rose = true;
+        break;
+      }
+      if (circuitEnergy(circuit, march.state) < 1e-12 * initialEnergy) break; // nothing left to transfer
+      previousBlockMinimum = blockMinimum;
+      blockMinimum = Infinity;
+    }
     march.advance();
   }
+  if (!rose && blockMinimum !== Infinity && blockMinimum > previousBlockMinimum + riseTolerance) rose = true; // a last partial period
   const scratch = new Float64Array(4);
   const primaryEnergyAt = (time: number): number => {
     coupledStateAt(modes, time, scratch);
@@ -78,18 +108,25 @@ export function sparkGapShot(circuit: CoupledCircuit, chargeVoltage: number, que
   };
   let transferTime: number | null = null;
   let primaryEnergyAtTransfer: number | null = null;
-  if (bestIndex > 0 && bestIndex < sampleCount) {
+  if (rose && bestIndex > 0) {
     transferTime = goldenMinimum(primaryEnergyAt, (bestIndex - 1) * step, (bestIndex + 1) * step);
     primaryEnergyAtTransfer = primaryEnergyAt(transferTime);
   }
+  const scanEnd = lastIndex * step;
 
-  // 2. Quench: the first primary current zero after the transfer.
+  // 2. Quench: the first primary current zero after the transfer. Near a full-transfer coupling the
+  // current zero and the energy minimum coincide, and round-off would decide whether that zero
+  // counts; a zero up to ⅛ of a primary period before the minimum (at most one fits there, and the
+  // primary holds next to no energy then) is therefore taken as the quench point.
   let quenchTime: number | null = null;
-  if (quench && transferTime !== null) quenchTime = firstCurrentZero(modes, transferTime, step, beat);
+  if (quench && transferTime !== null) {
+    const primaryPeriod = 2 * Math.PI * Math.sqrt(circuit.primaryInductance * circuit.primaryCapacitance);
+    quenchTime = firstCurrentZero(modes, Math.max(0, transferTime - primaryPeriod / 8), step, beat);
+  }
 
   // 3. The peak secondary voltage, coupled before the quench and free ringing after it.
   const secondaryPeriod = 2 * Math.PI * Math.sqrt(circuit.secondaryInductance * circuit.secondaryCapacitance);
-  const peakEnd = (transferTime ?? searchEnd) + secondaryPeriod / 2;
+  const peakEnd = (transferTime ?? scanEnd) + secondaryPeriod / 2;
   const quenchState = new Float64Array(4);
   if (quenchTime !== null) coupledStateAt(modes, quenchTime, quenchState);
   const secondaryVoltageAt = (time: number): number => {

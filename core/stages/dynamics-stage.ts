@@ -26,7 +26,7 @@ export const DEFAULT_GAP_RESISTANCE = 1;
 const MAX_BURST_CYCLES = 3000;
 
 export function dynamicsStage(context: EvalContext): void {
-  const { design, metrics, warnings } = context;
+  const { design, metrics } = context;
   const secondary = context.secondary;
   const electrostatics = context.electrostatics;
   if (!secondary || !electrostatics || !(electrostatics.totalCapacitance > 0)) return;
@@ -81,7 +81,6 @@ export function dynamicsStage(context: EvalContext): void {
   if (!driver) return;
   if (driver.kind === 'spark_gap') runSparkGap(context, circuit, driver, coupling);
   else runSolidState(context, circuit, driver);
-  void warnings;
 }
 
 function runSparkGap(context: EvalContext, circuit: CoupledCircuit, driver: SparkGapDriver, coupling: number): void {
@@ -110,7 +109,9 @@ function runSparkGap(context: EvalContext, circuit: CoupledCircuit, driver: Spar
   metrics.transfer_time = shot.transferTime;
   metrics.peak_voltage = shot.peakVoltage;
   if (shot.transferTime === null) {
-    warnings.push('the primary energy never dips before it could return (losses too high for a transfer): peak voltage is over ¾ of a beat');
+    warnings.push(
+      `no energy transfer and return: the primary's energy only decays (primary ${formatQuantity(circuit.primaryResistance, 'Ω')}, coupling ${formatNumber(coupling)}); transfer time not computed, peak voltage over the whole ring-down`,
+    );
   }
 }
 
