@@ -6,11 +6,15 @@
  * magnetic field parallel to the layer; for layer m of a section (field 0 on one side, m·H on
  * the other) the AC/DC resistance ratio is
  *   F = Δ [ (sinh 2Δ + sin 2Δ)/(cosh 2Δ − cos 2Δ) + (2/3)(m² − 1)(sinh Δ − sin Δ)/(cosh Δ + cos Δ) ],
- * Δ = h/δ_eff (formula from memory [M], its m = 1 term is the exact 1-D diffusion solution, which
- * the tests check). A long single-layer solenoid is exactly the m = 1 case: the axial field is
+ * Δ = h/δ_eff (from memory [M]; the same formula in the form
+ * F = Re{αh coth αh} + ((m² − 1)/3) Re{2αh tanh(αh/2)}, α = √(jωμ0ση), is reproduced on the
+ * e-magnetica.pl "proximity effect from Dowell curves" calculator page [P2]; its m = 1 term is the
+ * exact 1-D diffusion solution, which the tests check). A long single-layer solenoid is exactly the m = 1 case: the axial field is
  * N I / l inside the winding and close to zero outside. Round wire of diameter d at pitch p is
  * taken as a square of the same area (side h = d√π/2) with the layer porosity η = h/p, which
- * scales the conductivity, so Δ = (π/4)^{3/4} (d/δ) √(d/p) (Dowell's equivalences, [M]).
+ * scales the conductivity, so Δ = (π/4)^{3/4} (d/δ) √(d/p) (Dowell's equivalences, [M]). (The
+ * [P2] page above takes h = d for round wire instead, which gives a Δ larger by (4/π)^{3/4} ≈ 1.20;
+ * the equal-area square of the original [M] is kept here; it gives the lower of the two losses.)
  */
 
 /**

@@ -95,6 +95,17 @@ describe('dowellSingleLayerFactor(Δ)', () => {
     }
   });
 
+  test('equals Re{αh coth αh}, α = (1 + j)/δ, the one-layer term as reproduced on the e-magnetica.pl Dowell-curves page [P2]', () => {
+    for (const delta of [0.2, 0.9, 2, 5]) {
+      const z: Complex = [delta, delta]; // αh with δ = 1
+      const cosh = complexCosh(z);
+      const sinh = complexSinh(z);
+      const coth = div(cosh, sinh);
+      const value = z[0] * coth[0] - z[1] * coth[1];
+      expect(dowellSingleLayerFactor(delta) / value).toBeCloseTo(1, 12);
+    }
+  });
+
   test('has the limits 1 + 4Δ⁴/45 for small Δ and Δ for large Δ (series of the same exact solution)', () => {
     expect(dowellSingleLayerFactor(0.01)).toBeCloseTo(1 + (4 / 45) * 1e-8, 14);
     expect(Math.abs(dowellSingleLayerFactor(0.049) - dowellSingleLayerFactor(0.051))).toBeLessThan(1e-6);
