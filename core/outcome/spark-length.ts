@@ -1,17 +1,12 @@
 /**
- * Rules of thumb of the trade for sparks: length from input power and the streamers' loading of
- * the topload. Both are common practice (REFERENCES §9 [C]) with no controlled study behind them:
- * every report that shows them says so.
+ * Rules of thumb of the trade for sparks: length from input power, and the resonance with the
+ * streamers' loading of the topload (their capacitance, 1 pF per foot, is in
+ * core/capacitance/streamer.ts). Both are common practice (REFERENCES §9 [C]) with no controlled
+ * study behind them: every report that shows them says so.
  */
 
 /** Spark length per √watt, m/√W: L[in] ≈ 1.7 √P[W], i.e. L[m] ≈ 0.043 √P[W] (common practice, REFERENCES §9 [C]). */
 export const SPARK_LENGTH_PER_ROOT_WATT = 0.043;
-
-/**
- * Capacitance a streamer adds at the top, F per metre of streamer: ≈ 1 pF per foot ≈ 3.3 pF/m
- * (common practice, REFERENCES §9 [C]).
- */
-export const STREAMER_CAPACITANCE_PER_METRE = 3.3e-12;
 
 /**
  * Spark-length estimate from the average input power, m: L ≈ 0.043 √P (common practice, §9 [C]).
@@ -20,11 +15,6 @@ export const STREAMER_CAPACITANCE_PER_METRE = 3.3e-12;
  */
 export function sparkLengthEstimate(inputPower: number): number {
   return SPARK_LENGTH_PER_ROOT_WATT * Math.sqrt(Math.max(0, inputPower));
-}
-
-/** Capacitance added by streamers of a given length, F (3.3 pF/m, common practice §9 [C]). */
-export function streamerCapacitance(streamerLength: number): number {
-  return STREAMER_CAPACITANCE_PER_METRE * Math.max(0, streamerLength);
 }
 
 /**

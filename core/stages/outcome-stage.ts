@@ -7,7 +7,8 @@
  */
 import type { EvalContext } from '../context.ts';
 import { overallHeight } from '../outcome/overall-height.ts';
-import { loadedResonantFrequency, sparkLengthEstimate, streamerCapacitance } from '../outcome/spark-length.ts';
+import { loadedResonantFrequency, sparkLengthEstimate } from '../outcome/spark-length.ts';
+import { streamerCapacitance } from '../capacitance/streamer.ts';
 import { LONG_GAP_WITHSTAND_GRADIENT, primaryStrikeMargin, toploadCentreHeight, toploadToRingDistance } from '../outcome/clearance.ts';
 import { AXIAL_GRADIENT_LIMIT, formatNumber, formatQuantity, TUNING_TOLERANCE } from '../outcome/warnings.ts';
 

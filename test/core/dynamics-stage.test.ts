@@ -11,7 +11,7 @@ import type { EvalContext, SecondaryGeometry, PrimaryGeometry, ElectrostaticSolu
 import { emptyMetrics } from '../../core/metrics.ts';
 import { dynamicsStage } from '../../core/stages/dynamics-stage.ts';
 import { outcomeStage } from '../../core/stages/outcome-stage.ts';
-import { SPARK_LENGTH_PER_ROOT_WATT, STREAMER_CAPACITANCE_PER_METRE } from '../../core/outcome/spark-length.ts';
+import { SPARK_LENGTH_PER_ROOT_WATT } from '../../core/outcome/spark-length.ts';
 
 const secondary: SecondaryGeometry = {
   turns: 1000,
@@ -230,10 +230,10 @@ describe('outcomeStage', () => {
     expect(sphere.metrics.overall_height).toBeCloseTo(1.3 + 0.2 + 0.15, 12);
   });
 
-  test('spark length is the common-practice 0.043 √P and loads the resonance by 3.3 pF/m', () => {
+  test('spark length is the common-practice 0.043 √P and loads the resonance by 1 pF per foot', () => {
     const { metrics } = run(makeContext(sparkGap));
     expect(metrics.spark_length).toBeCloseTo(SPARK_LENGTH_PER_ROOT_WATT * Math.sqrt(metrics.input_power!), 12);
-    const loaded = 1 / (2 * Math.PI * Math.sqrt(secondary.inductance * (totalCapacitance + STREAMER_CAPACITANCE_PER_METRE * metrics.spark_length!)));
+    const loaded = 1 / (2 * Math.PI * Math.sqrt(secondary.inductance * (totalCapacitance + (1e-12 / 0.3048) * metrics.spark_length!)));
     expect(metrics.loaded_resonant_frequency).toBeCloseTo(loaded, 6);
     // a given streamer length is left to the electrostatics stage
     const given = run(makeContext(sparkGap, { environment: { altitude: 0, temperature: 293.15, streamerLength: 0.5 } }));
