@@ -5,8 +5,10 @@
  * density on panel j (unit line charge on a thin ring), with the floor z = 0 represented by the
  * image of every element (charge −σ at z → −z): the ring potential (Smythe; see ring-kernel.ts)
  *   a_ij = (1/(π ε0)) ∫_j r′ K(m)/d₊ ds′  −  (same with z′ → −z′).
- * Quadrature (documented rule, checked in the tests against refined assembly):
- *   distance to the panel midpoint ≥ 4 × panel length: 2-point Gauss–Legendre;
+ * Quadrature (documented rule, checked in the tests by the convergence rule and brute force):
+ *   distance to the panel midpoint ≥ 16 × panel length: one ring at the midpoint carrying the
+ *   panel's charge (relative error of the entry ≈ (length/distance)²/24 ≤ 2·10⁻⁴);
+ *   ≥ 4 ×: 2-point Gauss–Legendre;
  *   ≥ 1.5 ×: 4-point; nearer: the panel is bisected recursively (near-singular neighbours);
  *   the panel's own collocation point: the logarithmic singularity of K is subtracted in closed
  *   form, K = P(m1) + Q(m1) ln(1/m1) with Q(0) = ½ (A&S 17.3.34), and the smooth remainder

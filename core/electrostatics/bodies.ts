@@ -52,7 +52,7 @@ export interface GroundedRing {
 }
 
 /** Strength of the toroid's grading toward the outer equator (0 uniform, < 1). */
-const TOROID_GRADING = 0.45;
+const TOROID_GRADING = 0.3;
 /** Share of the winding's panel mapping that clusters toward the ends (Chebyshev-like). */
 const WINDING_END_CLUSTERING = 0.85;
 /** Exponent that biases the winding's panels toward the top. */

@@ -192,7 +192,7 @@ describe('monotonic facts (properties)', () => {
         const large = alone({ outer, tube: Math.min(tube * growth, 0.6 * outer), height });
         expect(large.breakout_voltage!).toBeGreaterThan(small.breakout_voltage!);
       }),
-      { numRuns: 15, seed: 42 },
+      { numRuns: 15, seed: 42, endOnFailure: true },
     );
   });
   test('on a winding, a larger toroid raises the topload capacitance and lowers the resonant frequency', () => {
@@ -203,7 +203,7 @@ describe('monotonic facts (properties)', () => {
         expect(large.topload_capacitance!).toBeGreaterThan(small.topload_capacitance!);
         expect(large.resonant_frequency!).toBeLessThan(small.resonant_frequency!);
       }),
-      { numRuns: 12, seed: 7 },
+      { numRuns: 12, seed: 7, endOnFailure: true },
     );
   });
   test('raising a topload above the floor lowers its capacitance toward the isolated value', () => {
@@ -216,7 +216,7 @@ describe('monotonic facts (properties)', () => {
         expect(high.topload_capacitance!).toBeLessThan(low.topload_capacitance!);
         expect(high.topload_capacitance!).toBeGreaterThan(isolated);
       }),
-      { numRuns: 15, seed: 3 },
+      { numRuns: 15, seed: 3, endOnFailure: true },
     );
     expect(alone({ outer: 0.8, tube: 0.2, height: 60 }).topload_capacitance! / isolated - 1).toBeLessThan(0.01);
   });
