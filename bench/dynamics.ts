@@ -31,6 +31,11 @@ function timePerCall(runs: number, body: (index: number) => void): number {
   return ((performance.now() - started) * 1000) / runs;
 }
 
+/**
+ * Times the dynamics (spark-gap shot at four couplings, solid-state bursts of two lengths) and the AC
+ * resistances; returns one printable line per case.
+ * @param options.runs calls per spark-gap case (bursts get a twentieth of it)
+ */
 export async function benchDynamics(options: { runs?: number } = {}): Promise<string[]> {
   const runs = options.runs ?? 5000;
   const lines: string[] = [`dynamics: mean time per call over ${runs} calls (burst: ${Math.ceil(runs / 20)})`];

@@ -25,6 +25,13 @@ export const DEFAULT_GAP_RESISTANCE = 1;
 /** Longest burst simulated, in cycles of the upper mode (beyond it the burst is cut, with a warning). */
 const MAX_BURST_CYCLES = 3000;
 
+/**
+ * Sets secondary_ac_resistance and secondary_q (with a secondary and its capacitance), then with a
+ * primary and a tank primary_resistance (conductor + gap), primary_conductor_resistance,
+ * gap_resistance, mode frequencies and full_transfer_coupling, and with a driver transfer_time,
+ * energy_per_shot, input_power, peak_voltage and tank_voltage_margin; pushes the driver warnings.
+ * What a design cannot have stays null.
+ */
 export function dynamicsStage(context: EvalContext): void {
   const { design, metrics } = context;
   const secondary = context.secondary;

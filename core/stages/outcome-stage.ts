@@ -12,6 +12,11 @@ import { streamerCapacitance } from '../capacitance/streamer.ts';
 import { LONG_GAP_WITHSTAND_GRADIENT, primaryStrikeMargin, toploadCentreHeight, toploadToRingDistance } from '../outcome/clearance.ts';
 import { AXIAL_GRADIENT_LIMIT, formatNumber, formatQuantity, TUNING_TOLERANCE } from '../outcome/warnings.ts';
 
+/**
+ * Sets overall_height, spark_length (common practice), loaded_resonant_frequency (from that spark
+ * length when the design gives no streamer length), breakout_margin, topload_peak_field,
+ * axial_gradient and primary_strike_margin, and pushes the builder's warnings, each with its number.
+ */
 export function outcomeStage(context: EvalContext): void {
   const { design, metrics, warnings } = context;
   const secondary = context.secondary;
