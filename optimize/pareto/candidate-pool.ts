@@ -19,11 +19,17 @@ export interface RankedEntry<T> extends PoolEntry<T> {
   crowding: number;
 }
 
-/** Serialised candidate (plain JSON; objectives are finite numbers). */
+/** A number as JSON keeps it: finite numbers as they are, NaN and ±Infinity as the strings "NaN", "Infinity", "-Infinity". */
+export type JsonNumber = number | string;
+
+const toJsonNumber = (value: number): JsonNumber => (Number.isFinite(value) ? value : String(value));
+const fromJsonNumber = (value: JsonNumber): number => (typeof value === 'number' ? value : Number(value));
+
+/** Serialised candidate (plain JSON). */
 export interface PoolRecord<T> {
   index: number;
-  violation: number;
-  objectives: number[];
+  violation: JsonNumber;
+  objectives: JsonNumber[];
   dominatedBy: number | null;
   payload: T;
 }
@@ -80,9 +86,11 @@ interface InfeasiblePayload<T> {
  * Equal objective vectors do not dominate each other (all of them stay while fewer than K points dominate
  * them). Offering a sample index that is already kept is ignored, and one that was dropped is rejected
  * again, so re-offering (overlapping shards, a replayed batch) is harmless as long as an index always comes
- * with the same values. The kept set is bounded by the data, not only by K: it is about K·(ln(n/K))^(M−1)/
- * (M−1)! points for n independent uniform objectives (2·10^4 to 10^5 at n = 10^6, K = 1000, M = 3 to 4) and
- * grows with ties; memory stays flat in n for correlated objectives.
+ * with the same values. The kept set is bounded by the data, not only by K: for n independent uniform
+ * objectives it is about K·Σ_{j<M} (ln(n/K))^j / j! points (a point is kept when n·Π f_j < K; at n = 10^6,
+ * K = 1000: 7.9·10^3 for M = 2, 3.2·10^4 for M = 3, 8.7·10^4 for M = 4; bench/pareto.ts measures these),
+ * so it grows like (ln n)^(M−1), not like n; fewer for correlated objectives, more for objectives that
+ * trade off along a thick front, and all copies of a repeated vector stay.
  *
  * Cost of an offer: the kept points sit in a k-d tree with bounding boxes (dominance-index.ts), so a
  * rejection usually stops after counting K dominators in a few whole subtrees, and an acceptance visits
@@ -270,8 +278,8 @@ export class CandidatePool<T> {
   toJSON(): CandidatePoolData<T> {
     const record = (entry: PoolEntry<T>): PoolRecord<T> => ({
       index: entry.item.index,
-      violation: entry.item.violation,
-      objectives: Array.from(entry.item.objectives),
+      violation: toJsonNumber(entry.item.violation),
+      objectives: Array.from(entry.item.objectives, toJsonNumber),
       dominatedBy: entry.dominatedBy,
       payload: entry.payload,
     });
@@ -294,12 +302,13 @@ export class CandidatePool<T> {
       throw new RangeError(`CandidatePool.restore: data must be a version 1 candidate pool, got ${data.kind} ${data.version}`);
     }
     const pool = new CandidatePool<T>(data.keep, data.objectiveCount);
+    const objectivesOf = (record: PoolRecord<T>) => Float64Array.from(record.objectives, fromJsonNumber);
     for (const record of data.infeasible) {
-      pool.offer({ index: record.index, violation: record.violation, objectives: Float64Array.from(record.objectives) }, record.payload);
+      pool.offer({ index: record.index, violation: fromJsonNumber(record.violation), objectives: objectivesOf(record) }, record.payload);
     }
     if (pool.single !== null) {
       for (const record of data.feasible) {
-        pool.offer({ index: record.index, violation: 0, objectives: Float64Array.from(record.objectives) }, record.payload);
+        pool.offer({ index: record.index, violation: 0, objectives: objectivesOf(record) }, record.payload);
       }
       return pool;
     }
@@ -308,7 +317,7 @@ export class CandidatePool<T> {
       if (record.objectives.length !== m || !(record.dominatedBy !== null && record.dominatedBy >= 0 && record.dominatedBy < data.keep)) {
         throw new RangeError(`CandidatePool.restore: record ${record.index} is not a kept feasible candidate of this pool`);
       }
-      pool.index!.insert(record.objectives, record.dominatedBy, record.index, record.payload);
+      pool.index!.insert(objectivesOf(record), record.dominatedBy, record.index, record.payload);
       pool.keptIndices.add(record.index);
     }
     pool.index!.rebuild();

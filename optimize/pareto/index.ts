@@ -16,7 +16,7 @@ export type { CandidateRanking } from './rank-candidates.ts';
 // Streaming stores
 export { BoundedBest } from './bounded-best.ts';
 export { CandidatePool } from './candidate-pool.ts';
-export type { PoolEntry, RankedEntry, PoolRecord, CandidatePoolData } from './candidate-pool.ts';
+export type { PoolEntry, RankedEntry, PoolRecord, CandidatePoolData, JsonNumber } from './candidate-pool.ts';
 
 // Hypervolume
 export { hypervolume, defaultReferencePoint } from './hypervolume.ts';

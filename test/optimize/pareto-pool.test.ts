@@ -188,6 +188,15 @@ describe('CandidatePool behaviour', () => {
     expect(JSON.stringify(restored)).toBe(JSON.stringify(original));
   });
 
+  it('toJSON keeps NaN and infinite values of infeasible candidates through JSON text', () => {
+    const pool = new CandidatePool<null>(3, 2);
+    pool.offer(scored(4, Infinity, [Number.NaN, -Infinity]), null);
+    const restored = CandidatePool.restore<null>(JSON.parse(JSON.stringify(pool)));
+    const entry = restored.infeasibleEntries()[0];
+    expect(entry.item.violation).toBe(Infinity);
+    expect(Array.from(entry.item.objectives)).toEqual([Number.NaN, -Infinity]);
+  });
+
   it('rejects a NaN or negative violation, a wrong objective count and non-finite feasible objectives', () => {
     const pool = new CandidatePool<null>(5, 2);
     expect(() => pool.offer(scored(0, Number.NaN, [1, 2]), null)).toThrow(RangeError);
