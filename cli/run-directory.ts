@@ -12,6 +12,7 @@ export const RUN_FILES = {
   spec: 'spec.yaml',
   checkpoint: 'checkpoint.json',
   candidates: 'candidates.csv',
+  infeasible: 'infeasible.csv',
   front: 'front.csv',
   summary: 'summary.json',
   all: 'all.csv',
@@ -58,7 +59,7 @@ export function writeRunRecord(directory: string, record: RunRecord): void {
 /** Creates the output directory, refusing a non-empty one unless `overwrite`. */
 export function prepareOutputDirectory(directory: string, overwrite: boolean): void {
   if (existsSync(directory)) {
-    const entries = readdirSync(directory);
+    const entries = readdirSync(directory).filter((name) => name !== 'run.lock');
     if (entries.length > 0 && !overwrite) {
       throw new InputError(
         `--out ${directory}: the directory is not empty; choose another, resume it with --resume ${directory}, or pass --overwrite`,

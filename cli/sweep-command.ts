@@ -18,7 +18,8 @@ import { SweepState, type SweepStateData } from '../optimize/sweep-state.ts';
 import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
 import { decodeBatch, encodeBatch, type EncodedBatch } from './batch-codec.ts';
 import { csvRows, toCsv } from './csv.ts';
-import { writeFileAtomicSync } from './durable/atomic-write.ts';
+import { removeLeftoverTemporaryFiles, writeFileAtomicSync } from './durable/atomic-write.ts';
+import { acquireRunLock, RunLockError, type RunLock } from './durable/lock.ts';
 import { DiskError, toDiskError } from './durable/disk-error.ts';
 import { openJournal, readJournal, type Journal } from './durable/journal.ts';
 import { installStopSignal, type StopSignal } from './durable/stop-signal.ts';
@@ -26,7 +27,7 @@ import { parseDuration, formatDuration } from './duration.ts';
 import { InputError, optionError } from './input-error.ts';
 import type { CliIo } from './io.ts';
 import { journalName, prepareOutputDirectory, readRunRecord, RUN_FILES, writeRunRecord, type RunRecord } from './run-directory.ts';
-import { resolveShard, shardIndices } from './shard.ts';
+import { describeShard, resolveShard, shardIndices } from './shard.ts';
 import { candidateCells, columnSet } from './sweep-columns.ts';
 import { writeSweepOutputs, type RunIdentity } from './sweep-outputs.ts';
 import { loadSweepFile, sweepFromValue, type SweepSpec } from './sweep-spec.ts';
@@ -250,209 +251,227 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
     } catch (error) {
       throw error instanceof InputError ? error : new InputError((error instanceof DiskError ? error : toDiskError(error, directory, 'write')).message);
     }
-    for (const name of [RUN_FILES.checkpoint, RUN_FILES.candidates, RUN_FILES.front, RUN_FILES.summary, RUN_FILES.all]) rmSync(join(directory, name), { force: true });
+    for (const name of [RUN_FILES.checkpoint, RUN_FILES.candidates, RUN_FILES.infeasible, RUN_FILES.front, RUN_FILES.summary, RUN_FILES.all]) rmSync(join(directory, name), { force: true });
   }
 
-  const range = record.range;
-  const batchSize = record.batch_size;
-  const batchCount = Math.ceil((range[1] - range[0]) / batchSize);
-  const identity: RunIdentity = {
-    specHash: spec.hash,
-    seed: spec.seed,
-    method: spec.method,
-    samples: spec.samples,
-    range,
-    shard: record.shard ? { index: record.shard.index, count: record.shard.count } : null,
-    keep: record.keep,
-  };
-  const dimensionCount = spec.dimensions.length;
-  const columns = columnSet(spec.dimensions);
-
-  // ---- state: fresh, or the snapshot plus its journal
-  const done = new DoneSet();
-  let state = new SweepState(spec.objectives, spec.constraints, record.keep, spec.seed);
-  let generation = 0;
-  if (checkpoint) {
-    state = SweepState.restore(checkpoint.state, spec.objectives, spec.constraints, record.keep, spec.seed);
-    generation = checkpoint.generation;
-    done.prefix = checkpoint.done_prefix;
-    for (const batch of checkpoint.done_extra) done.add(batch);
-  }
-  const allPath = join(directory, RUN_FILES.all);
-  const writer = record.all
-    ? new OrderedCsvWriter(allPath, done, toCsv(columns.header, []), checkpoint ? checkpoint.all_bytes : 0, checkpoint ? checkpoint.all_pending : {})
-    : null;
-  if (writer && checkpoint) {
-    // Rows of batches below the first pending one are already in the file.
-    const pendingBatches = Object.keys(checkpoint.all_pending).map(Number);
-    let next = 0;
-    while (done.has(next) && !pendingBatches.includes(next)) next++;
-    writer.setNext(next);
-  }
-  const allRowsText = (result: BatchResult, batch: number): string => {
-    const rows = [];
-    const metricCount = result.metrics.length / result.count;
-    for (let row = 0; row < result.count; row++) {
-      const index = result.start + row;
-      const metrics = Array.from(result.metrics.subarray(row * metricCount, (row + 1) * metricCount), (v) => (Number.isFinite(v) ? v : null));
-      const objectives = state.objectiveVector(result.metrics, row * metricCount);
-      const violation = result.status[row] !== 0 ? null : state.violationOf(result.metrics, row * metricCount) + (objectives ? 0 : 1);
-      const reason = result.reasons.find(([r]) => r === row)?.[1] ?? null;
-      rows.push(
-        candidateCells(
-          spec.dimensions,
-          { rank: index + 1, paretoRank: null, crowding: null, feasible: violation === 0, violation: violation ?? Number.NaN, index },
-          { values: Array.from(result.values.subarray(row * dimensionCount, (row + 1) * dimensionCount)), metrics, status: result.status[row]!, reason, warnings: result.warningCounts[row]! },
-        ),
-      );
-    }
-    void batch;
-    return csvRows(rows);
-  };
-  const takeResult = (batch: number, result: BatchResult) => {
-    state.offerBatch(result, dimensionCount);
-    done.add(batch);
-    writer?.add(batch, allRowsText(result, batch));
-  };
-
-  let replayed = 0;
-  const journalPath = join(directory, journalName(generation));
-  if (existsSync(journalPath)) {
-    const contents = readJournal(journalPath);
-    for (const payload of contents.records) {
-      const entry = payload as { generation: number; batch: number; result: EncodedBatch };
-      if (entry.generation !== generation || done.has(entry.batch)) continue;
-      takeResult(entry.batch, decodeBatch(entry.result));
-      replayed++;
-    }
-    if (contents.tornTail) log(`${journalPath}: a torn last record was dropped (the batch is evaluated again)`);
+  let lock: RunLock;
+  try {
+    lock = acquireRunLock(directory);
+  } catch (error) {
+    if (error instanceof RunLockError || error instanceof DiskError) throw new InputError(`${directory}: ${error.message}`);
+    throw error;
   }
   if (options.resume !== undefined) {
-    log(`resuming ${directory}: ${done.size} of ${batchCount} batches done${replayed ? ` (${replayed} from the journal)` : ''}`);
+    for (const leftover of removeLeftoverTemporaryFiles(directory)) log(`removed ${leftover}, left by a write that a crash cut off`);
   }
-
-  let journal: Journal = openJournal(journalPath);
-  const writeCheckpoint = (complete: boolean) => {
-    writer?.sync();
-    const nextGeneration = generation + 1;
-    const data: CheckpointData = {
-      format: 'coilfront-checkpoint',
-      version: 1,
-      spec_hash: spec.hash,
-      generation: nextGeneration,
-      done_prefix: done.prefix,
-      done_extra: done.extras(),
-      state: state.toJSON(),
-      all_bytes: writer ? writer.bytes : 0,
-      all_pending: writer ? writer.pendingTexts() : {},
-      complete,
+  if (record.shard) log(`${describeShard({ index: record.shard.index, count: record.shard.count, source: record.shard.source as 'flag' | 'slurm' | 'kubernetes' })}: sample indices ${record.range[0]} to ${record.range[1] - 1}`);
+  const runLoop = async (): Promise<number> => {
+    const range = record.range;
+    const batchSize = record.batch_size;
+    const batchCount = Math.ceil((range[1] - range[0]) / batchSize);
+    const identity: RunIdentity = {
+      specHash: spec.hash,
+      seed: spec.seed,
+      method: spec.method,
+      samples: spec.samples,
+      range,
+      shard: record.shard ? { index: record.shard.index, count: record.shard.count } : null,
+      keep: record.keep,
     };
-    const nextJournal = openJournal(join(directory, journalName(nextGeneration)));
-    writeFileAtomicSync(join(directory, RUN_FILES.checkpoint), JSON.stringify(data));
-    journal.close();
-    rmSync(journal.path, { force: true });
-    journal = nextJournal;
-    generation = nextGeneration;
-  };
+    const dimensionCount = spec.dimensions.length;
+    const columns = columnSet(spec.dimensions);
 
-  // ---- the loop
-  const startedAt = performance.now();
-  const startedDone = done.size;
-  const threads = options.workers ?? defaultWorkerCount();
-  const evaluator: BatchEvaluator =
-    threads === 0
-      ? inProcessEvaluator(new DesignSpace(spaceDefinitionOf(spec)))
-      : createWorkerPool(spaceDefinitionOf(spec), { threads, onRetry: (task, reason) => log(`a worker failed (${reason}); retrying the batch at index ${task.kind === 'indices' ? task.start : '?'}`) });
-  const stop: StopSignal = installStopSignal({ ...(timeLimitSeconds !== undefined ? { timeLimitSeconds } : {}), log });
-  const maxInFlight = Math.max(2, (threads || 1) * 3);
-  const window = maxInFlight * 4;
-  const inFlight = new Map<number, Promise<void>>();
-  let failure: unknown = null;
-  let next = 0;
-  let lastSync = performance.now();
-  let syncsSinceSnapshot = 0;
-  let lastProgress = performance.now();
-  const taskOf = (batch: number): BatchTask => {
-    const start = range[0] + batch * batchSize;
-    return { kind: 'indices', start, count: Math.min(batchSize, range[1] - start) };
-  };
-  const progress = (final = false) => {
-    if (options.quiet) return;
-    const now = performance.now();
-    const interval = io.isTty ? 500 : 10_000;
-    if (!final && now - lastProgress < interval) return;
-    lastProgress = now;
-    const designs = Math.min(range[1] - range[0], done.size * batchSize);
-    const total = range[1] - range[0];
-    const rate = ((done.size - startedDone) * batchSize) / Math.max(1e-3, (now - startedAt) / 1000);
-    const eta = rate > 0 ? formatDuration(Math.max(0, (total - designs) / rate)) : '?';
-    const text = `swept ${designs}/${total} designs (${((100 * designs) / Math.max(1, total)).toFixed(1)}%), ${rate.toFixed(0)} designs/s, ${state.counts.feasible} feasible, ETA ${eta}`;
-    if (io.isTty) io.err(`\r${text}${final ? '\n' : ''}`);
-    else io.err(`${text}\n`);
-  };
-  try {
-    while (failure === null) {
-      while (!stop.stopRequested && inFlight.size < maxInFlight && next < batchCount && next < done.prefix + window) {
-        const batch = next++;
-        if (done.has(batch)) continue;
-        const promise = evaluator
-          .evaluate(taskOf(batch))
-          .then((result) => {
-            takeResult(batch, result);
-            journal.append({ generation, batch, result: encodeBatch(result) });
-          })
-          .catch((error) => {
-            failure ??= error;
-          })
-          .finally(() => inFlight.delete(batch));
-        inFlight.set(batch, promise);
-      }
-      if (inFlight.size === 0) break;
-      await Promise.race(inFlight.values());
-      if (failure !== null) break;
-      const now = performance.now();
-      if (now - lastSync >= journalSyncSeconds * 1000) {
-        journal.sync();
-        writer?.sync();
-        lastSync = now;
-        if (++syncsSinceSnapshot >= 12) {
-          writeCheckpoint(false);
-          syncsSinceSnapshot = 0;
-        }
-      }
-      progress();
+    // ---- state: fresh, or the snapshot plus its journal
+    const done = new DoneSet();
+    let state = new SweepState(spec.objectives, spec.constraints, record.keep, spec.seed);
+    let generation = 0;
+    if (checkpoint) {
+      state = SweepState.restore(checkpoint.state, spec.objectives, spec.constraints, record.keep, spec.seed);
+      generation = checkpoint.generation;
+      done.prefix = checkpoint.done_prefix;
+      for (const batch of checkpoint.done_extra) done.add(batch);
     }
-    await Promise.allSettled(inFlight.values());
-  } finally {
-    await evaluator.close();
-    stop.dispose();
-  }
-  if (failure !== null) {
-    const message = failure instanceof DiskError ? failure.message : failure instanceof Error ? failure.message : String(failure);
-    io.err(`coilfront: the sweep stopped: ${message}\n  the last good checkpoint in ${directory} can be resumed with: coilfront sweep --resume ${directory}\n`);
-    return 1;
-  }
-  const complete = done.size >= batchCount;
-  const wallSeconds = (performance.now() - startedAt) / 1000;
-  const evaluatedNow = Math.max(0, state.counts.evaluated);
-  const timing = { wallSeconds, designsPerSecond: ((done.size - startedDone) * batchSize) / Math.max(wallSeconds, 1e-9), workers: threads };
-  void evaluatedNow;
+    const allPath = join(directory, RUN_FILES.all);
+    const writer = record.all
+      ? new OrderedCsvWriter(allPath, done, toCsv(columns.header, []), checkpoint ? checkpoint.all_bytes : 0, checkpoint ? checkpoint.all_pending : {})
+      : null;
+    if (writer && checkpoint) {
+      // Rows of batches below the first pending one are already in the file.
+      const pendingBatches = Object.keys(checkpoint.all_pending).map(Number);
+      let next = 0;
+      while (done.has(next) && !pendingBatches.includes(next)) next++;
+      writer.setNext(next);
+    }
+    const allRowsText = (result: BatchResult, batch: number): string => {
+      const rows = [];
+      const metricCount = result.metrics.length / result.count;
+      for (let row = 0; row < result.count; row++) {
+        const index = result.start + row;
+        const metrics = Array.from(result.metrics.subarray(row * metricCount, (row + 1) * metricCount), (v) => (Number.isFinite(v) ? v : null));
+        const objectives = state.objectiveVector(result.metrics, row * metricCount);
+        const violation = result.status[row] !== 0 ? null : state.violationOf(result.metrics, row * metricCount) + (objectives ? 0 : 1);
+        const reason = result.reasons.find(([r]) => r === row)?.[1] ?? null;
+        rows.push(
+          candidateCells(
+            spec.dimensions,
+            { rank: index + 1, paretoRank: null, crowding: null, feasible: violation === 0, violation: violation ?? Number.NaN, index },
+            { values: Array.from(result.values.subarray(row * dimensionCount, (row + 1) * dimensionCount)), metrics, status: result.status[row]!, reason, warnings: result.warningCounts[row]! },
+          ),
+        );
+      }
+      void batch;
+      return csvRows(rows);
+    };
+    const takeResult = (batch: number, result: BatchResult) => {
+      state.offerBatch(result, dimensionCount);
+      done.add(batch);
+      writer?.add(batch, allRowsText(result, batch));
+    };
+
+    let replayed = 0;
+    const journalPath = join(directory, journalName(generation));
+    if (existsSync(journalPath)) {
+      const contents = readJournal(journalPath);
+      for (const payload of contents.records) {
+        const entry = payload as { generation: number; batch: number; result: EncodedBatch };
+        if (entry.generation !== generation || done.has(entry.batch)) continue;
+        takeResult(entry.batch, decodeBatch(entry.result));
+        replayed++;
+      }
+      if (contents.tornTail) log(`${journalPath}: a torn last record was dropped (the batch is evaluated again)`);
+    }
+    if (options.resume !== undefined) {
+      log(`resuming ${directory}: ${done.size} of ${batchCount} batches done${replayed ? ` (${replayed} from the journal)` : ''}`);
+    }
+
+    let journal: Journal = openJournal(journalPath);
+    const writeCheckpoint = (complete: boolean) => {
+      writer?.sync();
+      const nextGeneration = generation + 1;
+      const data: CheckpointData = {
+        format: 'coilfront-checkpoint',
+        version: 1,
+        spec_hash: spec.hash,
+        generation: nextGeneration,
+        done_prefix: done.prefix,
+        done_extra: done.extras(),
+        state: state.toJSON(),
+        all_bytes: writer ? writer.bytes : 0,
+        all_pending: writer ? writer.pendingTexts() : {},
+        complete,
+      };
+      const nextJournal = openJournal(join(directory, journalName(nextGeneration)));
+      writeFileAtomicSync(join(directory, RUN_FILES.checkpoint), JSON.stringify(data));
+      journal.close();
+      rmSync(journal.path, { force: true });
+      journal = nextJournal;
+      generation = nextGeneration;
+    };
+
+    // ---- the loop
+    const startedAt = performance.now();
+    const startedDone = done.size;
+    const threads = options.workers ?? defaultWorkerCount();
+    const evaluator: BatchEvaluator =
+      threads === 0
+        ? inProcessEvaluator(new DesignSpace(spaceDefinitionOf(spec)))
+        : createWorkerPool(spaceDefinitionOf(spec), { threads, onRetry: (task, reason) => log(`a worker failed (${reason}); retrying the batch at index ${task.kind === 'indices' ? task.start : '?'}`) });
+    const stop: StopSignal = installStopSignal({ ...(timeLimitSeconds !== undefined ? { timeLimitSeconds } : {}), log });
+    const maxInFlight = Math.max(2, (threads || 1) * 3);
+    const window = maxInFlight * 4;
+    const inFlight = new Map<number, Promise<void>>();
+    let failure: unknown = null;
+    let next = 0;
+    let lastSync = performance.now();
+    let syncsSinceSnapshot = 0;
+    let lastProgress = performance.now();
+    const taskOf = (batch: number): BatchTask => {
+      const start = range[0] + batch * batchSize;
+      return { kind: 'indices', start, count: Math.min(batchSize, range[1] - start) };
+    };
+    const progress = (final = false) => {
+      if (options.quiet) return;
+      const now = performance.now();
+      const interval = io.isTty ? 500 : 10_000;
+      if (!final && now - lastProgress < interval) return;
+      lastProgress = now;
+      const designs = Math.min(range[1] - range[0], done.size * batchSize);
+      const total = range[1] - range[0];
+      const rate = ((done.size - startedDone) * batchSize) / Math.max(1e-3, (now - startedAt) / 1000);
+      const eta = rate > 0 ? formatDuration(Math.max(0, (total - designs) / rate)) : '?';
+      const text = `swept ${designs}/${total} designs (${((100 * designs) / Math.max(1, total)).toFixed(1)}%), ${rate.toFixed(0)} designs/s, ${state.counts.feasible} feasible, ETA ${eta}`;
+      if (io.isTty) io.err(`\r${text}${final ? '\n' : ''}`);
+      else io.err(`${text}\n`);
+    };
+    try {
+      while (failure === null) {
+        while (!stop.stopRequested && inFlight.size < maxInFlight && next < batchCount && next < done.prefix + window) {
+          const batch = next++;
+          if (done.has(batch)) continue;
+          const promise = evaluator
+            .evaluate(taskOf(batch))
+            .then((result) => {
+              takeResult(batch, result);
+              journal.append({ generation, batch, result: encodeBatch(result) });
+            })
+            .catch((error) => {
+              failure ??= error;
+            })
+            .finally(() => inFlight.delete(batch));
+          inFlight.set(batch, promise);
+        }
+        if (inFlight.size === 0) break;
+        await Promise.race(inFlight.values());
+        if (failure !== null) break;
+        const now = performance.now();
+        if (now - lastSync >= journalSyncSeconds * 1000) {
+          journal.sync();
+          writer?.sync();
+          lastSync = now;
+          if (++syncsSinceSnapshot >= 12) {
+            writeCheckpoint(false);
+            syncsSinceSnapshot = 0;
+          }
+        }
+        progress();
+      }
+      await Promise.allSettled(inFlight.values());
+    } finally {
+      await evaluator.close();
+      stop.dispose();
+    }
+    if (failure !== null) {
+      const message = failure instanceof DiskError ? failure.message : failure instanceof Error ? failure.message : String(failure);
+      io.err(`coilfront: the sweep stopped: ${message}\n  the last good checkpoint in ${directory} can be resumed with: coilfront sweep --resume ${directory}\n`);
+      return 1;
+    }
+    const complete = done.size >= batchCount;
+    const wallSeconds = (performance.now() - startedAt) / 1000;
+    const evaluatedNow = Math.max(0, state.counts.evaluated);
+    const timing = { wallSeconds, designsPerSecond: ((done.size - startedDone) * batchSize) / Math.max(wallSeconds, 1e-9), workers: threads };
+    void evaluatedNow;
+    try {
+      writeCheckpoint(complete);
+      writer?.close();
+      writeSweepOutputs(directory, spec, state, identity, timing, complete);
+      journal.close();
+    } catch (error) {
+      const diskError = error instanceof DiskError ? error : toDiskError(error, directory, 'write');
+      io.err(`coilfront: ${diskError.message}\n  the last good checkpoint in ${directory} can be resumed with: coilfront sweep --resume ${directory}\n`);
+      return 1;
+    }
+    progress(true);
+    if (!complete) {
+      const why = stop.reason === 'time-limit' ? 'the time limit was reached' : `${stop.signal ?? 'a signal'} was received`;
+      io.err(`stopped: ${why} after ${state.counts.evaluated} of ${range[1] - range[0]} designs; outputs so far are in ${directory}\n  resume with: coilfront sweep --resume ${directory}\n`);
+      return stop.exitCode();
+    }
+    if (!options.quiet) io.out(formatTopCandidates(directory, spec, state, 5));
+    return 0;
+  };
   try {
-    writeCheckpoint(complete);
-    writer?.close();
-    writeSweepOutputs(directory, spec, state, identity, timing, complete);
-    journal.close();
-  } catch (error) {
-    const diskError = error instanceof DiskError ? error : toDiskError(error, directory, 'write');
-    io.err(`coilfront: ${diskError.message}\n  the last good checkpoint in ${directory} can be resumed with: coilfront sweep --resume ${directory}\n`);
-    return 1;
+    return await runLoop();
+  } finally {
+    lock.release();
   }
-  progress(true);
-  if (!complete) {
-    const why = stop.reason === 'time-limit' ? 'the time limit was reached' : `${stop.signal ?? 'a signal'} was received`;
-    io.err(`stopped: ${why} after ${state.counts.evaluated} of ${range[1] - range[0]} designs; outputs so far are in ${directory}\n  resume with: coilfront sweep --resume ${directory}\n`);
-    return stop.exitCode();
-  }
-  if (!options.quiet) io.out(formatTopCandidates(directory, spec, state, 5));
-  return 0;
 }

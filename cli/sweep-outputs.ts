@@ -1,6 +1,7 @@
 /**
- * The files a sweep leaves for the morning: candidates.csv (the ranked top K), front.csv (the whole
- * non-dominated feasible set), summary.json (identity, counts, constraint rejections, hypervolume,
+ * The files a sweep leaves for the morning: candidates.csv (the ranked top K feasible designs),
+ * infeasible.csv (the K closest misses, with their reasons), front.csv (the whole non-dominated
+ * feasible set), summary.json (identity, counts, constraint rejections, hypervolume,
  * metric quantiles, parameter sensitivities, timing). Written atomically, so a reader never sees half
  * a file, and from the order-independent state alone, so they are byte-identical however the run went.
  */
@@ -138,8 +139,15 @@ export function summaryObject(spec: SweepSpec, state: SweepState, identity: RunI
 /** Writes candidates.csv, front.csv and summary.json into `directory`. */
 export function writeSweepOutputs(directory: string, spec: SweepSpec, state: SweepState, identity: RunIdentity, timing: Timing, complete: boolean): void {
   const columns = columnSet(spec.dimensions);
-  const ranked = state.pool.ranked(identity.keep);
+  // candidates.csv holds feasible designs only; the closest misses go to infeasible.csv.
+  const ranked = state.pool.ranked(identity.keep).filter((entry) => entry.item.violation === 0);
   writeFileAtomicSync(join(directory, 'candidates.csv'), toCsv(columns.header, rankedRows(spec.dimensions, ranked)));
+  const misses = state.pool
+    .infeasibleEntries()
+    .sort((a, b) => a.item.violation - b.item.violation || a.item.index - b.item.index)
+    .slice(0, identity.keep)
+    .map((entry) => ({ ...entry, paretoRank: 0, crowding: 0 }));
+  writeFileAtomicSync(join(directory, 'infeasible.csv'), toCsv(columns.header, rankedRows(spec.dimensions, misses)));
   const front = sortedFront(state);
   writeFileAtomicSync(join(directory, 'front.csv'), toCsv(columns.header, rankedRows(spec.dimensions, front)));
   writeFileAtomicSync(join(directory, 'summary.json'), `${JSON.stringify(summaryObject(spec, state, identity, timing, complete), null, 2)}\n`);

@@ -68,10 +68,19 @@ export class RunLockError extends Error {
 export function isProcessAlive(pid: number): boolean {
   try {
     process.kill(pid, 0);
-    return true;
   } catch (error) {
     return (error as { code?: string }).code === 'EPERM';
   }
+  // A killed process that its parent has not reaped yet (a zombie, state Z in /proc on Linux) still
+  // answers signal 0, but it will never write again: its lock is stale.
+  try {
+    const stat = readFileSync(`/proc/${pid}/stat`, 'utf8');
+    const state = stat.slice(stat.lastIndexOf(')') + 2, stat.lastIndexOf(')') + 3);
+    if (state === 'Z' || state === 'X') return false;
+  } catch {
+    // No /proc (not Linux) or the process just went away: trust signal 0.
+  }
+  return true;
 }
 
 /** This boot's id on Linux, or null where there is none. */
