@@ -46,6 +46,9 @@ export function rankCandidates(items: readonly Scored[], limit = Infinity): Cand
     if (item.violation === 0) feasible.push(position);
     else infeasible.push(position);
   });
+  // Sample-index order from here on, so that ties inside crowdingDistance (broken by position) are broken
+  // by index and nothing depends on the order of the input.
+  feasible.sort((a, b) => items[a].index - items[b].index);
   const order: number[] = [];
   if (objectiveCount <= 1) {
     const value = (position: number) => (objectiveCount === 0 ? 0 : items[position].objectives[0]);

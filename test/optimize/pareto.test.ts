@@ -211,6 +211,24 @@ describe('rankCandidates(items)', () => {
       { numRuns: 60, seed: 11 },
     );
   });
+  it('breaks crowding ties between repeated vectors by index, whatever the input order', () => {
+    // Three copies of (0, 2): the boundary copies (Infinity) must be the lowest and highest index (3 and
+    // 9), the interior one index 5 (crowding 0), in every input order. By hand: (1, 1) has
+    // (2 − 0)/2 + (2 − 0)/2 = 2, so the order is 3, 4, 9 (Infinity, by index), 7 (2), 5 (0).
+    const copies = [scored(5, 0, 0, 2), scored(3, 0, 0, 2), scored(9, 0, 0, 2)];
+    const others = [scored(4, 0, 2, 0), scored(7, 0, 1, 1)];
+    const orders = [
+      [...copies, ...others],
+      [copies[1], copies[2], ...others, copies[0]],
+      [copies[2], ...others, copies[0], copies[1]],
+    ];
+    for (const items of orders) {
+      const { order, crowding } = rankCandidates(items);
+      expect(order.map((p) => items[p].index)).toEqual([3, 4, 9, 7, 5]);
+      expect(crowding[items.findIndex((item) => item.index === 5)]).toBe(0);
+    }
+  });
+
   it('with limit gives the same first positions as the full ranking', () => {
     const items = Array.from({ length: 60 }, (_, i) => scored(i, 0, (i * 7) % 13, (i * 5) % 11));
     const full = rankCandidates(items).order;
