@@ -1,4 +1,10 @@
 import { dominates } from './dominates.ts';
+import { DominanceIndex } from './dominance-index.ts';
+
+function hasNaN(point: ArrayLike<number>): boolean {
+  for (let j = 0; j < point.length; j++) if (Number.isNaN(point[j])) return true;
+  return false;
+}
 
 /** Sum of a vector's components (a monotone key: a dominator never has a larger sum, rounding included). */
 function componentSum(point: ArrayLike<number>): number {
@@ -12,8 +18,9 @@ function componentSum(point: ArrayLike<number>): number {
  * multiobjective genetic algorithm: NSGA-II", IEEE TEC 6(2), 182-197, 2002, sec. III-A), computed by
  * peeling instead of the paper's domination lists so memory stays O(N): points are ordered by the sum of
  * their objectives, then lexicographically (every dominator of a point comes before it), and each front
- * is the set of remaining points not dominated by an earlier member of that front. Same fronts as the
- * paper; O(M·N·Σ|front|) comparisons, O(M·N²) at worst, far less when few fronts are needed.
+ * is the set of remaining points not dominated by an earlier member of that front (looked up in a k-d
+ * tree once the front has 64 members). Same fronts as the paper; O(M·N²) at worst, typically about
+ * O(M·N log N) per front computed, so asking for few fronts (limit) is cheap.
  *
  * Equal vectors share a front. A point with a NaN component dominates nothing and is never dominated, so
  * it is in the first front.
@@ -38,21 +45,38 @@ export function nondominatedSort(points: readonly ArrayLike<number>[], limit = I
     return a - b;
   });
   const fronts: number[][] = [];
+  const dimensions = points.length > 0 ? points[0].length : 0;
   let ranked = 0;
   while (remaining.length > 0 && ranked < limit) {
     const front: number[] = [];
     const rest: number[] = [];
+    // The front so far: a plain list while small, a k-d tree (dominance-index.ts) once it grows, so a
+    // large front costs O(log) per membership test instead of O(|front|).
+    let index: DominanceIndex | null = null;
     for (const position of remaining) {
       const point = points[position];
       let dominated = false;
-      for (let f = 0; f < front.length; f++) {
-        if (dominates(points[front[f]], point)) {
-          dominated = true;
-          break;
+      if (index !== null && !hasNaN(point)) {
+        dominated = index.countDominators(point, 1) > 0;
+      } else {
+        for (let f = 0; f < front.length; f++) {
+          if (dominates(points[front[f]], point)) {
+            dominated = true;
+            break;
+          }
         }
       }
-      if (dominated) rest.push(position);
-      else front.push(position);
+      if (dominated) {
+        rest.push(position);
+        continue;
+      }
+      front.push(position);
+      if (index !== null) {
+        if (!hasNaN(point)) index.insert(point, 0, position, null);
+      } else if (front.length === 64 && dimensions > 0) {
+        index = new DominanceIndex(dimensions);
+        for (const member of front) if (!hasNaN(points[member])) index.insert(points[member], 0, member, null);
+      }
     }
     fronts.push(front.slice().sort((a, b) => a - b));
     ranked += front.length;
