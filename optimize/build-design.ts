@@ -88,8 +88,8 @@ export function buildDesign(tree: NormalTree, basePath: string[] = []): DesignBu
     };
     if (turns !== undefined) spec.turns = turns;
     if (windingLength !== undefined) spec.windingLength = windingLength;
+    // With turns and winding_length both given, the secondary stage derives the pitch.
     if (pitch !== undefined) spec.pitch = pitch;
-    else if (turns !== undefined && windingLength !== undefined) spec.pitch = windingLength / turns;
     if (wire.overallDiameter !== undefined && wire.overallDiameter < wire.bareDiameter) {
       issues.push({ path: at('secondary', 'wire_overall_diameter'), message: 'the insulated diameter is smaller than the bare wire' , byValue: true });
     }
