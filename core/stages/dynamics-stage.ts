@@ -104,7 +104,7 @@ function runSparkGap(context: EvalContext, circuit: CoupledCircuit, driver: Spar
   }
   const energy = 0.5 * circuit.primaryCapacitance * chargeVoltage * chargeVoltage;
   metrics.energy_per_shot = energy;
-  metrics.input_power = energy * driver.breakRate;
+  metrics.input_power = driver.breakRate >= 0 ? energy * driver.breakRate : null;
   tankRatingCheck(context, chargeVoltage, 'the charge voltage');
   const shot = sparkGapShot(circuit, chargeVoltage, driver.quench);
   if (shot === null) {
@@ -140,7 +140,7 @@ function runSolidState(context: EvalContext, circuit: CoupledCircuit, driver: So
   const breakoutVoltage = context.electrostatics?.breakoutVoltage ?? undefined;
   const burst = solidStateBurst(circuit, { driveVoltage, currentLimit: driver.currentLimit, onTime, cycles, breakoutVoltage: breakoutVoltage ?? undefined });
   metrics.energy_per_shot = burst.energyFromSource;
-  metrics.input_power = burst.energyFromSource * driver.repetitionRate;
+  metrics.input_power = driver.repetitionRate >= 0 ? burst.energyFromSource * driver.repetitionRate : null;
   metrics.peak_voltage = burst.peakVoltage;
   metrics.transfer_time = null; // a driven burst has no single transfer
   if (burst.endReason === 'current_limit') {
