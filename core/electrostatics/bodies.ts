@@ -32,6 +32,7 @@ export interface DiscBody {
   centerZ: number;
 }
 
+/** A topload body of the field solve (the disc serves the reference checks). */
 export type ToploadBody = ToroidBody | SphereBody | DiscBody;
 
 /** The secondary winding as a cylindrical sheet at the wire's centre radius, SI. */

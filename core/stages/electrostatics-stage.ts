@@ -20,6 +20,7 @@ import { streamerCapacitance } from '../capacitance/streamer.ts';
 import { arrangementFromDesign } from '../electrostatics/arrangement.ts';
 import { solveField } from '../electrostatics/field-solve.ts';
 
+/** Runs the field solve for the design in `context` and sets its electrostatics metrics (see above). */
 export function electrostaticsStage(context: EvalContext): void {
   const { design, metrics, problems } = context;
   if (!design.topload && !design.secondary) return;
