@@ -20,7 +20,8 @@ type Point = Float64Array;
  * - 4 or more objectives: a dimension sweep over the last objective (Fonseca, Paquete & López-Ibáñez,
  *   "An improved dimension-sweep algorithm for the hypervolume indicator", IEEE CEC 2006): slabs between
  *   consecutive values of the last objective, each the (d−1)-dimensional hypervolume of the points below it
- *   times its thickness, down to the 3-D sweep; O(n² log n) for 4 objectives.
+ *   times its thickness, down to the 3-D sweep; O(n²) sweep steps for 4 objectives (plus the staircase
+ *   updates of each 3-D sweep).
  * @param points objective vectors (minimisation), all of the reference's length.
  * @param reference the reference point (see defaultReferencePoint).
  * @returns the hypervolume, in the product of the objectives' units; 0 for no contributing point.
@@ -67,9 +68,18 @@ function area2d(points: Point[], referenceX: number, referenceY: number): number
   return area;
 }
 
+/** Order of the 3-D sweep: z, then x, then y ascending. */
+function compare3d(a: Point, b: Point): number {
+  return a[2] - b[2] || a[0] - b[0] || a[1] - b[1];
+}
+
 /** 3-D sweep over z with a sorted 2-D staircase (x ascending, y descending) and its running area. */
 function volume3d(points: Point[], reference: Float64Array): number {
-  const sorted = points.slice().sort((a, b) => a[2] - b[2] || a[0] - b[0] || a[1] - b[1]);
+  return volume3dSorted(points.slice().sort(compare3d), reference);
+}
+
+/** volume3d for points already in compare3d order. */
+function volume3dSorted(sorted: Point[], reference: Float64Array): number {
   const referenceX = reference[0];
   const referenceY = reference[1];
   const stairX: number[] = [];
@@ -113,7 +123,11 @@ function volume3d(points: Point[], reference: Float64Array): number {
   return volume;
 }
 
-/** d ≥ 4: slabs along the last objective, each a (d − 1)-dimensional hypervolume. */
+/**
+ * d ≥ 4: slabs along the last objective, each a (d − 1)-dimensional hypervolume. For d = 4 the points
+ * below the current slab are kept in the 3-D sweep's order by binary insertion, so each slab costs O(n)
+ * plus the staircase updates instead of a fresh sort.
+ */
 function sweepLastDimension(points: Point[], reference: Float64Array, dimensions: number): number {
   const last = dimensions - 1;
   const sorted = points.slice().sort((a, b) => a[last] - b[last]);
@@ -121,10 +135,24 @@ function sweepLastDimension(points: Point[], reference: Float64Array, dimensions
   const below: Point[] = [];
   let volume = 0;
   for (let i = 0; i < sorted.length; i++) {
-    below.push(sorted[i].subarray(0, last));
+    const projected = sorted[i].subarray(0, last);
+    if (last === 3) {
+      let low = 0;
+      let high = below.length;
+      while (low < high) {
+        const middle = (low + high) >>> 1;
+        if (compare3d(below[middle], projected) <= 0) low = middle + 1;
+        else high = middle;
+      }
+      below.splice(low, 0, projected);
+    } else {
+      below.push(projected);
+    }
     const top = i + 1 < sorted.length ? sorted[i + 1][last] : reference[last];
     const thickness = top - sorted[i][last];
-    if (thickness > 0) volume += volumeOf(below, lowerReference, last) * thickness;
+    if (thickness > 0) {
+      volume += (last === 3 ? volume3dSorted(below, lowerReference) : volumeOf(below, lowerReference, last)) * thickness;
+    }
   }
   return volume;
 }
