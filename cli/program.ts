@@ -40,10 +40,11 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .argument('[file]', 'design file, YAML or JSON')
     .option('--json', 'print the JSON contract (SI units) instead of the report')
     .option('--batch <jsonl>', "evaluate one JSON design per line ('-' for stdin), one JSON result per line out")
-    .action(async (file: string | undefined, options: { json?: boolean; batch?: string }) => {
+    .option('--workers <n>', 'worker threads for --batch (default: available parallelism)', integer('--workers'))
+    .action(async (file: string | undefined, options: { json?: boolean; batch?: string; workers?: number }) => {
       if (options.batch !== undefined) {
         if (file !== undefined) throw new InputError('evaluate: give a design file or --batch, not both');
-        exitCode = await batchEvaluate(options.batch, io);
+        exitCode = await batchEvaluate(options.batch, io, options.workers !== undefined ? { workers: options.workers } : {});
         return;
       }
       if (file === undefined) throw new InputError('evaluate: give a design file (or --batch FILE.jsonl)');

@@ -10,9 +10,11 @@ import { existsSync, writeFileSync } from 'node:fs';
 import { Piscina } from 'piscina';
 import { DesignSpace, type SpaceDefinition } from '../optimize/design-space.ts';
 import { evaluateBatchTask, type BatchTask, type BatchResult } from '../optimize/evaluate-batch.ts';
+import { evaluateDesign, type Evaluation } from '../core/evaluate.ts';
+import type { Design } from '../core/design.ts';
 
-const definition = (Piscina.workerData as { space: SpaceDefinition }).space;
-const space = new DesignSpace(definition);
+const definition = (Piscina.workerData as { space: SpaceDefinition | null }).space;
+const space = definition ? new DesignSpace(definition) : null;
 
 function crashHook(): ((index: number) => void) | undefined {
   const setting = process.env.COILFRONT_TEST_CRASH;
@@ -43,7 +45,15 @@ class MovedResult {
   }
 }
 
-export default function evaluateTask(task: BatchTask): BatchResult {
+/** Whole designs (SI), for `evaluate --batch`: one Evaluation each, in order. */
+export interface DesignsTask {
+  kind: 'designs';
+  designs: Design[];
+}
+
+export default function evaluateTask(task: BatchTask | DesignsTask): BatchResult | Evaluation[] {
+  if (task.kind === 'designs') return task.designs.map((design) => evaluateDesign(design));
+  if (!space) throw new Error('this worker pool has no design space: it evaluates whole designs only');
   const result = evaluateBatchTask(space, task, beforeDesign ? { beforeDesign } : undefined);
   return Piscina.move(new MovedResult(result) as never) as unknown as BatchResult;
 }

@@ -10,6 +10,8 @@ import { availableParallelism } from 'node:os';
 import { fileURLToPath } from 'node:url';
 import { Piscina } from 'piscina';
 import { METRIC_KEYS } from '../core/metrics.ts';
+import type { Design } from '../core/design.ts';
+import type { Evaluation } from '../core/evaluate.ts';
 import type { SpaceDefinition } from '../optimize/design-space.ts';
 import { STATUS_FAILED, type BatchEvaluator, type BatchResult, type BatchTask } from '../optimize/evaluate-batch.ts';
 
@@ -66,6 +68,23 @@ export function createWorkerPool(space: SpaceDefinition, options: PoolOptions): 
   return {
     threads,
     evaluate: run,
+    close: async () => {
+      await pool.destroy();
+    },
+  };
+}
+
+/** A pool that evaluates whole designs (evaluate --batch): chunks of designs in, Evaluations out. */
+export function createDesignPool(threads: number): { evaluate(designs: Design[]): Promise<Evaluation[]>; close(): Promise<void> } {
+  const pool = new Piscina({
+    filename: resolveWorkerFile(),
+    minThreads: Math.max(1, threads),
+    maxThreads: Math.max(1, threads),
+    idleTimeout: 60_000,
+    workerData: { space: null },
+  });
+  return {
+    evaluate: async (designs) => (await pool.run({ kind: 'designs', designs })) as Evaluation[],
     close: async () => {
       await pool.destroy();
     },
