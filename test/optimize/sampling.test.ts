@@ -102,11 +102,13 @@ describe('LatinHypercubeSampler', () => {
         const points = pointsOf(sampler, count);
         for (let d = 0; d < dimensions; d++) {
           const hits = new Array<number>(count).fill(0);
+          let insideStrata = true;
           for (const p of points) {
             const stratum = Math.floor(p[d] * count);
-            expect(p[d] >= stratum / count && p[d] < (stratum + 1) / count).toBe(true);
+            if (!(p[d] >= stratum / count && p[d] < (stratum + 1) / count)) insideStrata = false;
             hits[stratum]++;
           }
+          expect(insideStrata).toBe(true);
           expect(hits.every((h) => h === 1)).toBe(true);
         }
       }),
