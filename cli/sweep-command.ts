@@ -18,7 +18,8 @@ import { SweepState, type SweepStateData } from '../optimize/sweep-state.ts';
 import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
 import { decodeBatch, encodeBatch, type EncodedBatch } from './batch-codec.ts';
 import { csvRows, toCsv } from './csv.ts';
-import { removeLeftoverTemporaryFiles, writeFileAtomicSync } from './durable/atomic-write.ts';
+import { removeLeftoverTemporaryFiles, writeChunksAtomicSync } from './durable/atomic-write.ts';
+import { jsonChunks } from './json-chunks.ts';
 import { acquireRunLock, RunLockError, type RunLock } from './durable/lock.ts';
 import { DiskError, toDiskError } from './durable/disk-error.ts';
 import { openJournal, readJournal, type Journal } from './durable/journal.ts';
@@ -361,7 +362,7 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
         complete,
       };
       const nextJournal = openJournal(join(directory, journalName(nextGeneration)));
-      writeFileAtomicSync(join(directory, RUN_FILES.checkpoint), JSON.stringify(data));
+      writeChunksAtomicSync(join(directory, RUN_FILES.checkpoint), jsonChunks(data));
       journal.close();
       rmSync(journal.path, { force: true });
       journal = nextJournal;

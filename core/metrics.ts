@@ -38,7 +38,7 @@ export const METRICS: readonly MetricInfo[] = [
   metric('loaded_resonant_frequency', 'Hz', 'resonant frequency with streamer loading added at the top'),
   metric('topload_field_per_volt', '1/m', 'peak surface field on the topload per volt at the top'),
   metric('topload_underside_field_per_volt', '1/m', 'surface field at the underside of the topload per volt'),
-  metric('winding_top_field_per_volt', '1/m', 'peak surface field on the top turns of the winding per volt'),
+  metric('winding_top_field_per_volt', '1/m', 'mean outward surface field over the top 5 % of the winding sheet, per volt'),
   metric('topload_onset_field', 'V/m', "Peek's corona-onset surface field for the topload's curvature"),
   metric('air_density_factor', '', 'relative air density from altitude and temperature'),
   metric('breakout_voltage', 'V', 'top voltage at which the topload reaches corona onset (estimate)'),

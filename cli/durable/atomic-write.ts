@@ -64,6 +64,55 @@ function toBytes(data: string | Uint8Array): Uint8Array {
 }
 
 /**
+ * Like {@link writeFileAtomicSync}, but the content comes as a sequence of text chunks written one
+ * after another, so a large file (a checkpoint of a big front) never exists as one string in memory.
+ */
+export function writeChunksAtomicSync(path: string, chunks: Iterable<string>, options: AtomicWriteOptions = {}): void {
+  const fileSystem = options.fileSystem ?? nodeFileSystem;
+  const temporary = temporaryPathFor(path);
+  let fd: number | undefined;
+  try {
+    fd = fileSystem.openSync(temporary, 'wx', options.mode ?? 0o644);
+    let pending: string[] = [];
+    let pendingLength = 0;
+    for (const chunk of chunks) {
+      pending.push(chunk);
+      pendingLength += chunk.length;
+      if (pendingLength >= 1 << 20) {
+        writeAllSync(fileSystem, fd, Buffer.from(pending.join(''), 'utf8'));
+        pending = [];
+        pendingLength = 0;
+      }
+    }
+    if (pending.length > 0) writeAllSync(fileSystem, fd, Buffer.from(pending.join(''), 'utf8'));
+    fileSystem.fsyncSync(fd);
+    const closing = fd;
+    fd = undefined;
+    fileSystem.closeSync(closing);
+    fileSystem.renameSync(temporary, path);
+  } catch (error) {
+    if (fd !== undefined) {
+      try {
+        fileSystem.closeSync(fd);
+      } catch {
+        // already failing; the first error is the one to report
+      }
+    }
+    try {
+      fileSystem.unlinkSync(temporary);
+    } catch {
+      // it may never have been created
+    }
+    throw toDiskError(error, path, 'write');
+  }
+  try {
+    syncDirectorySync(fileSystem, dirname(resolve(path)));
+  } catch (error) {
+    throw toDiskError(error, dirname(resolve(path)), 'sync');
+  }
+}
+
+/**
  * Replaces the file at `path` with `data` (a string is written as UTF-8) atomically and durably.
  * On failure the previous file, if any, is untouched, the temporary file is removed, and a
  * {@link DiskError} is thrown ("cannot write 'x': no space left on the device (ENOSPC)").
