@@ -92,6 +92,10 @@ interface InfeasiblePayload<T> {
  * so it grows like (ln n)^(M−1), not like n; fewer for correlated objectives, more for objectives that
  * trade off along a thick front, and all copies of a repeated vector stay.
  *
+ * Memory is that of the kept set: about 150 bytes per kept point here plus the payload. Because designs
+ * are index-addressable and evaluation is deterministic, a runner short of memory can pass a small
+ * payload (or null) and re-evaluate the few kept designs it writes out at the end.
+ *
  * Cost of an offer: the kept points sit in a k-d tree with bounding boxes (dominance-index.ts), so a
  * rejection usually stops after counting K dominators in a few whole subtrees, and an acceptance visits
  * only the subtrees that can hold its dominators or the points it dominates; O(M·n_kept) at worst.
