@@ -63,6 +63,18 @@ export class BoundedBest<T> {
     return true;
   }
 
+  /**
+   * Whether an offer of (key, index) would be kept now (true also when it is already kept); lets a caller
+   * skip building a payload for an offer that would be rejected.
+   */
+  wouldKeep(key: number, index: number): boolean {
+    const count = this.keys.length;
+    if (count < this.keep) return true;
+    if (count === 0) return false;
+    const lastKey = this.keys[count - 1];
+    return key < lastKey || (key === lastKey && index <= this.indices[count - 1]);
+  }
+
   /** The kept items in (key, index) order. */
   entries(): { key: number; index: number; payload: T }[] {
     return this.keys.map((key, i) => ({ key, index: this.indices[i], payload: this.payloads[i] }));

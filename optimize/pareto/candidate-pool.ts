@@ -157,12 +157,22 @@ export class CandidatePool<T> {
    *   with a non-finite objective.
    */
   offer(item: Scored, payload: T): boolean {
+    return this.offerWith(item, () => payload);
+  }
+
+  /**
+   * Like {@link CandidatePool.offer}, but builds the payload only when the candidate is kept, which spares
+   * an allocation for the many offers a long sweep rejects. Same result as offer(item, makePayload()).
+   * @example pool.offerWith(item, () => ({ metrics: Array.from(row) }))
+   */
+  offerWith(item: Scored, makePayload: () => T): boolean {
     const { index, violation, objectives } = item;
     if (!(violation >= 0)) {
       throw new RangeError(`CandidatePool.offer: violation must be a number ≥ 0, got ${violation} (index ${index})`);
     }
     if (violation > 0) {
-      return this.infeasible.offer(violation, index, { objectives: Float64Array.from(objectives), payload });
+      if (!this.infeasible.wouldKeep(violation, index)) return false;
+      return this.infeasible.offer(violation, index, { objectives: Float64Array.from(objectives), payload: makePayload() });
     }
     const m = this.objectiveCount;
     if (objectives.length !== m) {
@@ -174,12 +184,16 @@ export class CandidatePool<T> {
         throw new RangeError(`CandidatePool.offer: feasible objectives must be finite, got ${value} (index ${index})`);
       }
     }
-    if (this.single !== null) return this.single.offer(m === 0 ? 0 : objectives[0], index, payload);
+    if (this.single !== null) {
+      const key = m === 0 ? 0 : objectives[0];
+      if (!this.single.wouldKeep(key, index)) return false;
+      return this.single.offer(key, index, makePayload());
+    }
     if (this.keptIndices.has(index)) return true;
-    return this.offerFeasible(index, objectives, payload);
+    return this.offerFeasible(index, objectives, makePayload);
   }
 
-  private offerFeasible(sampleIndex: number, point: Float64Array, payload: T): boolean {
+  private offerFeasible(sampleIndex: number, point: Float64Array, makePayload: () => T): boolean {
     const keep = this.keep;
     const index = this.index!;
     // Rejected when K kept points dominate it (the count stops at K).
@@ -192,7 +206,7 @@ export class CandidatePool<T> {
         index.remove(slot);
       }
     });
-    index.insert(point, dominators, sampleIndex, payload);
+    index.insert(point, dominators, sampleIndex, makePayload());
     this.keptIndices.add(sampleIndex);
     return true;
   }

@@ -166,6 +166,24 @@ describe('CandidatePool behaviour', () => {
     expect(pool.feasibleEntries().map((e) => e.item.index)).toEqual([1, 2]);
   });
 
+  it('offerWith builds payloads only for kept candidates and ends in the same state as offer', () => {
+    for (const objectiveCount of [1, 2, 3]) {
+      const lazy = new CandidatePool<number>(5, objectiveCount);
+      const eager = new CandidatePool<number>(5, objectiveCount);
+      let built = 0;
+      for (let i = 0; i < 2000; i++) {
+        const item = scored(i, i % 4 === 0 ? uniformAt(3, i, 9) : 0, Array.from({ length: objectiveCount }, (_, j) => uniformAt(3, i, j)));
+        lazy.offerWith(item, () => {
+          built++;
+          return i;
+        });
+        eager.offer(item, i);
+      }
+      expect(JSON.stringify(lazy)).toBe(JSON.stringify(eager));
+      expect(built).toBeLessThan(600);
+    }
+  });
+
   it('copies the objectives, so the caller may reuse its buffer', () => {
     const pool = new CandidatePool<null>(5, 2);
     const buffer = Float64Array.of(1, 2);
