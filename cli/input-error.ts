@@ -19,11 +19,24 @@ export function formatPath(path: ReadonlyArray<string | number>): string {
   return text;
 }
 
+/**
+ * `text` with line breaks and other control characters written as escapes (`\n`, `\u001b`), so that a
+ * message quoting a user's key or value stays on one line.
+ */
+export function escapeControlCharacters(text: string): string {
+  return text.replace(/[\u0000-\u001f\u007f-\u009f\u2028\u2029]/g, (character) => {
+    if (character === '\n') return '\\n';
+    if (character === '\r') return '\\r';
+    if (character === '\t') return '\\t';
+    return `\\u${character.charCodeAt(0).toString(16).padStart(4, '0')}`;
+  });
+}
+
 /** A problem with the user's input; the CLI prints `message` alone and exits with code 2. */
 export class InputError extends Error {
   readonly exitCode = 2;
   constructor(message: string) {
-    super(message);
+    super(escapeControlCharacters(message));
     this.name = 'InputError';
   }
 }
