@@ -7,7 +7,7 @@
  */
 import type { DesignProblem, SecondaryGeometry } from '../context.ts';
 import type { Design, ToploadSpec } from '../design.ts';
-import { primaryRings } from '../primary/rings.ts';
+import { MAX_PRIMARY_TURNS, primaryRings } from '../primary/rings.ts';
 import type { GroundedRing, ToploadBody } from './bodies.ts';
 import type { FieldArrangement } from './field-solve.ts';
 
@@ -114,6 +114,10 @@ function groundedRings(
   problems: DesignProblem[],
 ): GroundedRing[] {
   const rings: Array<GroundedRing & { field: string; what: string }> = [];
+  if (design.primary && design.primary.turns > MAX_PRIMARY_TURNS) {
+    problems.push({ field: 'primary.turns', reason: `${Number(design.primary.turns.toPrecision(4))} turns is beyond the ${MAX_PRIMARY_TURNS} rings this model handles` });
+    return [];
+  }
   if (design.primary) {
     const wireRadius = design.primary.conductorDiameter / 2;
     for (const ring of primaryRings(design.primary, secondary.bottomZ)) {

@@ -10,6 +10,12 @@
 import type { PrimarySpec } from '../design.ts';
 import type { Ring } from '../context.ts';
 
+/**
+ * The most turns a primary may have in this model (one ring per turn, a mutual inductance per pair
+ * of rings, a field panel per ring); real primaries have 5 to 30 (common practice).
+ */
+export const MAX_PRIMARY_TURNS = 500;
+
 /** Centre-line pitch of neighbouring primary conductors, m. */
 export function primaryPitch(primary: PrimarySpec): number {
   return primary.conductorDiameter + primary.turnSpacing;

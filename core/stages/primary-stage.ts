@@ -22,7 +22,7 @@
  *   outside the winding's outer radius (form radius + insulated wire diameter), whatever its height.
  */
 import type { EvalContext, PrimaryGeometry } from '../context.ts';
-import { primaryRings } from '../primary/rings.ts';
+import { MAX_PRIMARY_TURNS, primaryRings } from '../primary/rings.ts';
 import { primaryConductorLength, primaryInductanceAtTap, primaryInductanceTable } from '../primary/inductance.ts';
 import { lcResonantFrequency, tuneTap } from '../primary/tuning.ts';
 import { couplingCoefficient, ringMutualInductances, tappedMutualInductance } from '../coupling.ts';
@@ -45,6 +45,10 @@ export function primaryStage(context: EvalContext): void {
   const conductorRadius = spec.conductorDiameter / 2;
   if (!(spec.turns >= 1)) {
     problems.push({ field: 'primary.turns', reason: `the primary needs at least one turn, got ${spec.turns}` });
+    return;
+  }
+  if (spec.turns > MAX_PRIMARY_TURNS) {
+    problems.push({ field: 'primary.turns', reason: `${Number(spec.turns.toPrecision(4))} turns is beyond the ${MAX_PRIMARY_TURNS} rings this model handles` });
     return;
   }
   if (!(spec.conductorDiameter > 0)) {

@@ -29,6 +29,9 @@ import { helicalWireLength } from '../wire/winding.ts';
 import { roundWireSolenoidInductance } from '../inductance/rosa.ts';
 import { loopSumSolenoidInductance } from '../inductance/filament-sum.ts';
 
+/** The most turns a secondary may have here; real ones have a few hundred to a few thousand. */
+export const MAX_SECONDARY_TURNS = 100_000;
+
 /** Relative tolerance for turns × pitch against a given winding length. */
 const LENGTH_TOLERANCE = 1e-3;
 
@@ -106,6 +109,11 @@ export function secondaryStage(context: EvalContext): void {
   const { turns, pitch, windingLength } = layout;
   if (!(turns >= 1)) {
     problems.push({ field: spec.turns !== undefined ? 'secondary.turns' : 'secondary.winding_length', reason: `the winding needs at least one turn, got ${Number(turns.toPrecision(4))}` });
+    return;
+  }
+  if (turns > MAX_SECONDARY_TURNS) {
+    // The filament sum below costs one mutual per turn: bound it (common practice: a few thousand turns).
+    problems.push({ field: spec.turns !== undefined ? 'secondary.turns' : 'secondary.winding_length', reason: `${Number(turns.toPrecision(4))} turns is beyond the ${MAX_SECONDARY_TURNS} this model handles` });
     return;
   }
   const radius = (spec.formDiameter + overallDiameter) / 2;
