@@ -96,8 +96,9 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .argument('<shards...>', 'shard run directories')
     .option('--out <dir>', 'directory for the merged results')
     .option('--overwrite', 'write into a non-empty output directory')
-    .action((shards: string[], options: { out?: string; overwrite?: boolean }) => {
-      exitCode = mergeCommand(shards, options, io);
+    .option('--workers <n>', 'worker threads for the rows written out (default: available parallelism)', integer('--workers'))
+    .action(async (shards: string[], options: { out?: string; overwrite?: boolean; workers?: number }) => {
+      exitCode = await mergeCommand(shards, options, io);
     });
 
   program

@@ -11,6 +11,7 @@ import { join } from 'node:path';
 import { inProcessEvaluator, type BatchEvaluator } from '../optimize/evaluate-batch.ts';
 import { DesignSpace } from '../optimize/design-space.ts';
 import { refineSweep } from '../optimize/refine-run.ts';
+import { indicesWithoutRows, materializeRows } from '../optimize/materialize.ts';
 import { SweepState } from '../optimize/sweep-state.ts';
 import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
 import { toCsv } from './csv.ts';
@@ -42,16 +43,19 @@ export async function refineCommand(directory: string, options: RefineCommandOpt
   if (state.pool.size === 0) throw new InputError(`${directory}: the sweep has no candidates to refine`);
 
   const threads = options.workers ?? defaultWorkerCount();
-  const evaluator: BatchEvaluator = threads === 0 ? inProcessEvaluator(new DesignSpace(spaceDefinitionOf(spec))) : createWorkerPool(spaceDefinitionOf(spec), { threads });
+  const space = new DesignSpace(spaceDefinitionOf(spec));
+  const evaluator: BatchEvaluator = threads === 0 ? inProcessEvaluator(space) : createWorkerPool(spaceDefinitionOf(spec), { threads });
   const started = performance.now();
   let outcome;
+  let frontRowsOfSamples;
   try {
-    outcome = await refineSweep(spec.dimensions, state, spec.samples, evaluator, {
+    outcome = await refineSweep(space, state, spec.samples, evaluator, {
       starts: options.starts,
       evaluations: options.evaluations,
       referencePoint: spec.referencePoint,
       batchSize: Math.max(8, record.batch_size),
     });
+    frontRowsOfSamples = await materializeRows(space, state, indicesWithoutRows(outcome.merged.front()), evaluator, Math.max(8, record.batch_size));
   } finally {
     await evaluator.close();
   }
@@ -64,12 +68,12 @@ export async function refineCommand(directory: string, options: RefineCommandOpt
   writeFileAtomicSync(join(directory, RUN_FILES.refined), toCsv(columns.header, rows));
   writeFileAtomicSync(
     join(directory, RUN_FILES.refinedDesigns),
-    `${JSON.stringify(refinedRanked.map((entry, i) => ({ rank: i + 1, values: entry.payload.values })), null, 1)}\n`,
+    `${JSON.stringify(refinedRanked.map((entry, i) => ({ rank: i + 1, values: entry.payload!.values })), null, 1)}\n`,
   );
   const mergedState = new SweepState(spec.objectives, spec.constraints, record.keep, spec.seed);
   mergedState.pool = outcome.merged;
   const front = sortedFront(mergedState);
-  const frontRows = rankedRows(spec.dimensions, front);
+  const frontRows = rankedRows(spec.dimensions, front, frontRowsOfSamples);
   front.forEach((entry, i) => {
     if (entry.item.index >= spec.samples) frontRows[i]![indexColumn] = null;
   });

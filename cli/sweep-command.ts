@@ -30,7 +30,8 @@ import type { CliIo } from './io.ts';
 import { journalName, prepareOutputDirectory, readRunRecord, RUN_FILES, writeRunRecord, type RunRecord } from './run-directory.ts';
 import { describeShard, resolveShard, shardIndices } from './shard.ts';
 import { candidateCells, columnSet } from './sweep-columns.ts';
-import { writeSweepOutputs, type RunIdentity } from './sweep-outputs.ts';
+import { outputRows, writeSweepOutputs, type RunIdentity } from './sweep-outputs.ts';
+import type { CandidateRow } from '../optimize/sweep-state.ts';
 import { loadSweepFile, sweepFromValue, type SweepSpec } from './sweep-spec.ts';
 import { parseInputText } from './read-file.ts';
 import { formatTopCandidates } from './top-candidates.ts';
@@ -303,30 +304,25 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
       while (done.has(next) && !pendingBatches.includes(next)) next++;
       writer.setNext(next);
     }
-    const allRowsText = (result: BatchResult, batch: number): string => {
+    const allRowsText = (result: BatchResult): string => {
       const rows = [];
-      const metricCount = result.metrics.length / result.count;
       for (let row = 0; row < result.count; row++) {
         const index = result.start + row;
-        const metrics = Array.from(result.metrics.subarray(row * metricCount, (row + 1) * metricCount), (v) => (Number.isFinite(v) ? v : null));
-        const objectives = state.objectiveVector(result.metrics, row * metricCount);
-        const violation = result.status[row] !== 0 ? null : state.violationOf(result.metrics, row * metricCount) + (objectives ? 0 : 1);
-        const reason = result.reasons.find(([r]) => r === row)?.[1] ?? null;
+        const { violation } = state.classifyRow(result, row);
         rows.push(
           candidateCells(
             spec.dimensions,
-            { rank: index + 1, paretoRank: null, crowding: null, feasible: violation === 0, violation: violation ?? Number.NaN, index },
-            { values: Array.from(result.values.subarray(row * dimensionCount, (row + 1) * dimensionCount)), metrics, status: result.status[row]!, reason, warnings: result.warningCounts[row]! },
+            { rank: index + 1, paretoRank: null, crowding: null, feasible: violation === 0, violation, index },
+            state.rowOf(result, row, dimensionCount),
           ),
         );
       }
-      void batch;
       return csvRows(rows);
     };
     const takeResult = (batch: number, result: BatchResult) => {
       state.offerBatch(result, dimensionCount);
       done.add(batch);
-      writer?.add(batch, allRowsText(result, batch));
+      writer?.add(batch, allRowsText(result));
     };
 
     let replayed = 0;
@@ -372,6 +368,8 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
     // ---- the loop
     const startedAt = performance.now();
     const startedDone = done.size;
+    const mainSpace = new DesignSpace(spaceDefinitionOf(spec));
+    let rows = new Map<number, CandidateRow>();
     const threads = options.workers ?? defaultWorkerCount();
     const evaluator: BatchEvaluator =
       threads === 0
@@ -437,6 +435,8 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
         progress();
       }
       await Promise.allSettled(inFlight.values());
+      // The rows the output files list are evaluated again, while the pool is still open.
+      if (failure === null) rows = await outputRows(mainSpace, state, record.keep, evaluator, Math.max(8, batchSize));
     } finally {
       await evaluator.close();
       stop.dispose();
@@ -454,7 +454,7 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
     try {
       writeCheckpoint(complete);
       writer?.close();
-      writeSweepOutputs(directory, spec, state, identity, timing, complete);
+      writeSweepOutputs(directory, spec, state, identity, timing, complete, rows);
       journal.close();
     } catch (error) {
       const diskError = error instanceof DiskError ? error : toDiskError(error, directory, 'write');
@@ -467,7 +467,7 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
       io.err(`stopped: ${why} after ${state.counts.evaluated} of ${range[1] - range[0]} designs; outputs so far are in ${directory}\n  resume with: coilfront sweep --resume ${directory}\n`);
       return stop.exitCode();
     }
-    if (!options.quiet) io.out(formatTopCandidates(directory, spec, state, 5));
+    if (!options.quiet) io.out(formatTopCandidates(directory, spec, state, 5, rows));
     return 0;
   };
   try {

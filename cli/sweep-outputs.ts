@@ -12,6 +12,9 @@ import type { Dimension } from '../optimize/design-tree.ts';
 import { defaultReferencePoint, hypervolume } from '../optimize/pareto/hypervolume.ts';
 import type { RankedEntry } from '../optimize/pareto/candidate-pool.ts';
 import type { CandidateRow, SweepState } from '../optimize/sweep-state.ts';
+import type { DesignSpace } from '../optimize/design-space.ts';
+import type { BatchEvaluator } from '../optimize/evaluate-batch.ts';
+import { indicesWithoutRows, materializeRows, rowOfEntry } from '../optimize/materialize.ts';
 import { toCsv, type Cell } from './csv.ts';
 import { writeFileAtomicSync } from './durable/atomic-write.ts';
 import { candidateCells, columnSet } from './sweep-columns.ts';
@@ -37,8 +40,12 @@ export interface Timing {
 
 const QUANTILES = [0, 0.05, 0.25, 0.5, 0.75, 0.95, 1];
 
-/** Rows of a ranked list in CSV cells. */
-export function rankedRows(dimensions: readonly Dimension[], ranked: readonly RankedEntry<CandidateRow>[]): Cell[][] {
+/** Rows of a ranked list in CSV cells (rows of payload-less sample entries come from `rows`). */
+export function rankedRows(
+  dimensions: readonly Dimension[],
+  ranked: readonly RankedEntry<CandidateRow | null>[],
+  rows: ReadonlyMap<number, CandidateRow> = new Map(),
+): Cell[][] {
   return ranked.map((entry, position) =>
     candidateCells(
       dimensions,
@@ -50,13 +57,13 @@ export function rankedRows(dimensions: readonly Dimension[], ranked: readonly Ra
         violation: entry.item.violation,
         index: entry.item.index,
       },
-      entry.payload,
+      rowOfEntry(entry, rows),
     ),
   );
 }
 
 /** The front in a stable order for plotting: by the first objective, then the others, then index. */
-export function sortedFront(state: SweepState): RankedEntry<CandidateRow>[] {
+export function sortedFront(state: SweepState): RankedEntry<CandidateRow | null>[] {
   const front = state.pool.front().map((entry) => ({ ...entry, paretoRank: 1, crowding: 0 }));
   front.sort((a, b) => {
     for (let j = 0; j < a.item.objectives.length; j++) {
@@ -136,19 +143,42 @@ export function summaryObject(spec: SweepSpec, state: SweepState, identity: RunI
   };
 }
 
-/** Writes candidates.csv, front.csv and summary.json into `directory`. */
-export function writeSweepOutputs(directory: string, spec: SweepSpec, state: SweepState, identity: RunIdentity, timing: Timing, complete: boolean): void {
-  const columns = columnSet(spec.dimensions);
+/** What the output files list: the ranked feasible top K, the K closest misses, the front. */
+export function outputEntries(state: SweepState, keep: number): {
+  ranked: RankedEntry<CandidateRow | null>[];
+  misses: RankedEntry<CandidateRow | null>[];
+  front: RankedEntry<CandidateRow | null>[];
+} {
   // candidates.csv holds feasible designs only; the closest misses go to infeasible.csv.
-  const ranked = state.pool.ranked(identity.keep).filter((entry) => entry.item.violation === 0);
-  writeFileAtomicSync(join(directory, 'candidates.csv'), toCsv(columns.header, rankedRows(spec.dimensions, ranked)));
+  const ranked = state.pool.ranked(keep).filter((entry) => entry.item.violation === 0);
   const misses = state.pool
     .infeasibleEntries()
     .sort((a, b) => a.item.violation - b.item.violation || a.item.index - b.item.index)
-    .slice(0, identity.keep)
+    .slice(0, keep)
     .map((entry) => ({ ...entry, paretoRank: 0, crowding: 0 }));
-  writeFileAtomicSync(join(directory, 'infeasible.csv'), toCsv(columns.header, rankedRows(spec.dimensions, misses)));
-  const front = sortedFront(state);
-  writeFileAtomicSync(join(directory, 'front.csv'), toCsv(columns.header, rankedRows(spec.dimensions, front)));
+  return { ranked, misses, front: sortedFront(state) };
+}
+
+/** Sample rows the outputs need, evaluated again through `evaluator` (see optimize/materialize.ts). */
+export async function outputRows(space: DesignSpace, state: SweepState, keep: number, evaluator: BatchEvaluator, batchSize: number): Promise<Map<number, CandidateRow>> {
+  const { ranked, misses, front } = outputEntries(state, keep);
+  return materializeRows(space, state, indicesWithoutRows([...ranked, ...misses, ...front]), evaluator, batchSize);
+}
+
+/** Writes candidates.csv, infeasible.csv, front.csv and summary.json into `directory`. */
+export function writeSweepOutputs(
+  directory: string,
+  spec: SweepSpec,
+  state: SweepState,
+  identity: RunIdentity,
+  timing: Timing,
+  complete: boolean,
+  rows: ReadonlyMap<number, CandidateRow>,
+): void {
+  const columns = columnSet(spec.dimensions);
+  const { ranked, misses, front } = outputEntries(state, identity.keep);
+  writeFileAtomicSync(join(directory, 'candidates.csv'), toCsv(columns.header, rankedRows(spec.dimensions, ranked, rows)));
+  writeFileAtomicSync(join(directory, 'infeasible.csv'), toCsv(columns.header, rankedRows(spec.dimensions, misses, rows)));
+  writeFileAtomicSync(join(directory, 'front.csv'), toCsv(columns.header, rankedRows(spec.dimensions, front, rows)));
   writeFileAtomicSync(join(directory, 'summary.json'), `${JSON.stringify(summaryObject(spec, state, identity, timing, complete), null, 2)}\n`);
 }

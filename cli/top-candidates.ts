@@ -4,13 +4,14 @@
  */
 import { join } from 'node:path';
 import { metricIndex } from '../core/metrics.ts';
-import type { SweepState } from '../optimize/sweep-state.ts';
+import type { CandidateRow, SweepState } from '../optimize/sweep-state.ts';
+import { rowOfEntry } from '../optimize/materialize.ts';
 import { METRIC_DISPLAY, formatNumber, humanUnit } from './display-units.ts';
 import { parameterCells } from './sweep-columns.ts';
 import { SAFETY_CAUTIONS } from './safety.ts';
 import type { SweepSpec } from './sweep-spec.ts';
 
-export function formatTopCandidates(directory: string, spec: SweepSpec, state: SweepState, count: number): string {
+export function formatTopCandidates(directory: string, spec: SweepSpec, state: SweepState, count: number, rows: ReadonlyMap<number, CandidateRow>): string {
   const ranked = state.pool.ranked(count);
   const lines: string[] = [];
   const c = state.counts;
@@ -18,17 +19,18 @@ export function formatTopCandidates(directory: string, spec: SweepSpec, state: S
   lines.push(`best ${Math.min(count, ranked.length)}:`);
   for (let i = 0; i < ranked.length; i++) {
     const entry = ranked[i]!;
+    const row = rowOfEntry(entry, rows);
     const objectives = spec.objectives.map((objective) => {
-      const value = entry.payload.metrics[metricIndex(objective.metric)];
+      const value = row.metrics[metricIndex(objective.metric)];
       const display = METRIC_DISPLAY[objective.metric];
       const shown = value === null || value === undefined ? 'n/a' : formatNumber(display ? value / display.divisor : value);
       return `${objective.metric} ${shown}${display ? ` ${humanUnit(display.label)}` : ''}`;
     });
-    const parameters = parameterCells(spec.dimensions, entry.payload.values).map((cell, d) => {
+    const parameters = parameterCells(spec.dimensions, row.values).map((cell, d) => {
       const text = typeof cell === 'number' ? formatNumber(cell) : String(cell);
       return `${spec.dimensions[d]!.path.join('.')}=${text}`;
     });
-    const status = entry.item.violation === 0 ? '' : ` [infeasible: ${entry.payload.reason ?? 'constraints'}]`;
+    const status = entry.item.violation === 0 ? '' : ` [infeasible: ${row.reason ?? 'constraints'}]`;
     lines.push(`  ${i + 1}. ${objectives.join(', ')}${status}`);
     lines.push(`     ${parameters.join(' ')}`);
   }

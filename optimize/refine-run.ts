@@ -6,6 +6,8 @@
  */
 import { METRIC_KEYS } from '../core/metrics.ts';
 import type { Dimension } from './design-tree.ts';
+import type { DesignSpace } from './design-space.ts';
+import type { PoolEntry } from './pareto/candidate-pool.ts';
 import { STATUS_OK, type BatchEvaluator } from './evaluate-batch.ts';
 import { mixedSpaceOf, pointOfValues, valuesOfPoint } from './mixed-space.ts';
 import { CandidatePool } from './pareto/candidate-pool.ts';
@@ -37,8 +39,9 @@ interface RefineRecord {
 export interface RefineOutcome {
   /** Every feasible design the refinement evaluated, ranked, with exact dimension values. */
   refined: CandidatePool<CandidateRow>;
-  /** The sweep's front merged with the refined designs (non-dominated feasible set). */
-  merged: CandidatePool<CandidateRow>;
+  /** The sweep's front merged with the refined designs (non-dominated feasible set); sweep samples
+   * carry no row (null), refined designs theirs. */
+  merged: CandidatePool<CandidateRow | null>;
   hypervolumeBefore: number | null;
   hypervolumeAfter: number | null;
   referencePoint: number[] | null;
@@ -47,13 +50,21 @@ export interface RefineOutcome {
 }
 
 export async function refineSweep(
-  dimensions: readonly Dimension[],
+  designSpace: DesignSpace,
   state: SweepState,
   sampleCount: number,
   evaluator: BatchEvaluator,
   options: RefineOptions,
 ): Promise<RefineOutcome> {
+  const dimensions: readonly Dimension[] = designSpace.definition.dimensions;
   const space = mixedSpaceOf(dimensions);
+  // A start's dimension values: its own row, or regenerated from its sample index.
+  const valuesOfEntry = (entry: PoolEntry<CandidateRow | null>): number[] => {
+    if (entry.payload) return entry.payload.values;
+    const values = new Float64Array(dimensions.length);
+    designSpace.valuesAt(entry.item.index, values);
+    return Array.from(values);
+  };
   const metricCount = METRIC_KEYS.length;
   const objectiveCount = state.objectives.length;
 
@@ -86,28 +97,28 @@ export async function refineSweep(
 
   // Starts and their merits.
   const feasible = state.pool.front();
-  let startRows: CandidateRow[];
+  let startValues: number[][];
   let meritOfStart: (start: number) => (record: RefineRecord) => Merit;
   const before = feasible.map((entry) => entry.item.objectives);
   const reference = options.referencePoint ? Float64Array.from(options.referencePoint) : before.length > 0 ? defaultReferencePoint(before) : null;
   if (objectiveCount >= 2 && feasible.length > 0) {
     const ordered = [...feasible].sort((a, b) => a.item.index - b.item.index);
     const plan = planChebyshevStarts(ordered.map((entry) => entry.item.objectives), Math.min(options.starts, ordered.length));
-    startRows = plan.starts.map((start) => ordered[start.frontIndex]!.payload);
+    startValues = plan.starts.map((start) => valuesOfEntry(ordered[start.frontIndex]!));
     meritOfStart = (start) => (record) => ({
       violation: record.violation,
       value: record.objectives ? chebyshevMerit(record.objectives, plan.starts[start]!.weights, plan.reference, plan.nadir) : Number.POSITIVE_INFINITY,
     });
   } else {
     const ranked = state.pool.ranked(options.starts);
-    startRows = ranked.map((entry) => entry.payload);
+    startValues = ranked.map((entry) => valuesOfEntry(entry));
     meritOfStart = () => (record) => ({
       violation: record.violation,
       value: record.objectives && objectiveCount === 1 ? record.objectives[0]! : 0,
     });
   }
-  const budget = Math.max(dimensions.length + 2, Math.floor(options.evaluations / Math.max(1, startRows.length)));
-  const startPoints = startRows.map((row) => pointOfValues(dimensions, space, row.values));
+  const budget = Math.max(dimensions.length + 2, Math.floor(options.evaluations / Math.max(1, startValues.length)));
+  const startPoints = startValues.map((values) => pointOfValues(dimensions, space, values));
   const startResults = await refineStarts(
     startPoints.map((point) => ({ continuous: point.continuous, levels: point.levels })),
     cache,
@@ -118,7 +129,7 @@ export async function refineSweep(
   // Every evaluated design, in a deterministic order (by its key), gets an index after the samples.
   const entries = cache.entries().map((entry) => ({ key: mixedPointKey(entry.point), entry })).sort((a, b) => (a.key < b.key ? -1 : a.key > b.key ? 1 : 0));
   const refined = new CandidatePool<CandidateRow>(state.keep, objectiveCount);
-  const merged = new CandidatePool<CandidateRow>(state.keep, objectiveCount);
+  const merged = new CandidatePool<CandidateRow | null>(state.keep, objectiveCount);
   for (const entry of feasible) merged.offer(entry.item, entry.payload);
   entries.forEach(({ entry }, k) => {
     const record = entry.record;

@@ -54,7 +54,7 @@ export interface SweepStateData {
   version: 1;
   counts: SweepCounts;
   rejectedBy: number[];
-  pool: CandidatePoolData<CandidateRow>;
+  pool: CandidatePoolData<CandidateRow | null>;
   sample: IndexSampleData<number[]>;
 }
 
@@ -64,7 +64,12 @@ export const SUMMARY_SAMPLE_SIZE = 10_000;
 export class SweepState {
   counts: SweepCounts = { evaluated: 0, feasible: 0, infeasible: 0, impossible: 0, failed: 0 };
   rejectedBy: number[];
-  pool: CandidatePool<CandidateRow>;
+  /**
+   * The candidates. Sweep samples are kept without a payload (null): design i is a pure function of
+   * the spec and i, so the few rows written out are evaluated again at the end (materializeRows),
+   * and memory per kept design is its objectives alone. Refined designs carry their row.
+   */
+  pool: CandidatePool<CandidateRow | null>;
   /** Feasible designs: dimension values followed by metrics (NaN as null). */
   sample: IndexSample<number[]>;
   private readonly constraintColumns: number[];
@@ -77,7 +82,7 @@ export class SweepState {
     readonly seed: number,
   ) {
     this.rejectedBy = constraints.map(() => 0);
-    this.pool = new CandidatePool<CandidateRow>(keep, objectives.length);
+    this.pool = new CandidatePool<CandidateRow | null>(keep, objectives.length);
     this.sample = new IndexSample<number[]>(SUMMARY_SAMPLE_SIZE, seed);
     this.constraintColumns = constraints.map((c) => metricIndex(c.metric));
     this.objectiveColumns = objectives.map((o) => metricIndex(o.metric));
@@ -100,57 +105,75 @@ export class SweepState {
     return totalViolation(values, this.constraints);
   }
 
-  /** Takes in one batch of results: sample indices `start + row`. */
-  offerBatch(result: BatchResult, dimensionCount: number): void {
+  /**
+   * How one result row ranks: its violation (0 feasible; PROBLEM_VIOLATION or FAILED_VIOLATION when
+   * it could not be built or evaluated), its objective vector (minimisation convention, null when not
+   * evaluated) and the reason it is infeasible. Also counts it, when `count` is set.
+   */
+  classifyRow(result: BatchResult, row: number, count = false): { violation: number; objectives: Float64Array; reason: string | null } {
     const metricCount = METRIC_KEYS.length;
-    const reasons = new Map(result.reasons);
-    for (let row = 0; row < result.count; row++) {
-      const index = result.start + row;
-      const offset = row * metricCount;
-      const status = result.status[row]!;
-      this.counts.evaluated++;
-      const candidate = (reason: string | null, rowStatus: number): CandidateRow => ({
-        values: Array.from(result.values.subarray(row * dimensionCount, (row + 1) * dimensionCount)),
-        metrics: Array.from(result.metrics.subarray(offset, offset + metricCount), (v) => (Number.isFinite(v) ? v : null)),
-        status: rowStatus,
-        reason,
-        warnings: result.warningCounts[row]!,
-      });
-      if (status !== STATUS_OK) {
+    const offset = row * metricCount;
+    const status = result.status[row]!;
+    if (count) this.counts.evaluated++;
+    if (status !== STATUS_OK) {
+      if (count) {
         if (status === STATUS_PROBLEM) this.counts.impossible++;
         else this.counts.failed++;
-        const violation = status === STATUS_FAILED ? FAILED_VIOLATION : PROBLEM_VIOLATION;
-        this.pool.offer(
-          { index, violation, objectives: new Float64Array(this.objectives.length) },
-          candidate(reasons.get(row) ?? 'not evaluated', status),
-        );
-        continue;
       }
-      let violation = this.violationOf(result.metrics, offset);
+      const reason = result.reasons.find(([r]) => r === row)?.[1] ?? 'not evaluated';
+      return { violation: status === STATUS_FAILED ? FAILED_VIOLATION : PROBLEM_VIOLATION, objectives: new Float64Array(this.objectives.length), reason };
+    }
+    let violation = this.violationOf(result.metrics, offset);
+    if (count) {
       for (let c = 0; c < this.constraints.length; c++) {
         const value = result.metrics[offset + this.constraintColumns[c]!]!;
         const { min, max } = this.constraints[c]!;
         if (!Number.isFinite(value) || (min !== undefined && value < min) || (max !== undefined && value > max)) this.rejectedBy[c]!++;
       }
-      const objectives = this.objectiveVector(result.metrics, offset);
-      let reason: string | null = null;
-      if (objectives === null) {
-        const missing = this.objectives.find((o) => !Number.isFinite(result.metrics[offset + metricIndex(o.metric)]!))!;
-        reason = `objective ${missing.metric} is not available for this design`;
-        violation = Math.max(violation, 0) + 1;
-      } else if (violation > 0) {
-        reason = this.describeViolation(result.metrics, offset);
+    }
+    const objectives = this.objectiveVector(result.metrics, offset);
+    let reason: string | null = null;
+    if (objectives === null) {
+      const missing = this.objectives.find((o) => !Number.isFinite(result.metrics[offset + metricIndex(o.metric)]!))!;
+      reason = `objective ${missing.metric} is not available for this design`;
+      violation += 1;
+    } else if (violation > 0) {
+      reason = this.describeViolation(result.metrics, offset);
+    }
+    if (count) {
+      if (violation > 0) this.counts.infeasible++;
+      else this.counts.feasible++;
+    }
+    return { violation, objectives: objectives ?? new Float64Array(this.objectives.length), reason };
+  }
+
+  /** The stored row of one result row (dimension values, metrics with null, status, reason). */
+  rowOf(result: BatchResult, row: number, dimensionCount: number): CandidateRow {
+    const metricCount = METRIC_KEYS.length;
+    const offset = row * metricCount;
+    return {
+      values: Array.from(result.values.subarray(row * dimensionCount, (row + 1) * dimensionCount)),
+      metrics: Array.from(result.metrics.subarray(offset, offset + metricCount), (v) => (Number.isFinite(v) ? v : null)),
+      status: result.status[row]!,
+      reason: this.classifyRow(result, row).reason,
+      warnings: result.warningCounts[row]!,
+    };
+  }
+
+  /** Takes in one batch of results: sample indices `start + row`. */
+  offerBatch(result: BatchResult, dimensionCount: number): void {
+    const metricCount = METRIC_KEYS.length;
+    for (let row = 0; row < result.count; row++) {
+      const index = result.start + row;
+      const { violation, objectives } = this.classifyRow(result, row, true);
+      this.pool.offer({ index, violation, objectives }, null);
+      if (violation === 0) {
+        const offset = row * metricCount;
+        const sampleRow: number[] = new Array(dimensionCount + metricCount);
+        for (let d = 0; d < dimensionCount; d++) sampleRow[d] = result.values[row * dimensionCount + d]!;
+        for (let m = 0; m < metricCount; m++) sampleRow[dimensionCount + m] = result.metrics[offset + m]!;
+        this.sample.offer(index, sampleRow);
       }
-      const row_ = candidate(reason, status);
-      if (violation > 0) {
-        this.counts.infeasible++;
-        this.pool.offer({ index, violation, objectives: objectives ?? new Float64Array(this.objectives.length) }, row_);
-        continue;
-      }
-      this.counts.feasible++;
-      this.pool.offer({ index, violation: 0, objectives: objectives! }, row_);
-      const sampleRow = [...row_.values, ...Array.from(result.metrics.subarray(offset, offset + metricCount))];
-      this.sample.offer(index, sampleRow.map((v) => (Number.isFinite(v) ? v : Number.NaN)));
     }
   }
 
