@@ -1,6 +1,7 @@
 /**
  * `npm run bench`: every benchmark, printed as figures. Nothing here fails on a slow machine.
- * `npm run bench -- quick` skips the long sweep benchmarks.
+ * `npm run bench -- quick` skips the sweep benchmarks; `npm run bench -- long` runs the Pareto
+ * machinery at 10⁶ offers and the sweep memory benchmark up to 10⁶ samples (an hour or more).
  */
 import { benchDynamics } from './dynamics.ts';
 import { benchElectrostatics } from './electrostatics.ts';
@@ -9,13 +10,14 @@ import { benchRefine } from './refine.ts';
 import { benchSweep } from './sweep.ts';
 
 const quick = process.argv.includes('quick');
+const long = process.argv.includes('long');
 const sections: Array<[string, () => Promise<string[]>]> = [
   ['electrostatics', () => benchElectrostatics()],
   ['dynamics', () => benchDynamics()],
-  ['pareto machinery', () => benchPareto()],
+  ['pareto machinery', () => benchPareto(long ? {} : { offers: 200_000 })],
   ['refinement engine (ZDT)', () => benchRefine()],
 ];
-if (!quick) sections.push(['sweeps (real processes)', () => benchSweep()]);
+if (!quick) sections.push(['sweeps (real processes)', () => benchSweep(long ? { rssSamples: [20_000, 200_000, 1_000_000] } : {})]);
 
 for (const [title, run] of sections) {
   console.log(`\n== ${title}`);
