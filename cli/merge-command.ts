@@ -63,7 +63,7 @@ export async function mergeCommand(directories: string[], options: { out?: strin
   copyFileSync(join(first.directory, RUN_FILES.spec), join(options.out, RUN_FILES.spec));
   const record: RunRecord = { ...first.record, range: [0, total], shard: null, created: new Date().toISOString() };
   writeRunRecord(options.out, record);
-  writeSweepOutputs(
+  await writeSweepOutputs(
     options.out,
     spec,
     state,

@@ -24,6 +24,7 @@ import { loadRunSpec, spaceDefinitionOf } from './sweep-command.ts';
 import { rankedRows, sortedFront } from './sweep-outputs.ts';
 import { SAFETY_CAUTIONS } from './safety.ts';
 import { formatNumber } from './display-units.ts';
+import { frontPlotSvg } from './plots.ts';
 
 export interface RefineCommandOptions {
   starts: number;
@@ -78,6 +79,10 @@ export async function refineCommand(directory: string, options: RefineCommandOpt
     if (entry.item.index >= spec.samples) frontRows[i]![indexColumn] = null;
   });
   writeFileAtomicSync(join(directory, RUN_FILES.front), toCsv(columns.header, frontRows));
+  writeFileAtomicSync(
+    join(directory, 'front.svg'),
+    await frontPlotSvg(spec.objectives, refinedRanked.map((entry) => entry.payload!), front.map((entry) => entry.payload ?? frontRowsOfSamples!.get(entry.item.index)!)),
+  );
   const summaryPath = join(directory, RUN_FILES.summary);
   const summary = existsSync(summaryPath) ? (JSON.parse(readFileSync(summaryPath, 'utf8')) as Record<string, unknown>) : {};
   const improved = outcome.startResults.filter((r) => r.improved).length;

@@ -14,6 +14,7 @@ export const RUN_FILES = {
   candidates: 'candidates.csv',
   infeasible: 'infeasible.csv',
   front: 'front.csv',
+  plot: 'front.svg',
   summary: 'summary.json',
   all: 'all.csv',
   refined: 'refined.csv',

@@ -253,7 +253,7 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
     } catch (error) {
       throw error instanceof InputError ? error : new InputError((error instanceof DiskError ? error : toDiskError(error, directory, 'write')).message);
     }
-    for (const name of [RUN_FILES.checkpoint, RUN_FILES.candidates, RUN_FILES.infeasible, RUN_FILES.front, RUN_FILES.summary, RUN_FILES.all]) rmSync(join(directory, name), { force: true });
+    for (const name of [RUN_FILES.checkpoint, RUN_FILES.candidates, RUN_FILES.infeasible, RUN_FILES.front, RUN_FILES.plot, RUN_FILES.summary, RUN_FILES.all]) rmSync(join(directory, name), { force: true });
   }
 
   let lock: RunLock;
@@ -454,7 +454,7 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
     try {
       writeCheckpoint(complete);
       writer?.close();
-      writeSweepOutputs(directory, spec, state, identity, timing, complete, rows);
+      await writeSweepOutputs(directory, spec, state, identity, timing, complete, rows);
       journal.close();
     } catch (error) {
       const diskError = error instanceof DiskError ? error : toDiskError(error, directory, 'write');

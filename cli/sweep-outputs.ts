@@ -1,7 +1,7 @@
 /**
  * The files a sweep leaves for the morning: candidates.csv (the ranked top K feasible designs),
  * infeasible.csv (the K closest misses, with their reasons), front.csv (the whole non-dominated
- * feasible set), summary.json (identity, counts, constraint rejections, hypervolume,
+ * feasible set), front.svg (the trade-offs drawn), summary.json (identity, counts, constraint rejections, hypervolume,
  * metric quantiles, parameter sensitivities, timing). Written atomically, so a reader never sees half
  * a file, and from the order-independent state alone, so they are byte-identical however the run went.
  */
@@ -18,6 +18,7 @@ import { indicesWithoutRows, materializeRows, rowOfEntry } from '../optimize/mat
 import { toCsv, type Cell } from './csv.ts';
 import { writeFileAtomicSync } from './durable/atomic-write.ts';
 import { candidateCells, columnSet } from './sweep-columns.ts';
+import { frontPlotSvg } from './plots.ts';
 import type { SweepSpec } from './sweep-spec.ts';
 
 export interface RunIdentity {
@@ -166,7 +167,7 @@ export async function outputRows(space: DesignSpace, state: SweepState, keep: nu
 }
 
 /** Writes candidates.csv, infeasible.csv, front.csv and summary.json into `directory`. */
-export function writeSweepOutputs(
+export async function writeSweepOutputs(
   directory: string,
   spec: SweepSpec,
   state: SweepState,
@@ -174,11 +175,13 @@ export function writeSweepOutputs(
   timing: Timing,
   complete: boolean,
   rows: ReadonlyMap<number, CandidateRow>,
-): void {
+): Promise<void> {
   const columns = columnSet(spec.dimensions);
   const { ranked, misses, front } = outputEntries(state, identity.keep);
   writeFileAtomicSync(join(directory, 'candidates.csv'), toCsv(columns.header, rankedRows(spec.dimensions, ranked, rows)));
   writeFileAtomicSync(join(directory, 'infeasible.csv'), toCsv(columns.header, rankedRows(spec.dimensions, misses, rows)));
   writeFileAtomicSync(join(directory, 'front.csv'), toCsv(columns.header, rankedRows(spec.dimensions, front, rows)));
   writeFileAtomicSync(join(directory, 'summary.json'), `${JSON.stringify(summaryObject(spec, state, identity, timing, complete), null, 2)}\n`);
+  const svg = await frontPlotSvg(spec.objectives, ranked.map((entry) => rowOfEntry(entry, rows)), front.map((entry) => rowOfEntry(entry, rows)));
+  writeFileAtomicSync(join(directory, 'front.svg'), svg);
 }
