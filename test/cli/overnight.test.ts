@@ -1,4 +1,4 @@
-import { appendFileSync, existsSync, readFileSync, writeFileSync } from 'node:fs';
+import { appendFileSync, existsSync, readFileSync, statSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { TIME_LIMIT_EXIT_CODE } from '../../cli/durable/stop-signal.ts';
@@ -31,47 +31,70 @@ const area = scratchArea('overnight');
 const KEEP = ['--keep', '40']; // fewer than the samples, so the bounded top-K set is rebuilt on resume
 const reference = area.dir('reference');
 const referenceAll = area.dir('reference-all');
-let referenceWallMs = 1000;
+/** The reference sweep's own run time (summary.json's timing), ms: the scale of the interruptions. */
+let referenceLoopMs = 500;
+/**
+ * Runs that are killed: batches of 4 and a journal sync every 5 ms, so that the state snapshot
+ * (every twelve syncs) and the journal's next generation are written several times per run and the
+ * kills land before, between and after them. (The references use batches of 8.)
+ */
+const SNAPSHOTTING = ['--batch-size', '4', '--checkpoint-every', '5ms', '--quiet'];
 
 function resume(directory: string, extra: string[] = ['--quiet']): Running {
-  return startCli(['sweep', '--resume', directory, '--workers', '2', '--checkpoint-every', '100ms', ...extra]);
+  return startCli(['sweep', '--resume', directory, '--workers', '2', '--checkpoint-every', '5ms', ...extra]);
+}
+
+/** Waits until checkpoint.json is written anew (it differs from `before`) or the process ends. */
+async function waitForSnapshot(directory: string, running: Running): Promise<void> {
+  const path = join(directory, 'checkpoint.json');
+  const stamp = (): string => (existsSync(path) ? String(statSync(path, { throwIfNoEntry: false })?.mtimeMs ?? '') : '');
+  const before = stamp();
+  let ended = false;
+  void running.done.then(() => (ended = true));
+  while (!ended && stamp() === before) await sleep(2);
 }
 
 /**
- * Kills `running` with SIGKILL at a seeded-random moment after it has made progress (a journal record
- * or a checkpoint), resumes, and repeats `kills` times; returns how many kills landed mid-run.
+ * Kills `running` with SIGKILL and resumes, once per entry of `plan`: each kill comes a seeded-random
+ * moment after the run has made progress (a journal record or a snapshot) or, for 'snapshot', after
+ * it has written a new state snapshot. Returns how many kills landed mid-run, and how many of those
+ * left a snapshot with journal records on top to resume from.
  */
 async function killAndResume(
   directory: string,
   first: Running,
-  kills: number,
+  plan: ReadonlyArray<'progress' | 'snapshot'>,
   seed: number,
   firstBefore = '',
-): Promise<{ landed: number; killed: Finished[]; final: Finished }> {
+): Promise<{ landed: number; afterSnapshot: number; killed: Finished[]; final: Finished }> {
   const random = seededRandom(seed);
   let running = first;
   let before = firstBefore;
   let landed = 0;
+  let afterSnapshot = 0;
   const killed: Finished[] = [];
-  for (let kill = 0; kill < kills; kill++) {
-    await waitForProgress(directory, before, running);
-    await sleep(random() * 0.3 * referenceWallMs);
+  for (const moment of plan) {
+    if (moment === 'snapshot') await waitForSnapshot(directory, running);
+    else await waitForProgress(directory, before, running);
+    await sleep(random() * 0.2 * referenceLoopMs);
+    const snapshotted = existsSync(join(directory, 'checkpoint.json'));
     running.child.kill('SIGKILL');
     const ended = await running.done;
     killed.push(ended);
-    if (ended.signal === 'SIGKILL') landed++;
-    else expect(ended.code, ended.stderr).toBe(0); // finished before the kill: still a valid run
+    if (ended.signal === 'SIGKILL') {
+      landed++;
+      if (snapshotted) afterSnapshot++;
+    } else expect(ended.code, ended.stderr).toBe(0); // finished before the kill: still a valid run
     before = durableFingerprint(directory);
     running = resume(directory);
   }
-  return { landed, killed, final: await running.done };
+  return { landed, afterSnapshot, killed, final: await running.done };
 }
 
 beforeAll(async () => {
   requireBuiltCli();
-  const started = Date.now();
   await runCliOk(['sweep', SMALL_SWEEP, '--out', reference, '--workers', '2', ...BUSY_RUN, ...KEEP]);
-  referenceWallMs = Date.now() - started;
+  referenceLoopMs = 1000 * (JSON.parse(readFileSync(join(reference, 'summary.json'), 'utf8')) as { timing: { wall_seconds: number } }).timing.wall_seconds;
   await runCliOk(['sweep', SMALL_SWEEP, '--out', referenceAll, '--workers', '2', '--all', ...BUSY_RUN, ...KEEP]);
 });
 
@@ -87,19 +110,20 @@ describe('coilfront sweep --resume after kill -9', () => {
 
   it('three SIGKILLs at seeded-random moments, each resumed, end in byte-identical files', async () => {
     const directory = area.dir('killed');
-    const first = startCli(['sweep', SMALL_SWEEP, '--out', directory, '--workers', '2', ...BUSY_RUN, ...KEEP]);
-    const { landed, final } = await killAndResume(directory, first, 3, 20261201);
+    const first = startCli(['sweep', SMALL_SWEEP, '--out', directory, '--workers', '2', ...SNAPSHOTTING, ...KEEP]);
+    const { landed, afterSnapshot, final } = await killAndResume(directory, first, ['snapshot', 'progress', 'snapshot'], 20261201);
     expect(final.code, final.stderr).toBe(0);
     expect(landed, 'kills that interrupted a running sweep').toBeGreaterThanOrEqual(2);
+    expect(afterSnapshot, 'kills of a run resumed from a state snapshot').toBeGreaterThanOrEqual(1);
     expectSameResults(directory, reference);
   });
 
   it('with --all: all.csv too is identical, also after a torn record is appended to the journal', async () => {
     const directory = area.dir('killed-all');
-    const first = startCli(['sweep', SMALL_SWEEP, '--out', directory, '--workers', '2', '--all', ...BUSY_RUN, ...KEEP]);
+    const first = startCli(['sweep', SMALL_SWEEP, '--out', directory, '--workers', '2', '--all', ...SNAPSHOTTING, ...KEEP]);
     const random = seededRandom(77);
     await waitForProgress(directory, '', first);
-    await sleep(random() * 0.4 * referenceWallMs);
+    await sleep(random() * 0.4 * referenceLoopMs);
     first.child.kill('SIGKILL');
     expect((await first.done).signal).toBe('SIGKILL');
     // A power cut in the middle of a write: half a record at the end of the live journal.
@@ -110,7 +134,7 @@ describe('coilfront sweep --resume after kill -9', () => {
     appendFileSync(journal, tail.length > 0 ? tail : Buffer.from('torn'));
     const before = durableFingerprint(directory);
     const second = resume(directory, []);
-    const { killed, final } = await killAndResume(directory, second, 1, 78, before);
+    const { killed, final } = await killAndResume(directory, second, ['progress'], 78, before);
     expect(killed[0]!.stderr).toContain('a torn last record was dropped');
     expect(final.code, final.stderr).toBe(0);
     expectSameResults(directory, referenceAll, ['candidates.csv', 'front.csv', 'all.csv']);
@@ -145,18 +169,18 @@ describe('SIGINT, SIGTERM and --time-limit stop cleanly and resume to the same f
     await waitForProgress(directory, before, second);
     second.child.kill('SIGTERM');
     const terminated = await second.done;
-    if (terminated.code !== 0) {
-      expect(terminated.code, terminated.stderr).toBe(143); // 128 + SIGTERM (15)
-      expect(terminated.stderr).toContain(`resume with: coilfront sweep --resume ${directory}`);
-      const last = await resume(directory).done;
-      expect(last.code, last.stderr).toBe(0);
-    }
+    expect(terminated.code, terminated.stderr).toBe(143); // 128 + SIGTERM (15)
+    expect(terminated.stderr).toContain('received SIGTERM');
+    expect(terminated.stderr).toContain(`resume with: coilfront sweep --resume ${directory}`);
+    const last = await resume(directory).done;
+    expect(last.code, last.stderr).toBe(0);
     expectSameResults(directory, reference);
   });
 
-  it(`--time-limit 300ms stops with exit code ${TIME_LIMIT_EXIT_CODE} and resumes to the same files`, async () => {
+  it(`--time-limit (a quarter of the sweep's run time) stops with exit code ${TIME_LIMIT_EXIT_CODE} and resumes to the same files`, async () => {
     const directory = area.dir('time-limited');
-    const stopped = await runCli(['sweep', SMALL_SWEEP, '--out', directory, '--workers', '2', '--batch-size', '8', '--checkpoint-every', '100ms', '--time-limit', '300ms', ...KEEP]);
+    const limit = `${Math.max(20, Math.round(0.25 * referenceLoopMs))}ms`;
+    const stopped = await runCli(['sweep', SMALL_SWEEP, '--out', directory, '--workers', '2', '--batch-size', '8', '--checkpoint-every', '100ms', '--time-limit', limit, ...KEEP]);
     expect(stopped.code, stopped.stderr).toBe(TIME_LIMIT_EXIT_CODE);
     expect(stopped.stderr).toContain('time limit');
     expect(stopped.stderr).toContain(`resume with: coilfront sweep --resume ${directory}`);

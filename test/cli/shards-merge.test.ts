@@ -31,12 +31,12 @@ beforeAll(async () => {
 afterAll(() => area.cleanup());
 
 describe('coilfront sweep --shard k/N and coilfront merge', () => {
-  it('three shards cover 0 … 383 in contiguous disjoint ranges [floor((k-1)T/N), floor(kT/N))', () => {
+  it('three shards cover 0 … 255 in contiguous disjoint ranges [floor((k-1)T/N), floor(kT/N))', () => {
     const records = shardDirs.map(runRecord);
     expect(records.map((r) => r.range)).toEqual([
-      [0, 128],
-      [128, 256],
-      [256, 384],
+      [0, 85],
+      [85, 170],
+      [170, 256],
     ]);
     expect(records.map((r) => r.shard)).toEqual([1, 2, 3].map((index) => ({ index, count: 3, source: 'flag' })));
   });
@@ -48,29 +48,23 @@ describe('coilfront sweep --shard k/N and coilfront merge', () => {
     expectSameResults(merged, reference, ['candidates.csv', 'front.csv', 'all.csv']);
   });
 
-  it('shards from a Slurm job array (SLURM_ARRAY_TASK_ID, SLURM_ARRAY_TASK_COUNT) merge to the single run', async () => {
-    const dirs = [1, 2, 3].map((k) => area.dir(`slurm-${k}`));
-    await Promise.all(
-      dirs.map((directory, i) =>
-        runCliOk(['sweep', SMALL_SWEEP, '--out', directory, '--workers', '1', ...COMMON], { env: { SLURM_ARRAY_TASK_ID: String(i + 1), SLURM_ARRAY_TASK_COUNT: '3' } }),
-      ),
-    );
-    expect(dirs.map((d) => runRecord(d).shard)).toEqual([1, 2, 3].map((index) => ({ index, count: 3, source: 'slurm' })));
-    const merged = area.dir('merged-slurm');
-    await runCliOk(['merge', ...dirs, '--out', merged]);
-    expectSameResults(merged, reference);
-  });
-
-  it('shards from a Kubernetes Indexed Job (JOB_COMPLETION_INDEX with --shard-count) merge to the single run', async () => {
-    const dirs = [0, 1, 2].map((index) => area.dir(`indexed-${index}`));
-    await Promise.all(
-      dirs.map((directory, index) =>
-        runCliOk(['sweep', SMALL_SWEEP, '--out', directory, '--workers', '1', '--shard-count', '3', ...COMMON], { env: { JOB_COMPLETION_INDEX: String(index) } }),
-      ),
-    );
-    expect(dirs.map((d) => runRecord(d).shard)).toEqual([1, 2, 3].map((index) => ({ index, count: 3, source: 'kubernetes' })));
+  it('shards from a Slurm job array (SLURM_ARRAY_TASK_ID, SLURM_ARRAY_TASK_COUNT) and a Kubernetes Indexed Job (JOB_COMPLETION_INDEX, --shard-count) take the same slices and merge to the single run', async () => {
+    const slurm1 = area.dir('slurm-1');
+    const indexed2 = area.dir('indexed-1'); // JOB_COMPLETION_INDEX counts from 0
+    const slurm3 = area.dir('slurm-3');
+    await Promise.all([
+      runCliOk(['sweep', SMALL_SWEEP, '--out', slurm1, '--workers', '1', ...COMMON], { env: { SLURM_ARRAY_TASK_ID: '1', SLURM_ARRAY_TASK_COUNT: '3' } }),
+      runCliOk(['sweep', SMALL_SWEEP, '--out', indexed2, '--workers', '1', '--shard-count', '3', ...COMMON], { env: { JOB_COMPLETION_INDEX: '1' } }),
+      runCliOk(['sweep', SMALL_SWEEP, '--out', slurm3, '--workers', '1', ...COMMON], { env: { SLURM_ARRAY_TASK_ID: '3', SLURM_ARRAY_TASK_COUNT: '3' } }),
+    ]);
+    const dirs = [slurm1, indexed2, slurm3];
+    expect(dirs.map((d) => runRecord(d).shard)).toEqual([
+      { index: 1, count: 3, source: 'slurm' },
+      { index: 2, count: 3, source: 'kubernetes' },
+      { index: 3, count: 3, source: 'slurm' },
+    ]);
     expect(dirs.map((d) => runRecord(d).range)).toEqual(shardDirs.map((d) => runRecord(d).range));
-    const merged = area.dir('merged-indexed');
+    const merged = area.dir('merged-scheduler');
     await runCliOk(['merge', ...dirs, '--out', merged]);
     expectSameResults(merged, reference);
   });

@@ -17,9 +17,9 @@ export const REPO = resolve(dirname(fileURLToPath(import.meta.url)), '..', '..')
  * running in the same checkout meanwhile cannot change the program between two runs of one test).
  */
 export const CLI = process.env.COILFRONT_TEST_CLI ?? join(REPO, 'dist', 'cli', 'main.js');
-/** The machinery fixture: 384 Sobol samples of the science-centre example (invented demo data). */
+/** The machinery fixture: 256 Sobol samples of the science-centre example (invented demo data). */
 export const SMALL_SWEEP = join(REPO, 'test', 'fixtures', 'sweep-small.yaml');
-export const SMALL_SWEEP_SAMPLES = 384;
+export const SMALL_SWEEP_SAMPLES = 256;
 
 /** Fails early with a clear message when dist/ was not built. */
 export function requireBuiltCli(): void {

@@ -355,9 +355,9 @@ describe('coilfront check FILE on mutated sweep files', () => {
     expect(stderr).toBe(`coilfront: ${file}: ${reason} this model handles\n`);
   });
 
-  // Each process costs about a quarter of a CPU second to start, so the count is bounded (60 files:
-  // 48 mutated trees and 12 edited or hostile texts); COILFRONT_FUZZ_CLI_FILES raises it.
-  const fileCount = Number(process.env.COILFRONT_FUZZ_CLI_FILES ?? 60);
+  // Each process costs about a quarter of a CPU second to start, so the count is bounded (40 files:
+  // 32 mutated trees and 8 edited or hostile texts); COILFRONT_FUZZ_CLI_FILES raises it.
+  const fileCount = Number(process.env.COILFRONT_FUZZ_CLI_FILES ?? 40);
 
   it(`real processes: exits 0 or 2 with a one-line message, never an internal error or a stack trace (${fileCount} files)`, async () => {
     requireBuiltCli();

@@ -37,17 +37,17 @@ describe('a worker that exits while evaluating a batch', () => {
     expectSameResults(directory, clean, ['candidates.csv', 'front.csv', 'all.csv']);
   });
 
-  it('always: that batch (the last, 4 designs of --batch-size 10) is recorded as failed, the rest equals a clean run', async () => {
+  it('always: that batch (the last, 6 designs of --batch-size 10) is recorded as failed, the rest equals a clean run', async () => {
     const directory = area.dir('crash-always');
     await runCliOk(['sweep', SMALL_SWEEP, '--out', directory, '--workers', '1', '--batch-size', '10', '--quiet', ...COMMON], {
-      env: { COILFRONT_TEST_CRASH: '381' },
+      env: { COILFRONT_TEST_CRASH: '252' },
     });
-    // 384 samples in batches of 10: the last batch holds 380 … 383.
+    // 256 samples in batches of 10: the last batch holds 250 … 255.
     const counts = summaryCounts(directory);
     expect(counts.evaluated).toBe(SMALL_SWEEP_SAMPLES);
-    expect(counts.failed).toBe(4);
+    expect(counts.failed).toBe(6);
     const cleanCounts = summaryCounts(clean);
-    const failedIndices = [380, 381, 382, 383];
+    const failedIndices = [250, 251, 252, 253, 254, 255];
     const crashedRows = rowsOf(directory);
     const cleanRows = rowsOf(clean);
     const column = indexColumn(crashedRows[0]!);
@@ -62,9 +62,9 @@ describe('a worker that exits while evaluating a batch', () => {
         expect(crashedRows[row], `row of index ${index}`).toBe(cleanRows[row]);
       }
     }
-    // The four lost designs are missing from the other counts, nothing else changed.
+    // The six lost designs are missing from the other counts, nothing else changed.
     const lost = (a: typeof counts, b: typeof counts) => b.feasible + b.infeasible + b.impossible - (a.feasible + a.infeasible + a.impossible);
-    expect(lost(counts, cleanCounts)).toBe(4);
+    expect(lost(counts, cleanCounts)).toBe(6);
     expect(readFileSync(join(directory, 'candidates.csv'), 'utf8')).not.toMatch(/worker failed/);
   });
 });
