@@ -3,6 +3,7 @@
  * whole CLI runs inside vitest; cli/main.ts is the process entry. Errors of input are one line and
  * exit code 2; anything else is a bug and says so.
  */
+import { readFileSync } from 'node:fs';
 import { Command, CommanderError, InvalidArgumentError } from 'commander';
 import { InputError } from './input-error.ts';
 import type { CliIo } from './io.ts';
@@ -15,6 +16,19 @@ import { showCommand } from './show-command.ts';
 import { mergeCommand } from './merge-command.ts';
 import { demoCommand } from './demo-command.ts';
 import { refineCommand, type RefineCommandOptions } from './refine-command.ts';
+
+/** The version in package.json (one directory above cli/ and dist/cli/). */
+function packageVersion(): string {
+  for (const candidate of ['../package.json', '../../package.json']) {
+    try {
+      const data = JSON.parse(readFileSync(new URL(candidate, import.meta.url), 'utf8')) as { name?: string; version?: string };
+      if (data.name === 'coilfront' && data.version) return data.version;
+    } catch {
+      // try the next place
+    }
+  }
+  return 'unknown';
+}
 
 /** Commander parser of whole-number options: a usage error (exit 2) for anything else. */
 function integer(option: string) {
@@ -30,6 +44,7 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
   program
     .name('coilfront')
     .description('design-space optimizer and parameter sweeper for air-core resonant transformers')
+    .version(packageVersion(), '-V, --version', 'print the version')
     .exitOverride()
     .configureOutput({ writeOut: (text) => io.out(text), writeErr: (text) => io.err(text) })
     .showHelpAfterError(false);
