@@ -1,0 +1,36 @@
+import { readFileSync } from 'node:fs';
+import { describe, expect, it } from 'vitest';
+import { METRIC_KEYS } from '../../core/metrics.ts';
+import { DESIGN_SECTIONS } from '../../cli/design-fields.ts';
+import { SAFETY_CAUTIONS } from '../../cli/safety.ts';
+
+const readme = readFileSync('README.md', 'utf8');
+
+describe('README.md', () => {
+  it('opens with the job, then the two set-up commands, then the safety cautions', () => {
+    const demo = readme.indexOf('npm ci && npm run demo');
+    const test = readme.indexOf('npm test');
+    const safety = readme.indexOf('## Safety');
+    expect(demo).toBeGreaterThan(0);
+    expect(test).toBeGreaterThan(demo);
+    expect(safety).toBeGreaterThan(test);
+    for (const word of ['lethal', 'burns', 'fire', 'ozone', 'medical', 'radio', 'electrical codes']) expect(readme).toContain(word);
+  });
+
+  it('documents every metric of the contract', () => {
+    for (const key of METRIC_KEYS) expect(readme).toContain(`\`${key}\``);
+  });
+
+  it('documents every section and field of the design file', () => {
+    for (const [name, section] of Object.entries(DESIGN_SECTIONS)) {
+      expect(readme).toContain(`\`${name}:\``);
+      for (const key of Object.keys(section.fields)) expect(readme).toContain(`\`${key}\``);
+      for (const form of Object.values(section.variants?.forms ?? {})) for (const key of Object.keys(form)) expect(readme).toContain(`\`${key}\``);
+    }
+  });
+
+  it('the report cautions name the same dangers', () => {
+    const text = SAFETY_CAUTIONS.join(' ');
+    for (const word of ['lethal', 'burns', 'fires', 'ozone', 'medical implants', 'radio services', 'electrical']) expect(text).toContain(word);
+  });
+});
