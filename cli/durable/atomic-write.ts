@@ -64,27 +64,36 @@ function toBytes(data: string | Uint8Array): Uint8Array {
 }
 
 /**
- * Like {@link writeFileAtomicSync}, but the content comes as a sequence of text chunks written one
- * after another, so a large file (a checkpoint of a big front) never exists as one string in memory.
+ * Like {@link writeFileAtomicSync}, but the content comes as a sequence of chunks (text as UTF-8, or
+ * bytes) written one after another, so a large file (a checkpoint of a big front) never exists as
+ * one string in memory.
  */
-export function writeChunksAtomicSync(path: string, chunks: Iterable<string>, options: AtomicWriteOptions = {}): void {
+export function writeChunksAtomicSync(path: string, chunks: Iterable<string | Uint8Array>, options: AtomicWriteOptions = {}): void {
   const fileSystem = options.fileSystem ?? nodeFileSystem;
   const temporary = temporaryPathFor(path);
   let fd: number | undefined;
   try {
     fd = fileSystem.openSync(temporary, 'wx', options.mode ?? 0o644);
+    const open = fd;
     let pending: string[] = [];
     let pendingLength = 0;
+    const flush = (): void => {
+      if (pending.length === 0) return;
+      writeAllSync(fileSystem, open, toBytes(pending.join('')));
+      pending = [];
+      pendingLength = 0;
+    };
     for (const chunk of chunks) {
+      if (typeof chunk !== 'string') {
+        flush();
+        writeAllSync(fileSystem, open, chunk);
+        continue;
+      }
       pending.push(chunk);
       pendingLength += chunk.length;
-      if (pendingLength >= 1 << 20) {
-        writeAllSync(fileSystem, fd, Buffer.from(pending.join(''), 'utf8'));
-        pending = [];
-        pendingLength = 0;
-      }
+      if (pendingLength >= 1 << 20) flush();
     }
-    if (pending.length > 0) writeAllSync(fileSystem, fd, Buffer.from(pending.join(''), 'utf8'));
+    flush();
     fileSystem.fsyncSync(fd);
     const closing = fd;
     fd = undefined;
@@ -120,37 +129,7 @@ export function writeChunksAtomicSync(path: string, chunks: Iterable<string>, op
  * @example writeFileAtomicSync('runs/night/checkpoint.json', JSON.stringify(state))
  */
 export function writeFileAtomicSync(path: string, data: string | Uint8Array, options: AtomicWriteOptions = {}): void {
-  const fileSystem = options.fileSystem ?? nodeFileSystem;
-  const temporary = temporaryPathFor(path);
-  let fd: number | undefined;
-  try {
-    fd = fileSystem.openSync(temporary, 'wx', options.mode ?? 0o644);
-    writeAllSync(fileSystem, fd, toBytes(data));
-    fileSystem.fsyncSync(fd);
-    const closing = fd;
-    fd = undefined;
-    fileSystem.closeSync(closing);
-    fileSystem.renameSync(temporary, path);
-  } catch (error) {
-    if (fd !== undefined) {
-      try {
-        fileSystem.closeSync(fd);
-      } catch {
-        // already failing; the first error is the one to report
-      }
-    }
-    try {
-      fileSystem.unlinkSync(temporary);
-    } catch {
-      // it may never have been created
-    }
-    throw toDiskError(error, path, 'write');
-  }
-  try {
-    syncDirectorySync(fileSystem, dirname(resolve(path)));
-  } catch (error) {
-    throw toDiskError(error, dirname(resolve(path)), 'sync');
-  }
+  writeChunksAtomicSync(path, [data], options);
 }
 
 /**
