@@ -52,6 +52,8 @@ export interface Finished {
 export interface Running {
   child: ChildProcess;
   done: Promise<Finished>;
+  /** What the process has written to stderr so far. */
+  stderrSoFar(): string;
 }
 
 /** Starts `node dist/cli/main.js ...args`. */
@@ -65,7 +67,7 @@ export function startCli(args: string[], options: { env?: Record<string, string>
     child.on('error', reject);
     child.on('close', (code, signal) => resolveDone({ code, signal, stdout, stderr }));
   });
-  return { child, done };
+  return { child, done, stderrSoFar: () => stderr };
 }
 
 /** Runs the CLI to the end. */
