@@ -23,10 +23,10 @@ export async function mergeCommand(directories: string[], options: { out?: strin
   const records = directories.map((directory) => ({ directory, record: readRunRecord(directory) }));
   const first = records[0]!;
   for (const { directory, record } of records) {
+    if (record.seed !== first.record.seed) throw new InputError(`merge: ${directory} used seed ${record.seed}, ${first.directory} seed ${first.record.seed}`);
     if (record.spec_hash !== first.record.spec_hash) {
       throw new InputError(`merge: ${directory} comes from another sweep file than ${first.directory} (spec hash ${record.spec_hash.slice(0, 12)} ≠ ${first.record.spec_hash.slice(0, 12)})`);
     }
-    if (record.seed !== first.record.seed) throw new InputError(`merge: ${directory} used seed ${record.seed}, ${first.directory} seed ${first.record.seed}`);
     if (record.keep !== first.record.keep) throw new InputError(`merge: ${directory} kept ${record.keep} candidates, ${first.directory} ${first.record.keep}; use the same --keep`);
   }
   const total = first.record.samples;

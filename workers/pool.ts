@@ -12,7 +12,7 @@ import { Piscina } from 'piscina';
 import { METRIC_KEYS } from '../core/metrics.ts';
 import type { Design } from '../core/design.ts';
 import type { Evaluation } from '../core/evaluate.ts';
-import type { SpaceDefinition } from '../optimize/design-space.ts';
+import { DesignSpace, type SpaceDefinition } from '../optimize/design-space.ts';
 import { STATUS_FAILED, type BatchEvaluator, type BatchResult, type BatchTask } from '../optimize/evaluate-batch.ts';
 
 /** Default number of threads: the machine's available parallelism. */
@@ -26,12 +26,24 @@ export interface PoolOptions {
   onRetry?: (task: BatchTask, reason: string) => void;
 }
 
-function failedResult(task: BatchTask, dimensions: number, reason: string): BatchResult {
+function failedResult(task: BatchTask, space: DesignSpace, reason: string): BatchResult {
   const count = task.count;
+  const dimensions = space.dimensionCount;
+  let values: Float64Array;
+  if (task.kind === 'values') values = task.values.slice();
+  else {
+    // The designs' own values, regenerated here, so a failed row still says which design it was.
+    values = new Float64Array(count * dimensions);
+    const one = new Float64Array(dimensions);
+    for (let row = 0; row < count; row++) {
+      space.valuesAt(task.start + row, one);
+      values.set(one, row * dimensions);
+    }
+  }
   return {
     start: task.kind === 'indices' ? task.start : -1,
     count,
-    values: task.kind === 'values' ? task.values.slice() : new Float64Array(count * dimensions).fill(Number.NaN),
+    values,
     metrics: new Float64Array(count * METRIC_KEYS.length).fill(Number.NaN),
     status: new Uint8Array(count).fill(STATUS_FAILED),
     reasons: Array.from({ length: count }, (_, row) => [row, reason] as [number, string]),
@@ -51,7 +63,7 @@ export function createWorkerPool(space: SpaceDefinition, options: PoolOptions): 
     // Workers inherit the environment (the test crash hook reads it).
     env: process.env as Record<string, string>,
   });
-  const dimensions = space.dimensions.length;
+  let mainSpace: DesignSpace | null = null;
   const run = async (task: BatchTask): Promise<BatchResult> => {
     try {
       return (await pool.run(task)) as BatchResult;
@@ -61,7 +73,8 @@ export function createWorkerPool(space: SpaceDefinition, options: PoolOptions): 
       try {
         return (await pool.run(task)) as BatchResult;
       } catch (second) {
-        return failedResult(task, dimensions, `worker failed twice on this batch: ${describeFailure(second)}`);
+        mainSpace ??= new DesignSpace(space);
+        return failedResult(task, mainSpace, `worker failed twice on this batch: ${describeFailure(second)}`);
       }
     }
   };
