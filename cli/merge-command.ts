@@ -11,13 +11,10 @@ import { InputError } from './input-error.ts';
 import type { CliIo } from './io.ts';
 import { prepareOutputDirectory, readRunRecord, RUN_FILES, writeRunRecord, type RunRecord } from './run-directory.ts';
 import { checkCoverage } from './shard.ts';
-import { loadRunSpec, spaceDefinitionOf } from './sweep-command.ts';
-import { outputRows, writeSweepOutputs } from './sweep-outputs.ts';
-import { DesignSpace } from '../optimize/design-space.ts';
-import { inProcessEvaluator } from '../optimize/evaluate-batch.ts';
-import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
+import { loadRunSpec } from './sweep-command.ts';
+import { writeSweepOutputs } from './sweep-outputs.ts';
 
-export async function mergeCommand(directories: string[], options: { out?: string; overwrite?: boolean; workers?: number }, io: CliIo): Promise<number> {
+export async function mergeCommand(directories: string[], options: { out?: string; overwrite?: boolean }, io: CliIo): Promise<number> {
   if (options.out === undefined) throw new InputError('--out: required: the directory for the merged results');
   if (directories.length === 0) throw new InputError('merge: give the shard directories');
   const records = directories.map((directory) => ({ directory, record: readRunRecord(directory) }));
@@ -49,16 +46,6 @@ export async function mergeCommand(directories: string[], options: { out?: strin
     if (!checkpoint.complete) throw new InputError(`merge: ${directory} is not finished; finish it with coilfront sweep --resume ${directory}`);
     state.merge(SweepState.restore(checkpoint.state, spec.objectives, spec.constraints, first.record.keep, spec.seed));
   }
-  // The rows written out are evaluated again (the shards' states keep none), in a worker pool.
-  const threads = options.workers ?? defaultWorkerCount();
-  const space = new DesignSpace(spaceDefinitionOf(spec));
-  const evaluator = threads === 0 ? inProcessEvaluator(space) : createWorkerPool(spaceDefinitionOf(spec), { threads });
-  let rows;
-  try {
-    rows = await outputRows(space, state, first.record.keep, evaluator, Math.max(8, first.record.batch_size));
-  } finally {
-    await evaluator.close();
-  }
   prepareOutputDirectory(options.out, options.overwrite ?? false);
   copyFileSync(join(first.directory, RUN_FILES.spec), join(options.out, RUN_FILES.spec));
   const record: RunRecord = { ...first.record, range: [0, total], shard: null, created: new Date().toISOString() };
@@ -70,7 +57,6 @@ export async function mergeCommand(directories: string[], options: { out?: strin
     { specHash: spec.hash, seed: spec.seed, method: spec.method, samples: total, range: [0, total], shard: null, keep: record.keep },
     { wallSeconds: 0, designsPerSecond: 0, workers: 0 },
     true,
-    rows,
   );
   // all.csv: the shards hold contiguous index ranges, so their files in range order are in index order.
   const withAll = records.filter(({ directory }) => existsSync(join(directory, RUN_FILES.all)));

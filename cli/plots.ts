@@ -5,8 +5,7 @@
  * marks, the non-dominated front as larger dark marks joined by a step line. With one objective, the
  * objective against rank. Values in the CSVs' practical units. Deterministic for the same rows.
  */
-import * as vega from 'vega';
-import { compile, type TopLevelSpec } from 'vega-lite';
+import type { TopLevelSpec } from 'vega-lite';
 import { METRIC_KEYS } from '../core/metrics.ts';
 import type { CandidateRow } from '../optimize/sweep-state.ts';
 import { METRIC_DISPLAY, humanUnit } from './display-units.ts';
@@ -94,6 +93,8 @@ export async function frontPlotSvg(objectives: readonly ObjectiveSpec[], candida
       hconcat: panels,
     } as TopLevelSpec;
   }
+  // Vega is loaded on first use: most commands never draw, and it takes a while to load.
+  const [vega, { compile }] = await Promise.all([import('vega'), import('vega-lite')]);
   const compiled = compile(spec).spec;
   const view = new vega.View(vega.parse(compiled), { renderer: 'none' });
   const svg = await view.toSVG();

@@ -111,8 +111,7 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .argument('<shards...>', 'shard run directories')
     .option('--out <dir>', 'directory for the merged results')
     .option('--overwrite', 'write into a non-empty output directory')
-    .option('--workers <n>', 'worker threads for the rows written out (default: available parallelism)', integer('--workers'))
-    .action(async (shards: string[], options: { out?: string; overwrite?: boolean; workers?: number }) => {
+    .action(async (shards: string[], options: { out?: string; overwrite?: boolean }) => {
       exitCode = await mergeCommand(shards, options, io);
     });
 

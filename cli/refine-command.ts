@@ -11,7 +11,7 @@ import { join } from 'node:path';
 import { inProcessEvaluator, type BatchEvaluator } from '../optimize/evaluate-batch.ts';
 import { DesignSpace } from '../optimize/design-space.ts';
 import { refineSweep } from '../optimize/refine-run.ts';
-import { indicesWithoutRows, materializeRows } from '../optimize/materialize.ts';
+import { unpackRow } from '../optimize/packed-row.ts';
 import { SweepState } from '../optimize/sweep-state.ts';
 import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
 import { toCsv } from './csv.ts';
@@ -48,7 +48,6 @@ export async function refineCommand(directory: string, options: RefineCommandOpt
   const evaluator: BatchEvaluator = threads === 0 ? inProcessEvaluator(space) : createWorkerPool(spaceDefinitionOf(spec), { threads });
   const started = performance.now();
   let outcome;
-  let frontRowsOfSamples;
   try {
     outcome = await refineSweep(space, state, spec.samples, evaluator, {
       starts: options.starts,
@@ -56,7 +55,6 @@ export async function refineCommand(directory: string, options: RefineCommandOpt
       referencePoint: spec.referencePoint,
       batchSize: Math.max(8, record.batch_size),
     });
-    frontRowsOfSamples = await materializeRows(space, state, indicesWithoutRows(outcome.merged.front()), evaluator, Math.max(8, record.batch_size));
   } finally {
     await evaluator.close();
   }
@@ -69,19 +67,19 @@ export async function refineCommand(directory: string, options: RefineCommandOpt
   writeFileAtomicSync(join(directory, RUN_FILES.refined), toCsv(columns.header, rows));
   writeFileAtomicSync(
     join(directory, RUN_FILES.refinedDesigns),
-    `${JSON.stringify(refinedRanked.map((entry, i) => ({ rank: i + 1, values: entry.payload!.values })), null, 1)}\n`,
+    `${JSON.stringify(refinedRanked.map((entry, i) => ({ rank: i + 1, values: unpackRow(entry.payload).values })), null, 1)}\n`,
   );
   const mergedState = new SweepState(spec.objectives, spec.constraints, record.keep, spec.seed);
   mergedState.pool = outcome.merged;
   const front = sortedFront(mergedState);
-  const frontRows = rankedRows(spec.dimensions, front, frontRowsOfSamples);
+  const frontRows = rankedRows(spec.dimensions, front);
   front.forEach((entry, i) => {
     if (entry.item.index >= spec.samples) frontRows[i]![indexColumn] = null;
   });
   writeFileAtomicSync(join(directory, RUN_FILES.front), toCsv(columns.header, frontRows));
   writeFileAtomicSync(
     join(directory, 'front.svg'),
-    await frontPlotSvg(spec.objectives, refinedRanked.map((entry) => entry.payload!), front.map((entry) => entry.payload ?? frontRowsOfSamples!.get(entry.item.index)!)),
+    await frontPlotSvg(spec.objectives, refinedRanked.map((entry) => unpackRow(entry.payload)), front.map((entry) => unpackRow(entry.payload))),
   );
   const summaryPath = join(directory, RUN_FILES.summary);
   const summary = existsSync(summaryPath) ? (JSON.parse(readFileSync(summaryPath, 'utf8')) as Record<string, unknown>) : {};

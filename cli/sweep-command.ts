@@ -16,7 +16,7 @@ import { DesignSpace, type SpaceDefinition } from '../optimize/design-space.ts';
 import { evaluateBatchTask, inProcessEvaluator, type BatchEvaluator, type BatchResult, type BatchTask } from '../optimize/evaluate-batch.ts';
 import { SweepState, type SweepStateData } from '../optimize/sweep-state.ts';
 import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
-import { decodeBatch, encodeBatch, type EncodedBatch } from './batch-codec.ts';
+import { decodeBatchRecord, encodeBatchRecord } from './batch-codec.ts';
 import { csvRows, toCsv } from './csv.ts';
 import { removeLeftoverTemporaryFiles, writeChunksAtomicSync } from './durable/atomic-write.ts';
 import { jsonChunks } from './json-chunks.ts';
@@ -30,8 +30,7 @@ import type { CliIo } from './io.ts';
 import { journalName, prepareOutputDirectory, readRunRecord, RUN_FILES, writeRunRecord, type RunRecord } from './run-directory.ts';
 import { describeShard, resolveShard, shardIndices } from './shard.ts';
 import { candidateCells, columnSet } from './sweep-columns.ts';
-import { outputRows, writeSweepOutputs, type RunIdentity } from './sweep-outputs.ts';
-import type { CandidateRow } from '../optimize/sweep-state.ts';
+import { writeSweepOutputs, type RunIdentity } from './sweep-outputs.ts';
 import { loadSweepFile, sweepFromValue, type SweepSpec } from './sweep-spec.ts';
 import { parseInputText } from './read-file.ts';
 import { formatTopCandidates } from './top-candidates.ts';
@@ -81,6 +80,8 @@ export function loadRunSpec(directory: string): SweepSpec {
 /** Measures the time per design on this thread and picks a batch that runs for about 50 ms. */
 export function measureBatchSize(space: DesignSpace, range: [number, number]): { batchSize: number; secondsPerDesign: number } {
   const probe = Math.max(1, Math.min(16, range[1] - range[0]));
+  // A first pass warms the JIT compiler; the second, over the same designs, is timed.
+  evaluateBatchTask(space, { kind: 'indices', start: range[0], count: Math.min(probe, 8) });
   const started = performance.now();
   evaluateBatchTask(space, { kind: 'indices', start: range[0], count: probe });
   const secondsPerDesign = (performance.now() - started) / 1000 / probe;
@@ -330,9 +331,10 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
     if (existsSync(journalPath)) {
       const contents = readJournal(journalPath);
       for (const payload of contents.records) {
-        const entry = payload as { generation: number; batch: number; result: EncodedBatch };
+        if (!(payload instanceof Uint8Array)) continue;
+        const entry = decodeBatchRecord(payload);
         if (entry.generation !== generation || done.has(entry.batch)) continue;
-        takeResult(entry.batch, decodeBatch(entry.result));
+        takeResult(entry.batch, entry.result);
         replayed++;
       }
       if (contents.tornTail) log(`${journalPath}: a torn last record was dropped (the batch is evaluated again)`);
@@ -368,8 +370,6 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
     // ---- the loop
     const startedAt = performance.now();
     const startedDone = done.size;
-    const mainSpace = new DesignSpace(spaceDefinitionOf(spec));
-    let rows = new Map<number, CandidateRow>();
     const threads = options.workers ?? defaultWorkerCount();
     const evaluator: BatchEvaluator =
       threads === 0
@@ -411,7 +411,7 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
             .evaluate(taskOf(batch))
             .then((result) => {
               takeResult(batch, result);
-              journal.append({ generation, batch, result: encodeBatch(result) });
+              journal.append(encodeBatchRecord(generation, batch, result));
             })
             .catch((error) => {
               failure ??= error;
@@ -435,8 +435,6 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
         progress();
       }
       await Promise.allSettled(inFlight.values());
-      // The rows the output files list are evaluated again, while the pool is still open.
-      if (failure === null) rows = await outputRows(mainSpace, state, record.keep, evaluator, Math.max(8, batchSize));
     } finally {
       await evaluator.close();
       stop.dispose();
@@ -454,7 +452,7 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
     try {
       writeCheckpoint(complete);
       writer?.close();
-      await writeSweepOutputs(directory, spec, state, identity, timing, complete, rows);
+      await writeSweepOutputs(directory, spec, state, identity, timing, complete);
       journal.close();
     } catch (error) {
       const diskError = error instanceof DiskError ? error : toDiskError(error, directory, 'write');
@@ -467,7 +465,7 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
       io.err(`stopped: ${why} after ${state.counts.evaluated} of ${range[1] - range[0]} designs; outputs so far are in ${directory}\n  resume with: coilfront sweep --resume ${directory}\n`);
       return stop.exitCode();
     }
-    if (!options.quiet) io.out(formatTopCandidates(directory, spec, state, 5, rows));
+    if (!options.quiet) io.out(formatTopCandidates(directory, spec, state, 5));
     return 0;
   };
   try {

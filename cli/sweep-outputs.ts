@@ -11,10 +11,8 @@ import { METRIC_KEYS } from '../core/metrics.ts';
 import type { Dimension } from '../optimize/design-tree.ts';
 import { defaultReferencePoint, hypervolume } from '../optimize/pareto/hypervolume.ts';
 import type { RankedEntry } from '../optimize/pareto/candidate-pool.ts';
-import type { CandidateRow, SweepState } from '../optimize/sweep-state.ts';
-import type { DesignSpace } from '../optimize/design-space.ts';
-import type { BatchEvaluator } from '../optimize/evaluate-batch.ts';
-import { indicesWithoutRows, materializeRows, rowOfEntry } from '../optimize/materialize.ts';
+import type { SweepState } from '../optimize/sweep-state.ts';
+import { unpackRow, type PackedRow } from '../optimize/packed-row.ts';
 import { toCsv, type Cell } from './csv.ts';
 import { writeFileAtomicSync } from './durable/atomic-write.ts';
 import { candidateCells, columnSet } from './sweep-columns.ts';
@@ -41,12 +39,8 @@ export interface Timing {
 
 const QUANTILES = [0, 0.05, 0.25, 0.5, 0.75, 0.95, 1];
 
-/** Rows of a ranked list in CSV cells (rows of payload-less sample entries come from `rows`). */
-export function rankedRows(
-  dimensions: readonly Dimension[],
-  ranked: readonly RankedEntry<CandidateRow | null>[],
-  rows: ReadonlyMap<number, CandidateRow> = new Map(),
-): Cell[][] {
+/** Rows of a ranked list in CSV cells. */
+export function rankedRows(dimensions: readonly Dimension[], ranked: readonly RankedEntry<PackedRow>[]): Cell[][] {
   return ranked.map((entry, position) =>
     candidateCells(
       dimensions,
@@ -58,13 +52,13 @@ export function rankedRows(
         violation: entry.item.violation,
         index: entry.item.index,
       },
-      rowOfEntry(entry, rows),
+      unpackRow(entry.payload),
     ),
   );
 }
 
 /** The front in a stable order for plotting: by the first objective, then the others, then index. */
-export function sortedFront(state: SweepState): RankedEntry<CandidateRow | null>[] {
+export function sortedFront(state: SweepState): RankedEntry<PackedRow>[] {
   const front = state.pool.front().map((entry) => ({ ...entry, paretoRank: 1, crowding: 0 }));
   front.sort((a, b) => {
     for (let j = 0; j < a.item.objectives.length; j++) {
@@ -146,9 +140,9 @@ export function summaryObject(spec: SweepSpec, state: SweepState, identity: RunI
 
 /** What the output files list: the ranked feasible top K, the K closest misses, the front. */
 export function outputEntries(state: SweepState, keep: number): {
-  ranked: RankedEntry<CandidateRow | null>[];
-  misses: RankedEntry<CandidateRow | null>[];
-  front: RankedEntry<CandidateRow | null>[];
+  ranked: RankedEntry<PackedRow>[];
+  misses: RankedEntry<PackedRow>[];
+  front: RankedEntry<PackedRow>[];
 } {
   // candidates.csv holds feasible designs only; the closest misses go to infeasible.csv.
   const ranked = state.pool.ranked(keep).filter((entry) => entry.item.violation === 0);
@@ -160,12 +154,6 @@ export function outputEntries(state: SweepState, keep: number): {
   return { ranked, misses, front: sortedFront(state) };
 }
 
-/** Sample rows the outputs need, evaluated again through `evaluator` (see optimize/materialize.ts). */
-export async function outputRows(space: DesignSpace, state: SweepState, keep: number, evaluator: BatchEvaluator, batchSize: number): Promise<Map<number, CandidateRow>> {
-  const { ranked, misses, front } = outputEntries(state, keep);
-  return materializeRows(space, state, indicesWithoutRows([...ranked, ...misses, ...front]), evaluator, batchSize);
-}
-
 /** Writes candidates.csv, infeasible.csv, front.csv and summary.json into `directory`. */
 export async function writeSweepOutputs(
   directory: string,
@@ -174,14 +162,13 @@ export async function writeSweepOutputs(
   identity: RunIdentity,
   timing: Timing,
   complete: boolean,
-  rows: ReadonlyMap<number, CandidateRow>,
 ): Promise<void> {
   const columns = columnSet(spec.dimensions);
   const { ranked, misses, front } = outputEntries(state, identity.keep);
-  writeFileAtomicSync(join(directory, 'candidates.csv'), toCsv(columns.header, rankedRows(spec.dimensions, ranked, rows)));
-  writeFileAtomicSync(join(directory, 'infeasible.csv'), toCsv(columns.header, rankedRows(spec.dimensions, misses, rows)));
-  writeFileAtomicSync(join(directory, 'front.csv'), toCsv(columns.header, rankedRows(spec.dimensions, front, rows)));
+  writeFileAtomicSync(join(directory, 'candidates.csv'), toCsv(columns.header, rankedRows(spec.dimensions, ranked)));
+  writeFileAtomicSync(join(directory, 'infeasible.csv'), toCsv(columns.header, rankedRows(spec.dimensions, misses)));
+  writeFileAtomicSync(join(directory, 'front.csv'), toCsv(columns.header, rankedRows(spec.dimensions, front)));
   writeFileAtomicSync(join(directory, 'summary.json'), `${JSON.stringify(summaryObject(spec, state, identity, timing, complete), null, 2)}\n`);
-  const svg = await frontPlotSvg(spec.objectives, ranked.map((entry) => rowOfEntry(entry, rows)), front.map((entry) => rowOfEntry(entry, rows)));
+  const svg = await frontPlotSvg(spec.objectives, ranked.map((entry) => unpackRow(entry.payload)), front.map((entry) => unpackRow(entry.payload)));
   writeFileAtomicSync(join(directory, 'front.svg'), svg);
 }

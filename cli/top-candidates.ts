@@ -4,14 +4,14 @@
  */
 import { join } from 'node:path';
 import { metricIndex } from '../core/metrics.ts';
-import type { CandidateRow, SweepState } from '../optimize/sweep-state.ts';
-import { rowOfEntry } from '../optimize/materialize.ts';
+import type { SweepState } from '../optimize/sweep-state.ts';
+import { unpackRow } from '../optimize/packed-row.ts';
 import { METRIC_DISPLAY, formatNumber, humanUnit } from './display-units.ts';
 import { parameterCells } from './sweep-columns.ts';
 import { SAFETY_CAUTIONS } from './safety.ts';
 import type { SweepSpec } from './sweep-spec.ts';
 
-export function formatTopCandidates(directory: string, spec: SweepSpec, state: SweepState, count: number, rows: ReadonlyMap<number, CandidateRow>): string {
+export function formatTopCandidates(directory: string, spec: SweepSpec, state: SweepState, count: number): string {
   const ranked = state.pool.ranked(count);
   const lines: string[] = [];
   const c = state.counts;
@@ -19,7 +19,7 @@ export function formatTopCandidates(directory: string, spec: SweepSpec, state: S
   lines.push(`best ${Math.min(count, ranked.length)}:`);
   for (let i = 0; i < ranked.length; i++) {
     const entry = ranked[i]!;
-    const row = rowOfEntry(entry, rows);
+    const row = unpackRow(entry.payload);
     const objectives = spec.objectives.map((objective) => {
       const value = row.metrics[metricIndex(objective.metric)];
       const display = METRIC_DISPLAY[objective.metric];

@@ -8,6 +8,7 @@ import { METRIC_KEYS } from '../core/metrics.ts';
 import type { Dimension } from './design-tree.ts';
 import type { DesignSpace } from './design-space.ts';
 import type { PoolEntry } from './pareto/candidate-pool.ts';
+import { packRow, type PackedRow } from './packed-row.ts';
 import { STATUS_OK, type BatchEvaluator } from './evaluate-batch.ts';
 import { mixedSpaceOf, pointOfValues, valuesOfPoint } from './mixed-space.ts';
 import { CandidatePool } from './pareto/candidate-pool.ts';
@@ -38,10 +39,9 @@ interface RefineRecord {
 
 export interface RefineOutcome {
   /** Every feasible design the refinement evaluated, ranked, with exact dimension values. */
-  refined: CandidatePool<CandidateRow>;
-  /** The sweep's front merged with the refined designs (non-dominated feasible set); sweep samples
-   * carry no row (null), refined designs theirs. */
-  merged: CandidatePool<CandidateRow | null>;
+  refined: CandidatePool<PackedRow>;
+  /** The sweep's front merged with the refined designs (non-dominated feasible set). */
+  merged: CandidatePool<PackedRow>;
   hypervolumeBefore: number | null;
   hypervolumeAfter: number | null;
   referencePoint: number[] | null;
@@ -59,12 +59,7 @@ export async function refineSweep(
   const dimensions: readonly Dimension[] = designSpace.definition.dimensions;
   const space = mixedSpaceOf(dimensions);
   // A start's dimension values: its own row, or regenerated from its sample index.
-  const valuesOfEntry = (entry: PoolEntry<CandidateRow | null>): number[] => {
-    if (entry.payload) return entry.payload.values;
-    const values = new Float64Array(dimensions.length);
-    designSpace.valuesAt(entry.item.index, values);
-    return Array.from(values);
-  };
+  const valuesOfEntry = (entry: PoolEntry<PackedRow>): number[] => Array.from(entry.payload.packed.subarray(0, entry.payload.dimensions));
   const metricCount = METRIC_KEYS.length;
   const objectiveCount = state.objectives.length;
 
@@ -128,15 +123,16 @@ export async function refineSweep(
 
   // Every evaluated design, in a deterministic order (by its key), gets an index after the samples.
   const entries = cache.entries().map((entry) => ({ key: mixedPointKey(entry.point), entry })).sort((a, b) => (a.key < b.key ? -1 : a.key > b.key ? 1 : 0));
-  const refined = new CandidatePool<CandidateRow>(state.keep, objectiveCount);
-  const merged = new CandidatePool<CandidateRow | null>(state.keep, objectiveCount);
+  const refined = new CandidatePool<PackedRow>(state.keep, objectiveCount);
+  const merged = new CandidatePool<PackedRow>(state.keep, objectiveCount);
   for (const entry of feasible) merged.offer(entry.item, entry.payload);
   entries.forEach(({ entry }, k) => {
     const record = entry.record;
     if (record.violation !== 0 || !record.objectives) return;
     const item = { index: sampleCount + k, violation: 0, objectives: record.objectives };
-    refined.offer(item, record.row);
-    merged.offer(item, record.row);
+    const packed = packRow(record.row);
+    refined.offer(item, packed);
+    merged.offer(item, packed);
   });
   const after = merged.front().map((entry) => entry.item.objectives);
   return {

@@ -12,6 +12,7 @@ import { STATUS_FAILED, STATUS_OK, STATUS_PROBLEM, type BatchResult } from './ev
 import { CandidatePool, type CandidatePoolData } from './pareto/candidate-pool.ts';
 import { totalViolation } from './pareto/constraint-violation.ts';
 import { IndexSample, type IndexSampleData } from './sampling/index-sample.ts';
+import { PackedRow, packRow, type PackedRowData } from './packed-row.ts';
 
 export interface ObjectiveDefinition {
   metric: string;
@@ -54,7 +55,7 @@ export interface SweepStateData {
   version: 1;
   counts: SweepCounts;
   rejectedBy: number[];
-  pool: CandidatePoolData<CandidateRow | null>;
+  pool: CandidatePoolData<PackedRowData>;
   sample: IndexSampleData<number[]>;
 }
 
@@ -64,12 +65,8 @@ export const SUMMARY_SAMPLE_SIZE = 10_000;
 export class SweepState {
   counts: SweepCounts = { evaluated: 0, feasible: 0, infeasible: 0, impossible: 0, failed: 0 };
   rejectedBy: number[];
-  /**
-   * The candidates. Sweep samples are kept without a payload (null): design i is a pure function of
-   * the spec and i, so the few rows written out are evaluated again at the end (materializeRows),
-   * and memory per kept design is its objectives alone. Refined designs carry their row.
-   */
-  pool: CandidatePool<CandidateRow | null>;
+  /** The candidates, each with its packed row (built only for the ones kept). */
+  pool: CandidatePool<PackedRow>;
   /** Feasible designs: dimension values followed by metrics (NaN as null). */
   sample: IndexSample<number[]>;
   private readonly constraintColumns: number[];
@@ -82,7 +79,7 @@ export class SweepState {
     readonly seed: number,
   ) {
     this.rejectedBy = constraints.map(() => 0);
-    this.pool = new CandidatePool<CandidateRow | null>(keep, objectives.length);
+    this.pool = new CandidatePool<PackedRow>(keep, objectives.length);
     this.sample = new IndexSample<number[]>(SUMMARY_SAMPLE_SIZE, seed);
     this.constraintColumns = constraints.map((c) => metricIndex(c.metric));
     this.objectiveColumns = objectives.map((o) => metricIndex(o.metric));
@@ -166,7 +163,7 @@ export class SweepState {
     for (let row = 0; row < result.count; row++) {
       const index = result.start + row;
       const { violation, objectives } = this.classifyRow(result, row, true);
-      this.pool.offer({ index, violation, objectives }, null);
+      this.pool.offerWith({ index, violation, objectives }, () => packRow(this.rowOf(result, row, dimensionCount)));
       if (violation === 0) {
         const offset = row * metricCount;
         const sampleRow: number[] = new Array(dimensionCount + metricCount);
@@ -204,7 +201,7 @@ export class SweepState {
       version: 1,
       counts: { ...this.counts },
       rejectedBy: [...this.rejectedBy],
-      pool: this.pool.toJSON(),
+      pool: this.pool.toJSON() as unknown as CandidatePoolData<PackedRowData>,
       sample: jsonSafeSample(this.sample.toJSON()),
     };
   }
@@ -219,7 +216,8 @@ export class SweepState {
     const state = new SweepState(objectives, constraints, keep, seed);
     state.counts = { ...data.counts };
     state.rejectedBy = [...data.rejectedBy];
-    state.pool = CandidatePool.restore(data.pool);
+    const revive = (records: CandidatePoolData<PackedRowData>['feasible']) => records.map((record) => ({ ...record, payload: PackedRow.revive(record.payload) }));
+    state.pool = CandidatePool.restore<PackedRow>({ ...data.pool, feasible: revive(data.pool.feasible), infeasible: revive(data.pool.infeasible) });
     state.sample = IndexSample.restore({
       ...data.sample,
       items: data.sample.items.map((item) => ({ index: item.index, payload: item.payload.map((v) => (v === null ? Number.NaN : v)) })),

@@ -263,6 +263,22 @@ function toploadFields(
   return { peak, angle: peakAngle, underside };
 }
 
+let matrixBuffer = new Float64Array(0);
+let blockBuffer = new Float64Array(0);
+/**
+ * Scratch memory for the collocation matrix and the winding block, reused from one solve to the
+ * next (a solve is synchronous and nothing it returns refers to them), so that a sweep does not
+ * allocate and zero a fresh n² array per design.
+ */
+function matrixScratch(size: number): Float64Array {
+  if (matrixBuffer.length < size) matrixBuffer = new Float64Array(Math.max(size, 2 * matrixBuffer.length));
+  return matrixBuffer;
+}
+function blockScratch(size: number): Float64Array {
+  if (blockBuffer.length < size) blockBuffer = new Float64Array(Math.max(size, 2 * blockBuffer.length));
+  return blockBuffer.subarray(0, size);
+}
+
 /** Solves the arrangement for V = 1 at the top; null when the system is singular. */
 export function solveField(arrangement: FieldArrangement, options: FieldSolveOptions = {}): FieldSolution | null {
   const defaults = defaultPanelCounts(arrangement, options.resolution ?? 1);
@@ -291,12 +307,12 @@ export function solveField(arrangement: FieldArrangement, options: FieldSolveOpt
   for (let j = 0; j < windingCount; j++) potential[j] = windingPotential(winding!, layout.midZ[j]);
   for (let j = leadingCount; j < n; j++) potential[j] = 1;
 
-  const matrix = assembleCollocationMatrix(layout, arrangement.floor);
+  const matrix = assembleCollocationMatrix(layout, arrangement.floor, true, matrixScratch(n * n));
   // The winding-alone system (leading block) before the full matrix is factored in place.
   let selfCapacitance: number | null = null;
   if (winding) {
     if (toploadCount > 0) {
-      const block = new Float64Array(leadingCount * leadingCount);
+      const block = blockScratch(leadingCount * leadingCount);
       for (let i = 0; i < leadingCount; i++) block.set(matrix.subarray(i * n, i * n + leadingCount), i * leadingCount);
       const pivots = luFactor(block, leadingCount);
       if (!pivots) return null;
