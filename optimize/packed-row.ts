@@ -24,20 +24,18 @@ export class PackedRow {
       const value = this.packed[i]!;
       text += `${i > 0 ? ',' : ''}${Number.isFinite(value) ? String(value) : ''}`;
     }
-    return { size: this.packed.length, packed: text, dimensions: this.dimensions, status: this.status, reason: this.reason, warnings: this.warnings };
+    return { packed: text, dimensions: this.dimensions, status: this.status, reason: this.reason, warnings: this.warnings };
   }
 
   static revive(data: PackedRowData): PackedRow {
-    const numbers = data.size === 0 ? [] : data.packed.split(',');
-    const packed = new Float64Array(data.size);
+    const numbers = data.packed === '' ? [] : data.packed.split(',');
+    const packed = new Float64Array(numbers.length);
     numbers.forEach((text, i) => (packed[i] = text === '' ? Number.NaN : Number(text)));
     return new PackedRow(packed, data.dimensions, data.status, data.reason, data.warnings);
   }
 }
 
 export interface PackedRowData {
-  /** How many numbers (an empty text is one NaN when size is 1). */
-  size: number;
   /** The numbers, comma-separated, empty for NaN. */
   packed: string;
   dimensions: number;
