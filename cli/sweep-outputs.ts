@@ -86,7 +86,7 @@ function summaryStatistics(spec: SweepSpec, state: SweepState): { quantiles: Rec
   const dimensionCount = spec.dimensions.length;
   const quantiles: Record<string, Record<string, number>> = {};
   METRIC_KEYS.forEach((key, m) => {
-    const values = items.map((item) => item.payload.packed[dimensionCount + m]!).filter((v) => Number.isFinite(v)).sort((a, b) => a - b);
+    const values = items.map((item) => item.payload[dimensionCount + m]!).filter((v) => Number.isFinite(v)).sort((a, b) => a - b);
     if (values.length === 0) return;
     const entry: Record<string, number> = {};
     for (const q of QUANTILES) entry[`q${String(Math.round(q * 100)).padStart(2, '0')}`] = quantileSorted(values, q);
@@ -97,7 +97,7 @@ function summaryStatistics(spec: SweepSpec, state: SweepState): { quantiles: Rec
     const row: Record<string, number | null> = {};
     for (const objective of spec.objectives) {
       const column = dimensionCount + METRIC_KEYS.indexOf(objective.metric);
-      const pairs = items.map((item) => [item.payload.packed[d]!, item.payload.packed[column]!]).filter(([x, y]) => Number.isFinite(x) && Number.isFinite(y));
+      const pairs = items.map((item) => [item.payload[d]!, item.payload[column]!]).filter(([x, y]) => Number.isFinite(x) && Number.isFinite(y));
       let rho: number | null = null;
       if (pairs.length >= 3) {
         const value = sampleRankCorrelation(pairs.map((p) => p[0]!), pairs.map((p) => p[1]!));

@@ -16,49 +16,27 @@ export class PackedRow {
     readonly warnings: number,
   ) {}
 
-  /** Plain JSON: the numbers as one comma-separated string (shortest exact form; empty for NaN), so
-   * a checkpoint of many rows does not first build an array of boxed numbers for each. */
   toJSON(): PackedRowData {
-    let text = '';
-    for (let i = 0; i < this.packed.length; i++) {
-      const value = this.packed[i]!;
-      text += `${i > 0 ? ',' : ''}${Number.isFinite(value) ? String(value) : ''}`;
-    }
-    return { packed: text, dimensions: this.dimensions, status: this.status, reason: this.reason, warnings: this.warnings };
+    return {
+      packed: Array.from(this.packed, (v) => (Number.isFinite(v) ? v : null)),
+      dimensions: this.dimensions,
+      status: this.status,
+      reason: this.reason,
+      warnings: this.warnings,
+    };
   }
 
   static revive(data: PackedRowData): PackedRow {
-    const numbers = data.packed === '' ? [] : data.packed.split(',');
-    const packed = new Float64Array(numbers.length);
-    numbers.forEach((text, i) => (packed[i] = text === '' ? Number.NaN : Number(text)));
-    return new PackedRow(packed, data.dimensions, data.status, data.reason, data.warnings);
+    return new PackedRow(Float64Array.from(data.packed, (v) => (v === null ? Number.NaN : v)), data.dimensions, data.status, data.reason, data.warnings);
   }
 }
 
 export interface PackedRowData {
-  /** The numbers, comma-separated, empty for NaN. */
-  packed: string;
+  packed: Array<number | null>;
   dimensions: number;
   status: number;
   reason: string | null;
   warnings: number;
-}
-
-/** The packed row of row `row` of a batch result, straight from its arrays. */
-export function packResultRow(
-  values: Float64Array,
-  metrics: Float64Array,
-  row: number,
-  dimensions: number,
-  metricCount: number,
-  status: number,
-  reason: string | null,
-  warnings: number,
-): PackedRow {
-  const packed = new Float64Array(dimensions + metricCount);
-  packed.set(values.subarray(row * dimensions, (row + 1) * dimensions), 0);
-  packed.set(metrics.subarray(row * metricCount, (row + 1) * metricCount), dimensions);
-  return new PackedRow(packed, dimensions, status, reason, warnings);
 }
 
 /** Packs a row. */

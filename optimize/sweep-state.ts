@@ -12,7 +12,7 @@ import { STATUS_FAILED, STATUS_OK, STATUS_PROBLEM, type BatchResult } from './ev
 import { CandidatePool, type CandidatePoolData } from './pareto/candidate-pool.ts';
 import { totalViolation } from './pareto/constraint-violation.ts';
 import { IndexSample, type IndexSampleData } from './sampling/index-sample.ts';
-import { PackedRow, packResultRow, packRow, type PackedRowData } from './packed-row.ts';
+import { PackedRow, packRow, type PackedRowData } from './packed-row.ts';
 
 export interface ObjectiveDefinition {
   metric: string;
@@ -56,7 +56,7 @@ export interface SweepStateData {
   counts: SweepCounts;
   rejectedBy: number[];
   pool: CandidatePoolData<PackedRowData>;
-  sample: IndexSampleData<PackedRowData>;
+  sample: IndexSampleData<number[]>;
 }
 
 /** Size of the feasible sample behind summary quantiles and rank correlations. */
@@ -67,8 +67,8 @@ export class SweepState {
   rejectedBy: number[];
   /** The candidates, each with its packed row (built only for the ones kept). */
   pool: CandidatePool<PackedRow>;
-  /** Feasible designs: their packed rows (dimension values followed by metrics). */
-  sample: IndexSample<PackedRow>;
+  /** Feasible designs: dimension values followed by metrics (NaN as null). */
+  sample: IndexSample<number[]>;
   private readonly constraintColumns: number[];
   private readonly objectiveColumns: number[];
 
@@ -80,7 +80,7 @@ export class SweepState {
   ) {
     this.rejectedBy = constraints.map(() => 0);
     this.pool = new CandidatePool<PackedRow>(keep, objectives.length);
-    this.sample = new IndexSample<PackedRow>(SUMMARY_SAMPLE_SIZE, seed);
+    this.sample = new IndexSample<number[]>(SUMMARY_SAMPLE_SIZE, seed);
     this.constraintColumns = constraints.map((c) => metricIndex(c.metric));
     this.objectiveColumns = objectives.map((o) => metricIndex(o.metric));
   }
@@ -166,7 +166,10 @@ export class SweepState {
       this.pool.offerWith({ index, violation, objectives }, () => packRow(this.rowOf(result, row, dimensionCount)));
       if (violation === 0) {
         const offset = row * metricCount;
-        this.sample.offer(index, packResultRow(result.values, result.metrics, row, dimensionCount, metricCount, 0, null, result.warningCounts[row]!));
+        const sampleRow: number[] = new Array(dimensionCount + metricCount);
+        for (let d = 0; d < dimensionCount; d++) sampleRow[d] = result.values[row * dimensionCount + d]!;
+        for (let m = 0; m < metricCount; m++) sampleRow[dimensionCount + m] = result.metrics[offset + m]!;
+        this.sample.offer(index, sampleRow);
       }
     }
   }
@@ -199,7 +202,7 @@ export class SweepState {
       counts: { ...this.counts },
       rejectedBy: [...this.rejectedBy],
       pool: this.pool.toJSON() as unknown as CandidatePoolData<PackedRowData>,
-      sample: this.sample.toJSON() as unknown as IndexSampleData<PackedRowData>,
+      sample: jsonSafeSample(this.sample.toJSON()),
     };
   }
 
@@ -217,8 +220,12 @@ export class SweepState {
     state.pool = CandidatePool.restore<PackedRow>({ ...data.pool, feasible: revive(data.pool.feasible), infeasible: revive(data.pool.infeasible) });
     state.sample = IndexSample.restore({
       ...data.sample,
-      items: data.sample.items.map((item) => ({ index: item.index, payload: PackedRow.revive(item.payload) })),
+      items: data.sample.items.map((item) => ({ index: item.index, payload: item.payload.map((v) => (v === null ? Number.NaN : v)) })),
     });
     return state;
   }
+}
+
+function jsonSafeSample(data: IndexSampleData<number[]>): IndexSampleData<number[]> {
+  return { ...data, items: data.items.map((item) => ({ index: item.index, payload: item.payload.map((v) => (Number.isFinite(v) ? v : (null as unknown as number))) })) };
 }
