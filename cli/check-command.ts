@@ -9,6 +9,7 @@ import { formatDuration } from './duration.ts';
 import { defaultWorkerCount } from '../workers/pool.ts';
 import { measureBatchSize, spaceDefinitionOf } from './sweep-command.ts';
 import { discreteLevels, loadSweepFile } from './sweep-spec.ts';
+import { SAFETY_LINE } from './safety.ts';
 import type { QuantityKind } from './units.ts';
 
 export function checkCommand(file: string, options: { workers?: number; force?: boolean }, io: CliIo): number {
@@ -37,6 +38,7 @@ export function checkCommand(file: string, options: { workers?: number; force?: 
   const workers = options.workers ?? defaultWorkerCount();
   const estimate = (secondsPerDesign * spec.samples) / Math.max(1, workers);
   lines.push(`measured ${formatNumber(secondsPerDesign * 1000)} ms per design on this machine: about ${formatDuration(Math.max(1, estimate))} with ${workers} worker${workers > 1 ? 's' : ''}`);
+  lines.push(SAFETY_LINE);
   io.out(`${lines.join('\n')}\n`);
   return 0;
 }

@@ -19,3 +19,7 @@ export const SAFETY_CAUTIONS: readonly string[] = [
 export function safetyBlock(): string {
   return ['SAFETY', ...SAFETY_CAUTIONS].join('\n');
 }
+
+/** One line for short outputs (design files from `show`, `check`, summary.json): the essentials. */
+export const SAFETY_LINE =
+  'DANGER: lethal tank-capacitor and supply voltages, RF burns, fire, UV, ozone, interference with medical implants and radio services; these are model estimates, not a safety assessment: follow local electrical codes and licensed practice (see the README).';

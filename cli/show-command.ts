@@ -13,11 +13,12 @@ import { KIND_DISPLAY, formatNumber } from './display-units.ts';
 import { InputError } from './input-error.ts';
 import type { CliIo } from './io.ts';
 import { RUN_FILES } from './run-directory.ts';
+import { SAFETY_LINE } from './safety.ts';
 import { loadRunSpec, spaceDefinitionOf } from './sweep-command.ts';
 
 /** A design's normal tree as YAML text: exact SI numbers, a unit comment beside each quantity. */
 export function treeToYaml(tree: NormalTree, heading: string[]): string {
-  const lines = heading.map((line) => `# ${line}`);
+  const lines = [...heading, SAFETY_LINE].map((line) => `# ${line}`);
   for (const [name, section] of Object.entries(tree)) {
     if (isSlot(section)) continue;
     const spec = DESIGN_SECTIONS[name]!;

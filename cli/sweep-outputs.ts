@@ -17,6 +17,7 @@ import { toCsv, type Cell } from './csv.ts';
 import { writeFileAtomicSync } from './durable/atomic-write.ts';
 import { candidateCells, columnSet } from './sweep-columns.ts';
 import { frontPlotSvg } from './plots.ts';
+import { SAFETY_LINE } from './safety.ts';
 import type { SweepSpec } from './sweep-spec.ts';
 
 export interface RunIdentity {
@@ -135,6 +136,7 @@ export function summaryObject(spec: SweepSpec, state: SweepState, identity: RunI
     sensitivities,
     timing: { wall_seconds: timing.wallSeconds, designs_per_second: timing.designsPerSecond, workers: timing.workers },
     units: 'SI base units (H, F, Hz, V, m, kg, ohm, V/m); hypervolume in the minimisation convention, maximised objectives negated',
+    safety: SAFETY_LINE,
   };
 }
 
