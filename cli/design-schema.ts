@@ -380,7 +380,11 @@ export function readDesignTree(input: unknown, mode: Mode, basePath: string[] = 
   const names = Object.keys(DESIGN_SECTIONS);
   for (const key of Object.keys(input)) {
     if (!names.includes(key)) {
-      state.issues.push({ path: [...basePath, key], message: unknownKeyMessage(key, names) });
+      const sweepKey = mode === 'design' && ['design', 'objectives', 'constraints', 'sweep'].includes(key);
+      state.issues.push({
+        path: [...basePath, key],
+        message: sweepKey ? `unknown key '${key}': this looks like a sweep file (use coilfront check or coilfront sweep)` : unknownKeyMessage(key, names),
+      });
       return { tree, dimensions: [], issues: state.issues };
     }
   }

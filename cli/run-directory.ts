@@ -60,7 +60,13 @@ export function writeRunRecord(directory: string, record: RunRecord): void {
 /** Creates the output directory, refusing a non-empty one unless `overwrite`. */
 export function prepareOutputDirectory(directory: string, overwrite: boolean): void {
   if (existsSync(directory)) {
-    const entries = readdirSync(directory).filter((name) => name !== 'run.lock');
+    let entries: string[];
+    try {
+      entries = readdirSync(directory).filter((name) => name !== 'run.lock');
+    } catch (error) {
+      const code = (error as NodeJS.ErrnoException).code;
+      throw new InputError(`--out ${directory}: ${code === 'ENOTDIR' ? 'is a file, not a directory' : `cannot be read (${code ?? 'error'})`}`);
+    }
     if (entries.length > 0 && !overwrite) {
       throw new InputError(
         `--out ${directory}: the directory is not empty; choose another, resume it with --resume ${directory}, or pass --overwrite`,

@@ -8,6 +8,7 @@ import { METRIC_KEYS } from '../core/metrics.ts';
 import { buildDesign } from '../optimize/build-design.ts';
 import { fillSlots, type Dimension, type NormalTree } from '../optimize/design-tree.ts';
 import { readDesignTree } from './design-schema.ts';
+import { DESIGN_SECTIONS } from './design-fields.ts';
 import { fieldError, InputError, type InputIssue } from './input-error.ts';
 import { metricKind } from './metric-kinds.ts';
 import { readInputFile } from './read-file.ts';
@@ -219,7 +220,12 @@ export function sweepFromValue(value: unknown, file: string, options: SweepReadO
   if (!isMapping(value)) {
     throw new InputError(`${file}: expected a mapping with design, constraints, objectives and sweep, got ${describeValue(value)}`);
   }
-  for (const key of Object.keys(value)) if (!TOP_KEYS.includes(key)) issues.push(unknownKey([], key, TOP_KEYS));
+  for (const key of Object.keys(value)) {
+    if (TOP_KEYS.includes(key)) continue;
+    if (key in DESIGN_SECTIONS) {
+      issues.push({ path: [key], message: `unknown key '${key}': a sweep file puts the design tree under 'design:' (for one design, use coilfront evaluate)` });
+    } else issues.push(unknownKey([], key, TOP_KEYS));
+  }
   if (issues.length) fail();
   if (value.design === undefined) {
     issues.push({ path: ['design'], message: 'required: the design tree, where leaves may be ranges or sets' });
