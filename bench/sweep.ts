@@ -12,7 +12,6 @@ import { parse, stringify } from 'yaml';
 import { hypervolume } from '../optimize/pareto/hypervolume.ts';
 
 const ROOT = resolve(import.meta.dirname, '..', '..');
-const CLI = join(ROOT, 'dist', 'cli', 'main.js');
 const DEMO = join(ROOT, 'examples', 'sweeps', 'science-centre-ceiling.yaml');
 
 function specWith(samples: number, mutate?: (spec: Record<string, any>) => void): string {

@@ -10,7 +10,7 @@
  * state depends on the set of designs and not on their order, the final files are byte-identical to an
  * uninterrupted run (summary.json's timing aside).
  */
-import { existsSync, readFileSync, rmSync, writeFileSync, openSync, closeSync, ftruncateSync, writeSync, fsyncSync, statSync } from 'node:fs';
+import { existsSync, readFileSync, rmSync, writeFileSync, openSync, closeSync, ftruncateSync, writeSync, fsyncSync } from 'node:fs';
 import { join } from 'node:path';
 import { DesignSpace, type SpaceDefinition } from '../optimize/design-space.ts';
 import { evaluateBatchTask, inProcessEvaluator, type BatchEvaluator, type BatchResult, type BatchTask } from '../optimize/evaluate-batch.ts';
@@ -118,7 +118,6 @@ class OrderedCsvWriter {
   bytes = 0;
   constructor(
     private readonly path: string,
-    private readonly done: DoneSet,
     header: string | null,
     startBytes: number,
     startPending: Record<string, string>,
@@ -171,9 +170,6 @@ class OrderedCsvWriter {
   }
   get writtenBatches(): number {
     return this.nextBatch;
-  }
-  static sizeOf(path: string): number {
-    return existsSync(path) ? statSync(path).size : 0;
   }
 }
 
@@ -296,7 +292,7 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
     }
     const allPath = join(directory, RUN_FILES.all);
     const writer = record.all
-      ? new OrderedCsvWriter(allPath, done, toCsv(columns.header, []), checkpoint ? checkpoint.all_bytes : 0, checkpoint ? checkpoint.all_pending : {})
+      ? new OrderedCsvWriter(allPath, toCsv(columns.header, []), checkpoint ? checkpoint.all_bytes : 0, checkpoint ? checkpoint.all_pending : {})
       : null;
     if (writer && checkpoint) {
       // Rows of batches below the first pending one are already in the file.
@@ -446,9 +442,7 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
     }
     const complete = done.size >= batchCount;
     const wallSeconds = (performance.now() - startedAt) / 1000;
-    const evaluatedNow = Math.max(0, state.counts.evaluated);
     const timing = { wallSeconds, designsPerSecond: ((done.size - startedDone) * batchSize) / Math.max(wallSeconds, 1e-9), workers: threads };
-    void evaluatedNow;
     try {
       writeCheckpoint(complete);
       writer?.close();

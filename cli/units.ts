@@ -217,8 +217,3 @@ export interface DisplayUnit {
   /** Display value = SI value / divisor. */
   divisor: number;
 }
-
-/** Converts an SI value to a display unit. */
-export function toDisplay(value: number, unit: DisplayUnit): number {
-  return value / unit.divisor;
-}

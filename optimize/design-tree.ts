@@ -49,9 +49,6 @@ export function isSlot(value: unknown): value is DimensionSlot {
   return typeof value === 'object' && value !== null && 'slot' in value && Object.keys(value).length === 1;
 }
 
-/** The value a dimension takes for each design: a number (range) or a choice's position (set). */
-export type DimensionValue = number;
-
 /**
  * Fills the slots of a space's tree with dimension values: ranges put their number, sets put the
  * chosen value (a whole section for section sets). Pure; the space's tree is not changed.
