@@ -39,7 +39,8 @@ export interface SweepOptions {
   out?: string;
   resume?: string;
   workers?: number;
-  keep: number;
+  /** Candidates kept and ranked exactly; default DEFAULT_KEEP, or the resumed run's own. */
+  keep?: number;
   all?: boolean;
   shard?: string;
   shardCount?: number;
@@ -50,6 +51,9 @@ export interface SweepOptions {
   quiet?: boolean;
   batchSize?: number;
 }
+
+/** Candidates kept and ranked exactly when --keep is not given. */
+export const DEFAULT_KEEP = 1000;
 
 interface CheckpointData {
   format: 'coilfront-checkpoint';
@@ -179,7 +183,9 @@ function positiveInteger(value: number | undefined, option: string): void {
 
 export async function sweepCommand(specFile: string | undefined, options: SweepOptions, io: CliIo): Promise<number> {
   positiveInteger(options.workers, '--workers');
-  if (!Number.isInteger(options.keep) || options.keep < 1) throw optionError('--keep', `expected a whole number of at least 1, got ${options.keep}`);
+  if (options.keep !== undefined && (!Number.isInteger(options.keep) || options.keep < 1)) {
+    throw optionError('--keep', `expected a whole number of at least 1, got ${options.keep}`);
+  }
   const journalSyncSeconds = parseDuration(options.checkpointEvery, { option: '--checkpoint-every' });
   const timeLimitSeconds = options.timeLimit !== undefined ? parseDuration(options.timeLimit, { option: '--time-limit' }) : undefined;
   const log = (line: string) => {
@@ -205,7 +211,7 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
       }
     }
     if (spec.hash !== record.spec_hash) throw new InputError(`--resume ${directory}: refused: spec.yaml was changed after the run started (spec hash differs)`);
-    if (options.keep !== record.keep && options.keep !== 1000) throw optionError('--keep', `the run was started with --keep ${record.keep}`);
+    if (options.keep !== undefined && options.keep !== record.keep) throw optionError('--keep', `the run was started with --keep ${record.keep}`);
     const checkpointPath = join(directory, RUN_FILES.checkpoint);
     if (existsSync(checkpointPath)) {
       try {
@@ -239,7 +245,7 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
       samples: spec.samples,
       range,
       shard: shard ? { index: shard.index, count: shard.count, source: shard.source } : null,
-      keep: options.keep,
+      keep: options.keep ?? DEFAULT_KEEP,
       batch_size: measured.batchSize,
       all: options.all ?? false,
       created: new Date().toISOString(),
@@ -305,12 +311,12 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
       const rows = [];
       for (let row = 0; row < result.count; row++) {
         const index = result.start + row;
-        const { violation } = state.classifyRow(result, row);
+        const { violation, reason } = state.classifyRow(result, row);
         rows.push(
           candidateCells(
             spec.dimensions,
             { rank: index + 1, paretoRank: null, crowding: null, feasible: violation === 0, violation, index },
-            state.rowOf(result, row, dimensionCount),
+            state.rowOf(result, row, dimensionCount, reason),
           ),
         );
       }

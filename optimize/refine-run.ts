@@ -68,23 +68,14 @@ export async function refineSweep(
     const values = new Float64Array(points.length * dimensions.length);
     points.forEach((point, i) => values.set(valuesOfPoint(dimensions, space, point), i * dimensions.length));
     const result = await evaluator.evaluate({ kind: 'values', values, count: points.length });
-    const reasons = new Map(result.reasons);
     return points.map((_, row) => {
-      const offset = row * metricCount;
-      const metrics = result.metrics.subarray(offset, offset + metricCount);
+      // The sweep's own classification; a design that could not be built or evaluated ranks last.
+      const { violation, reason } = state.classifyRow(result, row);
       const ok = result.status[row] === STATUS_OK;
-      const objectives = ok ? state.objectiveVector(metrics) : null;
-      const violation = ok ? state.violationOf(metrics) + (objectives ? 0 : 1) : Number.POSITIVE_INFINITY;
       return {
-        violation,
-        objectives,
-        row: {
-          values: Array.from(result.values.subarray(row * dimensions.length, (row + 1) * dimensions.length)),
-          metrics: Array.from(metrics, (v) => (Number.isFinite(v) ? v : null)),
-          status: result.status[row]!,
-          reason: reasons.get(row) ?? (violation > 0 && ok ? state.describeViolation(metrics) : null),
-          warnings: result.warningCounts[row]!,
-        },
+        violation: ok ? violation : Number.POSITIVE_INFINITY,
+        objectives: ok ? state.objectiveVector(result.metrics, row * metricCount) : null,
+        row: state.rowOf(result, row, dimensions.length, reason),
       };
     });
   };

@@ -122,11 +122,7 @@ export class SweepState {
     }
     let violation = this.violationOf(result.metrics, offset);
     if (count) {
-      for (let c = 0; c < this.constraints.length; c++) {
-        const value = result.metrics[offset + this.constraintColumns[c]!]!;
-        const { min, max } = this.constraints[c]!;
-        if (!Number.isFinite(value) || (min !== undefined && value < min) || (max !== undefined && value > max)) this.rejectedBy[c]!++;
-      }
+      for (let c = 0; c < this.constraints.length; c++) if (this.constraintMiss(result.metrics, offset, c) !== null) this.rejectedBy[c]!++;
     }
     const objectives = this.objectiveVector(result.metrics, offset);
     let reason: string | null = null;
@@ -144,15 +140,18 @@ export class SweepState {
     return { violation, objectives: objectives ?? new Float64Array(this.objectives.length), reason };
   }
 
-  /** The stored row of one result row (dimension values, metrics with null, status, reason). */
-  rowOf(result: BatchResult, row: number, dimensionCount: number): CandidateRow {
+  /**
+   * The stored row of one result row (dimension values, metrics with null, status, reason). Give the
+   * reason when classifyRow already found it, so the row is not classified twice.
+   */
+  rowOf(result: BatchResult, row: number, dimensionCount: number, reason = this.classifyRow(result, row).reason): CandidateRow {
     const metricCount = METRIC_KEYS.length;
     const offset = row * metricCount;
     return {
       values: Array.from(result.values.subarray(row * dimensionCount, (row + 1) * dimensionCount)),
       metrics: Array.from(result.metrics.subarray(offset, offset + metricCount), (v) => (Number.isFinite(v) ? v : null)),
       status: result.status[row]!,
-      reason: this.classifyRow(result, row).reason,
+      reason,
       warnings: result.warningCounts[row]!,
     };
   }
@@ -162,8 +161,8 @@ export class SweepState {
     const metricCount = METRIC_KEYS.length;
     for (let row = 0; row < result.count; row++) {
       const index = result.start + row;
-      const { violation, objectives } = this.classifyRow(result, row, true);
-      this.pool.offerWith({ index, violation, objectives }, () => packRow(this.rowOf(result, row, dimensionCount)));
+      const { violation, objectives, reason } = this.classifyRow(result, row, true);
+      this.pool.offerWith({ index, violation, objectives }, () => packRow(this.rowOf(result, row, dimensionCount, reason)));
       if (violation === 0) {
         const offset = row * metricCount;
         const sampleRow: number[] = new Array(dimensionCount + metricCount);
@@ -177,14 +176,22 @@ export class SweepState {
   /** Which constraints a row violates, in words: 'resonant_frequency below its min; overall_height above its max'. */
   describeViolation(metrics: ArrayLike<number>, offset = 0): string {
     const parts: string[] = [];
+    const words = { missing: 'not available', below: 'below its min', above: 'above its max' };
     for (let c = 0; c < this.constraints.length; c++) {
-      const value = metrics[offset + this.constraintColumns[c]!]!;
-      const { metric, min, max } = this.constraints[c]!;
-      if (!Number.isFinite(value)) parts.push(`${metric} not available`);
-      else if (min !== undefined && value < min) parts.push(`${metric} below its min`);
-      else if (max !== undefined && value > max) parts.push(`${metric} above its max`);
+      const miss = this.constraintMiss(metrics, offset, c);
+      if (miss !== null) parts.push(`${this.constraints[c]!.metric} ${words[miss]}`);
     }
     return parts.join('; ');
+  }
+
+  /** How a metrics row misses constraint c: its metric missing, below its min, above its max, or null. */
+  private constraintMiss(metrics: ArrayLike<number>, offset: number, c: number): 'missing' | 'below' | 'above' | null {
+    const value = metrics[offset + this.constraintColumns[c]!]!;
+    const { min, max } = this.constraints[c]!;
+    if (!Number.isFinite(value)) return 'missing';
+    if (min !== undefined && value < min) return 'below';
+    if (max !== undefined && value > max) return 'above';
+    return null;
   }
 
   /** Adds another state (another shard's): the result is the state of the union of their designs. */
