@@ -16,5 +16,5 @@ export function examplesDirectory(): string {
 export async function demoCommand(options: { workers?: number }, io: CliIo): Promise<number> {
   const spec = join(examplesDirectory(), 'sweeps', 'science-centre-ceiling.yaml');
   io.err(`demo: sweeping ${spec} into runs/demo\n`);
-  return sweepCommand(spec, { out: 'runs/demo', overwrite: true, keep: 1000, checkpointEvery: '5s', ...(options.workers !== undefined ? { workers: options.workers } : {}) }, io);
+  return sweepCommand(spec, { out: 'runs/demo', overwrite: true, checkpointEvery: '5s', ...(options.workers !== undefined ? { workers: options.workers } : {}) }, io);
 }

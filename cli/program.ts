@@ -130,7 +130,7 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .option('--out <dir>', 'directory for the results (must be empty unless --overwrite)')
     .option('--resume <dir>', 'continue an interrupted run in this directory')
     .option('--workers <n>', 'worker threads (default: available parallelism; 0 evaluates in the main thread)', integer('--workers'))
-    .option('--keep <k>', 'candidates to keep and rank exactly', integer('--keep'), 1000)
+    .option('--keep <k>', 'candidates to keep and rank exactly (default: 1000, or the resumed run\'s)', integer('--keep'))
     .option('--all', 'also write all.csv with every evaluated design')
     .option('--shard <k/N>', 'evaluate slice k of N of the sample indices')
     .option('--shard-count <n>', 'number of shards when the scheduler gives only an index', integer('--shard-count'))

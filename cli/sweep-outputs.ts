@@ -112,8 +112,14 @@ function summaryStatistics(spec: SweepSpec, state: SweepState): { quantiles: Rec
 }
 
 /** The summary.json object (timing under "timing", the only part that differs between equal runs). */
-export function summaryObject(spec: SweepSpec, state: SweepState, identity: RunIdentity, timing: Timing, complete: boolean): Record<string, unknown> {
-  const front = sortedFront(state);
+export function summaryObject(
+  spec: SweepSpec,
+  state: SweepState,
+  identity: RunIdentity,
+  timing: Timing,
+  complete: boolean,
+  front: readonly RankedEntry<PackedRow>[] = sortedFront(state),
+): Record<string, unknown> {
   const { quantiles, sensitivities } = summaryStatistics(spec, state);
   return {
     format: 'coilfront-summary',
@@ -170,7 +176,7 @@ export async function writeSweepOutputs(
   writeFileAtomicSync(join(directory, 'candidates.csv'), toCsv(columns.header, rankedRows(spec.dimensions, ranked)));
   writeFileAtomicSync(join(directory, 'infeasible.csv'), toCsv(columns.header, rankedRows(spec.dimensions, misses)));
   writeFileAtomicSync(join(directory, 'front.csv'), toCsv(columns.header, rankedRows(spec.dimensions, front)));
-  writeFileAtomicSync(join(directory, 'summary.json'), `${JSON.stringify(summaryObject(spec, state, identity, timing, complete), null, 2)}\n`);
+  writeFileAtomicSync(join(directory, 'summary.json'), `${JSON.stringify(summaryObject(spec, state, identity, timing, complete, front), null, 2)}\n`);
   const svg = await frontPlotSvg(spec.objectives, ranked.map((entry) => unpackRow(entry.payload)), front.map((entry) => unpackRow(entry.payload)));
   writeFileAtomicSync(join(directory, 'front.svg'), svg);
 }
