@@ -152,13 +152,7 @@ export function acquireRunLock(directory: string, options: RunLockOptions = {}):
   const temporary = join(directory, `.${RUN_LOCK_FILE}.${holder.token}.tmp`);
   try {
     mkdirSync(directory, { recursive: true });
-    const fd = fileSystem.openSync(temporary, 'wx', 0o644);
-    try {
-      writeAllSync(fileSystem, fd, Buffer.from(text, 'utf8'));
-      fileSystem.fsyncSync(fd);
-    } finally {
-      fileSystem.closeSync(fd);
-    }
+    createDurably(fileSystem, temporary, text);
   } catch (error) {
     throw toDiskError(error, path, 'lock');
   }
@@ -241,6 +235,11 @@ function createLockFile(fileSystem: DurableFileSystem, temporary: string, path: 
     const code = (error as { code?: string }).code;
     if (code !== 'EPERM' && code !== 'ENOTSUP' && code !== 'ENOSYS' && code !== 'EOPNOTSUPP') throw error;
   }
+  createDurably(fileSystem, path, text);
+}
+
+/** Creates `path` (it must not exist), writes `text` and forces it to the disk. */
+function createDurably(fileSystem: DurableFileSystem, path: string, text: string): void {
   const fd = fileSystem.openSync(path, 'wx', 0o644);
   try {
     writeAllSync(fileSystem, fd, Buffer.from(text, 'utf8'));
