@@ -18,6 +18,8 @@
  * changes the cost. Not exported from the package barrel: CandidatePool's engine.
  */
 
+import { dominatesAt } from './dominates.ts';
+
 const LEAF_SIZE = 16;
 
 export class DominanceIndex {
@@ -58,30 +60,12 @@ export class DominanceIndex {
 
   /** Does the stored point in `slot` dominate p (minimisation)? */
   private slotDominates(slot: number, point: ArrayLike<number>): boolean {
-    const m = this.dimensions;
-    const base = slot * m;
-    let strictly = false;
-    for (let j = 0; j < m; j++) {
-      const q = this.objectives[base + j];
-      const p = point[j];
-      if (q > p) return false;
-      if (q < p) strictly = true;
-    }
-    return strictly;
+    return dominatesAt(this.objectives, slot * this.dimensions, point, 0, this.dimensions);
   }
 
   /** Does p dominate the stored point in `slot`? */
   private dominatesSlot(point: ArrayLike<number>, slot: number): boolean {
-    const m = this.dimensions;
-    const base = slot * m;
-    let strictly = false;
-    for (let j = 0; j < m; j++) {
-      const q = this.objectives[base + j];
-      const p = point[j];
-      if (p > q) return false;
-      if (p < q) strictly = true;
-    }
-    return strictly;
+    return dominatesAt(point, 0, this.objectives, slot * this.dimensions, this.dimensions);
   }
 
   /**

@@ -7,10 +7,18 @@
  * @example dominates([1, 2], [1, 3]) // true; dominates([1, 2], [1, 2]) // false
  */
 export function dominates(a: ArrayLike<number>, b: ArrayLike<number>): boolean {
+  return dominatesAt(a, 0, b, 0, a.length);
+}
+
+/**
+ * The same test on vectors stored inside flat arrays: does a[aOffset …] dominate b[bOffset …], m
+ * objectives each? (The candidate pool's index keeps its points in one Float64Array.)
+ */
+export function dominatesAt(a: ArrayLike<number>, aOffset: number, b: ArrayLike<number>, bOffset: number, m: number): boolean {
   let strictlyBetter = false;
-  for (let j = 0; j < a.length; j++) {
-    const x = a[j];
-    const y = b[j];
+  for (let j = 0; j < m; j++) {
+    const x = a[aOffset + j];
+    const y = b[bOffset + j];
     if (x < y) strictlyBetter = true;
     else if (!(x === y)) return false; // x > y, or NaN on either side
   }
