@@ -9,7 +9,7 @@ import type { Design } from '../core/design.ts';
 import type { Evaluation } from '../core/evaluate.ts';
 import { createDesignPool, defaultWorkerCount } from '../workers/pool.ts';
 import { evaluationJson } from './evaluate-command.ts';
-import { InputError } from './input-error.ts';
+import { fieldError, InputError } from './input-error.ts';
 import type { CliIo } from './io.ts';
 import { designFromValue, type LoadedDesign } from './load-design.ts';
 
@@ -60,7 +60,7 @@ export async function batchEvaluate(file: string, io: CliIo, options: { workers?
             if (evaluation.problems.length > 0) {
               bad++;
               const problem = evaluation.problems[0]!;
-              return JSON.stringify({ line: l.line, error: `${l.where}: ${problem.field}: ${problem.reason}` });
+              return JSON.stringify({ line: l.line, error: fieldError(l.where, { path: problem.field.split('.'), message: problem.reason }).message });
             }
             return JSON.stringify({ line: l.line, ...evaluationJson(l.loaded.tree, evaluation) });
           })

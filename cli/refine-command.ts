@@ -69,9 +69,7 @@ export async function refineCommand(directory: string, options: RefineCommandOpt
     join(directory, RUN_FILES.refinedDesigns),
     `${JSON.stringify(refinedRanked.map((entry, i) => ({ rank: i + 1, values: unpackRow(entry.payload).values })), null, 1)}\n`,
   );
-  const mergedState = new SweepState(spec.objectives, spec.constraints, record.keep, spec.seed);
-  mergedState.pool = outcome.merged;
-  const front = sortedFront(mergedState);
+  const front = sortedFront(outcome.merged);
   const frontRows = rankedRows(spec.dimensions, front);
   front.forEach((entry, i) => {
     if (entry.item.index >= spec.samples) frontRows[i]![indexColumn] = null;

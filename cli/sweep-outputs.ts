@@ -10,7 +10,7 @@ import { quantileSorted, sampleRankCorrelation } from 'simple-statistics';
 import { METRIC_KEYS } from '../core/metrics.ts';
 import type { Dimension } from '../optimize/design-tree.ts';
 import { defaultReferencePoint, hypervolume } from '../optimize/pareto/hypervolume.ts';
-import type { RankedEntry } from '../optimize/pareto/candidate-pool.ts';
+import type { CandidatePool, RankedEntry } from '../optimize/pareto/candidate-pool.ts';
 import type { SweepState } from '../optimize/sweep-state.ts';
 import { unpackRow, type PackedRow } from '../optimize/packed-row.ts';
 import { toCsv, type Cell } from './csv.ts';
@@ -59,8 +59,8 @@ export function rankedRows(dimensions: readonly Dimension[], ranked: readonly Ra
 }
 
 /** The front in a stable order for plotting: by the first objective, then the others, then index. */
-export function sortedFront(state: SweepState): RankedEntry<PackedRow>[] {
-  const front = state.pool.front().map((entry) => ({ ...entry, paretoRank: 1, crowding: 0 }));
+export function sortedFront(pool: CandidatePool<PackedRow>): RankedEntry<PackedRow>[] {
+  const front = pool.front().map((entry) => ({ ...entry, paretoRank: 1, crowding: 0 }));
   front.sort((a, b) => {
     for (let j = 0; j < a.item.objectives.length; j++) {
       const difference = a.item.objectives[j]! - b.item.objectives[j]!;
@@ -118,7 +118,7 @@ export function summaryObject(
   identity: RunIdentity,
   timing: Timing,
   complete: boolean,
-  front: readonly RankedEntry<PackedRow>[] = sortedFront(state),
+  front: readonly RankedEntry<PackedRow>[] = sortedFront(state.pool),
 ): Record<string, unknown> {
   const { quantiles, sensitivities } = summaryStatistics(spec, state);
   return {
@@ -159,7 +159,7 @@ export function outputEntries(state: SweepState, keep: number): {
     .sort((a, b) => a.item.violation - b.item.violation || a.item.index - b.item.index)
     .slice(0, keep)
     .map((entry) => ({ ...entry, paretoRank: 0, crowding: 0 }));
-  return { ranked, misses, front: sortedFront(state) };
+  return { ranked, misses, front: sortedFront(state.pool) };
 }
 
 /** Writes candidates.csv, infeasible.csv, front.csv and summary.json into `directory`. */
