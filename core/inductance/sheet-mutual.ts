@@ -8,7 +8,7 @@
  * is only the Euler–Maclaurin end terms (p²/24)·f′, below 10⁻⁴ for real windings.
  */
 import { coaxialLoopMutualInductance } from './coaxial-loops.ts';
-import { gaussLegendreRule } from './gauss-legendre.ts';
+import { gaussLegendreRule } from '../gauss-legendre.ts';
 
 /** A single-layer winding seen as a coaxial current sheet, SI; z above the floor. */
 export interface WindingSheet {

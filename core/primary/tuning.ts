@@ -4,16 +4,6 @@
  */
 import { primaryInductanceAtTap, type PrimaryInductanceTable } from './inductance.ts';
 
-/**
- * Resonant frequency of an LC circuit, Hz: f = 1 / (2π √(L C)).
- * @param inductance H, > 0
- * @param capacitance F, > 0
- * Source: Thomson's formula for the lossless LC circuit.
- */
-export function lcResonantFrequency(inductance: number, capacitance: number): number {
-  return 1 / (2 * Math.PI * Math.sqrt(inductance * capacitance));
-}
-
 /** Where the tuning landed. */
 export interface TuningResult {
   /** Tap in turns from the inner end, within [minimumTap, maximumTap]. */

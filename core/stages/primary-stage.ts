@@ -24,7 +24,8 @@
 import type { EvalContext, PrimaryGeometry } from '../context.ts';
 import { MAX_PRIMARY_TURNS, primaryRings } from '../primary/rings.ts';
 import { primaryConductorLength, primaryInductanceAtTap, primaryInductanceTable } from '../primary/inductance.ts';
-import { lcResonantFrequency, tuneTap } from '../primary/tuning.ts';
+import { tuneTap } from '../primary/tuning.ts';
+import { lcResonantFrequency } from '../capacitance/resonance.ts';
 import { couplingCoefficient, ringMutualInductances, tappedMutualInductance } from '../coupling.ts';
 
 /** A length in millimetres for messages. */

@@ -9,7 +9,7 @@ import { roundWireSolenoidInductance } from '../../core/inductance/rosa.ts';
 import { loopSumSolenoidInductance } from '../../core/inductance/filament-sum.ts';
 import { ringToSheetMutualInductance, ringToTurnsMutualInductance } from '../../core/inductance/sheet-mutual.ts';
 import { currentSheetInductance } from '../../core/inductance/nagaoka.ts';
-import { gaussLegendreRule } from '../../core/inductance/gauss-legendre.ts';
+import { gaussLegendreRule } from '../../core/gauss-legendre.ts';
 
 const SEED = 20261201;
 

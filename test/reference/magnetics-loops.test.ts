@@ -5,7 +5,7 @@
 import { describe, expect, test } from 'vitest';
 import { coaxialLoopMutualInductance } from '../../core/inductance/coaxial-loops.ts';
 import { loopSelfInductance } from '../../core/inductance/loop.ts';
-import { gaussLegendreRule } from '../../core/inductance/gauss-legendre.ts';
+import { gaussLegendreRule } from '../../core/gauss-legendre.ts';
 import { ellipticKE, ellipticKEComplement } from '../../core/elliptic.ts';
 
 const MU0 = 4e-7 * Math.PI;
