@@ -1,7 +1,7 @@
 /**
  * Mutual inductance of two coaxial circular filaments (Maxwell's formula).
  */
-import { agmSeries } from './agm-series.ts';
+import { agmSeries } from '../elliptic.ts';
 import { VACUUM_PERMEABILITY } from './vacuum.ts';
 
 /**

@@ -2,7 +2,7 @@
  * Inductance of a uniform cylindrical current sheet: Lorenz's formula written with Nagaoka's
  * coefficient, L_s = μ0 N² π a² / l · K_N(D/l).
  */
-import { agmSeries } from './agm-series.ts';
+import { agmSeries } from '../elliptic.ts';
 import { VACUUM_PERMEABILITY } from './vacuum.ts';
 
 /**
