@@ -13,6 +13,7 @@ import { prepareOutputDirectory, readRunRecord, RUN_FILES, writeRunRecord, type 
 import { checkCoverage } from './shard.ts';
 import { loadRunSpec } from './sweep-command.ts';
 import { writeSweepOutputs } from './sweep-outputs.ts';
+import { SAFETY_LINE } from './safety.ts';
 
 export async function mergeCommand(directories: string[], options: { out?: string; overwrite?: boolean }, io: CliIo): Promise<number> {
   if (options.out === undefined) throw new InputError('--out: required: the directory for the merged results');
@@ -69,6 +70,6 @@ export async function mergeCommand(directories: string[], options: { out?: strin
     });
     writeFileAtomicSync(join(options.out, RUN_FILES.all), text);
   }
-  io.out(`merged ${records.length} shards (${state.counts.evaluated} designs, ${state.counts.feasible} feasible) into ${options.out}\n`);
+  io.out(`merged ${records.length} shards (${state.counts.evaluated} designs, ${state.counts.feasible} feasible) into ${options.out}\n${SAFETY_LINE}\n`);
   return 0;
 }
