@@ -52,10 +52,14 @@ export async function benchDynamics(options: { runs?: number } = {}): Promise<st
     const microseconds = timePerCall(Math.ceil(runs / 20), (i) => {
       sink += solidStateBurst(circuit, { driveVoltage: 340 + i * 1e-3, onTime }).peakVoltage;
     });
-    lines.push(`  solid-state burst, ${(onTime * 1e6).toFixed(0)} µs on-time (${(onTime * 138e3).toFixed(0)} cycles): ${microseconds.toFixed(1)} µs`);
+    lines.push(
+      `  solid-state burst, ${(onTime * 1e6).toFixed(0)} µs on-time (${(onTime * 138e3).toFixed(0)} cycles): ${microseconds.toFixed(1)} µs`,
+    );
   }
   const resistance = timePerCall(runs, (i) => {
-    sink += solenoidAcResistance(28.1, 628.3, 0.7e-3, 0.8e-3, 138e3 + i) + roundConductorAcResistance(7.2, 3.175e-3, 1.7e-8, 138e3 + i);
+    sink +=
+      solenoidAcResistance(28.1, 628.3, 0.7e-3, 0.8e-3, 138e3 + i) +
+      roundConductorAcResistance(7.2, 3.175e-3, 1.7e-8, 138e3 + i);
   });
   lines.push(`  secondary + primary AC resistance: ${resistance.toFixed(2)} µs`);
   if (!Number.isFinite(sink)) lines.push('  (non-finite result: check the physics)');

@@ -47,15 +47,27 @@ const DEMO_ARRANGEMENTS: Array<[string, FieldArrangement]> = [
   ],
   [
     'sphere 300 mm on a 100 mm × 0.6 m winding',
-    { winding: { radius: 0.05, bottomZ: 0.6, topZ: 1.2, profile: 'linear' }, topload: { shape: 'sphere', radius: 0.15, centerZ: 1.4 }, floor: true },
+    {
+      winding: { radius: 0.05, bottomZ: 0.6, topZ: 1.2, profile: 'linear' },
+      topload: { shape: 'sphere', radius: 0.15, centerZ: 1.4 },
+      floor: true,
+    },
   ],
-  ['bare winding 200 mm × 0.9 m', { winding: { radius: 0.1, bottomZ: 0.5, topZ: 1.4, profile: 'linear' }, floor: true }],
-  ['toroid 800×200 mm alone at 1.5 m', { topload: { shape: 'toroid', majorRadius: 0.3, minorRadius: 0.1, centerZ: 1.5 }, floor: true }],
+  [
+    'bare winding 200 mm × 0.9 m',
+    { winding: { radius: 0.1, bottomZ: 0.5, topZ: 1.4, profile: 'linear' }, floor: true },
+  ],
+  [
+    'toroid 800×200 mm alone at 1.5 m',
+    { topload: { shape: 'toroid', majorRadius: 0.3, minorRadius: 0.1, centerZ: 1.5 }, floor: true },
+  ],
 ];
 
 export async function benchElectrostatics(options: { runs?: number } = {}): Promise<string[]> {
   const runs = options.runs ?? 2000;
-  const lines: string[] = [`electrostatics: CPU time per field solve, best of 5 batches of ${Math.ceil(runs / 5)} (one thread)`];
+  const lines: string[] = [
+    `electrostatics: CPU time per field solve, best of 5 batches of ${Math.ceil(runs / 5)} (one thread)`,
+  ];
   let sink = 0;
   for (const [name, arrangement] of DEMO_ARRANGEMENTS) {
     const solution = solveField(arrangement)!;
@@ -76,9 +88,22 @@ export async function benchElectrostatics(options: { runs?: number } = {}): Prom
     );
   }
   const design: Design = {
-    secondary: { formDiameter: 0.16, wire: { bareDiameter: 0.0007, insulation: 'grade2' }, turns: 1000, baseHeight: 0.45, voltageProfile: 'linear' },
+    secondary: {
+      formDiameter: 0.16,
+      wire: { bareDiameter: 0.0007, insulation: 'grade2' },
+      turns: 1000,
+      baseHeight: 0.45,
+      voltageProfile: 'linear',
+    },
     topload: { shape: 'toroid', outerDiameter: 0.61, tubeDiameter: 0.15, heightAboveWinding: 0.04 },
-    primary: { shape: 'flat_spiral', innerDiameter: 0.23, turns: 10, conductorDiameter: 0.00635, turnSpacing: 0.006, elevation: 0 },
+    primary: {
+      shape: 'flat_spiral',
+      innerDiameter: 0.23,
+      turns: 10,
+      conductorDiameter: 0.00635,
+      turnSpacing: 0.006,
+      elevation: 0,
+    },
     environment: { altitude: 200, temperature: 293.15 },
   };
   const stageMicroseconds = timePerCall(runs, () => {
@@ -88,14 +113,25 @@ export async function benchElectrostatics(options: { runs?: number } = {}): Prom
       warnings: [],
       problems: [],
       secondary: {
-        turns: 1000, pitch: 0.0008, windingLength: 0.8, radius: 0.0804, bareDiameter: 0.0007, overallDiameter: 0.00076,
-        bottomZ: 0.45, topZ: 1.25, inductance: 0.03, dcResistance: 20, wireLength: 505,
+        turns: 1000,
+        pitch: 0.0008,
+        windingLength: 0.8,
+        radius: 0.0804,
+        bareDiameter: 0.0007,
+        overallDiameter: 0.00076,
+        bottomZ: 0.45,
+        topZ: 1.25,
+        inductance: 0.03,
+        dcResistance: 20,
+        wireLength: 505,
       },
     };
     electrostaticsStage(context);
     sink += context.metrics.total_capacitance ?? 0;
   });
-  lines.push(`  electrostatics stage (toroid, winding, 10-turn primary): ${stageMicroseconds.toFixed(0)} µs per design`);
+  lines.push(
+    `  electrostatics stage (toroid, winding, 10-turn primary): ${stageMicroseconds.toFixed(0)} µs per design`,
+  );
   if (!Number.isFinite(sink)) lines.push('  (non-finite result in the benchmark)');
   return lines;
 }

@@ -75,7 +75,9 @@ export async function benchPareto(options: { offers?: number; keep?: number } = 
     const started = performance.now();
     for (let i = 0; i < offers; i++) sample.offer(i, row);
     const seconds = (performance.now() - started) / 1000;
-    lines.push(`  IndexSample(10 000): ${Math.round(offers / seconds).toLocaleString('en-US')} offers/s, kept ${sample.size}`);
+    lines.push(
+      `  IndexSample(10 000): ${Math.round(offers / seconds).toLocaleString('en-US')} offers/s, kept ${sample.size}`,
+    );
   }
   for (const method of ['sobol', 'lhs', 'random'] as const) {
     const sampler = createSampler({ method, dimensions: 20, seed: 5, samples: offers });

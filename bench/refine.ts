@@ -29,12 +29,26 @@ export async function benchRefine(options: BenchRefineOptions = {}): Promise<str
       let sobolGain = 0;
       let refineSeconds = 0;
       for (const seed of seeds) {
-        const outcome = await compareOnce(problem, dimensions, initialSamples, budget, seed, options.starts ?? 8, options.tolerance ?? 1e-4, options.runs ?? 4);
+        const outcome = await compareOnce(
+          problem,
+          dimensions,
+          initialSamples,
+          budget,
+          seed,
+          options.starts ?? 8,
+          options.tolerance ?? 1e-4,
+          options.runs ?? 4,
+        );
         refineGain += outcome.refineGain / seeds.length;
         sobolGain += outcome.sobolGain / seeds.length;
         refineSeconds += outcome.refineSeconds;
       }
-      const ratio = sobolGain > 0 ? `${(refineGain / sobolGain).toFixed(1)}×` : refineGain > 0 ? 'Sobol gained nothing' : 'neither gained';
+      const ratio =
+        sobolGain > 0
+          ? `${(refineGain / sobolGain).toFixed(1)}×`
+          : refineGain > 0
+            ? 'Sobol gained nothing'
+            : 'neither gained';
       lines.push(
         `  ${problem.name} n=${String(dimensions).padStart(2)}: refine +${refineGain.toFixed(4)}, Sobol +${sobolGain.toFixed(4)}, ratio ${ratio}` +
           ` (refine engine time ${((refineSeconds / seeds.length) * 1000).toFixed(0)} ms per run)`,
@@ -62,7 +76,16 @@ export interface BenchRefineOptions {
 
 type Problem = (x: ArrayLike<number>) => [number, number];
 
-async function compareOnce(problem: Problem, dimensions: number, initialSamples: number, budget: number, seed: number, startCount: number, tolerance: number, runs: number) {
+async function compareOnce(
+  problem: Problem,
+  dimensions: number,
+  initialSamples: number,
+  budget: number,
+  seed: number,
+  startCount: number,
+  tolerance: number,
+  runs: number,
+) {
   const reference: [number, number] = [1.1, 1.1];
   const sampler = createSobolSampler(dimensions, seed);
   const pointAt = (index: number): Float64Array => {
@@ -79,13 +102,21 @@ async function compareOnce(problem: Problem, dimensions: number, initialSamples:
 
   const started = performance.now();
   const frontIndices = nondominatedIndices(objectives);
-  const plan = planChebyshevStarts(frontIndices.map((i) => objectives[i]), startCount);
+  const plan = planChebyshevStarts(
+    frontIndices.map((i) => objectives[i]),
+    startCount,
+  );
   const perStart = Math.floor(budget / plan.starts.length);
-  const cache = new EvaluationCache<[number, number]>(async (points: MixedPoint[]) => points.map((p) => problem(p.continuous)));
+  const cache = new EvaluationCache<[number, number]>(async (points: MixedPoint[]) =>
+    points.map((p) => problem(p.continuous)),
+  );
   await refineStarts(
     plan.starts.map((start) => ({ continuous: sample[frontIndices[start.frontIndex]] })),
     cache,
-    (index) => (record) => ({ violation: 0, value: chebyshevMerit(record, plan.starts[index].weights, plan.reference, plan.nadir) }),
+    (index) => (record) => ({
+      violation: 0,
+      value: chebyshevMerit(record, plan.starts[index].weights, plan.reference, plan.nadir),
+    }),
     { maxEvaluations: perStart, maxNelderMeadRuns: runs, nelderMead: { xatol: tolerance, fatol: tolerance } },
   );
   const refineSeconds = (performance.now() - started) / 1000;
@@ -115,7 +146,9 @@ function zdtG(x: ArrayLike<number>): number {
 }
 
 function hypervolume2d(points: ReadonlyArray<ArrayLike<number>>, reference: readonly [number, number]): number {
-  const inside = points.filter((p) => p[0] < reference[0] && p[1] < reference[1]).sort((a, b) => a[0] - b[0] || a[1] - b[1]);
+  const inside = points
+    .filter((p) => p[0] < reference[0] && p[1] < reference[1])
+    .sort((a, b) => a[0] - b[0] || a[1] - b[1]);
   let area = 0;
   let ceiling = reference[1];
   for (const p of inside) {

@@ -17,7 +17,11 @@ const sections: Array<[string, () => Promise<string[]>]> = [
   ['pareto machinery', () => benchPareto(long ? {} : { offers: 200_000 })],
   ['refinement engine (ZDT)', () => benchRefine()],
 ];
-if (!quick) sections.push(['sweeps (real processes)', () => benchSweep(long ? { rssSamples: [20_000, 200_000, 1_000_000] } : {})]);
+if (!quick)
+  sections.push([
+    'sweeps (real processes)',
+    () => benchSweep(long ? { rssSamples: [20_000, 200_000, 1_000_000] } : {}),
+  ]);
 
 for (const [title, run] of sections) {
   console.log(`\n== ${title}`);

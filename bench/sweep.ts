@@ -57,13 +57,22 @@ export async function benchSweep(options: { samples?: number; rssSamples?: numbe
   const out2 = mkdtempSync(join(tmpdir(), 'coilfront-bench-w2-'));
   const one = runCli(['sweep', spec, '--out', out1, '--overwrite', '--workers', '1', '--quiet']);
   const two = runCli(['sweep', spec, '--out', out2, '--overwrite', '--workers', '2', '--quiet']);
-  const loop = (directory: string) => (JSON.parse(readFileSync(join(directory, 'summary.json'), 'utf8')) as { timing: { wall_seconds: number } }).timing.wall_seconds;
+  const loop = (directory: string) =>
+    (JSON.parse(readFileSync(join(directory, 'summary.json'), 'utf8')) as { timing: { wall_seconds: number } }).timing
+      .wall_seconds;
   const [loop1, loop2] = [loop(out1), loop(out2)];
   lines.push(`sweep, demo scenario, full model, ${samples} designs (process wall time; sweep loop from summary.json):`);
-  lines.push(`  1 worker : ${one.seconds.toFixed(2)} s (loop ${loop1.toFixed(2)} s, ${(samples / loop1).toFixed(0)} designs/s per core), peak RSS ${one.maxRssMb.toFixed(0)} MB`);
-  lines.push(`  2 workers: ${two.seconds.toFixed(2)} s (loop ${loop2.toFixed(2)} s, ${(samples / loop2).toFixed(0)} designs/s), peak RSS ${two.maxRssMb.toFixed(0)} MB`);
-  lines.push(`  speed-up 2 vs 1 workers: ${(one.seconds / two.seconds).toFixed(2)}x whole process, ${(loop1 / loop2).toFixed(2)}x sweep loop (target >= 1.8)`);
-  const identical = readFileSync(join(out1, 'candidates.csv'), 'utf8') === readFileSync(join(out2, 'candidates.csv'), 'utf8');
+  lines.push(
+    `  1 worker : ${one.seconds.toFixed(2)} s (loop ${loop1.toFixed(2)} s, ${(samples / loop1).toFixed(0)} designs/s per core), peak RSS ${one.maxRssMb.toFixed(0)} MB`,
+  );
+  lines.push(
+    `  2 workers: ${two.seconds.toFixed(2)} s (loop ${loop2.toFixed(2)} s, ${(samples / loop2).toFixed(0)} designs/s), peak RSS ${two.maxRssMb.toFixed(0)} MB`,
+  );
+  lines.push(
+    `  speed-up 2 vs 1 workers: ${(one.seconds / two.seconds).toFixed(2)}x whole process, ${(loop1 / loop2).toFixed(2)}x sweep loop (target >= 1.8)`,
+  );
+  const identical =
+    readFileSync(join(out1, 'candidates.csv'), 'utf8') === readFileSync(join(out2, 'candidates.csv'), 'utf8');
   lines.push(`  candidates.csv identical for 1 and 2 workers: ${identical}`);
 
   // Memory against the sample count, on the demo scenario (the full model).
@@ -71,7 +80,9 @@ export async function benchSweep(options: { samples?: number; rssSamples?: numbe
     const out = mkdtempSync(join(tmpdir(), 'coilfront-bench-rss-'));
     const run = runCli(['sweep', specWith(count), '--out', out, '--overwrite', '--workers', '2', '--quiet']);
     const summary = JSON.parse(readFileSync(join(out, 'summary.json'), 'utf8')) as { front_size: number };
-    lines.push(`peak RSS, demo scenario, ${count} samples (default --keep 1000, 2 workers): ${run.maxRssMb.toFixed(0)} MB in ${run.seconds.toFixed(1)} s, front ${summary.front_size}${run.status !== 0 ? ` (exit ${run.status})` : ''}`);
+    lines.push(
+      `peak RSS, demo scenario, ${count} samples (default --keep 1000, 2 workers): ${run.maxRssMb.toFixed(0)} MB in ${run.seconds.toFixed(1)} s, front ${summary.front_size}${run.status !== 0 ? ` (exit ${run.status})` : ''}`,
+    );
   }
 
   // refine vs more Sobol samples, both from the same 1024-sample sweep.
@@ -101,8 +112,14 @@ export async function benchSweep(options: { samples?: number; rssSamples?: numbe
   const hv0 = hypervolume(frontBefore, reference);
   const hvRefine = hypervolume(frontRefined, reference);
   const hvMore = hypervolume(frontMore, reference);
-  lines.push(`refine vs Sobol on the demo scenario (${base} samples, then ${budget} evaluations each; objectives in kV and kg):`);
-  lines.push(`  hypervolume: base ${hv0.toFixed(3)}, +refine ${hvRefine.toFixed(3)} (gain ${(hvRefine - hv0).toFixed(3)}), +${budget} Sobol ${hvMore.toFixed(3)} (gain ${(hvMore - hv0).toFixed(3)})`);
-  lines.push(`  ratio of gains refine/Sobol: ${((hvRefine - hv0) / Math.max(1e-12, hvMore - hv0)).toFixed(2)}x (target >= 3)`);
+  lines.push(
+    `refine vs Sobol on the demo scenario (${base} samples, then ${budget} evaluations each; objectives in kV and kg):`,
+  );
+  lines.push(
+    `  hypervolume: base ${hv0.toFixed(3)}, +refine ${hvRefine.toFixed(3)} (gain ${(hvRefine - hv0).toFixed(3)}), +${budget} Sobol ${hvMore.toFixed(3)} (gain ${(hvMore - hv0).toFixed(3)})`,
+  );
+  lines.push(
+    `  ratio of gains refine/Sobol: ${((hvRefine - hv0) / Math.max(1e-12, hvMore - hv0)).toFixed(2)}x (target >= 3)`,
+  );
   return lines;
 }

@@ -72,6 +72,14 @@ export function decodeBatchRecord(bytes: Uint8Array): JournaledBatch {
   return {
     generation: header.generation,
     batch: header.batch,
-    result: { start: header.start, count: header.count, values, metrics, status, reasons: header.reasons, warningCounts },
+    result: {
+      start: header.start,
+      count: header.count,
+      values,
+      metrics,
+      status,
+      reasons: header.reasons,
+      warningCounts,
+    },
   };
 }

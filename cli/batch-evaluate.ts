@@ -60,7 +60,10 @@ export async function batchEvaluate(file: string, io: CliIo, options: { workers?
             if (evaluation.problems.length > 0) {
               bad++;
               const problem = evaluation.problems[0]!;
-              return JSON.stringify({ line: l.line, error: fieldError(l.where, { path: problem.field.split('.'), message: problem.reason }).message });
+              return JSON.stringify({
+                line: l.line,
+                error: fieldError(l.where, { path: problem.field.split('.'), message: problem.reason }).message,
+              });
             }
             return JSON.stringify({ line: l.line, ...evaluationJson(l.loaded.tree, evaluation) });
           })
@@ -86,11 +89,13 @@ export async function batchEvaluate(file: string, io: CliIo, options: { workers?
     if (chunk.length > 0) send();
     await drain(true);
   } catch (error) {
-    if (openError) throw new InputError(`${file}: cannot be read (${(openError as NodeJS.ErrnoException).code ?? 'error'})`);
+    if (openError)
+      throw new InputError(`${file}: cannot be read (${(openError as NodeJS.ErrnoException).code ?? 'error'})`);
     throw error;
   } finally {
     await pool.close();
   }
-  if (openError) throw new InputError(`${file}: cannot be read (${(openError as NodeJS.ErrnoException).code ?? 'error'})`);
+  if (openError)
+    throw new InputError(`${file}: cannot be read (${(openError as NodeJS.ErrnoException).code ?? 'error'})`);
   return bad > 0 ? 2 : 0;
 }

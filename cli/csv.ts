@@ -26,11 +26,16 @@ function cellText(cell: Cell): string {
 
 /** CSV text of a header and rows (with a trailing newline). */
 export function toCsv(header: readonly string[], rows: readonly (readonly Cell[])[]): string {
-  return stringify([header.map((h) => guardText(h)), ...rows.map((row) => row.map(cellText))], { record_delimiter: '\n' });
+  return stringify([header.map((h) => guardText(h)), ...rows.map((row) => row.map(cellText))], {
+    record_delimiter: '\n',
+  });
 }
 
 /** CSV text of rows only (for streaming appends). */
 export function csvRows(rows: readonly (readonly Cell[])[]): string {
   if (rows.length === 0) return '';
-  return stringify(rows.map((row) => row.map(cellText)), { record_delimiter: '\n' });
+  return stringify(
+    rows.map((row) => row.map(cellText)),
+    { record_delimiter: '\n' },
+  );
 }

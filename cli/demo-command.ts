@@ -10,11 +10,22 @@ import { sweepCommand } from './sweep-command.ts';
 /** The repository's examples folder, from src or dist. */
 export function examplesDirectory(): string {
   const here = dirname(fileURLToPath(import.meta.url));
-  return here.includes(`${'/'}dist${'/'}`) || here.endsWith('/dist/cli') ? resolve(here, '..', '..', 'examples') : resolve(here, '..', 'examples');
+  return here.includes(`${'/'}dist${'/'}`) || here.endsWith('/dist/cli')
+    ? resolve(here, '..', '..', 'examples')
+    : resolve(here, '..', 'examples');
 }
 
 export async function demoCommand(options: { workers?: number }, io: CliIo): Promise<number> {
   const spec = join(examplesDirectory(), 'sweeps', 'science-centre-ceiling.yaml');
   io.err(`demo: sweeping ${spec} into runs/demo\n`);
-  return sweepCommand(spec, { out: 'runs/demo', overwrite: true, checkpointEvery: '5s', ...(options.workers !== undefined ? { workers: options.workers } : {}) }, io);
+  return sweepCommand(
+    spec,
+    {
+      out: 'runs/demo',
+      overwrite: true,
+      checkpointEvery: '5s',
+      ...(options.workers !== undefined ? { workers: options.workers } : {}),
+    },
+    io,
+  );
 }

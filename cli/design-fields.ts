@@ -63,7 +63,11 @@ export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
       pitch: length('axial distance between turn centres; close-wound (the insulated diameter) when absent', {
         optional: true,
       }),
-      base_height: length('bottom of the winding above the floor', { range: 'nonnegative', optional: true, default: 0 }),
+      base_height: length('bottom of the winding above the floor', {
+        range: 'nonnegative',
+        optional: true,
+        default: 0,
+      }),
       voltage_profile: {
         type: 'enum',
         values: ['linear', 'quarter_wave'],
@@ -101,7 +105,12 @@ export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
     optional: true,
     fields: {
       inner_diameter: length("diameter of the innermost ring, to the conductor's centre line"),
-      turns: { type: 'quantity', kind: 'dimensionless', range: 'positive', description: 'number of rings (a fraction makes the last ring partial)' },
+      turns: {
+        type: 'quantity',
+        kind: 'dimensionless',
+        range: 'positive',
+        description: 'number of rings (a fraction makes the last ring partial)',
+      },
       conductor_diameter: length('diameter of the conductor (tube or wire)'),
       turn_spacing: length('gap between neighbouring conductors; pitch = conductor diameter + spacing', {
         range: 'nonnegative',
@@ -173,7 +182,13 @@ export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
       key: 'kind',
       forms: {
         spark_gap: {
-          gap: { type: 'enum', values: ['static', 'rotary'], optional: true, default: 'static', description: 'kind of gap' },
+          gap: {
+            type: 'enum',
+            values: ['static', 'rotary'],
+            optional: true,
+            default: 'static',
+            description: 'kind of gap',
+          },
           break_rate: { type: 'quantity', kind: 'frequency', range: 'positive', description: 'firings per second' },
           gap_resistance: {
             type: 'quantity',
@@ -190,7 +205,13 @@ export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
           },
         },
         solid_state: {
-          bridge: { type: 'enum', values: ['full', 'half'], optional: true, default: 'full', description: 'bridge topology' },
+          bridge: {
+            type: 'enum',
+            values: ['full', 'half'],
+            optional: true,
+            default: 'full',
+            description: 'bridge topology',
+          },
           bus_voltage: { type: 'quantity', kind: 'voltage', range: 'positive', description: 'DC bus voltage' },
           current_limit: {
             type: 'quantity',
@@ -199,7 +220,13 @@ export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
             optional: true,
             description: 'primary peak current at which the burst is cut short',
           },
-          on_time: { type: 'quantity', kind: 'time', range: 'positive', optional: true, description: 'length of one burst' },
+          on_time: {
+            type: 'quantity',
+            kind: 'time',
+            range: 'positive',
+            optional: true,
+            description: 'length of one burst',
+          },
           cycles: {
             type: 'quantity',
             kind: 'dimensionless',

@@ -13,10 +13,24 @@ import { stringify as yamlStringify } from 'yaml';
 import { DESIGN_SECTIONS, sectionFields, type FieldSpec, type SectionSpec } from './design-fields.ts';
 import { describeValue, readQuantity, describeKind } from './units.ts';
 import type { InputIssue } from './input-error.ts';
-import type { Dimension, DimensionSlot, LeafValue, NormalSection, NormalTree, WireValue } from '../optimize/design-tree.ts';
+import type {
+  Dimension,
+  DimensionSlot,
+  LeafValue,
+  NormalSection,
+  NormalTree,
+  WireValue,
+} from '../optimize/design-tree.ts';
 import { suggest } from './suggest.ts';
 
-export type { Dimension, DimensionSlot, LeafValue, NormalSection, NormalTree, WireValue } from '../optimize/design-tree.ts';
+export type {
+  Dimension,
+  DimensionSlot,
+  LeafValue,
+  NormalSection,
+  NormalTree,
+  WireValue,
+} from '../optimize/design-tree.ts';
 
 type Mode = 'design' | 'sweep';
 
@@ -32,7 +46,9 @@ function isMapping(value: unknown): value is Record<string, unknown> {
 
 function unknownKeyMessage(key: string, known: string[]): string {
   const guess = suggest(key, known);
-  return guess ? `unknown key '${key}' (did you mean '${guess}'?)` : `unknown key '${key}'; expected one of ${known.join(', ')}`;
+  return guess
+    ? `unknown key '${key}' (did you mean '${guess}'?)`
+    : `unknown key '${key}'; expected one of ${known.join(', ')}`;
 }
 
 // ---------------------------------------------------------------- leaf schemas (zod)
@@ -72,7 +88,10 @@ function wireSchema() {
     }
     const diameter = readQuantity(input, 'length');
     if (!diameter.ok) {
-      context.addIssue({ code: 'custom', message: `expected a wire: 'AWG n' or a bare diameter like '0.6 mm', got ${describeValue(input)}` });
+      context.addIssue({
+        code: 'custom',
+        message: `expected a wire: 'AWG n' or a bare diameter like '0.6 mm', got ${describeValue(input)}`,
+      });
       return z.NEVER;
     }
     if (!(diameter.value > 0)) {
@@ -80,7 +99,10 @@ function wireSchema() {
       return z.NEVER;
     }
     if (diameter.value > 0.02) {
-      context.addIssue({ code: 'custom', message: `a wire diameter of ${describeValue(input)} is not a winding wire (above 20 mm)` });
+      context.addIssue({
+        code: 'custom',
+        message: `a wire diameter of ${describeValue(input)} is not a winding wire (above 20 mm)`,
+      });
       return z.NEVER;
     }
     return { bareDiameter: diameter.value };
@@ -88,7 +110,12 @@ function wireSchema() {
 }
 
 function rangePhrase(field: FieldSpec & { type: 'quantity' }): string {
-  const what = field.kind === 'dimensionless' ? (field.integer ? 'integer' : 'number') : describeKind(field.kind).replace(/^an? /, '');
+  const what =
+    field.kind === 'dimensionless'
+      ? field.integer
+        ? 'integer'
+        : 'number'
+      : describeKind(field.kind).replace(/^an? /, '');
   switch (field.range) {
     case 'positive':
       return `a positive ${what}`;
@@ -118,7 +145,10 @@ function quantitySchema(field: FieldSpec & { type: 'quantity' }) {
             ? value > 0 && value <= 1
             : true;
     if (!inRange || (field.integer && !Number.isInteger(value))) {
-      context.addIssue({ code: 'custom', message: `expected ${field.integer ? rangePhrase(field).replace('number', 'integer') : rangePhrase(field)}, got ${describeValue(input)}` });
+      context.addIssue({
+        code: 'custom',
+        message: `expected ${field.integer ? rangePhrase(field).replace('number', 'integer') : rangePhrase(field)}, got ${describeValue(input)}`,
+      });
       return z.NEVER;
     }
     return value;
@@ -157,11 +187,19 @@ export function leafSchema(field: FieldSpec): z.ZodType<LeafValue> {
   return schema;
 }
 
-function readLeaf(field: FieldSpec, input: unknown, path: Array<string | number>, issues: InputIssue[]): LeafValue | undefined {
+function readLeaf(
+  field: FieldSpec,
+  input: unknown,
+  path: Array<string | number>,
+  issues: InputIssue[],
+): LeafValue | undefined {
   const result = leafSchema(field).safeParse(input);
   if (result.success) return result.data;
   const issue = result.error.issues[0]!;
-  issues.push({ path: [...path, ...issue.path.map((p) => (typeof p === 'symbol' ? String(p) : p))], message: issue.message });
+  issues.push({
+    path: [...path, ...issue.path.map((p) => (typeof p === 'symbol' ? String(p) : p))],
+    message: issue.message,
+  });
   return undefined;
 }
 
@@ -169,10 +207,18 @@ function readLeaf(field: FieldSpec, input: unknown, path: Array<string | number>
 
 const RANGE_KEYS = ['from', 'to', 'integer', 'scale', 'step'];
 
-function readRange(field: FieldSpec, input: Record<string, unknown>, path: string[], state: WalkState): DimensionSlot | undefined {
+function readRange(
+  field: FieldSpec,
+  input: Record<string, unknown>,
+  path: string[],
+  state: WalkState,
+): DimensionSlot | undefined {
   const issues = state.issues;
   if (field.type !== 'quantity') {
-    issues.push({ path, message: `a range needs a numeric field; use { choose: [...] } for ${field.type === 'wire' ? 'wire sizes' : 'this field'}` });
+    issues.push({
+      path,
+      message: `a range needs a numeric field; use { choose: [...] } for ${field.type === 'wire' ? 'wire sizes' : 'this field'}`,
+    });
     return undefined;
   }
   for (const key of Object.keys(input)) {
@@ -204,7 +250,10 @@ function readRange(field: FieldSpec, input: Record<string, unknown>, path: strin
   let integer = false;
   if (input.integer !== undefined) {
     if (typeof input.integer !== 'boolean') {
-      issues.push({ path: [...path, 'integer'], message: `expected true or false, got ${describeValue(input.integer)}` });
+      issues.push({
+        path: [...path, 'integer'],
+        message: `expected true or false, got ${describeValue(input.integer)}`,
+      });
       return undefined;
     }
     integer = input.integer;
@@ -218,7 +267,10 @@ function readRange(field: FieldSpec, input: Record<string, unknown>, path: strin
     scale = input.scale;
   }
   if (scale === 'log' && !(from > 0)) {
-    issues.push({ path: [...path, 'from'], message: `a log-scale range needs a positive 'from', got ${describeValue(input.from)}` });
+    issues.push({
+      path: [...path, 'from'],
+      message: `a log-scale range needs a positive 'from', got ${describeValue(input.from)}`,
+    });
     return undefined;
   }
   let step: number | null = null;
@@ -236,7 +288,16 @@ function readRange(field: FieldSpec, input: Record<string, unknown>, path: strin
     issues.push({ path, message: `no integer lies between ${from} and ${to}` });
     return undefined;
   }
-  state.dimensions.push({ kind: 'range', path, quantity: field.kind, from, to, scale, integer: integer || (field.integer ?? false), step });
+  state.dimensions.push({
+    kind: 'range',
+    path,
+    quantity: field.kind,
+    from,
+    to,
+    scale,
+    integer: integer || (field.integer ?? false),
+    step,
+  });
   return { slot: state.dimensions.length - 1 };
 }
 
@@ -259,7 +320,10 @@ function readChoose(
   }
   const items = input.choose;
   if (!Array.isArray(items)) {
-    state.issues.push({ path: [...path, 'choose'], message: `expected a list of choices, got ${describeValue(items)}` });
+    state.issues.push({
+      path: [...path, 'choose'],
+      message: `expected a list of choices, got ${describeValue(items)}`,
+    });
     return undefined;
   }
   if (items.length === 0) {
@@ -286,8 +350,14 @@ function readSection(
   state: WalkState,
 ): NormalSection | DimensionSlot | undefined {
   if (state.mode === 'sweep' && isMapping(input) && 'choose' in input) {
-    return readChoose(input, path, state, (item, itemPath) =>
-      readSection(name, section, item, itemPath as string[], { ...state, mode: 'design' }) as NormalSection | undefined,
+    return readChoose(
+      input,
+      path,
+      state,
+      (item, itemPath) =>
+        readSection(name, section, item, itemPath as string[], { ...state, mode: 'design' }) as
+          | NormalSection
+          | undefined,
     );
   }
   if (!isMapping(input)) {
@@ -374,7 +444,10 @@ export function readDesignTree(input: unknown, mode: Mode, basePath: string[] = 
   const state: WalkState = { mode, issues: [], dimensions: [] };
   const tree: NormalTree = {};
   if (!isMapping(input)) {
-    state.issues.push({ path: basePath, message: `expected a mapping of sections (secondary, topload, primary, …), got ${describeValue(input)}` });
+    state.issues.push({
+      path: basePath,
+      message: `expected a mapping of sections (secondary, topload, primary, …), got ${describeValue(input)}`,
+    });
     return { tree, dimensions: [], issues: state.issues };
   }
   const names = Object.keys(DESIGN_SECTIONS);
@@ -383,7 +456,9 @@ export function readDesignTree(input: unknown, mode: Mode, basePath: string[] = 
       const sweepKey = mode === 'design' && ['design', 'objectives', 'constraints', 'sweep'].includes(key);
       state.issues.push({
         path: [...basePath, key],
-        message: sweepKey ? `unknown key '${key}': this looks like a sweep file (use coilfront check or coilfront sweep)` : unknownKeyMessage(key, names),
+        message: sweepKey
+          ? `unknown key '${key}': this looks like a sweep file (use coilfront check or coilfront sweep)`
+          : unknownKeyMessage(key, names),
       });
       return { tree, dimensions: [], issues: state.issues };
     }
@@ -398,6 +473,9 @@ export function readDesignTree(input: unknown, mode: Mode, basePath: string[] = 
   if (state.issues.length === 0 && !('secondary' in tree) && !('topload' in tree)) {
     state.issues.push({ path: basePath, message: 'a design needs a secondary, a topload, or both' });
   }
-  const dimensions = state.dimensions.map((dimension) => ({ ...dimension, path: dimension.path.slice(basePath.length) }));
+  const dimensions = state.dimensions.map((dimension) => ({
+    ...dimension,
+    path: dimension.path.slice(basePath.length),
+  }));
   return { tree, dimensions, issues: state.issues };
 }

@@ -47,7 +47,8 @@ export function parseDuration(text: string, options: ParseDurationOptions = {}):
     while (trimmed[position] === ' ') position++;
   }
   if (!Number.isFinite(seconds)) throw expected(' (too long)');
-  if (seconds === 0 && !options.allowZero) throw optionError(option, `expected a duration longer than zero, got '${text}'`);
+  if (seconds === 0 && !options.allowZero)
+    throw optionError(option, `expected a duration longer than zero, got '${text}'`);
   return seconds;
 }
 
@@ -59,7 +60,8 @@ export function parseDuration(text: string, options: ParseDurationOptions = {}):
  * @example formatDuration(5400) // '1h30m'
  */
 export function formatDuration(seconds: number): string {
-  if (!Number.isFinite(seconds) || seconds < 0) throw new RangeError(`formatDuration needs a finite duration of 0 s or more, got ${seconds}`);
+  if (!Number.isFinite(seconds) || seconds < 0)
+    throw new RangeError(`formatDuration needs a finite duration of 0 s or more, got ${seconds}`);
   if (seconds < 1) return `${Math.round(seconds * 1000)}ms`;
   let remaining = Math.round(seconds);
   let text = '';

@@ -17,7 +17,10 @@ export function* jsonChunks(value: unknown, arrayChunk = 64): Generator<string> 
     for (let i = 0; i < value.length; i++) {
       if (i > 0) yield ',';
       const item = value[i];
-      yield* jsonChunks(item === undefined || typeof item === 'function' || typeof item === 'symbol' ? null : item, arrayChunk);
+      yield* jsonChunks(
+        item === undefined || typeof item === 'function' || typeof item === 'symbol' ? null : item,
+        arrayChunk,
+      );
     }
     yield ']';
     return;

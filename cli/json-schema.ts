@@ -17,7 +17,10 @@ function leaf(field: FieldSpec): Schema {
       if (field.range === 'nonnegative') number.minimum = 0;
       if (field.range === 'fraction') number.maximum = 1;
       if (units.length === 0) return { ...number, description: field.description };
-      return { description: `${field.description} (SI number, or a string with a unit: ${units.join(', ')})`, oneOf: [number, { type: 'string', pattern: '^\\s*[+-]?(\\d+(\\.\\d*)?|\\.\\d+)([eE][+-]?\\d+)?\\s*\\S*\\s*$' }] };
+      return {
+        description: `${field.description} (SI number, or a string with a unit: ${units.join(', ')})`,
+        oneOf: [number, { type: 'string', pattern: '^\\s*[+-]?(\\d+(\\.\\d*)?|\\.\\d+)([eE][+-]?\\d+)?\\s*\\S*\\s*$' }],
+      };
     }
     case 'enum':
       return { enum: [...field.values], description: field.description };
@@ -30,11 +33,22 @@ function leaf(field: FieldSpec): Schema {
 
 function sweepLeaf(field: FieldSpec): Schema {
   const value = leaf(field);
-  const choose = { type: 'object', properties: { choose: { type: 'array', minItems: 1, items: value } }, required: ['choose'], additionalProperties: false };
+  const choose = {
+    type: 'object',
+    properties: { choose: { type: 'array', minItems: 1, items: value } },
+    required: ['choose'],
+    additionalProperties: false,
+  };
   if (field.type !== 'quantity') return { anyOf: [value, choose] };
   const range = {
     type: 'object',
-    properties: { from: value, to: value, integer: { type: 'boolean' }, scale: { enum: ['linear', 'log'] }, step: value },
+    properties: {
+      from: value,
+      to: value,
+      integer: { type: 'boolean' },
+      scale: { enum: ['linear', 'log'] },
+      step: value,
+    },
     required: ['from', 'to'],
     additionalProperties: false,
   };
@@ -49,12 +63,30 @@ function section(spec: SectionSpec, sweep: boolean): Schema {
     const properties: Schema = {};
     if (spec.variants) properties[spec.variants.key] = { const: form };
     for (const [key, field] of Object.entries(fields)) properties[key] = make(field);
-    const required = [...(spec.variants ? [spec.variants.key] : []), ...Object.entries(fields).filter(([, f]) => !f.optional).map(([k]) => k)];
+    const required = [
+      ...(spec.variants ? [spec.variants.key] : []),
+      ...Object.entries(fields)
+        .filter(([, f]) => !f.optional)
+        .map(([k]) => k),
+    ];
     return { type: 'object', properties, required, additionalProperties: false };
   });
-  const body: Schema = variants.length === 1 ? { ...variants[0]!, description: spec.description } : { description: spec.description, oneOf: variants };
+  const body: Schema =
+    variants.length === 1
+      ? { ...variants[0]!, description: spec.description }
+      : { description: spec.description, oneOf: variants };
   if (!sweep) return body;
-  return { anyOf: [body, { type: 'object', properties: { choose: { type: 'array', minItems: 1, items: section(spec, false) } }, required: ['choose'], additionalProperties: false }] };
+  return {
+    anyOf: [
+      body,
+      {
+        type: 'object',
+        properties: { choose: { type: 'array', minItems: 1, items: section(spec, false) } },
+        required: ['choose'],
+        additionalProperties: false,
+      },
+    ],
+  };
 }
 
 export function designSchema(sweep = false): Schema {
@@ -76,13 +108,23 @@ export function sweepSchema(): Schema {
       constraints: {
         type: 'object',
         propertyNames: metric,
-        additionalProperties: { type: 'object', properties: { min: bound, max: bound }, additionalProperties: false, minProperties: 1 },
+        additionalProperties: {
+          type: 'object',
+          properties: { min: bound, max: bound },
+          additionalProperties: false,
+          minProperties: 1,
+        },
       },
       objectives: {
         type: 'array',
         minItems: 1,
         maxItems: 4,
-        items: { oneOf: [{ type: 'object', properties: { maximize: metric }, required: ['maximize'], additionalProperties: false }, { type: 'object', properties: { minimize: metric }, required: ['minimize'], additionalProperties: false }] },
+        items: {
+          oneOf: [
+            { type: 'object', properties: { maximize: metric }, required: ['maximize'], additionalProperties: false },
+            { type: 'object', properties: { minimize: metric }, required: ['minimize'], additionalProperties: false },
+          ],
+        },
       },
       sweep: {
         type: 'object',
@@ -103,5 +145,9 @@ export function sweepSchema(): Schema {
 }
 
 export function designFileSchema(): Schema {
-  return { $schema: 'https://json-schema.org/draft/2020-12/schema', title: 'coilfront design file', ...designSchema(false) };
+  return {
+    $schema: 'https://json-schema.org/draft/2020-12/schema',
+    title: 'coilfront design file',
+    ...designSchema(false),
+  };
 }

@@ -15,17 +15,29 @@ import { loadRunSpec } from './sweep-command.ts';
 import { writeSweepOutputs } from './sweep-outputs.ts';
 import { SAFETY_LINE } from './safety.ts';
 
-export async function mergeCommand(directories: string[], options: { out?: string; overwrite?: boolean }, io: CliIo): Promise<number> {
+export async function mergeCommand(
+  directories: string[],
+  options: { out?: string; overwrite?: boolean },
+  io: CliIo,
+): Promise<number> {
   if (options.out === undefined) throw new InputError('--out: required: the directory for the merged results');
   if (directories.length === 0) throw new InputError('merge: give the shard directories');
   const records = directories.map((directory) => ({ directory, record: readRunRecord(directory) }));
   const first = records[0]!;
   for (const { directory, record } of records) {
-    if (record.seed !== first.record.seed) throw new InputError(`merge: ${directory} used seed ${record.seed}, ${first.directory} seed ${first.record.seed}`);
+    if (record.seed !== first.record.seed)
+      throw new InputError(
+        `merge: ${directory} used seed ${record.seed}, ${first.directory} seed ${first.record.seed}`,
+      );
     if (record.spec_hash !== first.record.spec_hash) {
-      throw new InputError(`merge: ${directory} comes from another sweep file than ${first.directory} (spec hash ${record.spec_hash.slice(0, 12)} ≠ ${first.record.spec_hash.slice(0, 12)})`);
+      throw new InputError(
+        `merge: ${directory} comes from another sweep file than ${first.directory} (spec hash ${record.spec_hash.slice(0, 12)} ≠ ${first.record.spec_hash.slice(0, 12)})`,
+      );
     }
-    if (record.keep !== first.record.keep) throw new InputError(`merge: ${directory} kept ${record.keep} candidates, ${first.directory} ${first.record.keep}; use the same --keep`);
+    if (record.keep !== first.record.keep)
+      throw new InputError(
+        `merge: ${directory} kept ${record.keep} candidates, ${first.directory} ${first.record.keep}; use the same --keep`,
+      );
   }
   const total = first.record.samples;
   const problems = checkCoverage(
@@ -42,9 +54,16 @@ export async function mergeCommand(directories: string[], options: { out?: strin
   const state = new SweepState(spec.objectives, spec.constraints, first.record.keep, spec.seed);
   for (const { directory } of records) {
     const path = join(directory, RUN_FILES.checkpoint);
-    if (!existsSync(path)) throw new InputError(`merge: ${directory} has no checkpoint; finish it with coilfront sweep --resume ${directory}`);
-    const checkpoint = JSON.parse(readFileSync(path, 'utf8')) as { complete: boolean; state: Parameters<typeof SweepState.restore>[0] };
-    if (!checkpoint.complete) throw new InputError(`merge: ${directory} is not finished; finish it with coilfront sweep --resume ${directory}`);
+    if (!existsSync(path))
+      throw new InputError(
+        `merge: ${directory} has no checkpoint; finish it with coilfront sweep --resume ${directory}`,
+      );
+    const checkpoint = JSON.parse(readFileSync(path, 'utf8')) as {
+      complete: boolean;
+      state: Parameters<typeof SweepState.restore>[0];
+    };
+    if (!checkpoint.complete)
+      throw new InputError(`merge: ${directory} is not finished; finish it with coilfront sweep --resume ${directory}`);
     state.merge(SweepState.restore(checkpoint.state, spec.objectives, spec.constraints, first.record.keep, spec.seed));
   }
   prepareOutputDirectory(options.out, options.overwrite ?? false);
@@ -55,7 +74,15 @@ export async function mergeCommand(directories: string[], options: { out?: strin
     options.out,
     spec,
     state,
-    { specHash: spec.hash, seed: spec.seed, method: spec.method, samples: total, range: [0, total], shard: null, keep: record.keep },
+    {
+      specHash: spec.hash,
+      seed: spec.seed,
+      method: spec.method,
+      samples: total,
+      range: [0, total],
+      shard: null,
+      keep: record.keep,
+    },
     { wallSeconds: 0, designsPerSecond: 0, workers: 0 },
     true,
   );
@@ -70,6 +97,8 @@ export async function mergeCommand(directories: string[], options: { out?: strin
     });
     writeFileAtomicSync(join(options.out, RUN_FILES.all), text);
   }
-  io.out(`merged ${records.length} shards (${state.counts.evaluated} designs, ${state.counts.feasible} feasible) into ${options.out}\n${SAFETY_LINE}\n`);
+  io.out(
+    `merged ${records.length} shards (${state.counts.evaluated} designs, ${state.counts.feasible} feasible) into ${options.out}\n${SAFETY_LINE}\n`,
+  );
   return 0;
 }

@@ -29,10 +29,15 @@ function valueOf(row: CandidateRow, metric: string): number | null {
   return display ? value / display.divisor : value;
 }
 
-const CAUTION = 'Model estimates, not a safety assessment: tank and supply voltages are lethal — read the safety cautions.';
+const CAUTION =
+  'Model estimates, not a safety assessment: tank and supply voltages are lethal — read the safety cautions.';
 
 /** The SVG text of the run's plot. */
-export async function frontPlotSvg(objectives: readonly ObjectiveSpec[], candidates: readonly CandidateRow[], front: readonly CandidateRow[]): Promise<string> {
+export async function frontPlotSvg(
+  objectives: readonly ObjectiveSpec[],
+  candidates: readonly CandidateRow[],
+  front: readonly CandidateRow[],
+): Promise<string> {
   let spec: TopLevelSpec;
   if (objectives.length === 1) {
     const objective = objectives[0]!;
@@ -70,26 +75,41 @@ export async function frontPlotSvg(objectives: readonly ObjectiveSpec[], candida
             transform: [{ filter: "datum.set === 'candidates'" }],
             mark: { type: 'point' as const, filled: true, size: 10, color: '#b9b4a8', opacity: 0.7 },
             encoding: {
-              x: { field: 'x', type: 'quantitative' as const, title: axisTitle(objectives[0]!), scale: { zero: false } },
+              x: {
+                field: 'x',
+                type: 'quantitative' as const,
+                title: axisTitle(objectives[0]!),
+                scale: { zero: false },
+              },
               y: { field: 'y', type: 'quantitative' as const, title: axisTitle(other), scale: { zero: false } },
             },
           },
           {
             transform: [{ filter: "datum.set === 'front'" }],
             mark: { type: 'line' as const, interpolate: 'step-after' as const, color: '#7a2e1f', strokeWidth: 1 },
-            encoding: { x: { field: 'x', type: 'quantitative' as const }, y: { field: 'y', type: 'quantitative' as const }, order: { field: 'x', type: 'quantitative' as const } },
+            encoding: {
+              x: { field: 'x', type: 'quantitative' as const },
+              y: { field: 'y', type: 'quantitative' as const },
+              order: { field: 'x', type: 'quantitative' as const },
+            },
           },
           {
             transform: [{ filter: "datum.set === 'front'" }],
             mark: { type: 'point' as const, filled: true, size: 30, color: '#7a2e1f' },
-            encoding: { x: { field: 'x', type: 'quantitative' as const }, y: { field: 'y', type: 'quantitative' as const } },
+            encoding: {
+              x: { field: 'x', type: 'quantitative' as const },
+              y: { field: 'y', type: 'quantitative' as const },
+            },
           },
         ],
       };
     });
     spec = {
       $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
-      title: { text: `Trade-offs: ${front.length} non-dominated designs (dark) among ${candidates.length} ranked candidates`, subtitle: CAUTION },
+      title: {
+        text: `Trade-offs: ${front.length} non-dominated designs (dark) among ${candidates.length} ranked candidates`,
+        subtitle: CAUTION,
+      },
       hconcat: panels,
     } as TopLevelSpec;
   }

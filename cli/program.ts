@@ -21,7 +21,10 @@ import { refineCommand, type RefineCommandOptions } from './refine-command.ts';
 function packageVersion(): string {
   for (const candidate of ['../package.json', '../../package.json']) {
     try {
-      const data = JSON.parse(readFileSync(new URL(candidate, import.meta.url), 'utf8')) as { name?: string; version?: string };
+      const data = JSON.parse(readFileSync(new URL(candidate, import.meta.url), 'utf8')) as {
+        name?: string;
+        version?: string;
+      };
       if (data.name === 'coilfront' && data.version) return data.version;
     } catch {
       // try the next place
@@ -59,7 +62,11 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .action(async (file: string | undefined, options: { json?: boolean; batch?: string; workers?: number }) => {
       if (options.batch !== undefined) {
         if (file !== undefined) throw new InputError('evaluate: give a design file or --batch, not both');
-        exitCode = await batchEvaluate(options.batch, io, options.workers !== undefined ? { workers: options.workers } : {});
+        exitCode = await batchEvaluate(
+          options.batch,
+          io,
+          options.workers !== undefined ? { workers: options.workers } : {},
+        );
         return;
       }
       if (file === undefined) throw new InputError('evaluate: give a design file (or --batch FILE.jsonl)');
@@ -129,8 +136,16 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .argument('[spec]', 'sweep file, YAML or JSON (optional with --resume)')
     .option('--out <dir>', 'directory for the results (must be empty unless --overwrite)')
     .option('--resume <dir>', 'continue an interrupted run in this directory')
-    .option('--workers <n>', 'worker threads (default: available parallelism; 0 evaluates in the main thread)', integer('--workers'))
-    .option('--keep <k>', 'candidates to keep and rank exactly (default: 1000, or the resumed run\'s)', integer('--keep'))
+    .option(
+      '--workers <n>',
+      'worker threads (default: available parallelism; 0 evaluates in the main thread)',
+      integer('--workers'),
+    )
+    .option(
+      '--keep <k>',
+      "candidates to keep and rank exactly (default: 1000, or the resumed run's)",
+      integer('--keep'),
+    )
     .option('--all', 'also write all.csv with every evaluated design')
     .option('--shard <k/N>', 'evaluate slice k of N of the sample indices')
     .option('--shard-count <n>', 'number of shards when the scheduler gives only an index', integer('--shard-count'))
@@ -153,7 +168,8 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
       return error.exitCode;
     }
     if (error instanceof CommanderError) {
-      if (error.code === 'commander.helpDisplayed' || error.code === 'commander.version' || error.exitCode === 0) return 0;
+      if (error.code === 'commander.helpDisplayed' || error.code === 'commander.version' || error.exitCode === 0)
+        return 0;
       return 2;
     }
     const message = error instanceof Error ? error.message : String(error);

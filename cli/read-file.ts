@@ -17,7 +17,13 @@ export function readInputText(file: string): string {
   } catch (error) {
     const code = (error as NodeJS.ErrnoException).code;
     const reason =
-      code === 'ENOENT' ? 'no such file' : code === 'EISDIR' ? 'is a directory, not a file' : code === 'EACCES' ? 'permission denied' : `cannot be read (${code ?? 'unknown error'})`;
+      code === 'ENOENT'
+        ? 'no such file'
+        : code === 'EISDIR'
+          ? 'is a directory, not a file'
+          : code === 'EACCES'
+            ? 'permission denied'
+            : `cannot be read (${code ?? 'unknown error'})`;
     throw new InputError(`${file}: ${reason}`);
   }
   if (buffer.length > MAX_INPUT_BYTES) throw new InputError(`${file}: larger than 16 MiB; not a design or sweep file`);

@@ -33,19 +33,25 @@ export interface RefineCommandOptions {
 }
 
 export async function refineCommand(directory: string, options: RefineCommandOptions, io: CliIo): Promise<number> {
-  if (!Number.isInteger(options.starts) || options.starts < 1) throw optionError('--starts', `expected a whole number of at least 1, got ${options.starts}`);
-  if (!Number.isInteger(options.evaluations) || options.evaluations < 1) throw optionError('--evaluations', `expected a whole number of at least 1, got ${options.evaluations}`);
+  if (!Number.isInteger(options.starts) || options.starts < 1)
+    throw optionError('--starts', `expected a whole number of at least 1, got ${options.starts}`);
+  if (!Number.isInteger(options.evaluations) || options.evaluations < 1)
+    throw optionError('--evaluations', `expected a whole number of at least 1, got ${options.evaluations}`);
   const record = readRunRecord(directory);
   const spec = loadRunSpec(directory);
   const checkpointPath = join(directory, RUN_FILES.checkpoint);
-  if (!existsSync(checkpointPath)) throw new InputError(`${directory}: no checkpoint yet; let the sweep run (or resume it) first`);
-  const checkpoint = JSON.parse(readFileSync(checkpointPath, 'utf8')) as { state: Parameters<typeof SweepState.restore>[0] };
+  if (!existsSync(checkpointPath))
+    throw new InputError(`${directory}: no checkpoint yet; let the sweep run (or resume it) first`);
+  const checkpoint = JSON.parse(readFileSync(checkpointPath, 'utf8')) as {
+    state: Parameters<typeof SweepState.restore>[0];
+  };
   const state = SweepState.restore(checkpoint.state, spec.objectives, spec.constraints, record.keep, spec.seed);
   if (state.pool.size === 0) throw new InputError(`${directory}: the sweep has no candidates to refine`);
 
   const threads = options.workers ?? defaultWorkerCount();
   const space = new DesignSpace(spaceDefinitionOf(spec));
-  const evaluator: BatchEvaluator = threads === 0 ? inProcessEvaluator(space) : createWorkerPool(spaceDefinitionOf(spec), { threads });
+  const evaluator: BatchEvaluator =
+    threads === 0 ? inProcessEvaluator(space) : createWorkerPool(spaceDefinitionOf(spec), { threads });
   const started = performance.now();
   let outcome;
   try {
@@ -67,7 +73,11 @@ export async function refineCommand(directory: string, options: RefineCommandOpt
   writeFileAtomicSync(join(directory, RUN_FILES.refined), toCsv(columns.header, rows));
   writeFileAtomicSync(
     join(directory, RUN_FILES.refinedDesigns),
-    `${JSON.stringify(refinedRanked.map((entry, i) => ({ rank: i + 1, values: unpackRow(entry.payload).values })), null, 1)}\n`,
+    `${JSON.stringify(
+      refinedRanked.map((entry, i) => ({ rank: i + 1, values: unpackRow(entry.payload).values })),
+      null,
+      1,
+    )}\n`,
   );
   const front = sortedFront(outcome.merged);
   const frontRows = rankedRows(spec.dimensions, front);
@@ -77,10 +87,16 @@ export async function refineCommand(directory: string, options: RefineCommandOpt
   writeFileAtomicSync(join(directory, RUN_FILES.front), toCsv(columns.header, frontRows));
   writeFileAtomicSync(
     join(directory, 'front.svg'),
-    await frontPlotSvg(spec.objectives, refinedRanked.map((entry) => unpackRow(entry.payload)), front.map((entry) => unpackRow(entry.payload))),
+    await frontPlotSvg(
+      spec.objectives,
+      refinedRanked.map((entry) => unpackRow(entry.payload)),
+      front.map((entry) => unpackRow(entry.payload)),
+    ),
   );
   const summaryPath = join(directory, RUN_FILES.summary);
-  const summary = existsSync(summaryPath) ? (JSON.parse(readFileSync(summaryPath, 'utf8')) as Record<string, unknown>) : {};
+  const summary = existsSync(summaryPath)
+    ? (JSON.parse(readFileSync(summaryPath, 'utf8')) as Record<string, unknown>)
+    : {};
   const improved = outcome.startResults.filter((r) => r.improved).length;
   summary.refine = {
     starts: outcome.startResults.length,

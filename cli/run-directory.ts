@@ -65,7 +65,9 @@ export function prepareOutputDirectory(directory: string, overwrite: boolean): v
       entries = readdirSync(directory).filter((name) => name !== 'run.lock');
     } catch (error) {
       const code = (error as NodeJS.ErrnoException).code;
-      throw new InputError(`--out ${directory}: ${code === 'ENOTDIR' ? 'is a file, not a directory' : `cannot be read (${code ?? 'error'})`}`);
+      throw new InputError(
+        `--out ${directory}: ${code === 'ENOTDIR' ? 'is a file, not a directory' : `cannot be read (${code ?? 'error'})`}`,
+      );
     }
     if (entries.length > 0 && !overwrite) {
       throw new InputError(
@@ -76,7 +78,9 @@ export function prepareOutputDirectory(directory: string, overwrite: boolean): v
     try {
       mkdirSync(directory, { recursive: true });
     } catch (error) {
-      throw new InputError(`--out ${directory}: cannot create the directory (${(error as NodeJS.ErrnoException).code ?? 'error'})`);
+      throw new InputError(
+        `--out ${directory}: cannot create the directory (${(error as NodeJS.ErrnoException).code ?? 'error'})`,
+      );
     }
   }
 }

@@ -39,7 +39,8 @@ export type ShardEnvironment = Readonly<Record<string, string | undefined>>;
 export function parseShard(text: string, options: { option?: string } = {}): Shard {
   const option = options.option ?? '--shard';
   const match = /^\s*(\d+)\s*\/\s*(\d+)\s*$/.exec(text);
-  const fail = (hint = ''): InputError => optionError(option, `expected k/N with 1 <= k <= N, like 2/8, got '${text}'${hint}`);
+  const fail = (hint = ''): InputError =>
+    optionError(option, `expected k/N with 1 <= k <= N, like 2/8, got '${text}'${hint}`);
   if (match === null) throw fail();
   const index = Number(match[1]);
   const count = Number(match[2]);
@@ -141,7 +142,9 @@ function slurmShard(env: ShardEnvironment, id: number, givenCount: number | unde
   let count: number;
   if (minimum !== undefined && maximum !== undefined) {
     if (maximum < minimum || (maximum - minimum) % step !== 0) {
-      throw new InputError(`the Slurm array ${minimum}-${maximum}:${step} is not an evenly spaced range: give --shard k/N`);
+      throw new InputError(
+        `the Slurm array ${minimum}-${maximum}:${step} is not an evenly spaced range: give --shard k/N`,
+      );
     }
     count = (maximum - minimum) / step + 1;
     if (taskCount !== undefined && taskCount !== count) {
@@ -239,7 +242,8 @@ export function shardIndices(index: number, count: number, total: number): [star
   if (!Number.isSafeInteger(count) || count < 1 || !Number.isSafeInteger(index) || index < 1 || index > count) {
     throw new RangeError(`shardIndices needs whole numbers 1 <= index <= count, got ${index}/${count}`);
   }
-  if (!Number.isSafeInteger(total) || total < 0) throw new RangeError(`shardIndices needs a whole total >= 0, got ${total}`);
+  if (!Number.isSafeInteger(total) || total < 0)
+    throw new RangeError(`shardIndices needs a whole total >= 0, got ${total}`);
   const cut = (k: number): number => Number((BigInt(k) * BigInt(total)) / BigInt(count));
   return [cut(index - 1), cut(index)];
 }
@@ -278,7 +282,9 @@ export function checkCoverage(shards: readonly ShardCoverageEntry[], total: numb
   const byIndex = new Map<number, string[]>();
   for (const shard of shards) {
     if (shard.count !== count) {
-      problems.push(`${shard.label} holds shard ${shard.index}/${shard.count}, but the other shards are cut into ${count}`);
+      problems.push(
+        `${shard.label} holds shard ${shard.index}/${shard.count}, but the other shards are cut into ${count}`,
+      );
       continue;
     }
     if (!Number.isInteger(shard.index) || shard.index < 1 || shard.index > count) {

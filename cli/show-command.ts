@@ -29,7 +29,11 @@ export function treeToYaml(tree: NormalTree, heading: string[]): string {
       if (isSlot(value)) continue;
       const field = fields[key];
       if (typeof value === 'object') {
-        lines.push('awg' in value ? `  ${key}: AWG ${value.awg}` : `  ${key}: ${value.bareDiameter}  # ${formatNumber(value.bareDiameter * 1000, 6)} mm`);
+        lines.push(
+          'awg' in value
+            ? `  ${key}: AWG ${value.awg}`
+            : `  ${key}: ${value.bareDiameter}  # ${formatNumber(value.bareDiameter * 1000, 6)} mm`,
+        );
       } else if (typeof value === 'number' && field?.type === 'quantity' && field.kind !== 'dimensionless') {
         const display = KIND_DISPLAY[field.kind];
         lines.push(`  ${key}: ${value}  # ${formatNumber(value / display.divisor, 6)} ${display.label}`);
@@ -46,7 +50,12 @@ function readCsvRows(path: string): Record<string, string>[] {
   return parseCsv(readFileSync(path, 'utf8'), { columns: true, skip_empty_lines: true }) as Record<string, string>[];
 }
 
-export function showCommand(directory: string, rankText: string | undefined, options: { refined?: string }, io: CliIo): number {
+export function showCommand(
+  directory: string,
+  rankText: string | undefined,
+  options: { refined?: string },
+  io: CliIo,
+): number {
   const spec = loadRunSpec(directory);
   const space = new DesignSpace(spaceDefinitionOf(spec));
   const wanted = options.refined ?? rankText;
@@ -56,19 +65,31 @@ export function showCommand(directory: string, rankText: string | undefined, opt
   const rank = Number(wanted);
   if (options.refined !== undefined) {
     const path = join(directory, RUN_FILES.refinedDesigns);
-    if (!existsSync(path)) throw new InputError(`${directory}: no refined designs yet (run coilfront refine ${directory})`);
+    if (!existsSync(path))
+      throw new InputError(`${directory}: no refined designs yet (run coilfront refine ${directory})`);
     const designs = JSON.parse(readFileSync(path, 'utf8')) as { rank: number; values: number[] }[];
     const entry = designs.find((d) => d.rank === rank);
-    if (!entry) throw new InputError(`${directory}: there is no refined design of rank ${rank} (${designs.length} in refined.csv)`);
+    if (!entry)
+      throw new InputError(
+        `${directory}: there is no refined design of rank ${rank} (${designs.length} in refined.csv)`,
+      );
     const sampled = space.designOf(entry.values);
-    io.out(treeToYaml(sampled.tree, [`refined design ${rank} of ${directory}`, 'SI units; practical units in the comments']));
+    io.out(
+      treeToYaml(sampled.tree, [`refined design ${rank} of ${directory}`, 'SI units; practical units in the comments']),
+    );
     return 0;
   }
   const rows = readCsvRows(join(directory, RUN_FILES.candidates));
   const row = rows.find((r) => r.rank === String(rank));
-  if (!row) throw new InputError(`${directory}: there is no candidate of rank ${rank} (${rows.length} in candidates.csv)`);
+  if (!row)
+    throw new InputError(`${directory}: there is no candidate of rank ${rank} (${rows.length} in candidates.csv)`);
   const index = Number(row.sample_index);
   const sampled = space.designAt(index);
-  io.out(treeToYaml(sampled.tree, [`candidate ${rank} of ${directory} (sample ${index})`, 'SI units; practical units in the comments']));
+  io.out(
+    treeToYaml(sampled.tree, [
+      `candidate ${rank} of ${directory} (sample ${index})`,
+      'SI units; practical units in the comments',
+    ]),
+  );
   return 0;
 }

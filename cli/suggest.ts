@@ -67,7 +67,10 @@ export interface SuggestOptions {
 
 /** The spelling that typos are compared in: lower case, with '-' and spaces read as '_'. */
 function normalizedSpelling(word: string): string {
-  return word.trim().toLowerCase().replace(/[\s-]+/g, '_');
+  return word
+    .trim()
+    .toLowerCase()
+    .replace(/[\s-]+/g, '_');
 }
 
 /** The default largest distance for a word of this many characters (common practice, our own steps). */

@@ -36,7 +36,11 @@ export const TAIL_HEADERS = ['warnings', 'reason'];
 export function columnSet(dimensions: readonly Dimension[]): ColumnSet {
   const parameterHeaders = dimensions.map(parameterHeader);
   const metricHeaders = METRICS.map((m) => metricHeader(m.key, m.unit));
-  return { header: [...RANK_HEADERS, ...parameterHeaders, ...metricHeaders, ...TAIL_HEADERS], parameterHeaders, metricHeaders };
+  return {
+    header: [...RANK_HEADERS, ...parameterHeaders, ...metricHeaders, ...TAIL_HEADERS],
+    parameterHeaders,
+    metricHeaders,
+  };
 }
 
 /** The parameter cells of a candidate in display units (set choices by their label). */

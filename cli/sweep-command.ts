@@ -10,10 +10,26 @@
  * state depends on the set of designs and not on their order, the final files are byte-identical to an
  * uninterrupted run (summary.json's timing aside).
  */
-import { existsSync, readFileSync, rmSync, writeFileSync, openSync, closeSync, ftruncateSync, writeSync, fsyncSync } from 'node:fs';
+import {
+  existsSync,
+  readFileSync,
+  rmSync,
+  writeFileSync,
+  openSync,
+  closeSync,
+  ftruncateSync,
+  writeSync,
+  fsyncSync,
+} from 'node:fs';
 import { join } from 'node:path';
 import { DesignSpace, type SpaceDefinition } from '../optimize/design-space.ts';
-import { evaluateBatchTask, inProcessEvaluator, type BatchEvaluator, type BatchResult, type BatchTask } from '../optimize/evaluate-batch.ts';
+import {
+  evaluateBatchTask,
+  inProcessEvaluator,
+  type BatchEvaluator,
+  type BatchResult,
+  type BatchTask,
+} from '../optimize/evaluate-batch.ts';
 import { SweepState, type SweepStateData } from '../optimize/sweep-state.ts';
 import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
 import { decodeBatchRecord, encodeBatchRecord } from './batch-codec.ts';
@@ -27,7 +43,14 @@ import { installStopSignal, type StopSignal } from './durable/stop-signal.ts';
 import { parseDuration, formatDuration } from './duration.ts';
 import { InputError, optionError } from './input-error.ts';
 import type { CliIo } from './io.ts';
-import { journalName, prepareOutputDirectory, readRunRecord, RUN_FILES, writeRunRecord, type RunRecord } from './run-directory.ts';
+import {
+  journalName,
+  prepareOutputDirectory,
+  readRunRecord,
+  RUN_FILES,
+  writeRunRecord,
+  type RunRecord,
+} from './run-directory.ts';
 import { describeShard, resolveShard, shardIndices } from './shard.ts';
 import { candidateCells, columnSet } from './sweep-columns.ts';
 import { writeSweepOutputs, type RunIdentity } from './sweep-outputs.ts';
@@ -71,7 +94,14 @@ interface CheckpointData {
 
 /** The space definition a worker needs. */
 export function spaceDefinitionOf(spec: SweepSpec): SpaceDefinition {
-  return { tree: spec.tree, dimensions: spec.dimensions, method: spec.method, samples: spec.samples, seed: spec.seed, gridLevels: spec.gridLevels };
+  return {
+    tree: spec.tree,
+    dimensions: spec.dimensions,
+    method: spec.method,
+    samples: spec.samples,
+    seed: spec.seed,
+    gridLevels: spec.gridLevels,
+  };
 }
 
 /** Loads the sweep spec saved in a run directory. */
@@ -82,7 +112,10 @@ export function loadRunSpec(directory: string): SweepSpec {
 }
 
 /** Measures the time per design on this thread and picks a batch that runs for about 50 ms. */
-export function measureBatchSize(space: DesignSpace, range: [number, number]): { batchSize: number; secondsPerDesign: number } {
+export function measureBatchSize(
+  space: DesignSpace,
+  range: [number, number],
+): { batchSize: number; secondsPerDesign: number } {
   const probe = Math.max(1, Math.min(16, range[1] - range[0]));
   // A first pass warms the JIT compiler; the second, over the same designs, is timed.
   evaluateBatchTask(space, { kind: 'indices', start: range[0], count: Math.min(probe, 8) });
@@ -178,7 +211,8 @@ class OrderedCsvWriter {
 }
 
 function positiveInteger(value: number | undefined, option: string): void {
-  if (value !== undefined && (!Number.isInteger(value) || value < 0)) throw optionError(option, `expected a whole number, got ${value}`);
+  if (value !== undefined && (!Number.isInteger(value) || value < 0))
+    throw optionError(option, `expected a whole number, got ${value}`);
 }
 
 export async function sweepCommand(specFile: string | undefined, options: SweepOptions, io: CliIo): Promise<number> {
@@ -187,7 +221,8 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
     throw optionError('--keep', `expected a whole number of at least 1, got ${options.keep}`);
   }
   const journalSyncSeconds = parseDuration(options.checkpointEvery, { option: '--checkpoint-every' });
-  const timeLimitSeconds = options.timeLimit !== undefined ? parseDuration(options.timeLimit, { option: '--time-limit' }) : undefined;
+  const timeLimitSeconds =
+    options.timeLimit !== undefined ? parseDuration(options.timeLimit, { option: '--time-limit' }) : undefined;
   const log = (line: string) => {
     if (!options.quiet) io.err(`${line}\n`);
   };
@@ -198,20 +233,29 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
   let checkpoint: CheckpointData | null = null;
   if (options.resume !== undefined) {
     directory = options.resume;
-    if (options.out !== undefined && options.out !== directory) throw optionError('--out', 'give either --out DIR for a new run or --resume DIR, not both');
+    if (options.out !== undefined && options.out !== directory)
+      throw optionError('--out', 'give either --out DIR for a new run or --resume DIR, not both');
     record = readRunRecord(directory);
     spec = loadRunSpec(directory);
     if (specFile !== undefined) {
       const given = loadSweepFile(specFile, { force: true });
       if (given.seed !== record.seed) {
-        throw new InputError(`--resume ${directory}: refused: the run used seed ${record.seed}, ${specFile} has seed ${given.seed}`);
+        throw new InputError(
+          `--resume ${directory}: refused: the run used seed ${record.seed}, ${specFile} has seed ${given.seed}`,
+        );
       }
       if (given.hash !== record.spec_hash) {
-        throw new InputError(`--resume ${directory}: refused: ${specFile} is not the sweep file this run was started from (spec hash ${given.hash.slice(0, 12)} ≠ ${record.spec_hash.slice(0, 12)})`);
+        throw new InputError(
+          `--resume ${directory}: refused: ${specFile} is not the sweep file this run was started from (spec hash ${given.hash.slice(0, 12)} ≠ ${record.spec_hash.slice(0, 12)})`,
+        );
       }
     }
-    if (spec.hash !== record.spec_hash) throw new InputError(`--resume ${directory}: refused: spec.yaml was changed after the run started (spec hash differs)`);
-    if (options.keep !== undefined && options.keep !== record.keep) throw optionError('--keep', `the run was started with --keep ${record.keep}`);
+    if (spec.hash !== record.spec_hash)
+      throw new InputError(
+        `--resume ${directory}: refused: spec.yaml was changed after the run started (spec hash differs)`,
+      );
+    if (options.keep !== undefined && options.keep !== record.keep)
+      throw optionError('--keep', `the run was started with --keep ${record.keep}`);
     const checkpointPath = join(directory, RUN_FILES.checkpoint);
     if (existsSync(checkpointPath)) {
       try {
@@ -219,7 +263,8 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
       } catch {
         throw new InputError(`${checkpointPath}: damaged checkpoint; the run cannot be resumed`);
       }
-      if (checkpoint.spec_hash !== record.spec_hash) throw new InputError(`${checkpointPath}: belongs to another sweep (spec hash differs)`);
+      if (checkpoint.spec_hash !== record.spec_hash)
+        throw new InputError(`${checkpointPath}: belongs to another sweep (spec hash differs)`);
     }
   } else {
     if (specFile === undefined) throw new InputError('sweep: give a sweep file, or --resume DIR');
@@ -235,7 +280,9 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
     const range: [number, number] = shard ? shardIndices(shard.index, shard.count, spec.samples) : [0, spec.samples];
     prepareOutputDirectory(directory, options.overwrite ?? false);
     const space = new DesignSpace(spaceDefinitionOf(spec));
-    const measured = options.batchSize ? { batchSize: options.batchSize, secondsPerDesign: NaN } : measureBatchSize(space, range);
+    const measured = options.batchSize
+      ? { batchSize: options.batchSize, secondsPerDesign: NaN }
+      : measureBatchSize(space, range);
     record = {
       format: 'coilfront-run',
       version: 1,
@@ -254,22 +301,38 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
       writeFileSync(join(directory, RUN_FILES.spec), readFileSync(specFile));
       writeRunRecord(directory, record);
     } catch (error) {
-      throw error instanceof InputError ? error : new InputError((error instanceof DiskError ? error : toDiskError(error, directory, 'write')).message);
+      throw error instanceof InputError
+        ? error
+        : new InputError((error instanceof DiskError ? error : toDiskError(error, directory, 'write')).message);
     }
-    for (const name of [RUN_FILES.checkpoint, RUN_FILES.candidates, RUN_FILES.infeasible, RUN_FILES.front, RUN_FILES.plot, RUN_FILES.summary, RUN_FILES.all]) rmSync(join(directory, name), { force: true });
+    for (const name of [
+      RUN_FILES.checkpoint,
+      RUN_FILES.candidates,
+      RUN_FILES.infeasible,
+      RUN_FILES.front,
+      RUN_FILES.plot,
+      RUN_FILES.summary,
+      RUN_FILES.all,
+    ])
+      rmSync(join(directory, name), { force: true });
   }
 
   let lock: RunLock;
   try {
     lock = acquireRunLock(directory);
   } catch (error) {
-    if (error instanceof RunLockError || error instanceof DiskError) throw new InputError(`${directory}: ${error.message}`);
+    if (error instanceof RunLockError || error instanceof DiskError)
+      throw new InputError(`${directory}: ${error.message}`);
     throw error;
   }
   if (options.resume !== undefined) {
-    for (const leftover of removeLeftoverTemporaryFiles(directory)) log(`removed ${leftover}, left by a write that a crash cut off`);
+    for (const leftover of removeLeftoverTemporaryFiles(directory))
+      log(`removed ${leftover}, left by a write that a crash cut off`);
   }
-  if (record.shard) log(`${describeShard({ index: record.shard.index, count: record.shard.count, source: record.shard.source as 'flag' | 'slurm' | 'kubernetes' })}: sample indices ${record.range[0]} to ${record.range[1] - 1}`);
+  if (record.shard)
+    log(
+      `${describeShard({ index: record.shard.index, count: record.shard.count, source: record.shard.source as 'flag' | 'slurm' | 'kubernetes' })}: sample indices ${record.range[0]} to ${record.range[1] - 1}`,
+    );
   const runLoop = async (): Promise<number> => {
     const range = record.range;
     const batchSize = record.batch_size;
@@ -298,7 +361,12 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
     }
     const allPath = join(directory, RUN_FILES.all);
     const writer = record.all
-      ? new OrderedCsvWriter(allPath, toCsv(columns.header, []), checkpoint ? checkpoint.all_bytes : 0, checkpoint ? checkpoint.all_pending : {})
+      ? new OrderedCsvWriter(
+          allPath,
+          toCsv(columns.header, []),
+          checkpoint ? checkpoint.all_bytes : 0,
+          checkpoint ? checkpoint.all_pending : {},
+        )
       : null;
     if (writer && checkpoint) {
       // Rows of batches below the first pending one are already in the file.
@@ -342,7 +410,9 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
       if (contents.tornTail) log(`${journalPath}: a torn last record was dropped (the batch is evaluated again)`);
     }
     if (options.resume !== undefined) {
-      log(`resuming ${directory}: ${done.size} of ${batchCount} batches done${replayed ? ` (${replayed} from the journal)` : ''}`);
+      log(
+        `resuming ${directory}: ${done.size} of ${batchCount} batches done${replayed ? ` (${replayed} from the journal)` : ''}`,
+      );
     }
 
     let journal: Journal = openJournal(journalPath);
@@ -376,8 +446,17 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
     const evaluator: BatchEvaluator =
       threads === 0
         ? inProcessEvaluator(new DesignSpace(spaceDefinitionOf(spec)))
-        : createWorkerPool(spaceDefinitionOf(spec), { threads, onRetry: (task, reason) => log(`a worker failed (${reason}); retrying the batch at index ${task.kind === 'indices' ? task.start : '?'}`) });
-    const stop: StopSignal = installStopSignal({ ...(timeLimitSeconds !== undefined ? { timeLimitSeconds } : {}), log });
+        : createWorkerPool(spaceDefinitionOf(spec), {
+            threads,
+            onRetry: (task, reason) =>
+              log(
+                `a worker failed (${reason}); retrying the batch at index ${task.kind === 'indices' ? task.start : '?'}`,
+              ),
+          });
+    const stop: StopSignal = installStopSignal({
+      ...(timeLimitSeconds !== undefined ? { timeLimitSeconds } : {}),
+      log,
+    });
     const maxInFlight = Math.max(2, (threads || 1) * 3);
     const window = maxInFlight * 4;
     const inFlight = new Map<number, Promise<void>>();
@@ -442,13 +521,20 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
       stop.dispose();
     }
     if (failure !== null) {
-      const message = failure instanceof DiskError ? failure.message : failure instanceof Error ? failure.message : String(failure);
-      io.err(`coilfront: the sweep stopped: ${message}\n  the last good checkpoint in ${directory} can be resumed with: coilfront sweep --resume ${directory}\n`);
+      const message =
+        failure instanceof DiskError ? failure.message : failure instanceof Error ? failure.message : String(failure);
+      io.err(
+        `coilfront: the sweep stopped: ${message}\n  the last good checkpoint in ${directory} can be resumed with: coilfront sweep --resume ${directory}\n`,
+      );
       return 1;
     }
     const complete = done.size >= batchCount;
     const wallSeconds = (performance.now() - startedAt) / 1000;
-    const timing = { wallSeconds, designsPerSecond: ((done.size - startedDone) * batchSize) / Math.max(wallSeconds, 1e-9), workers: threads };
+    const timing = {
+      wallSeconds,
+      designsPerSecond: ((done.size - startedDone) * batchSize) / Math.max(wallSeconds, 1e-9),
+      workers: threads,
+    };
     try {
       writeCheckpoint(complete);
       writer?.close();
@@ -456,13 +542,18 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
       journal.close();
     } catch (error) {
       const diskError = error instanceof DiskError ? error : toDiskError(error, directory, 'write');
-      io.err(`coilfront: ${diskError.message}\n  the last good checkpoint in ${directory} can be resumed with: coilfront sweep --resume ${directory}\n`);
+      io.err(
+        `coilfront: ${diskError.message}\n  the last good checkpoint in ${directory} can be resumed with: coilfront sweep --resume ${directory}\n`,
+      );
       return 1;
     }
     progress(true);
     if (!complete) {
-      const why = stop.reason === 'time-limit' ? 'the time limit was reached' : `${stop.signal ?? 'a signal'} was received`;
-      io.err(`stopped: ${why} after ${state.counts.evaluated} of ${range[1] - range[0]} designs; outputs so far are in ${directory}\n  resume with: coilfront sweep --resume ${directory}\n`);
+      const why =
+        stop.reason === 'time-limit' ? 'the time limit was reached' : `${stop.signal ?? 'a signal'} was received`;
+      io.err(
+        `stopped: ${why} after ${state.counts.evaluated} of ${range[1] - range[0]} designs; outputs so far are in ${directory}\n  resume with: coilfront sweep --resume ${directory}\n`,
+      );
       return stop.exitCode();
     }
     if (!options.quiet) io.out(formatTopCandidates(directory, spec, state, 5));

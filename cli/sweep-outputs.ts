@@ -82,12 +82,18 @@ export function frontHypervolume(
   return { value: points.length === 0 ? 0 : hypervolume(points, point), reference_point: Array.from(point) };
 }
 
-function summaryStatistics(spec: SweepSpec, state: SweepState): { quantiles: Record<string, Record<string, number>>; sensitivities: Record<string, Record<string, number | null>> } {
+function summaryStatistics(
+  spec: SweepSpec,
+  state: SweepState,
+): { quantiles: Record<string, Record<string, number>>; sensitivities: Record<string, Record<string, number | null>> } {
   const items = state.sample.items();
   const dimensionCount = spec.dimensions.length;
   const quantiles: Record<string, Record<string, number>> = {};
   METRIC_KEYS.forEach((key, m) => {
-    const values = items.map((item) => item.payload[dimensionCount + m]!).filter((v) => Number.isFinite(v)).sort((a, b) => a - b);
+    const values = items
+      .map((item) => item.payload[dimensionCount + m]!)
+      .filter((v) => Number.isFinite(v))
+      .sort((a, b) => a - b);
     if (values.length === 0) return;
     const entry: Record<string, number> = {};
     for (const q of QUANTILES) entry[`q${String(Math.round(q * 100)).padStart(2, '0')}`] = quantileSorted(values, q);
@@ -98,10 +104,15 @@ function summaryStatistics(spec: SweepSpec, state: SweepState): { quantiles: Rec
     const row: Record<string, number | null> = {};
     for (const objective of spec.objectives) {
       const column = dimensionCount + METRIC_KEYS.indexOf(objective.metric);
-      const pairs = items.map((item) => [item.payload[d]!, item.payload[column]!]).filter(([x, y]) => Number.isFinite(x) && Number.isFinite(y));
+      const pairs = items
+        .map((item) => [item.payload[d]!, item.payload[column]!])
+        .filter(([x, y]) => Number.isFinite(x) && Number.isFinite(y));
       let rho: number | null = null;
       if (pairs.length >= 3) {
-        const value = sampleRankCorrelation(pairs.map((p) => p[0]!), pairs.map((p) => p[1]!));
+        const value = sampleRankCorrelation(
+          pairs.map((p) => p[0]!),
+          pairs.map((p) => p[1]!),
+        );
         rho = Number.isFinite(value) ? value : null;
       }
       row[objective.metric] = rho;
@@ -141,13 +152,17 @@ export function summaryObject(
     quantiles,
     sensitivities,
     timing: { wall_seconds: timing.wallSeconds, designs_per_second: timing.designsPerSecond, workers: timing.workers },
-    units: 'SI base units (H, F, Hz, V, m, kg, ohm, V/m); hypervolume in the minimisation convention, maximised objectives negated',
+    units:
+      'SI base units (H, F, Hz, V, m, kg, ohm, V/m); hypervolume in the minimisation convention, maximised objectives negated',
     safety: SAFETY_LINE,
   };
 }
 
 /** What the output files list: the ranked feasible top K, the K closest misses, the front. */
-export function outputEntries(state: SweepState, keep: number): {
+export function outputEntries(
+  state: SweepState,
+  keep: number,
+): {
   ranked: RankedEntry<PackedRow>[];
   misses: RankedEntry<PackedRow>[];
   front: RankedEntry<PackedRow>[];
@@ -176,7 +191,14 @@ export async function writeSweepOutputs(
   writeFileAtomicSync(join(directory, 'candidates.csv'), toCsv(columns.header, rankedRows(spec.dimensions, ranked)));
   writeFileAtomicSync(join(directory, 'infeasible.csv'), toCsv(columns.header, rankedRows(spec.dimensions, misses)));
   writeFileAtomicSync(join(directory, 'front.csv'), toCsv(columns.header, rankedRows(spec.dimensions, front)));
-  writeFileAtomicSync(join(directory, 'summary.json'), `${JSON.stringify(summaryObject(spec, state, identity, timing, complete, front), null, 2)}\n`);
-  const svg = await frontPlotSvg(spec.objectives, ranked.map((entry) => unpackRow(entry.payload)), front.map((entry) => unpackRow(entry.payload)));
+  writeFileAtomicSync(
+    join(directory, 'summary.json'),
+    `${JSON.stringify(summaryObject(spec, state, identity, timing, complete, front), null, 2)}\n`,
+  );
+  const svg = await frontPlotSvg(
+    spec.objectives,
+    ranked.map((entry) => unpackRow(entry.payload)),
+    front.map((entry) => unpackRow(entry.payload)),
+  );
   writeFileAtomicSync(join(directory, 'front.svg'), svg);
 }

@@ -62,18 +62,29 @@ function isMapping(value: unknown): value is Record<string, unknown> {
 
 function unknownKey(path: Array<string | number>, key: string, known: string[]): InputIssue {
   const guess = suggest(key, known);
-  return { path: [...path, key], message: guess ? `unknown key '${key}' (did you mean '${guess}'?)` : `unknown key '${key}'; expected one of ${known.join(', ')}` };
+  return {
+    path: [...path, key],
+    message: guess
+      ? `unknown key '${key}' (did you mean '${guess}'?)`
+      : `unknown key '${key}'; expected one of ${known.join(', ')}`,
+  };
 }
 
 function unknownMetric(path: Array<string | number>, key: string): InputIssue {
   const guess = suggest(key, [...METRIC_KEYS]);
-  return { path, message: `unknown metric '${key}'${guess ? ` (did you mean '${guess}'?)` : '; see the README for the list'}` };
+  return {
+    path,
+    message: `unknown metric '${key}'${guess ? ` (did you mean '${guess}'?)` : '; see the README for the list'}`,
+  };
 }
 
 const integerSetting = (what: string, min: number, max: number) =>
   z.unknown().transform((input, context): number => {
     if (typeof input !== 'number' || !Number.isInteger(input) || input < min || input > max) {
-      context.addIssue({ code: 'custom', message: `expected ${what} from ${min} to ${max}, got ${describeValue(input)}` });
+      context.addIssue({
+        code: 'custom',
+        message: `expected ${what} from ${min} to ${max}, got ${describeValue(input)}`,
+      });
       return z.NEVER;
     }
     return input;
@@ -83,11 +94,19 @@ const methodSchema = z.unknown().transform((input, context): SamplingMethod => {
   const methods = ['sobol', 'lhs', 'grid', 'random'] as const;
   if (typeof input === 'string' && (methods as readonly string[]).includes(input)) return input as SamplingMethod;
   const guess = typeof input === 'string' ? suggest(input, [...methods]) : null;
-  context.addIssue({ code: 'custom', message: `expected one of sobol, lhs, grid, random, got ${describeValue(input)}${guess ? ` (did you mean '${guess}'?)` : ''}` });
+  context.addIssue({
+    code: 'custom',
+    message: `expected one of sobol, lhs, grid, random, got ${describeValue(input)}${guess ? ` (did you mean '${guess}'?)` : ''}`,
+  });
   return z.NEVER;
 });
 
-function readBound(metric: string, input: unknown, path: Array<string | number>, issues: InputIssue[]): number | undefined {
+function readBound(
+  metric: string,
+  input: unknown,
+  path: Array<string | number>,
+  issues: InputIssue[],
+): number | undefined {
   const kind = metricKind(metric)!;
   const result = readQuantity(input, kind);
   if (!result.ok) {
@@ -100,7 +119,10 @@ function readBound(metric: string, input: unknown, path: Array<string | number>,
 function readConstraints(input: unknown, issues: InputIssue[]): ConstraintSpec[] {
   if (input === undefined || input === null) return [];
   if (!isMapping(input)) {
-    issues.push({ path: ['constraints'], message: `expected a mapping of metric: { min, max }, got ${describeValue(input)}` });
+    issues.push({
+      path: ['constraints'],
+      message: `expected a mapping of metric: { min, max }, got ${describeValue(input)}`,
+    });
     return [];
   }
   const constraints: ConstraintSpec[] = [];
@@ -136,7 +158,10 @@ function readConstraints(input: unknown, issues: InputIssue[]): ConstraintSpec[]
       return [];
     }
     if (constraint.min !== undefined && constraint.max !== undefined && constraint.min > constraint.max) {
-      issues.push({ path, message: `min (${describeValue(bounds.min)}) is above max (${describeValue(bounds.max)}): no design can satisfy it` });
+      issues.push({
+        path,
+        message: `min (${describeValue(bounds.min)}) is above max (${describeValue(bounds.max)}): no design can satisfy it`,
+      });
       return [];
     }
     constraints.push(constraint);
@@ -146,7 +171,13 @@ function readConstraints(input: unknown, issues: InputIssue[]): ConstraintSpec[]
 
 function readObjectives(input: unknown, issues: InputIssue[]): ObjectiveSpec[] {
   if (!Array.isArray(input)) {
-    issues.push({ path: ['objectives'], message: input === undefined ? 'required: a list of { maximize: metric } or { minimize: metric }' : `expected a list of { maximize: metric } or { minimize: metric }, got ${describeValue(input)}` });
+    issues.push({
+      path: ['objectives'],
+      message:
+        input === undefined
+          ? 'required: a list of { maximize: metric } or { minimize: metric }'
+          : `expected a list of { maximize: metric } or { minimize: metric }, got ${describeValue(input)}`,
+    });
     return [];
   }
   if (input.length < 1 || input.length > 4) {
@@ -172,11 +203,18 @@ function readObjectives(input: unknown, issues: InputIssue[]): ObjectiveSpec[] {
       sense = key;
       metric = item[key];
     } else {
-      issues.push({ path, message: `expected { maximize: metric } or { minimize: metric }, got ${describeValue(item)}` });
+      issues.push({
+        path,
+        message: `expected { maximize: metric } or { minimize: metric }, got ${describeValue(item)}`,
+      });
       return [];
     }
     if (typeof metric !== 'string' || !METRIC_KEYS.includes(metric)) {
-      issues.push(typeof metric === 'string' ? unknownMetric([...path, sense], metric) : { path: [...path, sense], message: `expected a metric name, got ${describeValue(metric)}` });
+      issues.push(
+        typeof metric === 'string'
+          ? unknownMetric([...path, sense], metric)
+          : { path: [...path, sense], message: `expected a metric name, got ${describeValue(metric)}` },
+      );
       return [];
     }
     if (objectives.some((o) => o.metric === metric)) {
@@ -218,12 +256,17 @@ export function sweepFromValue(value: unknown, file: string, options: SweepReadO
     throw fieldError(file, issues[0]!);
   };
   if (!isMapping(value)) {
-    throw new InputError(`${file}: expected a mapping with design, constraints, objectives and sweep, got ${describeValue(value)}`);
+    throw new InputError(
+      `${file}: expected a mapping with design, constraints, objectives and sweep, got ${describeValue(value)}`,
+    );
   }
   for (const key of Object.keys(value)) {
     if (TOP_KEYS.includes(key)) continue;
     if (key in DESIGN_SECTIONS) {
-      issues.push({ path: [key], message: `unknown key '${key}': a sweep file puts the design tree under 'design:' (for one design, use coilfront evaluate)` });
+      issues.push({
+        path: [key],
+        message: `unknown key '${key}': a sweep file puts the design tree under 'design:' (for one design, use coilfront evaluate)`,
+      });
     } else issues.push(unknownKey([], key, TOP_KEYS));
   }
   if (issues.length) fail();
@@ -243,11 +286,15 @@ export function sweepFromValue(value: unknown, file: string, options: SweepReadO
 
   const sweep = value.sweep ?? {};
   if (!isMapping(sweep)) {
-    issues.push({ path: ['sweep'], message: `expected a mapping (method, samples, seed), got ${describeValue(sweep)}` });
+    issues.push({
+      path: ['sweep'],
+      message: `expected a mapping (method, samples, seed), got ${describeValue(sweep)}`,
+    });
     fail();
   }
   const settings = sweep as Record<string, unknown>;
-  for (const key of Object.keys(settings)) if (!SWEEP_KEYS.includes(key)) issues.push(unknownKey(['sweep'], key, SWEEP_KEYS));
+  for (const key of Object.keys(settings))
+    if (!SWEEP_KEYS.includes(key)) issues.push(unknownKey(['sweep'], key, SWEEP_KEYS));
   if (issues.length) fail();
   const parseSetting = <T>(key: string, schema: z.ZodType<T>, fallback: T): T => {
     if (settings[key] === undefined) return fallback;
@@ -266,25 +313,37 @@ export function sweepFromValue(value: unknown, file: string, options: SweepReadO
   let gridLevels: number[] | null = null;
   if (method === 'grid') {
     if (settings.samples !== undefined) {
-      issues.push({ path: ['sweep', 'samples'], message: 'a grid has no sample count: its size is the product of its levels (set sweep.levels)' });
+      issues.push({
+        path: ['sweep', 'samples'],
+        message: 'a grid has no sample count: its size is the product of its levels (set sweep.levels)',
+      });
       fail();
     }
     gridLevels = dimensions.map((d) => discreteLevels(d) ?? levels);
     samples = gridLevels.reduce((product, n) => product * n, 1);
   } else {
     if (settings.samples === undefined) {
-      issues.push({ path: ['sweep', 'samples'], message: `required for method ${method}: the number of designs to evaluate` });
+      issues.push({
+        path: ['sweep', 'samples'],
+        message: `required for method ${method}: the number of designs to evaluate`,
+      });
       fail();
     }
     samples = parseSetting('samples', integerSetting('a whole number of samples', 1, MAX_SAMPLES), 0);
     if (issues.length) fail();
     if (method === 'sobol' && dimensions.length > 64) {
-      issues.push({ path: ['design'], message: `${dimensions.length} varied fields; Sobol sampling here supports up to 64 (use lhs or random)` });
+      issues.push({
+        path: ['design'],
+        message: `${dimensions.length} varied fields; Sobol sampling here supports up to 64 (use lhs or random)`,
+      });
       fail();
     }
   }
   if (samples > MAX_SAMPLES) {
-    issues.push({ path: ['sweep', method === 'grid' ? 'levels' : 'samples'], message: `${samples} designs is beyond the limit of ${MAX_SAMPLES}` });
+    issues.push({
+      path: ['sweep', method === 'grid' ? 'levels' : 'samples'],
+      message: `${samples} designs is beyond the limit of ${MAX_SAMPLES}`,
+    });
     fail();
   }
   if (samples > MAX_SAMPLES_WITHOUT_FORCE && !options.force) {
@@ -295,7 +354,10 @@ export function sweepFromValue(value: unknown, file: string, options: SweepReadO
     fail();
   }
   if (dimensions.length === 0) {
-    issues.push({ path: ['design'], message: 'nothing varies: give at least one range or set (or use coilfront evaluate)' });
+    issues.push({
+      path: ['design'],
+      message: 'nothing varies: give at least one range or set (or use coilfront evaluate)',
+    });
     fail();
   }
   // The reference point: a mapping metric -> value, in objective units.
@@ -303,14 +365,20 @@ export function sweepFromValue(value: unknown, file: string, options: SweepReadO
   if (settings.reference_point !== undefined) {
     const given = settings.reference_point;
     if (!isMapping(given)) {
-      issues.push({ path: ['sweep', 'reference_point'], message: `expected a mapping objective metric: value, got ${describeValue(given)}` });
+      issues.push({
+        path: ['sweep', 'reference_point'],
+        message: `expected a mapping objective metric: value, got ${describeValue(given)}`,
+      });
       fail();
     }
     const point: number[] = [];
     for (const objective of objectives) {
       const bound = (given as Record<string, unknown>)[objective.metric];
       if (bound === undefined) {
-        issues.push({ path: ['sweep', 'reference_point', objective.metric], message: 'required: one value for each objective' });
+        issues.push({
+          path: ['sweep', 'reference_point', objective.metric],
+          message: 'required: one value for each objective',
+        });
         fail();
       }
       const read = readBound(objective.metric, bound, ['sweep', 'reference_point', objective.metric], issues);
@@ -326,7 +394,11 @@ export function sweepFromValue(value: unknown, file: string, options: SweepReadO
     referencePoint = point;
   }
   // Structural check: the first corner of the space must build as a design (field combinations).
-  const probe = fillSlots(reading.tree, dimensions, dimensions.map((d) => (d.kind === 'range' ? d.from : 0)));
+  const probe = fillSlots(
+    reading.tree,
+    dimensions,
+    dimensions.map((d) => (d.kind === 'range' ? d.from : 0)),
+  );
   const built = buildDesign(probe, ['design']);
   const structural = built.issues.find((issue) => !issue.byValue);
   if (structural) {

@@ -15,7 +15,9 @@ export function formatTopCandidates(directory: string, spec: SweepSpec, state: S
   const ranked = state.pool.ranked(count);
   const lines: string[] = [];
   const c = state.counts;
-  lines.push(`${c.evaluated} designs: ${c.feasible} feasible, ${c.infeasible} outside the constraints, ${c.impossible} impossible, ${c.failed} failed`);
+  lines.push(
+    `${c.evaluated} designs: ${c.feasible} feasible, ${c.infeasible} outside the constraints, ${c.impossible} impossible, ${c.failed} failed`,
+  );
   lines.push(`best ${Math.min(count, ranked.length)}:`);
   for (let i = 0; i < ranked.length; i++) {
     const entry = ranked[i]!;
@@ -23,7 +25,8 @@ export function formatTopCandidates(directory: string, spec: SweepSpec, state: S
     const objectives = spec.objectives.map((objective) => {
       const value = row.metrics[metricIndex(objective.metric)];
       const display = METRIC_DISPLAY[objective.metric];
-      const shown = value === null || value === undefined ? 'n/a' : formatNumber(display ? value / display.divisor : value);
+      const shown =
+        value === null || value === undefined ? 'n/a' : formatNumber(display ? value / display.divisor : value);
       return `${objective.metric} ${shown}${display ? ` ${humanUnit(display.label)}` : ''}`;
     });
     const parameters = parameterCells(spec.dimensions, row.values).map((cell, d) => {
@@ -35,8 +38,12 @@ export function formatTopCandidates(directory: string, spec: SweepSpec, state: S
     lines.push(`     ${parameters.join(' ')}`);
   }
   lines.push('');
-  lines.push(`files: ${join(directory, 'candidates.csv')}, ${join(directory, 'front.csv')}, ${join(directory, 'summary.json')}`);
-  lines.push(`full report of a candidate: coilfront show ${directory} RANK > design.yaml && coilfront evaluate design.yaml`);
+  lines.push(
+    `files: ${join(directory, 'candidates.csv')}, ${join(directory, 'front.csv')}, ${join(directory, 'summary.json')}`,
+  );
+  lines.push(
+    `full report of a candidate: coilfront show ${directory} RANK > design.yaml && coilfront evaluate design.yaml`,
+  );
   lines.push('');
   lines.push('SAFETY', ...SAFETY_CAUTIONS, '');
   return lines.join('\n');

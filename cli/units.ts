@@ -89,11 +89,11 @@ const UNITS: Record<QuantityKind, Record<string, UnitDefinition>> = {
   resistance: {
     ohm: { scale: 1 },
     Ohm: { scale: 1 },
-    'Ω': { scale: 1 },
+    Ω: { scale: 1 },
     mohm: { scale: 1e-3 },
     kohm: { scale: 1e3 },
-    'kΩ': { scale: 1e3 },
-    'mΩ': { scale: 1e-3 },
+    kΩ: { scale: 1e3 },
+    mΩ: { scale: 1e-3 },
   },
   mass: { kg: { scale: 1 }, g: { scale: 1e-3 }, lb: { scale: 0.45359237 } },
   energy: { J: { scale: 1 }, kJ: { scale: 1e3 }, mJ: { scale: 1e-3 } },
@@ -172,9 +172,15 @@ export function readQuantity(input: unknown, kind: QuantityKind): QuantityResult
     if (unit === '') return { ok: true, value: number };
     const otherKinds = KIND_OF_UNIT.get(unit);
     if (otherKinds && otherKinds.length > 0) {
-      return { ok: false, reason: `'${input}' is ${ARTICLE[otherKinds[0]!]}, ${expected.replace(/^expected /, 'expected ')}` };
+      return {
+        ok: false,
+        reason: `'${input}' is ${ARTICLE[otherKinds[0]!]}, ${expected.replace(/^expected /, 'expected ')}`,
+      };
     }
-    return { ok: false, reason: `unknown unit '${unit}' in '${input}'; ${ARTICLE[kind]} takes ${unitsOf(kind).join(', ')}` };
+    return {
+      ok: false,
+      reason: `unknown unit '${unit}' in '${input}'; ${ARTICLE[kind]} takes ${unitsOf(kind).join(', ')}`,
+    };
   }
   return { ok: true, value: number * definition.scale + (definition.offset ?? 0) };
 }

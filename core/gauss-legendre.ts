@@ -16,7 +16,8 @@ export interface QuadratureRule {
  * Source: Abramowitz & Stegun (1964) §25.4.29 and Table 25.4; recurrence (A&S 22.7.10).
  */
 export function gaussLegendreRule(n: number): QuadratureRule {
-  if (!Number.isInteger(n) || n < 1 || n > 200) throw new RangeError(`gaussLegendreRule requires an integer n in 1..200, got ${n}`);
+  if (!Number.isInteger(n) || n < 1 || n > 200)
+    throw new RangeError(`gaussLegendreRule requires an integer n in 1..200, got ${n}`);
   const nodes = new Float64Array(n);
   const weights = new Float64Array(n);
   for (let i = 0; i < Math.ceil(n / 2); i++) {

@@ -26,7 +26,11 @@ export const METRICS: readonly MetricInfo[] = [
   metric('wire_length', 'm', 'length of secondary wire, helical'),
   metric('wire_mass', 'kg', 'mass of the secondary copper'),
   metric('secondary_dc_resistance', 'ohm', 'DC resistance of the secondary at the environment temperature'),
-  metric('secondary_ac_resistance', 'ohm', 'AC resistance of the secondary at its resonant frequency (skin and proximity effect)'),
+  metric(
+    'secondary_ac_resistance',
+    'ohm',
+    'AC resistance of the secondary at its resonant frequency (skin and proximity effect)',
+  ),
   metric('secondary_inductance', 'H', 'low-frequency inductance of the secondary (Nagaoka with Rosa corrections)'),
   metric('secondary_inductance_filament', 'H', 'the same by an exact sum over coaxial round-wire loops (cross-check)'),
   // --- capacitance and resonance (electrostatics) ---
@@ -38,7 +42,11 @@ export const METRICS: readonly MetricInfo[] = [
   metric('loaded_resonant_frequency', 'Hz', 'resonant frequency with streamer loading added at the top'),
   metric('topload_field_per_volt', '1/m', 'peak surface field on the topload per volt at the top'),
   metric('topload_underside_field_per_volt', '1/m', 'surface field at the underside of the topload per volt'),
-  metric('winding_top_field_per_volt', '1/m', 'mean outward surface field over the top 5 % of the winding sheet, per volt'),
+  metric(
+    'winding_top_field_per_volt',
+    '1/m',
+    'mean outward surface field over the top 5 % of the winding sheet, per volt',
+  ),
   metric('topload_onset_field', 'V/m', "Peek's corona-onset surface field for the topload's curvature"),
   metric('air_density_factor', '', 'relative air density from altitude and temperature'),
   metric('breakout_voltage', 'V', 'top voltage at which the topload reaches corona onset (estimate)'),
@@ -51,7 +59,11 @@ export const METRICS: readonly MetricInfo[] = [
   metric('coupling', '', 'coupling coefficient k = M / sqrt(L1 L2)'),
   metric('primary_outer_diameter', 'm', 'diameter of the outermost primary ring'),
   // --- losses and dynamics ---
-  metric('primary_resistance', 'ohm', "series resistance of the primary loop as simulated: the tapped conductor's AC resistance at the tank frequency plus, for a spark gap, the gap's equivalent resistance while conducting (primary_conductor_resistance + gap_resistance)"),
+  metric(
+    'primary_resistance',
+    'ohm',
+    "series resistance of the primary loop as simulated: the tapped conductor's AC resistance at the tank frequency plus, for a spark gap, the gap's equivalent resistance while conducting (primary_conductor_resistance + gap_resistance)",
+  ),
   metric('secondary_q', '', 'quality factor of the loaded secondary, 2πfL/R'),
   metric('mode_frequency_low', 'Hz', 'lower normal-mode frequency of the coupled circuit'),
   metric('mode_frequency_high', 'Hz', 'upper normal-mode frequency of the coupled circuit'),
@@ -63,16 +75,36 @@ export const METRICS: readonly MetricInfo[] = [
   metric('breakout_margin', '', 'breakout voltage over peak voltage'),
   metric('topload_peak_field', 'V/m', 'peak topload surface field at the peak voltage'),
   metric('axial_gradient', 'V/m', 'peak voltage over the winding length'),
-  metric('primary_strike_margin', '', 'air-gap withstand between the primary outer ring and the winding over the voltage there'),
-  metric('tank_voltage_margin', '', 'capacitor rating over the charge voltage (spark gap) or over the peak tank voltage of the burst (solid state)'),
+  metric(
+    'primary_strike_margin',
+    '',
+    'air-gap withstand between the primary outer ring and the winding over the voltage there',
+  ),
+  metric(
+    'tank_voltage_margin',
+    '',
+    'capacitor rating over the charge voltage (spark gap) or over the peak tank voltage of the burst (solid state)',
+  ),
   // --- outcome ---
   metric('overall_height', 'm', 'highest point of the topload (or winding) above the floor'),
   metric('spark_length', 'm', 'spark length estimate from input power (common practice, rule of thumb)'),
   // --- appended: the parts of primary_resistance ---
-  metric('primary_conductor_resistance', 'ohm', 'AC resistance (skin effect) of the tapped primary conductor at the tank frequency'),
-  metric('gap_resistance', 'ohm', "spark gap's equivalent resistance while conducting (included in primary_resistance; common practice 1 ohm unless given)"),
+  metric(
+    'primary_conductor_resistance',
+    'ohm',
+    'AC resistance (skin effect) of the tapped primary conductor at the tank frequency',
+  ),
+  metric(
+    'gap_resistance',
+    'ohm',
+    "spark gap's equivalent resistance while conducting (included in primary_resistance; common practice 1 ohm unless given)",
+  ),
   // --- appended: electrostatics ---
-  metric('topload_peak_field_angle', 'rad', 'where the topload peak field sits: angle around the tube (toroid) or elevation (sphere) from the outer equator, positive upward'),
+  metric(
+    'topload_peak_field_angle',
+    'rad',
+    'where the topload peak field sits: angle around the tube (toroid) or elevation (sphere) from the outer equator, positive upward',
+  ),
 ];
 
 export const METRIC_KEYS: readonly string[] = METRICS.map((m) => m.key);

@@ -5,7 +5,14 @@
 import type { Design, DriverSpec, InsulationGrade, PrimarySpec, ToploadSpec, WireSpec } from '../core/design.ts';
 import { DEFAULT_ENVIRONMENT } from '../core/design.ts';
 import { awgDiameter } from '../core/wire/awg.ts';
-import { isSlot, type DimensionSlot, type LeafValue, type NormalSection, type NormalTree, type WireValue } from './design-tree.ts';
+import {
+  isSlot,
+  type DimensionSlot,
+  type LeafValue,
+  type NormalSection,
+  type NormalTree,
+  type WireValue,
+} from './design-tree.ts';
 
 /** One problem with a design's fields: the path in the file's names and a one-line reason. */
 export interface FieldIssue {
@@ -77,7 +84,10 @@ export function buildDesign(tree: NormalTree, basePath: string[] = []): DesignBu
     if (turns === undefined && windingLength === undefined) {
       issues.push({ path: at('secondary', 'turns'), message: 'required: give turns or winding_length' });
     } else if (turns !== undefined && windingLength !== undefined && pitch !== undefined) {
-      issues.push({ path: at('secondary', 'pitch'), message: 'give two of turns, winding_length and pitch, not all three' });
+      issues.push({
+        path: at('secondary', 'pitch'),
+        message: 'give two of turns, winding_length and pitch, not all three',
+      });
     }
     const wire = wireSpec(secondary.wire, secondary);
     const spec: Design['secondary'] = {
@@ -91,7 +101,11 @@ export function buildDesign(tree: NormalTree, basePath: string[] = []): DesignBu
     // With turns and winding_length both given, the secondary stage derives the pitch.
     if (pitch !== undefined) spec.pitch = pitch;
     if (wire.overallDiameter !== undefined && wire.overallDiameter < wire.bareDiameter) {
-      issues.push({ path: at('secondary', 'wire_overall_diameter'), message: 'the insulated diameter is smaller than the bare wire' , byValue: true });
+      issues.push({
+        path: at('secondary', 'wire_overall_diameter'),
+        message: 'the insulated diameter is smaller than the bare wire',
+        byValue: true,
+      });
     }
     design.secondary = spec;
   }
@@ -116,13 +130,22 @@ export function buildDesign(tree: NormalTree, basePath: string[] = []): DesignBu
     }
     if (secondary) {
       if (heightAbove === undefined) {
-        issues.push({ path: at('topload', 'height_above_winding'), message: 'required with a secondary: the mid-plane above the top of the winding' });
+        issues.push({
+          path: at('topload', 'height_above_winding'),
+          message: 'required with a secondary: the mid-plane above the top of the winding',
+        });
       }
       if (centerHeight !== undefined) {
-        issues.push({ path: at('topload', 'center_height'), message: 'with a secondary, give height_above_winding instead' });
+        issues.push({
+          path: at('topload', 'center_height'),
+          message: 'with a secondary, give height_above_winding instead',
+        });
       }
     } else if (centerHeight === undefined) {
-      issues.push({ path: at('topload', 'center_height'), message: 'required for a topload without a secondary: its mid-plane above the floor' });
+      issues.push({
+        path: at('topload', 'center_height'),
+        message: 'required for a topload without a secondary: its mid-plane above the floor',
+      });
     }
     if (heightAbove !== undefined) spec.heightAboveWinding = heightAbove;
     if (centerHeight !== undefined) spec.centerHeight = centerHeight;
@@ -142,12 +165,22 @@ export function buildDesign(tree: NormalTree, basePath: string[] = []): DesignBu
     };
     const coneAngle = num(primary, 'cone_angle');
     if (coneAngle !== undefined) {
-      if (coneAngle >= Math.PI / 2) issues.push({ path: at('primary', 'cone_angle'), message: 'a cone angle must be below 90 deg (use shape: helix)' , byValue: true });
+      if (coneAngle >= Math.PI / 2)
+        issues.push({
+          path: at('primary', 'cone_angle'),
+          message: 'a cone angle must be below 90 deg (use shape: helix)',
+          byValue: true,
+        });
       spec.coneAngle = coneAngle;
     }
     const tap = num(primary, 'tap_turns');
     if (tap !== undefined) {
-      if (tap > spec.turns) issues.push({ path: at('primary', 'tap_turns'), message: `the tap (${tap}) lies beyond the last turn (${spec.turns})` , byValue: true });
+      if (tap > spec.turns)
+        issues.push({
+          path: at('primary', 'tap_turns'),
+          message: `the tap (${tap}) lies beyond the last turn (${spec.turns})`,
+          byValue: true,
+        });
       spec.tapTurns = tap;
     }
     design.primary = spec;

@@ -27,7 +27,12 @@ export function dimensionValue(dimension: Dimension, u: number): number {
     const levels = Math.floor((dimension.to - dimension.from) / dimension.step + 1e-9) + 1;
     return dimension.from + dimension.step * mapUnitToChoice(u, levels);
   }
-  return mapUnitToRange(u, { from: dimension.from, to: dimension.to, scale: dimension.scale, integer: dimension.integer });
+  return mapUnitToRange(u, {
+    from: dimension.from,
+    to: dimension.to,
+    scale: dimension.scale,
+    integer: dimension.integer,
+  });
 }
 
 /** One sampled design: its dimension values and the design, or the reason it cannot be built. */
@@ -62,7 +67,8 @@ export class DesignSpace {
   /** Dimension values of sample i, written into `out`. */
   valuesAt(index: number, out: Float64Array): void {
     this.sampler.pointAt(index, this.unit);
-    for (let d = 0; d < this.definition.dimensions.length; d++) out[d] = dimensionValue(this.definition.dimensions[d]!, this.unit[d]!);
+    for (let d = 0; d < this.definition.dimensions.length; d++)
+      out[d] = dimensionValue(this.definition.dimensions[d]!, this.unit[d]!);
   }
 
   /** The design of given dimension values (also used by refinement, off the sample grid). */

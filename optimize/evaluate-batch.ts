@@ -36,7 +36,11 @@ export interface BatchResult {
 const METRIC_COUNT = METRIC_KEYS.length;
 
 /** Evaluates one batch in this thread. Never throws for a design: failures become status rows. */
-export function evaluateBatchTask(space: DesignSpace, task: BatchTask, hooks?: { beforeDesign?: (index: number) => void }): BatchResult {
+export function evaluateBatchTask(
+  space: DesignSpace,
+  task: BatchTask,
+  hooks?: { beforeDesign?: (index: number) => void },
+): BatchResult {
   const dimensions = space.dimensionCount;
   const count = task.count;
   const result: BatchResult = {

@@ -39,7 +39,9 @@ export function mixedSpaceOf(dimensions: readonly Dimension[]): MixedSpace {
 /** Dimension values of a mixed point. */
 export function valuesOfPoint(dimensions: readonly Dimension[], space: MixedSpace, point: MixedPoint): Float64Array {
   const values = new Float64Array(dimensions.length);
-  space.continuous.forEach((d, i) => (values[d] = dimensionValue(dimensions[d]!, Math.min(1, Math.max(0, point.continuous[i]!)))));
+  space.continuous.forEach(
+    (d, i) => (values[d] = dimensionValue(dimensions[d]!, Math.min(1, Math.max(0, point.continuous[i]!)))),
+  );
   space.discrete.forEach((d, i) => {
     const dimension = dimensions[d]!;
     const level = point.levels[i]!;
@@ -51,13 +53,20 @@ export function valuesOfPoint(dimensions: readonly Dimension[], space: MixedSpac
 }
 
 /** The mixed point of dimension values (the inverse map; continuous coordinates clamped to [0, 1]). */
-export function pointOfValues(dimensions: readonly Dimension[], space: MixedSpace, values: ArrayLike<number>): MixedPoint {
+export function pointOfValues(
+  dimensions: readonly Dimension[],
+  space: MixedSpace,
+  values: ArrayLike<number>,
+): MixedPoint {
   const continuous = new Float64Array(space.continuous.length);
   space.continuous.forEach((d, i) => {
     const dimension = dimensions[d]!;
     if (dimension.kind !== 'range') return;
     const value = values[d]!;
-    const u = dimension.scale === 'log' ? Math.log(value / dimension.from) / Math.log(dimension.to / dimension.from) : (value - dimension.from) / (dimension.to - dimension.from);
+    const u =
+      dimension.scale === 'log'
+        ? Math.log(value / dimension.from) / Math.log(dimension.to / dimension.from)
+        : (value - dimension.from) / (dimension.to - dimension.from);
     continuous[i] = Math.min(1, Math.max(0, u));
   });
   const levels = new Int32Array(space.discrete.length);

@@ -27,7 +27,13 @@ export class PackedRow {
   }
 
   static revive(data: PackedRowData): PackedRow {
-    return new PackedRow(Float64Array.from(data.packed, (v) => (v === null ? Number.NaN : v)), data.dimensions, data.status, data.reason, data.warnings);
+    return new PackedRow(
+      Float64Array.from(data.packed, (v) => (v === null ? Number.NaN : v)),
+      data.dimensions,
+      data.status,
+      data.reason,
+      data.warnings,
+    );
   }
 }
 

@@ -59,7 +59,8 @@ export async function refineSweep(
   const dimensions: readonly Dimension[] = designSpace.definition.dimensions;
   const space = mixedSpaceOf(dimensions);
   // A start's dimension values: its own row, or regenerated from its sample index.
-  const valuesOfEntry = (entry: PoolEntry<PackedRow>): number[] => Array.from(entry.payload.packed.subarray(0, entry.payload.dimensions));
+  const valuesOfEntry = (entry: PoolEntry<PackedRow>): number[] =>
+    Array.from(entry.payload.packed.subarray(0, entry.payload.dimensions));
   const metricCount = METRIC_KEYS.length;
   const objectiveCount = state.objectives.length;
 
@@ -86,14 +87,23 @@ export async function refineSweep(
   let startValues: number[][];
   let meritOfStart: (start: number) => (record: RefineRecord) => Merit;
   const before = feasible.map((entry) => entry.item.objectives);
-  const reference = options.referencePoint ? Float64Array.from(options.referencePoint) : before.length > 0 ? defaultReferencePoint(before) : null;
+  const reference = options.referencePoint
+    ? Float64Array.from(options.referencePoint)
+    : before.length > 0
+      ? defaultReferencePoint(before)
+      : null;
   if (objectiveCount >= 2 && feasible.length > 0) {
     const ordered = [...feasible].sort((a, b) => a.item.index - b.item.index);
-    const plan = planChebyshevStarts(ordered.map((entry) => entry.item.objectives), Math.min(options.starts, ordered.length));
+    const plan = planChebyshevStarts(
+      ordered.map((entry) => entry.item.objectives),
+      Math.min(options.starts, ordered.length),
+    );
     startValues = plan.starts.map((start) => valuesOfEntry(ordered[start.frontIndex]!));
     meritOfStart = (start) => (record) => ({
       violation: record.violation,
-      value: record.objectives ? chebyshevMerit(record.objectives, plan.starts[start]!.weights, plan.reference, plan.nadir) : Number.POSITIVE_INFINITY,
+      value: record.objectives
+        ? chebyshevMerit(record.objectives, plan.starts[start]!.weights, plan.reference, plan.nadir)
+        : Number.POSITIVE_INFINITY,
     });
   } else {
     const ranked = state.pool.ranked(options.starts);
@@ -113,7 +123,10 @@ export async function refineSweep(
   );
 
   // Every evaluated design, in a deterministic order (by its key), gets an index after the samples.
-  const entries = cache.entries().map((entry) => ({ key: mixedPointKey(entry.point), entry })).sort((a, b) => (a.key < b.key ? -1 : a.key > b.key ? 1 : 0));
+  const entries = cache
+    .entries()
+    .map((entry) => ({ key: mixedPointKey(entry.point), entry }))
+    .sort((a, b) => (a.key < b.key ? -1 : a.key > b.key ? 1 : 0));
   const refined = new CandidatePool<PackedRow>(state.keep, objectiveCount);
   const merged = new CandidatePool<PackedRow>(state.keep, objectiveCount);
   for (const entry of feasible) merged.offer(entry.item, entry.payload);

@@ -107,7 +107,11 @@ export class SweepState {
    * it could not be built or evaluated), its objective vector (minimisation convention, null when not
    * evaluated) and the reason it is infeasible. Also counts it, when `count` is set.
    */
-  classifyRow(result: BatchResult, row: number, count = false): { violation: number; objectives: Float64Array; reason: string | null } {
+  classifyRow(
+    result: BatchResult,
+    row: number,
+    count = false,
+  ): { violation: number; objectives: Float64Array; reason: string | null } {
     const metricCount = METRIC_KEYS.length;
     const offset = row * metricCount;
     const status = result.status[row]!;
@@ -118,11 +122,16 @@ export class SweepState {
         else this.counts.failed++;
       }
       const reason = result.reasons.find(([r]) => r === row)?.[1] ?? 'not evaluated';
-      return { violation: status === STATUS_FAILED ? FAILED_VIOLATION : PROBLEM_VIOLATION, objectives: new Float64Array(this.objectives.length), reason };
+      return {
+        violation: status === STATUS_FAILED ? FAILED_VIOLATION : PROBLEM_VIOLATION,
+        objectives: new Float64Array(this.objectives.length),
+        reason,
+      };
     }
     let violation = this.violationOf(result.metrics, offset);
     if (count) {
-      for (let c = 0; c < this.constraints.length; c++) if (this.constraintMiss(result.metrics, offset, c) !== null) this.rejectedBy[c]!++;
+      for (let c = 0; c < this.constraints.length; c++)
+        if (this.constraintMiss(result.metrics, offset, c) !== null) this.rejectedBy[c]!++;
     }
     const objectives = this.objectiveVector(result.metrics, offset);
     let reason: string | null = null;
@@ -144,12 +153,19 @@ export class SweepState {
    * The stored row of one result row (dimension values, metrics with null, status, reason). Give the
    * reason when classifyRow already found it, so the row is not classified twice.
    */
-  rowOf(result: BatchResult, row: number, dimensionCount: number, reason = this.classifyRow(result, row).reason): CandidateRow {
+  rowOf(
+    result: BatchResult,
+    row: number,
+    dimensionCount: number,
+    reason = this.classifyRow(result, row).reason,
+  ): CandidateRow {
     const metricCount = METRIC_KEYS.length;
     const offset = row * metricCount;
     return {
       values: Array.from(result.values.subarray(row * dimensionCount, (row + 1) * dimensionCount)),
-      metrics: Array.from(result.metrics.subarray(offset, offset + metricCount), (v) => (Number.isFinite(v) ? v : null)),
+      metrics: Array.from(result.metrics.subarray(offset, offset + metricCount), (v) =>
+        Number.isFinite(v) ? v : null,
+      ),
       status: result.status[row]!,
       reason,
       warnings: result.warningCounts[row]!,
@@ -162,7 +178,9 @@ export class SweepState {
     for (let row = 0; row < result.count; row++) {
       const index = result.start + row;
       const { violation, objectives, reason } = this.classifyRow(result, row, true);
-      this.pool.offerWith({ index, violation, objectives }, () => packRow(this.rowOf(result, row, dimensionCount, reason)));
+      this.pool.offerWith({ index, violation, objectives }, () =>
+        packRow(this.rowOf(result, row, dimensionCount, reason)),
+      );
       if (violation === 0) {
         const offset = row * metricCount;
         const sampleRow: number[] = new Array(dimensionCount + metricCount);
@@ -223,16 +241,30 @@ export class SweepState {
     const state = new SweepState(objectives, constraints, keep, seed);
     state.counts = { ...data.counts };
     state.rejectedBy = [...data.rejectedBy];
-    const revive = (records: CandidatePoolData<PackedRowData>['feasible']) => records.map((record) => ({ ...record, payload: PackedRow.revive(record.payload) }));
-    state.pool = CandidatePool.restore<PackedRow>({ ...data.pool, feasible: revive(data.pool.feasible), infeasible: revive(data.pool.infeasible) });
+    const revive = (records: CandidatePoolData<PackedRowData>['feasible']) =>
+      records.map((record) => ({ ...record, payload: PackedRow.revive(record.payload) }));
+    state.pool = CandidatePool.restore<PackedRow>({
+      ...data.pool,
+      feasible: revive(data.pool.feasible),
+      infeasible: revive(data.pool.infeasible),
+    });
     state.sample = IndexSample.restore({
       ...data.sample,
-      items: data.sample.items.map((item) => ({ index: item.index, payload: item.payload.map((v) => (v === null ? Number.NaN : v)) })),
+      items: data.sample.items.map((item) => ({
+        index: item.index,
+        payload: item.payload.map((v) => (v === null ? Number.NaN : v)),
+      })),
     });
     return state;
   }
 }
 
 function jsonSafeSample(data: IndexSampleData<number[]>): IndexSampleData<number[]> {
-  return { ...data, items: data.items.map((item) => ({ index: item.index, payload: item.payload.map((v) => (Number.isFinite(v) ? v : (null as unknown as number))) })) };
+  return {
+    ...data,
+    items: data.items.map((item) => ({
+      index: item.index,
+      payload: item.payload.map((v) => (Number.isFinite(v) ? v : (null as unknown as number))),
+    })),
+  };
 }

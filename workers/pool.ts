@@ -94,7 +94,10 @@ export function createWorkerPool(space: SpaceDefinition, options: PoolOptions): 
 }
 
 /** A pool that evaluates whole designs (evaluate --batch): chunks of designs in, Evaluations out. */
-export function createDesignPool(threads: number): { evaluate(designs: Design[]): Promise<Evaluation[]>; close(): Promise<void> } {
+export function createDesignPool(threads: number): {
+  evaluate(designs: Design[]): Promise<Evaluation[]>;
+  close(): Promise<void>;
+} {
   const pool = new Piscina({
     filename: resolveWorkerFile(),
     minThreads: Math.max(1, threads),
@@ -123,4 +126,3 @@ function resolveWorkerFile(): string {
   if (here.endsWith('.js')) return here.replace(/pool\.js$/, 'evaluate-worker.js');
   return here.replace(/workers[\\/]pool\.ts$/, 'dist/workers/evaluate-worker.js');
 }
-

@@ -68,7 +68,11 @@ function toBytes(data: string | Uint8Array): Uint8Array {
  * bytes) written one after another, so a large file (a checkpoint of a big front) never exists as
  * one string in memory.
  */
-export function writeChunksAtomicSync(path: string, chunks: Iterable<string | Uint8Array>, options: AtomicWriteOptions = {}): void {
+export function writeChunksAtomicSync(
+  path: string,
+  chunks: Iterable<string | Uint8Array>,
+  options: AtomicWriteOptions = {},
+): void {
   const fileSystem = options.fileSystem ?? nodeFileSystem;
   const temporary = temporaryPathFor(path);
   let fd: number | undefined;
@@ -138,7 +142,11 @@ export function writeFileAtomicSync(path: string, data: string | Uint8Array, opt
  *
  * @example await writeFileAtomic('runs/night/summary.json', text)
  */
-export async function writeFileAtomic(path: string, data: string | Uint8Array, options: { mode?: number } = {}): Promise<void> {
+export async function writeFileAtomic(
+  path: string,
+  data: string | Uint8Array,
+  options: { mode?: number } = {},
+): Promise<void> {
   const temporary = temporaryPathFor(path);
   let created = false;
   try {

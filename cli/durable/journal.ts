@@ -275,6 +275,12 @@ export function openJournal(path: string, options: JournalOptions = {}): Journal
 }
 
 /** One positioned write of record[from…] at file position `position`; returns the bytes written. */
-function writeAtSync(fileSystem: DurableFileSystem, fd: number, record: Uint8Array, from: number, position: number): number {
+function writeAtSync(
+  fileSystem: DurableFileSystem,
+  fd: number,
+  record: Uint8Array,
+  from: number,
+  position: number,
+): number {
   return fileSystem.writeSync(fd, record.subarray(from), 0, record.length - from, position);
 }

@@ -95,7 +95,8 @@ export function currentBootId(): string | null {
 function parseHolder(text: string): RunLockHolder | null {
   try {
     const value = JSON.parse(text) as Partial<RunLockHolder>;
-    if (typeof value.pid !== 'number' || typeof value.hostname !== 'string' || typeof value.token !== 'string') return null;
+    if (typeof value.pid !== 'number' || typeof value.hostname !== 'string' || typeof value.token !== 'string')
+      return null;
     return {
       pid: value.pid,
       hostname: value.hostname,
@@ -177,7 +178,8 @@ export function acquireRunLock(directory: string, options: RunLockOptions = {}):
       }
       const stale =
         existing.hostname === holder.hostname &&
-        ((existing.bootId !== null && holder.bootId !== null && existing.bootId !== holder.bootId) || !alive(existing.pid));
+        ((existing.bootId !== null && holder.bootId !== null && existing.bootId !== holder.bootId) ||
+          !alive(existing.pid));
       if (!stale) {
         const where = existing.hostname === holder.hostname ? '' : ` on host ${existing.hostname}`;
         throw new RunLockError(
@@ -213,7 +215,11 @@ export function acquireRunLock(directory: string, options: RunLockOptions = {}):
       fileSystem.unlinkSync(aside);
       tookOverFrom = existing;
     }
-    throw new RunLockError(`'${directory}': could not take the lock '${path}' (it keeps changing); try again`, path, null);
+    throw new RunLockError(
+      `'${directory}': could not take the lock '${path}' (it keeps changing); try again`,
+      path,
+      null,
+    );
   } finally {
     try {
       fileSystem.unlinkSync(temporary);
@@ -249,7 +255,12 @@ function createDurably(fileSystem: DurableFileSystem, path: string, text: string
   }
 }
 
-function makeLock(fileSystem: DurableFileSystem, path: string, holder: RunLockHolder, tookOverFrom: RunLockHolder | null): RunLock {
+function makeLock(
+  fileSystem: DurableFileSystem,
+  path: string,
+  holder: RunLockHolder,
+  tookOverFrom: RunLockHolder | null,
+): RunLock {
   let released = false;
   return {
     path,

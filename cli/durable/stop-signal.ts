@@ -82,7 +82,10 @@ export function installStopSignal(options: StopSignalOptions = {}): StopSignal {
   const log = options.log ?? (() => undefined);
   const exit = options.exit ?? ((code: number) => process.exit(code));
   const signals = options.signals ?? STOP_SIGNALS;
-  if (options.timeLimitSeconds !== undefined && !(options.timeLimitSeconds >= 0 && Number.isFinite(options.timeLimitSeconds))) {
+  if (
+    options.timeLimitSeconds !== undefined &&
+    !(options.timeLimitSeconds >= 0 && Number.isFinite(options.timeLimitSeconds))
+  ) {
     throw new RangeError(`the time limit must be a finite number of seconds >= 0, got ${options.timeLimitSeconds}`);
   }
   const deadline = options.timeLimitSeconds === undefined ? null : now() + options.timeLimitSeconds * 1000;

@@ -29,7 +29,11 @@ const KILOVOLT_PER_CM = 1e5; // V/m
  * @param airDensity relative air density δ (> 0)
  * @param surfaceFactor m, 0 < m ≤ 1
  */
-export function peekCylinderOnsetField(radius: number, airDensity: number, surfaceFactor = DEFAULT_SURFACE_FACTOR): number {
+export function peekCylinderOnsetField(
+  radius: number,
+  airDensity: number,
+  surfaceFactor = DEFAULT_SURFACE_FACTOR,
+): number {
   if (!(radius > 0) || !(airDensity > 0) || !(surfaceFactor > 0)) return Number.NaN;
   const radiusCm = radius * 100;
   return 30 * KILOVOLT_PER_CM * surfaceFactor * airDensity * (1 + 0.301 / Math.sqrt(airDensity * radiusCm));
@@ -39,7 +43,11 @@ export function peekCylinderOnsetField(radius: number, airDensity: number, surfa
  * Peek's onset field for a sphere of radius R, V/m (peak); constants 27.2 and 0.54 from memory.
  * Arguments as for `peekCylinderOnsetField`.
  */
-export function peekSphereOnsetField(radius: number, airDensity: number, surfaceFactor = DEFAULT_SURFACE_FACTOR): number {
+export function peekSphereOnsetField(
+  radius: number,
+  airDensity: number,
+  surfaceFactor = DEFAULT_SURFACE_FACTOR,
+): number {
   if (!(radius > 0) || !(airDensity > 0) || !(surfaceFactor > 0)) return Number.NaN;
   const radiusCm = radius * 100;
   return 27.2 * KILOVOLT_PER_CM * surfaceFactor * airDensity * (1 + 0.54 / Math.sqrt(airDensity * radiusCm));

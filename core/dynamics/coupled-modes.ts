@@ -83,18 +83,26 @@ export function coupledModes(circuit: CoupledCircuit, initialTankVoltage: number
     let i1Re: number, i1Im: number, i2Re: number, i2Im: number;
     if (z1Re * z1Re + z1Im * z1Im >= z2Re * z2Re + z2Im * z2Im) {
       // row 1: Z1 I1 + sM I2 = 0 → (I1, I2) = (sM, −Z1)
-      i1Re = smRe; i1Im = smIm; i2Re = -z1Re; i2Im = -z1Im;
+      i1Re = smRe;
+      i1Im = smIm;
+      i2Re = -z1Re;
+      i2Im = -z1Im;
     } else {
       // row 2: sM I1 + Z2 I2 = 0 → (I1, I2) = (−Z2, sM)
-      i1Re = -z2Re; i1Im = -z2Im; i2Re = smRe; i2Im = smIm;
+      i1Re = -z2Re;
+      i1Im = -z2Im;
+      i2Re = smRe;
+      i2Im = smIm;
     }
     // V_k = I_k / (s C_k)
     vecRe[j * 4 + 0] = (i1Re * invRe - i1Im * invIm) / c1;
     vecIm[j * 4 + 0] = (i1Re * invIm + i1Im * invRe) / c1;
     vecRe[j * 4 + 1] = (i2Re * invRe - i2Im * invIm) / c2;
     vecIm[j * 4 + 1] = (i2Re * invIm + i2Im * invRe) / c2;
-    vecRe[j * 4 + 2] = i1Re; vecIm[j * 4 + 2] = i1Im;
-    vecRe[j * 4 + 3] = i2Re; vecIm[j * 4 + 3] = i2Im;
+    vecRe[j * 4 + 2] = i1Re;
+    vecIm[j * 4 + 2] = i1Im;
+    vecRe[j * 4 + 3] = i2Re;
+    vecIm[j * 4 + 3] = i2Im;
   }
   // Solve Σ_j c_j φ_j = y0 (4 complex equations, one per component).
   const coefficients = solveComplex4(vecRe, vecIm, [initialTankVoltage, 0, 0, 0]);
@@ -118,7 +126,8 @@ export function coupledModes(circuit: CoupledCircuit, initialTankVoltage: number
       magnitude += Math.hypot(ampRe[j * 4 + c], ampIm[j * 4 + c]);
     }
     const target = c === 0 ? initialTankVoltage : 0;
-    const reference = c < 2 ? Math.abs(initialTankVoltage) : Math.abs(initialTankVoltage) * Math.sqrt(Math.max(c1 / l1, c2 / l2));
+    const reference =
+      c < 2 ? Math.abs(initialTankVoltage) : Math.abs(initialTankVoltage) * Math.sqrt(Math.max(c1 / l1, c2 / l2));
     if (Math.abs(sum - target) > 1e-9 * reference || magnitude > 1e6 * reference) return null;
   }
   return { circuit, rateRe: rootRe, rateIm: rootIm, ampRe, ampIm };
@@ -128,7 +137,10 @@ export function coupledModes(circuit: CoupledCircuit, initialTankVoltage: number
  * The state [v1, v2, i1, i2] (V, A) of the modal solution at time t (s), written into `out`.
  */
 export function coupledStateAt(modes: CoupledModes, time: number, out: Float64Array): Float64Array {
-  out[0] = 0; out[1] = 0; out[2] = 0; out[3] = 0;
+  out[0] = 0;
+  out[1] = 0;
+  out[2] = 0;
+  out[3] = 0;
   for (let j = 0; j < 4; j++) {
     const magnitude = Math.exp(modes.rateRe[j] * time);
     const phase = modes.rateIm[j] * time;
@@ -151,7 +163,11 @@ export class ModalMarch {
   private readonly stepIm = new Float64Array(4);
   time: number;
 
-  constructor(private readonly modes: CoupledModes, startTime: number, readonly step: number) {
+  constructor(
+    private readonly modes: CoupledModes,
+    startTime: number,
+    readonly step: number,
+  ) {
     this.time = startTime;
     for (let j = 0; j < 4; j++) {
       const magnitude = Math.exp(modes.rateRe[j] * startTime);
@@ -178,7 +194,10 @@ export class ModalMarch {
   private evaluate(): void {
     const { ampRe, ampIm } = this.modes;
     const out = this.state;
-    out[0] = 0; out[1] = 0; out[2] = 0; out[3] = 0;
+    out[0] = 0;
+    out[1] = 0;
+    out[2] = 0;
+    out[3] = 0;
     for (let j = 0; j < 4; j++) {
       const eRe = this.phaseRe[j];
       const eIm = this.phaseIm[j];
@@ -278,13 +297,20 @@ function solveComplex4(vecRe: Float64Array, vecIm: Float64Array, rhs: number[]):
     let best = 0;
     for (let row = col; row < 4; row++) {
       const size = Math.hypot(aRe[row * 5 + col], aIm[row * 5 + col]);
-      if (size > best) { best = size; pivot = row; }
+      if (size > best) {
+        best = size;
+        pivot = row;
+      }
     }
     if (best < 1e-14) return null;
     if (pivot !== col) {
       for (let k = 0; k < 5; k++) {
-        let t = aRe[col * 5 + k]; aRe[col * 5 + k] = aRe[pivot * 5 + k]; aRe[pivot * 5 + k] = t;
-        t = aIm[col * 5 + k]; aIm[col * 5 + k] = aIm[pivot * 5 + k]; aIm[pivot * 5 + k] = t;
+        let t = aRe[col * 5 + k];
+        aRe[col * 5 + k] = aRe[pivot * 5 + k];
+        aRe[pivot * 5 + k] = t;
+        t = aIm[col * 5 + k];
+        aIm[col * 5 + k] = aIm[pivot * 5 + k];
+        aIm[pivot * 5 + k] = t;
       }
     }
     const pRe = aRe[col * 5 + col];

@@ -130,9 +130,12 @@ export function solidStateBurst(circuit: CoupledCircuit, drive: BridgeDrive): So
       continue;
     }
     // An event inside the step: redo it by RK4 up to the earlier of the two.
-    const advance = (from: Float64Array, to: Float64Array, part: number): void => rungeKuttaStep(constants, source, from, to, part);
+    const advance = (from: Float64Array, to: Float64Array, part: number): void =>
+      rungeKuttaStep(constants, source, from, to, part);
     if (!full) rungeKuttaStep(constants, source, state, trial, length);
-    const limitFraction = overLimit ? locate(state, trial, length, (x) => Math.abs(x[2]) - currentLimit, advance) : Infinity;
+    const limitFraction = overLimit
+      ? locate(state, trial, length, (x) => Math.abs(x[2]) - currentLimit, advance)
+      : Infinity;
     const reverseFraction = reversed ? locate(state, trial, length, (x) => polarity * x[2], advance) : Infinity;
     const fraction = Math.min(limitFraction, reverseFraction);
     advance(state, trial, fraction * length);
@@ -231,15 +234,28 @@ function halfStepPropagator(circuit: CoupledCircuit, k: StepConstants, length: n
   ];
   // A in circuit units, row-major: y = [v1, v2, i1, i2]
   const a = [
-    0, 0, k.inverseC1, 0,
-    0, 0, 0, k.inverseC2,
-    -k.g11, -k.g12, -k.g11 * k.r1, -k.g12 * k.r2,
-    -k.g12, -k.g22, -k.g12 * k.r1, -k.g22 * k.r2,
+    0,
+    0,
+    k.inverseC1,
+    0,
+    0,
+    0,
+    0,
+    k.inverseC2,
+    -k.g11,
+    -k.g12,
+    -k.g11 * k.r1,
+    -k.g12 * k.r2,
+    -k.g12,
+    -k.g22,
+    -k.g12 * k.r1,
+    -k.g22 * k.r2,
   ];
   const b = [0, 0, k.g11, k.g12];
   // scaled: A' = S A S⁻¹ τ, b' = S b τ
   const scaled = new Float64Array(16);
-  for (let r = 0; r < 4; r++) for (let c = 0; c < 4; c++) scaled[r * 4 + c] = (scale[r] * a[r * 4 + c] * length) / scale[c];
+  for (let r = 0; r < 4; r++)
+    for (let c = 0; c < 4; c++) scaled[r * 4 + c] = (scale[r] * a[r * 4 + c] * length) / scale[c];
   const scaledForcing = b.map((value, r) => scale[r] * value * length);
   // exp(A') = Σ A'^n/n!, Γ' = Σ A'^n b'/(n+1)!
   const transition = new Float64Array(16);
@@ -276,12 +292,24 @@ function multiply(left: Float64Array, right: Float64Array): Float64Array {
 
 function multiplyVector(matrix: Float64Array, vector: Float64Array): Float64Array {
   const out = new Float64Array(4);
-  for (let r = 0; r < 4; r++) out[r] = matrix[r * 4] * vector[0] + matrix[r * 4 + 1] * vector[1] + matrix[r * 4 + 2] * vector[2] + matrix[r * 4 + 3] * vector[3];
+  for (let r = 0; r < 4; r++)
+    out[r] =
+      matrix[r * 4] * vector[0] +
+      matrix[r * 4 + 1] * vector[1] +
+      matrix[r * 4 + 2] * vector[2] +
+      matrix[r * 4 + 3] * vector[3];
   return out;
 }
 
 /** Two exact half steps with source e; the dissipated energy by Simpson's rule on the three points. */
-function exactStep(p: Propagator, k: StepConstants, source: number, from: Float64Array, middle: Float64Array, to: Float64Array): void {
+function exactStep(
+  p: Propagator,
+  k: StepConstants,
+  source: number,
+  from: Float64Array,
+  middle: Float64Array,
+  to: Float64Array,
+): void {
   applyPropagator(p, source, from, middle);
   applyPropagator(p, source, middle, to);
   const powerStart = k.r1 * from[2] * from[2] + k.r2 * from[3] * from[3];
@@ -293,7 +321,10 @@ function exactStep(p: Propagator, k: StepConstants, source: number, from: Float6
 
 function applyPropagator(p: Propagator, source: number, from: Float64Array, to: Float64Array): void {
   const t = p.transition;
-  const v1 = from[0], v2 = from[1], i1 = from[2], i2 = from[3];
+  const v1 = from[0],
+    v2 = from[1],
+    i1 = from[2],
+    i2 = from[3];
   to[0] = t[0] * v1 + t[1] * v2 + t[2] * i1 + t[3] * i2 + source * p.forcing[0];
   to[1] = t[4] * v1 + t[5] * v2 + t[6] * i1 + t[7] * i2 + source * p.forcing[1];
   to[2] = t[8] * v1 + t[9] * v2 + t[10] * i1 + t[11] * i2 + source * p.forcing[2];
@@ -331,33 +362,53 @@ function stepConstants(circuit: CoupledCircuit): StepConstants {
  */
 function rungeKuttaStep(k: StepConstants, source: number, from: Float64Array, to: Float64Array, h: number): void {
   const { inverseC1, inverseC2, r1, r2, g11, g12, g22 } = k;
-  const v1 = from[0], v2 = from[1], i1 = from[2], i2 = from[3];
+  const v1 = from[0],
+    v2 = from[1],
+    i1 = from[2],
+    i2 = from[3];
   // stage 1
   let a1 = source - r1 * i1 - v1;
   let a2 = -r2 * i2 - v2;
-  const dv1a = i1 * inverseC1, dv2a = i2 * inverseC2;
-  const di1a = g11 * a1 + g12 * a2, di2a = g12 * a1 + g22 * a2;
+  const dv1a = i1 * inverseC1,
+    dv2a = i2 * inverseC2;
+  const di1a = g11 * a1 + g12 * a2,
+    di2a = g12 * a1 + g22 * a2;
   const pa = r1 * i1 * i1 + r2 * i2 * i2;
   // stage 2
-  let sv1 = v1 + 0.5 * h * dv1a, sv2 = v2 + 0.5 * h * dv2a, si1 = i1 + 0.5 * h * di1a, si2 = i2 + 0.5 * h * di2a;
+  let sv1 = v1 + 0.5 * h * dv1a,
+    sv2 = v2 + 0.5 * h * dv2a,
+    si1 = i1 + 0.5 * h * di1a,
+    si2 = i2 + 0.5 * h * di2a;
   a1 = source - r1 * si1 - sv1;
   a2 = -r2 * si2 - sv2;
-  const dv1b = si1 * inverseC1, dv2b = si2 * inverseC2;
-  const di1b = g11 * a1 + g12 * a2, di2b = g12 * a1 + g22 * a2;
+  const dv1b = si1 * inverseC1,
+    dv2b = si2 * inverseC2;
+  const di1b = g11 * a1 + g12 * a2,
+    di2b = g12 * a1 + g22 * a2;
   const pb = r1 * si1 * si1 + r2 * si2 * si2;
   // stage 3
-  sv1 = v1 + 0.5 * h * dv1b; sv2 = v2 + 0.5 * h * dv2b; si1 = i1 + 0.5 * h * di1b; si2 = i2 + 0.5 * h * di2b;
+  sv1 = v1 + 0.5 * h * dv1b;
+  sv2 = v2 + 0.5 * h * dv2b;
+  si1 = i1 + 0.5 * h * di1b;
+  si2 = i2 + 0.5 * h * di2b;
   a1 = source - r1 * si1 - sv1;
   a2 = -r2 * si2 - sv2;
-  const dv1c = si1 * inverseC1, dv2c = si2 * inverseC2;
-  const di1c = g11 * a1 + g12 * a2, di2c = g12 * a1 + g22 * a2;
+  const dv1c = si1 * inverseC1,
+    dv2c = si2 * inverseC2;
+  const di1c = g11 * a1 + g12 * a2,
+    di2c = g12 * a1 + g22 * a2;
   const pc = r1 * si1 * si1 + r2 * si2 * si2;
   // stage 4
-  sv1 = v1 + h * dv1c; sv2 = v2 + h * dv2c; si1 = i1 + h * di1c; si2 = i2 + h * di2c;
+  sv1 = v1 + h * dv1c;
+  sv2 = v2 + h * dv2c;
+  si1 = i1 + h * di1c;
+  si2 = i2 + h * di2c;
   a1 = source - r1 * si1 - sv1;
   a2 = -r2 * si2 - sv2;
-  const dv1d = si1 * inverseC1, dv2d = si2 * inverseC2;
-  const di1d = g11 * a1 + g12 * a2, di2d = g12 * a1 + g22 * a2;
+  const dv1d = si1 * inverseC1,
+    dv2d = si2 * inverseC2;
+  const di1d = g11 * a1 + g12 * a2,
+    di2d = g12 * a1 + g22 * a2;
   const pd = r1 * si1 * si1 + r2 * si2 * si2;
   const sixth = h / 6;
   to[0] = v1 + sixth * (dv1a + 2 * dv1b + 2 * dv1c + dv1d);

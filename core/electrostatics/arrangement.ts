@@ -56,7 +56,10 @@ export function toploadBody(
   let name: string;
   if (topload.shape === 'toroid') {
     if (!(topload.tubeDiameter > 0)) {
-      problems.push({ field: 'topload.tube_diameter', reason: `the tube diameter (${mm(topload.tubeDiameter)}) must be positive` });
+      problems.push({
+        field: 'topload.tube_diameter',
+        reason: `the tube diameter (${mm(topload.tubeDiameter)}) must be positive`,
+      });
       return null;
     }
     if (!(topload.tubeDiameter < topload.outerDiameter)) {
@@ -76,7 +79,10 @@ export function toploadBody(
     name = 'toroid';
   } else {
     if (!(topload.diameter > 0)) {
-      problems.push({ field: 'topload.diameter', reason: `the sphere diameter (${mm(topload.diameter)}) must be positive` });
+      problems.push({
+        field: 'topload.diameter',
+        reason: `the sphere diameter (${mm(topload.diameter)}) must be positive`,
+      });
       return null;
     }
     body = { shape: 'sphere', radius: topload.diameter / 2, centerZ };
@@ -84,7 +90,10 @@ export function toploadBody(
     name = 'sphere';
   }
   if (!(lowest > 0)) {
-    problems.push({ field: heightField, reason: `the ${name} reaches the floor (its lowest point is at ${mm(lowest)})` });
+    problems.push({
+      field: heightField,
+      reason: `the ${name} reaches the floor (its lowest point is at ${mm(lowest)})`,
+    });
     return null;
   }
   if (secondary) {
@@ -115,7 +124,10 @@ function groundedRings(
 ): GroundedRing[] {
   const rings: Array<GroundedRing & { field: string; what: string }> = [];
   if (design.primary && design.primary.turns > MAX_PRIMARY_TURNS) {
-    problems.push({ field: 'primary.turns', reason: `${Number(design.primary.turns.toPrecision(4))} turns is beyond the ${MAX_PRIMARY_TURNS} rings this model handles` });
+    problems.push({
+      field: 'primary.turns',
+      reason: `${Number(design.primary.turns.toPrecision(4))} turns is beyond the ${MAX_PRIMARY_TURNS} rings this model handles`,
+    });
     return [];
   }
   if (design.primary) {
@@ -143,7 +155,10 @@ function groundedRings(
   };
   for (const ring of rings) {
     if (!(ring.r > ring.wireRadius) || !(ring.wireRadius > 0)) {
-      report(ring.field.replace('elevation', 'conductor_diameter'), `${ring.what} (radius ${mm(ring.r)}) is not a ring with a conductor of ${mm(2 * ring.wireRadius)}`);
+      report(
+        ring.field.replace('elevation', 'conductor_diameter'),
+        `${ring.what} (radius ${mm(ring.r)}) is not a ring with a conductor of ${mm(2 * ring.wireRadius)}`,
+      );
       continue;
     }
     if (!(ring.z - ring.wireRadius > 0)) {
@@ -180,7 +195,10 @@ export function arrangementFromDesign(
   if (topload) arrangement.topload = topload;
   if (secondary) {
     if (!(secondary.topZ > secondary.bottomZ) || !(secondary.radius > 0) || !(secondary.bottomZ >= 0)) {
-      problems.push({ field: 'secondary.base_height', reason: `the winding (base ${mm(secondary.bottomZ)}, top ${mm(secondary.topZ)}, radius ${mm(secondary.radius)}) is not a cylinder above the floor` });
+      problems.push({
+        field: 'secondary.base_height',
+        reason: `the winding (base ${mm(secondary.bottomZ)}, top ${mm(secondary.topZ)}, radius ${mm(secondary.radius)}) is not a cylinder above the floor`,
+      });
       return null;
     }
     arrangement.winding = {

@@ -40,7 +40,8 @@ function ringKernel(r: number, z: number, sourceR: number, sourceZ: number): num
   const plus2 = sum * sum + dz * dz;
   const m1 = (difference * difference + dz * dz) / plus2;
   const k =
-    1.38629436112 + m1 * (0.09666344259 + m1 * (0.03590092383 + m1 * (0.03742563713 + m1 * 0.01451196212))) -
+    1.38629436112 +
+    m1 * (0.09666344259 + m1 * (0.03590092383 + m1 * (0.03742563713 + m1 * 0.01451196212))) -
     (0.5 + m1 * (0.12498593597 + m1 * (0.06880248576 + m1 * (0.03328355346 + m1 * 0.00441787012)))) * Math.log(m1);
   return k / Math.sqrt(plus2);
 }
@@ -48,7 +49,15 @@ function ringKernel(r: number, z: number, sourceR: number, sourceZ: number): num
 const scratchPoint = new Float64Array(2);
 
 /** ∫ r′K/d₊ ds′ over the parameter interval [ta, tb] of panel j, adaptive by distance. */
-function integrateAdaptive(layout: PanelLayout, j: number, ta: number, tb: number, r: number, z: number, depth: number): number {
+function integrateAdaptive(
+  layout: PanelLayout,
+  j: number,
+  ta: number,
+  tb: number,
+  r: number,
+  z: number,
+  depth: number,
+): number {
   const halfSpan = 0.5 * (tb - ta);
   const centre = 0.5 * (ta + tb);
   const pieceLength = layout.length[j] * halfSpan;
@@ -67,7 +76,8 @@ function integrateAdaptive(layout: PanelLayout, j: number, ta: number, tb: numbe
     return sum;
   }
   return (
-    integrateAdaptive(layout, j, ta, centre, r, z, depth + 1) + integrateAdaptive(layout, j, centre, tb, r, z, depth + 1)
+    integrateAdaptive(layout, j, ta, centre, r, z, depth + 1) +
+    integrateAdaptive(layout, j, centre, tb, r, z, depth + 1)
   );
 }
 
@@ -80,7 +90,7 @@ export function panelIntegral(layout: PanelLayout, j: number, r: number, z: numb
   const length = layout.length[j];
   if (distance2 >= DISTANT_RATIO * DISTANT_RATIO * length * length) {
     // Midpoint rule: relative error ≈ (length/distance)²/24 ≤ 2·10⁻⁴ of this entry.
-    return layout.area[j] / (2 * Math.PI) * ringKernel(r, z, layout.midR[j], layout.midZ[j]);
+    return (layout.area[j] / (2 * Math.PI)) * ringKernel(r, z, layout.midR[j], layout.midZ[j]);
   }
   if (distance2 >= FAR_RATIO * FAR_RATIO * length * length) {
     const o = 2 * j;
@@ -92,7 +102,8 @@ export function panelIntegral(layout: PanelLayout, j: number, r: number, z: numb
   if (distance2 >= NEAR_RATIO * NEAR_RATIO * length * length) {
     const o = 4 * j;
     let sum = 0;
-    for (let q = 0; q < 4; q++) sum += layout.gauss4W[o + q] * ringKernel(r, z, layout.gauss4R[o + q], layout.gauss4Z[o + q]);
+    for (let q = 0; q < 4; q++)
+      sum += layout.gauss4W[o + q] * ringKernel(r, z, layout.gauss4R[o + q], layout.gauss4Z[o + q]);
     return sum;
   }
   return integrateAdaptive(layout, j, -1, 1, r, z, 0);
@@ -141,7 +152,8 @@ export function panelSelfIntegral(layout: PanelLayout, j: number): number {
 let pairedScratchBuffer = new Uint8Array(0);
 /** A zeroed scratch array of `size` flags, reused between assemblies (used only inside one call). */
 function pairedScratch(size: number): Uint8Array {
-  if (pairedScratchBuffer.length < size) pairedScratchBuffer = new Uint8Array(Math.max(size, 2 * pairedScratchBuffer.length));
+  if (pairedScratchBuffer.length < size)
+    pairedScratchBuffer = new Uint8Array(Math.max(size, 2 * pairedScratchBuffer.length));
   return pairedScratchBuffer.subarray(0, size).fill(0);
 }
 
@@ -156,7 +168,12 @@ function pairedScratch(size: number): Uint8Array {
  * @param floor true to include the grounded floor z = 0 by images
  * @param pairDistant false to evaluate every entry on its own (reference path for the tests)
  */
-export function assembleCollocationMatrix(layout: PanelLayout, floor: boolean, pairDistant = true, out?: Float64Array): Float64Array {
+export function assembleCollocationMatrix(
+  layout: PanelLayout,
+  floor: boolean,
+  pairDistant = true,
+  out?: Float64Array,
+): Float64Array {
   const n = layout.count;
   // `out` (at least n² long) spares a fresh n² allocation per solve: in a sweep the same memory stays
   // in the cache, which lets two worker threads scale better on a shared memory bus.

@@ -33,7 +33,7 @@ export function ringChargePotential(charge: number, ringRadius: number, ringZ: n
   const minus2 = (r - ringRadius) ** 2 + dz * dz;
   if (minus2 === 0) return Number.POSITIVE_INFINITY * Math.sign(charge);
   const { k } = ellipticKEComplement(minus2 / plus2);
-  return COULOMB_FACTOR * charge * (2 / Math.PI) * k / Math.sqrt(plus2);
+  return (COULOMB_FACTOR * charge * (2 / Math.PI) * k) / Math.sqrt(plus2);
 }
 
 /** Electric field (radial and axial components) of a ring charge, V/m. */
@@ -55,9 +55,10 @@ export function ringChargeField(charge: number, ringRadius: number, ringZ: numbe
   if (minus2 === 0) return { radial: Number.NaN, axial: Number.NaN };
   const plus = Math.sqrt(plus2);
   const { k, e } = ellipticKEComplement(minus2 / plus2);
-  const axial = COULOMB_FACTOR * charge * (2 / Math.PI) * dz * e / (minus2 * plus);
+  const axial = (COULOMB_FACTOR * charge * (2 / Math.PI) * dz * e) / (minus2 * plus);
   if (r === 0) return { radial: 0, axial };
   const radial =
-    COULOMB_FACTOR * charge * (1 / (Math.PI * r)) * (k - ((ringRadius * ringRadius - r * r + dz * dz) / minus2) * e) / plus;
+    (COULOMB_FACTOR * charge * (1 / (Math.PI * r)) * (k - ((ringRadius * ringRadius - r * r + dz * dz) / minus2) * e)) /
+    plus;
   return { radial, axial };
 }

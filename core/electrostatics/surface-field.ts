@@ -29,13 +29,22 @@ function radialKernel(r: number, z: number, sourceR: number, sourceZ: number): n
   const logInverse = -Math.log(m1);
   const k = ellipticKSmoothPart(m1) + ellipticKLogPart(m1) * logInverse;
   const e =
-    1 + m1 * (0.44325141463 + m1 * (0.0626060122 + m1 * (0.04757383546 + m1 * 0.01736506451))) +
+    1 +
+    m1 * (0.44325141463 + m1 * (0.0626060122 + m1 * (0.04757383546 + m1 * 0.01736506451))) +
     m1 * (0.2499836831 + m1 * (0.09200180037 + m1 * (0.04069697526 + m1 * 0.00526449639))) * logInverse;
-  return (2 / r) * (k - ((sourceR * sourceR - r * r + dz * dz) / minus2) * e) / Math.sqrt(plus2);
+  return ((2 / r) * (k - ((sourceR * sourceR - r * r + dz * dz) / minus2) * e)) / Math.sqrt(plus2);
 }
 
 /** ∫ r′·radialKernel ds′ over the parameter interval [ta, tb] of panel j, adaptive by distance. */
-function integrateRadial(layout: PanelLayout, j: number, ta: number, tb: number, r: number, z: number, depth: number): number {
+function integrateRadial(
+  layout: PanelLayout,
+  j: number,
+  ta: number,
+  tb: number,
+  r: number,
+  z: number,
+  depth: number,
+): number {
   const halfSpan = 0.5 * (tb - ta);
   const centre = 0.5 * (ta + tb);
   const pieceLength = layout.length[j] * halfSpan;
@@ -60,7 +69,9 @@ function integrateRadial(layout: PanelLayout, j: number, ta: number, tb: number,
     }
     return sum;
   }
-  return integrateRadial(layout, j, ta, centre, r, z, depth + 1) + integrateRadial(layout, j, centre, tb, r, z, depth + 1);
+  return (
+    integrateRadial(layout, j, ta, centre, r, z, depth + 1) + integrateRadial(layout, j, centre, tb, r, z, depth + 1)
+  );
 }
 
 /** Own-panel radial field integral on a vertical line panel, t = ±u² removes the log. */

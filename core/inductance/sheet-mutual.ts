@@ -49,7 +49,13 @@ const PANEL_WIDTH = 1.5;
 const PANEL_RULE = gaussLegendreRule(POINTS_PER_PANEL);
 
 /** ∫ M(r, a, ζ) dζ over ζ = h sinh u, u in [u1, u2] (u1 < u2), by composite Gauss–Legendre. */
-function integrateInSinhVariable(ringRadius: number, sheetRadius: number, scale: number, u1: number, u2: number): number {
+function integrateInSinhVariable(
+  ringRadius: number,
+  sheetRadius: number,
+  scale: number,
+  u1: number,
+  u2: number,
+): number {
   const panels = Math.max(1, Math.ceil((u2 - u1) / PANEL_WIDTH));
   const width = (u2 - u1) / panels;
   let total = 0;
@@ -58,7 +64,13 @@ function integrateInSinhVariable(ringRadius: number, sheetRadius: number, scale:
     for (let i = 0; i < POINTS_PER_PANEL; i++) {
       const u = centre + 0.5 * width * PANEL_RULE.nodes[i];
       const zeta = scale * Math.sinh(u);
-      total += PANEL_RULE.weights[i] * 0.5 * width * scale * Math.cosh(u) * coaxialLoopMutualInductance(ringRadius, sheetRadius, zeta);
+      total +=
+        PANEL_RULE.weights[i] *
+        0.5 *
+        width *
+        scale *
+        Math.cosh(u) *
+        coaxialLoopMutualInductance(ringRadius, sheetRadius, zeta);
     }
   }
   return total;

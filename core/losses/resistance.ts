@@ -33,7 +33,9 @@ export function solenoidAcResistance(
   const area = (Math.PI * bareDiameter * bareDiameter) / 4;
   const resistivity = (dcResistance * area) / wireLength;
   const depth = skinDepth(frequency, resistivity);
-  const winding = dowellSingleLayerFactor(dowellRoundWirePenetration(bareDiameter, Math.max(pitch, bareDiameter), depth));
+  const winding = dowellSingleLayerFactor(
+    dowellRoundWirePenetration(bareDiameter, Math.max(pitch, bareDiameter), depth),
+  );
   const isolated = roundWireResistanceRatio(bareDiameter / 2, depth);
   return dcResistance * Math.max(winding, isolated);
 }
@@ -49,7 +51,12 @@ export function solenoidAcResistance(
  * in a flat or conical primary with a gap of about one conductor diameter or more it adds a modest
  * fraction (not modelled); a tube counts as solid while its wall is thicker than about 2δ.
  */
-export function roundConductorAcResistance(length: number, radius: number, resistivity: number, frequency: number): number {
+export function roundConductorAcResistance(
+  length: number,
+  radius: number,
+  resistivity: number,
+  frequency: number,
+): number {
   const dcResistance = (resistivity * length) / (Math.PI * radius * radius);
   return dcResistance * roundWireResistanceRatio(radius, skinDepth(frequency, resistivity));
 }

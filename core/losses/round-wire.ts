@@ -108,7 +108,10 @@ function cosSinCombination(
   const cosIm = -Math.sin(chiRe) * Math.sinh(chiIm);
   const sinRe = Math.sin(chiRe) * Math.cosh(chiIm);
   const sinIm = Math.cos(chiRe) * Math.sinh(chiIm);
-  return [pRe * cosRe - pIm * cosIm - (qRe * sinRe - qIm * sinIm), pRe * cosIm + pIm * cosRe - (qRe * sinIm + qIm * sinRe)];
+  return [
+    pRe * cosRe - pIm * cosIm - (qRe * sinRe - qIm * sinIm),
+    pRe * cosIm + pIm * cosRe - (qRe * sinIm + qIm * sinRe),
+  ];
 }
 
 function complexDivide(aRe: number, aIm: number, bRe: number, bIm: number): [number, number] {

@@ -64,7 +64,8 @@ export function primaryStrikeMargin(
  * @param secondaryTopZ top of the winding above the floor, m (null without a secondary)
  */
 export function toploadCentreHeight(topload: ToploadSpec, secondaryTopZ: number | null): number | null {
-  if (secondaryTopZ !== null && topload.heightAboveWinding !== undefined) return secondaryTopZ + topload.heightAboveWinding;
+  if (secondaryTopZ !== null && topload.heightAboveWinding !== undefined)
+    return secondaryTopZ + topload.heightAboveWinding;
   if (topload.centerHeight !== undefined) return topload.centerHeight;
   return null;
 }

@@ -16,7 +16,14 @@ export const TANK_RATING_FACTOR = 1.5;
 export const TUNING_TOLERANCE = 0.03;
 
 const PREFIXES: ReadonlyArray<[number, string]> = [
-  [1e9, 'G'], [1e6, 'M'], [1e3, 'k'], [1, ''], [1e-3, 'm'], [1e-6, 'µ'], [1e-9, 'n'], [1e-12, 'p'],
+  [1e9, 'G'],
+  [1e6, 'M'],
+  [1e3, 'k'],
+  [1, ''],
+  [1e-3, 'm'],
+  [1e-6, 'µ'],
+  [1e-9, 'n'],
+  [1e-12, 'p'],
 ];
 
 /** A value with an SI prefix and three significant digits, e.g. formatQuantity(4.2e5, 'V') → '420 kV'. */
@@ -24,7 +31,8 @@ export function formatQuantity(value: number, unit: string): string {
   if (!Number.isFinite(value)) return `${value} ${unit}`;
   const magnitude = Math.abs(value);
   for (const [factor, prefix] of PREFIXES) {
-    if (magnitude >= factor * 0.9995 || factor === 1e-12) return `${trim((value / factor).toPrecision(3))} ${prefix}${unit}`;
+    if (magnitude >= factor * 0.9995 || factor === 1e-12)
+      return `${trim((value / factor).toPrecision(3))} ${prefix}${unit}`;
   }
   return `${value} ${unit}`;
 }

@@ -42,8 +42,15 @@ export function dynamicsStage(context: EvalContext): void {
   const l2 = secondary.inductance;
   const c2 = electrostatics.totalCapacitance;
   const f2 = positive(metrics.resonant_frequency) ?? 1 / (2 * Math.PI * Math.sqrt(l2 * c2));
-  if (!(secondary.dcResistance > 0) || !(secondary.wireLength > 0) || !(secondary.bareDiameter > 0) || !(l2 > 0)) return;
-  const r2 = solenoidAcResistance(secondary.dcResistance, secondary.wireLength, secondary.bareDiameter, secondary.pitch, f2);
+  if (!(secondary.dcResistance > 0) || !(secondary.wireLength > 0) || !(secondary.bareDiameter > 0) || !(l2 > 0))
+    return;
+  const r2 = solenoidAcResistance(
+    secondary.dcResistance,
+    secondary.wireLength,
+    secondary.bareDiameter,
+    secondary.pitch,
+    f2,
+  );
   if (!Number.isFinite(r2)) return;
   metrics.secondary_ac_resistance = r2;
   metrics.secondary_q = (2 * Math.PI * f2 * l2) / r2;
@@ -57,7 +64,12 @@ export function dynamicsStage(context: EvalContext): void {
   if (!(l1 > 0) || !(c1 > 0) || !(primary.conductorLength > 0) || !(primary.conductorRadius > 0)) return;
   const f1 = 1 / (2 * Math.PI * Math.sqrt(l1 * c1));
   const resistivity = design.primary.resistivity ?? copperResistivity(design.environment.temperature);
-  const conductorResistance = roundConductorAcResistance(primary.conductorLength, primary.conductorRadius, resistivity, f1);
+  const conductorResistance = roundConductorAcResistance(
+    primary.conductorLength,
+    primary.conductorRadius,
+    resistivity,
+    f1,
+  );
   const driver = design.driver;
   const gapResistance = driver?.kind === 'spark_gap' ? (driver.gapResistance ?? DEFAULT_GAP_RESISTANCE) : 0;
   const r1 = conductorResistance + gapResistance;
@@ -65,7 +77,8 @@ export function dynamicsStage(context: EvalContext): void {
   metrics.gap_resistance = driver?.kind === 'spark_gap' ? gapResistance : null;
   metrics.primary_resistance = r1;
 
-  const coupling = positive(metrics.coupling) ?? (primary.mutual !== null ? Math.abs(primary.mutual) / Math.sqrt(l1 * l2) : null);
+  const coupling =
+    positive(metrics.coupling) ?? (primary.mutual !== null ? Math.abs(primary.mutual) / Math.sqrt(l1 * l2) : null);
   if (coupling === null || !(coupling < 1)) return;
   const circuit: CoupledCircuit = {
     primaryInductance: l1,
@@ -129,7 +142,10 @@ function runSolidState(context: EvalContext, circuit: CoupledCircuit, driver: So
     return;
   }
   const driveVoltage = driver.bridge === 'full' ? driver.busVoltage : driver.busVoltage / 2;
-  const upperPeriod = 1 / (metrics.mode_frequency_high ?? 1 / (2 * Math.PI * Math.sqrt(circuit.primaryInductance * circuit.primaryCapacitance)));
+  const upperPeriod =
+    1 /
+    (metrics.mode_frequency_high ??
+      1 / (2 * Math.PI * Math.sqrt(circuit.primaryInductance * circuit.primaryCapacitance)));
   let onTime = driver.onTime;
   let cycles = driver.cycles;
   if ((onTime ?? Infinity) > MAX_BURST_CYCLES * upperPeriod && (cycles ?? Infinity) > MAX_BURST_CYCLES) {
@@ -138,7 +154,13 @@ function runSolidState(context: EvalContext, circuit: CoupledCircuit, driver: So
     cycles = undefined;
   }
   const breakoutVoltage = context.electrostatics?.breakoutVoltage ?? undefined;
-  const burst = solidStateBurst(circuit, { driveVoltage, currentLimit: driver.currentLimit, onTime, cycles, breakoutVoltage: breakoutVoltage ?? undefined });
+  const burst = solidStateBurst(circuit, {
+    driveVoltage,
+    currentLimit: driver.currentLimit,
+    onTime,
+    cycles,
+    breakoutVoltage: breakoutVoltage ?? undefined,
+  });
   metrics.energy_per_shot = burst.energyFromSource;
   metrics.input_power = driver.repetitionRate >= 0 ? burst.energyFromSource * driver.repetitionRate : null;
   metrics.peak_voltage = burst.peakVoltage;

@@ -13,7 +13,12 @@
  */
 import type { EvalContext } from '../context.ts';
 import { relativeAirDensity, TROPOPAUSE_ALTITUDE } from '../breakdown/air-density.ts';
-import { breakoutVoltage, DEFAULT_SURFACE_FACTOR, peekCylinderOnsetField, peekSphereOnsetField } from '../breakdown/peek.ts';
+import {
+  breakoutVoltage,
+  DEFAULT_SURFACE_FACTOR,
+  peekCylinderOnsetField,
+  peekSphereOnsetField,
+} from '../breakdown/peek.ts';
 import { medhurstSelfCapacitance } from '../capacitance/medhurst.ts';
 import { lcResonantFrequency } from '../capacitance/resonance.ts';
 import { streamerCapacitance } from '../capacitance/streamer.ts';
@@ -30,16 +35,25 @@ export function electrostaticsStage(context: EvalContext): void {
   const environment = design.environment;
 
   if (!(environment.altitude >= -500 && environment.altitude <= TROPOPAUSE_ALTITUDE)) {
-    problems.push({ field: 'environment.altitude', reason: `the altitude (${environment.altitude} m) is outside the standard troposphere (−500 m to 11 000 m)` });
+    problems.push({
+      field: 'environment.altitude',
+      reason: `the altitude (${environment.altitude} m) is outside the standard troposphere (−500 m to 11 000 m)`,
+    });
     return;
   }
   if (!(environment.temperature > 0)) {
-    problems.push({ field: 'environment.temperature', reason: `the temperature (${environment.temperature} K) must be above absolute zero` });
+    problems.push({
+      field: 'environment.temperature',
+      reason: `the temperature (${environment.temperature} K) must be above absolute zero`,
+    });
     return;
   }
   const surfaceFactor = environment.surfaceFactor ?? DEFAULT_SURFACE_FACTOR;
   if (!(surfaceFactor > 0 && surfaceFactor <= 1)) {
-    problems.push({ field: 'environment.surface_factor', reason: `the surface factor (${surfaceFactor}) must be in (0, 1]` });
+    problems.push({
+      field: 'environment.surface_factor',
+      reason: `the surface factor (${surfaceFactor}) must be in (0, 1]`,
+    });
     return;
   }
 
@@ -47,7 +61,10 @@ export function electrostaticsStage(context: EvalContext): void {
   if (!arrangement) return;
   const solution = solveField(arrangement);
   if (!solution) {
-    problems.push({ field: design.topload ? 'topload' : 'secondary', reason: 'the field solve found no solution for this geometry (singular system)' });
+    problems.push({
+      field: design.topload ? 'topload' : 'secondary',
+      reason: 'the field solve found no solution for this geometry (singular system)',
+    });
     return;
   }
 
@@ -78,7 +95,10 @@ export function electrostaticsStage(context: EvalContext): void {
 
   if (secondary && arrangement.winding) {
     metrics.secondary_self_capacitance = solution.selfCapacitance;
-    metrics.secondary_self_capacitance_medhurst = medhurstSelfCapacitance(2 * secondary.radius, secondary.topZ - secondary.bottomZ);
+    metrics.secondary_self_capacitance_medhurst = medhurstSelfCapacitance(
+      2 * secondary.radius,
+      secondary.topZ - secondary.bottomZ,
+    );
     metrics.winding_top_field_per_volt = solution.windingTopFieldPerVolt;
     if (secondary.inductance > 0) {
       metrics.resonant_frequency = lcResonantFrequency(secondary.inductance, solution.totalCapacitance);

@@ -9,7 +9,12 @@ import type { EvalContext } from '../context.ts';
 import { overallHeight } from '../outcome/overall-height.ts';
 import { loadedResonantFrequency, sparkLengthEstimate } from '../outcome/spark-length.ts';
 import { streamerCapacitance } from '../capacitance/streamer.ts';
-import { LONG_GAP_WITHSTAND_GRADIENT, primaryStrikeMargin, toploadCentreHeight, toploadToRingDistance } from '../outcome/clearance.ts';
+import {
+  LONG_GAP_WITHSTAND_GRADIENT,
+  primaryStrikeMargin,
+  toploadCentreHeight,
+  toploadToRingDistance,
+} from '../outcome/clearance.ts';
 import { AXIAL_GRADIENT_LIMIT, formatNumber, formatQuantity, TUNING_TOLERANCE } from '../outcome/warnings.ts';
 
 /**
@@ -70,7 +75,14 @@ export function outcomeStage(context: EvalContext): void {
     const outerRing = primary.rings[primary.rings.length - 1];
     const driver = design.driver;
     const primaryVoltage = driver?.kind === 'solid_state' ? driver.busVoltage : (design.tank?.chargeVoltage ?? 0);
-    const strike = primaryStrikeMargin(outerRing, primary.conductorRadius, secondary, design.secondary.voltageProfile, peak, primaryVoltage);
+    const strike = primaryStrikeMargin(
+      outerRing,
+      primary.conductorRadius,
+      secondary,
+      design.secondary.voltageProfile,
+      peak,
+      primaryVoltage,
+    );
     metrics.primary_strike_margin = Number.isFinite(strike.margin) ? strike.margin : null;
     if (strike.margin < 1) {
       warnings.push(

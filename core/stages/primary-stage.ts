@@ -49,15 +49,24 @@ export function primaryStage(context: EvalContext): void {
     return;
   }
   if (spec.turns > MAX_PRIMARY_TURNS) {
-    problems.push({ field: 'primary.turns', reason: `${Number(spec.turns.toPrecision(4))} turns is beyond the ${MAX_PRIMARY_TURNS} rings this model handles` });
+    problems.push({
+      field: 'primary.turns',
+      reason: `${Number(spec.turns.toPrecision(4))} turns is beyond the ${MAX_PRIMARY_TURNS} rings this model handles`,
+    });
     return;
   }
   if (!(spec.conductorDiameter > 0)) {
-    problems.push({ field: 'primary.conductor_diameter', reason: `the conductor diameter must be positive, got ${mm(spec.conductorDiameter)}` });
+    problems.push({
+      field: 'primary.conductor_diameter',
+      reason: `the conductor diameter must be positive, got ${mm(spec.conductorDiameter)}`,
+    });
     return;
   }
   if (!(spec.turnSpacing >= 0)) {
-    problems.push({ field: 'primary.turn_spacing', reason: `neighbouring turns would overlap: turn spacing ${mm(spec.turnSpacing)}` });
+    problems.push({
+      field: 'primary.turn_spacing',
+      reason: `neighbouring turns would overlap: turn spacing ${mm(spec.turnSpacing)}`,
+    });
     return;
   }
   if (!(spec.innerDiameter / 2 > conductorRadius)) {
@@ -79,7 +88,10 @@ export function primaryStage(context: EvalContext): void {
     }
   }
   if (spec.tapTurns !== undefined && !(spec.tapTurns > 0 && spec.tapTurns <= spec.turns)) {
-    problems.push({ field: 'primary.tap_turns', reason: `the tap (${spec.tapTurns} turns) must lie within the primary's ${spec.turns} turns` });
+    problems.push({
+      field: 'primary.tap_turns',
+      reason: `the tap (${spec.tapTurns} turns) must lie within the primary's ${spec.turns} turns`,
+    });
     return;
   }
 

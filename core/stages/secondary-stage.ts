@@ -47,7 +47,10 @@ function windingLayout(
 ): { turns: number; pitch: number; windingLength: number } | { field: string; reason: string } {
   const { turns: givenTurns, windingLength: givenLength, pitch: givenPitch } = spec;
   if (givenPitch !== undefined && !(givenPitch >= overallDiameter)) {
-    return { field: 'secondary.pitch', reason: `the pitch (${mm(givenPitch)}) is smaller than the insulated wire (${mm(overallDiameter)}): turns would overlap` };
+    return {
+      field: 'secondary.pitch',
+      reason: `the pitch (${mm(givenPitch)}) is smaller than the insulated wire (${mm(overallDiameter)}): turns would overlap`,
+    };
   }
   if (givenTurns !== undefined && givenLength !== undefined) {
     if (givenPitch === undefined) {
@@ -80,7 +83,10 @@ export function secondaryStage(context: EvalContext): void {
   const { metrics, problems, warnings } = context;
   const bareDiameter = spec.wire.bareDiameter;
   if (!(spec.formDiameter > 0)) {
-    problems.push({ field: 'secondary.form_diameter', reason: `the form diameter must be positive, got ${mm(spec.formDiameter)}` });
+    problems.push({
+      field: 'secondary.form_diameter',
+      reason: `the form diameter must be positive, got ${mm(spec.formDiameter)}`,
+    });
     return;
   }
   if (!(bareDiameter > 0)) {
@@ -89,13 +95,17 @@ export function secondaryStage(context: EvalContext): void {
   }
   const overallDiameter = spec.wire.overallDiameter ?? insulatedDiameter(bareDiameter, spec.wire.insulation);
   if (!(overallDiameter >= bareDiameter)) {
-    problems.push({ field: 'secondary.wire_overall_diameter', reason: `the insulated diameter (${mm(overallDiameter)}) is smaller than the bare wire (${mm(bareDiameter)})` });
+    problems.push({
+      field: 'secondary.wire_overall_diameter',
+      reason: `the insulated diameter (${mm(overallDiameter)}) is smaller than the bare wire (${mm(bareDiameter)})`,
+    });
     return;
   }
   if (
     spec.wire.overallDiameter === undefined &&
     spec.wire.insulation !== 'none' &&
-    (bareDiameter < INSULATION_TABLE_RANGE.minimum * (1 - 1e-9) || bareDiameter > INSULATION_TABLE_RANGE.maximum * (1 + 1e-9))
+    (bareDiameter < INSULATION_TABLE_RANGE.minimum * (1 - 1e-9) ||
+      bareDiameter > INSULATION_TABLE_RANGE.maximum * (1 + 1e-9))
   ) {
     warnings.push(
       `the wire (${mm(bareDiameter)}) is outside the enamel build table (${mm(INSULATION_TABLE_RANGE.minimum)} to ${mm(INSULATION_TABLE_RANGE.maximum)}); its insulated diameter ${mm(overallDiameter)} is extrapolated`,
@@ -108,12 +118,18 @@ export function secondaryStage(context: EvalContext): void {
   }
   const { turns, pitch, windingLength } = layout;
   if (!(turns >= 1)) {
-    problems.push({ field: spec.turns !== undefined ? 'secondary.turns' : 'secondary.winding_length', reason: `the winding needs at least one turn, got ${Number(turns.toPrecision(4))}` });
+    problems.push({
+      field: spec.turns !== undefined ? 'secondary.turns' : 'secondary.winding_length',
+      reason: `the winding needs at least one turn, got ${Number(turns.toPrecision(4))}`,
+    });
     return;
   }
   if (turns > MAX_SECONDARY_TURNS) {
     // The filament sum below costs one mutual per turn: bound it (common practice: a few thousand turns).
-    problems.push({ field: spec.turns !== undefined ? 'secondary.turns' : 'secondary.winding_length', reason: `${Number(turns.toPrecision(4))} turns is beyond the ${MAX_SECONDARY_TURNS} this model handles` });
+    problems.push({
+      field: spec.turns !== undefined ? 'secondary.turns' : 'secondary.winding_length',
+      reason: `${Number(turns.toPrecision(4))} turns is beyond the ${MAX_SECONDARY_TURNS} this model handles`,
+    });
     return;
   }
   const radius = (spec.formDiameter + overallDiameter) / 2;

@@ -73,7 +73,8 @@ export function insulationIncrease(bareDiameter: number, grade: InsulationGrade)
   if (grade === 'none') return 0;
   const gradeIndex = grade === 'grade1' ? 0 : grade === 'grade2' ? 1 : 2;
   const last = BUILD_TABLE.length - 1;
-  if (bareDiameter <= BUILD_TABLE[0].diameter) return extrapolate(BUILD_TABLE[0], BUILD_TABLE[1], gradeIndex, bareDiameter);
+  if (bareDiameter <= BUILD_TABLE[0].diameter)
+    return extrapolate(BUILD_TABLE[0], BUILD_TABLE[1], gradeIndex, bareDiameter);
   if (bareDiameter >= BUILD_TABLE[last].diameter) {
     return extrapolate(BUILD_TABLE[last - 1], BUILD_TABLE[last], gradeIndex, bareDiameter);
   }
@@ -82,7 +83,9 @@ export function insulationIncrease(bareDiameter: number, grade: InsulationGrade)
   const lower = BUILD_TABLE[upper - 1];
   const higher = BUILD_TABLE[upper];
   const fraction = (bareDiameter - lower.diameter) / (higher.diameter - lower.diameter);
-  return meanIncrease(lower, gradeIndex) + fraction * (meanIncrease(higher, gradeIndex) - meanIncrease(lower, gradeIndex));
+  return (
+    meanIncrease(lower, gradeIndex) + fraction * (meanIncrease(higher, gradeIndex) - meanIncrease(lower, gradeIndex))
+  );
 }
 
 /**

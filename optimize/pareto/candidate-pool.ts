@@ -172,11 +172,16 @@ export class CandidatePool<T> {
     }
     if (violation > 0) {
       if (!this.infeasible.wouldKeep(violation, index)) return false;
-      return this.infeasible.offer(violation, index, { objectives: Float64Array.from(objectives), payload: makePayload() });
+      return this.infeasible.offer(violation, index, {
+        objectives: Float64Array.from(objectives),
+        payload: makePayload(),
+      });
     }
     const m = this.objectiveCount;
     if (objectives.length !== m) {
-      throw new RangeError(`CandidatePool.offer: objectives must have ${m} values, got ${objectives.length} (index ${index})`);
+      throw new RangeError(
+        `CandidatePool.offer: objectives must have ${m} values, got ${objectives.length} (index ${index})`,
+      );
     }
     for (let j = 0; j < m; j++) {
       const value = objectives[j];
@@ -280,7 +285,11 @@ export class CandidatePool<T> {
       all.map((entry) => entry.item),
       limit,
     );
-    return order.map((position) => ({ ...all[position], paretoRank: paretoRank[position], crowding: crowding[position] }));
+    return order.map((position) => ({
+      ...all[position],
+      paretoRank: paretoRank[position],
+      crowding: crowding[position],
+    }));
   }
 
   /** Adds everything another pool kept (e.g. another shard's): the result is the pool of the union, claim (d). */
@@ -318,12 +327,17 @@ export class CandidatePool<T> {
    */
   static restore<T>(data: CandidatePoolData<T>): CandidatePool<T> {
     if (data.kind !== 'coilfront-candidate-pool' || data.version !== 1) {
-      throw new RangeError(`CandidatePool.restore: data must be a version 1 candidate pool, got ${data.kind} ${data.version}`);
+      throw new RangeError(
+        `CandidatePool.restore: data must be a version 1 candidate pool, got ${data.kind} ${data.version}`,
+      );
     }
     const pool = new CandidatePool<T>(data.keep, data.objectiveCount);
     const objectivesOf = (record: PoolRecord<T>) => Float64Array.from(record.objectives, fromJsonNumber);
     for (const record of data.infeasible) {
-      pool.offer({ index: record.index, violation: fromJsonNumber(record.violation), objectives: objectivesOf(record) }, record.payload);
+      pool.offer(
+        { index: record.index, violation: fromJsonNumber(record.violation), objectives: objectivesOf(record) },
+        record.payload,
+      );
     }
     if (pool.single !== null) {
       for (const record of data.feasible) {
@@ -333,8 +347,13 @@ export class CandidatePool<T> {
     }
     const m = data.objectiveCount;
     for (const record of data.feasible) {
-      if (record.objectives.length !== m || !(record.dominatedBy !== null && record.dominatedBy >= 0 && record.dominatedBy < data.keep)) {
-        throw new RangeError(`CandidatePool.restore: record ${record.index} is not a kept feasible candidate of this pool`);
+      if (
+        record.objectives.length !== m ||
+        !(record.dominatedBy !== null && record.dominatedBy >= 0 && record.dominatedBy < data.keep)
+      ) {
+        throw new RangeError(
+          `CandidatePool.restore: record ${record.index} is not a kept feasible candidate of this pool`,
+        );
       }
       pool.index!.insert(objectivesOf(record), record.dominatedBy, record.index, record.payload);
       pool.keptIndices.add(record.index);

@@ -18,7 +18,10 @@ export const VIOLATION_SCALE_FLOOR = 1e-12;
  * @returns 0 for a feasible design, > 0 otherwise (Infinity possible for infinite values).
  * @example totalViolation([90, 5], [{ min: 100 }, { max: 10 }]) // 0.1
  */
-export function totalViolation(values: ArrayLike<number | null | undefined>, constraints: readonly MetricBounds[]): number {
+export function totalViolation(
+  values: ArrayLike<number | null | undefined>,
+  constraints: readonly MetricBounds[],
+): number {
   let total = 0;
   for (let c = 0; c < constraints.length; c++) {
     const { min, max } = constraints[c];

@@ -194,7 +194,8 @@ export class DominanceIndex {
     this.leafOverflow[node] = slot;
     this.leafOf[slot] = node;
     this.insertedSinceRebuild++;
-    if (this.insertedSinceRebuild > Math.max(64, this.treeSize) || this.deadInTree * 2 > this.treeSize + 64) this.rebuild();
+    if (this.insertedSinceRebuild > Math.max(64, this.treeSize) || this.deadInTree * 2 > this.treeSize + 64)
+      this.rebuild();
   }
 
   /** Removes the point in `slot`. */

@@ -14,7 +14,13 @@ export function dominates(a: ArrayLike<number>, b: ArrayLike<number>): boolean {
  * The same test on vectors stored inside flat arrays: does a[aOffset …] dominate b[bOffset …], m
  * objectives each? (The candidate pool's index keeps its points in one Float64Array.)
  */
-export function dominatesAt(a: ArrayLike<number>, aOffset: number, b: ArrayLike<number>, bOffset: number, m: number): boolean {
+export function dominatesAt(
+  a: ArrayLike<number>,
+  aOffset: number,
+  b: ArrayLike<number>,
+  bOffset: number,
+  m: number,
+): boolean {
   let strictlyBetter = false;
   for (let j = 0; j < m; j++) {
     const x = a[aOffset + j];

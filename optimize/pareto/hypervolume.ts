@@ -29,11 +29,14 @@ type Point = Float64Array;
  */
 export function hypervolume(points: readonly ArrayLike<number>[], reference: ArrayLike<number>): number {
   const dimensions = reference.length;
-  if (dimensions < 1) throw new RangeError('hypervolume: the reference point must have at least one objective, got none');
+  if (dimensions < 1)
+    throw new RangeError('hypervolume: the reference point must have at least one objective, got none');
   const contributing: Point[] = [];
   for (const point of points) {
     if (point.length !== dimensions) {
-      throw new RangeError(`hypervolume: every point needs ${dimensions} objectives like the reference, got ${point.length}`);
+      throw new RangeError(
+        `hypervolume: every point needs ${dimensions} objectives like the reference, got ${point.length}`,
+      );
     }
     let inside = true;
     for (let j = 0; j < dimensions; j++) if (!(point[j] < reference[j])) inside = false;
@@ -151,7 +154,8 @@ function sweepLastDimension(points: Point[], reference: Float64Array, dimensions
     const top = i + 1 < sorted.length ? sorted[i + 1][last] : reference[last];
     const thickness = top - sorted[i][last];
     if (thickness > 0) {
-      volume += (last === 3 ? volume3dSorted(below, lowerReference) : volumeOf(below, lowerReference, last)) * thickness;
+      volume +=
+        (last === 3 ? volume3dSorted(below, lowerReference) : volumeOf(below, lowerReference, last)) * thickness;
     }
   }
   return volume;

@@ -63,7 +63,10 @@ export function rankCandidates(items: readonly Scored[], limit = Infinity): Cand
     for (let i = 1; i <= feasible.length; i++) {
       if (i === feasible.length || paretoRank[feasible[i]] !== paretoRank[feasible[start]]) {
         const group = feasible.slice(start, i);
-        const distances = crowdingDistance(group.map((p) => items[p].objectives), group.map((_, k) => k));
+        const distances = crowdingDistance(
+          group.map((p) => items[p].objectives),
+          group.map((_, k) => k),
+        );
         group.forEach((p, k) => (crowding[p] = distances[k]));
         start = i;
       }

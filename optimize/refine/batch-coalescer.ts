@@ -36,7 +36,11 @@ export function coalesceBatches<P, R>(
       .then((answers) => {
         const values = answers.flatMap((answer, index) => {
           if (answer.length !== chunks[index].length) {
-            throw refineRangeError('a coalesced batch function', `one value per item (${chunks[index].length})`, answer.length);
+            throw refineRangeError(
+              'a coalesced batch function',
+              `one value per item (${chunks[index].length})`,
+              answer.length,
+            );
           }
           return Array.from(answer);
         });

@@ -48,7 +48,11 @@ export function chebyshevMerit(
 ): number {
   const count = objectives.length;
   if (weights.length !== count || reference.length !== count || (nadir !== undefined && nadir.length !== count)) {
-    throw refineRangeError('chebyshevMerit', `weights, reference and nadir of length ${count}`, `${weights.length}, ${reference.length}, ${nadir?.length ?? '-'}`);
+    throw refineRangeError(
+      'chebyshevMerit',
+      `weights, reference and nadir of length ${count}`,
+      `${weights.length}, ${reference.length}, ${nadir?.length ?? '-'}`,
+    );
   }
   const augmentation = options.augmentation ?? DEFAULT_AUGMENTATION;
   let largest = -Infinity;
@@ -74,7 +78,12 @@ export function chebyshevMerit(
  * @param nadir the front's nadir point, for normalisation
  * @param epsilon guard against a zero distance; default 1e-9
  */
-export function weightsForFrontPoint(point: ArrayLike<number>, reference: ArrayLike<number>, nadir?: ArrayLike<number>, epsilon = 1e-9): Float64Array {
+export function weightsForFrontPoint(
+  point: ArrayLike<number>,
+  reference: ArrayLike<number>,
+  nadir?: ArrayLike<number>,
+  epsilon = 1e-9,
+): Float64Array {
   const count = point.length;
   if (count < 1) throw refineRangeError('weightsForFrontPoint', 'at least one objective', 0);
   const weights = new Float64Array(count);
@@ -166,7 +175,8 @@ export function chooseStarts(front: ReadonlyArray<ArrayLike<number>>, count: num
   const chosen: number[] = [];
   const take = (index: number): void => {
     chosen.push(index);
-    for (let j = 0; j < front.length; j++) if (nearest[j] >= 0) nearest[j] = Math.min(nearest[j], euclidean(normalised[j], normalised[index]));
+    for (let j = 0; j < front.length; j++)
+      if (nearest[j] >= 0) nearest[j] = Math.min(nearest[j], euclidean(normalised[j], normalised[index]));
   };
   for (let i = 0; i < objectives && chosen.length < count; i++) {
     let best = -1;
@@ -177,7 +187,8 @@ export function chooseStarts(front: ReadonlyArray<ArrayLike<number>>, count: num
   }
   while (chosen.length < count) {
     let farthest = -1;
-    for (let j = 0; j < front.length; j++) if (nearest[j] > 0 && (farthest < 0 || nearest[j] > nearest[farthest])) farthest = j;
+    for (let j = 0; j < front.length; j++)
+      if (nearest[j] > 0 && (farthest < 0 || nearest[j] > nearest[farthest])) farthest = j;
     if (farthest < 0) break;
     take(farthest);
   }

@@ -83,7 +83,11 @@ export class EvaluationCache<R> {
         .then(() => this.evaluator(missPoints.map(copyMixedPoint)))
         .then((values) => {
           if (values.length !== missPoints.length) {
-            throw refineRangeError('a mixed batch evaluator', `one record per point (${missPoints.length})`, values.length);
+            throw refineRangeError(
+              'a mixed batch evaluator',
+              `one record per point (${missPoints.length})`,
+              values.length,
+            );
           }
           missKeys.forEach((key, index) => {
             this.settled.set(key, { point: missPoints[index], record: values[index] });
@@ -98,6 +102,8 @@ export class EvaluationCache<R> {
         this.inFlight.set(key, one);
       });
     }
-    return Promise.all(answers.map((answer) => (typeof answer === 'number' ? records.then((values) => values[answer]) : answer)));
+    return Promise.all(
+      answers.map((answer) => (typeof answer === 'number' ? records.then((values) => values[answer]) : answer)),
+    );
   }
 }

@@ -34,7 +34,14 @@ export { minimize, minimizeAsync, minimizeManyAsync } from './minimize.ts';
 export type { BatchObjective, PointObjective } from './minimize.ts';
 
 // --- several objectives ---
-export { chebyshevMerit, chooseStarts, frontExtent, planChebyshevStarts, utopianPoint, weightsForFrontPoint } from './chebyshev.ts';
+export {
+  chebyshevMerit,
+  chooseStarts,
+  frontExtent,
+  planChebyshevStarts,
+  utopianPoint,
+  weightsForFrontPoint,
+} from './chebyshev.ts';
 export type { ChebyshevOptions, ChebyshevPlan, ChebyshevStart, FrontExtent } from './chebyshev.ts';
 
 // --- mixed variables, caching, batching ---

@@ -18,7 +18,11 @@ export type BatchObjective = (points: Float64Array[]) => Promise<ReadonlyArray<M
  *
  * @example minimize((x) => (x[0] - 1) ** 2, [0], { lower: [-5], upper: [5] }).x // ≈ [1]
  */
-export function minimize(objective: PointObjective, start: ArrayLike<number>, options: NelderMeadOptions = {}): MinimizeResult {
+export function minimize(
+  objective: PointObjective,
+  start: ArrayLike<number>,
+  options: NelderMeadOptions = {},
+): MinimizeResult {
   const machine = new NelderMead(start, options);
   while (!machine.done) machine.tell(machine.ask().map((point) => objective(point)));
   return machine.result();
@@ -28,7 +32,11 @@ export function minimize(objective: PointObjective, start: ArrayLike<number>, op
  * Minimises with an asynchronous batch objective: each step's points (n+1, 1, or n) go out in one
  * call. Same iterates and counts as `minimize` for the same values.
  */
-export async function minimizeAsync(objective: BatchObjective, start: ArrayLike<number>, options: NelderMeadOptions = {}): Promise<MinimizeResult> {
+export async function minimizeAsync(
+  objective: BatchObjective,
+  start: ArrayLike<number>,
+  options: NelderMeadOptions = {},
+): Promise<MinimizeResult> {
   const machine = new NelderMead(start, options);
   while (!machine.done) {
     const points = machine.ask();
@@ -54,7 +62,9 @@ export async function minimizeManyAsync(
   if (Array.isArray(options) && options.length !== starts.length) {
     throw refineRangeError('minimizeManyAsync', `one options object per start (${starts.length})`, options.length);
   }
-  const machines = starts.map((start, index) => new NelderMead(start, Array.isArray(options) ? options[index] : (options as NelderMeadOptions)));
+  const machines = starts.map(
+    (start, index) => new NelderMead(start, Array.isArray(options) ? options[index] : (options as NelderMeadOptions)),
+  );
   for (;;) {
     const active = machines.filter((machine) => !machine.done);
     if (active.length === 0) break;

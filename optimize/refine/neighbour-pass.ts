@@ -34,7 +34,11 @@ export async function neighbourPass<R>(
   ledger: StartLedger<R>,
 ): Promise<NeighbourPassResult> {
   if (incumbent.point.levels.length !== levelCounts.length) {
-    throw refineRangeError('neighbourPass', `one level per discrete parameter (${levelCounts.length})`, incumbent.point.levels.length);
+    throw refineRangeError(
+      'neighbourPass',
+      `one level per discrete parameter (${levelCounts.length})`,
+      incumbent.point.levels.length,
+    );
   }
   let point = copyMixedPoint(incumbent.point);
   let merit = incumbent.merit;

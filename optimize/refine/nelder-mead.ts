@@ -200,7 +200,11 @@ export class NelderMead {
     this.upper = boundArray(options.upper, dimension, 1, 'upper');
     for (let k = 0; k < dimension; k++) {
       if (!(this.lower[k] <= this.upper[k])) {
-        throw refineRangeError('NelderMead', `lower <= upper in coordinate ${k}`, `${this.lower[k]} > ${this.upper[k]}`);
+        throw refineRangeError(
+          'NelderMead',
+          `lower <= upper in coordinate ${k}`,
+          `${this.lower[k]} > ${this.upper[k]}`,
+        );
       }
     }
     this.coefficients = resolveCoefficients(dimension, options);
@@ -363,7 +367,7 @@ export class NelderMead {
     const size = this.simplexSize();
     const spread = this.meritSpread();
     if (this.isCollapsedOnBound() && this.mayRestart()) {
-            return this.startRestart();
+      return this.startRestart();
     }
     if (size <= this.xatol && spread <= this.fatol) {
       return this.finish(
@@ -395,7 +399,8 @@ export class NelderMead {
     let worstWeight: number;
     if (kind === 'reflect') [centroidWeight, worstWeight] = [1 + reflection, -reflection];
     else if (kind === 'expand') [centroidWeight, worstWeight] = [1 + reflection * expansion, -(reflection * expansion)];
-    else if (kind === 'contract-outside') [centroidWeight, worstWeight] = [1 + contraction * reflection, -(contraction * reflection)];
+    else if (kind === 'contract-outside')
+      [centroidWeight, worstWeight] = [1 + contraction * reflection, -(contraction * reflection)];
     else [centroidWeight, worstWeight] = [1 - contraction, contraction];
     const n = this.dimension;
     const worst = this.simplex[n];
@@ -445,7 +450,9 @@ export class NelderMead {
     const best = this.simplex[0];
     let moved = 0;
     for (let k = 0; k < this.dimension; k++) moved = Math.max(moved, Math.abs(best[k] - this.lastRestartPoint[k]));
-    const improvedBy = isBetterMerit(this.merits[0], this.lastRestartMerit) ? meritDistance(this.merits[0], this.lastRestartMerit) : 0;
+    const improvedBy = isBetterMerit(this.merits[0], this.lastRestartMerit)
+      ? meritDistance(this.merits[0], this.lastRestartMerit)
+      : 0;
     return moved > this.xatol || improvedBy > this.fatol;
   }
 
@@ -487,7 +494,8 @@ export class NelderMead {
     for (let k = 0; k < n; k++) {
       const vertex = Float64Array.from(center);
       let moved: number;
-      if (this.absoluteSteps !== null && Number.isFinite(this.absoluteSteps[k])) moved = center[k] + this.absoluteSteps[k];
+      if (this.absoluteSteps !== null && Number.isFinite(this.absoluteSteps[k]))
+        moved = center[k] + this.absoluteSteps[k];
       else moved = center[k] !== 0 ? (1 + RELATIVE_STEP) * center[k] : STEP_AT_ZERO;
       if (Math.abs(moved - center[k]) > largestStep) moved = center[k] + Math.sign(moved - center[k]) * largestStep;
       // scipy (PR 20345, issue 19991): a vertex past the upper bound is reflected inside it, then
@@ -555,10 +563,16 @@ export class NelderMead {
   }
 }
 
-function boundArray(values: ArrayLike<number> | undefined, dimension: number, fallback: number, name: string): Float64Array {
+function boundArray(
+  values: ArrayLike<number> | undefined,
+  dimension: number,
+  fallback: number,
+  name: string,
+): Float64Array {
   const bounds = new Float64Array(dimension).fill(fallback);
   if (values === undefined) return bounds;
-  if (values.length !== dimension) throw refineRangeError('NelderMead', `${name} bounds of length ${dimension}`, values.length);
+  if (values.length !== dimension)
+    throw refineRangeError('NelderMead', `${name} bounds of length ${dimension}`, values.length);
   for (let k = 0; k < dimension; k++) {
     if (Number.isNaN(values[k])) throw refineRangeError('NelderMead', `${name} bounds that are not NaN`, values);
     bounds[k] = values[k];
@@ -579,8 +593,10 @@ function resolveCoefficients(dimension: number, options: NelderMeadOptions): Nel
   if (coefficients.shrink === 0 && options.shrink === undefined) coefficients.shrink = 0.5;
   const { reflection, expansion, contraction, shrink } = coefficients;
   if (!(reflection > 0)) throw refineRangeError('NelderMead', 'a reflection coefficient > 0', reflection);
-  if (!(expansion > 1 && expansion > reflection)) throw refineRangeError('NelderMead', 'an expansion coefficient > max(1, reflection)', expansion);
-  if (!(contraction > 0 && contraction < 1)) throw refineRangeError('NelderMead', 'a contraction coefficient in (0, 1)', contraction);
+  if (!(expansion > 1 && expansion > reflection))
+    throw refineRangeError('NelderMead', 'an expansion coefficient > max(1, reflection)', expansion);
+  if (!(contraction > 0 && contraction < 1))
+    throw refineRangeError('NelderMead', 'a contraction coefficient in (0, 1)', contraction);
   if (!(shrink > 0 && shrink < 1)) throw refineRangeError('NelderMead', 'a shrink coefficient in (0, 1)', shrink);
   return coefficients;
 }
@@ -605,18 +621,29 @@ function resolveBudgets(dimension: number, options: NelderMeadOptions): [number,
   } else if (evaluations === undefined) {
     evaluations = iterations === Infinity ? fallback : Infinity;
   }
-  for (const [name, budget] of [['maxEvaluations', evaluations], ['maxIterations', iterations]] as const) {
+  for (const [name, budget] of [
+    ['maxEvaluations', evaluations],
+    ['maxIterations', iterations],
+  ] as const) {
     if (!(budget! >= 0) || (Number.isFinite(budget) && !Number.isInteger(budget))) {
       throw refineRangeError('NelderMead', `an integer ${name} >= 0 or Infinity`, budget);
     }
   }
   if (evaluations === Infinity && iterations === Infinity) {
-    throw refineRangeError('NelderMead', 'at least one finite budget (maxEvaluations or maxIterations)', 'both Infinity');
+    throw refineRangeError(
+      'NelderMead',
+      'at least one finite budget (maxEvaluations or maxIterations)',
+      'both Infinity',
+    );
   }
   return [evaluations!, iterations!];
 }
 
-function resolveSteps(step: number | ArrayLike<number> | 'relative' | undefined, lower: Float64Array, upper: Float64Array): Float64Array | null {
+function resolveSteps(
+  step: number | ArrayLike<number> | 'relative' | undefined,
+  lower: Float64Array,
+  upper: Float64Array,
+): Float64Array | null {
   const dimension = lower.length;
   if (step === 'relative') return null;
   const steps = new Float64Array(dimension);
@@ -628,8 +655,10 @@ function resolveSteps(step: number | ArrayLike<number> | 'relative' | undefined,
       value = Number.isFinite(range) && range > 0 ? RANGE_STEP_FRACTION * range : NaN;
     } else {
       value = typeof step === 'number' ? step : step[k];
-      if (typeof step !== 'number' && step.length !== dimension) throw refineRangeError('NelderMead', `initialStep of length ${dimension}`, step.length);
-      if (!Number.isFinite(value) || value === 0) throw refineRangeError('NelderMead', 'a finite nonzero initialStep', value);
+      if (typeof step !== 'number' && step.length !== dimension)
+        throw refineRangeError('NelderMead', `initialStep of length ${dimension}`, step.length);
+      if (!Number.isFinite(value) || value === 0)
+        throw refineRangeError('NelderMead', 'a finite nonzero initialStep', value);
     }
     steps[k] = value;
     if (!Number.isNaN(value)) anyAbsolute = true;

@@ -87,7 +87,11 @@ export async function refineStart<R>(
   const levelCounts = options.levelCounts ?? [];
   const startPoint = mixedPoint(start.continuous, start.levels ?? []);
   if (startPoint.levels.length !== levelCounts.length) {
-    throw refineRangeError('refineStart', `one level per discrete parameter (${levelCounts.length})`, startPoint.levels.length);
+    throw refineRangeError(
+      'refineStart',
+      `one level per discrete parameter (${levelCounts.length})`,
+      startPoint.levels.length,
+    );
   }
   levelCounts.forEach((count, d) => {
     if (!Number.isInteger(count) || count < 1 || startPoint.levels[d] < 0 || startPoint.levels[d] >= count) {
@@ -96,17 +100,22 @@ export async function refineStart<R>(
   });
   const dimension = startPoint.continuous.length;
   const budget = options.maxEvaluations ?? 200 * (dimension + 1);
-  if (!Number.isInteger(budget) || budget < 1) throw refineRangeError('refineStart', 'an integer maxEvaluations >= 1', budget);
+  if (!Number.isInteger(budget) || budget < 1)
+    throw refineRangeError('refineStart', 'an integer maxEvaluations >= 1', budget);
   const maxRounds = options.maxRounds ?? 8;
   const maxNelderMeadRuns = options.maxNelderMeadRuns ?? 4;
-  if (!Number.isInteger(maxNelderMeadRuns) || maxNelderMeadRuns < 1) throw refineRangeError('refineStart', 'an integer maxNelderMeadRuns >= 1', maxNelderMeadRuns);
+  if (!Number.isInteger(maxNelderMeadRuns) || maxNelderMeadRuns < 1)
+    throw refineRangeError('refineStart', 'an integer maxNelderMeadRuns >= 1', maxNelderMeadRuns);
   const nelderMeadOptions = options.nelderMead ?? {};
-  if (!Number.isInteger(maxRounds) || maxRounds < 1) throw refineRangeError('refineStart', 'an integer maxRounds >= 1', maxRounds);
+  if (!Number.isInteger(maxRounds) || maxRounds < 1)
+    throw refineRangeError('refineStart', 'an integer maxRounds >= 1', maxRounds);
 
   const ledger = new StartLedger(cache, meritOf, budget);
   const [startMerit] = await ledger.merits([startPoint]);
   let incumbent = { point: copyMixedPoint(startPoint), merit: startMerit };
-  const trace: RefineTraceEntry[] = [{ phase: 'start', evaluationsUsed: ledger.used, merit: startMerit, improved: false }];
+  const trace: RefineTraceEntry[] = [
+    { phase: 'start', evaluationsUsed: ledger.used, merit: startMerit, improved: false },
+  ];
   const nelderMeadRuns: MinimizeResult[] = [];
   let neighbourMoves = 0;
   let rounds = 0;
@@ -181,7 +190,11 @@ async function nelderMeadWithLevels<R>(
     machine.tell(await ledger.merits(points));
   }
   const result = machine.result();
-  return { point: { continuous: result.x, levels: Int32Array.from(levels) }, merit: { violation: result.violation, value: result.value }, result };
+  return {
+    point: { continuous: result.x, levels: Int32Array.from(levels) },
+    merit: { violation: result.violation, value: result.value },
+    result,
+  };
 }
 
 /**

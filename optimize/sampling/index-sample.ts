@@ -68,7 +68,8 @@ export class IndexSample<T> {
         `IndexSample.merge: samples must share capacity and seed, got ${other.capacity}/${other.seed} and ${this.capacity}/${this.seed}`,
       );
     }
-    for (const { index, payload } of other.items()) this.best.offer(uniformAt(this.seed, index, 0x5a3e), index, payload);
+    for (const { index, payload } of other.items())
+      this.best.offer(uniformAt(this.seed, index, 0x5a3e), index, payload);
     this.offeredCount += other.offeredCount;
   }
 
@@ -87,7 +88,9 @@ export class IndexSample<T> {
   /** Rebuilds a sample from {@link IndexSample.toJSON} data. */
   static restore<T>(data: IndexSampleData<T>): IndexSample<T> {
     if (data.kind !== 'coilfront-index-sample' || data.version !== 1) {
-      throw new RangeError(`IndexSample.restore: data must be a version 1 index sample, got ${data.kind} ${data.version}`);
+      throw new RangeError(
+        `IndexSample.restore: data must be a version 1 index sample, got ${data.kind} ${data.version}`,
+      );
     }
     const sample = new IndexSample<T>(data.capacity, data.seed);
     for (const { index, payload } of data.items) sample.best.offer(uniformAt(data.seed, index, 0x5a3e), index, payload);

@@ -30,18 +30,24 @@ export function mapUnitToRange(u: number, range: UnitRange): number {
   const t = Math.min(1, Math.max(0, u));
   const isLog = range.scale === 'log';
   if (isLog && !(range.from * range.to > 0)) {
-    throw new RangeError(`mapUnitToRange: a log range needs from and to of the same sign, got ${range.from} to ${range.to}`);
+    throw new RangeError(
+      `mapUnitToRange: a log range needs from and to of the same sign, got ${range.from} to ${range.to}`,
+    );
   }
   if (range.integer === true) {
     const low = Math.ceil(Math.min(range.from, range.to));
     const high = Math.floor(Math.max(range.from, range.to));
     if (low > high) {
-      throw new RangeError(`mapUnitToRange: an integer range needs an integer inside, got ${range.from} to ${range.to}`);
+      throw new RangeError(
+        `mapUnitToRange: an integer range needs an integer inside, got ${range.from} to ${range.to}`,
+      );
     }
     const count = high - low + 1;
     if (!isLog) return Math.min(high, low + Math.floor(t * count));
     if (low < 1) {
-      throw new RangeError(`mapUnitToRange: a log integer range must start at 1 or above, got ${range.from} to ${range.to}`);
+      throw new RangeError(
+        `mapUnitToRange: a log integer range must start at 1 or above, got ${range.from} to ${range.to}`,
+      );
     }
     const value = Math.floor(logInterpolate(t, low, high + 1));
     return Math.min(high, Math.max(low, value));

@@ -20,7 +20,8 @@ describe('coilfront evaluate --batch FILE.jsonl', () => {
     topload: { shape: 'toroid', outer_diameter: '610 mm', tube_diameter: '150 mm', height_above_winding: '40 mm' },
   };
   const lines: string[] = [];
-  for (let i = 0; i < 40; i++) lines.push(JSON.stringify({ ...base, secondary: { ...base.secondary, turns: 600 + 10 * i } }));
+  for (let i = 0; i < 40; i++)
+    lines.push(JSON.stringify({ ...base, secondary: { ...base.secondary, turns: 600 + 10 * i } }));
   lines.splice(3, 0, '{ not json');
   lines.splice(7, 0, JSON.stringify({ secondary: { ...base.secondary, turns: -5 } }));
   const file = join(mkdtempSync(join(tmpdir(), 'coilfront-batch-')), 'designs.jsonl');
@@ -29,7 +30,10 @@ describe('coilfront evaluate --batch FILE.jsonl', () => {
   it('answers one JSON line per input line, in input order, bad lines with their error, exit 2', async () => {
     const result = await run(['evaluate', '--batch', file, '--workers', '2']);
     expect(result.code).toBe(2);
-    const answers = result.out.trimEnd().split('\n').map((line) => JSON.parse(line));
+    const answers = result.out
+      .trimEnd()
+      .split('\n')
+      .map((line) => JSON.parse(line));
     expect(answers.map((a) => a.line)).toEqual(lines.map((_, i) => i + 1));
     expect(answers[3].error).toMatch(/line 4: not JSON/);
     expect(answers[7].error).toMatch(/line 8: secondary\.turns: expected a positive number, got -5/);

@@ -2,7 +2,12 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync, mkdirSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { removeLeftoverTemporaryFiles, temporaryPathFor, writeFileAtomic, writeFileAtomicSync } from '../../cli/durable/atomic-write.ts';
+import {
+  removeLeftoverTemporaryFiles,
+  temporaryPathFor,
+  writeFileAtomic,
+  writeFileAtomicSync,
+} from '../../cli/durable/atomic-write.ts';
 import { DiskError, isOutOfSpace, toDiskError } from '../../cli/durable/disk-error.ts';
 import { faultyFileSystem } from './durable-faulty-disk.ts';
 
@@ -61,9 +66,13 @@ describe('writeFileAtomicSync(path, data)', () => {
   });
 
   it('throws a one-line DiskError for a missing directory, a file in the path and a directory as target', () => {
-    expect(() => writeFileAtomicSync(join(directory, 'absent', 'x.json'), 'x')).toThrow(/^cannot write '.*x\.json': no such file or directory \(ENOENT\)$/);
+    expect(() => writeFileAtomicSync(join(directory, 'absent', 'x.json'), 'x')).toThrow(
+      /^cannot write '.*x\.json': no such file or directory \(ENOENT\)$/,
+    );
     writeFileSync(join(directory, 'plain'), '');
-    expect(() => writeFileAtomicSync(join(directory, 'plain', 'x.json'), 'x')).toThrow(/a part of the path is not a directory \(ENOTDIR\)$/);
+    expect(() => writeFileAtomicSync(join(directory, 'plain', 'x.json'), 'x')).toThrow(
+      /a part of the path is not a directory \(ENOTDIR\)$/,
+    );
     mkdirSync(join(directory, 'taken'));
     expect(() => writeFileAtomicSync(join(directory, 'taken'), 'x')).toThrow(/\(EISDIR\)$|\(ENOTEMPTY\)$|\(EEXIST\)$/);
     expect(readdirSync(directory).sort()).toEqual(['plain', 'taken']);
@@ -73,9 +82,14 @@ describe('writeFileAtomicSync(path, data)', () => {
     // injected: the tests run as root in CI, where a real permission check never fails
     const path = join(directory, 'x.json');
     writeFileAtomicSync(path, 'kept');
-    for (const [code, reason] of [['EACCES', 'permission denied'], ['EROFS', 'the file system is read-only']]) {
+    for (const [code, reason] of [
+      ['EACCES', 'permission denied'],
+      ['EROFS', 'the file system is read-only'],
+    ]) {
       const disk = faultyFileSystem({ failCalls: ['openSync'], code });
-      expect(() => writeFileAtomicSync(path, 'x', { fileSystem: disk })).toThrow(`cannot write '${path}': ${reason} (${code})`);
+      expect(() => writeFileAtomicSync(path, 'x', { fileSystem: disk })).toThrow(
+        `cannot write '${path}': ${reason} (${code})`,
+      );
     }
     expect(readFileSync(path, 'utf8')).toBe('kept');
   });
@@ -91,7 +105,9 @@ describe('writeFileAtomic(path, data)', () => {
   });
 
   it('throws a DiskError and removes nothing else when the directory is missing', async () => {
-    await expect(writeFileAtomic(join(directory, 'absent', 'x.csv'), 'x')).rejects.toThrow(/no such file or directory \(ENOENT\)$/);
+    await expect(writeFileAtomic(join(directory, 'absent', 'x.csv'), 'x')).rejects.toThrow(
+      /no such file or directory \(ENOENT\)$/,
+    );
   });
 });
 
@@ -100,14 +116,22 @@ describe('removeLeftoverTemporaryFiles(directory)', () => {
     const leftover = temporaryPathFor(join(directory, 'checkpoint.json'));
     writeFileSync(leftover, 'half');
     writeFileSync(join(directory, '.run.lock.0f8e2c1a-5b7d-4e3f-9a2b-1c4d5e6f7a8b.tmp'), '');
-    for (const keep of ['checkpoint.json', 'notes.tmp', '.hidden', 'journal-0.log']) writeFileSync(join(directory, keep), '');
-    expect(removeLeftoverTemporaryFiles(directory)).toEqual(['.checkpoint.json.' + leftover.split('.checkpoint.json.')[1], '.run.lock.0f8e2c1a-5b7d-4e3f-9a2b-1c4d5e6f7a8b.tmp'].sort());
+    for (const keep of ['checkpoint.json', 'notes.tmp', '.hidden', 'journal-0.log'])
+      writeFileSync(join(directory, keep), '');
+    expect(removeLeftoverTemporaryFiles(directory)).toEqual(
+      [
+        '.checkpoint.json.' + leftover.split('.checkpoint.json.')[1],
+        '.run.lock.0f8e2c1a-5b7d-4e3f-9a2b-1c4d5e6f7a8b.tmp',
+      ].sort(),
+    );
     expect(readdirSync(directory).sort()).toEqual(['.hidden', 'checkpoint.json', 'journal-0.log', 'notes.tmp']);
     expect(removeLeftoverTemporaryFiles(directory)).toEqual([]);
   });
 
   it('throws a DiskError for a missing directory', () => {
-    expect(() => removeLeftoverTemporaryFiles(join(directory, 'absent'))).toThrow(/^cannot read '.*absent': no such file or directory \(ENOENT\)$/);
+    expect(() => removeLeftoverTemporaryFiles(join(directory, 'absent'))).toThrow(
+      /^cannot read '.*absent': no such file or directory \(ENOENT\)$/,
+    );
   });
 });
 

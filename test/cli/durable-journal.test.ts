@@ -45,7 +45,12 @@ describe('openJournal(path) and readJournal(path)', () => {
     const contents = readJournal(path);
     expect(contents.records).toEqual(payloads);
     expect(contents.records[2]).toBeInstanceOf(Uint8Array);
-    expect(contents).toMatchObject({ tornTail: false, problem: null, validBytes: ends.at(-1), totalBytes: ends.at(-1) });
+    expect(contents).toMatchObject({
+      tornTail: false,
+      problem: null,
+      validBytes: ends.at(-1),
+      totalBytes: ends.at(-1),
+    });
     expect(statSync(path).size).toBe(ends.at(-1));
   });
 
@@ -86,7 +91,10 @@ describe('openJournal(path) and readJournal(path)', () => {
       const journal = openJournal(cutPath);
       journal.append({ kind: 'resumed' });
       journal.close();
-      expect(readJournal(cutPath)).toMatchObject({ records: [...payloads.slice(0, -1), { kind: 'resumed' }], tornTail: false });
+      expect(readJournal(cutPath)).toMatchObject({
+        records: [...payloads.slice(0, -1), { kind: 'resumed' }],
+        tornTail: false,
+      });
     }
   });
 
@@ -165,7 +173,9 @@ describe('openJournal(path) and readJournal(path)', () => {
     const ends = writeJournal(path, payloads.slice(0, 2));
     const disk = faultyFileSystem({ bytesBeforeFailure: 7, code: 'ENOSPC' });
     const journal = openJournal(path, { fileSystem: disk });
-    expect(() => journal.append(payloads[3])).toThrow(`cannot append to '${path}': no space left on the device (ENOSPC)`);
+    expect(() => journal.append(payloads[3])).toThrow(
+      `cannot append to '${path}': no space left on the device (ENOSPC)`,
+    );
     expect(journal.byteLength).toBe(ends[1]);
     expect(statSync(path).size).toBe(ends[1]);
     journal.close();
@@ -183,7 +193,9 @@ describe('openJournal(path) and readJournal(path)', () => {
   });
 
   it('reports a missing journal as a DiskError naming the path, and an empty-file journal as empty', () => {
-    expect(() => readJournal(join(directory, 'none.cfj'))).toThrow(`cannot read '${join(directory, 'none.cfj')}': no such file or directory (ENOENT)`);
+    expect(() => readJournal(join(directory, 'none.cfj'))).toThrow(
+      `cannot read '${join(directory, 'none.cfj')}': no such file or directory (ENOENT)`,
+    );
     const path = join(directory, 'empty.cfj');
     writeFileSync(path, '');
     expect(readJournal(path).records).toEqual([]);
@@ -213,14 +225,18 @@ for (;;) {
     const path = join(directory, 'killed.cfj');
     for (let round = 0; round < 2; round++) {
       await new Promise<void>((resolve, reject) => {
-        const child = spawn(process.execPath, [join(code, 'writer.js'), path], { stdio: ['ignore', 'pipe', 'inherit'] });
+        const child = spawn(process.execPath, [join(code, 'writer.js'), path], {
+          stdio: ['ignore', 'pipe', 'inherit'],
+        });
         child.stdout.setEncoding('utf8').once('data', () => setTimeout(() => child.kill('SIGKILL'), 30 + 40 * round));
         child.on('error', reject);
         child.on('exit', () => resolve());
       });
       const contents = readJournal(path);
       expect(contents.records.length).toBeGreaterThan(0);
-      contents.records.forEach((record, position) => expect(record).toEqual({ n: position, filler: 'x'.repeat(position % 97) }));
+      contents.records.forEach((record, position) =>
+        expect(record).toEqual({ n: position, filler: 'x'.repeat(position % 97) }),
+      );
     }
   });
 });

@@ -46,7 +46,9 @@ describe('acquireRunLock(directory)', () => {
     }
     expect(caught).toBeInstanceOf(RunLockError);
     const message = (caught as Error).message;
-    expect(message).toMatch(new RegExp(`^'${directory}' is in use by process ${process.pid} since \\d{4}-\\d\\d-\\d\\dT`));
+    expect(message).toMatch(
+      new RegExp(`^'${directory}' is in use by process ${process.pid} since \\d{4}-\\d\\d-\\d\\dT`),
+    );
     expect(message).toContain(`delete '${join(directory, RUN_LOCK_FILE)}'`);
     expect(message).not.toContain('\n');
     lock.release();
@@ -54,7 +56,13 @@ describe('acquireRunLock(directory)', () => {
   });
 
   it('takes over a stale lock whose process is gone', () => {
-    const stale = { pid: deadPid(), hostname: hostname(), bootId: currentBootId(), startedAt: '2026-01-01T00:00:00.000Z', token: 'old' };
+    const stale = {
+      pid: deadPid(),
+      hostname: hostname(),
+      bootId: currentBootId(),
+      startedAt: '2026-01-01T00:00:00.000Z',
+      token: 'old',
+    };
     writeLock(stale);
     const lock = acquireRunLock(directory);
     expect(lock.tookOverFrom).toEqual(stale);
@@ -72,7 +80,9 @@ describe('acquireRunLock(directory)', () => {
 
   it('refuses a lock of another host, and an unreadable lock', () => {
     writeLock({ pid: 1, hostname: 'cluster-node-17', bootId: null, startedAt: '2026-01-01T00:00:00.000Z', token: 'x' });
-    expect(() => acquireRunLock(directory)).toThrow(/is in use by process 1 on host cluster-node-17 since 2026-01-01T00:00:00.000Z/);
+    expect(() => acquireRunLock(directory)).toThrow(
+      /is in use by process 1 on host cluster-node-17 since 2026-01-01T00:00:00.000Z/,
+    );
     writeFileSync(join(directory, RUN_LOCK_FILE), '{"pid": 12');
     expect(() => acquireRunLock(directory)).toThrow(/holds a lock file that cannot be read/);
     expect(readdirSync(directory)).toEqual([RUN_LOCK_FILE]);
@@ -122,13 +132,18 @@ try {
 }
 `,
     );
-    writeFileSync(join(runs, RUN_LOCK_FILE), JSON.stringify({ pid: deadPid(), hostname: hostname(), bootId: currentBootId(), startedAt: 'x', token: 'old' }));
+    writeFileSync(
+      join(runs, RUN_LOCK_FILE),
+      JSON.stringify({ pid: deadPid(), hostname: hostname(), bootId: currentBootId(), startedAt: 'x', token: 'old' }),
+    );
     const racers = 5;
     let ready = 0;
     const outcomes: string[] = [];
     const exits: Promise<void>[] = [];
     for (let racer = 0; racer < racers; racer++) {
-      const child = spawn(process.execPath, [join(code, 'racer.js'), runs, directory], { stdio: ['ignore', 'pipe', 'inherit'] });
+      const child = spawn(process.execPath, [join(code, 'racer.js'), runs, directory], {
+        stdio: ['ignore', 'pipe', 'inherit'],
+      });
       let buffered = '';
       child.stdout.setEncoding('utf8').on('data', (chunk: string) => {
         buffered += chunk;
@@ -142,10 +157,12 @@ try {
           }
         }
       });
-      exits.push(new Promise((resolve, reject) => {
-        child.on('error', reject);
-        child.on('exit', () => resolve());
-      }));
+      exits.push(
+        new Promise((resolve, reject) => {
+          child.on('error', reject);
+          child.on('exit', () => resolve());
+        }),
+      );
     }
     await Promise.all(exits);
     expect(outcomes.filter((outcome) => outcome === 'won over stale')).toHaveLength(1);

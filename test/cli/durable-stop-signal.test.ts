@@ -159,7 +159,9 @@ describe('installStopSignal(options) in a child process', () => {
 
   it('exits 130 at once on a second SIGINT while a batch is still in flight', async () => {
     const result = await runChild(['stubborn'], ['SIGINT', 'SIGINT']);
-    expect(result.lines.at(-1)).toBe('received SIGINT again: stopping at once; the last checkpoint written stays resumable');
+    expect(result.lines.at(-1)).toBe(
+      'received SIGINT again: stopping at once; the last checkpoint written stays resumable',
+    );
     expect(result.lines.some((line) => line.startsWith('outputs written'))).toBe(false);
     expect(result.code).toBe(130);
   });

@@ -19,7 +19,23 @@ describe('parseDuration(text)', () => {
   });
 
   it('refuses anything else with one line naming the option and the text', () => {
-    const bad = ['x', '', '8', '8 hours', '8H', '-5m', '1h1h', '30m1h', '1.h', '1e3s', '5mo', 'h', '1h+30m', 'NaN', 'Infinity'];
+    const bad = [
+      'x',
+      '',
+      '8',
+      '8 hours',
+      '8H',
+      '-5m',
+      '1h1h',
+      '30m1h',
+      '1.h',
+      '1e3s',
+      '5mo',
+      'h',
+      '1h+30m',
+      'NaN',
+      'Infinity',
+    ];
     for (const text of bad) {
       let caught: unknown;
       try {
@@ -33,13 +49,19 @@ describe('parseDuration(text)', () => {
       expect(message).toContain(`'${text}'`);
       expect(message).not.toContain('\n');
     }
-    expect(() => parseDuration('x', { option: '--time-limit' })).toThrow("--time-limit: expected a duration like 90m, 8h or 1d, got 'x'");
-    expect(() => parseDuration('90')).toThrow("duration: expected a duration like 90m, 8h or 1d, got '90' (add a unit: s, m, h or d)");
+    expect(() => parseDuration('x', { option: '--time-limit' })).toThrow(
+      "--time-limit: expected a duration like 90m, 8h or 1d, got 'x'",
+    );
+    expect(() => parseDuration('90')).toThrow(
+      "duration: expected a duration like 90m, 8h or 1d, got '90' (add a unit: s, m, h or d)",
+    );
     expect(() => parseDuration('30m1h')).toThrow(/give each unit once, largest first/);
   });
 
   it('refuses a zero duration unless allowed', () => {
-    expect(() => parseDuration('0s', { option: '--checkpoint-every' })).toThrow("--checkpoint-every: expected a duration longer than zero, got '0s'");
+    expect(() => parseDuration('0s', { option: '--checkpoint-every' })).toThrow(
+      "--checkpoint-every: expected a duration longer than zero, got '0s'",
+    );
     expect(parseDuration('0m', { allowZero: true })).toBe(0);
   });
 

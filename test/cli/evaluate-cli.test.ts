@@ -71,18 +71,50 @@ describe('coilfront evaluate on the example designs', () => {
 describe('coilfront evaluate with bad input: exit 2, one line, the field named', () => {
   const cases: Array<[string, string, RegExp]> = [
     ['does not parse', 'secondary: { form_diameter: 160 mm, wire: [AWG 26\n', /cannot parse/],
-    ['negative turns', GOOD.replace('turns: 1100', 'turns: -5'), /secondary\.turns: expected a positive number, got -5/],
-    ['zero size', GOOD.replace('form_diameter: 160 mm', 'form_diameter: 0 mm'), /secondary\.form_diameter: expected a positive length/],
-    ['a unit of the wrong kind', GOOD.replace('capacitance: 30 nF', 'capacitance: 30 kV'), /tank\.capacitance: '30 kV' is a voltage/],
+    [
+      'negative turns',
+      GOOD.replace('turns: 1100', 'turns: -5'),
+      /secondary\.turns: expected a positive number, got -5/,
+    ],
+    [
+      'zero size',
+      GOOD.replace('form_diameter: 160 mm', 'form_diameter: 0 mm'),
+      /secondary\.form_diameter: expected a positive length/,
+    ],
+    [
+      'a unit of the wrong kind',
+      GOOD.replace('capacitance: 30 nF', 'capacitance: 30 kV'),
+      /tank\.capacitance: '30 kV' is a voltage/,
+    ],
     ['an unknown unit', GOOD.replace('160 mm', '160 furlongs'), /secondary\.form_diameter: unknown unit 'furlongs'/],
-    ['a wrong type', GOOD.replace('turns: 1100', 'turns: [1, 2]'), /secondary\.turns: expected a plain number, got a list/],
+    [
+      'a wrong type',
+      GOOD.replace('turns: 1100', 'turns: [1, 2]'),
+      /secondary\.turns: expected a plain number, got a list/,
+    ],
     ['an unknown wire gauge', GOOD.replace('AWG 26', 'AWG 99'), /secondary\.wire: unknown wire gauge 'AWG 99'/],
-    ['an unknown key with a suggestion', GOOD.replace('turns: 1100', 'tunrs: 1100'), /secondary\.tunrs: unknown key 'tunrs' \(did you mean 'turns'\?\)/],
+    [
+      'an unknown key with a suggestion',
+      GOOD.replace('turns: 1100', 'tunrs: 1100'),
+      /secondary\.tunrs: unknown key 'tunrs' \(did you mean 'turns'\?\)/,
+    ],
     ['a missing required field', GOOD.replace('form_diameter: 160 mm, ', ''), /secondary\.form_diameter: required/],
-    ['an unknown section', `${GOOD}secondery: {}\n`, /secondery: unknown key 'secondery' \(did you mean 'secondary'\?\)/],
+    [
+      'an unknown section',
+      `${GOOD}secondery: {}\n`,
+      /secondery: unknown key 'secondery' \(did you mean 'secondary'\?\)/,
+    ],
     ['NaN', GOOD.replace('turns: 1100', 'turns: .nan'), /secondary\.turns: expected/],
-    ['a primary inside the form', GOOD.replace('inner_diameter: 230 mm', 'inner_diameter: 120 mm'), /primary\.inner_diameter: /],
-    ['a tube not smaller than the outer diameter', GOOD.replace('tube_diameter: 150 mm', 'tube_diameter: 610 mm'), /topload\.tube_diameter: the tube/],
+    [
+      'a primary inside the form',
+      GOOD.replace('inner_diameter: 230 mm', 'inner_diameter: 120 mm'),
+      /primary\.inner_diameter: /,
+    ],
+    [
+      'a tube not smaller than the outer diameter',
+      GOOD.replace('tube_diameter: 150 mm', 'tube_diameter: 610 mm'),
+      /topload\.tube_diameter: the tube/,
+    ],
     ['an empty file', '', /the file is empty/],
   ];
   for (const [what, text, message] of cases) {

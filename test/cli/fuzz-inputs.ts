@@ -89,7 +89,10 @@ function clone<T>(value: T): T {
   return structuredClone(value);
 }
 
-function parentAndKey(root: unknown, path: ValuePath): { parent: Record<string | number, unknown>; key: string | number } | null {
+function parentAndKey(
+  root: unknown,
+  path: ValuePath,
+): { parent: Record<string | number, unknown>; key: string | number } | null {
   if (path.length === 0) return null;
   let parent = root as Record<string | number, unknown>;
   for (const part of path.slice(0, -1)) parent = parent[part] as Record<string | number, unknown>;
@@ -120,7 +123,12 @@ export function applyMutation(value: unknown, mutation: Mutation): unknown {
       return copy;
     case 'add-key':
       if (typeof current === 'object' && current !== null && !Array.isArray(current)) {
-        Object.defineProperty(current, mutation.key, { value: mutation.value, enumerable: true, configurable: true, writable: true });
+        Object.defineProperty(current, mutation.key, {
+          value: mutation.value,
+          enumerable: true,
+          configurable: true,
+          writable: true,
+        });
       }
       return copy;
     case 'wrap-in-list':
@@ -136,7 +144,12 @@ export function mutationsOf(base: unknown): fc.Arbitrary<{ value: unknown; mutat
   const one: fc.Arbitrary<Mutation> = fc.oneof(
     fc.record({ kind: fc.constant('replace' as const), path: fc.constantFrom(...paths), value: hostileLeaf }),
     fc.record({ kind: fc.constant('delete' as const), path: fc.constantFrom(...paths) }),
-    fc.record({ kind: fc.constant('add-key' as const), path: fc.constantFrom(...paths), key: hostileKey, value: hostileLeaf }),
+    fc.record({
+      kind: fc.constant('add-key' as const),
+      path: fc.constantFrom(...paths),
+      key: hostileKey,
+      value: hostileLeaf,
+    }),
     fc.record({ kind: fc.constant('wrap-in-list' as const), path: fc.constantFrom(...paths) }),
   );
   return fc.array(one, { minLength: 1, maxLength: 3 }).map((mutations) => {
@@ -197,7 +210,10 @@ export function expectReaderContract(read: () => unknown, file: string): string 
     return null;
   } catch (error) {
     if (!(error instanceof InputError)) {
-      throw new Error(`the reader threw ${error instanceof Error ? `${error.name}: ${error.message}` : String(error)} instead of an InputError`, { cause: error });
+      throw new Error(
+        `the reader threw ${error instanceof Error ? `${error.name}: ${error.message}` : String(error)} instead of an InputError`,
+        { cause: error },
+      );
     }
     const message = error.message;
     expect(message.startsWith(`${file}: `), message).toBe(true);

@@ -10,9 +10,26 @@ import { applyMutation, expectReaderContract, hostileLeaf, hostileTexts, mutatio
 const FILE = 'night.yaml';
 const base = {
   design: {
-    secondary: { form_diameter: { choose: ['110 mm', '160 mm'] }, wire: 'AWG 26', turns: { from: 700, to: 1300, integer: true }, base_height: '500 mm' },
-    topload: { shape: 'toroid', outer_diameter: { from: '300 mm', to: '700 mm', scale: 'log' }, tube_diameter: '110 mm', height_above_winding: '30 mm' },
-    primary: { shape: 'flat_spiral', inner_diameter: '240 mm', turns: 12, conductor_diameter: '6 mm', turn_spacing: '5 mm', elevation: '0 mm' },
+    secondary: {
+      form_diameter: { choose: ['110 mm', '160 mm'] },
+      wire: 'AWG 26',
+      turns: { from: 700, to: 1300, integer: true },
+      base_height: '500 mm',
+    },
+    topload: {
+      shape: 'toroid',
+      outer_diameter: { from: '300 mm', to: '700 mm', scale: 'log' },
+      tube_diameter: '110 mm',
+      height_above_winding: '30 mm',
+    },
+    primary: {
+      shape: 'flat_spiral',
+      inner_diameter: '240 mm',
+      turns: 12,
+      conductor_diameter: '6 mm',
+      turn_spacing: '5 mm',
+      elevation: '0 mm',
+    },
     tank: { capacitance: '25 nF', charge_voltage: '12 kV' },
     driver: { kind: 'spark_gap', break_rate: '150 Hz' },
     environment: { altitude: '300 m', temperature: '18 degC' },
@@ -43,7 +60,16 @@ describe('sweepFromValue(value, file) under fuzzing', () => {
       ['design', 'tank', 'capacitance'],
       ['sweep', 'samples'],
     ];
-    const bad = [Number.NaN, Number.POSITIVE_INFINITY, Number.NEGATIVE_INFINITY, '30 nF', { from: 10, to: 1 }, { choose: [] }, [], true];
+    const bad = [
+      Number.NaN,
+      Number.POSITIVE_INFINITY,
+      Number.NEGATIVE_INFINITY,
+      '30 nF',
+      { from: 10, to: 1 },
+      { choose: [] },
+      [],
+      true,
+    ];
     for (const path of leaves) {
       for (const value of bad) {
         if (path[0] === 'design' && path[2] === 'capacitance' && value === '30 nF') continue; // right kind there

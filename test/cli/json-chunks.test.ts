@@ -13,7 +13,12 @@ describe('jsonChunks(value)', () => {
   });
 
   it('writes NaN and Infinity as null and honours toJSON, as JSON.stringify does', () => {
-    const value = { a: [Number.NaN, Infinity, undefined, 1], b: undefined, c: { toJSON: () => ({ d: 2 }) }, e: new Array(200).fill(0.5) };
+    const value = {
+      a: [Number.NaN, Infinity, undefined, 1],
+      b: undefined,
+      c: { toJSON: () => ({ d: 2 }) },
+      e: new Array(200).fill(0.5),
+    };
     expect([...jsonChunks(value, 4)].join('')).toBe(JSON.stringify(value));
   });
 });

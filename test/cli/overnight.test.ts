@@ -47,7 +47,8 @@ function resume(directory: string, extra: string[] = ['--quiet']): Running {
 /** Waits until checkpoint.json is written anew (it differs from `before`) or the process ends. */
 async function waitForSnapshot(directory: string, running: Running): Promise<void> {
   const path = join(directory, 'checkpoint.json');
-  const stamp = (): string => (existsSync(path) ? String(statSync(path, { throwIfNoEntry: false })?.mtimeMs ?? '') : '');
+  const stamp = (): string =>
+    existsSync(path) ? String(statSync(path, { throwIfNoEntry: false })?.mtimeMs ?? '') : '';
   const before = stamp();
   let ended = false;
   void running.done.then(() => (ended = true));
@@ -94,7 +95,10 @@ async function killAndResume(
 beforeAll(async () => {
   requireBuiltCli();
   await runCliOk(['sweep', SMALL_SWEEP, '--out', reference, '--workers', '2', ...BUSY_RUN, ...KEEP]);
-  referenceLoopMs = 1000 * (JSON.parse(readFileSync(join(reference, 'summary.json'), 'utf8')) as { timing: { wall_seconds: number } }).timing.wall_seconds;
+  referenceLoopMs =
+    1000 *
+    (JSON.parse(readFileSync(join(reference, 'summary.json'), 'utf8')) as { timing: { wall_seconds: number } }).timing
+      .wall_seconds;
   await runCliOk(['sweep', SMALL_SWEEP, '--out', referenceAll, '--workers', '2', '--all', ...BUSY_RUN, ...KEEP]);
 });
 
@@ -105,13 +109,20 @@ describe('coilfront sweep --resume after kill -9', () => {
     expect(summaryCounts(reference).evaluated).toBe(SMALL_SWEEP_SAMPLES);
     expect(readFileSync(join(reference, 'candidates.csv'), 'utf8').trim().split('\n')).toHaveLength(41); // header + --keep 40
     expectSameResults(referenceAll, reference);
-    expect(readFileSync(join(referenceAll, 'all.csv'), 'utf8').trim().split('\n')).toHaveLength(SMALL_SWEEP_SAMPLES + 1);
+    expect(readFileSync(join(referenceAll, 'all.csv'), 'utf8').trim().split('\n')).toHaveLength(
+      SMALL_SWEEP_SAMPLES + 1,
+    );
   });
 
   it('three SIGKILLs at seeded-random moments, each resumed, end in byte-identical files', async () => {
     const directory = area.dir('killed');
     const first = startCli(['sweep', SMALL_SWEEP, '--out', directory, '--workers', '2', ...SNAPSHOTTING, ...KEEP]);
-    const { landed, afterSnapshot, final } = await killAndResume(directory, first, ['snapshot', 'progress', 'snapshot'], 20261201);
+    const { landed, afterSnapshot, final } = await killAndResume(
+      directory,
+      first,
+      ['snapshot', 'progress', 'snapshot'],
+      20261201,
+    );
     expect(final.code, final.stderr).toBe(0);
     expect(landed, 'kills that interrupted a running sweep').toBeGreaterThanOrEqual(2);
     expect(afterSnapshot, 'kills of a run resumed from a state snapshot').toBeGreaterThanOrEqual(1);
@@ -120,7 +131,17 @@ describe('coilfront sweep --resume after kill -9', () => {
 
   it('with --all: all.csv too is identical, also after a torn record is appended to the journal', async () => {
     const directory = area.dir('killed-all');
-    const first = startCli(['sweep', SMALL_SWEEP, '--out', directory, '--workers', '2', '--all', ...SNAPSHOTTING, ...KEEP]);
+    const first = startCli([
+      'sweep',
+      SMALL_SWEEP,
+      '--out',
+      directory,
+      '--workers',
+      '2',
+      '--all',
+      ...SNAPSHOTTING,
+      ...KEEP,
+    ]);
     const random = seededRandom(77);
     await waitForProgress(directory, '', first);
     await sleep(random() * 0.4 * referenceLoopMs);
@@ -128,7 +149,9 @@ describe('coilfront sweep --resume after kill -9', () => {
     expect((await first.done).signal).toBe('SIGKILL');
     // A power cut in the middle of a write: half a record at the end of the live journal.
     const checkpointPath = join(directory, 'checkpoint.json');
-    const generation = existsSync(checkpointPath) ? (JSON.parse(readFileSync(checkpointPath, 'utf8')) as { generation: number }).generation : 0;
+    const generation = existsSync(checkpointPath)
+      ? (JSON.parse(readFileSync(checkpointPath, 'utf8')) as { generation: number }).generation
+      : 0;
     const journal = join(directory, `journal-${generation}.log`);
     const tail = readFileSync(journal).subarray(0, 40);
     appendFileSync(journal, tail.length > 0 ? tail : Buffer.from('torn'));
@@ -150,7 +173,19 @@ describe('coilfront sweep --resume after kill -9', () => {
 describe('SIGINT, SIGTERM and --time-limit stop cleanly and resume to the same files', () => {
   it('SIGINT exits 130 with the resume hint; SIGTERM on the resumed run exits 143; the last resume matches', async () => {
     const directory = area.dir('interrupted');
-    const first = startCli(['sweep', SMALL_SWEEP, '--out', directory, '--workers', '2', '--batch-size', '8', '--checkpoint-every', '100ms', ...KEEP]);
+    const first = startCli([
+      'sweep',
+      SMALL_SWEEP,
+      '--out',
+      directory,
+      '--workers',
+      '2',
+      '--batch-size',
+      '8',
+      '--checkpoint-every',
+      '100ms',
+      ...KEEP,
+    ]);
     await waitForProgress(directory, '', first);
     first.child.kill('SIGINT');
     const stopped = await first.done;
@@ -159,7 +194,10 @@ describe('SIGINT, SIGTERM and --time-limit stop cleanly and resume to the same f
     expect(stopped.stderr).toContain('received SIGINT');
     expect(stopped.stderr).toContain(`resume with: coilfront sweep --resume ${directory}`);
     // Outputs so far are written, marked incomplete.
-    const partial = JSON.parse(readFileSync(join(directory, 'summary.json'), 'utf8')) as { complete: boolean; counts: { evaluated: number } };
+    const partial = JSON.parse(readFileSync(join(directory, 'summary.json'), 'utf8')) as {
+      complete: boolean;
+      counts: { evaluated: number };
+    };
     expect(partial.complete).toBe(false);
     expect(partial.counts.evaluated).toBeGreaterThan(0);
     expect(partial.counts.evaluated).toBeLessThan(SMALL_SWEEP_SAMPLES);
@@ -179,7 +217,17 @@ describe('SIGINT, SIGTERM and --time-limit stop cleanly and resume to the same f
 
   it('a second SIGINT exits 130 at once, and the run still resumes to the same files', async () => {
     const directory = area.dir('interrupted-twice');
-    const first = startCli(['sweep', SMALL_SWEEP, '--out', directory, '--workers', '2', '--all', ...SNAPSHOTTING.filter((flag) => flag !== '--quiet'), ...KEEP]);
+    const first = startCli([
+      'sweep',
+      SMALL_SWEEP,
+      '--out',
+      directory,
+      '--workers',
+      '2',
+      '--all',
+      ...SNAPSHOTTING.filter((flag) => flag !== '--quiet'),
+      ...KEEP,
+    ]);
     await waitForSnapshot(directory, first);
     first.child.kill('SIGINT');
     while (!first.stderrSoFar().includes('received SIGINT')) await sleep(1);
@@ -197,7 +245,21 @@ describe('SIGINT, SIGTERM and --time-limit stop cleanly and resume to the same f
   it(`--time-limit (a quarter of the sweep's run time) stops with exit code ${TIME_LIMIT_EXIT_CODE} and resumes to the same files`, async () => {
     const directory = area.dir('time-limited');
     const limit = `${Math.max(20, Math.round(0.25 * referenceLoopMs))}ms`;
-    const stopped = await runCli(['sweep', SMALL_SWEEP, '--out', directory, '--workers', '2', '--batch-size', '8', '--checkpoint-every', '100ms', '--time-limit', limit, ...KEEP]);
+    const stopped = await runCli([
+      'sweep',
+      SMALL_SWEEP,
+      '--out',
+      directory,
+      '--workers',
+      '2',
+      '--batch-size',
+      '8',
+      '--checkpoint-every',
+      '100ms',
+      '--time-limit',
+      limit,
+      ...KEEP,
+    ]);
     expect(stopped.code, stopped.stderr).toBe(TIME_LIMIT_EXIT_CODE);
     expect(stopped.stderr).toContain('time limit');
     expect(stopped.stderr).toContain(`resume with: coilfront sweep --resume ${directory}`);
@@ -240,7 +302,18 @@ describe('coilfront sweep --resume refuses a directory of another sweep', () => 
 
   it('a run directory whose spec.yaml was edited: exit 2, one line', async () => {
     const directory = area.dir('edited');
-    const stopped = await runCli(['sweep', SMALL_SWEEP, '--out', directory, '--workers', '2', '--time-limit', '1ms', ...BUSY_RUN, ...KEEP]);
+    const stopped = await runCli([
+      'sweep',
+      SMALL_SWEEP,
+      '--out',
+      directory,
+      '--workers',
+      '2',
+      '--time-limit',
+      '1ms',
+      ...BUSY_RUN,
+      ...KEEP,
+    ]);
     expect(stopped.code, stopped.stderr).toBe(TIME_LIMIT_EXIT_CODE);
     const spec = join(directory, 'spec.yaml');
     writeFileSync(spec, readFileSync(spec, 'utf8').replace('seed: 2026', 'seed: 2027'));

@@ -14,7 +14,8 @@ describe('README.md', () => {
     expect(demo).toBeGreaterThan(0);
     expect(test).toBeGreaterThan(demo);
     expect(safety).toBeGreaterThan(test);
-    for (const word of ['lethal', 'burns', 'fire', 'ozone', 'medical', 'radio', 'electrical codes']) expect(readme).toContain(word);
+    for (const word of ['lethal', 'burns', 'fire', 'ozone', 'medical', 'radio', 'electrical codes'])
+      expect(readme).toContain(word);
   });
 
   it('documents every metric of the contract', () => {
@@ -25,12 +26,14 @@ describe('README.md', () => {
     for (const [name, section] of Object.entries(DESIGN_SECTIONS)) {
       expect(readme).toContain(`\`${name}:\``);
       for (const key of Object.keys(section.fields)) expect(readme).toContain(`\`${key}\``);
-      for (const form of Object.values(section.variants?.forms ?? {})) for (const key of Object.keys(form)) expect(readme).toContain(`\`${key}\``);
+      for (const form of Object.values(section.variants?.forms ?? {}))
+        for (const key of Object.keys(form)) expect(readme).toContain(`\`${key}\``);
     }
   });
 
   it('the report cautions name the same dangers', () => {
     const text = SAFETY_CAUTIONS.join(' ');
-    for (const word of ['lethal', 'burns', 'fires', 'ozone', 'medical implants', 'radio services', 'electrical']) expect(text).toContain(word);
+    for (const word of ['lethal', 'burns', 'fires', 'ozone', 'medical implants', 'radio services', 'electrical'])
+      expect(text).toContain(word);
   });
 });

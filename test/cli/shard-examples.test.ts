@@ -4,18 +4,30 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { spawnSync } from 'node:child_process';
 import { parse as parseYaml } from 'yaml';
-import { checkCoverage, parseShard, parseShardCount, shardFromEnvironment, shardIndices, type Shard } from '../../cli/shard.ts';
+import {
+  checkCoverage,
+  parseShard,
+  parseShardCount,
+  shardFromEnvironment,
+  shardIndices,
+  type Shard,
+} from '../../cli/shard.ts';
 import { parseDuration } from '../../cli/duration.ts';
 
 // The cluster examples must cut a sweep into shards that cover it exactly: each is read here the way
 // its scheduler would run it, and the shards it would produce are checked for coverage.
 
-const example = (name: string): string => readFileSync(new URL(`../../examples/cluster/${name}`, import.meta.url), 'utf8');
+const example = (name: string): string =>
+  readFileSync(new URL(`../../examples/cluster/${name}`, import.meta.url), 'utf8');
 const TOTAL = 100_003; // an arbitrary sample count that no shard count divides evenly
 
 function covers(shards: Shard[]): string[] {
   return checkCoverage(
-    shards.map((shard, position) => ({ ...shard, range: shardIndices(shard.index, shard.count, TOTAL), label: `task${position}` })),
+    shards.map((shard, position) => ({
+      ...shard,
+      range: shardIndices(shard.index, shard.count, TOTAL),
+      label: `task${position}`,
+    })),
     TOTAL,
   );
 }
@@ -26,14 +38,24 @@ const hasBash = spawnSync('bash', ['--version']).status === 0;
  * Runs a shell script with a stand-in `coilfront` first on PATH that prints its arguments, in a
  * fresh folder, twice: before and after the shard directory holds a run.json. Returns both lines.
  */
-function runWithStandIn(shell: string, script: string, env: Record<string, string>, runDirectory: (cwd: string) => string): [string, string] {
+function runWithStandIn(
+  shell: string,
+  script: string,
+  env: Record<string, string>,
+  runDirectory: (cwd: string) => string,
+): [string, string] {
   const cwd = mkdtempSync(join(tmpdir(), 'coilfront-example-'));
   try {
     const bin = join(cwd, 'bin');
     mkdirSync(bin);
     writeFileSync(join(bin, 'coilfront'), '#!/bin/sh\necho "coilfront $*"\n');
     chmodSync(join(bin, 'coilfront'), 0o755);
-    const run = () => spawnSync(shell, ['-c', script], { cwd, encoding: 'utf8', env: { PATH: `${bin}:${process.env.PATH ?? ''}`, ...env } }).stdout.trim();
+    const run = () =>
+      spawnSync(shell, ['-c', script], {
+        cwd,
+        encoding: 'utf8',
+        env: { PATH: `${bin}:${process.env.PATH ?? ''}`, ...env },
+      }).stdout.trim();
     const first = run();
     mkdirSync(runDirectory(cwd), { recursive: true });
     writeFileSync(join(runDirectory(cwd), 'run.json'), '{}');
@@ -51,7 +73,13 @@ describe('examples/cluster/slurm-array.sh', () => {
     const shards: Shard[] = [];
     for (let id = first; id <= last; id++) {
       // Slurm sets these for every array task (Slurm documentation, "Job Array Support").
-      const env = { SLURM_ARRAY_TASK_ID: String(id), SLURM_ARRAY_TASK_MIN: String(first), SLURM_ARRAY_TASK_MAX: String(last), SLURM_ARRAY_TASK_COUNT: String(last - first + 1), SLURM_ARRAY_TASK_STEP: '1' };
+      const env = {
+        SLURM_ARRAY_TASK_ID: String(id),
+        SLURM_ARRAY_TASK_MIN: String(first),
+        SLURM_ARRAY_TASK_MAX: String(last),
+        SLURM_ARRAY_TASK_COUNT: String(last - first + 1),
+        SLURM_ARRAY_TASK_STEP: '1',
+      };
       shards.push(shardFromEnvironment(env)!);
     }
     expect(shards).toHaveLength(8);
@@ -89,7 +117,18 @@ describe('examples/cluster/indexed-job.yaml', () => {
   const manifest = parseYaml(example('indexed-job.yaml')) as {
     apiVersion: string;
     kind: string;
-    spec: { completionMode: string; completions: number; parallelism: number; template: { spec: { restartPolicy: string; terminationGracePeriodSeconds: number; containers: Array<{ command: string[]; args: string[] }> } } };
+    spec: {
+      completionMode: string;
+      completions: number;
+      parallelism: number;
+      template: {
+        spec: {
+          restartPolicy: string;
+          terminationGracePeriodSeconds: number;
+          containers: Array<{ command: string[]; args: string[] }>;
+        };
+      };
+    };
   };
 
   it('is a batch/v1 Job with Indexed completion', () => {
@@ -114,8 +153,9 @@ describe('examples/cluster/indexed-job.yaml', () => {
     expect(script).toMatch(/if \[ -e "\$out\/run\.json" \]; then exec coilfront sweep --resume "\$out"; fi/);
     // Kubernetes numbers the pods of an Indexed Job 0 … completions − 1 (Kubernetes documentation,
     // "Indexed Job for Parallel Processing with Static Work Assignment").
-    const shards = Array.from({ length: manifest.spec.completions }, (_, index) =>
-      shardFromEnvironment({ JOB_COMPLETION_INDEX: String(index) }, { count })!,
+    const shards = Array.from(
+      { length: manifest.spec.completions },
+      (_, index) => shardFromEnvironment({ JOB_COMPLETION_INDEX: String(index) }, { count })!,
     );
     expect(covers(shards)).toEqual([]);
   });
@@ -126,7 +166,9 @@ describe('examples/cluster/indexed-job.yaml', () => {
     const cwd = mkdtempSync(join(tmpdir(), 'coilfront-k8s-'));
     try {
       const local = script.replaceAll('/runs/', `${cwd}/runs/`);
-      const [first, again] = runWithStandIn('sh', local, { JOB_COMPLETION_INDEX: '5' }, () => join(cwd, 'runs', 'shard-5'));
+      const [first, again] = runWithStandIn('sh', local, { JOB_COMPLETION_INDEX: '5' }, () =>
+        join(cwd, 'runs', 'shard-5'),
+      );
       expect(first).toBe(`coilfront sweep /spec/night.yaml --out ${cwd}/runs/shard-5 --shard-count 8 --overwrite`);
       expect(again).toBe(`coilfront sweep --resume ${cwd}/runs/shard-5`);
     } finally {

@@ -2,7 +2,16 @@ import { cpSync, existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { TIME_LIMIT_EXIT_CODE } from '../../cli/durable/stop-signal.ts';
-import { expectOneLine, expectSameResults, requireBuiltCli, runCli, runCliOk, scratchArea, SMALL_SWEEP, SMALL_SWEEP_SAMPLES } from './sweep-harness.ts';
+import {
+  expectOneLine,
+  expectSameResults,
+  requireBuiltCli,
+  runCli,
+  runCliOk,
+  scratchArea,
+  SMALL_SWEEP,
+  SMALL_SWEEP_SAMPLES,
+} from './sweep-harness.ts';
 
 // Issue 6, item 5: shards of one sweep, whether given by --shard k/N, a Slurm job array
 // (SLURM_ARRAY_TASK_ID with SLURM_ARRAY_TASK_COUNT, as documented by Slurm's sbatch --array) or a
@@ -18,13 +27,27 @@ interface RunRecord {
   range: [number, number];
   shard: { index: number; count: number; source: string } | null;
 }
-const runRecord = (directory: string): RunRecord => JSON.parse(readFileSync(join(directory, 'run.json'), 'utf8')) as RunRecord;
+const runRecord = (directory: string): RunRecord =>
+  JSON.parse(readFileSync(join(directory, 'run.json'), 'utf8')) as RunRecord;
 
 beforeAll(async () => {
   requireBuiltCli();
   await Promise.all([
     runCliOk(['sweep', SMALL_SWEEP, '--out', reference, '--workers', '1', '--all', ...COMMON]),
-    ...shardDirs.map((directory, i) => runCliOk(['sweep', SMALL_SWEEP, '--out', directory, '--workers', '1', '--all', '--shard', `${i + 1}/3`, ...COMMON])),
+    ...shardDirs.map((directory, i) =>
+      runCliOk([
+        'sweep',
+        SMALL_SWEEP,
+        '--out',
+        directory,
+        '--workers',
+        '1',
+        '--all',
+        '--shard',
+        `${i + 1}/3`,
+        ...COMMON,
+      ]),
+    ),
   ]);
 });
 
@@ -53,9 +76,15 @@ describe('coilfront sweep --shard k/N and coilfront merge', () => {
     const indexed2 = area.dir('indexed-1'); // JOB_COMPLETION_INDEX counts from 0
     const slurm3 = area.dir('slurm-3');
     await Promise.all([
-      runCliOk(['sweep', SMALL_SWEEP, '--out', slurm1, '--workers', '1', ...COMMON], { env: { SLURM_ARRAY_TASK_ID: '1', SLURM_ARRAY_TASK_COUNT: '3' } }),
-      runCliOk(['sweep', SMALL_SWEEP, '--out', indexed2, '--workers', '1', '--shard-count', '3', ...COMMON], { env: { JOB_COMPLETION_INDEX: '1' } }),
-      runCliOk(['sweep', SMALL_SWEEP, '--out', slurm3, '--workers', '1', ...COMMON], { env: { SLURM_ARRAY_TASK_ID: '3', SLURM_ARRAY_TASK_COUNT: '3' } }),
+      runCliOk(['sweep', SMALL_SWEEP, '--out', slurm1, '--workers', '1', ...COMMON], {
+        env: { SLURM_ARRAY_TASK_ID: '1', SLURM_ARRAY_TASK_COUNT: '3' },
+      }),
+      runCliOk(['sweep', SMALL_SWEEP, '--out', indexed2, '--workers', '1', '--shard-count', '3', ...COMMON], {
+        env: { JOB_COMPLETION_INDEX: '1' },
+      }),
+      runCliOk(['sweep', SMALL_SWEEP, '--out', slurm3, '--workers', '1', ...COMMON], {
+        env: { SLURM_ARRAY_TASK_ID: '3', SLURM_ARRAY_TASK_COUNT: '3' },
+      }),
     ]);
     const dirs = [slurm1, indexed2, slurm3];
     expect(dirs.map((d) => runRecord(d).shard)).toEqual([
@@ -106,7 +135,19 @@ describe('coilfront merge refuses an incomplete or mixed set of shards, naming e
 
   it('an unfinished shard, naming it and how to finish it', async () => {
     const unfinished = area.dir('unfinished-3');
-    const stopped = await runCli(['sweep', SMALL_SWEEP, '--out', unfinished, '--workers', '1', '--shard', '3/3', '--time-limit', '1ms', ...COMMON]);
+    const stopped = await runCli([
+      'sweep',
+      SMALL_SWEEP,
+      '--out',
+      unfinished,
+      '--workers',
+      '1',
+      '--shard',
+      '3/3',
+      '--time-limit',
+      '1ms',
+      ...COMMON,
+    ]);
     expect(stopped.code, stopped.stderr).toBe(TIME_LIMIT_EXIT_CODE);
     const line = await refused([shardDirs[0]!, shardDirs[1]!, unfinished], 'unfinished shard');
     expect(line).toContain(`${unfinished} is not finished`);

@@ -58,7 +58,11 @@ export interface Running {
 
 /** Starts `node dist/cli/main.js ...args`. */
 export function startCli(args: string[], options: { env?: Record<string, string>; cwd?: string } = {}): Running {
-  const child = spawn(process.execPath, [CLI, ...args], { cwd: options.cwd ?? REPO, env: childEnvironment(options.env), stdio: ['ignore', 'pipe', 'pipe'] });
+  const child = spawn(process.execPath, [CLI, ...args], {
+    cwd: options.cwd ?? REPO,
+    env: childEnvironment(options.env),
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
   let stdout = '';
   let stderr = '';
   child.stdout!.setEncoding('utf8').on('data', (chunk: string) => (stdout += chunk));
@@ -71,7 +75,10 @@ export function startCli(args: string[], options: { env?: Record<string, string>
 }
 
 /** Runs the CLI to the end. */
-export function runCli(args: string[], options: { env?: Record<string, string>; cwd?: string } = {}): Promise<Finished> {
+export function runCli(
+  args: string[],
+  options: { env?: Record<string, string>; cwd?: string } = {},
+): Promise<Finished> {
   return startCli(args, options).done;
 }
 
@@ -104,7 +111,12 @@ export function durableFingerprint(directory: string): string {
  * Waits until the run directory's journal or checkpoint changes from `before` (the run has finished a
  * batch since), the process ends, or `timeoutMs` passes. Returns true when the files changed.
  */
-export async function waitForProgress(directory: string, before: string, running: Running, timeoutMs = 20_000): Promise<boolean> {
+export async function waitForProgress(
+  directory: string,
+  before: string,
+  running: Running,
+  timeoutMs = 20_000,
+): Promise<boolean> {
   let ended = false;
   void running.done.then(() => (ended = true));
   const started = Date.now();
@@ -135,12 +147,22 @@ export function expectSameResults(actual: string, expected: string, files: reado
     expect(b.length, `${expected}/${name} is empty`).toBeGreaterThan(0);
     if (!a.equals(b)) expect(a.toString('utf8'), `${name} differs: ${actual} vs ${expected}`).toBe(b.toString('utf8'));
   }
-  expect(summaryWithoutTiming(actual), `summary.json differs: ${actual} vs ${expected}`).toBe(summaryWithoutTiming(expected));
+  expect(summaryWithoutTiming(actual), `summary.json differs: ${actual} vs ${expected}`).toBe(
+    summaryWithoutTiming(expected),
+  );
 }
 
 /** The summary's counts. */
-export function summaryCounts(directory: string): { evaluated: number; feasible: number; infeasible: number; impossible: number; failed: number } {
-  return (JSON.parse(readFileSync(join(directory, 'summary.json'), 'utf8')) as { counts: ReturnType<typeof summaryCounts> }).counts;
+export function summaryCounts(directory: string): {
+  evaluated: number;
+  feasible: number;
+  infeasible: number;
+  impossible: number;
+  failed: number;
+} {
+  return (
+    JSON.parse(readFileSync(join(directory, 'summary.json'), 'utf8')) as { counts: ReturnType<typeof summaryCounts> }
+  ).counts;
 }
 
 /** A small seeded generator (mulberry32) for the moments the tests interrupt a run. */

@@ -29,14 +29,20 @@ const readRows = (file: string): Row[] => parseCsv(readFileSync(file, 'utf8'), {
 function si(row: Row, metric: string): number {
   const info = METRICS.find((m) => m.key === metric)!;
   const display = METRIC_DISPLAY[metric];
-  const column = display ? `${metric}_${display.label}` : info.unit === '' || info.unit === 'count' ? metric : `${metric}_${info.unit}`;
+  const column = display
+    ? `${metric}_${display.label}`
+    : info.unit === '' || info.unit === 'count'
+      ? metric
+      : `${metric}_${info.unit}`;
   expect(row).toHaveProperty(column);
   return Number(row[column]) * (display ? display.divisor : 1);
 }
 
 /** Exact 2-D hypervolume of minimisation points (independent of optimize/: sort and sum rectangles). */
 function hypervolume2d(points: number[][], reference: number[]): number {
-  const sorted = points.filter((p) => p[0]! < reference[0]! && p[1]! < reference[1]!).sort((a, b) => a[0]! - b[0]! || a[1]! - b[1]!);
+  const sorted = points
+    .filter((p) => p[0]! < reference[0]! && p[1]! < reference[1]!)
+    .sort((a, b) => a[0]! - b[0]! || a[1]! - b[1]!);
   let area = 0;
   let lastY = reference[1]!;
   for (const [x, y] of sorted) {
@@ -71,7 +77,8 @@ describe('the files of a sweep, checked from their own columns', () => {
   it('ranks run 1, 2, 3 … with Pareto ranks that never decrease', () => {
     const rows = readRows(join(run, 'candidates.csv'));
     rows.forEach((row, i) => expect(Number(row.rank)).toBe(i + 1));
-    for (let i = 1; i < rows.length; i++) expect(Number(rows[i]!.pareto_rank)).toBeGreaterThanOrEqual(Number(rows[i - 1]!.pareto_rank));
+    for (let i = 1; i < rows.length; i++)
+      expect(Number(rows[i]!.pareto_rank)).toBeGreaterThanOrEqual(Number(rows[i - 1]!.pareto_rank));
   });
 
   it('front.csv is non-dominated and is exactly the Pareto-rank-1 candidates', () => {
@@ -91,8 +98,12 @@ describe('the files of a sweep, checked from their own columns', () => {
     const c = summary.counts;
     expect(c.evaluated).toBe(256);
     expect(c.feasible + c.infeasible + c.impossible + c.failed).toBe(c.evaluated);
-    for (const constraint of summary.constraints) expect(constraint.rejected).toBeLessThanOrEqual(c.evaluated - c.feasible);
-    const front = readRows(join(run, 'front.csv')).map((row) => [spec.breakout.sense * si(row, 'breakout_voltage'), spec.mass.sense * si(row, 'wire_mass')]);
+    for (const constraint of summary.constraints)
+      expect(constraint.rejected).toBeLessThanOrEqual(c.evaluated - c.feasible);
+    const front = readRows(join(run, 'front.csv')).map((row) => [
+      spec.breakout.sense * si(row, 'breakout_voltage'),
+      spec.mass.sense * si(row, 'wire_mass'),
+    ]);
     const independent = hypervolume2d(front, summary.hypervolume.reference_point);
     expect(summary.hypervolume.value).toBeGreaterThan(0);
     expect(Math.abs(summary.hypervolume.value - independent) / independent).toBeLessThan(1e-9);
@@ -108,7 +119,14 @@ describe('the files of a sweep, checked from their own columns', () => {
       writeFileSync(file, shown.out);
       const evaluated = JSON.parse((await cli(['evaluate', file, '--json'])).out);
       const row = rows[rank - 1]!;
-      for (const metric of ['breakout_voltage', 'wire_mass', 'resonant_frequency', 'secondary_inductance', 'coupling', 'peak_voltage']) {
+      for (const metric of [
+        'breakout_voltage',
+        'wire_mass',
+        'resonant_frequency',
+        'secondary_inductance',
+        'coupling',
+        'peak_voltage',
+      ]) {
         const value = si(row, metric);
         expect(Math.abs(evaluated.metrics[metric] - value)).toBeLessThanOrEqual(Math.abs(value) * 1e-12);
       }

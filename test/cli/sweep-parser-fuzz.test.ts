@@ -21,7 +21,8 @@ type Path = ReadonlyArray<string | number>;
 function pathsOf(value: unknown, prefix: Path = []): Path[] {
   const paths: Path[] = [prefix];
   if (Array.isArray(value)) value.forEach((item, index) => paths.push(...pathsOf(item, [...prefix, index])));
-  else if (typeof value === 'object' && value !== null) for (const [key, item] of Object.entries(value)) paths.push(...pathsOf(item, [...prefix, key]));
+  else if (typeof value === 'object' && value !== null)
+    for (const [key, item] of Object.entries(value)) paths.push(...pathsOf(item, [...prefix, key]));
   return paths;
 }
 const basePaths = pathsOf(base);
@@ -36,7 +37,22 @@ function nested(depth: number, leaf: unknown, asList: boolean): unknown {
 /** Text with line breaks, control characters, quotes and non-ASCII, as a hostile file may hold. */
 const awkwardText = fc.oneof(
   fc.string({ maxLength: 12, unit: 'binary' }),
-  fc.constantFrom('', ' ', '\n', 'a\nb', 'AWG\r\n22', '\u0000', '\u001b[31mred', '\u2028', 'ünïcödé', '"\'`', '${x}', '%s%n', '__proto__', 'constructor'),
+  fc.constantFrom(
+    '',
+    ' ',
+    '\n',
+    'a\nb',
+    'AWG\r\n22',
+    '\u0000',
+    '\u001b[31mred',
+    '\u2028',
+    'ünïcödé',
+    '"\'`',
+    '${x}',
+    '%s%n',
+    '__proto__',
+    'constructor',
+  ),
 );
 
 /** Leaves that are wrong where a quantity, range or set is expected. */
@@ -98,7 +114,9 @@ const hostileLeaf: fc.Arbitrary<unknown> = fc.oneof(
   fc.double(),
   fc.integer({ min: -(2 ** 40), max: 2 ** 40 }),
   awkwardText,
-  fc.tuple(fc.integer({ min: 20, max: 300 }), fc.constantFrom<unknown>(null, 1, 'x', Number.NaN), fc.boolean()).map(([depth, leaf, asList]) => nested(depth, leaf, asList)),
+  fc
+    .tuple(fc.integer({ min: 20, max: 300 }), fc.constantFrom<unknown>(null, 1, 'x', Number.NaN), fc.boolean())
+    .map(([depth, leaf, asList]) => nested(depth, leaf, asList)),
 );
 
 /** One change to the tree. */
@@ -117,7 +135,21 @@ const mutation: fc.Arbitrary<Mutation> = fc.oneof(
   fc.record({
     kind: fc.constant('add-key' as const),
     path: fc.constantFrom(...basePaths),
-    key: fc.oneof(awkwardText, fc.constantFrom('turn', 'sampels', 'seeds', 'objective', 'min_', 'Design', 'topload ', 'choose', 'from', 'integer')),
+    key: fc.oneof(
+      awkwardText,
+      fc.constantFrom(
+        'turn',
+        'sampels',
+        'seeds',
+        'objective',
+        'min_',
+        'Design',
+        'topload ',
+        'choose',
+        'from',
+        'integer',
+      ),
+    ),
     value: hostileLeaf,
   }),
   fc.record({ kind: fc.constant('reverse-range' as const), path: fc.constantFrom(...basePaths) }),
@@ -173,7 +205,12 @@ function mutate(tree: unknown, mutations: Mutation[]): unknown {
         break;
       case 'add-key':
         if (typeof node === 'object' && node !== null && !Array.isArray(node)) {
-          Object.defineProperty(node, change.key, { value: structuredClone(change.value), enumerable: true, writable: true, configurable: true });
+          Object.defineProperty(node, change.key, {
+            value: structuredClone(change.value),
+            enumerable: true,
+            writable: true,
+            configurable: true,
+          });
         }
         break;
       case 'reverse-range':
@@ -203,7 +240,10 @@ function expectParsesOrRefuses(value: unknown): 'parsed' | 'refused' {
     spec = sweepFromValue(value, FILE);
   } catch (error) {
     if (!(error instanceof InputError)) {
-      throw new Error(`sweepFromValue threw ${error instanceof Error ? `${error.name}: ${error.message}` : String(error)}, not an InputError`, { cause: error });
+      throw new Error(
+        `sweepFromValue threw ${error instanceof Error ? `${error.name}: ${error.message}` : String(error)}, not an InputError`,
+        { cause: error },
+      );
     }
     const message = error.message;
     expect(message, message).not.toMatch(/[\n\r\u2028\u2029]/);
@@ -215,7 +255,8 @@ function expectParsesOrRefuses(value: unknown): 'parsed' | 'refused' {
       const keys = [...TOP_KEYS, ...Object.keys(value)].map((key) => new InputError(key).message);
       // (An empty top-level key has the empty path; the message then quotes the key itself.)
       expect(
-        keys.some((key) => rest.startsWith(`${key}: `) || rest.startsWith(`${key}.`) || rest.startsWith(`${key}[`)) || rest.startsWith("unknown key ''"),
+        keys.some((key) => rest.startsWith(`${key}: `) || rest.startsWith(`${key}.`) || rest.startsWith(`${key}[`)) ||
+          rest.startsWith("unknown key ''"),
         `no field path in: ${message}`,
       ).toBe(true);
     }
@@ -249,8 +290,23 @@ describe('sweepFromValue(value, file) on thousands of mutated and random sweeps'
     const anyValue = fc.oneof(
       fc.anything({ maxDepth: 4, withNullPrototype: true, withBigInt: false }),
       hostileLeaf,
-      fc.record({ design: fc.anything({ maxDepth: 3 }), objectives: fc.anything({ maxDepth: 2 }), sweep: fc.anything({ maxDepth: 2 }) }, { requiredKeys: [] }),
-      fc.record({ design: fc.constant(base.design), objectives: fc.constant(base.objectives), constraints: fc.dictionary(awkwardText, hostileLeaf, { maxKeys: 3 }), sweep: fc.dictionary(fc.constantFrom('method', 'samples', 'seed', 'levels', 'shard_count', 'reference_point'), hostileLeaf) }),
+      fc.record(
+        {
+          design: fc.anything({ maxDepth: 3 }),
+          objectives: fc.anything({ maxDepth: 2 }),
+          sweep: fc.anything({ maxDepth: 2 }),
+        },
+        { requiredKeys: [] },
+      ),
+      fc.record({
+        design: fc.constant(base.design),
+        objectives: fc.constant(base.objectives),
+        constraints: fc.dictionary(awkwardText, hostileLeaf, { maxKeys: 3 }),
+        sweep: fc.dictionary(
+          fc.constantFrom('method', 'samples', 'seed', 'levels', 'shard_count', 'reference_point'),
+          hostileLeaf,
+        ),
+      }),
     );
     fc.assert(
       fc.property(anyValue, (value) => {
@@ -272,15 +328,31 @@ describe('sweepFromValue(value, file) on thousands of mutated and random sweeps'
 function fuzzFiles(directory: (name: string) => string, trees: number, texts: number, seed: number): string[] {
   const small = structuredClone(base);
   (small.sweep as Record<string, unknown>).samples = 4;
-  const values = fc.sample(fc.array(mutation, { minLength: 1, maxLength: 3 }).map((mutations) => mutate(small, mutations)), { numRuns: trees, seed });
+  const values = fc.sample(
+    fc.array(mutation, { minLength: 1, maxLength: 3 }).map((mutations) => mutate(small, mutations)),
+    { numRuns: trees, seed },
+  );
   const contents = values.map((value) => (value === undefined ? '' : stringifyYaml(value)));
   const smallText = stringifyYaml(small);
   if (texts > 0) {
     contents.push(
       ...fc.sample(
         fc.oneof(
-          fc.tuple(fc.nat({ max: smallText.length }), fc.nat({ max: 12 }), fc.string({ maxLength: 8, unit: 'binary' })).map(([at, cut, insert]) => smallText.slice(0, at) + insert + smallText.slice(at + cut)),
-          fc.constantFrom('', '\ufeff', '---\n---\n', '{', 'design: [', 'a: &a [*a]', `${'['.repeat(5000)}`, '\u0000\u0001', 'design: !!binary AAAA', 'key: 1\nkey: 2\n'),
+          fc
+            .tuple(fc.nat({ max: smallText.length }), fc.nat({ max: 12 }), fc.string({ maxLength: 8, unit: 'binary' }))
+            .map(([at, cut, insert]) => smallText.slice(0, at) + insert + smallText.slice(at + cut)),
+          fc.constantFrom(
+            '',
+            '\ufeff',
+            '---\n---\n',
+            '{',
+            'design: [',
+            'a: &a [*a]',
+            `${'['.repeat(5000)}`,
+            '\u0000\u0001',
+            'design: !!binary AAAA',
+            'key: 1\nkey: 2\n',
+          ),
         ),
         { numRuns: texts, seed: seed + 1 },
       ),
@@ -317,7 +389,11 @@ describe('coilfront check FILE on mutated sweep files', () => {
     for (const file of files) {
       let stdout = '';
       let stderr = '';
-      const code = await runCliInProcess(['check', file, '--workers', '1'], { out: (text) => (stdout += text), err: (text) => (stderr += text), isTty: false });
+      const code = await runCliInProcess(['check', file, '--workers', '1'], {
+        out: (text) => (stdout += text),
+        err: (text) => (stderr += text),
+        isTty: false,
+      });
       expectCheckContract(file, code, stdout, stderr);
       outcomes[code]++;
     }
@@ -349,7 +425,11 @@ describe('coilfront check FILE on mutated sweep files', () => {
     writeFileSync(file, stringifyYaml(design));
     let stderr = '';
     const started = Date.now();
-    const code = await runCliInProcess(['evaluate', file, '--json'], { out: () => undefined, err: (text) => (stderr += text), isTty: false });
+    const code = await runCliInProcess(['evaluate', file, '--json'], {
+      out: () => undefined,
+      err: (text) => (stderr += text),
+      isTty: false,
+    });
     expect(Date.now() - started).toBeLessThan(5000);
     expect(code, stderr).toBe(2);
     expect(stderr).toBe(`coilfront: ${file}: ${reason} this model handles\n`);

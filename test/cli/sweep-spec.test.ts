@@ -79,25 +79,108 @@ describe('sweepFromValue(value, file)', () => {
   });
 
   const refusals: Array<[string, (spec: Record<string, any>) => void, RegExp, object?]> = [
-    ['a reversed range', (s) => (s.design.secondary.base_height = { from: '900 mm', to: '400 mm' }), /design\.secondary\.base_height: reversed range/],
-    ['an empty set', (s) => (s.design.secondary.wire = { choose: [] }), /design\.secondary\.wire\.choose: the set is empty/],
-    ['NaN in a range', (s) => (s.design.secondary.turns = { from: Number.NaN, to: 5 }), /design\.secondary\.turns\.from: expected/],
-    ['infinity in a range', (s) => (s.design.secondary.turns = { from: 1, to: Infinity }), /design\.secondary\.turns\.to: expected/],
-    ['a unit of the wrong kind', (s) => (s.design.topload.outer_diameter = { from: '40 nF', to: '90 nF' }), /outer_diameter\.from: '40 nF' is a capacitance/],
-    ['a range on a wire', (s) => (s.design.secondary.wire = { from: 'AWG 22', to: 'AWG 26' }), /design\.secondary\.wire: a range needs a numeric field/],
-    ['an unknown key with a suggestion', (s) => (s.design.secondary.turns = { from: 600, too: 1400 }), /turns\.too: unknown key 'too' \(did you mean 'to'\?\)/],
-    ['an unknown metric', (s) => (s.constraints.resonant_frequncy = { max: 1 }), /constraints\.resonant_frequncy: unknown metric 'resonant_frequncy' \(did you mean 'resonant_frequency'\?\)/],
-    ['a constraint with min above max', (s) => (s.constraints.overall_height = { min: '3 m', max: '2 m' }), /constraints\.overall_height: min \('3 m'\) is above max/],
-    ['a constraint bound of the wrong kind', (s) => (s.constraints.overall_height = { max: '2 kV' }), /constraints\.overall_height\.max: '2 kV' is a voltage/],
-    ['five objectives', (s) => (s.objectives = ['maximize: breakout_voltage', 'minimize: wire_mass', 'minimize: wire_length', 'minimize: overall_height', 'minimize: energy_per_shot']), /objectives: expected 1 to 4 objectives, got 5/],
-    ['a repeated objective', (s) => s.objectives.push({ minimize: 'wire_mass' }), /objectives\[2\]\.minimize: 'wire_mass' is already an objective/],
-    ['samples on a grid', (s) => (s.sweep = { method: 'grid', samples: 10 }), /sweep\.samples: a grid has no sample count/],
-    ['an unknown method', (s) => (s.sweep.method = 'sobel'), /sweep\.method: expected one of sobol, lhs, grid, random, got 'sobel' \(did you mean 'sobol'\?\)/],
-    ['too many samples without --force', (s) => (s.sweep.samples = 50_000_000), /sweep\.samples: 50000000 designs is more than 20000000; run with --force/],
-    ['a fractional sample count', (s) => (s.sweep.samples = 10.5), /sweep\.samples: expected a whole number of samples/],
-    ['nothing varied', (s) => (s.design = { secondary: { form_diameter: '160 mm', wire: 'AWG 26', turns: 900 } }), /design: nothing varies/],
-    ['a missing required field', (s) => delete s.design.secondary.form_diameter, /design\.secondary\.form_diameter: required/],
-    ['an unknown top-level key', (s) => (s.constrains = {}), /constrains: unknown key 'constrains' \(did you mean 'constraints'\?\)/],
+    [
+      'a reversed range',
+      (s) => (s.design.secondary.base_height = { from: '900 mm', to: '400 mm' }),
+      /design\.secondary\.base_height: reversed range/,
+    ],
+    [
+      'an empty set',
+      (s) => (s.design.secondary.wire = { choose: [] }),
+      /design\.secondary\.wire\.choose: the set is empty/,
+    ],
+    [
+      'NaN in a range',
+      (s) => (s.design.secondary.turns = { from: Number.NaN, to: 5 }),
+      /design\.secondary\.turns\.from: expected/,
+    ],
+    [
+      'infinity in a range',
+      (s) => (s.design.secondary.turns = { from: 1, to: Infinity }),
+      /design\.secondary\.turns\.to: expected/,
+    ],
+    [
+      'a unit of the wrong kind',
+      (s) => (s.design.topload.outer_diameter = { from: '40 nF', to: '90 nF' }),
+      /outer_diameter\.from: '40 nF' is a capacitance/,
+    ],
+    [
+      'a range on a wire',
+      (s) => (s.design.secondary.wire = { from: 'AWG 22', to: 'AWG 26' }),
+      /design\.secondary\.wire: a range needs a numeric field/,
+    ],
+    [
+      'an unknown key with a suggestion',
+      (s) => (s.design.secondary.turns = { from: 600, too: 1400 }),
+      /turns\.too: unknown key 'too' \(did you mean 'to'\?\)/,
+    ],
+    [
+      'an unknown metric',
+      (s) => (s.constraints.resonant_frequncy = { max: 1 }),
+      /constraints\.resonant_frequncy: unknown metric 'resonant_frequncy' \(did you mean 'resonant_frequency'\?\)/,
+    ],
+    [
+      'a constraint with min above max',
+      (s) => (s.constraints.overall_height = { min: '3 m', max: '2 m' }),
+      /constraints\.overall_height: min \('3 m'\) is above max/,
+    ],
+    [
+      'a constraint bound of the wrong kind',
+      (s) => (s.constraints.overall_height = { max: '2 kV' }),
+      /constraints\.overall_height\.max: '2 kV' is a voltage/,
+    ],
+    [
+      'five objectives',
+      (s) =>
+        (s.objectives = [
+          'maximize: breakout_voltage',
+          'minimize: wire_mass',
+          'minimize: wire_length',
+          'minimize: overall_height',
+          'minimize: energy_per_shot',
+        ]),
+      /objectives: expected 1 to 4 objectives, got 5/,
+    ],
+    [
+      'a repeated objective',
+      (s) => s.objectives.push({ minimize: 'wire_mass' }),
+      /objectives\[2\]\.minimize: 'wire_mass' is already an objective/,
+    ],
+    [
+      'samples on a grid',
+      (s) => (s.sweep = { method: 'grid', samples: 10 }),
+      /sweep\.samples: a grid has no sample count/,
+    ],
+    [
+      'an unknown method',
+      (s) => (s.sweep.method = 'sobel'),
+      /sweep\.method: expected one of sobol, lhs, grid, random, got 'sobel' \(did you mean 'sobol'\?\)/,
+    ],
+    [
+      'too many samples without --force',
+      (s) => (s.sweep.samples = 50_000_000),
+      /sweep\.samples: 50000000 designs is more than 20000000; run with --force/,
+    ],
+    [
+      'a fractional sample count',
+      (s) => (s.sweep.samples = 10.5),
+      /sweep\.samples: expected a whole number of samples/,
+    ],
+    [
+      'nothing varied',
+      (s) => (s.design = { secondary: { form_diameter: '160 mm', wire: 'AWG 26', turns: 900 } }),
+      /design: nothing varies/,
+    ],
+    [
+      'a missing required field',
+      (s) => delete s.design.secondary.form_diameter,
+      /design\.secondary\.form_diameter: required/,
+    ],
+    [
+      'an unknown top-level key',
+      (s) => (s.constrains = {}),
+      /constrains: unknown key 'constrains' \(did you mean 'constraints'\?\)/,
+    ],
   ];
   for (const [what, mutate, message, options] of refusals) {
     it(`refuses ${what} with one line naming the path`, () => {

@@ -57,7 +57,14 @@ describe('design files round-trip through the parser to the same SI numbers', ()
         fc.double({ min: 0, max: 2, noNaN: true }),
         (diameter, turns, base) => {
           const inMetres = { secondary: { form_diameter: diameter, wire: 'AWG 24', turns, base_height: base } };
-          const inMillimetres = { secondary: { form_diameter: `${diameter * 1000} mm`, wire: 'AWG 24', turns, base_height: `${base * 1000} mm` } };
+          const inMillimetres = {
+            secondary: {
+              form_diameter: `${diameter * 1000} mm`,
+              wire: 'AWG 24',
+              turns,
+              base_height: `${base * 1000} mm`,
+            },
+          };
           const a = designFromValue(inMetres, 'a.yaml').design;
           const b = designFromValue(inMillimetres, 'b.yaml').design;
           expect(b.secondary!.formDiameter).toBeCloseTo(a.secondary!.formDiameter, 12);

@@ -1,7 +1,15 @@
 import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { expectSameResults, requireBuiltCli, runCliOk, scratchArea, SMALL_SWEEP, SMALL_SWEEP_SAMPLES, summaryCounts } from './sweep-harness.ts';
+import {
+  expectSameResults,
+  requireBuiltCli,
+  runCliOk,
+  scratchArea,
+  SMALL_SWEEP,
+  SMALL_SWEEP_SAMPLES,
+  summaryCounts,
+} from './sweep-harness.ts';
 
 // Issue 6, item 4: a worker that exits mid-batch is replaced and its batch retried once; a batch that
 // fails twice is recorded as failed designs with the reason, and the sweep goes on. The crash comes
@@ -27,9 +35,12 @@ describe('a worker that exits while evaluating a batch', () => {
   it('once: the batch is retried on a new worker and the run equals a clean run', async () => {
     const marker = area.dir('crashed-once');
     const directory = area.dir('crash-once');
-    const result = await runCliOk(['sweep', SMALL_SWEEP, '--out', directory, '--workers', '2', '--batch-size', '8', ...COMMON], {
-      env: { COILFRONT_TEST_CRASH: `100:once:${marker}` },
-    });
+    const result = await runCliOk(
+      ['sweep', SMALL_SWEEP, '--out', directory, '--workers', '2', '--batch-size', '8', ...COMMON],
+      {
+        env: { COILFRONT_TEST_CRASH: `100:once:${marker}` },
+      },
+    );
     expect(existsSync(marker), 'the worker reached index 100 and exited').toBe(true);
     expect(result.stderr).toContain('a worker failed');
     expect(result.stderr).toContain('retrying the batch at index 96'); // batch 12 of 8 designs: 96 … 103
@@ -39,9 +50,12 @@ describe('a worker that exits while evaluating a batch', () => {
 
   it('always: that batch (the last, 6 designs of --batch-size 10) is recorded as failed, the rest equals a clean run', async () => {
     const directory = area.dir('crash-always');
-    await runCliOk(['sweep', SMALL_SWEEP, '--out', directory, '--workers', '1', '--batch-size', '10', '--quiet', ...COMMON], {
-      env: { COILFRONT_TEST_CRASH: '252' },
-    });
+    await runCliOk(
+      ['sweep', SMALL_SWEEP, '--out', directory, '--workers', '1', '--batch-size', '10', '--quiet', ...COMMON],
+      {
+        env: { COILFRONT_TEST_CRASH: '252' },
+      },
+    );
     // 256 samples in batches of 10: the last batch holds 250 … 255.
     const counts = summaryCounts(directory);
     expect(counts.evaluated).toBe(SMALL_SWEEP_SAMPLES);
@@ -63,7 +77,8 @@ describe('a worker that exits while evaluating a batch', () => {
       }
     }
     // The six lost designs are missing from the other counts, nothing else changed.
-    const lost = (a: typeof counts, b: typeof counts) => b.feasible + b.infeasible + b.impossible - (a.feasible + a.infeasible + a.impossible);
+    const lost = (a: typeof counts, b: typeof counts) =>
+      b.feasible + b.infeasible + b.impossible - (a.feasible + a.infeasible + a.impossible);
     expect(lost(counts, cleanCounts)).toBe(6);
     expect(readFileSync(join(directory, 'candidates.csv'), 'utf8')).not.toMatch(/worker failed/);
   });

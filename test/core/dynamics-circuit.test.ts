@@ -26,8 +26,14 @@ const lossy: CoupledCircuit = {
 /** ∫ (R1 i1² + R2 i2²) dt over [0, T] by 8-point Gauss–Legendre on `panels` panels. */
 function dissipated(circuit: CoupledCircuit, voltage: number, end: number, panels: number): number {
   const modes = coupledModes(circuit, voltage)!;
-  const nodes = [-0.9602898564975363, -0.7966664774136267, -0.5255324099163290, -0.1834346424956498, 0.1834346424956498, 0.5255324099163290, 0.7966664774136267, 0.9602898564975363];
-  const weights = [0.1012285362903763, 0.2223810344533745, 0.3137066458778873, 0.3626837833783620, 0.3626837833783620, 0.3137066458778873, 0.2223810344533745, 0.1012285362903763];
+  const nodes = [
+    -0.9602898564975363, -0.7966664774136267, -0.525532409916329, -0.1834346424956498, 0.1834346424956498,
+    0.525532409916329, 0.7966664774136267, 0.9602898564975363,
+  ];
+  const weights = [
+    0.1012285362903763, 0.2223810344533745, 0.3137066458778873, 0.362683783378362, 0.362683783378362,
+    0.3137066458778873, 0.2223810344533745, 0.1012285362903763,
+  ];
   const out = new Float64Array(4);
   let total = 0;
   const width = end / panels;
@@ -35,7 +41,11 @@ function dissipated(circuit: CoupledCircuit, voltage: number, end: number, panel
     for (let q = 0; q < 8; q++) {
       const t = (p + 0.5) * width + 0.5 * width * nodes[q];
       coupledStateAt(modes, t, out);
-      total += 0.5 * width * weights[q] * (circuit.primaryResistance * out[2] ** 2 + circuit.secondaryResistance * out[3] ** 2);
+      total +=
+        0.5 *
+        width *
+        weights[q] *
+        (circuit.primaryResistance * out[2] ** 2 + circuit.secondaryResistance * out[3] ** 2);
     }
   }
   return total;
@@ -62,7 +72,11 @@ describe('coupledModes with losses', () => {
   });
 
   test('a weakly coupled, far-detuned primary decays as exp(−R1 t / 2L1) (exact RLC decay)', () => {
-    const circuit: CoupledCircuit = { ...lossy, secondaryCapacitance: 1e-12 * 0.05, mutualInductance: 1e-7 * Math.sqrt(12e-6 * 40e-3) };
+    const circuit: CoupledCircuit = {
+      ...lossy,
+      secondaryCapacitance: 1e-12 * 0.05,
+      mutualInductance: 1e-7 * Math.sqrt(12e-6 * 40e-3),
+    };
     const modes = coupledModes(circuit, 1000)!;
     const out = new Float64Array(4);
     const period = 2 * Math.PI * Math.sqrt(circuit.primaryInductance * circuit.primaryCapacitance);
@@ -128,7 +142,9 @@ describe('sparkGapShot', () => {
     expect(shot.quenchTime!).toBeGreaterThanOrEqual(shot.transferTime! - primaryPeriod / 8);
     expect(shot.quenchTime! - shot.transferTime!).toBeLessThan(0.6 * primaryPeriod);
     const out = coupledStateAt(coupledModes(lossy, 12e3)!, shot.quenchTime!, new Float64Array(4));
-    expect(Math.abs(out[2]) / (12e3 * Math.sqrt(lossy.primaryCapacitance / lossy.primaryInductance))).toBeLessThan(1e-9);
+    expect(Math.abs(out[2]) / (12e3 * Math.sqrt(lossy.primaryCapacitance / lossy.primaryInductance))).toBeLessThan(
+      1e-9,
+    );
   });
 
   test('with or without quench the peak within the contract window differs by little', () => {
@@ -148,7 +164,10 @@ describe('sparkGapShot', () => {
   });
 
   test('near a full-transfer coupling the quench does not jump half a cycle with the charge voltage (k = 0.394)', () => {
-    const circuit = { ...lossy, mutualInductance: 0.39414026736121693 * Math.sqrt(lossy.primaryInductance * lossy.secondaryInductance) };
+    const circuit = {
+      ...lossy,
+      mutualInductance: 0.39414026736121693 * Math.sqrt(lossy.primaryInductance * lossy.secondaryInductance),
+    };
     const low = sparkGapShot(circuit, 1000, true)!;
     const high = sparkGapShot(circuit, 1000.1, true)!;
     expect(high.quenchTime! / low.quenchTime!).toBeCloseTo(1, 9);
@@ -162,7 +181,12 @@ describe('sparkGapShot', () => {
         fc.double({ min: 0, max: 5, noNaN: true }),
         fc.double({ min: 0.8, max: 1.25, noNaN: true }),
         (k, r1, detune) => {
-          const circuit = { ...lossy, primaryResistance: r1, secondaryCapacitance: lossy.secondaryCapacitance * detune, mutualInductance: k * Math.sqrt(lossy.primaryInductance * lossy.secondaryInductance) };
+          const circuit = {
+            ...lossy,
+            primaryResistance: r1,
+            secondaryCapacitance: lossy.secondaryCapacitance * detune,
+            mutualInductance: k * Math.sqrt(lossy.primaryInductance * lossy.secondaryInductance),
+          };
           const shot = sparkGapShot(circuit, 1000, true)!;
           if (shot.transferTime === null) return true;
           const modes = coupledModes(circuit, 1000)!;
@@ -172,7 +196,8 @@ describe('sparkGapShot', () => {
             return primaryEnergy(circuit, out[0], out[2]);
           };
           const atTransfer = w1(shot.transferTime);
-          for (let n = 0; n < 200; n++) if (w1((shot.transferTime * n) / 200) < atTransfer - 1e-12 * shot.energyPerShot) return false;
+          for (let n = 0; n < 200; n++)
+            if (w1((shot.transferTime * n) / 200) < atTransfer - 1e-12 * shot.energyPerShot) return false;
           const period = 1 / shot.modeFrequencyHigh;
           let later = 0;
           for (let n = 1; n <= 100; n++) later = Math.max(later, w1(shot.transferTime + (3 * period * n) / 100));
@@ -184,7 +209,12 @@ describe('sparkGapShot', () => {
   });
 
   test('a heavily damped primary far from the secondary only decays: no transfer time', () => {
-    const circuit = { ...lossy, primaryResistance: 5, secondaryCapacitance: lossy.secondaryCapacitance * 1.07, mutualInductance: 0.03 * Math.sqrt(lossy.primaryInductance * lossy.secondaryInductance) };
+    const circuit = {
+      ...lossy,
+      primaryResistance: 5,
+      secondaryCapacitance: lossy.secondaryCapacitance * 1.07,
+      mutualInductance: 0.03 * Math.sqrt(lossy.primaryInductance * lossy.secondaryInductance),
+    };
     const shot = sparkGapShot(circuit, 1000, true)!;
     expect(shot.transferTime).toBeNull();
     expect(shot.quenchTime).toBeNull();
@@ -198,7 +228,10 @@ describe('sparkGapShot', () => {
         fc.double({ min: 1.0001, max: 3, noNaN: true }),
         fc.double({ min: 0.05, max: 0.4, noNaN: true }),
         (voltage, factor, k) => {
-          const circuit = { ...lossy, mutualInductance: k * Math.sqrt(lossy.primaryInductance * lossy.secondaryInductance) };
+          const circuit = {
+            ...lossy,
+            mutualInductance: k * Math.sqrt(lossy.primaryInductance * lossy.secondaryInductance),
+          };
           const low = sparkGapShot(circuit, voltage, true)!;
           const high = sparkGapShot(circuit, voltage * factor, true)!;
           return high.peakVoltage >= low.peakVoltage;

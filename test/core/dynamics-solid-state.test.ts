@@ -47,7 +47,9 @@ describe('solidStateBurst', () => {
     expect(burst.endReason).toBe('on_time');
     expect(burst.endTime).toBeCloseTo(60e-6, 15);
     const stored = circuitEnergy(base, burst.finalState);
-    expect(Math.abs(burst.energyFromSource - stored - burst.energyDissipated) / burst.energyFromSource).toBeLessThan(1e-6);
+    expect(Math.abs(burst.energyFromSource - stored - burst.energyDissipated) / burst.energyFromSource).toBeLessThan(
+      1e-6,
+    );
     expect(burst.peakVoltage).toBeGreaterThan(0);
   });
 

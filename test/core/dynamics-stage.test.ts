@@ -32,11 +32,27 @@ const tankCapacitance = 25e-9;
 const primaryInductance = (secondary.inductance * totalCapacitance) / tankCapacitance; // tuned
 const coupling = 0.14;
 
-function makeContext(driver: SparkGapDriver | SolidStateDriver | undefined, overrides: Partial<Design> = {}): EvalContext {
+function makeContext(
+  driver: SparkGapDriver | SolidStateDriver | undefined,
+  overrides: Partial<Design> = {},
+): EvalContext {
   const design: Design = {
-    secondary: { formDiameter: 0.2, wire: { bareDiameter: 0.7e-3, insulation: 'grade2' }, turns: 1000, baseHeight: 0.5, voltageProfile: 'linear' },
+    secondary: {
+      formDiameter: 0.2,
+      wire: { bareDiameter: 0.7e-3, insulation: 'grade2' },
+      turns: 1000,
+      baseHeight: 0.5,
+      voltageProfile: 'linear',
+    },
     topload: { shape: 'toroid', outerDiameter: 0.8, tubeDiameter: 0.2, heightAboveWinding: 0.1 },
-    primary: { shape: 'flat_spiral', innerDiameter: 0.26, turns: 12, conductorDiameter: 6.35e-3, turnSpacing: 6e-3, elevation: 0 },
+    primary: {
+      shape: 'flat_spiral',
+      innerDiameter: 0.26,
+      turns: 12,
+      conductorDiameter: 6.35e-3,
+      turnSpacing: 6e-3,
+      elevation: 0,
+    },
     tank: { capacitance: tankCapacitance, chargeVoltage: 15e3, voltageRating: 30e3 },
     driver,
     environment: { altitude: 0, temperature: 293.15 },
@@ -76,21 +92,32 @@ function run(context: EvalContext): EvalContext {
 }
 
 /** The checker's view: the circuit from the reported metrics, solved by plain RK4 (400 steps per cycle). */
-function independentShot(metrics: Record<string, number | null>, tankC: number, chargeVoltage: number): { transferTime: number; peakVoltage: number } {
-  const L1 = metrics.primary_inductance!, R1 = metrics.primary_resistance!, L2 = metrics.secondary_inductance ?? secondary.inductance;
-  const C2 = metrics.total_capacitance ?? totalCapacitance, R2 = metrics.secondary_ac_resistance!, M = metrics.coupling! * Math.sqrt(L1 * L2);
+function independentShot(
+  metrics: Record<string, number | null>,
+  tankC: number,
+  chargeVoltage: number,
+): { transferTime: number; peakVoltage: number } {
+  const L1 = metrics.primary_inductance!,
+    R1 = metrics.primary_resistance!,
+    L2 = metrics.secondary_inductance ?? secondary.inductance;
+  const C2 = metrics.total_capacitance ?? totalCapacitance,
+    R2 = metrics.secondary_ac_resistance!,
+    M = metrics.coupling! * Math.sqrt(L1 * L2);
   const det = L1 * L2 - M * M;
   const f = (s: number[]): number[] => {
     const a1 = -R1 * s[2] - s[0];
     const a2 = -R2 * s[3] - s[1];
     return [s[2] / tankC, s[3] / C2, (L2 * a1 - M * a2) / det, (L1 * a2 - M * a1) / det];
   };
-  const h = 2 * Math.PI * Math.sqrt(L2 * C2) / 400;
+  const h = (2 * Math.PI * Math.sqrt(L2 * C2)) / 400;
   let y = [chargeVoltage, 0, 0, 0];
   const w1 = (s: number[]): number => 0.5 * tankC * s[0] ** 2 + 0.5 * L1 * s[2] ** 2;
   const samples: number[][] = [y];
   for (let n = 0; n < 400 * 40; n++) {
-    const k1 = f(y), k2 = f(y.map((v, c) => v + 0.5 * h * k1[c])), k3 = f(y.map((v, c) => v + 0.5 * h * k2[c])), k4 = f(y.map((v, c) => v + h * k3[c]));
+    const k1 = f(y),
+      k2 = f(y.map((v, c) => v + 0.5 * h * k1[c])),
+      k3 = f(y.map((v, c) => v + 0.5 * h * k2[c])),
+      k4 = f(y.map((v, c) => v + h * k3[c]));
     y = y.map((v, c) => v + (h / 6) * (k1[c] + 2 * k2[c] + 2 * k3[c] + k4[c]));
     samples.push(y);
   }
@@ -112,7 +139,10 @@ describe('dynamicsStage with a spark gap', () => {
     expect(metrics.primary_resistance).toBeCloseTo(metrics.primary_conductor_resistance! + 1, 12);
     expect(metrics.primary_conductor_resistance!).toBeGreaterThan(0);
     expect(metrics.secondary_ac_resistance!).toBeGreaterThan(secondary.dcResistance);
-    expect(metrics.secondary_q).toBeCloseTo((2 * Math.PI * secondaryFrequency * secondary.inductance) / metrics.secondary_ac_resistance!, 9);
+    expect(metrics.secondary_q).toBeCloseTo(
+      (2 * Math.PI * secondaryFrequency * secondary.inductance) / metrics.secondary_ac_resistance!,
+      9,
+    );
     expect(metrics.mode_frequency_low! / (secondaryFrequency / Math.sqrt(1 + coupling))).toBeCloseTo(1, 3);
     expect(metrics.mode_frequency_high! / (secondaryFrequency / Math.sqrt(1 - coupling))).toBeCloseTo(1, 3);
     expect(metrics.full_transfer_coupling).toBeCloseTo(0.132743, 5); // n = 7, nearest to 0.14 (§8.2 formula)
@@ -153,7 +183,9 @@ describe('dynamicsStage with a spark gap', () => {
   });
 
   test('warns about high coupling for a spark gap and an under-rated tank capacitor, with the numbers', () => {
-    const context = makeContext(sparkGap, { tank: { capacitance: tankCapacitance, chargeVoltage: 15e3, voltageRating: 12e3 } });
+    const context = makeContext(sparkGap, {
+      tank: { capacitance: tankCapacitance, chargeVoltage: 15e3, voltageRating: 12e3 },
+    });
     context.metrics.coupling = 0.31;
     run(context);
     expect(context.warnings.some((w) => w.includes('coupling 0.31') && w.includes('spark gap'))).toBe(true);
@@ -163,7 +195,13 @@ describe('dynamicsStage with a spark gap', () => {
 });
 
 describe('dynamicsStage with a solid-state bridge', () => {
-  const bridge: SolidStateDriver = { kind: 'solid_state', bridge: 'full', busVoltage: 340, onTime: 80e-6, repetitionRate: 200 };
+  const bridge: SolidStateDriver = {
+    kind: 'solid_state',
+    bridge: 'full',
+    busVoltage: 340,
+    onTime: 80e-6,
+    repetitionRate: 200,
+  };
 
   test('simulates the burst: bus energy, input power, peak voltage; no transfer time', () => {
     const { metrics } = run(makeContext(bridge));
@@ -191,7 +229,9 @@ describe('dynamicsStage with a solid-state bridge', () => {
     context.electrostatics = { ...context.electrostatics!, breakoutVoltage: 60e3 };
     run(context);
     expect(context.metrics.peak_voltage!).toBeGreaterThan(60e3);
-    expect(context.warnings.some((w) => w.includes('reaches its breakout voltage 60 kV') && w.includes('cycles'))).toBe(true);
+    expect(context.warnings.some((w) => w.includes('reaches its breakout voltage 60 kV') && w.includes('cycles'))).toBe(
+      true,
+    );
   });
 
   test('needs on_time or cycles', () => {
@@ -217,7 +257,10 @@ describe('outcomeStage', () => {
         const { metrics } = run(makeContext(sparkGap, { tank: { capacitance: tankCapacitance, chargeVoltage } }));
         const reference = run(makeContext(sparkGap)).metrics;
         const ratio = metrics.breakout_margin! / reference.breakout_margin!;
-        return Math.abs(ratio * (chargeVoltage / 15e3) - 1) < 1e-9 && Math.abs((metrics.breakout_margin! * metrics.peak_voltage!) / (3.2e6 / 8.5) - 1) < 1e-12;
+        return (
+          Math.abs(ratio * (chargeVoltage / 15e3) - 1) < 1e-9 &&
+          Math.abs((metrics.breakout_margin! * metrics.peak_voltage!) / (3.2e6 / 8.5) - 1) < 1e-12
+        );
       }),
       { numRuns: 25, seed: 7 },
     );
@@ -233,10 +276,14 @@ describe('outcomeStage', () => {
   test('spark length is the common-practice 0.043 √P and loads the resonance by 1 pF per foot', () => {
     const { metrics } = run(makeContext(sparkGap));
     expect(metrics.spark_length).toBeCloseTo(SPARK_LENGTH_PER_ROOT_WATT * Math.sqrt(metrics.input_power!), 12);
-    const loaded = 1 / (2 * Math.PI * Math.sqrt(secondary.inductance * (totalCapacitance + (1e-12 / 0.3048) * metrics.spark_length!)));
+    const loaded =
+      1 /
+      (2 * Math.PI * Math.sqrt(secondary.inductance * (totalCapacitance + (1e-12 / 0.3048) * metrics.spark_length!)));
     expect(metrics.loaded_resonant_frequency).toBeCloseTo(loaded, 6);
     // a given streamer length is left to the electrostatics stage
-    const given = run(makeContext(sparkGap, { environment: { altitude: 0, temperature: 293.15, streamerLength: 0.5 } }));
+    const given = run(
+      makeContext(sparkGap, { environment: { altitude: 0, temperature: 293.15, streamerLength: 0.5 } }),
+    );
     expect(given.metrics.loaded_resonant_frequency).toBeNull();
   });
 
@@ -266,13 +313,19 @@ describe('outcomeStage', () => {
     far.primary!.rings[far.primary!.rings.length - 1] = { r: 0.6, z: 0.5 };
     run(far);
     expect(far.metrics.primary_strike_margin!).toBeGreaterThan(near);
-    const strong = makeContext({ ...sparkGap, breakRate: 2000 }, { tank: { capacitance: tankCapacitance, chargeVoltage: 30e3 } });
+    const strong = makeContext(
+      { ...sparkGap, breakRate: 2000 },
+      { tank: { capacitance: tankCapacitance, chargeVoltage: 30e3 } },
+    );
     run(strong);
     expect(strong.warnings.some((w) => w.includes('strike rail'))).toBe(true);
-    const railed = makeContext({ ...sparkGap, breakRate: 2000 }, {
-      tank: { capacitance: tankCapacitance, chargeVoltage: 30e3 },
-      strikeRail: { diameter: 0.9, conductorDiameter: 0.01, elevation: 0.05 },
-    });
+    const railed = makeContext(
+      { ...sparkGap, breakRate: 2000 },
+      {
+        tank: { capacitance: tankCapacitance, chargeVoltage: 30e3 },
+        strikeRail: { diameter: 0.9, conductorDiameter: 0.01, elevation: 0.05 },
+      },
+    );
     run(railed);
     expect(railed.warnings.some((w) => w.includes('strike rail'))).toBe(false);
   });
@@ -301,4 +354,3 @@ describe('outcomeStage', () => {
     expect(chosen.warnings.some((w) => w.includes('tap'))).toBe(false);
   });
 });
-

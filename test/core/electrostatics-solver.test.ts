@@ -17,7 +17,7 @@ describe('luFactor / luSolve (Golub & Van Loan Alg. 3.4.1)', () => {
     const n = 6;
     const a = new Float64Array(n * n);
     let seed = 7;
-    const next = () => ((seed = (seed * 16807) % 2147483647) / 2147483647) - 0.5;
+    const next = () => (seed = (seed * 16807) % 2147483647) / 2147483647 - 0.5;
     for (let i = 0; i < n * n; i++) a[i] = next();
     a[0] = 0; // forces a row exchange at the first step
     const b = Float64Array.from({ length: n }, () => next());
@@ -60,7 +60,7 @@ describe('panelSelfIntegral (log singularity subtracted in closed form)', () => 
           const plus2 = (r0 + point[0]) ** 2 + dz * dz;
           const minus2 = (r0 - point[0]) ** 2 + dz * dz;
           const { k } = ellipticKEComplement(minus2 / plus2);
-          sum += 0.5 * (outer - inner) * GAUSS8_WEIGHTS[q] * half * point[0] * k / Math.sqrt(plus2);
+          sum += (0.5 * (outer - inner) * GAUSS8_WEIGHTS[q] * half * point[0] * k) / Math.sqrt(plus2);
         }
       }
     }
@@ -69,8 +69,14 @@ describe('panelSelfIntegral (log singularity subtracted in closed form)', () => 
   test.each<[string, PanelShape]>([
     ['a winding panel', { kind: 'line', r0: 0.08, z0: 0.5, r1: 0.08, z1: 0.53, position: 0 }],
     ['a disc panel', { kind: 'line', r0: 0.2, z0: 0.3, r1: 0.25, z1: 0.3, position: 0 }],
-    ['a toroid panel at the outer equator', { kind: 'arc', centerR: 0.25, centerZ: 1, radius: 0.07, angle0: -0.15, angle1: 0.15, position: 0 }],
-    ['a coarse sphere panel near the pole', { kind: 'arc', centerR: 0, centerZ: 1, radius: 0.2, angle0: -1.45, angle1: -1.2, position: 0 }],
+    [
+      'a toroid panel at the outer equator',
+      { kind: 'arc', centerR: 0.25, centerZ: 1, radius: 0.07, angle0: -0.15, angle1: 0.15, position: 0 },
+    ],
+    [
+      'a coarse sphere panel near the pole',
+      { kind: 'arc', centerR: 0, centerZ: 1, radius: 0.2, angle0: -1.45, angle1: -1.2, position: 0 },
+    ],
   ])('matches a brute-force graded quadrature on %s to 1e-6', (_, shape) => {
     const layout = buildPanelLayout([shape]);
     expect(Math.abs(panelSelfIntegral(layout, 0) / bruteForce(shape) - 1)).toBeLessThan(1e-6);
@@ -88,7 +94,9 @@ describe('panelSelfIntegral (log singularity subtracted in closed form)', () => 
         const dz = 0.515 - point[1];
         const plus2 = (0.08 + point[0]) ** 2 + dz * dz;
         const minus2 = (0.08 - point[0]) ** 2 + dz * dz;
-        reference += (1 / 400) * GAUSS8_WEIGHTS[q] * 0.015 * point[0] * ellipticKEComplement(minus2 / plus2).k / Math.sqrt(plus2);
+        reference +=
+          ((1 / 400) * GAUSS8_WEIGHTS[q] * 0.015 * point[0] * ellipticKEComplement(minus2 / plus2).k) /
+          Math.sqrt(plus2);
       }
     }
     expect(Math.abs(panelIntegral(layout, 0, 0.08, 0.515) / reference - 1)).toBeLessThan(1e-6);
@@ -126,7 +134,10 @@ const ARRANGEMENTS: Array<[string, FieldArrangement]> = [
       floor: true,
     },
   ],
-  ['a toroid alone close to the floor', { topload: { shape: 'toroid', majorRadius: 0.3, minorRadius: 0.1, centerZ: 0.15 }, floor: true }],
+  [
+    'a toroid alone close to the floor',
+    { topload: { shape: 'toroid', majorRadius: 0.3, minorRadius: 0.1, centerZ: 0.15 }, floor: true },
+  ],
   ['a bare winding on the floor', { winding: { radius: 0.1, bottomZ: 0, topZ: 0.9, profile: 'linear' }, floor: true }],
 ];
 
@@ -166,8 +177,17 @@ describe('convergence rule: doubling the default panel counts changes capacitanc
           const outer = tube + Math.max(2 * radius + tube + 0.02, extra);
           const arrangement: FieldArrangement = {
             winding: { radius, bottomZ: base, topZ: top, profile: 'linear' },
-            topload: { shape: 'toroid', majorRadius: (outer - tube) / 2, minorRadius: minor, centerZ: top - 0.9 * minor + lift },
-            groundedRings: Array.from({ length: turns }, (_, i) => ({ r: radius + 0.03 + i * 0.012, z: base + 0.01, wireRadius: 0.003 })),
+            topload: {
+              shape: 'toroid',
+              majorRadius: (outer - tube) / 2,
+              minorRadius: minor,
+              centerZ: top - 0.9 * minor + lift,
+            },
+            groundedRings: Array.from({ length: turns }, (_, i) => ({
+              r: radius + 0.03 + i * 0.012,
+              z: base + 0.01,
+              wireRadius: 0.003,
+            })),
             floor: true,
           };
           const base1 = solveField(arrangement)!;
@@ -249,7 +269,11 @@ describe('solveField definitions', () => {
   test('grounded rings near the base raise the winding’s energy capacitance', () => {
     const [, arrangement] = ARRANGEMENTS[0];
     const bare = solveField({ winding: arrangement.winding, floor: true })!;
-    const withRings = solveField({ winding: arrangement.winding, groundedRings: arrangement.groundedRings, floor: true })!;
+    const withRings = solveField({
+      winding: arrangement.winding,
+      groundedRings: arrangement.groundedRings,
+      floor: true,
+    })!;
     expect(withRings.totalCapacitance).toBeGreaterThan(bare.totalCapacitance);
   });
 });

@@ -53,7 +53,14 @@ const TOROID: ToploadSpec = { shape: 'toroid', outerDiameter: 0.61, tubeDiameter
 
 describe('electrostaticsStage with a secondary, a toroid and a primary', () => {
   const d = design(TOROID, {
-    primary: { shape: 'flat_spiral', innerDiameter: 0.23, turns: 10, conductorDiameter: 0.00635, turnSpacing: 0.006, elevation: 0 },
+    primary: {
+      shape: 'flat_spiral',
+      innerDiameter: 0.23,
+      turns: 10,
+      conductorDiameter: 0.00635,
+      turnSpacing: 0.006,
+      elevation: 0,
+    },
     strikeRail: { diameter: 0.7, conductorDiameter: 0.02, elevation: 0.05 },
   });
   const context = run(d);
@@ -134,14 +141,25 @@ describe('electrostaticsStage with a topload alone', () => {
     expect(m.secondary_self_capacitance).toBeNull();
   });
   test('a sphere alone uses the sphere form of Peek’s law', () => {
-    const m = run({ topload: { shape: 'sphere', diameter: 0.3, centerHeight: 1 }, environment: { altitude: 0, temperature: 298.15 } }, null).metrics;
+    const m = run(
+      {
+        topload: { shape: 'sphere', diameter: 0.3, centerHeight: 1 },
+        environment: { altitude: 0, temperature: 298.15 },
+      },
+      null,
+    ).metrics;
     expect(m.topload_onset_field! / 1e5).toBeCloseTo(27.2 * (1 + 0.54 / Math.sqrt(15)), 9);
   });
 });
 
 describe('electrostaticsStage rejects impossible geometry with the reason', () => {
   test.each<[string, Design, SecondaryGeometry | null, string]>([
-    ['a tube not smaller than the outer diameter', design({ ...TOROID, tubeDiameter: 0.61 } as ToploadSpec), SECONDARY, 'topload.tube_diameter'],
+    [
+      'a tube not smaller than the outer diameter',
+      design({ ...TOROID, tubeDiameter: 0.61 } as ToploadSpec),
+      SECONDARY,
+      'topload.tube_diameter',
+    ],
     [
       'a toroid that cuts into the winding',
       design({ shape: 'toroid', outerDiameter: 0.4, tubeDiameter: 0.2, heightAboveWinding: 0.02 }),
@@ -150,19 +168,46 @@ describe('electrostaticsStage rejects impossible geometry with the reason', () =
     ],
     [
       'a toroid through the floor',
-      { topload: { shape: 'toroid', outerDiameter: 0.6, tubeDiameter: 0.2, centerHeight: 0.05 }, environment: { altitude: 0, temperature: 293 } },
+      {
+        topload: { shape: 'toroid', outerDiameter: 0.6, tubeDiameter: 0.2, centerHeight: 0.05 },
+        environment: { altitude: 0, temperature: 293 },
+      },
       null,
       'topload.center_height',
     ],
-    ['a sphere that swallows the top of the winding', design({ shape: 'sphere', diameter: 0.4, heightAboveWinding: 0.1 }), SECONDARY, 'topload.height_above_winding'],
-    ['a toroid on a secondary without its height', design({ shape: 'toroid', outerDiameter: 0.6, tubeDiameter: 0.15 }), SECONDARY, 'topload.height_above_winding'],
+    [
+      'a sphere that swallows the top of the winding',
+      design({ shape: 'sphere', diameter: 0.4, heightAboveWinding: 0.1 }),
+      SECONDARY,
+      'topload.height_above_winding',
+    ],
+    [
+      'a toroid on a secondary without its height',
+      design({ shape: 'toroid', outerDiameter: 0.6, tubeDiameter: 0.15 }),
+      SECONDARY,
+      'topload.height_above_winding',
+    ],
     [
       'a primary ring lying on the floor',
-      design(TOROID, { primary: { shape: 'flat_spiral', innerDiameter: 0.23, turns: 5, conductorDiameter: 0.00635, turnSpacing: 0.006, elevation: -0.45 } }),
+      design(TOROID, {
+        primary: {
+          shape: 'flat_spiral',
+          innerDiameter: 0.23,
+          turns: 5,
+          conductorDiameter: 0.00635,
+          turnSpacing: 0.006,
+          elevation: -0.45,
+        },
+      }),
       SECONDARY,
       'primary.elevation',
     ],
-    ['an altitude above the troposphere', design(TOROID, { environment: { altitude: 12000, temperature: 220 } }), SECONDARY, 'environment.altitude'],
+    [
+      'an altitude above the troposphere',
+      design(TOROID, { environment: { altitude: 12000, temperature: 220 } }),
+      SECONDARY,
+      'environment.altitude',
+    ],
   ])('%s', (_, d, secondary, field) => {
     const context = run(d, secondary);
     expect(context.problems.length).toBe(1);
@@ -173,36 +218,59 @@ describe('electrostaticsStage rejects impossible geometry with the reason', () =
   });
   test('the intersection reason gives the sizes in mm', () => {
     const context = run(design({ shape: 'toroid', outerDiameter: 0.5, tubeDiameter: 0.2, heightAboveWinding: 0.02 }));
-    expect(context.problems[0].reason).toMatch(/inner edge \(radius 50 mm\) reaches below the top of the winding \(radius 80\.4 mm\) by 80 mm/);
+    expect(context.problems[0].reason).toMatch(
+      /inner edge \(radius 50 mm\) reaches below the top of the winding \(radius 80\.4 mm\) by 80 mm/,
+    );
   });
 });
 
 describe('monotonic facts (properties)', () => {
   const alone = (toroid: { outer: number; tube: number; height: number }) =>
     run(
-      { topload: { shape: 'toroid', outerDiameter: toroid.outer, tubeDiameter: toroid.tube, centerHeight: toroid.height }, environment: { altitude: 0, temperature: 293.15 } },
+      {
+        topload: {
+          shape: 'toroid',
+          outerDiameter: toroid.outer,
+          tubeDiameter: toroid.tube,
+          centerHeight: toroid.height,
+        },
+        environment: { altitude: 0, temperature: 293.15 },
+      },
       null,
     ).metrics;
   test('a larger tube diameter at the same outer diameter raises the breakout voltage', () => {
     fc.assert(
-      fc.property(fc.double({ min: 0.3, max: 1.5, noNaN: true }), fc.double({ min: 0.1, max: 0.4, noNaN: true }), fc.double({ min: 1.05, max: 1.5, noNaN: true }), (outer, tubeShare, growth) => {
-        const tube = outer * tubeShare;
-        const height = 0.6 * outer + 0.3;
-        const small = alone({ outer, tube, height });
-        const large = alone({ outer, tube: Math.min(tube * growth, 0.6 * outer), height });
-        expect(large.breakout_voltage!).toBeGreaterThan(small.breakout_voltage!);
-      }),
+      fc.property(
+        fc.double({ min: 0.3, max: 1.5, noNaN: true }),
+        fc.double({ min: 0.1, max: 0.4, noNaN: true }),
+        fc.double({ min: 1.05, max: 1.5, noNaN: true }),
+        (outer, tubeShare, growth) => {
+          const tube = outer * tubeShare;
+          const height = 0.6 * outer + 0.3;
+          const small = alone({ outer, tube, height });
+          const large = alone({ outer, tube: Math.min(tube * growth, 0.6 * outer), height });
+          expect(large.breakout_voltage!).toBeGreaterThan(small.breakout_voltage!);
+        },
+      ),
       { numRuns: 15, seed: 42, endOnFailure: true },
     );
   });
   test('on a winding, a larger toroid raises the topload capacitance and lowers the resonant frequency', () => {
     fc.assert(
-      fc.property(fc.double({ min: 0.35, max: 0.9, noNaN: true }), fc.double({ min: 1.05, max: 1.6, noNaN: true }), (outer, growth) => {
-        const small = run(design({ shape: 'toroid', outerDiameter: outer, tubeDiameter: 0.12, heightAboveWinding: 0.05 })).metrics;
-        const large = run(design({ shape: 'toroid', outerDiameter: outer * growth, tubeDiameter: 0.12, heightAboveWinding: 0.05 })).metrics;
-        expect(large.topload_capacitance!).toBeGreaterThan(small.topload_capacitance!);
-        expect(large.resonant_frequency!).toBeLessThan(small.resonant_frequency!);
-      }),
+      fc.property(
+        fc.double({ min: 0.35, max: 0.9, noNaN: true }),
+        fc.double({ min: 1.05, max: 1.6, noNaN: true }),
+        (outer, growth) => {
+          const small = run(
+            design({ shape: 'toroid', outerDiameter: outer, tubeDiameter: 0.12, heightAboveWinding: 0.05 }),
+          ).metrics;
+          const large = run(
+            design({ shape: 'toroid', outerDiameter: outer * growth, tubeDiameter: 0.12, heightAboveWinding: 0.05 }),
+          ).metrics;
+          expect(large.topload_capacitance!).toBeGreaterThan(small.topload_capacitance!);
+          expect(large.resonant_frequency!).toBeLessThan(small.resonant_frequency!);
+        },
+      ),
       { numRuns: 12, seed: 7, endOnFailure: true },
     );
   });
@@ -210,12 +278,16 @@ describe('monotonic facts (properties)', () => {
     // Isolated torus R = 0.3 m, r = 0.1 m (R/r = 3): 1.030591456 × 4πε0R (REFERENCES §5.3 series).
     const isolated = 1.030591456 * 111.265005545e-12 * 0.3;
     fc.assert(
-      fc.property(fc.double({ min: 0.2, max: 3, noNaN: true }), fc.double({ min: 1.1, max: 3, noNaN: true }), (height, factor) => {
-        const low = alone({ outer: 0.8, tube: 0.2, height });
-        const high = alone({ outer: 0.8, tube: 0.2, height: height * factor });
-        expect(high.topload_capacitance!).toBeLessThan(low.topload_capacitance!);
-        expect(high.topload_capacitance!).toBeGreaterThan(isolated);
-      }),
+      fc.property(
+        fc.double({ min: 0.2, max: 3, noNaN: true }),
+        fc.double({ min: 1.1, max: 3, noNaN: true }),
+        (height, factor) => {
+          const low = alone({ outer: 0.8, tube: 0.2, height });
+          const high = alone({ outer: 0.8, tube: 0.2, height: height * factor });
+          expect(high.topload_capacitance!).toBeLessThan(low.topload_capacitance!);
+          expect(high.topload_capacitance!).toBeGreaterThan(isolated);
+        },
+      ),
       { numRuns: 15, seed: 3, endOnFailure: true },
     );
     expect(alone({ outer: 0.8, tube: 0.2, height: 60 }).topload_capacitance! / isolated - 1).toBeLessThan(0.01);

@@ -132,7 +132,12 @@ describe('ringToSheetMutualInductance against the sum over turns (ringToTurnsMut
     // the midpoint sum over 40 000 turns of the same winding approximates the sheet integral to
     // well below 1e-7, so it checks the sinh-mapped Gauss–Legendre rule where the peak is sharp
     const fine = { radius: 0.1, bottomZ: 0.3, topZ: 1.1, turns: 40000 };
-    for (const [ringRadius, ringZ] of [[0.1008, 0.7], [0.101, 0.3], [0.1005, 1.2], [0.3, 0.2]]) {
+    for (const [ringRadius, ringZ] of [
+      [0.1008, 0.7],
+      [0.101, 0.3],
+      [0.1005, 1.2],
+      [0.3, 0.2],
+    ]) {
       const bySheet = ringToSheetMutualInductance(ringRadius, ringZ, fine);
       const byTurns = ringToTurnsMutualInductance(ringRadius, ringZ, fine);
       expect(Math.abs(bySheet / byTurns - 1)).toBeLessThan(2e-7);
@@ -153,7 +158,7 @@ describe('ringToSheetMutualInductance against the sum over turns (ringToTurnsMut
     let integral = 0;
     for (let i = 0; i < rule.nodes.length; i++) {
       const z = l1 + gap + (l2 * (rule.nodes[i] + 1)) / 2;
-      integral += (rule.weights[i] * l2) / 2 * ringToSheetMutualInductance(radius, z, winding);
+      integral += ((rule.weights[i] * l2) / 2) * ringToSheetMutualInductance(radius, z, winding);
     }
     expect(Math.abs((density * integral) / expected - 1)).toBeLessThan(1e-9);
   });

@@ -9,7 +9,11 @@ import { DEFAULT_ENVIRONMENT } from '../../core/design.ts';
 import type { EvalContext } from '../../core/context.ts';
 import { emptyMetrics } from '../../core/metrics.ts';
 import { primaryPitch, primaryRings, ringWeights } from '../../core/primary/rings.ts';
-import { primaryConductorLength, primaryInductanceAtTap, primaryInductanceTable } from '../../core/primary/inductance.ts';
+import {
+  primaryConductorLength,
+  primaryInductanceAtTap,
+  primaryInductanceTable,
+} from '../../core/primary/inductance.ts';
 import { tapForInductance, tuneTap } from '../../core/primary/tuning.ts';
 import { lcResonantFrequency } from '../../core/capacitance/resonance.ts';
 import { couplingCoefficient, ringMutualInductances, tappedMutualInductance } from '../../core/coupling.ts';
@@ -21,7 +25,15 @@ import { primaryStage } from '../../core/stages/primary-stage.ts';
 const SEED = 4242;
 
 function flatSpiral(overrides: Partial<PrimarySpec> = {}): PrimarySpec {
-  return { shape: 'flat_spiral', innerDiameter: 0.25, turns: 10, conductorDiameter: 6.35e-3, turnSpacing: 6e-3, elevation: 0, ...overrides };
+  return {
+    shape: 'flat_spiral',
+    innerDiameter: 0.25,
+    turns: 10,
+    conductorDiameter: 6.35e-3,
+    turnSpacing: 6e-3,
+    elevation: 0,
+    ...overrides,
+  };
 }
 
 /** Σ w_i w_j M_ij written out directly (the definition). */
@@ -32,7 +44,10 @@ function directInductance(primary: PrimarySpec, tap: number): number {
   let total = 0;
   for (let i = 0; i < rings.length; i++) {
     for (let j = 0; j < rings.length; j++) {
-      const term = i === j ? loopSelfInductance(rings[i].r, radius, 'surface') : coaxialLoopMutualInductance(rings[i].r, rings[j].r, rings[j].z - rings[i].z);
+      const term =
+        i === j
+          ? loopSelfInductance(rings[i].r, radius, 'surface')
+          : coaxialLoopMutualInductance(rings[i].r, rings[j].r, rings[j].z - rings[i].z);
       total += weights[i] * weights[j] * term;
     }
   }
@@ -71,7 +86,11 @@ describe('primaryRings and ringWeights (DESIGN.md convention)', () => {
 
 describe('primaryInductanceAtTap', () => {
   test('equals the direct double sum Σ w_i w_j M_ij at whole and fractional taps', () => {
-    for (const primary of [flatSpiral(), flatSpiral({ shape: 'helix' }), flatSpiral({ shape: 'cone', coneAngle: 0.5, turns: 8.6 })]) {
+    for (const primary of [
+      flatSpiral(),
+      flatSpiral({ shape: 'helix' }),
+      flatSpiral({ shape: 'cone', coneAngle: 0.5, turns: 8.6 }),
+    ]) {
       const table = primaryInductanceTable(primaryRings(primary, 0), primary.conductorDiameter / 2);
       for (const tap of [1, 2.3, 5, 7.9, primary.turns]) {
         expect(Math.abs(primaryInductanceAtTap(table, tap) / directInductance(primary, tap) - 1)).toBeLessThan(1e-12);
@@ -89,7 +108,15 @@ describe('primaryInductanceAtTap', () => {
         fc.double({ min: 0, max: 15e-3, noNaN: true }),
         fc.double({ min: 0, max: 1.2, noNaN: true }),
         (shape, innerDiameter, turns, conductorDiameter, turnSpacing, coneAngle) => {
-          const primary: PrimarySpec = { shape, innerDiameter, turns, conductorDiameter, turnSpacing, elevation: 0, coneAngle };
+          const primary: PrimarySpec = {
+            shape,
+            innerDiameter,
+            turns,
+            conductorDiameter,
+            turnSpacing,
+            elevation: 0,
+            coneAngle,
+          };
           const table = primaryInductanceTable(primaryRings(primary, 0), conductorDiameter / 2);
           let previous = primaryInductanceAtTap(table, 0.5);
           for (let tap = 0.55; tap <= turns; tap += 0.05) {
@@ -175,7 +202,12 @@ describe('coupling', () => {
 });
 
 function context(design: Partial<Design>): EvalContext {
-  return { design: { environment: DEFAULT_ENVIRONMENT, ...design }, metrics: emptyMetrics(), warnings: [], problems: [] };
+  return {
+    design: { environment: DEFAULT_ENVIRONMENT, ...design },
+    metrics: emptyMetrics(),
+    warnings: [],
+    problems: [],
+  };
 }
 
 const SECONDARY = {
@@ -238,13 +270,22 @@ describe('primaryStage', () => {
     secondaryStage(evaluation);
     primaryStage(evaluation);
     expect(evaluation.metrics.primary_tap_turns).toBeNull();
-    expect(evaluation.metrics.primary_frequency).toBeCloseTo(lcResonantFrequency(evaluation.metrics.primary_full_inductance as number, 30e-9), 6);
+    expect(evaluation.metrics.primary_frequency).toBeCloseTo(
+      lcResonantFrequency(evaluation.metrics.primary_full_inductance as number, 30e-9),
+      6,
+    );
   });
 
   test('with a tank and the total capacitance: tuned, primary frequency = secondary frequency', () => {
     const evaluation = context({ secondary: SECONDARY, primary: flatSpiral(), tank: { capacitance: 30e-9 } });
     secondaryStage(evaluation);
-    evaluation.electrostatics = { totalCapacitance: 20e-12, toploadCapacitance: null, toploadFieldPerVolt: null, onsetField: null, breakoutVoltage: null };
+    evaluation.electrostatics = {
+      totalCapacitance: 20e-12,
+      toploadCapacitance: null,
+      toploadFieldPerVolt: null,
+      onsetField: null,
+      breakoutVoltage: null,
+    };
     primaryStage(evaluation);
     expect(evaluation.warnings).toEqual([]);
     const tap = evaluation.metrics.primary_tap_turns as number;
@@ -256,9 +297,19 @@ describe('primaryStage', () => {
   });
 
   test('out of reach: the nearer end and a warning with the needed and available inductance', () => {
-    const evaluation = context({ secondary: SECONDARY, primary: flatSpiral({ turns: 3 }), tank: { capacitance: 5e-9 } });
+    const evaluation = context({
+      secondary: SECONDARY,
+      primary: flatSpiral({ turns: 3 }),
+      tank: { capacitance: 5e-9 },
+    });
     secondaryStage(evaluation);
-    evaluation.electrostatics = { totalCapacitance: 25e-12, toploadCapacitance: null, toploadFieldPerVolt: null, onsetField: null, breakoutVoltage: null };
+    evaluation.electrostatics = {
+      totalCapacitance: 25e-12,
+      toploadCapacitance: null,
+      toploadFieldPerVolt: null,
+      onsetField: null,
+      breakoutVoltage: null,
+    };
     primaryStage(evaluation);
     expect(evaluation.metrics.primary_tap_turns).toBe(3);
     expect(evaluation.warnings).toHaveLength(1);
@@ -266,7 +317,11 @@ describe('primaryStage', () => {
   });
 
   test('a given tap is used and reported', () => {
-    const evaluation = context({ secondary: SECONDARY, primary: flatSpiral({ tapTurns: 6.5 }), tank: { capacitance: 30e-9 } });
+    const evaluation = context({
+      secondary: SECONDARY,
+      primary: flatSpiral({ tapTurns: 6.5 }),
+      tank: { capacitance: 30e-9 },
+    });
     secondaryStage(evaluation);
     primaryStage(evaluation);
     expect(evaluation.metrics.primary_tap_turns).toBe(6.5);

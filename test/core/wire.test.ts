@@ -37,7 +37,8 @@ describe('awgDiameter and wireDcResistance', () => {
   test('three gauges halve the area, so resistance doubles (ASTM B258: 92^(3/39) ≈ √2 per 3 gauges)', () => {
     fc.assert(
       fc.property(fc.integer({ min: -3, max: 50 }), (gauge) => {
-        const ratio = wireDcResistance(1, awgDiameter(gauge + 3), 293.15) / wireDcResistance(1, awgDiameter(gauge), 293.15);
+        const ratio =
+          wireDcResistance(1, awgDiameter(gauge + 3), 293.15) / wireDcResistance(1, awgDiameter(gauge), 293.15);
         expect(ratio).toBeCloseTo(92 ** (6 / 39), 12);
         expect(Math.abs(ratio - 2)).toBeLessThan(0.01);
       }),

@@ -17,7 +17,8 @@ describe('DesignSpace.designAt(index)', () => {
 
   it('is a pure function of the index: the same design on a second space, in any order', () => {
     const other = new DesignSpace(spaceDefinitionOf(sweepFromValue(demo(), 'again.yaml')));
-    for (const index of [17, 3, 4095, 0, 17]) expect(other.designAt(index).design).toEqual(space.designAt(index).design);
+    for (const index of [17, 3, 4095, 0, 17])
+      expect(other.designAt(index).design).toEqual(space.designAt(index).design);
   });
 
   it('keeps every value inside its range, on its integers and in its set', () => {
@@ -75,7 +76,13 @@ describe('SweepState.offerBatch(result)', () => {
     const a = fill([0, 1, 2, 3]);
     const b = fill([3, 1, 0, 2]);
     expect(JSON.stringify(b.toJSON())).toBe(JSON.stringify(a.toJSON()));
-    const restored = SweepState.restore(JSON.parse(JSON.stringify(a.toJSON())), spec.objectives, spec.constraints, 50, spec.seed);
+    const restored = SweepState.restore(
+      JSON.parse(JSON.stringify(a.toJSON())),
+      spec.objectives,
+      spec.constraints,
+      50,
+      spec.seed,
+    );
     expect(JSON.stringify(restored.toJSON())).toBe(JSON.stringify(a.toJSON()));
   });
 
@@ -83,7 +90,9 @@ describe('SweepState.offerBatch(result)', () => {
     const whole = fill([0, 1, 2, 3]);
     const first = fill([0, 1]);
     first.merge(fill([2, 3]));
-    expect(JSON.stringify(first.pool.ranked(50).map((e) => e.item.index))).toBe(JSON.stringify(whole.pool.ranked(50).map((e) => e.item.index)));
+    expect(JSON.stringify(first.pool.ranked(50).map((e) => e.item.index))).toBe(
+      JSON.stringify(whole.pool.ranked(50).map((e) => e.item.index)),
+    );
     expect(first.counts).toEqual(whole.counts);
     expect(first.rejectedBy).toEqual(whole.rejectedBy);
   });
@@ -97,10 +106,17 @@ describe('SweepState.offerBatch(result)', () => {
       // The stored row equals the evaluation of that sample.
       const batch = batches[Math.floor(entry.item.index / 60)]!;
       const offset = (entry.item.index % 60) * METRIC_KEYS.length;
-      expect(metrics).toEqual(Array.from(batch.metrics.subarray(offset, offset + METRIC_KEYS.length), (v) => (Number.isFinite(v) ? v : null)));
+      expect(metrics).toEqual(
+        Array.from(batch.metrics.subarray(offset, offset + METRIC_KEYS.length), (v) => (Number.isFinite(v) ? v : null)),
+      );
       const ok = spec.constraints.every((c) => {
         const value = metrics[METRIC_KEYS.indexOf(c.metric)];
-        return value !== null && value !== undefined && (c.min === undefined || value >= c.min) && (c.max === undefined || value <= c.max);
+        return (
+          value !== null &&
+          value !== undefined &&
+          (c.min === undefined || value >= c.min) &&
+          (c.max === undefined || value <= c.max)
+        );
       });
       expect(ok).toBe(entry.item.violation === 0);
       if (entry.item.violation > 0) seenInfeasible = true;

@@ -24,12 +24,27 @@ function inclusionExclusion(points: number[][], reference: number[]): number {
 }
 
 const pointSets = (dimensions: number, maxLength: number) =>
-  fc.array(fc.array(fc.integer({ min: 0, max: 10 }).map((v) => v / 10), { minLength: dimensions, maxLength: dimensions }), { maxLength });
+  fc.array(
+    fc.array(
+      fc.integer({ min: 0, max: 10 }).map((v) => v / 10),
+      { minLength: dimensions, maxLength: dimensions },
+    ),
+    { maxLength },
+  );
 
 describe('hypervolume(points, reference)', () => {
   it('is 0 for no points, and for points not strictly better than the reference in every objective', () => {
     expect(hypervolume([], [1, 1])).toBe(0);
-    expect(hypervolume([[1, 0], [0.5, 1], [2, 2]], [1, 1])).toBe(0);
+    expect(
+      hypervolume(
+        [
+          [1, 0],
+          [0.5, 1],
+          [2, 2],
+        ],
+        [1, 1],
+      ),
+    ).toBe(0);
   });
 
   it('of a single point is the box to the reference, in 1 to 5 objectives', () => {
@@ -41,20 +56,27 @@ describe('hypervolume(points, reference)', () => {
   });
 
   it('adds nothing for dominated, repeated or NaN points', () => {
-    const front = [[0.1, 0.8, 0.5], [0.6, 0.2, 0.3], [0.4, 0.4, 0.9]];
+    const front = [
+      [0.1, 0.8, 0.5],
+      [0.6, 0.2, 0.3],
+      [0.4, 0.4, 0.9],
+    ];
     const value = hypervolume(front, [1, 1, 1]);
     expect(hypervolume([...front, [0.7, 0.9, 0.95], front[1], [Number.NaN, 0, 0]], [1, 1, 1])).toBe(value);
   });
 
-  it.each([2, 3, 4])('agrees with inclusion–exclusion on small random sets with ties in %i objectives (property)', (dimensions) => {
-    fc.assert(
-      fc.property(pointSets(dimensions, 9), (points) => {
-        const reference = new Array<number>(dimensions).fill(1);
-        expect(hypervolume(points, reference)).toBeCloseTo(inclusionExclusion(points, reference), 12);
-      }),
-      { numRuns: 120, seed: 40 + dimensions },
-    );
-  });
+  it.each([2, 3, 4])(
+    'agrees with inclusion–exclusion on small random sets with ties in %i objectives (property)',
+    (dimensions) => {
+      fc.assert(
+        fc.property(pointSets(dimensions, 9), (points) => {
+          const reference = new Array<number>(dimensions).fill(1);
+          expect(hypervolume(points, reference)).toBeCloseTo(inclusionExclusion(points, reference), 12);
+        }),
+        { numRuns: 120, seed: 40 + dimensions },
+      );
+    },
+  );
 
   it('does not depend on the order of the points (property, 3 objectives)', () => {
     fc.assert(
@@ -72,10 +94,15 @@ describe('hypervolume(points, reference)', () => {
 
   it('handles 1 000 points on a 4-D spherical front in under 3 seconds', () => {
     const points = Array.from({ length: 1000 }, (_, i) => {
-      const a = ((i * 0.618034) % 1) * Math.PI / 2;
-      const b = ((i * 0.754878) % 1) * Math.PI / 2;
-      const c = ((i * 0.569840) % 1) * Math.PI / 2;
-      return [Math.cos(a) * Math.cos(b) * Math.cos(c), Math.cos(a) * Math.cos(b) * Math.sin(c), Math.cos(a) * Math.sin(b), Math.sin(a)];
+      const a = (((i * 0.618034) % 1) * Math.PI) / 2;
+      const b = (((i * 0.754878) % 1) * Math.PI) / 2;
+      const c = (((i * 0.56984) % 1) * Math.PI) / 2;
+      return [
+        Math.cos(a) * Math.cos(b) * Math.cos(c),
+        Math.cos(a) * Math.cos(b) * Math.sin(c),
+        Math.cos(a) * Math.sin(b),
+        Math.sin(a),
+      ];
     });
     const started = performance.now();
     const value = hypervolume(points, [1.1, 1.1, 1.1, 1.1]);
@@ -87,10 +114,24 @@ describe('hypervolume(points, reference)', () => {
 
 describe('defaultReferencePoint(points)', () => {
   it('is the nadir plus 10 % of the range per objective', () => {
-    expect(Array.from(defaultReferencePoint([[0, 4], [2, 1]]))).toEqual([2.2, 4.3]);
+    expect(
+      Array.from(
+        defaultReferencePoint([
+          [0, 4],
+          [2, 1],
+        ]),
+      ),
+    ).toEqual([2.2, 4.3]);
   });
   it('adds 1 where the range is 0, and ignores NaN', () => {
-    expect(Array.from(defaultReferencePoint([[3, Number.NaN], [3, 5]]))).toEqual([4, 6]);
+    expect(
+      Array.from(
+        defaultReferencePoint([
+          [3, Number.NaN],
+          [3, 5],
+        ]),
+      ),
+    ).toEqual([4, 6]);
   });
   it('rejects no points and an objective with no number', () => {
     expect(() => defaultReferencePoint([])).toThrow(RangeError);

@@ -27,16 +27,31 @@ describe('compareMerits (Deb 2000 feasibility rules)', () => {
     expect(compareMerits({ violation: 0.5, value: 100 }, { violation: 2, value: -100 })).toBeLessThan(0);
     expect(compareMerits({ violation: 0.5, value: 1 }, { violation: 0.5, value: 1 })).toBe(0);
   });
-  test('on any finite set, Deb\'s order is the order of the exact penalty value + P·violation once P is large enough', () => {
+  test("on any finite set, Deb's order is the order of the exact penalty value + P·violation once P is large enough", () => {
     // Exact-penalty view (common practice): with P > max |Δvalue| / min positive |Δviolation| the
     // penalised order equals the lexicographic (violation, value) order of compareMerits.
     fc.assert(
       fc.property(
-        fc.array(fc.record({ violation: fc.oneof(fc.constant(0), fc.integer({ min: 1, max: 50 }).map((k) => k / 10)), value: fc.integer({ min: -100, max: 100 }) }), { minLength: 2, maxLength: 12 }),
+        fc.array(
+          fc.record({
+            violation: fc.oneof(
+              fc.constant(0),
+              fc.integer({ min: 1, max: 50 }).map((k) => k / 10),
+            ),
+            value: fc.integer({ min: -100, max: 100 }),
+          }),
+          { minLength: 2, maxLength: 12 },
+        ),
         (merits) => {
           const penalty = 201 / 0.1 + 1;
           const byDeb = merits.map((_, i) => i).sort((a, b) => compareMerits(merits[a], merits[b]) || a - b);
-          const byPenalty = merits.map((_, i) => i).sort((a, b) => merits[a].value + penalty * merits[a].violation - (merits[b].value + penalty * merits[b].violation) || a - b);
+          const byPenalty = merits
+            .map((_, i) => i)
+            .sort(
+              (a, b) =>
+                merits[a].value + penalty * merits[a].violation - (merits[b].value + penalty * merits[b].violation) ||
+                a - b,
+            );
           expect(byPenalty).toEqual(byDeb);
         },
       ),
@@ -67,7 +82,7 @@ describe('NelderMead ask/tell', () => {
     expect(result.status).toBe('max_evaluations');
   });
 
-  test('tell with the wrong number of values throws in the engine\'s one format', () => {
+  test("tell with the wrong number of values throws in the engine's one format", () => {
     const machine = new NelderMead([0.5, 0.5]);
     expect(() => machine.tell([1, 2])).toThrow('NelderMead.tell requires 3 values (one per asked point), got 2');
   });
@@ -121,7 +136,8 @@ describe('bounds are never crossed', () => {
             { xatol: 1e-7, fatol: 1e-12, maxEvaluations: 4000 },
           );
           expect(outside).toBe(0);
-          for (let i = 0; i < n; i++) expect(Math.abs(result.x[i] - Math.min(1, Math.max(0, centre[i])))).toBeLessThan(1e-4);
+          for (let i = 0; i < n; i++)
+            expect(Math.abs(result.x[i] - Math.min(1, Math.max(0, centre[i])))).toBeLessThan(1e-4);
         },
       ),
       { numRuns: 60, seed: 20261201 },
@@ -143,7 +159,10 @@ describe('bounds are never crossed', () => {
   });
 
   test('a coordinate with equal bounds stays fixed and is not taken for a collapse (no restarts)', () => {
-    const result = minimize((x) => (x[0] - 0.3) ** 2 + (x[1] - 0.5) ** 2, [0.9, 0.5], { lower: [0, 0.5], upper: [1, 0.5] });
+    const result = minimize((x) => (x[0] - 0.3) ** 2 + (x[1] - 0.5) ** 2, [0.9, 0.5], {
+      lower: [0, 0.5],
+      upper: [1, 0.5],
+    });
     expect(result.restarts).toBe(0);
     expect(result.x[1]).toBe(0.5);
     expect(result.x[0]).toBeCloseTo(0.3, 3);
@@ -161,7 +180,7 @@ describe('bounds are never crossed', () => {
   });
 });
 
-describe('constraints by Deb\'s rules: known optima on the constraint boundary', () => {
+describe("constraints by Deb's rules: known optima on the constraint boundary", () => {
   const merit = (value: number, ...constraints: number[]): Merit => ({
     value,
     violation: constraints.reduce((sum, g) => sum + Math.max(0, g), 0),
@@ -217,7 +236,12 @@ describe('async drivers', () => {
   });
 
   test('minimizeManyAsync batches all starts per round and gives each start its own result', async () => {
-    const starts = [[0.9, 0.1], [0.1, 0.1], [0.5, 0.5], [1, 1]];
+    const starts = [
+      [0.9, 0.1],
+      [0.1, 0.1],
+      [0.5, 0.5],
+      [1, 1],
+    ];
     const batchSizes: number[] = [];
     const many = await minimizeManyAsync(async (points) => {
       batchSizes.push(points.length);

@@ -5,13 +5,19 @@ import { PackedRow, packRow, unpackRow } from '../../optimize/packed-row.ts';
 describe('PackedRow', () => {
   it('survives JSON exactly, NaN included (reference: JavaScript shortest round-trip number text, ECMA-262 Number::toString)', () => {
     fc.assert(
-      fc.property(fc.array(fc.oneof(fc.double(), fc.constant(Number.NaN)), { maxLength: 70 }), fc.integer({ min: 0, max: 5 }), (numbers, dimensions) => {
-        const row = new PackedRow(Float64Array.from(numbers), Math.min(dimensions, numbers.length), 1, 'why', 3);
-        const back = PackedRow.revive(JSON.parse(JSON.stringify(row)));
-        expect(Array.from(back.packed).map((v) => (Number.isFinite(v) ? v : null))).toEqual(Array.from(row.packed).map((v) => (Number.isFinite(v) ? v : null)));
-        expect(back.dimensions).toBe(row.dimensions);
-        expect(back.reason).toBe('why');
-      }),
+      fc.property(
+        fc.array(fc.oneof(fc.double(), fc.constant(Number.NaN)), { maxLength: 70 }),
+        fc.integer({ min: 0, max: 5 }),
+        (numbers, dimensions) => {
+          const row = new PackedRow(Float64Array.from(numbers), Math.min(dimensions, numbers.length), 1, 'why', 3);
+          const back = PackedRow.revive(JSON.parse(JSON.stringify(row)));
+          expect(Array.from(back.packed).map((v) => (Number.isFinite(v) ? v : null))).toEqual(
+            Array.from(row.packed).map((v) => (Number.isFinite(v) ? v : null)),
+          );
+          expect(back.dimensions).toBe(row.dimensions);
+          expect(back.reason).toBe('why');
+        },
+      ),
       { numRuns: 500, seed: 4 },
     );
   });

@@ -37,50 +37,70 @@ const candidateSets = (objectiveCount: number) =>
     .array(
       fc.record({
         objectives: fc.array(fc.integer({ min: 0, max: 8 }), { minLength: objectiveCount, maxLength: objectiveCount }),
-        violation: fc.oneof(fc.constant(0), fc.constant(0), fc.constant(0), fc.integer({ min: 1, max: 5 }).map((v) => v / 4)),
+        violation: fc.oneof(
+          fc.constant(0),
+          fc.constant(0),
+          fc.constant(0),
+          fc.integer({ min: 1, max: 5 }).map((v) => v / 4),
+        ),
       }),
       { maxLength: 120 },
     )
     .map((rows) => rows.map((row, index) => scored(index, row.violation, row.objectives)));
 
 describe('CandidatePool (K-dominance filter) against brute force', () => {
-  it.each([2, 3, 4])('keeps exactly the points with fewer than K dominators, in any arrival order (%i objectives)', (objectiveCount) => {
-    fc.assert(
-      fc.property(candidateSets(objectiveCount), fc.integer({ min: 1, max: 12 }), fc.integer({ min: 0, max: 1e6 }), (items, keep, seed) => {
-        const expected = bruteForceKept(items, keep);
-        for (const order of [items, shuffled(items, seed), items.slice().reverse()]) {
-          const pool = new CandidatePool<number>(keep, objectiveCount);
-          for (const item of order) pool.offer(item, item.index * 10);
-          const kept = pool.feasibleEntries();
-          expect(kept.map((e) => e.item.index)).toEqual(expected);
-          // Stored dominator counts equal the counts over the whole set; payloads travel with their items.
-          for (const entry of kept) {
-            const count = items.filter((q) => q.violation === 0 && dominates(q.objectives, entry.item.objectives)).length;
-            expect(entry.dominatedBy).toBe(count);
-            expect(entry.payload).toBe(entry.item.index * 10);
-          }
-        }
-      }),
-      { numRuns: 70, seed: objectiveCount * 101 },
-    );
-  });
+  it.each([2, 3, 4])(
+    'keeps exactly the points with fewer than K dominators, in any arrival order (%i objectives)',
+    (objectiveCount) => {
+      fc.assert(
+        fc.property(
+          candidateSets(objectiveCount),
+          fc.integer({ min: 1, max: 12 }),
+          fc.integer({ min: 0, max: 1e6 }),
+          (items, keep, seed) => {
+            const expected = bruteForceKept(items, keep);
+            for (const order of [items, shuffled(items, seed), items.slice().reverse()]) {
+              const pool = new CandidatePool<number>(keep, objectiveCount);
+              for (const item of order) pool.offer(item, item.index * 10);
+              const kept = pool.feasibleEntries();
+              expect(kept.map((e) => e.item.index)).toEqual(expected);
+              // Stored dominator counts equal the counts over the whole set; payloads travel with their items.
+              for (const entry of kept) {
+                const count = items.filter(
+                  (q) => q.violation === 0 && dominates(q.objectives, entry.item.objectives),
+                ).length;
+                expect(entry.dominatedBy).toBe(count);
+                expect(entry.payload).toBe(entry.item.index * 10);
+              }
+            }
+          },
+        ),
+        { numRuns: 70, seed: objectiveCount * 101 },
+      );
+    },
+  );
 
   it('is closed under "dominated-by", so Pareto ranks and the first K of rankCandidates equal those on the whole set', () => {
     fc.assert(
-      fc.property(candidateSets(3), fc.integer({ min: 1, max: 10 }), fc.integer({ min: 0, max: 1e6 }), (items, keep, seed) => {
-        const pool = new CandidatePool<null>(keep, 3);
-        for (const item of shuffled(items, seed)) pool.offer(item, null);
-        const whole = rankCandidates(items);
-        const wholeFirst = whole.order.slice(0, keep).map((p) => items[p].index);
-        const fromPool = pool.ranked();
-        expect(fromPool.map((e) => e.item.index)).toEqual(wholeFirst);
-        const byIndex = new Map(items.map((item, position) => [item.index, position]));
-        for (const entry of fromPool) {
-          const position = byIndex.get(entry.item.index)!;
-          expect(entry.paretoRank).toBe(whole.paretoRank[position]);
-          expect(entry.crowding).toBe(whole.crowding[position]);
-        }
-      }),
+      fc.property(
+        candidateSets(3),
+        fc.integer({ min: 1, max: 10 }),
+        fc.integer({ min: 0, max: 1e6 }),
+        (items, keep, seed) => {
+          const pool = new CandidatePool<null>(keep, 3);
+          for (const item of shuffled(items, seed)) pool.offer(item, null);
+          const whole = rankCandidates(items);
+          const wholeFirst = whole.order.slice(0, keep).map((p) => items[p].index);
+          const fromPool = pool.ranked();
+          expect(fromPool.map((e) => e.item.index)).toEqual(wholeFirst);
+          const byIndex = new Map(items.map((item, position) => [item.index, position]));
+          for (const entry of fromPool) {
+            const position = byIndex.get(entry.item.index)!;
+            expect(entry.paretoRank).toBe(whole.paretoRank[position]);
+            expect(entry.crowding).toBe(whole.crowding[position]);
+          }
+        },
+      ),
       { numRuns: 80, seed: 5 },
     );
   });
@@ -102,18 +122,23 @@ describe('CandidatePool (K-dominance filter) against brute force', () => {
 
   it('merge of shard pools equals the pool of the whole stream (claim d), overlapping shards included', () => {
     fc.assert(
-      fc.property(candidateSets(3), fc.integer({ min: 1, max: 8 }), fc.integer({ min: 0, max: 1e6 }), (items, keep, seed) => {
-        const whole = new CandidatePool<number>(keep, 3);
-        for (const item of items) whole.offer(item, item.index);
-        const shards = [0, 1, 2].map(() => new CandidatePool<number>(keep, 3));
-        items.forEach((item, i) => {
-          shards[Math.floor(uniformAt(seed, i, 5) * 3)].offer(item, item.index);
-          if (i % 7 === 0) shards[(i + 1) % 3].offer(item, item.index); // overlap: same index twice
-        });
-        shards[0].merge(shards[1]);
-        shards[0].merge(shards[2]);
-        expect(JSON.stringify(shards[0])).toBe(JSON.stringify(whole));
-      }),
+      fc.property(
+        candidateSets(3),
+        fc.integer({ min: 1, max: 8 }),
+        fc.integer({ min: 0, max: 1e6 }),
+        (items, keep, seed) => {
+          const whole = new CandidatePool<number>(keep, 3);
+          for (const item of items) whole.offer(item, item.index);
+          const shards = [0, 1, 2].map(() => new CandidatePool<number>(keep, 3));
+          items.forEach((item, i) => {
+            shards[Math.floor(uniformAt(seed, i, 5) * 3)].offer(item, item.index);
+            if (i % 7 === 0) shards[(i + 1) % 3].offer(item, item.index); // overlap: same index twice
+          });
+          shards[0].merge(shards[1]);
+          shards[0].merge(shards[2]);
+          expect(JSON.stringify(shards[0])).toBe(JSON.stringify(whole));
+        },
+      ),
       { numRuns: 60, seed: 8 },
     );
   });
@@ -130,7 +155,15 @@ describe('CandidatePool behaviour', () => {
 
   it('one objective keeps the K smallest by (value, index) exactly, ties by index', () => {
     const pool = new CandidatePool<null>(3, 1);
-    for (const [index, value] of [[5, 2], [1, 7], [4, 2], [9, 1], [2, 2], [3, 0.5]] as const) pool.offer(scored(index, 0, [value]), null);
+    for (const [index, value] of [
+      [5, 2],
+      [1, 7],
+      [4, 2],
+      [9, 1],
+      [2, 2],
+      [3, 0.5],
+    ] as const)
+      pool.offer(scored(index, 0, [value]), null);
     expect(pool.ranked().map((e) => e.item.index)).toEqual([3, 9, 2]);
     expect(pool.front().map((e) => e.item.index)).toEqual([3]);
   });
@@ -172,7 +205,11 @@ describe('CandidatePool behaviour', () => {
       const eager = new CandidatePool<number>(5, objectiveCount);
       let built = 0;
       for (let i = 0; i < 2000; i++) {
-        const item = scored(i, i % 4 === 0 ? uniformAt(3, i, 9) : 0, Array.from({ length: objectiveCount }, (_, j) => uniformAt(3, i, j)));
+        const item = scored(
+          i,
+          i % 4 === 0 ? uniformAt(3, i, 9) : 0,
+          Array.from({ length: objectiveCount }, (_, j) => uniformAt(3, i, j)),
+        );
         lazy.offerWith(item, () => {
           built++;
           return i;
@@ -242,22 +279,27 @@ describe('CandidatePool on larger streams (the k-d tree is rebuilt many times, p
     [2, 'anticorrelated'],
     [3, 'independent'],
     [4, 'independent'],
-  ] as const)('matches brute force on 2 500 offers in %i objectives (%s, with repeated vectors), K = 25', (objectiveCount, kind) => {
-    const items = Array.from({ length: 2500 }, (_, i) => {
-      const source = i % 10 === 3 ? i - 3 : i; // every tenth offer repeats an earlier vector
-      const common = uniformAt(6, source, 50);
-      const objectives = Array.from({ length: objectiveCount }, (_, j) =>
-        kind === 'independent' ? Math.round(uniformAt(6, source, j) * 200) / 200 : (j % 2 === 0 ? common : 1 - common) + 0.1 * uniformAt(6, source, j),
-      );
-      return scored(i, 0, objectives);
-    });
-    const expected = bruteForceKept(items, 25);
-    const pool = new CandidatePool<null>(25, objectiveCount);
-    for (const item of shuffled(items, objectiveCount)) pool.offer(item, null);
-    expect(pool.feasibleEntries().map((e) => e.item.index)).toEqual(expected);
-    const whole = rankCandidates(items);
-    expect(pool.ranked().map((e) => e.item.index)).toEqual(whole.order.slice(0, 25).map((p) => items[p].index));
-  });
+  ] as const)(
+    'matches brute force on 2 500 offers in %i objectives (%s, with repeated vectors), K = 25',
+    (objectiveCount, kind) => {
+      const items = Array.from({ length: 2500 }, (_, i) => {
+        const source = i % 10 === 3 ? i - 3 : i; // every tenth offer repeats an earlier vector
+        const common = uniformAt(6, source, 50);
+        const objectives = Array.from({ length: objectiveCount }, (_, j) =>
+          kind === 'independent'
+            ? Math.round(uniformAt(6, source, j) * 200) / 200
+            : (j % 2 === 0 ? common : 1 - common) + 0.1 * uniformAt(6, source, j),
+        );
+        return scored(i, 0, objectives);
+      });
+      const expected = bruteForceKept(items, 25);
+      const pool = new CandidatePool<null>(25, objectiveCount);
+      for (const item of shuffled(items, objectiveCount)) pool.offer(item, null);
+      expect(pool.feasibleEntries().map((e) => e.item.index)).toEqual(expected);
+      const whole = rankCandidates(items);
+      expect(pool.ranked().map((e) => e.item.index)).toEqual(whole.order.slice(0, 25).map((p) => items[p].index));
+    },
+  );
 });
 
 describe('DominanceIndex', () => {
@@ -292,4 +334,3 @@ describe('DominanceIndex', () => {
     expect(index.liveCount).toBe(stored.size);
   });
 });
-

@@ -32,7 +32,9 @@ function bruteForceRanks(points: number[][]): number[] {
 }
 
 const smallIntegerPoints = (dimensions: number) =>
-  fc.array(fc.array(fc.integer({ min: 0, max: 6 }), { minLength: dimensions, maxLength: dimensions }), { maxLength: 40 });
+  fc.array(fc.array(fc.integer({ min: 0, max: 6 }), { minLength: dimensions, maxLength: dimensions }), {
+    maxLength: 40,
+  });
 
 describe('dominates(a, b) (minimisation)', () => {
   it('is true when a is no worse everywhere and better somewhere', () => {
@@ -86,12 +88,16 @@ describe('totalViolation(values, constraints)', () => {
 describe('constrainedBetter(a, b) (Deb 2000 rules)', () => {
   it('ranks a feasible design before any infeasible one, however good its objectives (rule 1)', () => {
     fc.assert(
-      fc.property(fc.double({ min: -1e9, max: 1e9, noNaN: true }), fc.double({ min: 1e-9, max: 1e9, noNaN: true }), (value, violation) => {
-        const feasible = scored(1, 0, 1e12);
-        const infeasible = scored(2, violation, value);
-        expect(constrainedBetter(feasible, infeasible)).toBeLessThan(0);
-        expect(constrainedBetter(infeasible, feasible)).toBeGreaterThan(0);
-      }),
+      fc.property(
+        fc.double({ min: -1e9, max: 1e9, noNaN: true }),
+        fc.double({ min: 1e-9, max: 1e9, noNaN: true }),
+        (value, violation) => {
+          const feasible = scored(1, 0, 1e12);
+          const infeasible = scored(2, violation, value);
+          expect(constrainedBetter(feasible, infeasible)).toBeLessThan(0);
+          expect(constrainedBetter(infeasible, feasible)).toBeGreaterThan(0);
+        },
+      ),
       { numRuns: 100, seed: 3 },
     );
   });
@@ -135,7 +141,7 @@ describe('nondominatedSort(points)', () => {
   });
   it('agrees with brute force on 800 points near a plane in 3 objectives (fronts of hundreds, looked up in the k-d tree)', () => {
     let state = 12345;
-    const next = () => ((state = (Math.imul(state, 1103515245) + 12345) >>> 0) / 2 ** 32);
+    const next = () => (state = (Math.imul(state, 1103515245) + 12345) >>> 0) / 2 ** 32;
     const points = Array.from({ length: 800 }, () => {
       const a = next();
       const b = next() * (1 - a);
@@ -150,11 +156,22 @@ describe('nondominatedSort(points)', () => {
   });
 
   it('with limit stops after the front that reaches it', () => {
-    const points = [[1, 1], [2, 2], [3, 3], [4, 4]];
+    const points = [
+      [1, 1],
+      [2, 2],
+      [3, 3],
+      [4, 4],
+    ];
     expect(nondominatedSort(points, 2)).toEqual([[0], [1]]);
   });
   it('puts a point with NaN in the first front', () => {
-    expect(nondominatedSort([[1, 1], [Number.NaN, 0], [2, 2]])).toEqual([[0, 1], [2]]);
+    expect(
+      nondominatedSort([
+        [1, 1],
+        [Number.NaN, 0],
+        [2, 2],
+      ]),
+    ).toEqual([[0, 1], [2]]);
   });
 });
 
@@ -176,11 +193,28 @@ describe('crowdingDistance(points, front) (Deb et al. 2002, sec. III-B)', () => 
   });
   it('gives Infinity to fronts of one or two points and 0 to an empty one', () => {
     expect(Array.from(crowdingDistance([[1, 2]], [0]))).toEqual([Infinity]);
-    expect(Array.from(crowdingDistance([[1, 2], [2, 1]], [0, 1]))).toEqual([Infinity, Infinity]);
+    expect(
+      Array.from(
+        crowdingDistance(
+          [
+            [1, 2],
+            [2, 1],
+          ],
+          [0, 1],
+        ),
+      ),
+    ).toEqual([Infinity, Infinity]);
     expect(crowdingDistance([], []).length).toBe(0);
   });
   it('does not depend on the order the front is listed in', () => {
-    const points = [[0, 9], [1, 7], [3, 4], [3, 4], [6, 2], [9, 0]];
+    const points = [
+      [0, 9],
+      [1, 7],
+      [3, 4],
+      [3, 4],
+      [6, 2],
+      [9, 0],
+    ];
     const forward = crowdingDistance(points, [0, 1, 2, 3, 4, 5]);
     const backward = crowdingDistance(points, [5, 4, 3, 2, 1, 0]);
     expect(Array.from(backward).reverse()).toEqual(Array.from(forward));

@@ -1,6 +1,13 @@
 import fc from 'fast-check';
 import { describe, expect, test } from 'vitest';
-import { chebyshevMerit, chooseStarts, frontExtent, planChebyshevStarts, utopianPoint, weightsForFrontPoint } from '../../optimize/refine/chebyshev.ts';
+import {
+  chebyshevMerit,
+  chooseStarts,
+  frontExtent,
+  planChebyshevStarts,
+  utopianPoint,
+  weightsForFrontPoint,
+} from '../../optimize/refine/chebyshev.ts';
 import { EvaluationCache } from '../../optimize/refine/evaluation-cache.ts';
 import { minimize } from '../../optimize/refine/minimize.ts';
 import type { MixedPoint } from '../../optimize/refine/mixed-point.ts';
@@ -26,13 +33,16 @@ describe('chebyshevMerit', () => {
 describe('weightsForFrontPoint', () => {
   test('weightsForFrontPoint makes every w_i·d_i equal at the start, with Σ w = 1 (property)', () => {
     fc.assert(
-      fc.property(fc.array(fc.double({ min: 0.01, max: 100, noNaN: true }), { minLength: 1, maxLength: 5 }), (point) => {
-        const reference = point.map(() => 0);
-        const weights = weightsForFrontPoint(point, reference, undefined, 0);
-        const products = point.map((value, i) => weights[i] * value);
-        for (const product of products) expect(product).toBeCloseTo(products[0], 12);
-        expect(weights.reduce((a, b) => a + b, 0)).toBeCloseTo(1, 14);
-      }),
+      fc.property(
+        fc.array(fc.double({ min: 0.01, max: 100, noNaN: true }), { minLength: 1, maxLength: 5 }),
+        (point) => {
+          const reference = point.map(() => 0);
+          const weights = weightsForFrontPoint(point, reference, undefined, 0);
+          const products = point.map((value, i) => weights[i] * value);
+          for (const product of products) expect(product).toBeCloseTo(products[0], 12);
+          expect(weights.reduce((a, b) => a + b, 0)).toBeCloseTo(1, 14);
+        },
+      ),
       { numRuns: 100, seed: 7 },
     );
   });
@@ -42,7 +52,8 @@ describe('weightsForFrontPoint', () => {
     const reference = [-0.05, -0.05];
     const start = [0.3, 0.8];
     const weights = weightsForFrontPoint(start, reference, undefined, 0);
-    const ray = (t: number) => (t - reference[0]) / (start[0] - reference[0]) - (1 - Math.sqrt(t) - reference[1]) / (start[1] - reference[1]);
+    const ray = (t: number) =>
+      (t - reference[0]) / (start[0] - reference[0]) - (1 - Math.sqrt(t) - reference[1]) / (start[1] - reference[1]);
     let low = 0;
     let high = 1;
     for (let i = 0; i < 200; i++) {
@@ -51,17 +62,26 @@ describe('weightsForFrontPoint', () => {
       else high = middle;
     }
     const exact = (low + high) / 2;
-    const result = minimize((t) => chebyshevMerit([t[0], 1 - Math.sqrt(t[0])], weights, reference, undefined, { augmentation: 0 }), [0.5], {
-      xatol: 1e-10,
-      fatol: 1e-14,
-    });
+    const result = minimize(
+      (t) => chebyshevMerit([t[0], 1 - Math.sqrt(t[0])], weights, reference, undefined, { augmentation: 0 }),
+      [0.5],
+      {
+        xatol: 1e-10,
+        fatol: 1e-14,
+      },
+    );
     expect(result.x[0]).toBeCloseTo(exact, 7);
   });
 });
 
 describe('frontExtent, utopianPoint', () => {
   test('frontExtent gives per-objective minimum and maximum, skipping non-finite entries', () => {
-    const extent = frontExtent([[1, 5], [3, 2], [NaN, 9], [2, 3]]);
+    const extent = frontExtent([
+      [1, 5],
+      [3, 2],
+      [NaN, 9],
+      [2, 3],
+    ]);
     expect(Array.from(extent.ideal)).toEqual([1, 2]);
     expect(Array.from(extent.nadir)).toEqual([3, 9]);
   });
@@ -92,7 +112,16 @@ describe('chooseStarts', () => {
   test('chooseStarts([], 3) and chooseStarts(front, 0) are empty; a non-finite point is never a start', () => {
     expect(chooseStarts([], 3)).toEqual([]);
     expect(chooseStarts(front, 0)).toEqual([]);
-    expect(chooseStarts([[NaN, 1], [0, 1], [1, 0]], 3)).toEqual([1, 2]);
+    expect(
+      chooseStarts(
+        [
+          [NaN, 1],
+          [0, 1],
+          [1, 0],
+        ],
+        3,
+      ),
+    ).toEqual([1, 2]);
   });
   test('planChebyshevStarts with one objective gives weight [1] (plain minimisation)', () => {
     const plan = planChebyshevStarts([[3], [1], [2]], 2);
@@ -117,18 +146,23 @@ describe('Chebyshev refinement on ZDT1 (Zitzler, Deb & Thiele 2000)', () => {
     const frontIndices = nondominated2d(sampleObjectives);
     const front = frontIndices.map((i) => sampleObjectives[i]);
     const plan = planChebyshevStarts(front, 8, margin);
-    const cache = new EvaluationCache<[number, number]>(async (points: MixedPoint[]) => points.map((p) => zdt1(p.continuous)));
+    const cache = new EvaluationCache<[number, number]>(async (points: MixedPoint[]) =>
+      points.map((p) => zdt1(p.continuous)),
+    );
     const results = await refineStarts(
       plan.starts.map((start) => ({ continuous: sample[frontIndices[start.frontIndex]] })),
       cache,
-      (startIndex) => (record) => ({ violation: 0, value: chebyshevMerit(record, plan.starts[startIndex].weights, plan.reference, plan.nadir) }),
+      (startIndex) => (record) => ({
+        violation: 0,
+        value: chebyshevMerit(record, plan.starts[startIndex].weights, plan.reference, plan.nadir),
+      }),
       { maxEvaluations: 500 },
     );
     const all = [...sampleObjectives, ...cache.entries().map((entry) => entry.record)];
     return { before: hypervolume2d(sampleObjectives, [1, 1]), after: hypervolume2d(all, [1, 1]), results, cache };
   }
 
-  test('refining a coarse Sobol sample\'s front raises the hypervolume toward 2/3 (exact value for the true front)', async () => {
+  test("refining a coarse Sobol sample's front raises the hypervolume toward 2/3 (exact value for the true front)", async () => {
     const { before, after, results, cache } = await refineZdt1(1);
     for (const result of results) {
       expect(result.improved).toBe(true);

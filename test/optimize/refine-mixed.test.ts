@@ -59,13 +59,19 @@ describe('EvaluationCache', () => {
 describe('coalesceBatches', () => {
   test('callers in the same turn share one call, each gets its own slice; maxBatchSize splits it', async () => {
     const calls: number[][] = [];
-    const shared = coalesceBatches(async (items: number[]) => {
-      calls.push(items);
-      return items.map((item) => item * item);
-    }, { maxBatchSize: 4 });
+    const shared = coalesceBatches(
+      async (items: number[]) => {
+        calls.push(items);
+        return items.map((item) => item * item);
+      },
+      { maxBatchSize: 4 },
+    );
     const answers = await Promise.all([shared([1, 2]), shared([3]), shared([4, 5, 6])]);
     expect(answers).toEqual([[1, 4], [9], [16, 25, 36]]);
-    expect(calls).toEqual([[1, 2, 3, 4], [5, 6]]);
+    expect(calls).toEqual([
+      [1, 2, 3, 4],
+      [5, 6],
+    ]);
   });
   test('an error reaches every caller of the failed call', async () => {
     const shared = coalesceBatches(async (): Promise<number[]> => {
@@ -79,11 +85,16 @@ describe('coalesceBatches', () => {
 describe('neighbourPass', () => {
   test('neighboursOf gives one level down and up per discrete parameter, within range', () => {
     const neighbours = neighboursOf(mixedPoint([0.5], [0, 3]), [4, 4]);
-    expect(neighbours.map((p) => Array.from(p.levels))).toEqual([[1, 3], [0, 2]]);
+    expect(neighbours.map((p) => Array.from(p.levels))).toEqual([
+      [1, 3],
+      [0, 2],
+    ]);
   });
 
   test('walks the lattice to the exact minimum of (a − 7)² + (b − 2)² from (0, 5)', async () => {
-    const cache = new EvaluationCache<number>(async (points) => points.map((p) => (p.levels[0] - 7) ** 2 + (p.levels[1] - 2) ** 2));
+    const cache = new EvaluationCache<number>(async (points) =>
+      points.map((p) => (p.levels[0] - 7) ** 2 + (p.levels[1] - 2) ** 2),
+    );
     const ledger = new StartLedger(cache, feasible, 1000);
     const start = mixedPoint([], [0, 5]);
     const [merit] = await ledger.merits([start]);
@@ -134,10 +145,19 @@ describe('refineStart (mixed continuous and discrete)', () => {
   });
 
   test('is deterministic, and its course does not depend on other starts sharing the cache', async () => {
-    const alone = await refineStart({ continuous: [0.9], levels: [2] }, new EvaluationCache(async (points: MixedPoint[]) => points.map(objective)), feasible, options);
+    const alone = await refineStart(
+      { continuous: [0.9], levels: [2] },
+      new EvaluationCache(async (points: MixedPoint[]) => points.map(objective)),
+      feasible,
+      options,
+    );
     const shared = new EvaluationCache(async (points: MixedPoint[]) => points.map(objective));
     const together = await refineStarts(
-      [{ continuous: [0.1], levels: [8] }, { continuous: [0.9], levels: [2] }, { continuous: [0.9], levels: [2] }],
+      [
+        { continuous: [0.1], levels: [8] },
+        { continuous: [0.9], levels: [2] },
+        { continuous: [0.9], levels: [2] },
+      ],
       shared,
       () => feasible,
       options,
@@ -150,7 +170,10 @@ describe('refineStart (mixed continuous and discrete)', () => {
 
   test('respects its evaluation budget', async () => {
     const cache = new EvaluationCache(async (points: MixedPoint[]) => points.map(objective));
-    const result = await refineStart({ continuous: [0.9], levels: [2] }, cache, feasible, { ...options, maxEvaluations: 25 });
+    const result = await refineStart({ continuous: [0.9], levels: [2] }, cache, feasible, {
+      ...options,
+      maxEvaluations: 25,
+    });
     expect(result.evaluations).toBeLessThanOrEqual(25);
     expect(result.status).toBe('max_evaluations');
     expect(result.improved).toBe(true);
@@ -158,7 +181,9 @@ describe('refineStart (mixed continuous and discrete)', () => {
 
   test('keeps to the feasible side of a constraint (Deb rules): x ≤ 0.55 moves the optimum to (0.55, 6)', async () => {
     // With x ≤ 0.55, at t = 6 the best x is 0.55 (f = 0.0025); t = 5 gives x 0.5, f = 0.02; so (0.55, 6).
-    const cache = new EvaluationCache(async (points: MixedPoint[]) => points.map((p) => ({ value: objective(p), violation: Math.max(0, p.continuous[0] - 0.55) })));
+    const cache = new EvaluationCache(async (points: MixedPoint[]) =>
+      points.map((p) => ({ value: objective(p), violation: Math.max(0, p.continuous[0] - 0.55) })),
+    );
     const result = await refineStart({ continuous: [0.9], levels: [2] }, cache, (record) => record, options);
     expect(result.merit.violation).toBe(0);
     expect(Array.from(result.point.levels)).toEqual([6]);
@@ -174,7 +199,12 @@ describe('refineStart (mixed continuous and discrete)', () => {
     const starts = [0, 1, 2, 3, 4, 5, 6, 7].map((i) => ({ continuous: [i / 8], levels: [i] }));
     const results = await refineStarts(starts, new EvaluationCache(pool), () => feasible, options);
     for (const [index, start] of starts.entries()) {
-      const alone = await refineStart(start, new EvaluationCache(async (points: MixedPoint[]) => points.map(objective)), feasible, options);
+      const alone = await refineStart(
+        start,
+        new EvaluationCache(async (points: MixedPoint[]) => points.map(objective)),
+        feasible,
+        options,
+      );
       expect(results[index]).toEqual(alone);
     }
     const total = batchSizes.reduce((a, b) => a + b, 0);
@@ -183,6 +213,8 @@ describe('refineStart (mixed continuous and discrete)', () => {
 
   test('rejects a level outside its range', async () => {
     const cache = new EvaluationCache(async (points: MixedPoint[]) => points.map(objective));
-    await expect(refineStart({ continuous: [0.5], levels: [10] }, cache, feasible, options)).rejects.toThrow(/refineStart requires level 0 in 0..9, got 10/);
+    await expect(refineStart({ continuous: [0.5], levels: [10] }, cache, feasible, options)).rejects.toThrow(
+      /refineStart requires level 0 in 0..9, got 10/,
+    );
   });
 });

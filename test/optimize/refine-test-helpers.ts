@@ -28,7 +28,9 @@ export function hypervolume2d(points: ReadonlyArray<ArrayLike<number>>, referenc
 export function nondominated2d(points: ReadonlyArray<ArrayLike<number>>): number[] {
   const keep: number[] = [];
   points.forEach((p, i) => {
-    const dominated = points.some((q, j) => j !== i && q[0] <= p[0] && q[1] <= p[1] && (q[0] < p[0] || q[1] < p[1] || j < i));
+    const dominated = points.some(
+      (q, j) => j !== i && q[0] <= p[0] && q[1] <= p[1] && (q[0] < p[0] || q[1] < p[1] || j < i),
+    );
     if (!dominated) keep.push(i);
   });
   return keep;

@@ -33,18 +33,23 @@ describe('IndexSample', () => {
 
   it('keeps the capacity items with the smallest hash keys, whatever the arrival order (brute force)', () => {
     fc.assert(
-      fc.property(fc.integer({ min: 1, max: 400 }), fc.integer({ min: 1, max: 50 }), fc.integer({ min: 0, max: 1000 }), (count, capacity, seed) => {
-        const indices = Array.from({ length: count }, (_, i) => i * 3 + 1);
-        const expected = indices
-          .map((index) => ({ index, key: uniformAt(seed, index, 0x5a3e) }))
-          .sort((a, b) => a.key - b.key || a.index - b.index)
-          .slice(0, capacity)
-          .map((e) => e.index)
-          .sort((a, b) => a - b);
-        const sample = new IndexSample<number>(capacity, seed);
-        for (const index of shuffled(indices, seed + 1)) sample.offer(index, index);
-        expect(sample.items().map((e) => e.index)).toEqual(expected);
-      }),
+      fc.property(
+        fc.integer({ min: 1, max: 400 }),
+        fc.integer({ min: 1, max: 50 }),
+        fc.integer({ min: 0, max: 1000 }),
+        (count, capacity, seed) => {
+          const indices = Array.from({ length: count }, (_, i) => i * 3 + 1);
+          const expected = indices
+            .map((index) => ({ index, key: uniformAt(seed, index, 0x5a3e) }))
+            .sort((a, b) => a.key - b.key || a.index - b.index)
+            .slice(0, capacity)
+            .map((e) => e.index)
+            .sort((a, b) => a - b);
+          const sample = new IndexSample<number>(capacity, seed);
+          for (const index of shuffled(indices, seed + 1)) sample.offer(index, index);
+          expect(sample.items().map((e) => e.index)).toEqual(expected);
+        },
+      ),
       { numRuns: 50, seed: 7 },
     );
   });
@@ -69,7 +74,7 @@ describe('IndexSample', () => {
     const sample = new IndexSample<null>(1000, 3);
     for (let i = 0; i < 100_000; i++) sample.offer(i, null);
     const mean = sample.items().reduce((s, e) => s + e.index, 0) / 1000;
-    expect(Math.abs(mean - 49_999.5)).toBeLessThan(4 * (100_000 / Math.sqrt(12)) / Math.sqrt(1000));
+    expect(Math.abs(mean - 49_999.5)).toBeLessThan((4 * (100_000 / Math.sqrt(12))) / Math.sqrt(1000));
   });
 
   it('merge rejects samples with another seed or capacity; restore rejects foreign data', () => {

@@ -31,22 +31,28 @@ describe('SobolSampler balance', () => {
     [false, 0],
     [true, 0],
     [true, 12345],
-  ])('pointAt over 2^10 points (scramble %s, seed %i) puts one point in each 1/1024 interval of all 64 dimensions', (scramble, seed) => {
-    const sampler = new SobolSampler(64, seed, scramble);
-    const points = pointsOf(sampler, 1024);
-    for (let d = 0; d < 64; d++) {
-      const counts = new Array<number>(1024).fill(0);
-      for (const p of points) counts[Math.floor(p[d] * 1024)]++;
-      expect(counts.every((c) => c === 1)).toBe(true);
-    }
-  });
+  ])(
+    'pointAt over 2^10 points (scramble %s, seed %i) puts one point in each 1/1024 interval of all 64 dimensions',
+    (scramble, seed) => {
+      const sampler = new SobolSampler(64, seed, scramble);
+      const points = pointsOf(sampler, 1024);
+      for (let d = 0; d < 64; d++) {
+        const counts = new Array<number>(1024).fill(0);
+        for (const p of points) counts[Math.floor(p[d] * 1024)]++;
+        expect(counts.every((c) => c === 1)).toBe(true);
+      }
+    },
+  );
 
-  it.each([false, true])('dimensions 1 and 2 of 2^8 points (scramble %s) are a (0,8,2)-net: one point per elementary box', (scramble) => {
-    const points = pointsOf(new SobolSampler(2, 99, scramble), 256);
-    for (let a = 0; a <= 8; a++) {
-      expect(elementaryCounts(points, 0, 1, a, 8 - a).every((c) => c === 1)).toBe(true);
-    }
-  });
+  it.each([false, true])(
+    'dimensions 1 and 2 of 2^8 points (scramble %s) are a (0,8,2)-net: one point per elementary box',
+    (scramble) => {
+      const points = pointsOf(new SobolSampler(2, 99, scramble), 256);
+      for (let a = 0; a <= 8; a++) {
+        expect(elementaryCounts(points, 0, 1, a, 8 - a).every((c) => c === 1)).toBe(true);
+      }
+    },
+  );
 
   it('every block of 2^m consecutive points starting at a multiple of 2^m is balanced too (digital net property)', () => {
     const sampler = new SobolSampler(8, 5, true);
@@ -97,21 +103,26 @@ describe('SobolSampler balance', () => {
 describe('LatinHypercubeSampler', () => {
   it('has exactly one point per stratum in every dimension (property, random N, seed, dimensions)', () => {
     fc.assert(
-      fc.property(fc.integer({ min: 1, max: 300 }), fc.integer({ min: 0, max: 2 ** 32 - 1 }), fc.integer({ min: 1, max: 6 }), (count, seed, dimensions) => {
-        const sampler = new LatinHypercubeSampler(dimensions, count, seed);
-        const points = pointsOf(sampler, count);
-        for (let d = 0; d < dimensions; d++) {
-          const hits = new Array<number>(count).fill(0);
-          let insideStrata = true;
-          for (const p of points) {
-            const stratum = Math.floor(p[d] * count);
-            if (!(p[d] >= stratum / count && p[d] < (stratum + 1) / count)) insideStrata = false;
-            hits[stratum]++;
+      fc.property(
+        fc.integer({ min: 1, max: 300 }),
+        fc.integer({ min: 0, max: 2 ** 32 - 1 }),
+        fc.integer({ min: 1, max: 6 }),
+        (count, seed, dimensions) => {
+          const sampler = new LatinHypercubeSampler(dimensions, count, seed);
+          const points = pointsOf(sampler, count);
+          for (let d = 0; d < dimensions; d++) {
+            const hits = new Array<number>(count).fill(0);
+            let insideStrata = true;
+            for (const p of points) {
+              const stratum = Math.floor(p[d] * count);
+              if (!(p[d] >= stratum / count && p[d] < (stratum + 1) / count)) insideStrata = false;
+              hits[stratum]++;
+            }
+            expect(insideStrata).toBe(true);
+            expect(hits.every((h) => h === 1)).toBe(true);
           }
-          expect(insideStrata).toBe(true);
-          expect(hits.every((h) => h === 1)).toBe(true);
-        }
-      }),
+        },
+      ),
       { numRuns: 60, seed: 4242 },
     );
   });
@@ -213,8 +224,12 @@ describe('RandomSampler and createSampler', () => {
   });
 
   it('createSampler rejects a grid without one level count per dimension, and an unknown method', () => {
-    expect(() => createSampler({ method: 'grid', dimensions: 2, seed: 0, samples: 1, levels: [3] })).toThrow(RangeError);
-    expect(() => createSampler({ method: 'halton' as 'grid', dimensions: 2, seed: 0, samples: 1 })).toThrow(/method must be/);
+    expect(() => createSampler({ method: 'grid', dimensions: 2, seed: 0, samples: 1, levels: [3] })).toThrow(
+      RangeError,
+    );
+    expect(() => createSampler({ method: 'halton' as 'grid', dimensions: 2, seed: 0, samples: 1 })).toThrow(
+      /method must be/,
+    );
   });
 
   it('createSampler with scramble: false gives the plain Sobol sequence', () => {

@@ -60,7 +60,10 @@ describe('full transfer at the first envelope null (REFERENCES §8.2 [X], §8.3)
     expect(coupling).toBeCloseTo(k, 6);
     const shot = sparkGapShot(tuned(coupling), 1000, true)!;
     expect(Math.abs(shot.transferTime! * F0 - transferTimes)).toBeLessThan(5e-5); // the table's ODE and formula columns differ by up to 3e-5
-    expect(shot.transferTime! * F0).toBeCloseTo(1 / (2 * (Math.sqrt(1 / (1 - coupling)) - Math.sqrt(1 / (1 + coupling)))), 9);
+    expect(shot.transferTime! * F0).toBeCloseTo(
+      1 / (2 * (Math.sqrt(1 / (1 - coupling)) - Math.sqrt(1 / (1 + coupling)))),
+      9,
+    );
     expect(shot.peakVoltage / (1000 * Math.sqrt(C1 / C2))).toBeCloseTo(1, 9);
     expect(shot.primaryEnergyAtTransfer! / shot.energyPerShot).toBeLessThan(1e-12);
     expect(shot.energyPerShot).toBe(0.5 * C1 * 1000 * 1000);
@@ -81,7 +84,8 @@ describe('full transfer at the first envelope null (REFERENCES §8.2 [X], §8.3)
     expect(nearestFullTransferCoupling(0.95).n).toBe(1);
     for (const k of [0.0015, 0.033, 0.071, 0.27, 0.45]) {
       let bestN = 1;
-      for (let n = 1; n <= 5000; n++) if (Math.abs(fullTransferCoupling(n) - k) < Math.abs(fullTransferCoupling(bestN) - k)) bestN = n;
+      for (let n = 1; n <= 5000; n++)
+        if (Math.abs(fullTransferCoupling(n) - k) < Math.abs(fullTransferCoupling(bestN) - k)) bestN = n;
       expect(nearestFullTransferCoupling(k).n).toBe(bestN);
     }
   });

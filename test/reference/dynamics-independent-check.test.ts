@@ -14,11 +14,28 @@ import { evaluateDesign } from '../../core/evaluate.ts';
 
 const examples = (name: string): string => fileURLToPath(new URL(`../../examples/${name}`, import.meta.url));
 
-interface Lumped { L1: number; C1: number; R1: number; L2: number; C2: number; R2: number; M: number }
+interface Lumped {
+  L1: number;
+  C1: number;
+  R1: number;
+  L2: number;
+  C2: number;
+  R2: number;
+  M: number;
+}
 
 function lumped(metrics: Record<string, number | null>, tankCapacitance: number): Lumped {
-  const L1 = metrics.primary_inductance!, L2 = metrics.secondary_inductance!;
-  return { L1, C1: tankCapacitance, R1: metrics.primary_resistance!, L2, C2: metrics.total_capacitance!, R2: metrics.secondary_ac_resistance!, M: metrics.coupling! * Math.sqrt(L1 * L2) };
+  const L1 = metrics.primary_inductance!,
+    L2 = metrics.secondary_inductance!;
+  return {
+    L1,
+    C1: tankCapacitance,
+    R1: metrics.primary_resistance!,
+    L2,
+    C2: metrics.total_capacitance!,
+    R2: metrics.secondary_ac_resistance!,
+    M: metrics.coupling! * Math.sqrt(L1 * L2),
+  };
 }
 
 function rk4(c: Lumped, y: number[], h: number, source: number): number[] {
@@ -28,14 +45,19 @@ function rk4(c: Lumped, y: number[], h: number, source: number): number[] {
     const a2 = -c.R2 * s[3] - s[1];
     return [s[2] / c.C1, s[3] / c.C2, (c.L2 * a1 - c.M * a2) / det, (c.L1 * a2 - c.M * a1) / det];
   };
-  const k1 = f(y), k2 = f(y.map((v, i) => v + 0.5 * h * k1[i])), k3 = f(y.map((v, i) => v + 0.5 * h * k2[i])), k4 = f(y.map((v, i) => v + h * k3[i]));
+  const k1 = f(y),
+    k2 = f(y.map((v, i) => v + 0.5 * h * k1[i])),
+    k3 = f(y.map((v, i) => v + 0.5 * h * k2[i])),
+    k4 = f(y.map((v, i) => v + h * k3[i]));
   return y.map((v, i) => v + (h / 6) * (k1[i] + 2 * k2[i] + 2 * k3[i] + k4[i]));
 }
 
 /** Transfer time (deepest ½C1v1² + ½L1i1² before ¾ of a beat) and the peak |v2| up to half a secondary period after it. */
 function sparkGapCheck(c: Lumped, chargeVoltage: number): { transferTime: number; peakVoltage: number } {
   // lossless mode frequencies from the determinant (coupled-circuit theory)
-  const a = c.L1 * c.L2 - c.M * c.M, b = c.L1 / c.C2 + c.L2 / c.C1, q = 1 / (c.C1 * c.C2);
+  const a = c.L1 * c.L2 - c.M * c.M,
+    b = c.L1 / c.C2 + c.L2 / c.C1,
+    q = 1 / (c.C1 * c.C2);
   const wHigh = Math.sqrt((b + Math.sqrt(b * b - 4 * a * q)) / (2 * a));
   const wLow = Math.sqrt((b - Math.sqrt(b * b - 4 * a * q)) / (2 * a));
   const beat = (2 * Math.PI) / (wHigh - wLow);
@@ -61,7 +83,7 @@ function sparkGapCheck(c: Lumped, chargeVoltage: number): { transferTime: number
   return { transferTime, peakVoltage };
 }
 
-describe('evaluate → lumped metrics → independent solve (the lead\'s acceptance check)', () => {
+describe("evaluate → lumped metrics → independent solve (the lead's acceptance check)", () => {
   test.each(['exhibit-two-metre-coil.yaml', 'tabletop-teaching-coil.yaml'])('spark gap, %s', (file) => {
     const { design } = loadDesignFile(examples(file));
     const { metrics, problems } = evaluateDesign(design);

@@ -45,13 +45,16 @@ describe('sphere over a grounded plane (image series, Smythe; REFERENCES §5.3)'
     [3, 1.2011553, 1.3388],
     [5, 1.1112361, 1.1511],
     [10, 1.0526385, 1.0612],
-  ])('h/a = %f: C matches the series (table %f) and the peak field (%f V/a) sits at the bottom', (ratio, tabulated, peak) => {
-    const solution = solveField({ topload: { shape: 'sphere', radius: 1, centerZ: ratio }, floor: true })!;
-    expect(relative(solution.totalCapacitance, imageSeriesCapacitance(1, ratio))).toBeLessThan(1e-4);
-    expect(relative(imageSeriesCapacitance(1, ratio) / FOUR_PI_EPS0, tabulated)).toBeLessThan(1e-7);
-    expect(relative(solution.toploadPeakFieldPerVolt, peak)).toBeLessThan(TOLERANCE);
-    expect(solution.toploadPeakAngle).toBeCloseTo(-Math.PI / 2, 6);
-  });
+  ])(
+    'h/a = %f: C matches the series (table %f) and the peak field (%f V/a) sits at the bottom',
+    (ratio, tabulated, peak) => {
+      const solution = solveField({ topload: { shape: 'sphere', radius: 1, centerZ: ratio }, floor: true })!;
+      expect(relative(solution.totalCapacitance, imageSeriesCapacitance(1, ratio))).toBeLessThan(1e-4);
+      expect(relative(imageSeriesCapacitance(1, ratio) / FOUR_PI_EPS0, tabulated)).toBeLessThan(1e-7);
+      expect(relative(solution.toploadPeakFieldPerVolt, peak)).toBeLessThan(TOLERANCE);
+      expect(solution.toploadPeakAngle).toBeCloseTo(-Math.PI / 2, 6);
+    },
+  );
   test.each([
     [0.2, 14.9213],
     [0.5, 12.3642],
@@ -105,7 +108,10 @@ describe('isolated torus (toroidal harmonics; REFERENCES §5.3)', () => {
     [5, 0.8687103499, 0.3744],
     [10, 0.7216898805, 0.2894],
   ])('R/r = %f: C/(4πε0R) = %f and peak field %f V/r at the outer equator', (ratio, shape, peak) => {
-    const solution = solveField({ topload: { shape: 'toroid', majorRadius: 1, minorRadius: 1 / ratio, centerZ: 0 }, floor: false })!;
+    const solution = solveField({
+      topload: { shape: 'toroid', majorRadius: 1, minorRadius: 1 / ratio, centerZ: 0 },
+      floor: false,
+    })!;
     expect(relative(solution.totalCapacitance / FOUR_PI_EPS0, shape)).toBeLessThan(2e-4);
     expect(relative(solution.toploadPeakFieldPerVolt! / ratio, peak)).toBeLessThan(TOLERANCE);
     expect(Math.abs(solution.toploadPeakAngle!)).toBeLessThan(1e-6);
@@ -114,7 +120,10 @@ describe('isolated torus (toroidal harmonics; REFERENCES §5.3)', () => {
     const series = torusSeriesCapacitance(1, 1 / ratio);
     const table: Record<number, number> = { 1.5: 1.393955733, 3: 1.030591456, 10: 0.7216898805 };
     expect(relative(series / FOUR_PI_EPS0, table[ratio])).toBeLessThan(1e-5);
-    const solution = solveField({ topload: { shape: 'toroid', majorRadius: 1, minorRadius: 1 / ratio, centerZ: 0 }, floor: false })!;
+    const solution = solveField({
+      topload: { shape: 'toroid', majorRadius: 1, minorRadius: 1 / ratio, centerZ: 0 },
+      floor: false,
+    })!;
     expect(relative(solution.totalCapacitance, series)).toBeLessThan(2e-4);
   });
   // Torus R = 0.3 m, r = 0.1 m over the floor: REFERENCES §5.3 [X] (independent BEM with image).
@@ -124,7 +133,10 @@ describe('isolated torus (toroidal harmonics; REFERENCES §5.3)', () => {
     [1.5, 38.302, 0.5071],
     [3.0, 36.264, 0.4806],
   ])('R = 0.3 m, r = 0.1 m at h = %f m over the floor: %f pF, peak %f V/r', (height, picofarads, peak) => {
-    const solution = solveField({ topload: { shape: 'toroid', majorRadius: 0.3, minorRadius: 0.1, centerZ: height }, floor: true })!;
+    const solution = solveField({
+      topload: { shape: 'toroid', majorRadius: 0.3, minorRadius: 0.1, centerZ: height },
+      floor: true,
+    })!;
     expect(relative(solution.totalCapacitance, picofarads * 1e-12)).toBeLessThan(2e-4);
     expect(relative(solution.toploadPeakFieldPerVolt! * 0.1, peak)).toBeLessThan(TOLERANCE);
     // Near the floor the peak moves below the outer equator.

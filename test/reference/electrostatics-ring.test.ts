@@ -5,10 +5,7 @@
 import { describe, expect, test } from 'vitest';
 import stdlibEllipk from '@stdlib/math/base/special/ellipk';
 import stdlibEllipe from '@stdlib/math/base/special/ellipe';
-import {
-  ellipticEFromComplement,
-  ellipticKFromComplement,
-} from '../../core/electrostatics/elliptic-polynomial.ts';
+import { ellipticEFromComplement, ellipticKFromComplement } from '../../core/electrostatics/elliptic-polynomial.ts';
 import { ringChargeField, ringChargePotential, VACUUM_PERMITTIVITY } from '../../core/electrostatics/ring-kernel.ts';
 
 const COULOMB = 1 / (4 * Math.PI * VACUUM_PERMITTIVITY);
@@ -16,10 +13,13 @@ const COULOMB = 1 / (4 * Math.PI * VACUUM_PERMITTIVITY);
 describe('ellipticKFromComplement / ellipticEFromComplement (A&S 17.3.34, 17.3.36)', () => {
   // Source: @stdlib/math 0.4.1 ellipk/ellipe (parameter convention m = k²), an independent library;
   // A&S state |error| ≤ 2·10⁻⁸ for these approximations.
-  test.each([0.001, 0.01, 0.1, 0.25, 0.5, 0.7, 0.9, 0.99, 0.999999])('match @stdlib/math at m = %f within 2e-8', (m) => {
-    expect(Math.abs(ellipticKFromComplement(1 - m) - stdlibEllipk(m))).toBeLessThan(2.5e-8);
-    expect(Math.abs(ellipticEFromComplement(1 - m) - stdlibEllipe(m))).toBeLessThan(2.5e-8);
-  });
+  test.each([0.001, 0.01, 0.1, 0.25, 0.5, 0.7, 0.9, 0.99, 0.999999])(
+    'match @stdlib/math at m = %f within 2e-8',
+    (m) => {
+      expect(Math.abs(ellipticKFromComplement(1 - m) - stdlibEllipk(m))).toBeLessThan(2.5e-8);
+      expect(Math.abs(ellipticEFromComplement(1 - m) - stdlibEllipe(m))).toBeLessThan(2.5e-8);
+    },
+  );
   test('reproduce the REFERENCES §1 [X] (mpmath) value K(0.999999) = 8.29405146361544', () => {
     expect(ellipticKFromComplement(1e-6)).toBeCloseTo(8.29405146361544, 7);
   });
@@ -42,7 +42,8 @@ describe('ringChargePotential (Smythe; REFERENCES §5.1)', () => {
     expect(ringChargePotential(1, 1, 0, r, z) / COULOMB).toBeCloseTo(expected, 10);
   });
   test('on the axis equals q/(4πε0 √(a² + z²)) (exact, Coulomb)', () => {
-    for (const z of [0.1, 0.7, 3]) expect(ringChargePotential(2e-9, 0.4, 0.2, 0, 0.2 + z)).toBeCloseTo((COULOMB * 2e-9) / Math.hypot(0.4, z), 6);
+    for (const z of [0.1, 0.7, 3])
+      expect(ringChargePotential(2e-9, 0.4, 0.2, 0, 0.2 + z)).toBeCloseTo((COULOMB * 2e-9) / Math.hypot(0.4, z), 6);
   });
 });
 

@@ -19,8 +19,11 @@ describe('hypervolume on the ZDT fronts (Zitzler, Deb & Thiele 2000)', () => {
     expect(hypervolume(points, [1, 1])).toBeCloseTo(0.661409368920674, 14);
   });
 
-  it('ZDT1 tends to the continuous front\'s 2/3 = ∫(1 − (1 − sqrt f)) df; 10 001 points are within 1e-4 below it', () => {
-    const value = hypervolume(evenlySpaced(10_001).map((f1) => [f1, 1 - Math.sqrt(f1)]), [1, 1]);
+  it("ZDT1 tends to the continuous front's 2/3 = ∫(1 − (1 − sqrt f)) df; 10 001 points are within 1e-4 below it", () => {
+    const value = hypervolume(
+      evenlySpaced(10_001).map((f1) => [f1, 1 - Math.sqrt(f1)]),
+      [1, 1],
+    );
     expect(value).toBeLessThan(2 / 3);
     expect(2 / 3 - value).toBeLessThan(1e-4);
   });
@@ -28,7 +31,10 @@ describe('hypervolume on the ZDT fronts (Zitzler, Deb & Thiele 2000)', () => {
   it('ZDT2, 100 points: exactly Σ_{i<99} i² / 99³ = 98·197/(6·99²) = 0.328299833350338; continuous limit 1/3', () => {
     const points = evenlySpaced(100).map((f1) => [f1, 1 - f1 * f1]);
     expect(hypervolume(points, [1, 1])).toBeCloseTo((98 * 197) / (6 * 99 * 99), 14);
-    const fine = hypervolume(evenlySpaced(10_001).map((f1) => [f1, 1 - f1 * f1]), [1, 1]);
+    const fine = hypervolume(
+      evenlySpaced(10_001).map((f1) => [f1, 1 - f1 * f1]),
+      [1, 1],
+    );
     expect(1 / 3 - fine).toBeGreaterThan(0);
     expect(1 / 3 - fine).toBeLessThan(1e-4);
   });
@@ -36,8 +42,18 @@ describe('hypervolume on the ZDT fronts (Zitzler, Deb & Thiele 2000)', () => {
   it('ZDT1 in 3-D and 4-D, extended by a constant objective 0 with reference 1, equals the 2-D value (exact: a prism)', () => {
     const points = evenlySpaced(100).map((f1) => [f1, 1 - Math.sqrt(f1)]);
     const value = hypervolume(points, [1, 1]);
-    expect(hypervolume(points.map((p) => [p[0], p[1], 0]), [1, 1, 1])).toBeCloseTo(value, 13);
-    expect(hypervolume(points.map((p) => [0, p[0], 0, p[1]]), [1, 1, 1, 1])).toBeCloseTo(value, 13);
+    expect(
+      hypervolume(
+        points.map((p) => [p[0], p[1], 0]),
+        [1, 1, 1],
+      ),
+    ).toBeCloseTo(value, 13);
+    expect(
+      hypervolume(
+        points.map((p) => [0, p[0], 0, p[1]]),
+        [1, 1, 1, 1],
+      ),
+    ).toBeCloseTo(value, 13);
   });
 
   it('DTLZ2 spherical front (Deb, Thiele, Laumanns & Zitzler 2002): sampled fronts approach box − orthant of the unit ball from below', () => {
@@ -60,7 +76,12 @@ describe('hypervolume on the ZDT fronts (Zitzler, Deb & Thiele 2000)', () => {
       const a = ((i * 0.618034) % 1) * (Math.PI / 2);
       const b = ((i * 0.754878) % 1) * (Math.PI / 2);
       const c = ((i * 0.56984) % 1) * (Math.PI / 2);
-      return [Math.cos(a) * Math.cos(b) * Math.cos(c), Math.cos(a) * Math.cos(b) * Math.sin(c), Math.cos(a) * Math.sin(b), Math.sin(a)];
+      return [
+        Math.cos(a) * Math.cos(b) * Math.cos(c),
+        Math.cos(a) * Math.cos(b) * Math.sin(c),
+        Math.cos(a) * Math.sin(b),
+        Math.sin(a),
+      ];
     });
     const limit4 = 1.1 ** 4 - Math.PI ** 2 / 32;
     const value4 = hypervolume(sphere4, [1.1, 1.1, 1.1, 1.1]);

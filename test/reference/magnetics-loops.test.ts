@@ -36,11 +36,19 @@ describe('coaxialLoopMutualInductance (Maxwell 1873 §701)', () => {
   ];
   test.each(table)('a = %d m, b = %d m, d = %d m: M = %s nH', (a, b, d, printed) => {
     const decimals = printed.split('.')[1].length;
-    expect(Math.abs(coaxialLoopMutualInductance(a, b, d) * 1e9 - Number(printed))).toBeLessThanOrEqual(0.5 * 10 ** -decimals);
+    expect(Math.abs(coaxialLoopMutualInductance(a, b, d) * 1e9 - Number(printed))).toBeLessThanOrEqual(
+      0.5 * 10 ** -decimals,
+    );
   });
 
   test('agrees with the literal elliptic formula where that has no cancellation', () => {
-    for (const [a, b, d] of [[1, 1, 1], [0.2, 0.3, 0.05], [0.1, 0.1, 0.002], [0.3, 0.1, 0.4], [1, 0.5, 2]]) {
+    for (const [a, b, d] of [
+      [1, 1, 1],
+      [0.2, 0.3, 0.05],
+      [0.1, 0.1, 0.002],
+      [0.3, 0.1, 0.4],
+      [1, 0.5, 2],
+    ]) {
       expect(relativeError(coaxialLoopMutualInductance(a, b, d), maxwellLiteral(a, b, d))).toBeLessThan(1e-12);
     }
   });
@@ -51,17 +59,21 @@ describe('coaxialLoopMutualInductance (Maxwell 1873 §701)', () => {
       const b = 0.7;
       const dipole = (MU0 * Math.PI * a * a * b * b) / (2 * d ** 3);
       // next term of the expansion is of relative order (a² + b²)/d²
-      expect(relativeError(coaxialLoopMutualInductance(a, b, d), dipole)).toBeLessThan((3 * (a * a + b * b)) / (d * d) + 1e-13);
+      expect(relativeError(coaxialLoopMutualInductance(a, b, d), dipole)).toBeLessThan(
+        (3 * (a * a + b * b)) / (d * d) + 1e-13,
+      );
     }
     // at d = 1e5 m the literal formula has lost most digits; the AGM tail form has not
-    expect(relativeError(maxwellLiteral(0.3, 0.7, 1e5), (MU0 * Math.PI * 0.09 * 0.49) / (2e15))).toBeGreaterThan(1e-6);
+    expect(relativeError(maxwellLiteral(0.3, 0.7, 1e5), (MU0 * Math.PI * 0.09 * 0.49) / 2e15)).toBeGreaterThan(1e-6);
   });
 
   test('close spacing: M → μ0 a (ln(8a/d) − 2) for equal loops, d ≪ a (Grover 1946)', () => {
     for (const d of [1e-4, 1e-5, 1e-6]) {
       const a = 0.1;
       // the next term is of order (d/a)² ln(a/d)
-      expect(Math.abs(coaxialLoopMutualInductance(a, a, d) / (MU0 * a) - (Math.log((8 * a) / d) - 2))).toBeLessThan(1e-5);
+      expect(Math.abs(coaxialLoopMutualInductance(a, a, d) / (MU0 * a) - (Math.log((8 * a) / d) - 2))).toBeLessThan(
+        1e-5,
+      );
     }
   });
 
@@ -83,8 +95,12 @@ describe('loopSelfInductance (Grover 1946; Rosa 1908)', () => {
   test.each(table)('a = %d m, ρ = %d m: %s nH (DC), %s nH (HF)', (radius, wireRadius, dc, hf) => {
     // 8780.371 is mis-rounded in the reference table (the formula gives 8780.37048): one unit allowed there
     const halfUnit = (printed: string) => (printed === '8780.371' ? 1 : 0.5) * 10 ** -printed.split('.')[1].length;
-    expect(Math.abs(loopSelfInductance(radius, wireRadius, 'uniform') * 1e9 - Number(dc))).toBeLessThanOrEqual(halfUnit(dc));
-    expect(Math.abs(loopSelfInductance(radius, wireRadius, 'surface') * 1e9 - Number(hf))).toBeLessThanOrEqual(halfUnit(hf));
+    expect(Math.abs(loopSelfInductance(radius, wireRadius, 'uniform') * 1e9 - Number(dc))).toBeLessThanOrEqual(
+      halfUnit(dc),
+    );
+    expect(Math.abs(loopSelfInductance(radius, wireRadius, 'surface') * 1e9 - Number(hf))).toBeLessThanOrEqual(
+      halfUnit(hf),
+    );
   });
 
   test('the surface-current self-inductance equals M(a, a, ρ) to O((ρ/a)²)', () => {
@@ -92,7 +108,12 @@ describe('loopSelfInductance (Grover 1946; Rosa 1908)', () => {
     // the mutual inductance of two coaxial filaments a distance ρ apart (GMD method, Grover ch. 13).
     const radius = 0.2;
     const wireRadius = 1e-4;
-    expect(relativeError(loopSelfInductance(radius, wireRadius, 'surface'), coaxialLoopMutualInductance(radius, radius, wireRadius))).toBeLessThan(1e-6);
+    expect(
+      relativeError(
+        loopSelfInductance(radius, wireRadius, 'surface'),
+        coaxialLoopMutualInductance(radius, radius, wireRadius),
+      ),
+    ).toBeLessThan(1e-6);
   });
 });
 

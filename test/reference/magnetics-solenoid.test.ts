@@ -50,7 +50,9 @@ describe('nagaokaCoefficient (exact elliptic form)', () => {
   // is from memory (the standard long-coil expansion; Lundin's f1 ≈ 1 + 0.12495 x² agrees).
   test('long-coil limit K_N → 1 − 4(D/l)/(3π) + (D/l)²/8, and no loss of digits as D/l → 0', () => {
     for (const x of [1e-3, 1e-4, 1e-5, 1e-6]) {
-      expect(Math.abs(nagaokaCoefficient(x) - (1 - (4 * x) / (3 * Math.PI) + (x * x) / 8))).toBeLessThan(x ** 3 + 4e-16);
+      expect(Math.abs(nagaokaCoefficient(x) - (1 - (4 * x) / (3 * Math.PI) + (x * x) / 8))).toBeLessThan(
+        x ** 3 + 4e-16,
+      );
     }
   });
 
@@ -70,7 +72,8 @@ describe('nagaokaCoefficient (exact elliptic form)', () => {
 describe('lundinNagaokaCoefficient', () => {
   test('within 1e-5 (stated 2.5e-6) of the exact coefficient over D/l in [1e-3, 1e3] (REFERENCES §2.3 [X])', () => {
     let worst = 0;
-    for (const x of logSpaced(601, 1e-3, 1e3)) worst = Math.max(worst, relativeError(lundinNagaokaCoefficient(x), nagaokaCoefficient(x)));
+    for (const x of logSpaced(601, 1e-3, 1e3))
+      worst = Math.max(worst, relativeError(lundinNagaokaCoefficient(x), nagaokaCoefficient(x)));
     expect(worst).toBeLessThan(1e-5);
     expect(worst).toBeGreaterThan(1e-7); // it is an approximation, not the same formula
   });
@@ -91,7 +94,9 @@ describe('Wheeler’s long-coil formula', () => {
     // the printed maxima (0.31 %, 0.33 %, 0.84 %, 2.3 %) plus half a unit of their last digit
     const band = (x: number) => (x <= 1 ? 0.00315 : x <= 2.5 ? 0.00335 : x <= 3 ? 0.00845 : 0.0235);
     for (const x of logSpaced(400, 1e-3, 4)) {
-      expect(relativeError(wheelerNagaokaCoefficient(x), nagaokaCoefficient(x)), `D/l = ${x}`).toBeLessThanOrEqual(band(x) + 1e-6);
+      expect(relativeError(wheelerNagaokaCoefficient(x), nagaokaCoefficient(x)), `D/l = ${x}`).toBeLessThanOrEqual(
+        band(x) + 1e-6,
+      );
     }
     // point values of the same scan: D/l = 1 → 0.689655 (+0.18 %), 0.2 → 0.917431 (−0.29 %)
     expect(wheelerNagaokaCoefficient(1)).toBeCloseTo(0.689655, 6);
@@ -104,7 +109,8 @@ describe('Wheeler’s long-coil formula', () => {
     const length = 0.5;
     const turns = 800;
     const wheeler = wheelerLongCoilInductance(radius, length, turns);
-    const si = (4e-7 * Math.PI * turns ** 2 * Math.PI * radius ** 2 * wheelerNagaokaCoefficient((2 * radius) / length)) / length;
+    const si =
+      (4e-7 * Math.PI * turns ** 2 * Math.PI * radius ** 2 * wheelerNagaokaCoefficient((2 * radius) / length)) / length;
     // the printed 1.0027 is within 1e-4 of the exact factor μ0 π × 0.0254 m/in × 10 × 10⁶ µH/H = 4π² × 0.0254 = 1.002745
     expect(Math.abs(si / wheeler - 1.0027)).toBeLessThan(1e-4);
     expect(relativeError(si / wheeler, 4 * Math.PI ** 2 * 0.0254)).toBeLessThan(1e-12);
@@ -129,7 +135,8 @@ describe('Rosa’s corrections', () => {
   test.each(table)('k_m(%d) = %d (exact sum), Grover %s', (turns, exact, grover) => {
     expect(Math.abs(rosaMutualCorrectionSum(turns) - exact)).toBeLessThan(5e-9);
     // Grover prints 4 decimals; his 0.3079 at N = 30 is 5.3e-5 below the exact sum (truncated, not rounded)
-    if (grover !== null) expect(Math.abs(rosaMutualCorrectionSum(turns) - grover)).toBeLessThan(turns === 30 ? 6e-5 : 5e-5);
+    if (grover !== null)
+      expect(Math.abs(rosaMutualCorrectionSum(turns) - grover)).toBeLessThan(turns === 30 ? 6e-5 : 5e-5);
     if (turns >= 5) expect(Math.abs(rosaMutualCorrection(turns) - rosaMutualCorrectionSum(turns))).toBeLessThan(1e-8);
     else expect(rosaMutualCorrection(turns)).toBe(rosaMutualCorrectionSum(turns));
   });
@@ -152,7 +159,10 @@ describe('Rosa’s corrections', () => {
 
   test('k_s = 5/4 − ln(2p/d) (DC) and 3/2 − ln(2p/d) (HF), negative for thin spaced wire (REFERENCES §2.4)', () => {
     expect(rosaSelfCorrection(0.8e-3, 0.7e-3, 'uniform')).toBeCloseTo(0.423321, 6);
-    expect(rosaSelfCorrection(0.8e-3, 0.7e-3, 'surface') - rosaSelfCorrection(0.8e-3, 0.7e-3, 'uniform')).toBeCloseTo(0.25, 15);
+    expect(rosaSelfCorrection(0.8e-3, 0.7e-3, 'surface') - rosaSelfCorrection(0.8e-3, 0.7e-3, 'uniform')).toBeCloseTo(
+      0.25,
+      15,
+    );
     expect(rosaSelfCorrection(1e-3, 0.5e-3, 'uniform')).toBeLessThan(0); // d < 0.573 p
   });
 });
@@ -164,23 +174,32 @@ describe('round-wire solenoid: Nagaoka + Rosa against the exact loop sum (REFERE
     [10, 0.05, 2e-3, 1e-3, '15.7002', '15.7010', 5e-5],
     [100, 0.05, 1e-3, 0.8e-3, '675.288', '675.295', 1e-5],
   ];
-  test.each(rows)('N = %d, a = %d m, p = %d m, d = %d m: %s µH by the sum, %s µH by Rosa', (turns, radius, pitch, diameter, loopSum, rosa, difference) => {
-    const halfUnit = (printed: string) => 0.5 * 10 ** -printed.split('.')[1].length;
-    const byRosa = roundWireSolenoidInductance({ radius, turns, pitch, bareDiameter: diameter }, 'uniform');
-    const bySum = loopSumSolenoidInductance(radius, turns, pitch, diameter / 2, 'uniform');
-    expect(Math.abs(bySum * 1e6 - Number(loopSum))).toBeLessThanOrEqual(halfUnit(loopSum));
-    expect(Math.abs(byRosa * 1e6 - Number(rosa))).toBeLessThanOrEqual(halfUnit(rosa));
-    expect(Math.abs(byRosa / bySum - 1 - difference)).toBeLessThan(0.5 * difference);
-  });
+  test.each(rows)(
+    'N = %d, a = %d m, p = %d m, d = %d m: %s µH by the sum, %s µH by Rosa',
+    (turns, radius, pitch, diameter, loopSum, rosa, difference) => {
+      const halfUnit = (printed: string) => 0.5 * 10 ** -printed.split('.')[1].length;
+      const byRosa = roundWireSolenoidInductance({ radius, turns, pitch, bareDiameter: diameter }, 'uniform');
+      const bySum = loopSumSolenoidInductance(radius, turns, pitch, diameter / 2, 'uniform');
+      expect(Math.abs(bySum * 1e6 - Number(loopSum))).toBeLessThanOrEqual(halfUnit(loopSum));
+      expect(Math.abs(byRosa * 1e6 - Number(rosa))).toBeLessThanOrEqual(halfUnit(rosa));
+      expect(Math.abs(byRosa / bySum - 1 - difference)).toBeLessThan(0.5 * difference);
+    },
+  );
 
   test('N = 5, a = 20 mm, p = 4 mm, d = 1.5 mm: Rosa exceeds the sum by 1.3e-3', () => {
-    const byRosa = roundWireSolenoidInductance({ radius: 0.02, turns: 5, pitch: 4e-3, bareDiameter: 1.5e-3 }, 'uniform');
+    const byRosa = roundWireSolenoidInductance(
+      { radius: 0.02, turns: 5, pitch: 4e-3, bareDiameter: 1.5e-3 },
+      'uniform',
+    );
     const bySum = loopSumSolenoidInductance(0.02, 5, 4e-3, 0.75e-3, 'uniform');
     expect(byRosa / bySum - 1).toBeCloseTo(1.3e-3, 4);
   });
 
   test('the HF pair (surface-current loops, k_s with 3/2) agrees as well', () => {
-    const byRosa = roundWireSolenoidInductance({ radius: 0.05, turns: 100, pitch: 1e-3, bareDiameter: 0.8e-3 }, 'surface');
+    const byRosa = roundWireSolenoidInductance(
+      { radius: 0.05, turns: 100, pitch: 1e-3, bareDiameter: 0.8e-3 },
+      'surface',
+    );
     const bySum = loopSumSolenoidInductance(0.05, 100, 1e-3, 0.4e-3, 'surface');
     expect(relativeError(byRosa, bySum)).toBeLessThan(3e-5);
   });
@@ -190,7 +209,10 @@ describe('round-wire solenoid: Nagaoka + Rosa against the exact loop sum (REFERE
     expect(nagaokaCoefficient(0.25)).toBeCloseTo(0.90164933, 8);
     expect(Math.abs(currentSheetInductance(radius, 0.8, 1000) * 1e3 - 44.4946)).toBeLessThan(5e-5);
     expect(rosaMutualCorrection(1000)).toBeCloseTo(0.336395, 6);
-    const inductance = roundWireSolenoidInductance({ radius, turns: 1000, pitch: 0.8e-3, bareDiameter: 0.7e-3 }, 'uniform');
+    const inductance = roundWireSolenoidInductance(
+      { radius, turns: 1000, pitch: 0.8e-3, bareDiameter: 0.7e-3 },
+      'uniform',
+    );
     expect(Math.abs(inductance * 1e3 - 44.3991)).toBeLessThan(5e-5);
     const bySum = loopSumSolenoidInductance(radius, 1000, 0.8e-3, 0.35e-3, 'uniform');
     expect(relativeError(bySum, inductance)).toBeLessThan(1e-4);

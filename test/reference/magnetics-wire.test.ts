@@ -40,12 +40,15 @@ describe('awgDiameter (ASTM B258 rule)', () => {
     [30, 0.2546, 338.557, 0.01],
     [36, 0.127, 1361.05, 0.005],
   ];
-  test.each(table)('AWG %d: diameter %d mm, %d Ω/km at 20 °C, NEMA nominal %d in', (gauge, diameterMm, ohmsPerKm, nemaInches) => {
-    const diameter = awgDiameter(gauge);
-    expect(Math.abs(diameter * 1e3 - diameterMm)).toBeLessThan(6e-5); // 4 decimals printed
-    expect(relativeError(wireDcResistance(1000, diameter, 293.15), ohmsPerKm)).toBeLessThan(5e-5);
-    expect(Math.abs(diameter / 0.0254 - nemaInches)).toBeLessThan(6e-5); // NEMA rounds to 0.0001 in
-  });
+  test.each(table)(
+    'AWG %d: diameter %d mm, %d Ω/km at 20 °C, NEMA nominal %d in',
+    (gauge, diameterMm, ohmsPerKm, nemaInches) => {
+      const diameter = awgDiameter(gauge);
+      expect(Math.abs(diameter * 1e3 - diameterMm)).toBeLessThan(6e-5); // 4 decimals printed
+      expect(relativeError(wireDcResistance(1000, diameter, 293.15), ohmsPerKm)).toBeLessThan(5e-5);
+      expect(Math.abs(diameter / 0.0254 - nemaInches)).toBeLessThan(6e-5); // NEMA rounds to 0.0001 in
+    },
+  );
 
   test('gauges outside −3 … 56 give NaN', () => {
     expect(awgDiameter(-4)).toBeNaN();
@@ -61,7 +64,7 @@ describe('copper (IEC 60028)', () => {
   });
 
   test('mass of 1 km of 1 mm wire is 8.89 g/cm³ × 0.785398 cm² × 1e5 cm = 6.9822 kg (IEC 60028 density, from memory)', () => {
-    expect(relativeError(copperMass(1000, 1e-3), 6.98219e0)).toBeLessThan(1e-5);
+    expect(relativeError(copperMass(1000, 1e-3), 6.98219)).toBeLessThan(1e-5);
   });
 });
 
@@ -96,10 +99,13 @@ describe('insulatedDiameter (IEC 60317-0-1 grades via IS 13730-0-1, REFERENCES �
     [0.315, 'grade1', 0.019, 0.349],
     [0.315, 'grade3', 0.053, 0.384],
   ];
-  test.each(rows)('%d mm %s: midpoint of %d mm increase and %d mm overall', (diameterMm, grade, minimumIncrease, maximumOverall) => {
-    const expected = (diameterMm + minimumIncrease + maximumOverall) / 2;
-    expect(Math.abs(insulatedDiameter(diameterMm * 1e-3, grade) * 1e3 - expected)).toBeLessThan(1e-12);
-  });
+  test.each(rows)(
+    '%d mm %s: midpoint of %d mm increase and %d mm overall',
+    (diameterMm, grade, minimumIncrease, maximumOverall) => {
+      const expected = (diameterMm + minimumIncrease + maximumOverall) / 2;
+      expect(Math.abs(insulatedDiameter(diameterMm * 1e-3, grade) * 1e3 - expected)).toBeLessThan(1e-12);
+    },
+  );
 
   test('between rows the build lies inside the two rows’ windows and grows with the grade', () => {
     const diameter = 0.6e-3; // between the 0.508 and 0.711 mm rows
@@ -139,6 +145,8 @@ describe('helicalWireLength (arc length of a circular helix)', () => {
 
 describe('wireDcResistance', () => {
   test('REFERENCES §2.4 worked example: 628.32 m of 0.70 mm copper at 20 °C is 28.149 Ω', () => {
-    expect(Math.abs(wireDcResistance(helicalWireLength(1000, 0.1, 0.8e-3), 0.7e-3, 293.15) - 28.149)).toBeLessThan(0.0006);
+    expect(Math.abs(wireDcResistance(helicalWireLength(1000, 0.1, 0.8e-3), 0.7e-3, 293.15) - 28.149)).toBeLessThan(
+      0.0006,
+    );
   });
 });

@@ -54,7 +54,12 @@ describe('minimize(rosenbrock) against scipy', () => {
   });
 
   test('5-D adaptive (Gao & Han 2012 coefficients), xatol = fatol = 1e-8: 838 evaluations, scipy nit 487 [X]', () => {
-    const result = minimize(rosenbrock, [1.3, 0.7, 0.8, 1.9, 1.2], { ...unbounded(5), xatol: 1e-8, fatol: 1e-8, adaptive: true });
+    const result = minimize(rosenbrock, [1.3, 0.7, 0.8, 1.9, 1.2], {
+      ...unbounded(5),
+      xatol: 1e-8,
+      fatol: 1e-8,
+      adaptive: true,
+    });
     expect(result.evaluations).toBe(838);
     expect(result.iterations).toBe(486);
     expect(result.x[4]).toBe(1.0000000001205287); // scipy's x [X]
@@ -66,7 +71,7 @@ describe('minimize(rosenbrock) against scipy', () => {
     expect(result.evaluations).toBe(219);
   });
 
-  test('2-D with bounds x ≤ 0.5 and scipy\'s relative initial step, no restarts: scipy\'s 159 evaluations, nit 88, x = (0.5, 0.25) [X]', () => {
+  test("2-D with bounds x ≤ 0.5 and scipy's relative initial step, no restarts: scipy's 159 evaluations, nit 88, x = (0.5, 0.25) [X]", () => {
     // Exact constrained optimum of Rosenbrock on x ≤ 0.5: y = x² = 0.25, f = (1 − 0.5)² = 0.25.
     const result = minimize(rosenbrock, [-1.2, 1], {
       lower: [-2, -2],
@@ -116,14 +121,17 @@ describe('minimize(himmelblau)', () => {
     [[1, -2], 143, 0],
     [[-2, 1], 135, 1],
   ];
-  test.each(cases)('from %j converges to one of the four minima in %i evaluations, as scipy [X]', (start, evaluations, minimumIndex) => {
-    const result = minimize(himmelblau, start, { ...unbounded(2), xatol: 1e-8, fatol: 1e-8 });
-    expect(result.status).toBe('converged');
-    expect(result.evaluations).toBe(evaluations);
-    const nearest = minima.findIndex((point) => Math.hypot(point[0] - result.x[0], point[1] - result.x[1]) < 1e-5);
-    expect(nearest).toBe(minimumIndex);
-    expect(result.value).toBeLessThan(1e-14);
-  });
+  test.each(cases)(
+    'from %j converges to one of the four minima in %i evaluations, as scipy [X]',
+    (start, evaluations, minimumIndex) => {
+      const result = minimize(himmelblau, start, { ...unbounded(2), xatol: 1e-8, fatol: 1e-8 });
+      expect(result.status).toBe('converged');
+      expect(result.evaluations).toBe(evaluations);
+      const nearest = minima.findIndex((point) => Math.hypot(point[0] - result.x[0], point[1] - result.x[1]) < 1e-5);
+      expect(nearest).toBe(minimumIndex);
+      expect(result.value).toBeLessThan(1e-14);
+    },
+  );
 });
 
 describe('bounds (scipy issue 19991)', () => {
@@ -131,7 +139,14 @@ describe('bounds (scipy issue 19991)', () => {
     // Before scipy PR 20345 this returned 4: the initial vertex 4.2 was clipped back onto 4 and
     // the simplex had no width. Exact solution: x = 0 (on the lower bound), f = −3.
     const trace: number[] = [];
-    const result = minimize((x) => { trace.push(x[0]); return x[0] ** 2 - 3; }, [4], { lower: [0], upper: [4] });
+    const result = minimize(
+      (x) => {
+        trace.push(x[0]);
+        return x[0] ** 2 - 3;
+      },
+      [4],
+      { lower: [0], upper: [4] },
+    );
     expect(result.x[0]).toBeCloseTo(0, 4);
     expect(result.value).toBeCloseTo(-3, 6);
     expect(Math.min(...trace)).toBeGreaterThanOrEqual(0);
