@@ -41,11 +41,11 @@ function runCli(args: string[]): { seconds: number; maxRssMb: number; status: nu
 
 function frontObjectives(directory: string, metrics: { column: string; maximize: boolean }[]): number[][] {
   const lines = readFileSync(join(directory, 'front.csv'), 'utf8').trim().split('\n');
-  const header = lines[0]!.split(',');
+  const header = lines[0].split(',');
   const columns = metrics.map((m) => header.indexOf(m.column));
   return lines.slice(1).map((line) => {
     const cells = line.split(',');
-    return columns.map((c, j) => (metrics[j]!.maximize ? -1 : 1) * Number(cells[c]));
+    return columns.map((c, j) => (metrics[j].maximize ? -1 : 1) * Number(cells[c]));
   });
 }
 
@@ -104,7 +104,7 @@ export async function benchSweep(options: { samples?: number; rssSamples?: numbe
   const frontRefined = frontObjectives(refined, objectives);
   // One reference point for all three: 10 % beyond the worst of the base front in each objective.
   const reference = [0, 1].map((j) => {
-    const values = frontBefore.map((p) => p[j]!);
+    const values = frontBefore.map((p) => p[j]);
     const worst = Math.max(...values);
     const range = worst - Math.min(...values) || 1;
     return worst + 0.1 * range;

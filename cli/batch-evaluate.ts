@@ -56,10 +56,10 @@ export async function batchEvaluate(file: string, io: CliIo, options: { workers?
               bad++;
               return JSON.stringify({ line: l.line, error: l.error });
             }
-            const evaluation = evaluations[next++]!;
+            const evaluation = evaluations[next++];
             if (evaluation.problems.length > 0) {
               bad++;
-              const problem = evaluation.problems[0]!;
+              const problem = evaluation.problems[0];
               return JSON.stringify({
                 line: l.line,
                 error: fieldError(l.where, { path: problem.field.split('.'), message: problem.reason }).message,

@@ -67,7 +67,7 @@ function wireSchema() {
     if (typeof input === 'string') {
       const gauge = AWG_PATTERN.exec(input);
       if (gauge) {
-        const n = awgNumber(gauge[1] ?? gauge[2]!);
+        const n = awgNumber(gauge[1] ?? gauge[2]);
         if (n < -3 || n > 44) {
           context.addIssue({ code: 'custom', message: `unknown wire gauge '${input}': AWG runs from 0000 to 44` });
           return z.NEVER;
@@ -195,7 +195,7 @@ function readLeaf(
 ): LeafValue | undefined {
   const result = leafSchema(field).safeParse(input);
   if (result.success) return result.data;
-  const issue = result.error.issues[0]!;
+  const issue = result.error.issues[0];
   issues.push({
     path: [...path, ...issue.path.map((p) => (typeof p === 'symbol' ? String(p) : p))],
     message: issue.message,

@@ -18,7 +18,7 @@ export function evaluateCommand(file: string, options: { json?: boolean }, io: C
   const loaded = loadDesignFile(file);
   const evaluation = evaluateDesign(loaded.design);
   if (evaluation.problems.length > 0) {
-    const problem = evaluation.problems[0]!;
+    const problem = evaluation.problems[0];
     throw fieldError(file, { path: problem.field.split('.'), message: problem.reason });
   }
   if (options.json) io.out(`${JSON.stringify(evaluationJson(loaded.tree, evaluation), null, 2)}\n`);

@@ -73,7 +73,7 @@ function section(spec: SectionSpec, sweep: boolean): Schema {
   });
   const body: Schema =
     variants.length === 1
-      ? { ...variants[0]!, description: spec.description }
+      ? { ...variants[0], description: spec.description }
       : { description: spec.description, oneOf: variants };
   if (!sweep) return body;
   return {

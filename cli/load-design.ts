@@ -16,9 +16,9 @@ export interface LoadedDesign {
 /** Turns a parsed design value into the SI design, or throws the first problem as an InputError. */
 export function designFromValue(value: unknown, file: string): LoadedDesign {
   const reading = readDesignTree(value, 'design');
-  if (reading.issues.length > 0) throw fieldError(file, reading.issues[0]!);
+  if (reading.issues.length > 0) throw fieldError(file, reading.issues[0]);
   const built = buildDesign(reading.tree);
-  if (built.issues.length > 0 || !built.design) throw fieldError(file, built.issues[0]!);
+  if (built.issues.length > 0 || !built.design) throw fieldError(file, built.issues[0]);
   return { design: built.design, tree: reading.tree };
 }
 

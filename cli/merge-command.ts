@@ -23,7 +23,7 @@ export async function mergeCommand(
   if (options.out === undefined) throw new InputError('--out: required: the directory for the merged results');
   if (directories.length === 0) throw new InputError('merge: give the shard directories');
   const records = directories.map((directory) => ({ directory, record: readRunRecord(directory) }));
-  const first = records[0]!;
+  const first = records[0];
   for (const { directory, record } of records) {
     if (record.seed !== first.record.seed)
       throw new InputError(

@@ -40,7 +40,7 @@ export async function frontPlotSvg(
 ): Promise<string> {
   let spec: TopLevelSpec;
   if (objectives.length === 1) {
-    const objective = objectives[0]!;
+    const objective = objectives[0];
     const values = candidates.flatMap((row, i) => {
       const y = valueOf(row, objective.metric);
       return y === null ? [] : [{ set: 'candidates', x: i + 1, y }];
@@ -61,7 +61,7 @@ export async function frontPlotSvg(
     const panels = objectives.slice(1, 4).map((other) => {
       const points = (rows: readonly CandidateRow[], set: string): Point[] =>
         rows.flatMap((row) => {
-          const x = valueOf(row, objectives[0]!.metric);
+          const x = valueOf(row, objectives[0].metric);
           const y = valueOf(row, other.metric);
           return x === null || y === null ? [] : [{ set, x, y }];
         });
@@ -78,7 +78,7 @@ export async function frontPlotSvg(
               x: {
                 field: 'x',
                 type: 'quantitative' as const,
-                title: axisTitle(objectives[0]!),
+                title: axisTitle(objectives[0]),
                 scale: { zero: false },
               },
               y: { field: 'y', type: 'quantitative' as const, title: axisTitle(other), scale: { zero: false } },

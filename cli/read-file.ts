@@ -37,7 +37,7 @@ export function parseInputText(text: string, file: string): unknown {
   if (error) {
     const position = error.linePos?.[0];
     const where = position ? `line ${position.line}, column ${position.col}: ` : '';
-    const reason = error.message.split('\n')[0]!.replace(/ at line \d+, column \d+:?$/, '');
+    const reason = error.message.split('\n')[0].replace(/ at line \d+, column \d+:?$/, '');
     throw new InputError(`${file}: ${where}cannot parse: ${reason}`);
   }
   let value: unknown;

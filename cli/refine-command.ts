@@ -82,7 +82,7 @@ export async function refineCommand(directory: string, options: RefineCommandOpt
   const front = sortedFront(outcome.merged);
   const frontRows = rankedRows(spec.dimensions, front);
   front.forEach((entry, i) => {
-    if (entry.item.index >= spec.samples) frontRows[i]![indexColumn] = null;
+    if (entry.item.index >= spec.samples) frontRows[i][indexColumn] = null;
   });
   writeFileAtomicSync(join(directory, RUN_FILES.front), toCsv(columns.header, frontRows));
   writeFileAtomicSync(

@@ -160,14 +160,14 @@ export function formatReport(file: string, evaluation: Evaluation): string {
     group.keys.forEach((key) => listed.add(key));
     if (present.every((key) => evaluation.metrics[key] === null)) continue;
     out.push(group.title);
-    for (const key of present) if (evaluation.metrics[key] !== null) out.push(line(key, evaluation.metrics[key]!));
+    for (const key of present) if (evaluation.metrics[key] !== null) out.push(line(key, evaluation.metrics[key]));
     if (group.note) out.push(`  (${group.note})`);
     out.push('');
   }
   const others = Object.keys(evaluation.metrics).filter((key) => !listed.has(key) && evaluation.metrics[key] !== null);
   if (others.length > 0) {
     out.push('Other');
-    for (const key of others) out.push(line(key, evaluation.metrics[key]!));
+    for (const key of others) out.push(line(key, evaluation.metrics[key]));
     out.push('');
   }
   out.push(evaluation.warnings.length > 0 ? 'Warnings' : 'Warnings: none');

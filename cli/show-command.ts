@@ -21,7 +21,7 @@ export function treeToYaml(tree: NormalTree, heading: string[]): string {
   const lines = [...heading, SAFETY_LINE].map((line) => `# ${line}`);
   for (const [name, section] of Object.entries(tree)) {
     if (isSlot(section)) continue;
-    const spec = DESIGN_SECTIONS[name]!;
+    const spec = DESIGN_SECTIONS[name];
     const form = spec.variants ? (section[spec.variants.key] as string) : undefined;
     const fields = sectionFields(spec, form);
     lines.push(`${name}:`);

@@ -46,7 +46,7 @@ export function columnSet(dimensions: readonly Dimension[]): ColumnSet {
 /** The parameter cells of a candidate in display units (set choices by their label). */
 export function parameterCells(dimensions: readonly Dimension[], values: readonly number[]): Cell[] {
   return dimensions.map((dimension, d) => {
-    const value = values[d]!;
+    const value = values[d];
     if (dimension.kind === 'choose') return dimension.labels[value] ?? null;
     const unit = KIND_DISPLAY[dimension.quantity as QuantityKind];
     return unit ? value / unit.divisor : value;

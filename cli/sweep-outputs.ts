@@ -63,7 +63,7 @@ export function sortedFront(pool: CandidatePool<PackedRow>): RankedEntry<PackedR
   const front = pool.front().map((entry) => ({ ...entry, paretoRank: 1, crowding: 0 }));
   front.sort((a, b) => {
     for (let j = 0; j < a.item.objectives.length; j++) {
-      const difference = a.item.objectives[j]! - b.item.objectives[j]!;
+      const difference = a.item.objectives[j] - b.item.objectives[j];
       if (difference !== 0) return difference;
     }
     return a.item.index - b.item.index;
@@ -91,7 +91,7 @@ function summaryStatistics(
   const quantiles: Record<string, Record<string, number>> = {};
   METRIC_KEYS.forEach((key, m) => {
     const values = items
-      .map((item) => item.payload[dimensionCount + m]!)
+      .map((item) => item.payload[dimensionCount + m])
       .filter((v) => Number.isFinite(v))
       .sort((a, b) => a - b);
     if (values.length === 0) return;
@@ -105,13 +105,13 @@ function summaryStatistics(
     for (const objective of spec.objectives) {
       const column = dimensionCount + METRIC_KEYS.indexOf(objective.metric);
       const pairs = items
-        .map((item) => [item.payload[d]!, item.payload[column]!])
+        .map((item) => [item.payload[d], item.payload[column]])
         .filter(([x, y]) => Number.isFinite(x) && Number.isFinite(y));
       let rho: number | null = null;
       if (pairs.length >= 3) {
         const value = sampleRankCorrelation(
-          pairs.map((p) => p[0]!),
-          pairs.map((p) => p[1]!),
+          pairs.map((p) => p[0]),
+          pairs.map((p) => p[1]),
         );
         rho = Number.isFinite(value) ? value : null;
       }

@@ -195,7 +195,7 @@ function readObjectives(input: unknown, issues: InputIssue[]): ObjectiveSpec[] {
       sense = word as 'minimize' | 'maximize';
       metric = name;
     } else if (isMapping(item) && Object.keys(item).length === 1) {
-      const key = Object.keys(item)[0]!;
+      const key = Object.keys(item)[0];
       if (key !== 'maximize' && key !== 'minimize') {
         issues.push(unknownKey(path, key, ['maximize', 'minimize']));
         return [];
@@ -253,7 +253,7 @@ export interface SweepReadOptions {
 export function sweepFromValue(value: unknown, file: string, options: SweepReadOptions = {}): SweepSpec {
   const issues: InputIssue[] = [];
   const fail = (): never => {
-    throw fieldError(file, issues[0]!);
+    throw fieldError(file, issues[0]);
   };
   if (!isMapping(value)) {
     throw new InputError(
@@ -276,7 +276,7 @@ export function sweepFromValue(value: unknown, file: string, options: SweepReadO
   }
   const reading = readDesignTree(value.design, 'sweep', ['design']);
   if (reading.issues.length) {
-    issues.push(reading.issues[0]!);
+    issues.push(reading.issues[0]);
     fail();
   }
   const constraints = readConstraints(value.constraints, issues);
@@ -300,7 +300,7 @@ export function sweepFromValue(value: unknown, file: string, options: SweepReadO
     if (settings[key] === undefined) return fallback;
     const result = schema.safeParse(settings[key]);
     if (result.success) return result.data;
-    issues.push({ path: ['sweep', key], message: result.error.issues[0]!.message });
+    issues.push({ path: ['sweep', key], message: result.error.issues[0].message });
     return fallback;
   };
   const method = parseSetting('method', methodSchema, 'sobol' as SamplingMethod);

@@ -20,7 +20,7 @@ export function formatTopCandidates(directory: string, spec: SweepSpec, state: S
   );
   lines.push(`best ${Math.min(count, ranked.length)}:`);
   for (let i = 0; i < ranked.length; i++) {
-    const entry = ranked[i]!;
+    const entry = ranked[i];
     const row = unpackRow(entry.payload);
     const objectives = spec.objectives.map((objective) => {
       const value = row.metrics[metricIndex(objective.metric)];
@@ -31,7 +31,7 @@ export function formatTopCandidates(directory: string, spec: SweepSpec, state: S
     });
     const parameters = parameterCells(spec.dimensions, row.values).map((cell, d) => {
       const text = typeof cell === 'number' ? formatNumber(cell) : String(cell);
-      return `${spec.dimensions[d]!.path.join('.')}=${text}`;
+      return `${spec.dimensions[d].path.join('.')}=${text}`;
     });
     const status = entry.item.violation === 0 ? '' : ` [infeasible: ${row.reason ?? 'constraints'}]`;
     lines.push(`  ${i + 1}. ${objectives.join(', ')}${status}`);

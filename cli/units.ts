@@ -174,7 +174,7 @@ export function readQuantity(input: unknown, kind: QuantityKind): QuantityResult
     if (otherKinds && otherKinds.length > 0) {
       return {
         ok: false,
-        reason: `'${input}' is ${ARTICLE[otherKinds[0]!]}, ${expected.replace(/^expected /, 'expected ')}`,
+        reason: `'${input}' is ${ARTICLE[otherKinds[0]]}, ${expected.replace(/^expected /, 'expected ')}`,
       };
     }
     return {

@@ -52,7 +52,7 @@ function section(tree: NormalTree, name: string): NormalSection | undefined {
 
 function wireSpec(value: LeafValue | DimensionSlot | undefined, secondary: NormalSection): WireSpec {
   const wire = value as WireValue;
-  const insulation = GRADES[text(secondary, 'insulation') ?? 'grade_2']!;
+  const insulation = GRADES[text(secondary, 'insulation') ?? 'grade_2'];
   const overall = num(secondary, 'wire_overall_diameter');
   const spec: WireSpec =
     'awg' in wire

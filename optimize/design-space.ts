@@ -68,7 +68,7 @@ export class DesignSpace {
   valuesAt(index: number, out: Float64Array): void {
     this.sampler.pointAt(index, this.unit);
     for (let d = 0; d < this.definition.dimensions.length; d++)
-      out[d] = dimensionValue(this.definition.dimensions[d]!, this.unit[d]!);
+      out[d] = dimensionValue(this.definition.dimensions[d], this.unit[d]);
   }
 
   /** The design of given dimension values (also used by refinement, off the sample grid). */

@@ -56,9 +56,9 @@ export function isSlot(value: unknown): value is DimensionSlot {
 export function fillSlots(tree: NormalTree, dimensions: readonly Dimension[], values: ArrayLike<number>): NormalTree {
   const filled: NormalTree = {};
   const valueOf = (slot: DimensionSlot): LeafValue | NormalSection => {
-    const dimension = dimensions[slot.slot]!;
-    const value = values[slot.slot]!;
-    return dimension.kind === 'range' ? value : dimension.values[value]!;
+    const dimension = dimensions[slot.slot];
+    const value = values[slot.slot];
+    return dimension.kind === 'range' ? value : dimension.values[value];
   };
   for (const [name, section] of Object.entries(tree)) {
     if (isSlot(section)) {

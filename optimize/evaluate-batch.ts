@@ -58,7 +58,7 @@ export function evaluateBatchTask(
       hooks?.beforeDesign?.(task.start + row);
       space.valuesAt(task.start + row, values);
     } else {
-      for (let d = 0; d < dimensions; d++) values[d] = task.values[row * dimensions + d]!;
+      for (let d = 0; d < dimensions; d++) values[d] = task.values[row * dimensions + d];
     }
     result.values.set(values, row * dimensions);
     try {
@@ -72,13 +72,13 @@ export function evaluateBatchTask(
       const evaluation = evaluateDesign(sampled.design);
       if (evaluation.problems.length > 0) {
         result.status[row] = STATUS_PROBLEM;
-        const problem = evaluation.problems[0]!;
+        const problem = evaluation.problems[0];
         result.reasons.push([row, `${problem.field}: ${problem.reason}`]);
         continue;
       }
       let failure: string | null = null;
       for (let m = 0; m < METRIC_COUNT; m++) {
-        const value = evaluation.metrics[METRIC_KEYS[m]!];
+        const value = evaluation.metrics[METRIC_KEYS[m]];
         if (value === null || value === undefined) continue;
         if (!Number.isFinite(value)) {
           failure = `metric ${METRIC_KEYS[m]} is not finite (${value})`;

@@ -40,11 +40,11 @@ export function mixedSpaceOf(dimensions: readonly Dimension[]): MixedSpace {
 export function valuesOfPoint(dimensions: readonly Dimension[], space: MixedSpace, point: MixedPoint): Float64Array {
   const values = new Float64Array(dimensions.length);
   space.continuous.forEach(
-    (d, i) => (values[d] = dimensionValue(dimensions[d]!, Math.min(1, Math.max(0, point.continuous[i]!)))),
+    (d, i) => (values[d] = dimensionValue(dimensions[d], Math.min(1, Math.max(0, point.continuous[i])))),
   );
   space.discrete.forEach((d, i) => {
-    const dimension = dimensions[d]!;
-    const level = point.levels[i]!;
+    const dimension = dimensions[d];
+    const level = point.levels[i];
     if (dimension.kind === 'choose') values[d] = level;
     else if (dimension.integer) values[d] = Math.ceil(dimension.from) + level;
     else values[d] = dimension.from + dimension.step! * level;
@@ -60,9 +60,9 @@ export function pointOfValues(
 ): MixedPoint {
   const continuous = new Float64Array(space.continuous.length);
   space.continuous.forEach((d, i) => {
-    const dimension = dimensions[d]!;
+    const dimension = dimensions[d];
     if (dimension.kind !== 'range') return;
-    const value = values[d]!;
+    const value = values[d];
     const u =
       dimension.scale === 'log'
         ? Math.log(value / dimension.from) / Math.log(dimension.to / dimension.from)
@@ -71,12 +71,12 @@ export function pointOfValues(
   });
   const levels = new Int32Array(space.discrete.length);
   space.discrete.forEach((d, i) => {
-    const dimension = dimensions[d]!;
-    const value = values[d]!;
+    const dimension = dimensions[d];
+    const value = values[d];
     if (dimension.kind === 'choose') levels[i] = value;
     else if (dimension.integer) levels[i] = Math.round(value - Math.ceil(dimension.from));
     else levels[i] = Math.round((value - dimension.from) / dimension.step!);
-    levels[i] = Math.min(space.levelCounts[i]! - 1, Math.max(0, levels[i]!));
+    levels[i] = Math.min(space.levelCounts[i] - 1, Math.max(0, levels[i]));
   });
   return { continuous, levels };
 }

@@ -98,11 +98,11 @@ export async function refineSweep(
       ordered.map((entry) => entry.item.objectives),
       Math.min(options.starts, ordered.length),
     );
-    startValues = plan.starts.map((start) => valuesOfEntry(ordered[start.frontIndex]!));
+    startValues = plan.starts.map((start) => valuesOfEntry(ordered[start.frontIndex]));
     meritOfStart = (start) => (record) => ({
       violation: record.violation,
       value: record.objectives
-        ? chebyshevMerit(record.objectives, plan.starts[start]!.weights, plan.reference, plan.nadir)
+        ? chebyshevMerit(record.objectives, plan.starts[start].weights, plan.reference, plan.nadir)
         : Number.POSITIVE_INFINITY,
     });
   } else {
@@ -110,7 +110,7 @@ export async function refineSweep(
     startValues = ranked.map((entry) => valuesOfEntry(entry));
     meritOfStart = () => (record) => ({
       violation: record.violation,
-      value: record.objectives && objectiveCount === 1 ? record.objectives[0]! : 0,
+      value: record.objectives && objectiveCount === 1 ? record.objectives[0] : 0,
     });
   }
   const budget = Math.max(dimensions.length + 2, Math.floor(options.evaluations / Math.max(1, startValues.length)));

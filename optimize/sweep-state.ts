@@ -89,16 +89,16 @@ export class SweepState {
   objectiveVector(metrics: ArrayLike<number>, offset = 0): Float64Array | null {
     const vector = new Float64Array(this.objectives.length);
     for (let j = 0; j < this.objectives.length; j++) {
-      const value = metrics[offset + this.objectiveColumns[j]!]!;
+      const value = metrics[offset + this.objectiveColumns[j]];
       if (!Number.isFinite(value)) return null;
-      vector[j] = this.objectives[j]!.sense === 'maximize' ? -value : value;
+      vector[j] = this.objectives[j].sense === 'maximize' ? -value : value;
     }
     return vector;
   }
 
   /** Constraint violation of a metrics row (Deb 2000; missing constrained metric counts 1). */
   violationOf(metrics: ArrayLike<number>, offset = 0): number {
-    const values = this.constraintColumns.map((column) => metrics[offset + column]!);
+    const values = this.constraintColumns.map((column) => metrics[offset + column]);
     return totalViolation(values, this.constraints);
   }
 
@@ -114,7 +114,7 @@ export class SweepState {
   ): { violation: number; objectives: Float64Array; reason: string | null } {
     const metricCount = METRIC_KEYS.length;
     const offset = row * metricCount;
-    const status = result.status[row]!;
+    const status = result.status[row];
     if (count) this.counts.evaluated++;
     if (status !== STATUS_OK) {
       if (count) {
@@ -131,12 +131,12 @@ export class SweepState {
     let violation = this.violationOf(result.metrics, offset);
     if (count) {
       for (let c = 0; c < this.constraints.length; c++)
-        if (this.constraintMiss(result.metrics, offset, c) !== null) this.rejectedBy[c]!++;
+        if (this.constraintMiss(result.metrics, offset, c) !== null) this.rejectedBy[c]++;
     }
     const objectives = this.objectiveVector(result.metrics, offset);
     let reason: string | null = null;
     if (objectives === null) {
-      const missing = this.objectives.find((o) => !Number.isFinite(result.metrics[offset + metricIndex(o.metric)]!))!;
+      const missing = this.objectives.find((o) => !Number.isFinite(result.metrics[offset + metricIndex(o.metric)]))!;
       reason = `objective ${missing.metric} is not available for this design`;
       violation += 1;
     } else if (violation > 0) {
@@ -166,9 +166,9 @@ export class SweepState {
       metrics: Array.from(result.metrics.subarray(offset, offset + metricCount), (v) =>
         Number.isFinite(v) ? v : null,
       ),
-      status: result.status[row]!,
+      status: result.status[row],
       reason,
-      warnings: result.warningCounts[row]!,
+      warnings: result.warningCounts[row],
     };
   }
 
@@ -184,8 +184,8 @@ export class SweepState {
       if (violation === 0) {
         const offset = row * metricCount;
         const sampleRow: number[] = new Array(dimensionCount + metricCount);
-        for (let d = 0; d < dimensionCount; d++) sampleRow[d] = result.values[row * dimensionCount + d]!;
-        for (let m = 0; m < metricCount; m++) sampleRow[dimensionCount + m] = result.metrics[offset + m]!;
+        for (let d = 0; d < dimensionCount; d++) sampleRow[d] = result.values[row * dimensionCount + d];
+        for (let m = 0; m < metricCount; m++) sampleRow[dimensionCount + m] = result.metrics[offset + m];
         this.sample.offer(index, sampleRow);
       }
     }
@@ -197,15 +197,15 @@ export class SweepState {
     const words = { missing: 'not available', below: 'below its min', above: 'above its max' };
     for (let c = 0; c < this.constraints.length; c++) {
       const miss = this.constraintMiss(metrics, offset, c);
-      if (miss !== null) parts.push(`${this.constraints[c]!.metric} ${words[miss]}`);
+      if (miss !== null) parts.push(`${this.constraints[c].metric} ${words[miss]}`);
     }
     return parts.join('; ');
   }
 
   /** How a metrics row misses constraint c: its metric missing, below its min, above its max, or null. */
   private constraintMiss(metrics: ArrayLike<number>, offset: number, c: number): 'missing' | 'below' | 'above' | null {
-    const value = metrics[offset + this.constraintColumns[c]!]!;
-    const { min, max } = this.constraints[c]!;
+    const value = metrics[offset + this.constraintColumns[c]];
+    const { min, max } = this.constraints[c];
     if (!Number.isFinite(value)) return 'missing';
     if (min !== undefined && value < min) return 'below';
     if (max !== undefined && value > max) return 'above';
@@ -215,7 +215,7 @@ export class SweepState {
   /** Adds another state (another shard's): the result is the state of the union of their designs. */
   merge(other: SweepState): void {
     for (const key of Object.keys(this.counts) as Array<keyof SweepCounts>) this.counts[key] += other.counts[key];
-    other.rejectedBy.forEach((n, c) => (this.rejectedBy[c]! += n));
+    other.rejectedBy.forEach((n, c) => (this.rejectedBy[c] += n));
     this.pool.merge(other.pool);
     this.sample.merge(other.sample);
   }

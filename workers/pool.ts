@@ -115,7 +115,7 @@ export function createDesignPool(threads: number): {
 }
 
 function describeFailure(error: unknown): string {
-  if (error instanceof Error) return error.message.split('\n')[0]!;
+  if (error instanceof Error) return error.message.split('\n')[0];
   return String(error);
 }
 

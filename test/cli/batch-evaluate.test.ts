@@ -44,9 +44,9 @@ describe('coilfront evaluate --batch FILE.jsonl', () => {
 
   it('gives the same metrics as evaluating each design alone', async () => {
     const single = join(mkdtempSync(join(tmpdir(), 'coilfront-batch-')), 'one.json');
-    writeFileSync(single, lines[0]!);
+    writeFileSync(single, lines[0]);
     const alone = JSON.parse((await run(['evaluate', single, '--json'])).out);
-    const batch = JSON.parse((await run(['evaluate', '--batch', file, '--workers', '1'])).out.split('\n')[0]!);
+    const batch = JSON.parse((await run(['evaluate', '--batch', file, '--workers', '1'])).out.split('\n')[0]);
     expect(batch.metrics).toEqual(alone.metrics);
   });
 });

@@ -31,7 +31,7 @@ describe('frontPlotSvg(objectives, candidates, front)', () => {
   });
 
   it('plots one objective against rank', async () => {
-    const svg = await frontPlotSvg([objectives[1]!], candidates, front);
+    const svg = await frontPlotSvg([objectives[1]], candidates, front);
     expect(svg).toContain('rank');
   });
 });

@@ -110,16 +110,16 @@ describe('coilfront merge refuses an incomplete or mixed set of shards, naming e
   }
 
   it('a missing shard', async () => {
-    const line = await refused([shardDirs[0]!, shardDirs[2]!], 'missing shard');
+    const line = await refused([shardDirs[0], shardDirs[2]], 'missing shard');
     expect(line).toContain('shard 2/3 is missing');
   });
 
   it('a duplicated shard, naming both directories', async () => {
     const copy = area.dir('flag-1-copy');
-    cpSync(shardDirs[0]!, copy, { recursive: true });
+    cpSync(shardDirs[0], copy, { recursive: true });
     const line = await refused([...shardDirs, copy], 'duplicate shard');
     expect(line).toContain('shard 1/3 appears twice');
-    expect(line).toContain(shardDirs[0]!);
+    expect(line).toContain(shardDirs[0]);
     expect(line).toContain(copy);
   });
 
@@ -128,7 +128,7 @@ describe('coilfront merge refuses an incomplete or mixed set of shards, naming e
     writeFileSync(otherSpec, readFileSync(SMALL_SWEEP, 'utf8').replace('seed: 2026', 'seed: 7'));
     const foreign = area.dir('foreign-2');
     await runCliOk(['sweep', otherSpec, '--out', foreign, '--workers', '2', '--shard', '2/3', ...COMMON]);
-    const line = await refused([shardDirs[0]!, foreign, shardDirs[2]!], 'foreign shard');
+    const line = await refused([shardDirs[0], foreign, shardDirs[2]], 'foreign shard');
     expect(line).toContain(foreign);
     expect(line).toMatch(/another sweep file|seed 7/);
   });
@@ -149,7 +149,7 @@ describe('coilfront merge refuses an incomplete or mixed set of shards, naming e
       ...COMMON,
     ]);
     expect(stopped.code, stopped.stderr).toBe(TIME_LIMIT_EXIT_CODE);
-    const line = await refused([shardDirs[0]!, shardDirs[1]!, unfinished], 'unfinished shard');
+    const line = await refused([shardDirs[0], shardDirs[1], unfinished], 'unfinished shard');
     expect(line).toContain(`${unfinished} is not finished`);
     expect(line).toContain(`coilfront sweep --resume ${unfinished}`);
   });

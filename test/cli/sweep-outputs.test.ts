@@ -41,13 +41,13 @@ function si(row: Row, metric: string): number {
 /** Exact 2-D hypervolume of minimisation points (independent of optimize/: sort and sum rectangles). */
 function hypervolume2d(points: number[][], reference: number[]): number {
   const sorted = points
-    .filter((p) => p[0]! < reference[0]! && p[1]! < reference[1]!)
-    .sort((a, b) => a[0]! - b[0]! || a[1]! - b[1]!);
+    .filter((p) => p[0] < reference[0] && p[1] < reference[1])
+    .sort((a, b) => a[0] - b[0] || a[1] - b[1]);
   let area = 0;
-  let lastY = reference[1]!;
+  let lastY = reference[1];
   for (const [x, y] of sorted) {
     if (y! >= lastY) continue;
-    area += (reference[0]! - x!) * (lastY - y!);
+    area += (reference[0] - x!) * (lastY - y!);
     lastY = y!;
   }
   return area;
@@ -78,14 +78,14 @@ describe('the files of a sweep, checked from their own columns', () => {
     const rows = readRows(join(run, 'candidates.csv'));
     rows.forEach((row, i) => expect(Number(row.rank)).toBe(i + 1));
     for (let i = 1; i < rows.length; i++)
-      expect(Number(rows[i]!.pareto_rank)).toBeGreaterThanOrEqual(Number(rows[i - 1]!.pareto_rank));
+      expect(Number(rows[i].pareto_rank)).toBeGreaterThanOrEqual(Number(rows[i - 1].pareto_rank));
   });
 
   it('front.csv is non-dominated and is exactly the Pareto-rank-1 candidates', () => {
     const front = readRows(join(run, 'front.csv')).map((row) => [-si(row, 'breakout_voltage'), si(row, 'wire_mass')]);
     for (const a of front) {
       for (const b of front) {
-        const dominates = b[0]! <= a[0]! && b[1]! <= a[1]! && (b[0]! < a[0]! || b[1]! < a[1]!);
+        const dominates = b[0] <= a[0] && b[1] <= a[1] && (b[0] < a[0] || b[1] < a[1]);
         expect(dominates).toBe(false);
       }
     }
@@ -118,7 +118,7 @@ describe('the files of a sweep, checked from their own columns', () => {
       const file = join(root, `rank-${rank}.yaml`);
       writeFileSync(file, shown.out);
       const evaluated = JSON.parse((await cli(['evaluate', file, '--json'])).out);
-      const row = rows[rank - 1]!;
+      const row = rows[rank - 1];
       for (const metric of [
         'breakout_voltage',
         'wire_mass',

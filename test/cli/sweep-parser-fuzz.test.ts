@@ -420,7 +420,7 @@ describe('coilfront check FILE on mutated sweep files', () => {
     ['secondary', 1e184, 'secondary.turns: 1e+184 turns is beyond the 100000'],
   ])('a %s of %d turns is an impossible design with its reason, found at once', async (section, turns, reason) => {
     const design = firstCorner(base.design) as Record<string, Record<string, unknown>>;
-    design[section]!.turns = turns;
+    design[section].turns = turns;
     const file = area.dir(`huge-${section}-${turns}.yaml`);
     writeFileSync(file, stringifyYaml(design));
     let stderr = '';
@@ -446,7 +446,7 @@ describe('coilfront check FILE on mutated sweep files', () => {
     let next = 0;
     const worker = async (): Promise<void> => {
       while (next < files.length) {
-        const file = files[next++]!;
+        const file = files[next++];
         const result = await runCli(['check', file, '--workers', '1']);
         expectCheckContract(file, result.code, result.stdout, result.stderr);
         outcomes[result.code!]++;

@@ -30,9 +30,9 @@ describe('sweepFromValue(value, file)', () => {
       'topload.outer_diameter',
       'topload.tube_diameter',
     ]);
-    const turns = spec.dimensions[2]!;
+    const turns = spec.dimensions[2];
     expect(turns).toMatchObject({ kind: 'range', from: 600, to: 1400, integer: true });
-    const base = spec.dimensions[3]!;
+    const base = spec.dimensions[3];
     expect(base).toMatchObject({ kind: 'range', quantity: 'length', from: 0.4, to: 0.9, integer: false });
     expect(spec.constraints).toEqual([
       { metric: 'overall_height', max: 2.4 },

@@ -64,14 +64,14 @@ describe('a worker that exits while evaluating a batch', () => {
     const failedIndices = [250, 251, 252, 253, 254, 255];
     const crashedRows = rowsOf(directory);
     const cleanRows = rowsOf(clean);
-    const column = indexColumn(crashedRows[0]!);
+    const column = indexColumn(crashedRows[0]);
     expect(crashedRows).toHaveLength(cleanRows.length);
     for (let row = 1; row < cleanRows.length; row++) {
-      const index = Number(crashedRows[row]!.split(',')[column]);
+      const index = Number(crashedRows[row].split(',')[column]);
       expect(index).toBe(row - 1);
       if (failedIndices.includes(index)) {
         expect(crashedRows[row]).toMatch(/worker failed twice on this batch: .*exited/);
-        expect(crashedRows[row]!.split(',')[3]).toBe('false'); // feasible
+        expect(crashedRows[row].split(',')[3]).toBe('false'); // feasible
       } else {
         expect(crashedRows[row], `row of index ${index}`).toBe(cleanRows[row]);
       }

@@ -33,7 +33,7 @@ describe('DesignSpace.designAt(index)', () => {
       expect(values[3]).toBeGreaterThanOrEqual(0.4);
       expect(values[3]).toBeLessThanOrEqual(0.9);
       expect(design!.secondary!.turns).toBe(values[2]);
-      expect(design!.secondary!.formDiameter).toBe([0.16, 0.2, 0.25][values[0]!]);
+      expect(design!.secondary!.formDiameter).toBe([0.16, 0.2, 0.25][values[0]]);
     }
   });
 
@@ -62,7 +62,7 @@ describe('SweepState.offerBatch(result)', () => {
 
   const fill = (order: number[]) => {
     const state = new SweepState(spec.objectives, spec.constraints, 50, spec.seed);
-    for (const b of order) state.offerBatch(batches[b]!, spec.dimensions.length);
+    for (const b of order) state.offerBatch(batches[b], spec.dimensions.length);
     return state;
   };
 
@@ -104,7 +104,7 @@ describe('SweepState.offerBatch(result)', () => {
     for (const entry of ranked) {
       const metrics = unpackRow(entry.payload).metrics;
       // The stored row equals the evaluation of that sample.
-      const batch = batches[Math.floor(entry.item.index / 60)]!;
+      const batch = batches[Math.floor(entry.item.index / 60)];
       const offset = (entry.item.index % 60) * METRIC_KEYS.length;
       expect(metrics).toEqual(
         Array.from(batch.metrics.subarray(offset, offset + METRIC_KEYS.length), (v) => (Number.isFinite(v) ? v : null)),
@@ -127,6 +127,6 @@ describe('SweepState.offerBatch(result)', () => {
   it('the in-process evaluator gives the same rows as evaluating the batch directly', async () => {
     const evaluator = inProcessEvaluator(space);
     const result = await evaluator.evaluate({ kind: 'indices', start: 60, count: 60 });
-    expect(Array.from(result.metrics)).toEqual(Array.from(batches[1]!.metrics));
+    expect(Array.from(result.metrics)).toEqual(Array.from(batches[1].metrics));
   });
 });
