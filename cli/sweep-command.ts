@@ -56,7 +56,7 @@ import { candidateCells, columnSet } from './sweep-columns.ts';
 import { writeSweepOutputs, type RunIdentity } from './sweep-outputs.ts';
 import { loadSweepFile, sweepFromValue, type SweepSpec } from './sweep-spec.ts';
 import { parseInputText } from './read-file.ts';
-import { formatTopCandidates } from './top-candidates.ts';
+import { formatTopCandidates, NO_FEASIBLE_EXIT_CODE } from './top-candidates.ts';
 
 export interface SweepOptions {
   out?: string;
@@ -557,7 +557,8 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
       return stop.exitCode();
     }
     if (!options.quiet) io.out(formatTopCandidates(directory, spec, state, 5));
-    return 0;
+    else if (state.counts.feasible === 0) io.err(`coilfront: no feasible design in ${directory}; see infeasible.csv\n`);
+    return state.counts.feasible === 0 && !record.shard ? NO_FEASIBLE_EXIT_CODE : 0;
   };
   try {
     return await runLoop();
