@@ -2,6 +2,8 @@
  * `coilfront evaluate --batch FILE.jsonl` (or `-` for stdin): one design (JSON) per line in, one JSON
  * result per line out, in input order, evaluated in the worker pool in chunks. A bad line gives
  * `{ "line": n, "error": "..." }` and the rest go on; the exit code is 2 if any line was bad.
+ * Answers stream: each chunk's lines are written as soon as it and the chunks before it are done, and
+ * a partial chunk is sent when the input pauses, so a client can keep one process and exchange batches.
  */
 import { createReadStream } from 'node:fs';
 import { createInterface } from 'node:readline';
@@ -13,7 +15,12 @@ import { fieldError, InputError } from './input-error.ts';
 import type { CliIo } from './io.ts';
 import { designFromValue, type LoadedDesign } from './load-design.ts';
 
+/** Designs per pool task. */
 const CHUNK = 32;
+/** Chunks evaluated or waiting to be written, per worker, before reading pauses. */
+const IN_FLIGHT_PER_WORKER = 2;
+/** A partial chunk is sent once no input line has arrived for this long, ms. */
+const IDLE_FLUSH_MS = 5;
 
 type Line = { line: number; error: string } | { line: number; loaded: LoadedDesign; where: string };
 
@@ -37,43 +44,38 @@ export async function batchEvaluate(file: string, io: CliIo, options: { workers?
   let openError: NodeJS.ErrnoException | null = null;
   input.on('error', (error: NodeJS.ErrnoException) => (openError = error));
   const lines = createInterface({ input, crlfDelay: Infinity });
-  const pool = createDesignPool(options.workers ?? defaultWorkerCount());
-  const inFlight: Array<Promise<string>> = [];
-  const limit = 2 * Math.max(1, options.workers ?? defaultWorkerCount());
+  const workers = options.workers ?? defaultWorkerCount();
+  const pool = createDesignPool(workers);
+  const limit = IN_FLIGHT_PER_WORKER * Math.max(1, workers);
+  // Each chunk's answers are written as soon as it and every chunk before it are done (input order);
+  // `written` is the chain of those writes, `inFlight` the chunks not yet written (for backpressure).
+  let written: Promise<void> = Promise.resolve();
+  const inFlight: Array<Promise<void>> = [];
+  let failure: unknown = null;
   let bad = 0;
   let chunk: Line[] = [];
+  let idleTimer: NodeJS.Timeout | null = null;
   const send = () => {
-    const lines_ = chunk;
+    if (idleTimer !== null) clearTimeout(idleTimer);
+    idleTimer = null;
+    if (chunk.length === 0) return;
+    const sent = chunk;
     chunk = [];
-    const designs: Design[] = lines_.flatMap((l) => ('loaded' in l ? [l.loaded.design] : []));
+    const designs: Design[] = sent.flatMap((l) => ('loaded' in l ? [l.loaded.design] : []));
     const evaluated = designs.length > 0 ? pool.evaluate(designs) : Promise.resolve([] as Evaluation[]);
-    inFlight.push(
-      evaluated.then((evaluations) => {
-        let next = 0;
-        return lines_
-          .map((l) => {
-            if (!('loaded' in l)) {
-              bad++;
-              return JSON.stringify({ line: l.line, error: l.error });
-            }
-            const evaluation = evaluations[next++];
-            if (evaluation.problems.length > 0) {
-              bad++;
-              const problem = evaluation.problems[0];
-              return JSON.stringify({
-                line: l.line,
-                error: fieldError(l.where, { path: problem.field.split('.'), message: problem.reason }).message,
-              });
-            }
-            return JSON.stringify({ line: l.line, ...evaluationJson(l.loaded.tree, evaluation) });
-          })
-          .map((text) => `${text}\n`)
-          .join('');
-      }),
-    );
+    const answers = evaluated.then((evaluations) => answerLines(sent, evaluations, () => bad++));
+    written = written
+      .then(() => answers)
+      .then((text) => io.out(text))
+      .catch((error: unknown) => {
+        failure ??= error;
+      });
+    inFlight.push(written);
   };
-  const drain = async (all: boolean) => {
-    while (inFlight.length > (all ? 0 : limit)) io.out(await inFlight.shift()!);
+  // A client that writes a few lines and waits with the pipe open gets its answers: a partial chunk
+  // is sent once no line has arrived for IDLE_FLUSH_MS.
+  const sendWhenIdle = () => {
+    if (idleTimer === null) idleTimer = setTimeout(send, IDLE_FLUSH_MS);
   };
   let lineNumber = 0;
   try {
@@ -81,21 +83,48 @@ export async function batchEvaluate(file: string, io: CliIo, options: { workers?
       lineNumber++;
       if (text.trim() === '') continue;
       chunk.push(readLine(text, lineNumber, `${file === '-' ? 'stdin' : file} line ${lineNumber}`));
-      if (chunk.length >= CHUNK) {
-        send();
-        await drain(false);
-      }
+      if (chunk.length >= CHUNK) send();
+      else sendWhenIdle();
+      while (inFlight.length > limit) await inFlight.shift();
     }
-    if (chunk.length > 0) send();
-    await drain(true);
+    send();
+    await written;
   } catch (error) {
     if (openError)
       throw new InputError(`${file}: cannot be read (${(openError as NodeJS.ErrnoException).code ?? 'error'})`);
     throw error;
   } finally {
+    if (idleTimer !== null) clearTimeout(idleTimer);
+    await written;
     await pool.close();
   }
+  if (failure !== null) throw failure;
   if (openError)
     throw new InputError(`${file}: cannot be read (${(openError as NodeJS.ErrnoException).code ?? 'error'})`);
   return bad > 0 ? 2 : 0;
+}
+
+/** The answer lines of one chunk, in input order: a result, or the line's error (counted by `onBad`). */
+function answerLines(sent: readonly Line[], evaluations: readonly Evaluation[], onBad: () => void): string {
+  let next = 0;
+  return sent
+    .map((l) => {
+      if (!('loaded' in l)) {
+        onBad();
+        return JSON.stringify({ line: l.line, error: l.error });
+      }
+      const evaluation = evaluations[next++];
+      if (!evaluation) throw new Error(`the pool returned ${evaluations.length} evaluations for a longer chunk`);
+      const problem = evaluation.problems[0];
+      if (problem) {
+        onBad();
+        return JSON.stringify({
+          line: l.line,
+          error: fieldError(l.where, { path: problem.field.split('.'), message: problem.reason }).message,
+        });
+      }
+      return JSON.stringify({ line: l.line, ...evaluationJson(l.loaded.tree, evaluation) });
+    })
+    .map((text) => `${text}\n`)
+    .join('');
 }
