@@ -26,7 +26,7 @@ const unbounded = (n: number) => ({ lower: new Array(n).fill(-Infinity), upper: 
 
 describe('minimize(rosenbrock) against scipy', () => {
   test('2-D from (−1.2, 1), xatol = fatol = 1e-8: 219 evaluations, scipy nit 117 [X]; reaches (1, 1)', () => {
-    // 219 evaluations is also the figure quoted for scipy in issue 7 (order-of-magnitude check).
+    // 219 evaluations is also the figure scipy gives for this case (order-of-magnitude check).
     const result = minimize(rosenbrock, [-1.2, 1], { ...unbounded(2), xatol: 1e-8, fatol: 1e-8 });
     expect(result.status).toBe('converged');
     expect(result.evaluations).toBe(219);
