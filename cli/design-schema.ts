@@ -392,6 +392,7 @@ function readChoose(
   path: string[],
   state: WalkState,
   readOne: (item: unknown, itemPath: Array<string | number>) => LeafValue | NormalSection | undefined,
+  field?: FieldSpec,
 ): DimensionSlot | undefined {
   const keys = Object.keys(input);
   if (keys.length !== 1) {
@@ -417,7 +418,14 @@ function readChoose(
     if (value === undefined) return undefined;
     values.push(value);
   }
-  state.dimensions.push({ kind: 'choose', path, values, labels: items.map(labelOf) });
+  state.dimensions.push({
+    kind: 'choose',
+    path,
+    values,
+    labels: items.map(labelOf),
+    ...(field?.type === 'quantity' ? { quantity: field.kind } : {}),
+    ...(field?.type === 'wire' ? { wire: true } : {}),
+  });
   return { slot: state.dimensions.length - 1 };
 }
 
@@ -495,7 +503,13 @@ function readSection(
     if (state.mode === 'sweep' && isMapping(value) && ('from' in value || 'to' in value || 'choose' in value)) {
       const slot =
         'choose' in value
-          ? readChoose(value, fieldPath, state, (item, itemPath) => readLeaf(field, item, itemPath, state.issues))
+          ? readChoose(
+              value,
+              fieldPath,
+              state,
+              (item, itemPath) => readLeaf(field, item, itemPath, state.issues),
+              field,
+            )
           : readRange(field, value, fieldPath, state);
       if (slot === undefined) return undefined;
       output[key] = slot;

@@ -66,7 +66,7 @@ describe('the files of a sweep, checked from their own columns', () => {
     const rows = readRows(join(run, 'candidates.csv'));
     expect(rows.length).toBeGreaterThan(0);
     for (const row of rows) {
-      expect(row.feasible).toBe('true');
+      expect(row.feasible).toBe('1');
       expect(si(row, 'overall_height')).toBeLessThanOrEqual(2.4 * (1 + 1e-12));
       expect(si(row, 'resonant_frequency')).toBeGreaterThanOrEqual(90e3 * (1 - 1e-12));
       expect(si(row, 'resonant_frequency')).toBeLessThanOrEqual(300e3 * (1 + 1e-12));

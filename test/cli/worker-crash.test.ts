@@ -71,7 +71,7 @@ describe('a worker that exits while evaluating a batch', () => {
       expect(index).toBe(row - 1);
       if (failedIndices.includes(index)) {
         expect(crashedRows[row]).toMatch(/worker failed twice on this batch: .*exited/);
-        expect(crashedRows[row].split(',')[3]).toBe('false'); // feasible
+        expect(crashedRows[row].split(',')[3]).toBe('0'); // feasible
       } else {
         expect(crashedRows[row], `row of index ${index}`).toBe(cleanRows[row]);
       }
