@@ -53,14 +53,33 @@ function readCsvRows(path: string): Record<string, string>[] {
 export function showCommand(
   directory: string,
   rankText: string | undefined,
-  options: { refined?: string },
+  options: { refined?: string; sample?: string },
   io: CliIo,
 ): number {
   const spec = loadRunSpec(directory);
   const space = new DesignSpace(spaceDefinitionOf(spec));
+  if (options.sample !== undefined) {
+    const index = Number(options.sample);
+    if (!/^\d+$/.test(options.sample) || index >= spec.samples)
+      throw new InputError(
+        `show --sample: expected a sample index 0 … ${spec.samples - 1} (the sample_index column), got '${options.sample}'`,
+      );
+    io.out(
+      treeToYaml(space.designAt(index).tree, [
+        `sample ${index} of ${directory}`,
+        'SI units; practical units in the comments',
+      ]),
+    );
+    return 0;
+  }
+  // A refined design is known by its id in refined.csv: `show RUN r3` (or --refined 3).
+  const refinedId = rankText !== undefined ? /^r(\d+)$/.exec(rankText) : null;
+  if (refinedId) options = { ...options, refined: refinedId[1] };
   const wanted = options.refined ?? rankText;
   if (wanted === undefined || !/^\d+$/.test(wanted) || Number(wanted) < 1) {
-    throw new InputError(`show: expected a rank (1, 2, …), got '${wanted ?? ''}'`);
+    throw new InputError(
+      `show: expected a rank in candidates.csv (1, 2, …), a refined id (r1, r2, …) or --sample I, got '${wanted ?? ''}'`,
+    );
   }
   const rank = Number(wanted);
   if (options.refined !== undefined) {

@@ -90,7 +90,7 @@ export function metricCells(metrics: ReadonlyArray<number | null>): Cell[] {
 }
 
 export interface RankedCells {
-  rank: number;
+  rank: number | null;
   paretoRank: number | null;
   crowding: number | null;
   feasible: boolean;
