@@ -1,6 +1,6 @@
 /**
  * `coilfront show RUN_DIR RANK` prints the complete design file of a ranked candidate (or, with
- * `--refined`, of a refined design), in SI numbers with practical units as comments, so that a row
+ * `--refined`, of a refined design), in each quantity in a practical unit with the fewest digits that read back exactly, so that a row
  * of the spreadsheet goes straight to `coilfront evaluate` and gives the same metrics.
  */
 import { existsSync, readFileSync } from 'node:fs';
@@ -10,6 +10,7 @@ import { DesignSpace } from '../optimize/design-space.ts';
 import { isSlot, type NormalTree } from '../optimize/design-tree.ts';
 import { DESIGN_SECTIONS, sectionFields } from './design-fields.ts';
 import { KIND_DISPLAY, formatNumber } from './display-units.ts';
+import { exactQuantityText } from './units.ts';
 import { InputError } from './input-error.ts';
 import type { CliIo } from './io.ts';
 import { RUN_FILES } from './run-directory.ts';
@@ -35,8 +36,14 @@ export function treeToYaml(tree: NormalTree, heading: string[]): string {
             : `  ${key}: ${value.bareDiameter}  # ${formatNumber(value.bareDiameter * 1000, 6)} mm`,
         );
       } else if (typeof value === 'number' && field?.type === 'quantity' && field.kind !== 'dimensionless') {
+        // In a practical unit, with the fewest digits that read back to exactly this SI value.
+        const exact = exactQuantityText(value, field.kind);
         const display = KIND_DISPLAY[field.kind];
-        lines.push(`  ${key}: ${value}  # ${formatNumber(value / display.divisor, 6)} ${display.label}`);
+        lines.push(
+          exact !== null
+            ? `  ${key}: ${exact}`
+            : `  ${key}: ${value}  # ${formatNumber(value / display.divisor, 6)} ${display.label}`,
+        );
       } else {
         lines.push(`  ${key}: ${typeof value === 'string' ? value : String(value)}`);
       }
@@ -67,7 +74,7 @@ export function showCommand(
     io.out(
       treeToYaml(space.designAt(index).tree, [
         `sample ${index} of ${directory}`,
-        'SI units; practical units in the comments',
+        'each value in a practical unit that reads back exactly',
       ]),
     );
     return 0;
@@ -94,7 +101,10 @@ export function showCommand(
       );
     const sampled = space.designOf(entry.values);
     io.out(
-      treeToYaml(sampled.tree, [`refined design ${rank} of ${directory}`, 'SI units; practical units in the comments']),
+      treeToYaml(sampled.tree, [
+        `refined design ${rank} of ${directory}`,
+        'each value in a practical unit that reads back exactly',
+      ]),
     );
     return 0;
   }
@@ -107,7 +117,7 @@ export function showCommand(
   io.out(
     treeToYaml(sampled.tree, [
       `candidate ${rank} of ${directory} (sample ${index})`,
-      'SI units; practical units in the comments',
+      'each value in a practical unit that reads back exactly',
     ]),
   );
   return 0;
