@@ -2,6 +2,8 @@
  * `coilfront evaluate --batch FILE.jsonl` (or `-` for stdin): one design (JSON) per line in, one JSON
  * result per line out, in input order, evaluated in the worker pool in chunks. A bad line gives
  * `{ "line": n, "error": "..." }` and the rest go on; the exit code is 2 if any line was bad.
+ * Answers stream: each chunk's lines are written as soon as it and the chunks before it are done, and
+ * a partial chunk is sent when the input pauses, so a client can keep one process and exchange batches.
  */
 import { createReadStream } from 'node:fs';
 import { createInterface } from 'node:readline';
@@ -13,7 +15,12 @@ import { fieldError, InputError } from './input-error.ts';
 import type { CliIo } from './io.ts';
 import { designFromValue, type LoadedDesign } from './load-design.ts';
 
+/** Designs per pool task. */
 const CHUNK = 32;
+/** Chunks evaluated or waiting to be written, per worker, before reading pauses. */
+const IN_FLIGHT_PER_WORKER = 2;
+/** A partial chunk is sent once no input line has arrived for this long, ms. */
+const IDLE_FLUSH_MS = 5;
 
 type Line = { line: number; error: string } | { line: number; loaded: LoadedDesign; where: string };
 
@@ -35,95 +42,89 @@ function readLine(text: string, lineNumber: number, where: string): Line {
 export async function batchEvaluate(file: string, io: CliIo, options: { workers?: number } = {}): Promise<number> {
   const input = file === '-' ? process.stdin : createReadStream(file);
   let openError: NodeJS.ErrnoException | null = null;
+  input.on('error', (error: NodeJS.ErrnoException) => (openError = error));
   const lines = createInterface({ input, crlfDelay: Infinity });
-  const pool = createDesignPool(options.workers ?? defaultWorkerCount());
-  // Chunks in flight; past this many, reading pauses until the oldest one has been answered.
-  const limit = 2 * Math.max(1, options.workers ?? defaultWorkerCount());
+  const workers = options.workers ?? defaultWorkerCount();
+  const pool = createDesignPool(workers);
+  const limit = IN_FLIGHT_PER_WORKER * Math.max(1, workers);
+  // Each chunk's answers are written as soon as it and every chunk before it are done (input order);
+  // `written` is the chain of those writes, `inFlight` the chunks not yet written (for backpressure).
+  let written: Promise<void> = Promise.resolve();
+  const inFlight: Array<Promise<void>> = [];
+  let failure: unknown = null;
   let bad = 0;
   let chunk: Line[] = [];
-  let inFlight = 0;
-  let failure: unknown = null;
-  // Answers go out in input order: each chunk's text is written as soon as it and every chunk before it
-  // are done, not when the input ends, so a client can keep the pipe open and exchange batches.
-  let output: Promise<void> = Promise.resolve();
-  const format = (lines_: Line[], evaluations: Evaluation[]): string => {
-    let next = 0;
-    return lines_
-      .map((l) => {
-        if (!('loaded' in l)) {
-          bad++;
-          return JSON.stringify({ line: l.line, error: l.error });
-        }
-        const evaluation = evaluations[next++];
-        if (evaluation.problems.length > 0) {
-          bad++;
-          const problem = evaluation.problems[0];
-          return JSON.stringify({
-            line: l.line,
-            error: fieldError(l.where, { path: problem.field.split('.'), message: problem.reason }).message,
-          });
-        }
-        return JSON.stringify({ line: l.line, ...evaluationJson(l.loaded.tree, evaluation) });
-      })
-      .map((text) => `${text}\n`)
-      .join('');
-  };
+  let idleTimer: NodeJS.Timeout | null = null;
   const send = () => {
-    const lines_ = chunk;
+    if (idleTimer !== null) clearTimeout(idleTimer);
+    idleTimer = null;
+    if (chunk.length === 0) return;
+    const sent = chunk;
     chunk = [];
-    const designs: Design[] = lines_.flatMap((l) => ('loaded' in l ? [l.loaded.design] : []));
+    const designs: Design[] = sent.flatMap((l) => ('loaded' in l ? [l.loaded.design] : []));
     const evaluated = designs.length > 0 ? pool.evaluate(designs) : Promise.resolve([] as Evaluation[]);
-    // A rejection is seen by the output chain below; this keeps it from being reported unhandled first.
-    evaluated.catch(() => {});
-    inFlight++;
-    if (inFlight > limit) lines.pause();
-    output = output
-      .then(() => evaluated)
-      .then((evaluations) => {
-        if (failure === null) io.out(format(lines_, evaluations));
-      })
+    const answers = evaluated.then((evaluations) => answerLines(sent, evaluations, () => bad++));
+    written = written
+      .then(() => answers)
+      .then((text) => io.out(text))
       .catch((error: unknown) => {
         failure ??= error;
-      })
-      .finally(() => {
-        inFlight--;
-        if (inFlight <= limit) lines.resume();
       });
+    inFlight.push(written);
+  };
+  // A client that writes a few lines and waits with the pipe open gets its answers: a partial chunk
+  // is sent once no line has arrived for IDLE_FLUSH_MS.
+  const sendWhenIdle = () => {
+    if (idleTimer === null) idleTimer = setTimeout(send, IDLE_FLUSH_MS);
   };
   let lineNumber = 0;
-  let flushScheduled = false;
-  const where = file === '-' ? 'stdin' : file;
   try {
-    await new Promise<void>((resolveRead) => {
-      input.on('error', (error: NodeJS.ErrnoException) => {
-        openError = error;
-        resolveRead();
-      });
-      lines.on('close', () => resolveRead());
-      lines.on('line', (text) => {
-        lineNumber++;
-        if (text.trim() === '') return;
-        chunk.push(readLine(text, lineNumber, `${where} line ${lineNumber}`));
-        if (chunk.length >= CHUNK) send();
-        // Whatever a read delivered is sent once its lines are parsed, full chunk or not: a client that
-        // writes a short batch and waits gets its answers without closing its end of the pipe.
-        if (!flushScheduled) {
-          flushScheduled = true;
-          setImmediate(() => {
-            flushScheduled = false;
-            if (chunk.length > 0) send();
-          });
-        }
-      });
-    });
-    if (chunk.length > 0) send();
-    await output;
-    if (failure !== null) throw failure;
+    for await (const text of lines) {
+      lineNumber++;
+      if (text.trim() === '') continue;
+      chunk.push(readLine(text, lineNumber, `${file === '-' ? 'stdin' : file} line ${lineNumber}`));
+      if (chunk.length >= CHUNK) send();
+      else sendWhenIdle();
+      while (inFlight.length > limit) await inFlight.shift();
+    }
+    send();
+    await written;
+  } catch (error) {
+    if (openError)
+      throw new InputError(`${file}: cannot be read (${(openError as NodeJS.ErrnoException).code ?? 'error'})`);
+    throw error;
   } finally {
-    lines.close();
+    if (idleTimer !== null) clearTimeout(idleTimer);
+    await written;
     await pool.close();
   }
+  if (failure !== null) throw failure;
   if (openError)
     throw new InputError(`${file}: cannot be read (${(openError as NodeJS.ErrnoException).code ?? 'error'})`);
   return bad > 0 ? 2 : 0;
+}
+
+/** The answer lines of one chunk, in input order: a result, or the line's error (counted by `onBad`). */
+function answerLines(sent: readonly Line[], evaluations: readonly Evaluation[], onBad: () => void): string {
+  let next = 0;
+  return sent
+    .map((l) => {
+      if (!('loaded' in l)) {
+        onBad();
+        return JSON.stringify({ line: l.line, error: l.error });
+      }
+      const evaluation = evaluations[next++];
+      if (!evaluation) throw new Error(`the pool returned ${evaluations.length} evaluations for a longer chunk`);
+      const problem = evaluation.problems[0];
+      if (problem) {
+        onBad();
+        return JSON.stringify({
+          line: l.line,
+          error: fieldError(l.where, { path: problem.field.split('.'), message: problem.reason }).message,
+        });
+      }
+      return JSON.stringify({ line: l.line, ...evaluationJson(l.loaded.tree, evaluation) });
+    })
+    .map((text) => `${text}\n`)
+    .join('');
 }

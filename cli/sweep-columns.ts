@@ -3,6 +3,7 @@
  * parameter, every metric of the contract, each column with its unit in the name
  * (`secondary.form_diameter_mm`, `resonant_frequency_kHz`, `wire_length_m`). The order is stable.
  */
+import { warningKeysOf } from '../core/outcome/warnings.ts';
 import { METRICS } from '../core/metrics.ts';
 import type { Dimension } from '../optimize/design-tree.ts';
 import type { CandidateRow } from '../optimize/sweep-state.ts';
@@ -83,7 +84,7 @@ export function candidateCells(dimensions: readonly Dimension[], ranked: RankedC
     ranked.index,
     ...parameterCells(dimensions, row.values),
     ...metricCells(row.metrics),
-    row.warnings,
+    warningKeysOf(row.warningMask).join(';'),
     row.reason,
   ];
 }

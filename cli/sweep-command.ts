@@ -56,7 +56,7 @@ import { candidateCells, columnSet } from './sweep-columns.ts';
 import { writeSweepOutputs, type RunIdentity } from './sweep-outputs.ts';
 import { loadSweepFile, sweepFromValue, type SweepSpec } from './sweep-spec.ts';
 import { parseInputText } from './read-file.ts';
-import { formatTopCandidates } from './top-candidates.ts';
+import { formatTopCandidates, NO_FEASIBLE_EXIT_CODE } from './top-candidates.ts';
 
 export interface SweepOptions {
   out?: string;
@@ -524,7 +524,7 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
       const message =
         failure instanceof DiskError ? failure.message : failure instanceof Error ? failure.message : String(failure);
       io.err(
-        `coilfront: the sweep stopped: ${message}\n  the last good checkpoint in ${directory} can be resumed with: coilfront sweep --resume ${directory}\n`,
+        `coilfront: the sweep stopped: ${message}\n  the last good checkpoint in ${directory} can be resumed with: npx coilfront sweep --resume ${directory}\n`,
       );
       return 1;
     }
@@ -543,7 +543,7 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
     } catch (error) {
       const diskError = error instanceof DiskError ? error : toDiskError(error, directory, 'write');
       io.err(
-        `coilfront: ${diskError.message}\n  the last good checkpoint in ${directory} can be resumed with: coilfront sweep --resume ${directory}\n`,
+        `coilfront: ${diskError.message}\n  the last good checkpoint in ${directory} can be resumed with: npx coilfront sweep --resume ${directory}\n`,
       );
       return 1;
     }
@@ -552,12 +552,13 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
       const why =
         stop.reason === 'time-limit' ? 'the time limit was reached' : `${stop.signal ?? 'a signal'} was received`;
       io.err(
-        `stopped: ${why} after ${state.counts.evaluated} of ${range[1] - range[0]} designs; outputs so far are in ${directory}\n  resume with: coilfront sweep --resume ${directory}\n`,
+        `stopped: ${why} after ${state.counts.evaluated} of ${range[1] - range[0]} designs; outputs so far are in ${directory}\n  resume with: npx coilfront sweep --resume ${directory}\n`,
       );
       return stop.exitCode();
     }
     if (!options.quiet) io.out(formatTopCandidates(directory, spec, state, 5));
-    return 0;
+    else if (state.counts.feasible === 0) io.err(`coilfront: no feasible design in ${directory}; see infeasible.csv\n`);
+    return state.counts.feasible === 0 && !record.shard ? NO_FEASIBLE_EXIT_CODE : 0;
   };
   try {
     return await runLoop();

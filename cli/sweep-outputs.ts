@@ -11,7 +11,7 @@ import { METRIC_KEYS } from '../core/metrics.ts';
 import type { Dimension } from '../optimize/design-tree.ts';
 import { defaultReferencePoint, hypervolume } from '../optimize/pareto/hypervolume.ts';
 import type { CandidatePool, RankedEntry } from '../optimize/pareto/candidate-pool.ts';
-import type { SweepState } from '../optimize/sweep-state.ts';
+import { type SweepState, sortedCounts } from '../optimize/sweep-state.ts';
 import { unpackRow, type PackedRow } from '../optimize/packed-row.ts';
 import { toCsv, type Cell } from './csv.ts';
 import { writeFileAtomicSync } from './durable/atomic-write.ts';
@@ -145,6 +145,7 @@ export function summaryObject(
     keep: identity.keep,
     counts: { ...state.counts },
     constraints: spec.constraints.map((constraint, c) => ({ ...constraint, rejected: state.rejectedBy[c] })),
+    impossible_by: sortedCounts(state.impossibleBy),
     objectives: spec.objectives,
     front_size: front.length,
     hypervolume: frontHypervolume(front, spec.referencePoint),

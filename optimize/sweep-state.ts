@@ -31,7 +31,8 @@ export interface CandidateRow {
   metrics: Array<number | null>;
   status: number;
   reason: string | null;
-  warnings: number;
+  /** The row's warnings as a bit mask over WARNING_KEYS (core/outcome/warnings.ts). */
+  warningMask: number;
 }
 
 /** Violation given to designs that could not be built (after every evaluated infeasible design). */
@@ -55,6 +56,8 @@ export interface SweepStateData {
   version: 1;
   counts: SweepCounts;
   rejectedBy: number[];
+  /** Designs that could not be built, counted by the kind of their reason (absent in older files). */
+  impossibleBy?: Record<string, number>;
   pool: CandidatePoolData<PackedRowData>;
   sample: IndexSampleData<number[]>;
 }
@@ -65,6 +68,8 @@ export const SUMMARY_SAMPLE_SIZE = 10_000;
 export class SweepState {
   counts: SweepCounts = { evaluated: 0, feasible: 0, infeasible: 0, impossible: 0, failed: 0 };
   rejectedBy: number[];
+  /** Designs that could not be built, by the kind of their reason (reasonKind). */
+  impossibleBy: Record<string, number>;
   /** The candidates, each with its packed row (built only for the ones kept). */
   pool: CandidatePool<PackedRow>;
   /** Feasible designs: dimension values followed by metrics (NaN as null). */
@@ -79,6 +84,7 @@ export class SweepState {
     readonly seed: number,
   ) {
     this.rejectedBy = constraints.map(() => 0);
+    this.impossibleBy = {};
     this.pool = new CandidatePool<PackedRow>(keep, objectives.length);
     this.sample = new IndexSample<number[]>(SUMMARY_SAMPLE_SIZE, seed);
     this.constraintColumns = constraints.map((c) => metricIndex(c.metric));
@@ -122,6 +128,10 @@ export class SweepState {
         else this.counts.failed++;
       }
       const reason = result.reasons.find(([r]) => r === row)?.[1] ?? 'not evaluated';
+      if (count && status === STATUS_PROBLEM) {
+        const kind = reasonKind(reason);
+        this.impossibleBy[kind] = (this.impossibleBy[kind] ?? 0) + 1;
+      }
       return {
         violation: status === STATUS_FAILED ? FAILED_VIOLATION : PROBLEM_VIOLATION,
         objectives: new Float64Array(this.objectives.length),
@@ -168,7 +178,7 @@ export class SweepState {
       ),
       status: result.status[row],
       reason,
-      warnings: result.warningCounts[row],
+      warningMask: result.warningMasks[row],
     };
   }
 
@@ -215,7 +225,11 @@ export class SweepState {
   /** Adds another state (another shard's): the result is the state of the union of their designs. */
   merge(other: SweepState): void {
     for (const key of Object.keys(this.counts) as Array<keyof SweepCounts>) this.counts[key] += other.counts[key];
-    other.rejectedBy.forEach((n, c) => (this.rejectedBy[c] += n));
+    other.rejectedBy.forEach((n, c) => {
+      this.rejectedBy[c] = (this.rejectedBy[c] ?? 0) + n;
+    });
+    for (const [kind, n] of Object.entries(other.impossibleBy))
+      this.impossibleBy[kind] = (this.impossibleBy[kind] ?? 0) + n;
     this.pool.merge(other.pool);
     this.sample.merge(other.sample);
   }
@@ -226,6 +240,7 @@ export class SweepState {
       version: 1,
       counts: { ...this.counts },
       rejectedBy: [...this.rejectedBy],
+      impossibleBy: sortedCounts(this.impossibleBy),
       pool: this.pool.toJSON() as unknown as CandidatePoolData<PackedRowData>,
       sample: jsonSafeSample(this.sample.toJSON()),
     };
@@ -241,6 +256,7 @@ export class SweepState {
     const state = new SweepState(objectives, constraints, keep, seed);
     state.counts = { ...data.counts };
     state.rejectedBy = [...data.rejectedBy];
+    state.impossibleBy = { ...(data.impossibleBy ?? {}) };
     const revive = (records: CandidatePoolData<PackedRowData>['feasible']) =>
       records.map((record) => ({ ...record, payload: PackedRow.revive(record.payload) }));
     state.pool = CandidatePool.restore<PackedRow>({
@@ -267,4 +283,24 @@ function jsonSafeSample(data: IndexSampleData<number[]>): IndexSampleData<number
       payload: item.payload.map((v) => (Number.isFinite(v) ? v : (null as unknown as number))),
     })),
   };
+}
+
+/**
+ * The kind of a could-not-build reason, for counting: the field and the reason's words up to its
+ * first number or quoted value ("primary.turns: primary cannot tune: needs 24 µH…" → "primary.turns:
+ * primary cannot tune").
+ */
+export function reasonKind(reason: string): string {
+  const colon = reason.indexOf(': ');
+  const field = colon >= 0 ? reason.slice(0, colon) : '';
+  const rest = colon >= 0 ? reason.slice(colon + 2) : reason;
+  const cut = rest.search(/[:(;'"]|\d/);
+  const words = (cut >= 0 ? rest.slice(0, cut) : rest).trim().replace(/[\s,]+$/, '');
+  return field ? `${field}: ${words}` : words;
+}
+
+/** A count record with its keys in a fixed order (largest count first, then by key). */
+export function sortedCounts(counts: Readonly<Record<string, number>>): Record<string, number> {
+  const entries = Object.entries(counts).sort((a, b) => b[1] - a[1] || (a[0] < b[0] ? -1 : a[0] > b[0] ? 1 : 0));
+  return Object.fromEntries(entries);
 }
