@@ -22,7 +22,7 @@ import {
   type Running,
 } from './sweep-harness.ts';
 
-// Issue 6, items 2 and 3: a sweep interrupted by kill -9, SIGINT, SIGTERM or its time limit and then
+// A sweep interrupted by kill -9, SIGINT, SIGTERM or its time limit and then
 // resumed writes files byte-identical to an uninterrupted run (summary.json's timing aside). The
 // reference is the same CLI run once without interruption; the exit codes are the shells' 128 +
 // signal number (POSIX signal numbers: SIGINT 2, SIGTERM 15) and 124 for the time limit (the

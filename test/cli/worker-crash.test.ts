@@ -11,7 +11,7 @@ import {
   summaryCounts,
 } from './sweep-harness.ts';
 
-// Issue 6, item 4: a worker that exits mid-batch is replaced and its batch retried once; a batch that
+// A worker that exits mid-batch is replaced and its batch retried once; a batch that
 // fails twice is recorded as failed designs with the reason, and the sweep goes on. The crash comes
 // from the worker's test hook (COILFRONT_TEST_CRASH, read in workers/evaluate-worker.ts), which makes
 // the worker thread exit when it reaches one sample index. The check is against a clean run of the

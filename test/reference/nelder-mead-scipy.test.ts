@@ -134,9 +134,9 @@ describe('minimize(himmelblau)', () => {
   );
 });
 
-describe('bounds (scipy issue 19991)', () => {
+describe('bounds (reflected then clipped, as scipy [scipy-nm])', () => {
   test('minimize(x² − 3) on [0, 4] from the upper bound 4 reaches the minimum at 0, f = −3', () => {
-    // Before scipy PR 20345 this returned 4: the initial vertex 4.2 was clipped back onto 4 and
+    // Before scipy 1.13 this returned 4: the initial vertex 4.2 was clipped back onto 4 and
     // the simplex had no width. Exact solution: x = 0 (on the lower bound), f = −3.
     const trace: number[] = [];
     const result = minimize(
