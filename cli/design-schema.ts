@@ -157,11 +157,12 @@ const SUGGESTED_UNITS: Partial<Record<QuantityKind, ReadonlyArray<[string, numbe
   voltage: [['kV', 1e3]],
 };
 
-const SI_NAME: Partial<Record<QuantityKind, string>> = {
-  length: 'metres',
-  capacitance: 'farads',
-  inductance: 'henries',
-  voltage: 'volts',
+/** The SI unit of each kind that has plausible bounds: its name for messages and its symbol. */
+const SI_UNIT: Partial<Record<QuantityKind, { name: string; symbol: string }>> = {
+  length: { name: 'metres', symbol: 'm' },
+  capacitance: { name: 'farads', symbol: 'F' },
+  inductance: { name: 'henries', symbol: 'H' },
+  voltage: { name: 'volts', symbol: 'V' },
 };
 
 const BARE_NUMBER = /^\s*[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?\s*$/;
@@ -191,17 +192,18 @@ export function implausibleBareNumber(
   const guess = unit
     ? `; did you mean '${shown} ${unit[0]}'?`
     : `; give a unit, e.g. ${unitsOf(field.kind).slice(0, 3).join(', ')}`;
-  return `${shown} (${SI_NAME[field.kind] ?? 'SI units'}?) is not a plausible ${describeKind(field.kind).replace(/^an? /, '')} here (${span})${guess}`;
+  return `${shown} (${SI_UNIT[field.kind]?.name ?? 'SI units'}?) is not a plausible ${describeKind(field.kind).replace(/^an? /, '')} here (${span})${guess}`;
 }
 
+/** A bound in the largest unit that keeps it at least 1: 5 mm, 30 m, 0.1 pF, 1000 uF. */
 function formatBound(value: number, kind: QuantityKind): string {
-  const units = [...(SUGGESTED_UNITS[kind] ?? [])].sort((a, b) => b[1] - a[1]);
-  const si = { length: 'm', capacitance: 'F', inductance: 'H', voltage: 'V' }[kind as 'length'] ?? '';
-  for (const [label, scale] of [['', 1] as [string, number], ...units]) {
-    if (value >= scale * 0.999) return `${Number((value / scale).toPrecision(3))} ${label || si}`;
-  }
-  const [label, scale] = units[units.length - 1] ?? ['', 1];
-  return `${Number((value / scale).toPrecision(3))} ${label || si}`;
+  const units: Array<[string, number]> = [
+    [SI_UNIT[kind]?.symbol ?? '', 1],
+    ...[...(SUGGESTED_UNITS[kind] ?? [])].sort((a, b) => b[1] - a[1]),
+  ];
+  const [label, scale] = units.find(([, unitScale]) => value >= unitScale * 0.999) ??
+    units[units.length - 1] ?? ['', 1];
+  return `${Number((value / scale).toPrecision(3))} ${label}`;
 }
 
 function quantitySchema(field: FieldSpec & { type: 'quantity' }) {

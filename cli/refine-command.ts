@@ -14,7 +14,6 @@ import { type RefineOutcome, refineSweep } from '../optimize/refine-run.ts';
 import { type PackedRow, unpackRow } from '../optimize/packed-row.ts';
 import type { RankedEntry } from '../optimize/pareto/candidate-pool.ts';
 import { metricIndex } from '../core/metrics.ts';
-import { parse as parseCsv } from 'csv-parse/sync';
 import { SweepState } from '../optimize/sweep-state.ts';
 import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
 import { toCsv } from './csv.ts';
@@ -24,7 +23,7 @@ import type { CliIo } from './io.ts';
 import { readRunRecord, RUN_FILES } from './run-directory.ts';
 import { columnSet } from './sweep-columns.ts';
 import { loadRunSpec, spaceDefinitionOf } from './sweep-command.ts';
-import { rankedRows, sortedFront } from './sweep-outputs.ts';
+import { candidateNumbering, outputEntries, rankedRows, sortedFront } from './sweep-outputs.ts';
 import { SAFETY_CAUTIONS } from './safety.ts';
 import { formatNumber } from './display-units.ts';
 import { frontPlotSvg } from './plots.ts';
@@ -52,6 +51,8 @@ export async function refineCommand(directory: string, options: RefineCommandOpt
   const state = SweepState.restore(checkpoint.state, spec.objectives, spec.constraints, record.keep, spec.seed);
   if (state.pool.size === 0) throw new InputError(`${directory}: the sweep has no candidates to refine`);
 
+  // Before refining: the sweep's candidates.csv numbering (rank and crowding by sample index).
+  const candidates = candidateNumbering(outputEntries(state, record.keep).ranked);
   const threads = options.workers ?? defaultWorkerCount();
   const space = new DesignSpace(spaceDefinitionOf(spec));
   const evaluator: BatchEvaluator =
@@ -90,7 +91,6 @@ export async function refineCommand(directory: string, options: RefineCommandOpt
     )}\n`,
   );
   const refinedId = new Map(improved.map((entry, i) => [entry.item.index, `r${i + 1}`]));
-  const candidates = readCandidateNumbering(join(directory, RUN_FILES.candidates));
   const front = sortedFront(outcome.merged);
   const frontRows = rankedRows(spec.dimensions, front, candidates);
   front.forEach((entry, i) => {
@@ -158,21 +158,6 @@ function improvedDesigns(front: readonly RankedEntry<PackedRow>[], samples: numb
     if (!near) kept.push(entry);
   }
   return kept;
-}
-
-/** candidates.csv's rank and crowding of each sample index (crowding empty in the file: Infinity). */
-function readCandidateNumbering(path: string): Map<number, { rank: number; crowding: number }> {
-  const numbering = new Map<number, { rank: number; crowding: number }>();
-  if (!existsSync(path)) return numbering;
-  const rows = parseCsv(readFileSync(path, 'utf8'), { columns: true, skip_empty_lines: true }) as Record<
-    string,
-    string
-  >[];
-  for (const row of rows) {
-    const crowding = row.crowding === '' || row.crowding === undefined ? Infinity : Number(row.crowding);
-    numbering.set(Number(row.sample_index), { rank: Number(row.rank), crowding });
-  }
-  return numbering;
 }
 
 /** What refine prints: the improved designs with units, the hypervolume explained, the files. */

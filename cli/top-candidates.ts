@@ -56,23 +56,26 @@ export function formatTopCandidates(directory: string, spec: SweepSpec, state: S
 
 /** The first `count` designs of the front sorted by the first objective, each by its candidates.csv rank. */
 function frontLines(spec: SweepSpec, state: SweepState, count: number): string[] {
-  const ranked = state.pool.ranked();
   const first = spec.objectives[0];
-  const front = ranked
-    .map((entry, position) => ({ entry, rank: position + 1 }))
-    .filter((e) => e.entry.paretoRank === 1);
   const column = first ? metricIndex(first.metric) : -1;
-  const valueOf = (payload: (typeof ranked)[number]['payload']) => unpackRow(payload).metrics[column] ?? Number.NaN;
+  // Each front design once, unpacked once, with its rank in candidates.csv and its first objective.
+  const front = state.pool
+    .ranked()
+    .map((entry, position) => ({ entry, rank: position + 1 }))
+    .filter((e) => e.entry.paretoRank === 1)
+    .map(({ entry, rank }) => {
+      const row = unpackRow(entry.payload);
+      return { row, rank, key: row.metrics[column] ?? Number.NaN };
+    });
   if (first) {
     const sign = first.sense === 'maximize' ? -1 : 1;
-    front.sort((a, b) => sign * (valueOf(a.entry.payload) - valueOf(b.entry.payload)) || a.rank - b.rank);
+    front.sort((a, b) => sign * (a.key - b.key) || a.rank - b.rank);
   }
   const shown = front.slice(0, count);
   const lines = [
     `the front: ${front.length} designs; ${shown.length === front.length ? 'all' : `the first ${shown.length}`} by ${first ? `${first.metric} (${first.sense === 'maximize' ? 'highest' : 'lowest'} first)` : 'rank'}, each with its rank in candidates.csv:`,
   ];
-  for (const { entry, rank } of shown) {
-    const row = unpackRow(entry.payload);
+  for (const { row, rank } of shown) {
     const objectives = spec.objectives.map(
       (o) => `${o.metric} ${metricText(o.metric, row.metrics[metricIndex(o.metric)])}`,
     );
