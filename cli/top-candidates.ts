@@ -87,13 +87,15 @@ function frontLines(spec: SweepSpec, state: SweepState, count: number): string[]
 
 /** The varied parameters in display units with their units: 'secondary.base_height=749.6 mm'. */
 function parameterText(spec: SweepSpec, values: readonly number[]): string {
-  return parameterCells(spec.dimensions, values)
-    .map((cell, d) => {
-      const dimension = spec.dimensions[d];
-      if (!dimension) return '';
+  return spec.dimensions
+    .map((dimension, d) => {
       const name = dimension.path.join('.');
+      // The dimension's own cells: one, or a wire's label and then its bare diameter in mm.
+      const [cell, bare] = parameterCells([dimension], [values[d] ?? Number.NaN]);
+      if (dimension.kind === 'choose' && dimension.wire)
+        return `${name}=${String(cell)}${typeof bare === 'number' ? ` (${formatNumber(bare)} mm)` : ''}`;
       if (typeof cell !== 'number') return `${name}=${String(cell)}`;
-      const unit = dimension.kind === 'choose' ? undefined : KIND_DISPLAY[dimension.quantity as QuantityKind];
+      const unit = dimension.quantity === undefined ? undefined : KIND_DISPLAY[dimension.quantity as QuantityKind];
       return `${name}=${formatNumber(cell)}${unit?.label ? ` ${humanUnit(unit.label)}` : ''}`;
     })
     .join(' ');

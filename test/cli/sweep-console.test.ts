@@ -37,6 +37,15 @@ describe('the console after a sweep', () => {
       previous = value;
     }
     expect(text).toMatch(/secondary\.base_height=[\d.]+ mm/);
+    // Each parameter sits beside its own name (a set of wires adds a bare-diameter cell in the CSV).
+    for (const line of text.split('\n').filter((l) => l.includes('secondary.turns='))) {
+      expect(line).toMatch(
+        /secondary\.form_diameter=(160|200|250) mm secondary\.wire=AWG (22|24|26) \([\d.]+ mm\) secondary\.turns=\d+ /,
+      );
+      const turns = Number(/secondary\.turns=(\d+)/.exec(line)?.[1]);
+      expect(turns).toBeGreaterThanOrEqual(600);
+      expect(turns).toBeLessThanOrEqual(1400);
+    }
     for (const file of ['candidates.csv', 'front.csv', 'infeasible.csv', 'summary.json']) expect(text).toContain(file);
     expect(text).not.toContain('journal-');
   });
