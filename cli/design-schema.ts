@@ -311,6 +311,7 @@ function readChoose(
   path: string[],
   state: WalkState,
   readOne: (item: unknown, itemPath: Array<string | number>) => LeafValue | NormalSection | undefined,
+  quantity?: string,
 ): DimensionSlot | undefined {
   const keys = Object.keys(input);
   if (keys.length !== 1) {
@@ -336,7 +337,13 @@ function readChoose(
     if (value === undefined) return undefined;
     values.push(value);
   }
-  state.dimensions.push({ kind: 'choose', path, values, labels: items.map(labelOf) });
+  state.dimensions.push({
+    kind: 'choose',
+    path,
+    values,
+    labels: items.map(labelOf),
+    ...(quantity !== undefined ? { quantity } : {}),
+  });
   return { slot: state.dimensions.length - 1 };
 }
 
@@ -414,7 +421,13 @@ function readSection(
     if (state.mode === 'sweep' && isMapping(value) && ('from' in value || 'to' in value || 'choose' in value)) {
       const slot =
         'choose' in value
-          ? readChoose(value, fieldPath, state, (item, itemPath) => readLeaf(field, item, itemPath, state.issues))
+          ? readChoose(
+              value,
+              fieldPath,
+              state,
+              (item, itemPath) => readLeaf(field, item, itemPath, state.issues),
+              field.type === 'quantity' ? field.kind : undefined,
+            )
           : readRange(field, value, fieldPath, state);
       if (slot === undefined) return undefined;
       output[key] = slot;

@@ -18,7 +18,7 @@ import { toCsv } from './csv.ts';
 import { writeFileAtomicSync } from './durable/atomic-write.ts';
 import { InputError, optionError } from './input-error.ts';
 import type { CliIo } from './io.ts';
-import { readRunRecord, RUN_FILES } from './run-directory.ts';
+import { readRunRecord, RUN_FILES, runDigits } from './run-directory.ts';
 import { columnSet } from './sweep-columns.ts';
 import { loadRunSpec, spaceDefinitionOf } from './sweep-command.ts';
 import { rankedRows, sortedFront } from './sweep-outputs.ts';
@@ -70,7 +70,7 @@ export async function refineCommand(directory: string, options: RefineCommandOpt
   // Refined designs are not samples: their sample_index cell stays empty.
   const indexColumn = columns.header.indexOf('sample_index');
   for (const row of rows) row[indexColumn] = null;
-  writeFileAtomicSync(join(directory, RUN_FILES.refined), toCsv(columns.header, rows));
+  writeFileAtomicSync(join(directory, RUN_FILES.refined), toCsv(columns.header, rows, runDigits(record)));
   writeFileAtomicSync(
     join(directory, RUN_FILES.refinedDesigns),
     `${JSON.stringify(
@@ -84,7 +84,7 @@ export async function refineCommand(directory: string, options: RefineCommandOpt
   front.forEach((entry, i) => {
     if (entry.item.index >= spec.samples) frontRows[i][indexColumn] = null;
   });
-  writeFileAtomicSync(join(directory, RUN_FILES.front), toCsv(columns.header, frontRows));
+  writeFileAtomicSync(join(directory, RUN_FILES.front), toCsv(columns.header, frontRows, runDigits(record)));
   writeFileAtomicSync(
     join(directory, 'front.svg'),
     await frontPlotSvg(

@@ -1,10 +1,12 @@
 /**
  * The columns of candidates.csv, front.csv, refined.csv and all.csv: ranking columns, every varied
  * parameter, every metric of the contract, each column with its unit in the name
- * (`secondary.form_diameter_mm`, `resonant_frequency_kHz`, `wire_length_m`). The order is stable.
+ * (`secondary.form_diameter_mm`, `resonant_frequency_kHz`, `wire_length_m`), whether a parameter was
+ * varied as a range or as a set of quantities. The order is stable.
  */
 import { METRICS } from '../core/metrics.ts';
-import type { Dimension } from '../optimize/design-tree.ts';
+import { awgDiameter } from '../core/wire.ts';
+import type { Dimension, WireValue } from '../optimize/design-tree.ts';
 import type { CandidateRow } from '../optimize/sweep-state.ts';
 import type { Cell } from './csv.ts';
 import { KIND_DISPLAY, METRIC_DISPLAY } from './display-units.ts';
@@ -16,11 +18,40 @@ export interface ColumnSet {
   metricHeaders: string[];
 }
 
-function parameterHeader(dimension: Dimension): string {
+function unitSuffix(quantity: string | undefined): string {
+  if (quantity === undefined) return '';
+  const unit = KIND_DISPLAY[quantity as QuantityKind];
+  return unit && unit.label !== '' ? `_${unit.label}` : '';
+}
+
+function isWire(value: unknown): value is WireValue {
+  return typeof value === 'object' && value !== null && ('awg' in value || 'bareDiameter' in value);
+}
+
+/** How a set's choices go into the sheet: as numbers (quantities), as wires, or as text labels. */
+function chooseForm(dimension: Dimension & { kind: 'choose' }): 'number' | 'wire' | 'text' {
+  if (dimension.values.every((v) => typeof v === 'number')) return 'number';
+  if (dimension.values.every(isWire)) return 'wire';
+  return 'text';
+}
+
+/** Bare copper diameter of a wire (SI): the gauge's by ASTM B258 [astmb258], or the one given. */
+function bareDiameterOf(wire: WireValue): number {
+  return 'awg' in wire ? awgDiameter(wire.awg) : wire.bareDiameter;
+}
+
+/**
+ * The column names of one dimension: a quantity (range or set of quantities) is one number column
+ * with its unit in the name; a set of wires is its label and its bare diameter in mm; any other set
+ * (shapes, whole sections) is one text column.
+ */
+function dimensionHeaders(dimension: Dimension): string[] {
   const name = dimension.path.join('.');
-  if (dimension.kind === 'choose') return name;
-  const unit = KIND_DISPLAY[dimension.quantity as QuantityKind];
-  return unit && unit.label !== '' ? `${name}_${unit.label}` : name;
+  if (dimension.kind === 'range') return [`${name}${unitSuffix(dimension.quantity)}`];
+  const form = chooseForm(dimension);
+  if (form === 'number') return [`${name}${unitSuffix(dimension.quantity)}`];
+  if (form === 'wire') return [name, `${name}_bare_diameter_mm`];
+  return [name];
 }
 
 function metricHeader(key: string, siUnit: string): string {
@@ -34,7 +65,7 @@ export const RANK_HEADERS = ['rank', 'pareto_rank', 'crowding', 'feasible', 'tot
 export const TAIL_HEADERS = ['warnings', 'reason'];
 
 export function columnSet(dimensions: readonly Dimension[]): ColumnSet {
-  const parameterHeaders = dimensions.map(parameterHeader);
+  const parameterHeaders = dimensions.flatMap(dimensionHeaders);
   const metricHeaders = METRICS.map((m) => metricHeader(m.key, m.unit));
   return {
     header: [...RANK_HEADERS, ...parameterHeaders, ...metricHeaders, ...TAIL_HEADERS],
@@ -43,13 +74,23 @@ export function columnSet(dimensions: readonly Dimension[]): ColumnSet {
   };
 }
 
-/** The parameter cells of a candidate in display units (set choices by their label). */
+/** The parameter cells of a candidate in display units (text sets by their label). */
 export function parameterCells(dimensions: readonly Dimension[], values: readonly number[]): Cell[] {
-  return dimensions.map((dimension, d) => {
+  return dimensions.flatMap((dimension, d): Cell[] => {
     const value = values[d];
-    if (dimension.kind === 'choose') return dimension.labels[value] ?? null;
-    const unit = KIND_DISPLAY[dimension.quantity as QuantityKind];
-    return unit ? value / unit.divisor : value;
+    if (dimension.kind === 'range') {
+      const unit = KIND_DISPLAY[dimension.quantity as QuantityKind];
+      return [unit ? value / unit.divisor : value];
+    }
+    const choice = dimension.values[value];
+    const form = chooseForm(dimension);
+    if (form === 'number') {
+      const unit = dimension.quantity === undefined ? undefined : KIND_DISPLAY[dimension.quantity as QuantityKind];
+      return [typeof choice === 'number' ? (unit ? choice / unit.divisor : choice) : null];
+    }
+    const label = dimension.labels[value] ?? null;
+    if (form === 'wire') return [label, isWire(choice) ? bareDiameterOf(choice) / 1e-3 : null];
+    return [label];
   });
 }
 

@@ -13,7 +13,7 @@ import { defaultReferencePoint, hypervolume } from '../optimize/pareto/hypervolu
 import type { CandidatePool, RankedEntry } from '../optimize/pareto/candidate-pool.ts';
 import type { SweepState } from '../optimize/sweep-state.ts';
 import { unpackRow, type PackedRow } from '../optimize/packed-row.ts';
-import { toCsv, type Cell } from './csv.ts';
+import { DEFAULT_DIGITS, toCsv, type Cell } from './csv.ts';
 import { writeFileAtomicSync } from './durable/atomic-write.ts';
 import { candidateCells, columnSet } from './sweep-columns.ts';
 import { frontPlotSvg } from './plots.ts';
@@ -30,6 +30,8 @@ export interface RunIdentity {
   range: [number, number];
   shard: { index: number; count: number } | null;
   keep: number;
+  /** Significant digits of CSV numbers (DEFAULT_DIGITS when absent). */
+  digits?: number;
 }
 
 export interface Timing {
@@ -188,9 +190,12 @@ export async function writeSweepOutputs(
 ): Promise<void> {
   const columns = columnSet(spec.dimensions);
   const { ranked, misses, front } = outputEntries(state, identity.keep);
-  writeFileAtomicSync(join(directory, 'candidates.csv'), toCsv(columns.header, rankedRows(spec.dimensions, ranked)));
-  writeFileAtomicSync(join(directory, 'infeasible.csv'), toCsv(columns.header, rankedRows(spec.dimensions, misses)));
-  writeFileAtomicSync(join(directory, 'front.csv'), toCsv(columns.header, rankedRows(spec.dimensions, front)));
+  const digits = identity.digits ?? DEFAULT_DIGITS;
+  const csv = (entries: readonly RankedEntry<PackedRow>[]) =>
+    toCsv(columns.header, rankedRows(spec.dimensions, entries), digits);
+  writeFileAtomicSync(join(directory, 'candidates.csv'), csv(ranked));
+  writeFileAtomicSync(join(directory, 'infeasible.csv'), csv(misses));
+  writeFileAtomicSync(join(directory, 'front.csv'), csv(front));
   writeFileAtomicSync(
     join(directory, 'summary.json'),
     `${JSON.stringify(summaryObject(spec, state, identity, timing, complete, front), null, 2)}\n`,

@@ -43,6 +43,8 @@ export type Dimension =
       values: Array<LeafValue | NormalSection>;
       /** Short labels for CSV columns, as the user wrote each choice. */
       labels: string[];
+      /** Kind of quantity when the choices are quantities of one field (for display units). */
+      quantity?: string;
     };
 
 export function isSlot(value: unknown): value is DimensionSlot {
