@@ -21,7 +21,7 @@ import type { CliIo } from './io.ts';
 import { readRunRecord, RUN_FILES, runDigits } from './run-directory.ts';
 import { columnSet } from './sweep-columns.ts';
 import { loadRunSpec, spaceDefinitionOf } from './sweep-command.ts';
-import { rankedRows, sortedFront } from './sweep-outputs.ts';
+import { rankedRows, sortedFront, frontRanks } from './sweep-outputs.ts';
 import { SAFETY_CAUTIONS } from './safety.ts';
 import { formatNumber } from './display-units.ts';
 import { frontPlotSvg } from './plots.ts';
@@ -91,6 +91,14 @@ export async function refineCommand(directory: string, options: RefineCommandOpt
       spec.objectives,
       refinedRanked.map((entry) => unpackRow(entry.payload)),
       front.map((entry) => unpackRow(entry.payload)),
+      {
+        // Swept designs keep their rank in candidates.csv; refined ones are marked as such.
+        ranks: frontRanks(
+          state.pool.ranked(record.keep).filter((entry) => entry.item.violation === 0),
+          front,
+        ).map((rank, i) => (front[i].item.index >= spec.samples ? null : rank)),
+        refined: front.map((entry) => entry.item.index >= spec.samples),
+      },
     ),
   );
   const summaryPath = join(directory, RUN_FILES.summary);

@@ -73,6 +73,15 @@ export function sortedFront(pool: CandidatePool<PackedRow>): RankedEntry<PackedR
   return front;
 }
 
+/** Each front entry's rank in the ranked list (candidates.csv), by sample index; null if not listed. */
+export function frontRanks(
+  ranked: readonly RankedEntry<PackedRow>[],
+  front: readonly RankedEntry<PackedRow>[],
+): Array<number | null> {
+  const rankOf = new Map(ranked.map((entry, position) => [entry.item.index, position + 1]));
+  return front.map((entry) => rankOf.get(entry.item.index) ?? null);
+}
+
 /** Hypervolume of the front, minimisation convention, with its reference point (spec or default). */
 export function frontHypervolume(
   front: readonly { item: { objectives: Float64Array } }[],
@@ -204,6 +213,7 @@ export async function writeSweepOutputs(
     spec.objectives,
     ranked.map((entry) => unpackRow(entry.payload)),
     front.map((entry) => unpackRow(entry.payload)),
+    { ranks: frontRanks(ranked, front) },
   );
   writeFileAtomicSync(join(directory, 'front.svg'), svg);
 }
