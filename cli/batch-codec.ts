@@ -39,7 +39,7 @@ export function encodeBatchRecord(generation: number, batch: number, result: Bat
   };
   const headerBytes = encoder.encode(JSON.stringify(header));
   const headerPadded = 4 + Math.ceil(headerBytes.length / 8) * 8;
-  const size = headerPadded + 8 * (header.values + header.metrics) + result.count + 2 * result.count;
+  const size = headerPadded + 8 * (header.values + header.metrics) + result.count + 4 * result.count;
   const bytes = new Uint8Array(size);
   new DataView(bytes.buffer).setUint32(0, headerBytes.length, true);
   bytes.set(headerBytes, 4);
@@ -51,7 +51,7 @@ export function encodeBatchRecord(generation: number, batch: number, result: Bat
   put(result.values);
   put(result.metrics);
   put(result.status);
-  put(result.warningCounts);
+  put(result.warningMasks);
   return bytes;
 }
 
@@ -68,7 +68,7 @@ export function decodeBatchRecord(bytes: Uint8Array): JournaledBatch {
   const values = new Float64Array(take(8 * header.values));
   const metrics = new Float64Array(take(8 * header.metrics));
   const status = new Uint8Array(take(header.count));
-  const warningCounts = new Uint16Array(take(2 * header.count));
+  const warningMasks = new Uint32Array(take(4 * header.count));
   return {
     generation: header.generation,
     batch: header.batch,
@@ -79,7 +79,7 @@ export function decodeBatchRecord(bytes: Uint8Array): JournaledBatch {
       metrics,
       status,
       reasons: header.reasons,
-      warningCounts,
+      warningMasks,
     },
   };
 }

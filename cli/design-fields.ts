@@ -127,6 +127,13 @@ export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
         optional: true,
         description: 'fixed tap, turns from the inner end; chosen to tune the tank to the secondary when absent',
       },
+      require_tuning: {
+        type: 'boolean',
+        optional: true,
+        default: true,
+        description:
+          "a design whose tank cannot come within 3 % of the secondary's frequency is infeasible; false keeps it with a warning",
+      },
     },
     variants: {
       key: 'shape',

@@ -470,7 +470,7 @@ export function readDesignTree(input: unknown, mode: Mode, basePath: string[] = 
       state.issues.push({
         path: [...basePath, key],
         message: sweepKey
-          ? `unknown key '${key}': this looks like a sweep file (use coilfront check or coilfront sweep)`
+          ? `unknown key '${key}': this looks like a sweep file (use npx coilfront check or npx coilfront sweep)`
           : unknownKeyMessage(key, names),
       });
       return { tree, dimensions: [], issues: state.issues };

@@ -44,6 +44,7 @@ export const METRIC_DISPLAY: Record<string, DisplayUnit> = {
   axial_gradient: unit('kV_per_m', 1e3),
   overall_height: unit('m', 1),
   spark_length: unit('m', 1),
+  headroom_needed: unit('m', 1),
 };
 
 /** Display unit of each kind of design quantity. */

@@ -63,14 +63,16 @@ export async function mergeCommand(
     const path = join(directory, RUN_FILES.checkpoint);
     if (!existsSync(path))
       throw new InputError(
-        `merge: ${directory} has no checkpoint; finish it with coilfront sweep --resume ${directory}`,
+        `merge: ${directory} has no checkpoint; finish it with npx coilfront sweep --resume ${directory}`,
       );
     const checkpoint = JSON.parse(readFileSync(path, 'utf8')) as {
       complete: boolean;
       state: Parameters<typeof SweepState.restore>[0];
     };
     if (!checkpoint.complete)
-      throw new InputError(`merge: ${directory} is not finished; finish it with coilfront sweep --resume ${directory}`);
+      throw new InputError(
+        `merge: ${directory} is not finished; finish it with npx coilfront sweep --resume ${directory}`,
+      );
     state.merge(SweepState.restore(checkpoint.state, spec.objectives, spec.constraints, first.record.keep, spec.seed));
   }
   prepareOutputDirectory(options.out, options.overwrite ?? false);

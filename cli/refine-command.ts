@@ -127,7 +127,7 @@ export async function refineCommand(directory: string, options: RefineCommandOpt
     [
       `refined ${outcome.startResults.length} starts with ${outcome.evaluations} evaluations (${improved} improved):${gain}`,
       `files: ${join(directory, RUN_FILES.refined)}, ${join(directory, RUN_FILES.front)} (updated), ${summaryPath} (refine section)`,
-      `a refined design: coilfront show ${directory} --refined 1`,
+      `a refined design: npx coilfront show ${directory} --refined 1`,
       '',
       'SAFETY',
       ...SAFETY_CAUTIONS,

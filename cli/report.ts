@@ -55,6 +55,8 @@ const GROUPS: Group[] = [
       'primary_tap_turns',
       'primary_inductance',
       'primary_frequency',
+      'tuning_error',
+      'primary_tap_margin',
       'primary_outer_diameter',
       'mutual_inductance',
       'coupling',
@@ -82,7 +84,7 @@ const GROUPS: Group[] = [
   },
   {
     title: 'Outcome',
-    keys: ['overall_height', 'spark_length'],
+    keys: ['overall_height', 'spark_length', 'headroom_needed', 'warning_count'],
     note: 'spark length: common practice rule of thumb from input power, not a physical model',
   },
 ];
@@ -136,6 +138,10 @@ const LABELS: Record<string, string> = {
   tank_voltage_margin: 'tank capacitor rating margin',
   overall_height: 'overall height',
   spark_length: 'spark length (rule of thumb, common practice)',
+  tuning_error: 'tank against secondary frequency (tuning error)',
+  primary_tap_margin: 'turns left beyond the tap to retune',
+  headroom_needed: 'headroom the sparks need (height + spark length, common practice)',
+  warning_count: 'warnings',
 };
 
 function line(key: string, value: number | null): string {
@@ -171,7 +177,7 @@ export function formatReport(file: string, evaluation: Evaluation): string {
     out.push('');
   }
   out.push(evaluation.warnings.length > 0 ? 'Warnings' : 'Warnings: none');
-  for (const warning of evaluation.warnings) out.push(`  - ${warning}`);
+  for (const warning of evaluation.warnings) out.push(`  - ${warning.message} [${warning.key}]`);
   out.push('', safetyBlock(), '');
   return out.join('\n');
 }

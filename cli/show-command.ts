@@ -66,7 +66,7 @@ export function showCommand(
   if (options.refined !== undefined) {
     const path = join(directory, RUN_FILES.refinedDesigns);
     if (!existsSync(path))
-      throw new InputError(`${directory}: no refined designs yet (run coilfront refine ${directory})`);
+      throw new InputError(`${directory}: no refined designs yet (run npx coilfront refine ${directory})`);
     const designs = JSON.parse(readFileSync(path, 'utf8')) as { rank: number; values: number[] }[];
     const entry = designs.find((d) => d.rank === rank);
     if (!entry)

@@ -4,6 +4,7 @@
  * (`secondary.form_diameter_mm`, `resonant_frequency_kHz`, `wire_length_m`), whether a parameter was
  * varied as a range or as a set of quantities. The order is stable.
  */
+import { warningKeysOf } from '../core/outcome/warnings.ts';
 import { METRICS } from '../core/metrics.ts';
 import { awgDiameter } from '../core/wire.ts';
 import type { Dimension, WireValue } from '../optimize/design-tree.ts';
@@ -124,7 +125,7 @@ export function candidateCells(dimensions: readonly Dimension[], ranked: RankedC
     ranked.index,
     ...parameterCells(dimensions, row.values),
     ...metricCells(row.metrics),
-    row.warnings,
+    warningKeysOf(row.warningMask).join(';'),
     row.reason,
   ];
 }

@@ -531,7 +531,7 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
       const message =
         failure instanceof DiskError ? failure.message : failure instanceof Error ? failure.message : String(failure);
       io.err(
-        `coilfront: the sweep stopped: ${message}\n  the last good checkpoint in ${directory} can be resumed with: coilfront sweep --resume ${directory}\n`,
+        `coilfront: the sweep stopped: ${message}\n  the last good checkpoint in ${directory} can be resumed with: npx coilfront sweep --resume ${directory}\n`,
       );
       return 1;
     }
@@ -550,7 +550,7 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
     } catch (error) {
       const diskError = error instanceof DiskError ? error : toDiskError(error, directory, 'write');
       io.err(
-        `coilfront: ${diskError.message}\n  the last good checkpoint in ${directory} can be resumed with: coilfront sweep --resume ${directory}\n`,
+        `coilfront: ${diskError.message}\n  the last good checkpoint in ${directory} can be resumed with: npx coilfront sweep --resume ${directory}\n`,
       );
       return 1;
     }
@@ -559,7 +559,7 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
       const why =
         stop.reason === 'time-limit' ? 'the time limit was reached' : `${stop.signal ?? 'a signal'} was received`;
       io.err(
-        `stopped: ${why} after ${state.counts.evaluated} of ${range[1] - range[0]} designs; outputs so far are in ${directory}\n  resume with: coilfront sweep --resume ${directory}\n`,
+        `stopped: ${why} after ${state.counts.evaluated} of ${range[1] - range[0]} designs; outputs so far are in ${directory}\n  resume with: npx coilfront sweep --resume ${directory}\n`,
       );
       return stop.exitCode();
     }

@@ -265,7 +265,7 @@ export function sweepFromValue(value: unknown, file: string, options: SweepReadO
     if (key in DESIGN_SECTIONS) {
       issues.push({
         path: [key],
-        message: `unknown key '${key}': a sweep file puts the design tree under 'design:' (for one design, use coilfront evaluate)`,
+        message: `unknown key '${key}': a sweep file puts the design tree under 'design:' (for one design, use npx coilfront evaluate)`,
       });
     } else issues.push(unknownKey([], key, TOP_KEYS));
   }
@@ -356,7 +356,7 @@ export function sweepFromValue(value: unknown, file: string, options: SweepReadO
   if (dimensions.length === 0) {
     issues.push({
       path: ['design'],
-      message: 'nothing varies: give at least one range or set (or use coilfront evaluate)',
+      message: 'nothing varies: give at least one range or set (or use npx coilfront evaluate)',
     });
     fail();
   }

@@ -42,7 +42,7 @@ export function formatTopCandidates(directory: string, spec: SweepSpec, state: S
     `files: ${join(directory, 'candidates.csv')}, ${join(directory, 'front.csv')}, ${join(directory, 'summary.json')}`,
   );
   lines.push(
-    `full report of a candidate: coilfront show ${directory} RANK > design.yaml && coilfront evaluate design.yaml`,
+    `full report of a candidate: npx coilfront show ${directory} RANK > design.yaml && npx coilfront evaluate design.yaml`,
   );
   lines.push('');
   lines.push('SAFETY', ...SAFETY_CAUTIONS, '');

@@ -6,6 +6,7 @@
  */
 import type { Design } from './design.ts';
 import type { Metrics } from './metrics.ts';
+import type { DesignWarning } from './outcome/warnings.ts';
 
 /** A reason why a design cannot be built as given (an infeasible candidate, exit 2 in evaluate). */
 export interface DesignProblem {
@@ -79,7 +80,7 @@ export interface ElectrostaticSolution {
 export interface EvalContext {
   readonly design: Design;
   readonly metrics: Metrics;
-  readonly warnings: string[];
+  readonly warnings: DesignWarning[];
   readonly problems: DesignProblem[];
   secondary?: SecondaryGeometry;
   primary?: PrimaryGeometry;

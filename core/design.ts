@@ -77,6 +77,8 @@ export interface PrimarySpec {
   coneAngle?: number;
   /** A fixed tap (turns from the inner end); when absent the tap is chosen to tune. */
   tapTurns?: number;
+  /** false keeps designs whose tank cannot tune to the secondary (a warning instead of infeasible). */
+  requireTuning?: boolean;
   /** Conductor material resistivity at 20 °C, Ω·m (copper tube by default). */
   resistivity?: number;
 }

@@ -9,6 +9,7 @@
 import type { Design } from './design.ts';
 import { emptyMetrics, type Metrics } from './metrics.ts';
 import type { DesignProblem, EvalContext } from './context.ts';
+import type { DesignWarning } from './outcome/warnings.ts';
 import { secondaryStage } from './stages/secondary-stage.ts';
 import { electrostaticsStage } from './stages/electrostatics-stage.ts';
 import { primaryStage } from './stages/primary-stage.ts';
@@ -17,7 +18,8 @@ import { outcomeStage } from './stages/outcome-stage.ts';
 
 export interface Evaluation {
   metrics: Metrics;
-  warnings: string[];
+  /** The builder's warnings, each with its stable key (core/outcome/warnings.ts). */
+  warnings: DesignWarning[];
   /** Empty for a buildable design; otherwise why it cannot be built (infeasible). */
   problems: DesignProblem[];
 }
@@ -37,5 +39,6 @@ export function evaluateDesign(design: Design): Evaluation {
     stage(context);
     if (context.problems.length > 0) break;
   }
+  context.metrics.warning_count = context.warnings.length;
   return { metrics: context.metrics, warnings: context.warnings, problems: context.problems };
 }

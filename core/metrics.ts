@@ -105,6 +105,23 @@ export const METRICS: readonly MetricInfo[] = [
     'rad',
     'where the topload peak field sits: angle around the tube (toroid) or elevation (sphere) from the outer equator, positive upward',
   ),
+  // --- appended: tuning as a requirement, warnings, headroom ---
+  metric(
+    'tuning_error',
+    '',
+    "tank frequency at the tap over the secondary's resonant frequency, minus 1 (signed fraction; beyond ±0.03 the design is infeasible unless primary.require_tuning is false)",
+  ),
+  metric(
+    'primary_tap_margin',
+    'count',
+    'turns between the tap and the nearer end of its range (one turn from the inner end, or the last turn): room left to retune',
+  ),
+  metric('warning_count', 'count', "number of the builder's warnings the design carries"),
+  metric(
+    'headroom_needed',
+    'm',
+    'overall height plus the spark length estimate (common practice: sparks reach about their length upward): the ceiling the sparks need',
+  ),
 ];
 
 export const METRIC_KEYS: readonly string[] = METRICS.map((m) => m.key);

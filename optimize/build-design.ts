@@ -183,6 +183,7 @@ export function buildDesign(tree: NormalTree, basePath: string[] = []): DesignBu
         });
       spec.tapTurns = tap;
     }
+    if (primary.require_tuning === false) spec.requireTuning = false;
     design.primary = spec;
   }
 

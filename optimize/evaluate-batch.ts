@@ -8,6 +8,7 @@
  * 2 the evaluation failed (it threw, or gave a non-finite metric): infeasible, counted as failed.
  * Reasons travel sparsely as [row, text] pairs.
  */
+import { warningMask } from '../core/outcome/warnings.ts';
 import { evaluateDesign } from '../core/evaluate.ts';
 import { METRIC_KEYS } from '../core/metrics.ts';
 import type { DesignSpace } from './design-space.ts';
@@ -29,8 +30,8 @@ export interface BatchResult {
   metrics: Float64Array;
   status: Uint8Array;
   reasons: Array<[number, string]>;
-  /** Number of warnings of each row (the texts stay in the report, not the sweep). */
-  warningCounts: Uint16Array;
+  /** The warnings of each row as a bit mask over WARNING_KEYS (the texts stay in the report). */
+  warningMasks: Uint32Array;
 }
 
 const METRIC_COUNT = METRIC_KEYS.length;
@@ -50,7 +51,7 @@ export function evaluateBatchTask(
     metrics: new Float64Array(count * METRIC_COUNT).fill(Number.NaN),
     status: new Uint8Array(count),
     reasons: [],
-    warningCounts: new Uint16Array(count),
+    warningMasks: new Uint32Array(count),
   };
   const values = new Float64Array(dimensions);
   for (let row = 0; row < count; row++) {
@@ -86,7 +87,7 @@ export function evaluateBatchTask(
         }
         result.metrics[row * METRIC_COUNT + m] = value;
       }
-      result.warningCounts[row] = Math.min(65535, evaluation.warnings.length);
+      result.warningMasks[row] = warningMask(evaluation.warnings);
       if (failure) {
         result.metrics.fill(Number.NaN, row * METRIC_COUNT, (row + 1) * METRIC_COUNT);
         result.status[row] = STATUS_FAILED;

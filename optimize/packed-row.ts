@@ -1,6 +1,6 @@
 /**
  * A kept candidate's row, packed: its dimension values and every metric in one Float64Array (NaN
- * where a metric is null), with its status, reason and warning count. About a third of the memory of
+ * where a metric is null), with its status, reason and warning mask. About a third of the memory of
  * the same row in plain arrays, so the bounded store of a long sweep stays small; written to
  * checkpoints as plain JSON (null for NaN) and revived on resume.
  */
@@ -13,7 +13,7 @@ export class PackedRow {
     readonly dimensions: number,
     readonly status: number,
     readonly reason: string | null,
-    readonly warnings: number,
+    readonly warningMask: number,
   ) {}
 
   toJSON(): PackedRowData {
@@ -22,7 +22,7 @@ export class PackedRow {
       dimensions: this.dimensions,
       status: this.status,
       reason: this.reason,
-      warnings: this.warnings,
+      warningMask: this.warningMask,
     };
   }
 
@@ -32,7 +32,7 @@ export class PackedRow {
       data.dimensions,
       data.status,
       data.reason,
-      data.warnings,
+      data.warningMask,
     );
   }
 }
@@ -42,7 +42,8 @@ export interface PackedRowData {
   dimensions: number;
   status: number;
   reason: string | null;
-  warnings: number;
+  /** Bit mask over WARNING_KEYS. */
+  warningMask: number;
 }
 
 /** Packs a row. */
@@ -50,7 +51,7 @@ export function packRow(row: CandidateRow): PackedRow {
   const packed = new Float64Array(row.values.length + row.metrics.length);
   packed.set(row.values, 0);
   row.metrics.forEach((value, m) => (packed[row.values.length + m] = value === null ? Number.NaN : value));
-  return new PackedRow(packed, row.values.length, row.status, row.reason, row.warnings);
+  return new PackedRow(packed, row.values.length, row.status, row.reason, row.warningMask);
 }
 
 /** The plain row of a packed one. */
@@ -60,6 +61,6 @@ export function unpackRow(row: PackedRow): CandidateRow {
     metrics: Array.from(row.packed.subarray(row.dimensions), (v) => (Number.isFinite(v) ? v : null)),
     status: row.status,
     reason: row.reason,
-    warnings: row.warnings,
+    warningMask: row.warningMask,
   };
 }

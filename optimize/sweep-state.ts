@@ -31,7 +31,8 @@ export interface CandidateRow {
   metrics: Array<number | null>;
   status: number;
   reason: string | null;
-  warnings: number;
+  /** The row's warnings as a bit mask over WARNING_KEYS (core/outcome/warnings.ts). */
+  warningMask: number;
 }
 
 /** Violation given to designs that could not be built (after every evaluated infeasible design). */
@@ -168,7 +169,7 @@ export class SweepState {
       ),
       status: result.status[row],
       reason,
-      warnings: result.warningCounts[row],
+      warningMask: result.warningMasks[row],
     };
   }
 

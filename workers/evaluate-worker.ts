@@ -37,8 +37,8 @@ const beforeDesign = crashHook();
 class MovedResult {
   constructor(private readonly result: BatchResult) {}
   get [Piscina.transferableSymbol](): ArrayBuffer[] {
-    const { values, metrics, status, warningCounts } = this.result;
-    return [values.buffer, metrics.buffer, status.buffer, warningCounts.buffer] as ArrayBuffer[];
+    const { values, metrics, status, warningMasks } = this.result;
+    return [values.buffer, metrics.buffer, status.buffer, warningMasks.buffer] as ArrayBuffer[];
   }
   get [Piscina.valueSymbol](): BatchResult {
     return this.result;

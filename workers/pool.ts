@@ -50,7 +50,7 @@ function failedResult(task: BatchTask, space: DesignSpace, reason: string): Batc
     metrics: new Float64Array(count * METRIC_KEYS.length).fill(Number.NaN),
     status: new Uint8Array(count).fill(STATUS_FAILED),
     reasons: Array.from({ length: count }, (_, row) => [row, reason] as [number, string]),
-    warningCounts: new Uint16Array(count),
+    warningMasks: new Uint32Array(count),
   };
 }
 

@@ -122,7 +122,7 @@ export function columnPlotSpec(tables: RunTables, options: ColumnPlotOptions): T
         14,
       ),
       subtitle: wrapText(
-        `${PICTURE_CAUTION} Front designs carry their rank in candidates.csv (coilfront show RUN RANK).`,
+        `${PICTURE_CAUTION} Front designs carry their rank in candidates.csv (npx coilfront show RUN RANK).`,
         PLOT_WIDTH,
         11,
       ),

@@ -12,8 +12,70 @@ export const SPARK_GAP_COUPLING_LIMIT = 0.2;
 export const AXIAL_GRADIENT_LIMIT = 400e3;
 /** Tank capacitor rating over the working voltage that builders aim for (common practice, §9 [C]: 1.5–2×). */
 export const TANK_RATING_FACTOR = 1.5;
-/** Relative mistuning of the primary against the secondary beyond which a warning is given. */
+/**
+ * Relative mistuning of the tank against the secondary beyond which a design does not count as
+ * tuned (|tuning_error| > 3 %: infeasible unless primary.require_tuning is false). Common practice:
+ * builders retune when the tank is a few per cent off; the number is ours, not from a source.
+ */
 export const TUNING_TOLERANCE = 0.03;
+
+/**
+ * Every warning the core can give, by a stable short key (the CSV's warnings column names these,
+ * joined by ';'). Append, never reorder: a row stores its warnings as a bit mask over this list.
+ */
+export const WARNING_KEYS = [
+  'wire_table_extrapolated',
+  'primary_untuned',
+  'fixed_tap_mistuned',
+  'gap_coupling_high',
+  'no_charge_voltage',
+  'no_ringing_modes',
+  'no_transfer',
+  'burst_not_simulated',
+  'burst_truncated',
+  'current_limit_reached',
+  'breakout_during_burst',
+  'tank_rating_exceeded',
+  'tank_rating_low',
+  'topload_breaks_out_early',
+  'topload_never_breaks_out',
+  'axial_gradient_high',
+  'primary_strike_risk',
+  'strike_rail_needed',
+] as const;
+
+export type WarningKey = (typeof WARNING_KEYS)[number];
+
+/** One builder's warning: its stable key and the line a person reads, with the numbers. */
+export interface DesignWarning {
+  readonly key: WarningKey;
+  readonly message: string;
+}
+
+const WARNING_BIT = new Map<string, number>(WARNING_KEYS.map((key, index) => [key, index]));
+
+/** The bit mask of a list of warnings (bit i set when WARNING_KEYS[i] is among them). */
+export function warningMask(warnings: readonly DesignWarning[]): number {
+  let mask = 0;
+  for (const warning of warnings) mask |= 1 << (WARNING_BIT.get(warning.key) ?? 0);
+  return mask >>> 0;
+}
+
+/** The keys of a warning mask, in the order of WARNING_KEYS. */
+export function warningKeysOf(mask: number): WarningKey[] {
+  const keys: WarningKey[] = [];
+  WARNING_KEYS.forEach((key, index) => {
+    if ((mask >>> index) & 1) keys.push(key);
+  });
+  return keys;
+}
+
+/** The number of warnings in a mask. */
+export function warningCountOf(mask: number): number {
+  let count = 0;
+  for (let bits = mask >>> 0; bits !== 0; bits &= bits - 1) count++;
+  return count;
+}
 
 const PREFIXES: ReadonlyArray<[number, string]> = [
   [1e9, 'G'],

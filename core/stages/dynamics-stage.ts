@@ -106,13 +106,17 @@ export function dynamicsStage(context: EvalContext): void {
 function runSparkGap(context: EvalContext, circuit: CoupledCircuit, driver: SparkGapDriver, coupling: number): void {
   const { design, metrics, warnings } = context;
   if (coupling > SPARK_GAP_COUPLING_LIMIT) {
-    warnings.push(
-      `coupling ${formatNumber(coupling)} is high for a spark gap (common practice ≤ ${SPARK_GAP_COUPLING_LIMIT}): poor quenching and racing arcs likely`,
-    );
+    warnings.push({
+      key: 'gap_coupling_high',
+      message: `coupling ${formatNumber(coupling)} is high for a spark gap (common practice ≤ ${SPARK_GAP_COUPLING_LIMIT}): poor quenching and racing arcs likely`,
+    });
   }
   const chargeVoltage = design.tank?.chargeVoltage;
   if (chargeVoltage === undefined || !(chargeVoltage > 0)) {
-    warnings.push('no tank charge_voltage given: energy per shot, transfer time and peak voltage not computed');
+    warnings.push({
+      key: 'no_charge_voltage',
+      message: 'no tank charge_voltage given: energy per shot, transfer time and peak voltage not computed',
+    });
     return;
   }
   const energy = 0.5 * circuit.primaryCapacitance * chargeVoltage * chargeVoltage;
@@ -121,24 +125,29 @@ function runSparkGap(context: EvalContext, circuit: CoupledCircuit, driver: Spar
   tankRatingCheck(context, chargeVoltage, 'the charge voltage');
   const shot = sparkGapShot(circuit, chargeVoltage, driver.quench);
   if (shot === null) {
-    warnings.push(
-      `the coupled circuit has no two ringing modes (coupling ${formatNumber(coupling)}, primary ${formatQuantity(circuit.primaryResistance, 'Ω')}): transfer time and peak voltage not computed`,
-    );
+    warnings.push({
+      key: 'no_ringing_modes',
+      message: `the coupled circuit has no two ringing modes (coupling ${formatNumber(coupling)}, primary ${formatQuantity(circuit.primaryResistance, 'Ω')}): transfer time and peak voltage not computed`,
+    });
     return;
   }
   metrics.transfer_time = shot.transferTime;
   metrics.peak_voltage = shot.peakVoltage;
   if (shot.transferTime === null) {
-    warnings.push(
-      `no energy transfer and return: the primary's energy only decays (primary ${formatQuantity(circuit.primaryResistance, 'Ω')}, coupling ${formatNumber(coupling)}); transfer time not computed, peak voltage over the whole ring-down`,
-    );
+    warnings.push({
+      key: 'no_transfer',
+      message: `no energy transfer and return: the primary's energy only decays (primary ${formatQuantity(circuit.primaryResistance, 'Ω')}, coupling ${formatNumber(coupling)}); transfer time not computed, peak voltage over the whole ring-down`,
+    });
   }
 }
 
 function runSolidState(context: EvalContext, circuit: CoupledCircuit, driver: SolidStateDriver): void {
   const { metrics, warnings } = context;
   if (driver.onTime === undefined && driver.cycles === undefined) {
-    warnings.push('solid-state driver without on_time or cycles: the burst is not simulated');
+    warnings.push({
+      key: 'burst_not_simulated',
+      message: 'solid-state driver without on_time or cycles: the burst is not simulated',
+    });
     return;
   }
   const driveVoltage = driver.bridge === 'full' ? driver.busVoltage : driver.busVoltage / 2;
@@ -149,7 +158,10 @@ function runSolidState(context: EvalContext, circuit: CoupledCircuit, driver: So
   let onTime = driver.onTime;
   let cycles = driver.cycles;
   if ((onTime ?? Infinity) > MAX_BURST_CYCLES * upperPeriod && (cycles ?? Infinity) > MAX_BURST_CYCLES) {
-    warnings.push(`burst longer than ${MAX_BURST_CYCLES} cycles: simulated for the first ${MAX_BURST_CYCLES} only`);
+    warnings.push({
+      key: 'burst_truncated',
+      message: `burst longer than ${MAX_BURST_CYCLES} cycles: simulated for the first ${MAX_BURST_CYCLES} only`,
+    });
     onTime = MAX_BURST_CYCLES * upperPeriod;
     cycles = undefined;
   }
@@ -166,14 +178,16 @@ function runSolidState(context: EvalContext, circuit: CoupledCircuit, driver: So
   metrics.peak_voltage = burst.peakVoltage;
   metrics.transfer_time = null; // a driven burst has no single transfer
   if (burst.endReason === 'current_limit') {
-    warnings.push(
-      `primary current reached the ${formatQuantity(driver.currentLimit ?? 0, 'A')} limit after ${formatNumber(burst.cycles)} cycles (${formatQuantity(burst.endTime, 's')}): the burst ends there`,
-    );
+    warnings.push({
+      key: 'current_limit_reached',
+      message: `primary current reached the ${formatQuantity(driver.currentLimit ?? 0, 'A')} limit after ${formatNumber(burst.cycles)} cycles (${formatQuantity(burst.endTime, 's')}): the burst ends there`,
+    });
   }
   if (burst.breakoutTime !== null && breakoutVoltage) {
-    warnings.push(
-      `the topload reaches its breakout voltage ${formatQuantity(breakoutVoltage, 'V')} after ${formatNumber(burst.breakoutCycles ?? 0)} cycles (${formatQuantity(burst.breakoutTime, 's')}) of the ${formatQuantity(burst.endTime, 's')} burst; the peak voltage assumes it held`,
-    );
+    warnings.push({
+      key: 'breakout_during_burst',
+      message: `the topload reaches its breakout voltage ${formatQuantity(breakoutVoltage, 'V')} after ${formatNumber(burst.breakoutCycles ?? 0)} cycles (${formatQuantity(burst.breakoutTime, 's')}) of the ${formatQuantity(burst.endTime, 's')} burst; the peak voltage assumes it held`,
+    });
   }
   tankRatingCheck(context, burst.peakTankVoltage, 'the peak tank voltage in the burst');
 }
@@ -185,13 +199,15 @@ function tankRatingCheck(context: EvalContext, workingVoltage: number, what: str
   const margin = rating / workingVoltage;
   context.metrics.tank_voltage_margin = margin;
   if (margin < 1) {
-    context.warnings.push(
-      `tank capacitor rated ${formatQuantity(rating, 'V')} is below ${what} ${formatQuantity(workingVoltage, 'V')} (margin ${formatNumber(margin)}): it will fail`,
-    );
+    context.warnings.push({
+      key: 'tank_rating_exceeded',
+      message: `tank capacitor rated ${formatQuantity(rating, 'V')} is below ${what} ${formatQuantity(workingVoltage, 'V')} (margin ${formatNumber(margin)}): it will fail`,
+    });
   } else if (margin < TANK_RATING_FACTOR) {
-    context.warnings.push(
-      `tank capacitor rating ${formatQuantity(rating, 'V')} is only ${formatNumber(margin)}× ${what} ${formatQuantity(workingVoltage, 'V')} (common practice ≥ ${TANK_RATING_FACTOR}–2×)`,
-    );
+    context.warnings.push({
+      key: 'tank_rating_low',
+      message: `tank capacitor rating ${formatQuantity(rating, 'V')} is only ${formatNumber(margin)}× ${what} ${formatQuantity(workingVoltage, 'V')} (common practice ≥ ${TANK_RATING_FACTOR}–2×)`,
+    });
   }
 }
 

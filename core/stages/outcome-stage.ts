@@ -15,7 +15,7 @@ import {
   toploadCentreHeight,
   toploadToRingDistance,
 } from '../outcome/clearance.ts';
-import { AXIAL_GRADIENT_LIMIT, formatNumber, formatQuantity, TUNING_TOLERANCE } from '../outcome/warnings.ts';
+import { AXIAL_GRADIENT_LIMIT, formatNumber, formatQuantity } from '../outcome/warnings.ts';
 
 /**
  * Sets overall_height, spark_length (common practice), loaded_resonant_frequency (from that spark
@@ -28,12 +28,14 @@ export function outcomeStage(context: EvalContext): void {
   const electrostatics = context.electrostatics;
   metrics.overall_height = overallHeight(design, secondary);
 
-  tuningCheck(context);
-
   const peak = metrics.peak_voltage;
   const power = metrics.input_power;
   const sparkLength = power !== null && Number.isFinite(power) ? sparkLengthEstimate(power) : null;
   metrics.spark_length = sparkLength;
+  // Common practice: a discharge reaches about its own length in any direction from the topload,
+  // so the ceiling must clear the overall height by the spark length estimate.
+  if (sparkLength !== null && metrics.overall_height !== null)
+    metrics.headroom_needed = metrics.overall_height + sparkLength;
   if (sparkLength !== null && secondary && electrostatics && design.environment.streamerLength === undefined) {
     metrics.loaded_resonant_frequency = loadedResonantFrequency(
       secondary.inductance,
@@ -48,13 +50,15 @@ export function outcomeStage(context: EvalContext): void {
     const margin = breakout / peak;
     metrics.breakout_margin = margin;
     if (margin < 1) {
-      warnings.push(
-        `the topload breaks out at ${formatQuantity(breakout, 'V')}, below the peak voltage ${formatQuantity(peak, 'V')} (breakout margin ${formatNumber(margin)}): streamers start all round before the peak`,
-      );
+      warnings.push({
+        key: 'topload_breaks_out_early',
+        message: `the topload breaks out at ${formatQuantity(breakout, 'V')}, below the peak voltage ${formatQuantity(peak, 'V')} (breakout margin ${formatNumber(margin)}): streamers start all round before the peak`,
+      });
     } else {
-      warnings.push(
-        `the topload holds at the peak voltage ${formatQuantity(peak, 'V')} (breakout margin ${formatNumber(margin)}): without a breakout point it never breaks out, and racing arcs or strikes become likely`,
-      );
+      warnings.push({
+        key: 'topload_never_breaks_out',
+        message: `the topload holds at the peak voltage ${formatQuantity(peak, 'V')} (breakout margin ${formatNumber(margin)}): without a breakout point it never breaks out, and racing arcs or strikes become likely`,
+      });
     }
   }
   const fieldPerVolt = electrostatics?.toploadFieldPerVolt ?? null;
@@ -64,9 +68,10 @@ export function outcomeStage(context: EvalContext): void {
     const gradient = peak / secondary.windingLength;
     metrics.axial_gradient = gradient;
     if (gradient > AXIAL_GRADIENT_LIMIT) {
-      warnings.push(
-        `axial gradient ${formatQuantity(gradient, 'V/m')} along the winding exceeds ${formatQuantity(AXIAL_GRADIENT_LIMIT, 'V/m')} (common practice, from memory): racing arcs likely`,
-      );
+      warnings.push({
+        key: 'axial_gradient_high',
+        message: `axial gradient ${formatQuantity(gradient, 'V/m')} along the winding exceeds ${formatQuantity(AXIAL_GRADIENT_LIMIT, 'V/m')} (common practice, from memory): racing arcs likely`,
+      });
     }
   }
 
@@ -85,38 +90,22 @@ export function outcomeStage(context: EvalContext): void {
     );
     metrics.primary_strike_margin = Number.isFinite(strike.margin) ? strike.margin : null;
     if (strike.margin < 1) {
-      warnings.push(
-        `primary-to-secondary strike risk: ${formatQuantity(strike.voltage, 'V')} across ${formatQuantity(strike.gap, 'm')} of air between the outer primary ring and the winding at its height (strike margin ${formatNumber(strike.margin)} at ${formatQuantity(LONG_GAP_WITHSTAND_GRADIENT, 'V/m')}, common practice)`,
-      );
+      warnings.push({
+        key: 'primary_strike_risk',
+        message: `primary-to-secondary strike risk: ${formatQuantity(strike.voltage, 'V')} across ${formatQuantity(strike.gap, 'm')} of air between the outer primary ring and the winding at its height (strike margin ${formatNumber(strike.margin)} at ${formatQuantity(LONG_GAP_WITHSTAND_GRADIENT, 'V/m')}, common practice)`,
+      });
     }
     if (design.topload && !design.strikeRail && sparkLength !== null) {
       const centre = toploadCentreHeight(design.topload, secondary.topZ);
       if (centre !== null) {
         const reach = toploadToRingDistance(design.topload, centre, outerRing);
         if (sparkLength >= reach) {
-          warnings.push(
-            `spark length estimate ${formatQuantity(sparkLength, 'm')} (common practice) reaches the outer primary ring ${formatQuantity(reach, 'm')} from the topload: fit a grounded strike rail`,
-          );
+          warnings.push({
+            key: 'strike_rail_needed',
+            message: `spark length estimate ${formatQuantity(sparkLength, 'm')} (common practice) reaches the outer primary ring ${formatQuantity(reach, 'm')} from the topload: fit a grounded strike rail`,
+          });
         }
       }
     }
   }
-}
-
-/**
- * Warns when a tap fixed in the design (primary.tap_turns) leaves the tank off the secondary's
- * frequency. (A primary that cannot be tuned at any tap is reported by the primary stage.)
- */
-function tuningCheck(context: EvalContext): void {
-  const { metrics, design, warnings } = context;
-  const primaryFrequency = metrics.primary_frequency;
-  const secondaryFrequency = metrics.resonant_frequency;
-  const primarySpec = design.primary;
-  if (primaryFrequency === null || secondaryFrequency === null || !primarySpec || !design.tank) return;
-  if (primarySpec.tapTurns === undefined || !(primaryFrequency > 0) || !(secondaryFrequency > 0)) return;
-  const mistuning = primaryFrequency / secondaryFrequency - 1;
-  if (Math.abs(mistuning) <= TUNING_TOLERANCE) return;
-  warnings.push(
-    `the tank at the fixed tap (${formatNumber(primarySpec.tapTurns)} turns) tunes to ${formatQuantity(primaryFrequency, 'Hz')}, the secondary to ${formatQuantity(secondaryFrequency, 'Hz')} (${mistuning > 0 ? '+' : ''}${formatNumber(100 * mistuning)} %, tolerance ±${formatNumber(100 * TUNING_TOLERANCE)} %)`,
-  );
 }

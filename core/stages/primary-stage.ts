@@ -25,6 +25,7 @@ import type { EvalContext, PrimaryGeometry } from '../context.ts';
 import { MAX_PRIMARY_TURNS, primaryRings } from '../primary/rings.ts';
 import { primaryConductorLength, primaryInductanceAtTap, primaryInductanceTable } from '../primary/inductance.ts';
 import { tuneTap } from '../primary/tuning.ts';
+import { formatNumber, formatQuantity, TUNING_TOLERANCE } from '../outcome/warnings.ts';
 import { lcResonantFrequency } from '../capacitance/resonance.ts';
 import { couplingCoefficient, ringMutualInductances, tappedMutualInductance } from '../coupling.ts';
 
@@ -41,7 +42,7 @@ function microhenries(henries: number): string {
 export function primaryStage(context: EvalContext): void {
   const spec = context.design.primary;
   if (!spec) return;
-  const { metrics, problems, warnings, design } = context;
+  const { metrics, problems, design } = context;
   const secondary = context.secondary;
   const conductorRadius = spec.conductorDiameter / 2;
   if (!(spec.turns >= 1)) {
@@ -103,6 +104,7 @@ export function primaryStage(context: EvalContext): void {
 
   let tapTurns = spec.turns;
   let reportedTap: number | null = null;
+  let untunedRange: string | null = null;
   if (spec.tapTurns !== undefined) {
     tapTurns = spec.tapTurns;
     reportedTap = tapTurns;
@@ -112,9 +114,7 @@ export function primaryStage(context: EvalContext): void {
     reportedTap = tapTurns;
     if (tuning.status !== 'tuned') {
       const lowest = primaryInductanceAtTap(table, Math.min(1, spec.turns));
-      warnings.push(
-        `the primary cannot be tuned: needs ${microhenries(tuning.requiredInductance)}, has ${microhenries(lowest)}–${microhenries(fullInductance)}`,
-      );
+      untunedRange = `needs ${microhenries(tuning.requiredInductance)}, has ${microhenries(lowest)}–${microhenries(fullInductance)}`;
     }
   }
   const inductance = primaryInductanceAtTap(table, tapTurns);
@@ -148,4 +148,45 @@ export function primaryStage(context: EvalContext): void {
   metrics.primary_full_inductance = fullInductance;
   metrics.primary_frequency = tankCapacitance !== undefined ? lcResonantFrequency(inductance, tankCapacitance) : null;
   metrics.primary_outer_diameter = 2 * outerRadius;
+  if (reportedTap !== null) {
+    metrics.primary_tap_margin = Math.max(0, Math.min(reportedTap - Math.min(1, spec.turns), spec.turns - reportedTap));
+  }
+  const secondaryFrequency =
+    secondary && totalCapacitance !== undefined && totalCapacitance > 0
+      ? lcResonantFrequency(secondary.inductance, totalCapacitance)
+      : null;
+  tuningRequirement(context, secondaryFrequency, untunedRange);
+}
+
+/**
+ * tuning_error, and the requirement that the tank tunes to the secondary: beyond ±TUNING_TOLERANCE
+ * the design is infeasible ("primary cannot tune: …") unless primary.require_tuning is false, in
+ * which case it keeps a warning.
+ */
+function tuningRequirement(context: EvalContext, secondaryFrequency: number | null, untunedRange: string | null): void {
+  const { metrics, design, problems, warnings } = context;
+  const spec = design.primary;
+  const primaryFrequency = metrics.primary_frequency;
+  if (!spec || primaryFrequency === null || secondaryFrequency === null) return;
+  if (!(primaryFrequency > 0) || !(secondaryFrequency > 0)) return;
+  const error = primaryFrequency / secondaryFrequency - 1;
+  metrics.tuning_error = error;
+  if (Math.abs(error) <= TUNING_TOLERANCE) return;
+  const offset = `tank ${formatQuantity(primaryFrequency, 'Hz')} against the secondary's ${formatQuantity(secondaryFrequency, 'Hz')} (${error > 0 ? '+' : ''}${formatNumber(100 * error)} %, tolerance ±${formatNumber(100 * TUNING_TOLERANCE)} %)`;
+  const fixed = spec.tapTurns !== undefined;
+  const what = fixed
+    ? `at the fixed tap (${formatNumber(spec.tapTurns ?? 0)} turns) the ${offset}`
+    : `${untunedRange ?? 'out of range'}; at the nearer end the ${offset}`;
+  if (spec.requireTuning !== false) {
+    problems.push({
+      field: fixed ? 'primary.tap_turns' : 'primary.turns',
+      reason: `primary cannot tune: ${what} (set primary.require_tuning: false to keep such designs)`,
+    });
+    return;
+  }
+  warnings.push(
+    fixed
+      ? { key: 'fixed_tap_mistuned', message: `the primary is off tune ${what}` }
+      : { key: 'primary_untuned', message: `the primary cannot be tuned: ${what}` },
+  );
 }

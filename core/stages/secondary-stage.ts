@@ -107,9 +107,10 @@ export function secondaryStage(context: EvalContext): void {
     (bareDiameter < INSULATION_TABLE_RANGE.minimum * (1 - 1e-9) ||
       bareDiameter > INSULATION_TABLE_RANGE.maximum * (1 + 1e-9))
   ) {
-    warnings.push(
-      `the wire (${mm(bareDiameter)}) is outside the enamel build table (${mm(INSULATION_TABLE_RANGE.minimum)} to ${mm(INSULATION_TABLE_RANGE.maximum)}); its insulated diameter ${mm(overallDiameter)} is extrapolated`,
-    );
+    warnings.push({
+      key: 'wire_table_extrapolated',
+      message: `the wire (${mm(bareDiameter)}) is outside the enamel build table (${mm(INSULATION_TABLE_RANGE.minimum)} to ${mm(INSULATION_TABLE_RANGE.maximum)}); its insulated diameter ${mm(overallDiameter)} is extrapolated`,
+    });
   }
   const layout = windingLayout(spec, overallDiameter);
   if ('field' in layout) {

@@ -21,5 +21,5 @@ const INCH = 0.0254;
 export function awgDiameter(gauge: number): number {
   if (!(gauge >= -3 && gauge <= 56)) return Number.NaN;
   // ASTM B258: d = 0.005 in × 92^((36 − n)/39)
-  return 0.005 * INCH * Math.pow(92, (36 - gauge) / 39);
+  return 0.005 * INCH * 92 ** ((36 - gauge) / 39);
 }

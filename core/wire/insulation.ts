@@ -58,7 +58,7 @@ function extrapolate(a: BuildRow, b: BuildRow, gradeIndex: number, diameter: num
   const increaseA = meanIncrease(a, gradeIndex);
   const increaseB = meanIncrease(b, gradeIndex);
   const exponent = Math.log(increaseB / increaseA) / Math.log(b.diameter / a.diameter);
-  return increaseA * Math.pow(diameter / a.diameter, exponent);
+  return increaseA * (diameter / a.diameter) ** exponent;
 }
 
 /**

@@ -25,7 +25,7 @@ function designFile(name: string, text: string): string {
 
 const GOOD = `secondary: { form_diameter: 160 mm, wire: AWG 26, turns: 1100, base_height: 450 mm }
 topload: { shape: toroid, outer_diameter: 610 mm, tube_diameter: 150 mm, height_above_winding: 40 mm }
-primary: { shape: flat_spiral, inner_diameter: 230 mm, turns: 10, conductor_diameter: 6.35 mm, turn_spacing: 6 mm, elevation: 0 mm }
+primary: { shape: flat_spiral, inner_diameter: 230 mm, turns: 14, conductor_diameter: 6.35 mm, turn_spacing: 6 mm, elevation: 0 mm }
 tank: { capacitance: 30 nF, charge_voltage: 14 kV }
 driver: { kind: spark_gap, break_rate: 120 Hz }
 environment: { altitude: 200 m, temperature: 20 degC }

@@ -10,7 +10,7 @@ function row(breakout: number, mass: number): CandidateRow {
   const metrics: Array<number | null> = METRIC_KEYS.map(() => null);
   metrics[METRIC_KEYS.indexOf('breakout_voltage')] = breakout;
   metrics[METRIC_KEYS.indexOf('wire_mass')] = mass;
-  return { values: [], metrics, status: 0, reason: null, warnings: 0 };
+  return { values: [], metrics, status: 0, reason: null, warningMask: 0 };
 }
 
 describe('frontPlotSvg(objectives, candidates, front)', () => {

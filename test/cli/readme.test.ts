@@ -1,4 +1,5 @@
-import { readFileSync } from 'node:fs';
+import { execFileSync } from 'node:child_process';
+import { readdirSync, readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { METRIC_KEYS } from '../../core/metrics.ts';
 import { DESIGN_SECTIONS } from '../../cli/design-fields.ts';
@@ -35,5 +36,30 @@ describe('README.md', () => {
     const text = SAFETY_CAUTIONS.join(' ');
     for (const word of ['lethal', 'burns', 'fires', 'ozone', 'medical implants', 'radio services', 'electrical'])
       expect(text).toContain(word);
+  });
+
+  it('writes every command as npx coilfront, the name that works right after npm ci', () => {
+    const bare = readme
+      .split('\n')
+      .filter((line) => /(^|[`|] ?)coilfront (evaluate|check|schema|sweep|refine|show|merge)\b/.test(line));
+    expect(bare).toEqual([]);
+    const hints = readdirSync('cli')
+      .filter((name) => name.endsWith('.ts'))
+      .flatMap((name) =>
+        readFileSync(`cli/${name}`, 'utf8')
+          .split('\n')
+          .filter(
+            (line) =>
+              !/^\s*(\*|\/\/)/.test(line) &&
+              /(?<![-\w'])(?<!npx )coilfront (show|evaluate|check|sweep|refine)\b/.test(line),
+          ),
+      );
+    expect(hints).toEqual([]);
+  });
+
+  it('npx coilfront runs from the checkout without a network (the package bin of package.json)', () => {
+    const version = execFileSync('npx', ['--no-install', 'coilfront', '--version'], { encoding: 'utf8' }).trim();
+    const pkg = JSON.parse(readFileSync('package.json', 'utf8')) as { version: string };
+    expect(version).toBe(pkg.version);
   });
 });

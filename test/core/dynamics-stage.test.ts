@@ -179,7 +179,7 @@ describe('dynamicsStage with a spark gap', () => {
     expect(noTank.secondary_ac_resistance).not.toBeNull();
     const noCharge = run(makeContext(sparkGap, { tank: { capacitance: tankCapacitance } }));
     expect(noCharge.metrics.energy_per_shot).toBeNull();
-    expect(noCharge.warnings.some((w) => w.includes('charge_voltage'))).toBe(true);
+    expect(noCharge.warnings.some(({ message: w }) => w.includes('charge_voltage'))).toBe(true);
   });
 
   test('warns about high coupling for a spark gap and an under-rated tank capacitor, with the numbers', () => {
@@ -188,8 +188,12 @@ describe('dynamicsStage with a spark gap', () => {
     });
     context.metrics.coupling = 0.31;
     run(context);
-    expect(context.warnings.some((w) => w.includes('coupling 0.31') && w.includes('spark gap'))).toBe(true);
-    expect(context.warnings.some((w) => w.includes('12 kV') && w.includes('15 kV') && w.includes('0.8'))).toBe(true);
+    expect(context.warnings.some(({ message: w }) => w.includes('coupling 0.31') && w.includes('spark gap'))).toBe(
+      true,
+    );
+    expect(
+      context.warnings.some(({ message: w }) => w.includes('12 kV') && w.includes('15 kV') && w.includes('0.8')),
+    ).toBe(true);
     expect(context.metrics.tank_voltage_margin).toBeCloseTo(0.8, 12);
   });
 });
@@ -221,7 +225,7 @@ describe('dynamicsStage with a solid-state bridge', () => {
 
   test('the current limit ends the burst with a warning', () => {
     const context = run(makeContext({ ...bridge, currentLimit: 150 }));
-    expect(context.warnings.some((w) => w.includes('150 A limit'))).toBe(true);
+    expect(context.warnings.some(({ message: w }) => w.includes('150 A limit'))).toBe(true);
   });
 
   test('warns when the topload reaches breakout during the burst', () => {
@@ -229,15 +233,17 @@ describe('dynamicsStage with a solid-state bridge', () => {
     context.electrostatics = { ...context.electrostatics!, breakoutVoltage: 60e3 };
     run(context);
     expect(context.metrics.peak_voltage!).toBeGreaterThan(60e3);
-    expect(context.warnings.some((w) => w.includes('reaches its breakout voltage 60 kV') && w.includes('cycles'))).toBe(
-      true,
-    );
+    expect(
+      context.warnings.some(
+        ({ message: w }) => w.includes('reaches its breakout voltage 60 kV') && w.includes('cycles'),
+      ),
+    ).toBe(true);
   });
 
   test('needs on_time or cycles', () => {
     const context = run(makeContext({ ...bridge, onTime: undefined }));
     expect(context.metrics.peak_voltage).toBeNull();
-    expect(context.warnings.some((w) => w.includes('on_time'))).toBe(true);
+    expect(context.warnings.some(({ message: w }) => w.includes('on_time'))).toBe(true);
   });
 });
 
@@ -291,20 +297,24 @@ describe('outcomeStage', () => {
     const breaking = makeContext(sparkGap, { tank: { capacitance: tankCapacitance, chargeVoltage: 40e3 } });
     run(breaking);
     expect(breaking.metrics.breakout_margin!).toBeLessThan(1);
-    expect(breaking.warnings.some((w) => w.includes('breaks out') && w.includes('breakout margin'))).toBe(true);
+    expect(breaking.warnings.some(({ message: w }) => w.includes('breaks out') && w.includes('breakout margin'))).toBe(
+      true,
+    );
     const holding = makeContext(sparkGap, { tank: { capacitance: tankCapacitance, chargeVoltage: 5e3 } });
     run(holding);
     expect(holding.metrics.breakout_margin!).toBeGreaterThan(1);
-    expect(holding.warnings.some((w) => w.includes('breakout point'))).toBe(true);
+    expect(holding.warnings.some(({ message: w }) => w.includes('breakout point'))).toBe(true);
   });
 
   test('warns about the axial gradient and a primary strike, with their numbers', () => {
     const context = makeContext(sparkGap, { tank: { capacitance: tankCapacitance, chargeVoltage: 40e3 } });
     run(context);
     expect(context.metrics.axial_gradient!).toBeGreaterThan(400e3);
-    expect(context.warnings.some((w) => w.startsWith('axial gradient') && w.includes('kV/m'))).toBe(true);
+    expect(context.warnings.some(({ message: w }) => w.startsWith('axial gradient') && w.includes('kV/m'))).toBe(true);
     expect(context.metrics.primary_strike_margin!).toBeLessThan(1);
-    expect(context.warnings.some((w) => w.includes('strike risk') && w.includes('strike margin'))).toBe(true);
+    expect(context.warnings.some(({ message: w }) => w.includes('strike risk') && w.includes('strike margin'))).toBe(
+      true,
+    );
   });
 
   test('strike margin grows when the outer ring moves away; spark-to-primary warning only without a strike rail', () => {
@@ -318,7 +328,7 @@ describe('outcomeStage', () => {
       { tank: { capacitance: tankCapacitance, chargeVoltage: 30e3 } },
     );
     run(strong);
-    expect(strong.warnings.some((w) => w.includes('strike rail'))).toBe(true);
+    expect(strong.warnings.some(({ message: w }) => w.includes('strike rail'))).toBe(true);
     const railed = makeContext(
       { ...sparkGap, breakRate: 2000 },
       {
@@ -327,7 +337,7 @@ describe('outcomeStage', () => {
       },
     );
     run(railed);
-    expect(railed.warnings.some((w) => w.includes('strike rail'))).toBe(false);
+    expect(railed.warnings.some(({ message: w }) => w.includes('strike rail'))).toBe(false);
   });
 
   test('strike margin uses the winding voltage at the outer ring height: raising the ring lowers it', () => {
@@ -340,17 +350,5 @@ describe('outcomeStage', () => {
     const expected = (gap * 200e3) / (raised.metrics.peak_voltage! / 2 + 15e3);
     expect(raised.metrics.primary_strike_margin).toBeCloseTo(expected, 9);
     expect(raised.metrics.primary_strike_margin!).toBeLessThan(flat.metrics.primary_strike_margin!);
-  });
-
-  test('warns when a fixed tap leaves the tank off the secondary frequency, not when the tap was chosen to tune', () => {
-    const fixed = makeContext(sparkGap);
-    fixed.design.primary!.tapTurns = 8;
-    fixed.metrics.primary_frequency = 1.2 * secondaryFrequency;
-    run(fixed);
-    expect(fixed.warnings.some((w) => w.includes('fixed tap (8 turns)') && w.includes('+20 %'))).toBe(true);
-    const chosen = makeContext(sparkGap);
-    chosen.metrics.primary_frequency = 1.2 * secondaryFrequency; // the primary stage reports that case itself
-    run(chosen);
-    expect(chosen.warnings.some((w) => w.includes('tap'))).toBe(false);
   });
 });

@@ -296,10 +296,10 @@ describe('primaryStage', () => {
     expect(evaluation.metrics.mutual_inductance).toBe(evaluation.primary?.mutual);
   });
 
-  test('out of reach: the nearer end and a warning with the needed and available inductance', () => {
+  const outOfReach = (requireTuning?: boolean) => {
     const evaluation = context({
       secondary: SECONDARY,
-      primary: flatSpiral({ turns: 3 }),
+      primary: flatSpiral({ turns: 3, ...(requireTuning === undefined ? {} : { requireTuning }) }),
       tank: { capacitance: 5e-9 },
     });
     secondaryStage(evaluation);
@@ -311,9 +311,59 @@ describe('primaryStage', () => {
       breakoutVoltage: null,
     };
     primaryStage(evaluation);
+    return evaluation;
+  };
+
+  test('out of reach: infeasible by default, naming the needed and available inductance and the mistuning', () => {
+    const evaluation = outOfReach();
     expect(evaluation.metrics.primary_tap_turns).toBe(3);
+    expect(evaluation.metrics.primary_tap_margin).toBe(0);
+    // Exact: tuning_error = f_tank / f_secondary − 1 with both from 1/(2π√(LC)) (Thomson's formula).
+    const secondaryFrequency = 1 / (2 * Math.PI * Math.sqrt((evaluation.secondary?.inductance ?? 0) * 25e-12));
+    const tankFrequency = 1 / (2 * Math.PI * Math.sqrt((evaluation.metrics.primary_inductance ?? 0) * 5e-9));
+    expect(evaluation.metrics.tuning_error).toBeCloseTo(tankFrequency / secondaryFrequency - 1, 12);
+    expect(evaluation.metrics.tuning_error ?? 0).toBeGreaterThan(0.03);
+    expect(evaluation.problems).toHaveLength(1);
+    expect(evaluation.problems[0]?.field).toBe('primary.turns');
+    expect(evaluation.problems[0]?.reason).toMatch(
+      /^primary cannot tune: needs [\d.]+ µH, has [\d.]+ µH–[\d.]+ µH; at the nearer end the tank [\d.]+ [kM]Hz against the secondary's [\d.]+ [kM]Hz \(\+[\d.]+ %, tolerance ±3 %\) \(set primary.require_tuning: false/,
+    );
+    expect(evaluation.warnings).toEqual([]);
+  });
+
+  test('out of reach with require_tuning false: the nearer end and a keyed warning instead', () => {
+    const evaluation = outOfReach(false);
+    expect(evaluation.problems).toEqual([]);
     expect(evaluation.warnings).toHaveLength(1);
-    expect(evaluation.warnings[0]).toMatch(/^the primary cannot be tuned: needs [\d.]+ µH, has [\d.]+ µH–[\d.]+ µH$/);
+    expect(evaluation.warnings[0]?.key).toBe('primary_untuned');
+    expect(evaluation.warnings[0]?.message).toMatch(/^the primary cannot be tuned: needs [\d.]+ µH, has [\d.]+ µH–/);
+  });
+
+  test('a fixed tap far off tune is infeasible by default and a fixed_tap_mistuned warning when relaxed', () => {
+    const build = (requireTuning?: boolean) => {
+      const evaluation = context({
+        secondary: SECONDARY,
+        primary: flatSpiral({ tapTurns: 2, ...(requireTuning === undefined ? {} : { requireTuning }) }),
+        tank: { capacitance: 30e-9 },
+      });
+      secondaryStage(evaluation);
+      evaluation.electrostatics = {
+        totalCapacitance: 25e-12,
+        toploadCapacitance: null,
+        toploadFieldPerVolt: null,
+        onsetField: null,
+        breakoutVoltage: null,
+      };
+      primaryStage(evaluation);
+      return evaluation;
+    };
+    const strict = build();
+    expect(Math.abs(strict.metrics.tuning_error ?? 0)).toBeGreaterThan(0.03);
+    expect(strict.problems[0]?.field).toBe('primary.tap_turns');
+    expect(strict.problems[0]?.reason).toMatch(/^primary cannot tune: at the fixed tap \(2 turns\) the tank /);
+    const relaxed = build(false);
+    expect(relaxed.problems).toEqual([]);
+    expect(relaxed.warnings.map((w) => w.key)).toEqual(['fixed_tap_mistuned']);
   });
 
   test('a given tap is used and reported', () => {

@@ -23,7 +23,7 @@ describe('PackedRow', () => {
   });
 
   it('unpackRow(packRow(row)) gives the row back', () => {
-    const row = { values: [0.16, 2, 1098], metrics: [1.5, null, -3e-9, null], status: 0, reason: null, warnings: 2 };
+    const row = { values: [0.16, 2, 1098], metrics: [1.5, null, -3e-9, null], status: 0, reason: null, warningMask: 2 };
     expect(unpackRow(packRow(row))).toEqual(row);
   });
 });

@@ -118,7 +118,7 @@ describe('secondaryStage conventions', () => {
     });
     secondaryStage(evaluation);
     expect(evaluation.problems).toEqual([]);
-    expect(evaluation.warnings[0]).toMatch(/outside the enamel build table/);
+    expect(evaluation.warnings[0]?.message).toMatch(/outside the enamel build table/);
   });
 });
 
