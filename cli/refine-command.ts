@@ -20,7 +20,7 @@ import { toCsv } from './csv.ts';
 import { writeFileAtomicSync } from './durable/atomic-write.ts';
 import { InputError, optionError } from './input-error.ts';
 import type { CliIo } from './io.ts';
-import { readRunRecord, RUN_FILES } from './run-directory.ts';
+import { readRunRecord, RUN_FILES, runDigits } from './run-directory.ts';
 import { columnSet } from './sweep-columns.ts';
 import { loadRunSpec, spaceDefinitionOf } from './sweep-command.ts';
 import { candidateNumbering, outputEntries, rankedRows, sortedFront } from './sweep-outputs.ts';
@@ -81,7 +81,7 @@ export async function refineCommand(directory: string, options: RefineCommandOpt
   const improved = improvedDesigns(sortedFront(outcome.merged), spec.samples);
   const rows = rankedRows(spec.dimensions, improved);
   for (const row of rows) row[indexColumn] = null;
-  writeFileAtomicSync(join(directory, RUN_FILES.refined), toCsv(columns.header, rows));
+  writeFileAtomicSync(join(directory, RUN_FILES.refined), toCsv(columns.header, rows, runDigits(record)));
   writeFileAtomicSync(
     join(directory, RUN_FILES.refinedDesigns),
     `${JSON.stringify(
@@ -100,13 +100,20 @@ export async function refineCommand(directory: string, options: RefineCommandOpt
     row[indexColumn] = null;
     row[rankColumn] = refinedId.get(entry.item.index) ?? null;
   });
-  writeFileAtomicSync(join(directory, RUN_FILES.front), toCsv(columns.header, frontRows));
+  writeFileAtomicSync(join(directory, RUN_FILES.front), toCsv(columns.header, frontRows, runDigits(record)));
   writeFileAtomicSync(
     join(directory, 'front.svg'),
     await frontPlotSvg(
       spec.objectives,
       improved.map((entry) => unpackRow(entry.payload)),
       front.map((entry) => unpackRow(entry.payload)),
+      {
+        // Swept designs keep their rank in candidates.csv; refined ones are marked as such.
+        ranks: front.map((entry) =>
+          entry.item.index >= spec.samples ? null : (candidates.get(entry.item.index)?.rank ?? null),
+        ),
+        refined: front.map((entry) => entry.item.index >= spec.samples),
+      },
     ),
   );
   const summaryPath = join(directory, RUN_FILES.summary);
