@@ -19,6 +19,8 @@ export const WINDING_PANELS = 64;
 export const FINEST_SEGMENTS = WINDING_PANELS / 2;
 /** Coarsest count tried. */
 export const COARSEST_SEGMENTS = 8;
+/** Fewest turns in one segment (see solveAt). */
+export const MIN_TURNS_PER_SEGMENT = 1;
 /** Convergence rule: fundamental within this fraction of the one at twice the count. */
 export const SEGMENT_TOLERANCE = 1e-3;
 
@@ -55,6 +57,11 @@ export function windingResonator(
   const solveAt = (stride: number) => {
     const coarse = coarsenCapacitance(folded, capacitance.fractions, stride);
     if (!coarse) return null;
+    // A segment shorter than MIN_TURNS_PER_SEGMENT turns shares its turns with its neighbours so
+    // much that the inductance matrix loses rank (two segments inside one turn link the same flux).
+    for (let k = 0; k < coarse.fractions.length - 1; k++) {
+      if ((coarse.fractions[k + 1] - coarse.fractions[k]) * winding.turns < MIN_TURNS_PER_SEGMENT) return null;
+    }
     const inductance = segmentInductanceMatrix(winding, Array.from(coarse.fractions));
     const solution = solveResonator({ inductance, capacitance: coarse.matrix, fractions: coarse.fractions, length });
     return solution ? { solution, fractions: coarse.fractions } : null;
@@ -63,13 +70,19 @@ export function windingResonator(
   let stride = capacitance.nodes / COARSEST_SEGMENTS;
   if (!Number.isInteger(stride) || stride < 1) stride = 1;
   let previous = solveAt(stride);
+  // A winding of few turns: fewer, longer segments (down to one).
+  while (!previous && stride < capacitance.nodes) {
+    stride *= 2;
+    if (capacitance.nodes % stride !== 0) break;
+    previous = solveAt(stride);
+  }
   if (!previous) return null;
   fundamentalByCount.push({ segments: previous.solution.segments, frequency: previous.solution.fundamental.frequency });
   while (stride > 2) {
     stride /= 2;
     if (!Number.isInteger(stride)) break;
     const next = solveAt(stride);
-    if (!next) return null;
+    if (!next) break;
     fundamentalByCount.push({ segments: next.solution.segments, frequency: next.solution.fundamental.frequency });
     const change = Math.abs(next.solution.fundamental.frequency / previous.solution.fundamental.frequency - 1);
     if (change < SEGMENT_TOLERANCE) {
