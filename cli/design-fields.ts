@@ -75,10 +75,11 @@ export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
       }),
       voltage_profile: {
         type: 'enum',
-        values: ['linear', 'quarter_wave'],
+        values: ['computed', 'linear', 'quarter_wave'],
         optional: true,
-        default: 'linear',
-        description: 'voltage distribution along the winding used by the field solve',
+        default: 'computed',
+        description:
+          'voltage distribution along the winding: computed by the distributed model of the winding (default), or an assumed linear or quarter-wave shape with the lumped frequency',
       },
     },
   },

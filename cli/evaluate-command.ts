@@ -11,7 +11,12 @@ import type { CliIo } from './io.ts';
 
 /** The JSON contract (README, Metrics and Warnings): { design, metrics, warnings }, SI units. */
 export function evaluationJson(tree: NormalTree, evaluation: Evaluation): Record<string, unknown> {
-  return { design: treeToJson(tree), metrics: evaluation.metrics, warnings: evaluation.warnings };
+  return {
+    design: treeToJson(tree),
+    metrics: evaluation.metrics,
+    warnings: evaluation.warnings,
+    profile: evaluation.profile,
+  };
 }
 
 export function evaluateCommand(file: string, options: { json?: boolean }, io: CliIo): number {

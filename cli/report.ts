@@ -49,6 +49,19 @@ const GROUPS: Group[] = [
     note: "breakout voltage is a corona-onset estimate (Peek's law), not a guarantee of streamers",
   },
   {
+    title: 'The winding as a distributed resonator',
+    keys: [
+      'resonant_frequency_lumped',
+      'overtone_frequency',
+      'overtone_ratio',
+      'effective_inductance',
+      'effective_capacitance',
+      'axial_gradient_position',
+      'resonator_segments',
+    ],
+    note: 'with voltage_profile computed (the default); the lumped value is the linear-profile cross-check',
+  },
+  {
     title: 'Primary, coupling and tuning',
     keys: [
       'primary_full_inductance',
@@ -92,6 +105,13 @@ const GROUPS: Group[] = [
 /** Short labels for the report (the metric descriptions in core/metrics.ts say more). */
 const LABELS: Record<string, string> = {
   secondary_turns: 'turns',
+  resonant_frequency_lumped: 'lumped cross-check (Thomson, linear profile)',
+  overtone_frequency: 'first overtone',
+  overtone_ratio: 'overtone / fundamental',
+  effective_inductance: 'effective inductance at the top',
+  effective_capacitance: 'effective capacitance at the top',
+  axial_gradient_position: 'steepest gradient at (fraction of length from base)',
+  resonator_segments: 'segments of the model',
   winding_length: 'winding length',
   winding_aspect_ratio: 'winding length / form diameter',
   wire_length: 'wire length',
@@ -168,6 +188,13 @@ export function formatReport(file: string, evaluation: Evaluation): string {
     out.push(group.title);
     for (const key of present) if (evaluation.metrics[key] !== null) out.push(line(key, evaluation.metrics[key]));
     if (group.note) out.push(`  (${group.note})`);
+    out.push('');
+  }
+  if (evaluation.profile) {
+    const row = (values: number[]) => values.map((v) => v.toFixed(2)).join(' ');
+    out.push('Fundamental along the winding, base to top, every tenth of its length');
+    out.push(`  ${'voltage (1 at the top)'.padEnd(28, ' ')} ${row(evaluation.profile.voltage)}`);
+    out.push(`  ${'current (1 at its largest)'.padEnd(28, ' ')} ${row(evaluation.profile.current)}`);
     out.push('');
   }
   const others = Object.keys(evaluation.metrics).filter((key) => !listed.has(key) && evaluation.metrics[key] !== null);

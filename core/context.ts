@@ -8,6 +8,8 @@ import type { Design } from './design.ts';
 import type { Metrics } from './metrics.ts';
 import type { DesignWarning } from './outcome/warnings.ts';
 
+import type { DistributedWinding } from './resonator/design-resonator.ts';
+
 /** A reason why a design cannot be built as given (an infeasible candidate, exit 2 in evaluate). */
 export interface DesignProblem {
   /** Field path in the design file's own names, e.g. 'primary.inner_diameter'. */
@@ -85,4 +87,6 @@ export interface EvalContext {
   secondary?: SecondaryGeometry;
   primary?: PrimaryGeometry;
   electrostatics?: ElectrostaticSolution;
+  /** The distributed model of the winding, with the computed profile (core/resonator/design-resonator.ts). */
+  resonator?: DistributedWinding;
 }

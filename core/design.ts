@@ -33,8 +33,11 @@ export interface SecondarySpec {
   pitch?: number;
   /** Bottom of the winding above the floor, m. */
   baseHeight: number;
-  /** Voltage distribution along the winding for the field solve. */
-  voltageProfile: 'linear' | 'quarter_wave';
+  /**
+   * Voltage distribution along the winding: 'computed' (the distributed resonator's fundamental,
+   * the default) or an assumed 'linear' or 'quarter_wave' shape with the lumped Thomson frequency.
+   */
+  voltageProfile: 'computed' | 'linear' | 'quarter_wave';
 }
 
 export interface ToroidSpec {

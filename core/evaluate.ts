@@ -22,6 +22,32 @@ export interface Evaluation {
   warnings: DesignWarning[];
   /** Empty for a buildable design; otherwise why it cannot be built (infeasible). */
   problems: DesignProblem[];
+  /** The fundamental along the winding, with the computed profile (null otherwise). */
+  profile: WindingProfileTable | null;
+}
+
+/**
+ * The fundamental at every tenth of the winding's length from the base: the voltage normalised to
+ * 1 at the top, the current normalised to its largest value (the segment's current at that height).
+ */
+export interface WindingProfileTable {
+  fraction: number[];
+  voltage: number[];
+  current: number[];
+}
+
+/** The profile table of the distributed model, at every tenth of the winding. */
+function profileTable(resonator: NonNullable<EvalContext['resonator']>): WindingProfileTable {
+  const fraction = Array.from({ length: 11 }, (_, k) => k / 10);
+  const current = resonator.solution.fundamental.current;
+  let largest = 0;
+  for (const value of current) largest = Math.max(largest, Math.abs(value));
+  const currentAt = (x: number) => {
+    let k = 0;
+    while (k < current.length - 1 && resonator.fractions[k + 1] < x) k++;
+    return largest > 0 ? Math.abs(current[k]) / largest : 0;
+  };
+  return { fraction, voltage: fraction.map((x) => resonator.shape(x)), current: fraction.map(currentAt) };
 }
 
 const STAGES: ReadonlyArray<(context: EvalContext) => void> = [
@@ -40,5 +66,6 @@ export function evaluateDesign(design: Design): Evaluation {
     if (context.problems.length > 0) break;
   }
   context.metrics.warning_count = context.warnings.length;
-  return { metrics: context.metrics, warnings: context.warnings, problems: context.problems };
+  const profile = context.resonator && context.problems.length === 0 ? profileTable(context.resonator) : null;
+  return { metrics: context.metrics, warnings: context.warnings, problems: context.problems, profile };
 }

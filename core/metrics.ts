@@ -74,7 +74,11 @@ export const METRICS: readonly MetricInfo[] = [
   metric('peak_voltage', 'V', 'peak secondary voltage if the topload held'),
   metric('breakout_margin', '', 'breakout voltage over peak voltage'),
   metric('topload_peak_field', 'V/m', 'peak topload surface field at the peak voltage'),
-  metric('axial_gradient', 'V/m', 'peak voltage over the winding length'),
+  metric(
+    'axial_gradient',
+    'V/m',
+    'steepest voltage gradient along the winding at the peak voltage (from the profile; linear: peak voltage over the winding length)',
+  ),
   metric(
     'primary_strike_margin',
     '',
@@ -122,6 +126,29 @@ export const METRICS: readonly MetricInfo[] = [
     'm',
     'overall height plus the spark length estimate (common practice: sparks reach about their length upward): the ceiling the sparks need',
   ),
+  metric(
+    'resonant_frequency_lumped',
+    'Hz',
+    "lumped cross-check: Thomson's 1/(2π√(L·C)) with the winding's inductance and the capacitance of the linear (or given) profile",
+  ),
+  metric('overtone_frequency', 'Hz', "first overtone of the winding's distributed resonance (computed profile)"),
+  metric('overtone_ratio', '', 'first overtone over the fundamental (a uniform line would give 3)'),
+  metric(
+    'effective_inductance',
+    'H',
+    'inductance seen at the top at the fundamental: with effective_capacitance, the same frequency and stored energy',
+  ),
+  metric(
+    'effective_capacitance',
+    'F',
+    'capacitance seen at the top at the fundamental: the stored energy of the computed profile over ½V² at the top',
+  ),
+  metric(
+    'axial_gradient_position',
+    '',
+    'where the steepest voltage gradient along the winding sits, as a fraction of its length from the base',
+  ),
+  metric('resonator_segments', 'count', 'segments of the distributed model of the winding, chosen by convergence'),
 ];
 
 export const METRIC_KEYS: readonly string[] = METRICS.map((m) => m.key);

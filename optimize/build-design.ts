@@ -94,7 +94,7 @@ export function buildDesign(tree: NormalTree, basePath: string[] = []): DesignBu
       formDiameter: num(secondary, 'form_diameter')!,
       wire,
       baseHeight: num(secondary, 'base_height') ?? 0,
-      voltageProfile: (text(secondary, 'voltage_profile') ?? 'linear') as 'linear' | 'quarter_wave',
+      voltageProfile: (text(secondary, 'voltage_profile') ?? 'computed') as 'computed' | 'linear' | 'quarter_wave',
     };
     if (turns !== undefined) spec.turns = turns;
     if (windingLength !== undefined) spec.windingLength = windingLength;

@@ -205,7 +205,9 @@ export function arrangementFromDesign(
       radius: secondary.radius,
       bottomZ: secondary.bottomZ,
       topZ: secondary.topZ,
-      profile: design.secondary?.voltageProfile ?? 'linear',
+      // The computed profile is found from this arrangement (core/resonator/design-resonator.ts); the
+      // first solve assumes the linear one, which gives the lumped cross-check.
+      profile: design.secondary?.voltageProfile === 'quarter_wave' ? 'quarter_wave' : 'linear',
     };
     arrangement.groundedRings = groundedRings(design, secondary, topload, problems);
     if (problems.length > before) return null;

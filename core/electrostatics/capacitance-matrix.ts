@@ -25,7 +25,13 @@ import {
 } from './bodies.ts';
 import { assembleCollocationMatrix } from './assembly.ts';
 import { luFactor, luSolve } from './dense-lu.ts';
-import { defaultPanelCounts, type FieldArrangement } from './field-solve.ts';
+import {
+  defaultPanelCounts,
+  densityFields,
+  type FieldArrangement,
+  type SurfaceFields,
+  type VoltageShape,
+} from './field-solve.ts';
 import { buildPanelLayout, type PanelLayout, type PanelShape } from './panels.ts';
 
 /** The Maxwell matrix of the winding's nodes and the topload, SI. */
@@ -127,4 +133,23 @@ export function nodeCapacitanceMatrix(
     toploadPanels: { first: leadingCount, count: toploadCount },
     unknowns: n,
   };
+}
+
+/**
+ * The surface fields of the winding at the node voltages of a top-normalised shape (the topload at
+ * the top's voltage), by superposition of the densities solved per conductor: the field solve of
+ * that profile without a second factorisation (electrostatics is linear).
+ */
+export function shapedSurfaceFields(
+  arrangement: FieldArrangement,
+  matrix: NodeCapacitanceMatrix,
+  shape: VoltageShape,
+): SurfaceFields {
+  const density = new Float64Array(matrix.unknowns);
+  const add = (sigma: Float64Array, voltage: number) => {
+    for (let j = 0; j < density.length; j++) density[j] += voltage * sigma[j];
+  };
+  for (let k = 0; k < matrix.nodes; k++) add(matrix.densities[k], shape(matrix.fractions[k + 1]));
+  if (matrix.size > matrix.nodes) add(matrix.densities[matrix.nodes], shape(1));
+  return densityFields(arrangement, matrix.layout, density, matrix.nodes, matrix.toploadPanels.first);
 }

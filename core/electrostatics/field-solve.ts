@@ -44,8 +44,20 @@ import { buildPanelLayout, type PanelLayout, type PanelShape } from './panels.ts
 import { VACUUM_PERMITTIVITY } from './ring-kernel.ts';
 import { windingOutsideField } from './surface-field.ts';
 
-/** Voltage distribution along the winding. */
-export type WindingProfile = 'linear' | 'quarter_wave';
+/** A top-normalised voltage along the winding as a function of the fraction of its length (0 at the base). */
+export type VoltageShape = (fraction: number) => number;
+
+/**
+ * Voltage distribution along the winding: linear, a quarter sine, or a computed shape (the
+ * distributed resonator's fundamental, core/resonator/design-resonator.ts).
+ */
+export type WindingProfile = 'linear' | 'quarter_wave' | VoltageShape;
+
+/** The shape of a profile. */
+export function profileShape(profile: WindingProfile): VoltageShape {
+  if (typeof profile === 'function') return profile;
+  return profile === 'quarter_wave' ? (x) => Math.sin((Math.PI / 2) * x) : (x) => x;
+}
 
 /** What the field solve sees, SI, heights above the floor. */
 export interface FieldArrangement {
@@ -172,6 +184,7 @@ export const WINDING_TOP_BAND = 0.05;
 
 function windingPotential(winding: NonNullable<FieldArrangement['winding']>, z: number): number {
   const x = (z - winding.bottomZ) / (winding.topZ - winding.bottomZ);
+  if (typeof winding.profile === 'function') return winding.profile(x);
   return winding.profile === 'quarter_wave' ? Math.sin((Math.PI / 2) * x) : x;
 }
 
@@ -328,21 +341,65 @@ export function solveField(arrangement: FieldArrangement, options: FieldSolveOpt
   if (!density.every(Number.isFinite)) return null;
 
   let totalCapacitance = 0;
-  let toploadCapacitance: number | null = null;
   if (winding) totalCapacitance += windingEnergyCapacitance(layout, density, windingCount, winding);
+  const surface = densityFields(arrangement, layout, density, windingCount, leadingCount);
+  if (surface.toploadCapacitance !== null) totalCapacitance += surface.toploadCapacitance;
+  if (winding && toploadCount === 0) selfCapacitance = totalCapacitance;
+  const { toploadCapacitance, windingTopFieldPerVolt } = surface;
+
+  return {
+    panelCounts: counts,
+    unknowns: n,
+    totalCapacitance,
+    toploadCapacitance,
+    selfCapacitance,
+    toploadPeakFieldPerVolt: surface.toploadPeakFieldPerVolt,
+    toploadPeakAngle: surface.toploadPeakAngle,
+    toploadUndersideFieldPerVolt: surface.toploadUndersideFieldPerVolt,
+    windingTopFieldPerVolt,
+    layout,
+    density,
+    toploadPanels: { first: leadingCount, count: toploadCount },
+  };
+}
+
+/** What a solved surface density gives: the topload's charge and fields, the winding's top field (per volt). */
+export interface SurfaceFields {
+  toploadCapacitance: number | null;
+  toploadPeakFieldPerVolt: number | null;
+  toploadPeakAngle: number | null;
+  toploadUndersideFieldPerVolt: number | null;
+  windingTopFieldPerVolt: number | null;
+}
+
+/**
+ * The topload's charge and surface fields and the winding's top field of a density solved on a
+ * layout whose panels are the winding's (the first `windingCount`), the grounded rings, then the
+ * topload's (from `leadingCount` on): the field solve's own density, or one formed by superposition
+ * (capacitance-matrix.ts).
+ */
+export function densityFields(
+  arrangement: FieldArrangement,
+  layout: PanelLayout,
+  density: Float64Array,
+  windingCount: number,
+  leadingCount: number,
+): SurfaceFields {
+  const n = layout.count;
+  const toploadCount = n - leadingCount;
+  const topload = arrangement.topload;
+  const winding = arrangement.winding;
+  let toploadCapacitance: number | null = null;
   if (toploadCount > 0) {
     let charge = 0;
     for (let j = leadingCount; j < n; j++) charge += density[j] * layout.area[j];
     toploadCapacitance = charge;
-    totalCapacitance += charge;
   }
-  if (winding && toploadCount === 0) selfCapacitance = totalCapacitance;
-
   let fields: { peak: number; angle: number | null; underside: number } | null = null;
   if (topload && toploadCount > 0) fields = toploadFields(topload, layout, density, leadingCount, toploadCount);
 
   let windingTopFieldPerVolt: number | null = null;
-  if (winding) {
+  if (winding && windingCount > 0) {
     // Mean over the band [top − 5 % of length, top]: each panel weighted by its overlap with it.
     const bandStart = winding.topZ - WINDING_TOP_BAND * (winding.topZ - winding.bottomZ);
     let weighted = 0;
@@ -358,20 +415,12 @@ export function solveField(arrangement: FieldArrangement, options: FieldSolveOpt
     }
     windingTopFieldPerVolt = Math.abs(weighted / overlap);
   }
-
   return {
-    panelCounts: counts,
-    unknowns: n,
-    totalCapacitance,
     toploadCapacitance,
-    selfCapacitance,
     toploadPeakFieldPerVolt: fields ? fields.peak : null,
     toploadPeakAngle: fields ? fields.angle : null,
     toploadUndersideFieldPerVolt: fields ? fields.underside : null,
     windingTopFieldPerVolt,
-    layout,
-    density,
-    toploadPanels: { first: leadingCount, count: toploadCount },
   };
 }
 

@@ -4,6 +4,7 @@
  */
 import type { SecondaryGeometry, Ring } from '../context.ts';
 import type { ToploadSpec } from '../design.ts';
+import { profileShape, type WindingProfile } from '../electrostatics/field-solve.ts';
 
 /**
  * Withstand gradient assumed for long, non-uniform air gaps at RF, V/m: ≈ 200 kV per metre, the
@@ -14,17 +15,18 @@ export const LONG_GAP_WITHSTAND_GRADIENT = 200e3;
 
 /**
  * Voltage on the secondary at height z above the floor, V, for a top voltage `peakVoltage`.
- * @param profile 'linear' (uniform gradient) or 'quarter_wave' (V ∝ sin(π/2 · s), s the fraction of the winding)
- * Below the winding 0, above it the top voltage. The profiles are the design file's voltage_profile.
+ * @param profile 'linear' (uniform gradient), 'quarter_wave' (V ∝ sin(π/2 · s), s the fraction of the
+ *   winding) or the distributed resonator's computed shape
+ * Below the winding 0, above it the top voltage.
  */
 export function windingVoltageAt(
   secondary: SecondaryGeometry,
-  profile: 'linear' | 'quarter_wave',
+  profile: WindingProfile,
   peakVoltage: number,
   z: number,
 ): number {
   const fraction = Math.min(1, Math.max(0, (z - secondary.bottomZ) / (secondary.topZ - secondary.bottomZ)));
-  return peakVoltage * (profile === 'quarter_wave' ? Math.sin((Math.PI / 2) * fraction) : fraction);
+  return peakVoltage * profileShape(profile)(fraction);
 }
 
 /**
@@ -45,7 +47,7 @@ export function primaryStrikeMargin(
   ring: Ring,
   conductorRadius: number,
   secondary: SecondaryGeometry,
-  profile: 'linear' | 'quarter_wave',
+  profile: WindingProfile,
   peakVoltage: number,
   primaryVoltage: number,
   gradient: number = LONG_GAP_WITHSTAND_GRADIENT,

@@ -42,6 +42,7 @@ export const WARNING_KEYS = [
   'axial_gradient_high',
   'primary_strike_risk',
   'strike_rail_needed',
+  'resonator_unconverged',
 ] as const;
 
 export type WarningKey = (typeof WARNING_KEYS)[number];

@@ -6,7 +6,13 @@
  */
 import { nodeCapacitanceMatrix, type NodeCapacitanceMatrix } from '../electrostatics/capacitance-matrix.ts';
 import type { FieldArrangement } from '../electrostatics/field-solve.ts';
-import { coarsenCapacitance, foldTopload, solveResonator, type ResonatorSolution } from './resonator.ts';
+import {
+  coarsenCapacitance,
+  foldTopload,
+  type LadderMatrices,
+  solveResonator,
+  type ResonatorSolution,
+} from './resonator.ts';
 import { segmentInductanceMatrix, type SegmentedWinding } from './segment-inductance.ts';
 
 /**
@@ -30,6 +36,8 @@ export interface WindingResonator {
   solution: ResonatorSolution;
   /** Node fractions of the chosen ladder. */
   fractions: Float64Array;
+  /** The chosen ladder's matrices (for re-solving it with a load at the top). */
+  ladder: LadderMatrices;
   /** Fundamental at each count tried, Hz, by count. */
   fundamentalByCount: { segments: number; frequency: number }[];
   /** True when two successive counts agreed within SEGMENT_TOLERANCE. */
@@ -63,8 +71,9 @@ export function windingResonator(
       if ((coarse.fractions[k + 1] - coarse.fractions[k]) * winding.turns < MIN_TURNS_PER_SEGMENT) return null;
     }
     const inductance = segmentInductanceMatrix(winding, Array.from(coarse.fractions));
-    const solution = solveResonator({ inductance, capacitance: coarse.matrix, fractions: coarse.fractions, length });
-    return solution ? { solution, fractions: coarse.fractions } : null;
+    const ladder = { inductance, capacitance: coarse.matrix, fractions: coarse.fractions, length };
+    const solution = solveResonator(ladder);
+    return solution ? { solution, fractions: coarse.fractions, ladder } : null;
   };
   const fundamentalByCount: { segments: number; frequency: number }[] = [];
   let stride = capacitance.nodes / COARSEST_SEGMENTS;
@@ -89,6 +98,7 @@ export function windingResonator(
       return {
         solution: previous.solution,
         fractions: previous.fractions,
+        ladder: previous.ladder,
         fundamentalByCount,
         converged: true,
         capacitance,
@@ -99,6 +109,7 @@ export function windingResonator(
   return {
     solution: previous.solution,
     fractions: previous.fractions,
+    ladder: previous.ladder,
     fundamentalByCount,
     converged: false,
     capacitance,

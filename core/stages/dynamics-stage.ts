@@ -5,7 +5,7 @@
  * circuit they make with the inductances, the tank and the total capacitance, and what one shot
  * (spark gap) or burst (solid state) of that circuit does. The circuit simulated is exactly the
  * one the metrics describe: R1 = primary_resistance, L1 = primary_inductance, C1 = the tank
- * capacitance, M = coupling·√(L1 L2), R2 = secondary_ac_resistance, L2 = secondary_inductance,
+ * capacitance, M = coupling·√(L1 L2), R2 = secondary_ac_resistance, L2 = effective_inductance,
  * C2 = total_capacitance; a spark-gap shot starts with v1 = charge_voltage and all else at rest.
  */
 import type { EvalContext } from '../context.ts';
@@ -39,18 +39,17 @@ export function dynamicsStage(context: EvalContext): void {
   if (!secondary || !electrostatics || !(electrostatics.totalCapacitance > 0)) return;
 
   // --- secondary losses ---
-  const l2 = secondary.inductance;
+  // With the computed profile: the distributed model's effective values at the top (same frequency,
+  // same stored energy for the same top voltage) and the resistance its current distribution sees.
+  const resonator = context.resonator;
+  const l2 = resonator?.effectiveInductance ?? secondary.inductance;
   const c2 = electrostatics.totalCapacitance;
   const f2 = positive(metrics.resonant_frequency) ?? 1 / (2 * Math.PI * Math.sqrt(l2 * c2));
   if (!(secondary.dcResistance > 0) || !(secondary.wireLength > 0) || !(secondary.bareDiameter > 0) || !(l2 > 0))
     return;
-  const r2 = solenoidAcResistance(
-    secondary.dcResistance,
-    secondary.wireLength,
-    secondary.bareDiameter,
-    secondary.pitch,
-    f2,
-  );
+  const r2 =
+    solenoidAcResistance(secondary.dcResistance, secondary.wireLength, secondary.bareDiameter, secondary.pitch, f2) *
+    (resonator?.resistanceFactor ?? 1);
   if (!Number.isFinite(r2)) return;
   metrics.secondary_ac_resistance = r2;
   metrics.secondary_q = (2 * Math.PI * f2 * l2) / r2;

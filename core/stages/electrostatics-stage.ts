@@ -3,8 +3,12 @@
  *
  * Solves the field of the arrangement (core/electrostatics/field-solve.ts) for 1 V at the top of
  * the winding: the topload, the winding with its voltage distribution, the grounded primary rings
- * and strike rail, the floor. Sets the capacitances, the resonant frequency (Thomson,
- * 1/(2π√(L·C_total))) and its streamer-loaded value (common practice, 1 pF per foot), the surface
+ * and strike rail, the floor. With the computed profile (the default) the winding is also solved as
+ * a distributed resonator (core/resonator/design-resonator.ts): the resonant frequency is its
+ * fundamental, the fields are those of the fundamental's voltage shape (by superposition), and the capacitance
+ * at the top is the mode's energy capacitance; with an assumed profile the resonant frequency is
+ * Thomson's 1/(2π√(L·C_total)). Either way the lumped value with the linear (or given) profile is
+ * kept as a cross-check. Sets the streamer-loaded frequency (common practice, 1 pF per foot), the surface
  * fields per volt, Peek's onset field for the topload's curvature (cylinder form with the tube
  * radius for a toroid, sphere form for a sphere) with the relative air density from altitude and
  * temperature, and the breakout voltage = onset field / peak field per volt (a corona-onset
@@ -23,7 +27,10 @@ import { medhurstSelfCapacitance } from '../capacitance/medhurst.ts';
 import { lcResonantFrequency } from '../capacitance/resonance.ts';
 import { streamerCapacitance } from '../capacitance/streamer.ts';
 import { arrangementFromDesign } from '../electrostatics/arrangement.ts';
-import { solveField } from '../electrostatics/field-solve.ts';
+import { shapedSurfaceFields } from '../electrostatics/capacitance-matrix.ts';
+import { solveField, type SurfaceFields } from '../electrostatics/field-solve.ts';
+import { distributedWinding } from '../resonator/design-resonator.ts';
+import { formatNumber } from '../outcome/warnings.ts';
 
 /** Runs the field solve for the design in `context` and sets its electrostatics metrics (see above). */
 export function electrostaticsStage(context: EvalContext): void {
@@ -59,27 +66,62 @@ export function electrostaticsStage(context: EvalContext): void {
 
   const arrangement = arrangementFromDesign(design, secondary, problems);
   if (!arrangement) return;
-  const solution = solveField(arrangement);
-  if (!solution) {
+  const lumped = solveField(arrangement);
+  if (!lumped) {
     problems.push({
       field: design.topload ? 'topload' : 'secondary',
       reason: 'the field solve found no solution for this geometry (singular system)',
     });
     return;
   }
+  let surface: SurfaceFields = lumped;
+  // The computed profile: the distributed resonator's fundamental, then the fields of that profile.
+  if (secondary && arrangement.winding && design.secondary?.voltageProfile === 'computed') {
+    const resonator = distributedWinding(arrangement, {
+      radius: secondary.radius,
+      turns: secondary.turns,
+      pitch: secondary.pitch,
+      wireRadius: secondary.bareDiameter / 2,
+    });
+    if (!resonator) {
+      problems.push({
+        field: 'secondary',
+        reason:
+          'the distributed model of the winding found no resonance (its inductance or capacitance matrix is not positive definite)',
+      });
+      return;
+    }
+    context.resonator = resonator;
+    if (!resonator.converged) {
+      const change =
+        resonator.lastChange === null
+          ? ''
+          : ` (the last doubling changed it by ${formatNumber(100 * resonator.lastChange)} %)`;
+      context.warnings.push({
+        key: 'resonator_unconverged',
+        message: `the distributed model of the winding stopped at ${resonator.solution.segments} segments before its fundamental converged to 0.1 %${change}: ${formatNumber(secondary.turns)} turns allow no finer segments of at least one turn`,
+      });
+    }
+    // The fields of the computed profile, by superposition of the resonator's solved densities.
+    surface = shapedSurfaceFields(arrangement, resonator.capacitance, resonator.shape);
+  }
+  const resonator = context.resonator;
 
   const airDensity = relativeAirDensity(environment.altitude, environment.temperature);
   metrics.air_density_factor = airDensity;
-  metrics.total_capacitance = solution.totalCapacitance;
+  // The capacitance seen at the top: the resonator's energy capacitance when computed (equal to the
+  // shaped field solve's to discretisation accuracy), else the field solve's for the given profile.
+  const totalCapacitance = resonator ? resonator.effectiveCapacitance : lumped.totalCapacitance;
+  metrics.total_capacitance = totalCapacitance;
 
   let onsetField: number | null = null;
   let breakout: number | null = null;
   const topload = arrangement.topload;
-  if (topload && solution.toploadCapacitance !== null && solution.toploadPeakFieldPerVolt !== null) {
-    metrics.topload_capacitance = solution.toploadCapacitance;
-    metrics.topload_field_per_volt = solution.toploadPeakFieldPerVolt;
-    metrics.topload_underside_field_per_volt = solution.toploadUndersideFieldPerVolt;
-    metrics.topload_peak_field_angle = solution.toploadPeakAngle;
+  if (topload && surface.toploadCapacitance !== null && surface.toploadPeakFieldPerVolt !== null) {
+    metrics.topload_capacitance = surface.toploadCapacitance;
+    metrics.topload_field_per_volt = surface.toploadPeakFieldPerVolt;
+    metrics.topload_underside_field_per_volt = surface.toploadUndersideFieldPerVolt;
+    metrics.topload_peak_field_angle = surface.toploadPeakAngle;
     onsetField =
       topload.shape === 'toroid'
         ? peekCylinderOnsetField(topload.minorRadius, airDensity, surfaceFactor)
@@ -88,34 +130,47 @@ export function electrostaticsStage(context: EvalContext): void {
           : null;
     if (onsetField !== null) {
       metrics.topload_onset_field = onsetField;
-      breakout = breakoutVoltage(onsetField, solution.toploadPeakFieldPerVolt);
+      breakout = breakoutVoltage(onsetField, surface.toploadPeakFieldPerVolt);
       metrics.breakout_voltage = breakout;
     }
   }
 
   if (secondary && arrangement.winding) {
-    metrics.secondary_self_capacitance = solution.selfCapacitance;
+    metrics.secondary_self_capacitance = lumped.selfCapacitance;
     metrics.secondary_self_capacitance_medhurst = medhurstSelfCapacitance(
       2 * secondary.radius,
       secondary.topZ - secondary.bottomZ,
     );
-    metrics.winding_top_field_per_volt = solution.windingTopFieldPerVolt;
+    metrics.winding_top_field_per_volt = surface.windingTopFieldPerVolt;
     if (secondary.inductance > 0) {
-      metrics.resonant_frequency = lcResonantFrequency(secondary.inductance, solution.totalCapacitance);
+      metrics.resonant_frequency_lumped = lcResonantFrequency(secondary.inductance, lumped.totalCapacitance);
       const streamerLength = environment.streamerLength ?? 0;
-      if (streamerLength > 0) {
-        metrics.loaded_resonant_frequency = lcResonantFrequency(
-          secondary.inductance,
-          solution.totalCapacitance + streamerCapacitance(streamerLength),
-        );
+      const streamer = streamerLength > 0 ? streamerCapacitance(streamerLength) : 0;
+      if (resonator) {
+        metrics.resonant_frequency = resonator.fundamental;
+        metrics.overtone_frequency = resonator.overtone;
+        metrics.overtone_ratio = resonator.overtone !== null ? resonator.overtone / resonator.fundamental : null;
+        metrics.effective_inductance = resonator.effectiveInductance;
+        metrics.effective_capacitance = resonator.effectiveCapacitance;
+        metrics.axial_gradient_position = resonator.peakGradientFraction;
+        metrics.resonator_segments = resonator.solution.segments;
+        if (streamer > 0) metrics.loaded_resonant_frequency = resonator.loadedFundamental(streamer);
+      } else {
+        metrics.resonant_frequency = lcResonantFrequency(secondary.inductance, totalCapacitance);
+        metrics.effective_inductance = secondary.inductance;
+        metrics.effective_capacitance = totalCapacitance;
+        metrics.axial_gradient_position = design.secondary?.voltageProfile === 'quarter_wave' ? 0 : null;
+        if (streamer > 0) {
+          metrics.loaded_resonant_frequency = lcResonantFrequency(secondary.inductance, totalCapacitance + streamer);
+        }
       }
     }
   }
 
   context.electrostatics = {
-    totalCapacitance: solution.totalCapacitance,
-    toploadCapacitance: solution.toploadCapacitance,
-    toploadFieldPerVolt: solution.toploadPeakFieldPerVolt,
+    totalCapacitance,
+    toploadCapacitance: surface.toploadCapacitance,
+    toploadFieldPerVolt: surface.toploadPeakFieldPerVolt,
     onsetField,
     breakoutVoltage: breakout,
   };

@@ -5,6 +5,7 @@
  * strike clearance to the primary, overall height, the spark-length rule of thumb and the
  * streamer-loaded frequency, and the warnings.
  */
+import type { WindingProfile } from '../electrostatics/field-solve.ts';
 import type { EvalContext } from '../context.ts';
 import { overallHeight } from '../outcome/overall-height.ts';
 import { loadedResonantFrequency, sparkLengthEstimate } from '../outcome/spark-length.ts';
@@ -37,11 +38,10 @@ export function outcomeStage(context: EvalContext): void {
   if (sparkLength !== null && metrics.overall_height !== null)
     metrics.headroom_needed = metrics.overall_height + sparkLength;
   if (sparkLength !== null && secondary && electrostatics && design.environment.streamerLength === undefined) {
-    metrics.loaded_resonant_frequency = loadedResonantFrequency(
-      secondary.inductance,
-      electrostatics.totalCapacitance,
-      streamerCapacitance(sparkLength),
-    );
+    const streamer = streamerCapacitance(sparkLength);
+    metrics.loaded_resonant_frequency = context.resonator
+      ? context.resonator.loadedFundamental(streamer)
+      : loadedResonantFrequency(secondary.inductance, electrostatics.totalCapacitance, streamer);
   }
   if (peak === null || !(peak > 0)) return;
 
@@ -65,7 +65,7 @@ export function outcomeStage(context: EvalContext): void {
   if (fieldPerVolt !== null) metrics.topload_peak_field = fieldPerVolt * peak;
 
   if (secondary) {
-    const gradient = peak / secondary.windingLength;
+    const gradient = peak * gradientPerVolt(context, secondary.windingLength);
     metrics.axial_gradient = gradient;
     if (gradient > AXIAL_GRADIENT_LIMIT) {
       warnings.push({
@@ -84,7 +84,7 @@ export function outcomeStage(context: EvalContext): void {
       outerRing,
       primary.conductorRadius,
       secondary,
-      design.secondary.voltageProfile,
+      windingProfile(context),
       peak,
       primaryVoltage,
     );
@@ -108,4 +108,20 @@ export function outcomeStage(context: EvalContext): void {
       }
     }
   }
+}
+
+/** The voltage profile along the winding: the computed shape, or the design's assumed one. */
+function windingProfile(context: EvalContext): WindingProfile {
+  if (context.resonator) return context.resonator.shape;
+  return context.design.secondary?.voltageProfile === 'quarter_wave' ? 'quarter_wave' : 'linear';
+}
+
+/**
+ * The steepest |dV/dz| along the winding per volt at the top, 1/m: the computed profile's peak, the
+ * quarter sine's π/(2ℓ) at the base, or the linear profile's 1/ℓ.
+ */
+function gradientPerVolt(context: EvalContext, windingLength: number): number {
+  if (context.resonator) return context.resonator.peakGradientPerVolt;
+  const quarterWave = context.design.secondary?.voltageProfile === 'quarter_wave';
+  return (quarterWave ? Math.PI / 2 : 1) / windingLength;
 }

@@ -16,6 +16,9 @@
  *   capacitance at the top of the winding; if the target is out of reach the nearer end is used
  *   and a warning says so. Without a tank or without the electrostatic solution: the whole primary,
  *   and `primary_tap_turns` is null.
+ * - With the computed profile the secondary is the distributed model's effective inductance at the
+ *   top, and the mutual is the mode's: M_eff = |Σ m_k i_k| / I_eff with m_k each segment's mutual
+ *   to the tapped primary (core/resonator/resonator.ts).
  * - `primary_inductance`, `mutual_inductance`, `coupling`: of the primary as tapped.
  *   `primary_outer_diameter`: twice the centre-line radius of the outermost ring.
  * - Clearance: the innermost ring's inner edge (inner_diameter/2 − conductor radius) must lie
@@ -28,6 +31,9 @@ import { tuneTap } from '../primary/tuning.ts';
 import { formatNumber, formatQuantity, TUNING_TOLERANCE } from '../outcome/warnings.ts';
 import { lcResonantFrequency } from '../capacitance/resonance.ts';
 import { couplingCoefficient, ringMutualInductances, tappedMutualInductance } from '../coupling.ts';
+import { ringToSheetMutualInductance } from '../inductance/sheet-mutual.ts';
+import { segmentMutuals } from '../resonator/design-resonator.ts';
+import { effectiveMutualInductance } from '../resonator/resonator.ts';
 
 /** A length in millimetres for messages. */
 function mm(metres: number): string {
@@ -102,6 +108,9 @@ export function primaryStage(context: EvalContext): void {
   const tankCapacitance = design.tank?.capacitance;
   const totalCapacitance = context.electrostatics?.totalCapacitance;
 
+  // The secondary as the tank sees it: the distributed model's effective inductance at the top when
+  // computed (with the effective capacitance it gives the fundamental), else the winding's own.
+  const secondaryInductance = context.resonator?.effectiveInductance ?? secondary?.inductance ?? 0;
   let tapTurns = spec.turns;
   let reportedTap: number | null = null;
   let untunedRange: string | null = null;
@@ -109,7 +118,7 @@ export function primaryStage(context: EvalContext): void {
     tapTurns = spec.tapTurns;
     reportedTap = tapTurns;
   } else if (secondary && tankCapacitance !== undefined && totalCapacitance !== undefined && totalCapacitance > 0) {
-    const tuning = tuneTap(table, secondary.inductance, totalCapacitance, tankCapacitance, spec.turns);
+    const tuning = tuneTap(table, secondaryInductance, totalCapacitance, tankCapacitance, spec.turns);
     tapTurns = tuning.tapTurns;
     reportedTap = tapTurns;
     if (tuning.status !== 'tuned') {
@@ -128,8 +137,18 @@ export function primaryStage(context: EvalContext): void {
       turns: secondary.turns,
     });
     mutual = tappedMutualInductance(ringMutuals, tapTurns);
+    const resonator = context.resonator;
+    if (resonator) {
+      // The mode's own current distribution links the primary: M_eff = |Σ m_k i_k| / I_eff.
+      const weights = rings.map((ring, i) => ({
+        weight: Math.min(1, Math.max(0, tapTurns - i)),
+        mutual: (bottomZ: number, topZ: number, turns: number) =>
+          ringToSheetMutualInductance(ring.r, ring.z, { radius: secondary.radius, bottomZ, topZ, turns }),
+      }));
+      mutual = effectiveMutualInductance(resonator.solution, segmentMutuals(resonator.fractions, secondary, weights));
+    }
     metrics.mutual_inductance = mutual;
-    metrics.coupling = couplingCoefficient(mutual, inductance, secondary.inductance);
+    metrics.coupling = couplingCoefficient(mutual, inductance, secondaryInductance);
   }
   let outerRadius = 0;
   for (const ring of rings) outerRadius = Math.max(outerRadius, ring.r);
@@ -153,7 +172,7 @@ export function primaryStage(context: EvalContext): void {
   }
   const secondaryFrequency =
     secondary && totalCapacitance !== undefined && totalCapacitance > 0
-      ? lcResonantFrequency(secondary.inductance, totalCapacitance)
+      ? lcResonantFrequency(secondaryInductance, totalCapacitance)
       : null;
   tuningRequirement(context, secondaryFrequency, untunedRange);
 }

@@ -38,7 +38,12 @@ describe('coilfront evaluate on the example designs', () => {
       expect(result.err).toBe('');
       expect(result.code).toBe(0);
       const parsed = JSON.parse(result.out);
-      expect(Object.keys(parsed)).toEqual(['design', 'metrics', 'warnings']);
+      expect(Object.keys(parsed)).toEqual(['design', 'metrics', 'warnings', 'profile']);
+      // the fundamental along the winding at every tenth (null without a winding or with an assumed profile)
+      if (parsed.profile !== null) {
+        expect(parsed.profile.fraction).toHaveLength(11);
+        expect(parsed.profile.voltage[10]).toBeCloseTo(1, 12);
+      }
       expect(Object.keys(parsed.metrics)).toEqual([...METRIC_KEYS]);
       for (const value of Object.values(parsed.metrics)) expect(value === null || Number.isFinite(value)).toBe(true);
     });

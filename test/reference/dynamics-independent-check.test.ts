@@ -26,7 +26,7 @@ interface Lumped {
 
 function lumped(metrics: Record<string, number | null>, tankCapacitance: number): Lumped {
   const L1 = metrics.primary_inductance!,
-    L2 = metrics.secondary_inductance!;
+    L2 = metrics.effective_inductance!; // the secondary as the circuit sees it (dynamics-stage.ts)
   return {
     L1,
     C1: tankCapacitance,
