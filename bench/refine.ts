@@ -8,7 +8,7 @@ import { createSobolSampler } from '../optimize/sampling/sobol-sampler.ts';
  * Benchmark of the refinement engine on ZDT-style problems: hypervolume gained per 1,000
  * evaluations by Chebyshev-scalarised Nelder–Mead refinement of a sample's front, against spending
  * the same 1,000 evaluations on more Sobol samples (the next indices of the same sequence).
- * Target (issue 7): at least 3× on the demo scenario; this file is the same comparison on the
+ * Target: at least 3× on the demo scenario; this file is the same comparison on the
  * ZDT1 and ZDT2 test problems (Zitzler, Deb & Thiele, Evol. Comput. 8 (2000) 173–195), which are
  * cheap, so it measures the engine's efficiency per evaluation and not the physics.
  *

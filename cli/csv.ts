@@ -1,6 +1,7 @@
 /**
  * CSV for spreadsheets, by csv-stringify: RFC 4180 quoting, '.' as decimal point, no thousands
- * separators, numbers in their shortest exact form, and text cells that a spreadsheet would read as a
+ * separators, numbers in their shortest exact form, booleans as 1/0, NaN and infinities (a boundary
+ * design's crowding distance) as empty cells, and text cells that a spreadsheet would read as a
  * formula (starting with = + - @, or a tab or carriage return) guarded with a leading apostrophe.
  */
 import { stringify } from 'csv-stringify/sync';
@@ -15,12 +16,12 @@ export function guardText(text: string): string {
 function cellText(cell: Cell): string {
   if (cell === null) return '';
   if (typeof cell === 'number') {
-    if (Number.isNaN(cell)) return '';
-    if (cell === Infinity) return 'inf';
-    if (cell === -Infinity) return '-inf';
+    // No text in numeric columns: NaN and ±Infinity (a boundary design's crowding distance) are
+    // empty cells, which every spreadsheet reads as blank rather than as a word.
+    if (!Number.isFinite(cell)) return '';
     return String(cell);
   }
-  if (typeof cell === 'boolean') return cell ? 'true' : 'false';
+  if (typeof cell === 'boolean') return cell ? '1' : '0';
   return guardText(cell);
 }
 

@@ -15,6 +15,11 @@ export type FieldSpec =
       integer?: boolean;
       optional?: boolean;
       default?: number;
+      /**
+       * Plausible SI magnitudes [low, high] for a bare number (one without a unit): outside them
+       * the number is refused with the unit it probably meant. Defaults by kind (PLAUSIBLE_BY_KIND).
+       */
+      plausible?: readonly [number, number];
       description: string;
     }
   | { type: 'enum'; values: readonly string[]; optional?: boolean; default?: string; description: string }
@@ -42,7 +47,7 @@ export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
     description: 'the tall single-layer secondary winding',
     optional: true,
     fields: {
-      form_diameter: length('outside diameter of the coil form'),
+      form_diameter: length('outside diameter of the coil form', { plausible: [5e-3, 5] }),
       wire: { type: 'wire', description: "wire size: 'AWG n' (ASTM B258) or a bare copper diameter such as '0.6 mm'" },
       insulation: {
         type: 'enum',
@@ -111,7 +116,7 @@ export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
         range: 'positive',
         description: 'number of rings (a fraction makes the last ring partial)',
       },
-      conductor_diameter: length('diameter of the conductor (tube or wire)'),
+      conductor_diameter: length('diameter of the conductor (tube or wire)', { plausible: [1e-4, 0.1] }),
       turn_spacing: length('gap between neighbouring conductors; pitch = conductor diameter + spacing', {
         range: 'nonnegative',
       }),
@@ -156,7 +161,7 @@ export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
     optional: true,
     fields: {
       diameter: length("diameter of the ring's centre line"),
-      conductor_diameter: length('diameter of the rail conductor'),
+      conductor_diameter: length('diameter of the rail conductor', { plausible: [1e-4, 0.1] }),
       elevation: length("height above the secondary's bottom turn", { range: 'any', optional: true, default: 0 }),
     },
   },
@@ -170,6 +175,7 @@ export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
         kind: 'voltage',
         range: 'positive',
         optional: true,
+        plausible: [300, 1e6],
         description: 'voltage the capacitor is charged to before each shot (spark-gap driver)',
       },
       voltage_rating: {
@@ -177,6 +183,7 @@ export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
         kind: 'voltage',
         range: 'positive',
         optional: true,
+        plausible: [300, 1e6],
         description: 'DC rating of the capacitor bank, for the rating check',
       },
     },
@@ -251,7 +258,12 @@ export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
     description: 'the air around the coil',
     optional: true,
     fields: {
-      altitude: length('altitude above sea level (standard atmosphere)', { range: 'any', optional: true, default: 0 }),
+      altitude: length('altitude above sea level (standard atmosphere)', {
+        range: 'any',
+        optional: true,
+        default: 0,
+        plausible: [0, 9000],
+      }),
       temperature: {
         type: 'quantity',
         kind: 'temperature',

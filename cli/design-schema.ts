@@ -11,7 +11,7 @@
 import * as z from 'zod';
 import { stringify as yamlStringify } from 'yaml';
 import { DESIGN_SECTIONS, sectionFields, type FieldSpec, type SectionSpec } from './design-fields.ts';
-import { describeValue, readQuantity, describeKind } from './units.ts';
+import { describeValue, readQuantity, describeKind, type QuantityKind, unitsOf } from './units.ts';
 import type { InputIssue } from './input-error.ts';
 import type {
   Dimension,
@@ -128,6 +128,84 @@ function rangePhrase(field: FieldSpec & { type: 'quantity' }): string {
   }
 }
 
+/**
+ * Plausible SI magnitudes of a bare number by kind of quantity, for a coil on a workshop floor (our
+ * own bounds, generous on both sides): a bare number outside them was almost surely meant in a unit.
+ */
+export const PLAUSIBLE_BY_KIND: Partial<Record<QuantityKind, readonly [number, number]>> = {
+  length: [1e-4, 30],
+  capacitance: [1e-13, 1e-3],
+  inductance: [1e-9, 10],
+  voltage: [10, 1e7],
+};
+
+/** Units to suggest for an implausible bare number, most likely first (label, SI scale). */
+const SUGGESTED_UNITS: Partial<Record<QuantityKind, ReadonlyArray<[string, number]>>> = {
+  length: [
+    ['mm', 1e-3],
+    ['cm', 1e-2],
+  ],
+  capacitance: [
+    ['nF', 1e-9],
+    ['pF', 1e-12],
+    ['uF', 1e-6],
+  ],
+  inductance: [
+    ['uH', 1e-6],
+    ['mH', 1e-3],
+  ],
+  voltage: [['kV', 1e3]],
+};
+
+/** The SI unit of each kind that has plausible bounds: its name for messages and its symbol. */
+const SI_UNIT: Partial<Record<QuantityKind, { name: string; symbol: string }>> = {
+  length: { name: 'metres', symbol: 'm' },
+  capacitance: { name: 'farads', symbol: 'F' },
+  inductance: { name: 'henries', symbol: 'H' },
+  voltage: { name: 'volts', symbol: 'V' },
+};
+
+const BARE_NUMBER = /^\s*[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?\s*$/;
+
+/**
+ * Why a bare number is implausible for its field, with the unit it probably meant, or null:
+ * "110 (metres?) is not a plausible value here (0.1 mm to 30 m); did you mean '110 mm'?".
+ */
+export function implausibleBareNumber(
+  field: FieldSpec & { type: 'quantity' },
+  input: unknown,
+  value: number,
+): string | null {
+  const bare = typeof input === 'number' || (typeof input === 'string' && BARE_NUMBER.test(input));
+  const bounds = field.plausible ?? PLAUSIBLE_BY_KIND[field.kind];
+  if (!bare || !bounds || value === 0 || !Number.isFinite(value)) return null;
+  const magnitude = Math.abs(value);
+  const [low, high] = bounds;
+  const tooSmall = field.range === 'positive' && magnitude < low;
+  if (!tooSmall && magnitude <= high) return null;
+  const shown = typeof input === 'number' ? String(input) : String(input).trim();
+  const unit = (SUGGESTED_UNITS[field.kind] ?? []).find(([, scale]) => {
+    const meant = magnitude * scale;
+    return meant >= low && meant <= high;
+  });
+  const span = `${formatBound(low, field.kind)} to ${formatBound(high, field.kind)}`;
+  const guess = unit
+    ? `; did you mean '${shown} ${unit[0]}'?`
+    : `; give a unit, e.g. ${unitsOf(field.kind).slice(0, 3).join(', ')}`;
+  return `${shown} (${SI_UNIT[field.kind]?.name ?? 'SI units'}?) is not a plausible ${describeKind(field.kind).replace(/^an? /, '')} here (${span})${guess}`;
+}
+
+/** A bound in the largest unit that keeps it at least 1: 5 mm, 30 m, 0.1 pF, 1000 uF. */
+function formatBound(value: number, kind: QuantityKind): string {
+  const units: Array<[string, number]> = [
+    [SI_UNIT[kind]?.symbol ?? '', 1],
+    ...[...(SUGGESTED_UNITS[kind] ?? [])].sort((a, b) => b[1] - a[1]),
+  ];
+  const [label, scale] = units.find(([, unitScale]) => value >= unitScale * 0.999) ??
+    units[units.length - 1] ?? ['', 1];
+  return `${Number((value / scale).toPrecision(3))} ${label}`;
+}
+
 function quantitySchema(field: FieldSpec & { type: 'quantity' }) {
   return z.unknown().transform((input, context): number => {
     const result = readQuantity(input, field.kind);
@@ -136,6 +214,11 @@ function quantitySchema(field: FieldSpec & { type: 'quantity' }) {
       return z.NEVER;
     }
     const value = result.value;
+    const implausible = implausibleBareNumber(field, input, value);
+    if (implausible !== null) {
+      context.addIssue({ code: 'custom', message: implausible });
+      return z.NEVER;
+    }
     const inRange =
       field.range === 'positive'
         ? value > 0
@@ -311,6 +394,7 @@ function readChoose(
   path: string[],
   state: WalkState,
   readOne: (item: unknown, itemPath: Array<string | number>) => LeafValue | NormalSection | undefined,
+  field?: FieldSpec,
 ): DimensionSlot | undefined {
   const keys = Object.keys(input);
   if (keys.length !== 1) {
@@ -336,7 +420,14 @@ function readChoose(
     if (value === undefined) return undefined;
     values.push(value);
   }
-  state.dimensions.push({ kind: 'choose', path, values, labels: items.map(labelOf) });
+  state.dimensions.push({
+    kind: 'choose',
+    path,
+    values,
+    labels: items.map(labelOf),
+    ...(field?.type === 'quantity' ? { quantity: field.kind } : {}),
+    ...(field?.type === 'wire' ? { wire: true } : {}),
+  });
   return { slot: state.dimensions.length - 1 };
 }
 
@@ -414,7 +505,13 @@ function readSection(
     if (state.mode === 'sweep' && isMapping(value) && ('from' in value || 'to' in value || 'choose' in value)) {
       const slot =
         'choose' in value
-          ? readChoose(value, fieldPath, state, (item, itemPath) => readLeaf(field, item, itemPath, state.issues))
+          ? readChoose(
+              value,
+              fieldPath,
+              state,
+              (item, itemPath) => readLeaf(field, item, itemPath, state.issues),
+              field,
+            )
           : readRange(field, value, fieldPath, state);
       if (slot === undefined) return undefined;
       output[key] = slot;

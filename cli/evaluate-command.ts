@@ -9,7 +9,7 @@ import type { NormalTree } from './design-schema.ts';
 import { treeToJson } from './tree-json.ts';
 import type { CliIo } from './io.ts';
 
-/** The JSON contract of ../shared/DESIGN.md: { design, metrics, warnings }, SI units. */
+/** The JSON contract (README, Metrics and Warnings): { design, metrics, warnings }, SI units. */
 export function evaluationJson(tree: NormalTree, evaluation: Evaluation): Record<string, unknown> {
   return { design: treeToJson(tree), metrics: evaluation.metrics, warnings: evaluation.warnings };
 }

@@ -95,9 +95,10 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .command('show')
     .description('print the design file of a ranked candidate of a run')
     .argument('<run>', 'run directory')
-    .argument('[rank]', 'rank in candidates.csv')
-    .option('--refined <rank>', 'a design of refined.csv instead')
-    .action((run: string, rank: string | undefined, options: { refined?: string }) => {
+    .argument('[rank]', 'rank in candidates.csv (the same rank front.csv shows), or a refined id r1, r2, …')
+    .option('--refined <rank>', 'a design of refined.csv instead (the same as rN)')
+    .option('--sample <index>', 'the design of a sample index (the sample_index column)')
+    .action((run: string, rank: string | undefined, options: { refined?: string; sample?: string }) => {
       exitCode = showCommand(run, rank, options, io);
     });
 

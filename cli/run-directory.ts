@@ -19,6 +19,7 @@ export const RUN_FILES = {
   all: 'all.csv',
   refined: 'refined.csv',
   refinedDesigns: 'refined.json',
+  refineTrials: 'refine-trials.csv',
 } as const;
 
 export function journalName(generation: number): string {

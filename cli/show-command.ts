@@ -1,6 +1,6 @@
 /**
  * `coilfront show RUN_DIR RANK` prints the complete design file of a ranked candidate (or, with
- * `--refined`, of a refined design), in SI numbers with practical units as comments, so that a row
+ * `--refined`, of a refined design), in each quantity in a practical unit with the fewest digits that read back exactly, so that a row
  * of the spreadsheet goes straight to `coilfront evaluate` and gives the same metrics.
  */
 import { existsSync, readFileSync } from 'node:fs';
@@ -10,6 +10,7 @@ import { DesignSpace } from '../optimize/design-space.ts';
 import { isSlot, type NormalTree } from '../optimize/design-tree.ts';
 import { DESIGN_SECTIONS, sectionFields } from './design-fields.ts';
 import { KIND_DISPLAY, formatNumber } from './display-units.ts';
+import { exactQuantityText } from './units.ts';
 import { InputError } from './input-error.ts';
 import type { CliIo } from './io.ts';
 import { RUN_FILES } from './run-directory.ts';
@@ -35,8 +36,14 @@ export function treeToYaml(tree: NormalTree, heading: string[]): string {
             : `  ${key}: ${value.bareDiameter}  # ${formatNumber(value.bareDiameter * 1000, 6)} mm`,
         );
       } else if (typeof value === 'number' && field?.type === 'quantity' && field.kind !== 'dimensionless') {
+        // In a practical unit, with the fewest digits that read back to exactly this SI value.
+        const exact = exactQuantityText(value, field.kind);
         const display = KIND_DISPLAY[field.kind];
-        lines.push(`  ${key}: ${value}  # ${formatNumber(value / display.divisor, 6)} ${display.label}`);
+        lines.push(
+          exact !== null
+            ? `  ${key}: ${exact}`
+            : `  ${key}: ${value}  # ${formatNumber(value / display.divisor, 6)} ${display.label}`,
+        );
       } else {
         lines.push(`  ${key}: ${typeof value === 'string' ? value : String(value)}`);
       }
@@ -53,14 +60,33 @@ function readCsvRows(path: string): Record<string, string>[] {
 export function showCommand(
   directory: string,
   rankText: string | undefined,
-  options: { refined?: string },
+  options: { refined?: string; sample?: string },
   io: CliIo,
 ): number {
   const spec = loadRunSpec(directory);
   const space = new DesignSpace(spaceDefinitionOf(spec));
+  if (options.sample !== undefined) {
+    const index = Number(options.sample);
+    if (!/^\d+$/.test(options.sample) || index >= spec.samples)
+      throw new InputError(
+        `show --sample: expected a sample index 0 … ${spec.samples - 1} (the sample_index column), got '${options.sample}'`,
+      );
+    io.out(
+      treeToYaml(space.designAt(index).tree, [
+        `sample ${index} of ${directory}`,
+        'each value in a practical unit that reads back exactly',
+      ]),
+    );
+    return 0;
+  }
+  // A refined design is known by its id in refined.csv: `show RUN r3` (or --refined 3).
+  const refinedId = rankText !== undefined ? /^r(\d+)$/.exec(rankText) : null;
+  if (refinedId) options = { ...options, refined: refinedId[1] };
   const wanted = options.refined ?? rankText;
   if (wanted === undefined || !/^\d+$/.test(wanted) || Number(wanted) < 1) {
-    throw new InputError(`show: expected a rank (1, 2, …), got '${wanted ?? ''}'`);
+    throw new InputError(
+      `show: expected a rank in candidates.csv (1, 2, …), a refined id (r1, r2, …) or --sample I, got '${wanted ?? ''}'`,
+    );
   }
   const rank = Number(wanted);
   if (options.refined !== undefined) {
@@ -75,7 +101,10 @@ export function showCommand(
       );
     const sampled = space.designOf(entry.values);
     io.out(
-      treeToYaml(sampled.tree, [`refined design ${rank} of ${directory}`, 'SI units; practical units in the comments']),
+      treeToYaml(sampled.tree, [
+        `refined design ${rank} of ${directory}`,
+        'each value in a practical unit that reads back exactly',
+      ]),
     );
     return 0;
   }
@@ -88,7 +117,7 @@ export function showCommand(
   io.out(
     treeToYaml(sampled.tree, [
       `candidate ${rank} of ${directory} (sample ${index})`,
-      'SI units; practical units in the comments',
+      'each value in a practical unit that reads back exactly',
     ]),
   );
   return 0;

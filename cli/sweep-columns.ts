@@ -5,6 +5,7 @@
  */
 import { warningKeysOf } from '../core/outcome/warnings.ts';
 import { METRICS } from '../core/metrics.ts';
+import { awgDiameter } from '../core/wire/awg.ts';
 import type { Dimension } from '../optimize/design-tree.ts';
 import type { CandidateRow } from '../optimize/sweep-state.ts';
 import type { Cell } from './csv.ts';
@@ -17,11 +18,14 @@ export interface ColumnSet {
   metricHeaders: string[];
 }
 
-function parameterHeader(dimension: Dimension): string {
+/** The column names of one dimension: one, or two for a set of wires (the label and the bare diameter). */
+function headersOf(dimension: Dimension): string[] {
   const name = dimension.path.join('.');
-  if (dimension.kind === 'choose') return name;
-  const unit = KIND_DISPLAY[dimension.quantity as QuantityKind];
-  return unit && unit.label !== '' ? `${name}_${unit.label}` : name;
+  if (dimension.kind === 'choose' && dimension.wire) return [name, `${name}_bare_diameter_mm`];
+  const quantity = dimension.quantity;
+  if (quantity === undefined) return [name];
+  const unit = KIND_DISPLAY[quantity as QuantityKind];
+  return [unit && unit.label !== '' ? `${name}_${unit.label}` : name];
 }
 
 function metricHeader(key: string, siUnit: string): string {
@@ -35,7 +39,7 @@ export const RANK_HEADERS = ['rank', 'pareto_rank', 'crowding', 'feasible', 'tot
 export const TAIL_HEADERS = ['warnings', 'reason'];
 
 export function columnSet(dimensions: readonly Dimension[]): ColumnSet {
-  const parameterHeaders = dimensions.map(parameterHeader);
+  const parameterHeaders = dimensions.flatMap(headersOf);
   const metricHeaders = METRICS.map((m) => metricHeader(m.key, m.unit));
   return {
     header: [...RANK_HEADERS, ...parameterHeaders, ...metricHeaders, ...TAIL_HEADERS],
@@ -44,14 +48,35 @@ export function columnSet(dimensions: readonly Dimension[]): ColumnSet {
   };
 }
 
-/** The parameter cells of a candidate in display units (set choices by their label). */
+/**
+ * The parameter cells of a candidate in display units: a range or a set of quantities as a number
+ * (its unit is in the header), any other set by its label, and a set of wires by its label and
+ * then its bare diameter in mm.
+ */
 export function parameterCells(dimensions: readonly Dimension[], values: readonly number[]): Cell[] {
-  return dimensions.map((dimension, d) => {
-    const value = values[d];
-    if (dimension.kind === 'choose') return dimension.labels[value] ?? null;
+  return dimensions.flatMap((dimension, d): Cell[] => {
+    const value = values[d] ?? Number.NaN;
+    if (dimension.kind === 'choose') {
+      const chosen = dimension.values[value];
+      if (dimension.wire) return [dimension.labels[value] ?? null, wireDiameterMm(chosen)];
+      if (dimension.quantity !== undefined && typeof chosen === 'number') {
+        const unit = KIND_DISPLAY[dimension.quantity as QuantityKind];
+        return [unit ? chosen / unit.divisor : chosen];
+      }
+      return [dimension.labels[value] ?? null];
+    }
     const unit = KIND_DISPLAY[dimension.quantity as QuantityKind];
-    return unit ? value / unit.divisor : value;
+    return [unit ? value / unit.divisor : value];
   });
+}
+
+/** The bare diameter of a wire choice in mm ('AWG n' by the ASTM B258 rule), or null. */
+function wireDiameterMm(choice: unknown): number | null {
+  if (typeof choice !== 'object' || choice === null) return null;
+  const wire = choice as { awg?: number; bareDiameter?: number };
+  if (typeof wire.bareDiameter === 'number') return wire.bareDiameter * 1e3;
+  if (typeof wire.awg === 'number') return awgDiameter(wire.awg) * 1e3;
+  return null;
 }
 
 /** The metric cells of a candidate in display units (empty where null). */
@@ -65,7 +90,7 @@ export function metricCells(metrics: ReadonlyArray<number | null>): Cell[] {
 }
 
 export interface RankedCells {
-  rank: number;
+  rank: number | null;
   paretoRank: number | null;
   crowding: number | null;
   feasible: boolean;

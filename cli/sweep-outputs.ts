@@ -41,21 +41,34 @@ export interface Timing {
 const QUANTILES = [0, 0.05, 0.25, 0.5, 0.75, 0.95, 1];
 
 /** Rows of a ranked list in CSV cells. */
-export function rankedRows(dimensions: readonly Dimension[], ranked: readonly RankedEntry<PackedRow>[]): Cell[][] {
-  return ranked.map((entry, position) =>
-    candidateCells(
+export function rankedRows(
+  dimensions: readonly Dimension[],
+  ranked: readonly RankedEntry<PackedRow>[],
+  numbering?: ReadonlyMap<number, { rank: number; crowding: number }>,
+): Cell[][] {
+  return ranked.map((entry, position) => {
+    // With a numbering (front.csv), a design carries its rank and crowding from candidates.csv.
+    const known = numbering?.get(entry.item.index);
+    return candidateCells(
       dimensions,
       {
-        rank: position + 1,
+        rank: numbering ? (known?.rank ?? null) : position + 1,
         paretoRank: entry.item.violation === 0 ? entry.paretoRank : null,
-        crowding: entry.item.violation === 0 ? entry.crowding : null,
+        crowding: entry.item.violation === 0 ? (numbering ? (known?.crowding ?? null) : entry.crowding) : null,
         feasible: entry.item.violation === 0,
         violation: entry.item.violation,
         index: entry.item.index,
       },
       unpackRow(entry.payload),
-    ),
-  );
+    );
+  });
+}
+
+/** Each candidates.csv design by its sample index: its rank there and its crowding distance. */
+export function candidateNumbering(
+  ranked: readonly RankedEntry<PackedRow>[],
+): Map<number, { rank: number; crowding: number }> {
+  return new Map(ranked.map((entry, position) => [entry.item.index, { rank: position + 1, crowding: entry.crowding }]));
 }
 
 /** The front in a stable order for plotting: by the first objective, then the others, then index. */
@@ -191,7 +204,10 @@ export async function writeSweepOutputs(
   const { ranked, misses, front } = outputEntries(state, identity.keep);
   writeFileAtomicSync(join(directory, 'candidates.csv'), toCsv(columns.header, rankedRows(spec.dimensions, ranked)));
   writeFileAtomicSync(join(directory, 'infeasible.csv'), toCsv(columns.header, rankedRows(spec.dimensions, misses)));
-  writeFileAtomicSync(join(directory, 'front.csv'), toCsv(columns.header, rankedRows(spec.dimensions, front)));
+  writeFileAtomicSync(
+    join(directory, 'front.csv'),
+    toCsv(columns.header, rankedRows(spec.dimensions, front, candidateNumbering(ranked))),
+  );
   writeFileAtomicSync(
     join(directory, 'summary.json'),
     `${JSON.stringify(summaryObject(spec, state, identity, timing, complete, front), null, 2)}\n`,

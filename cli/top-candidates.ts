@@ -56,23 +56,26 @@ export function formatTopCandidates(directory: string, spec: SweepSpec, state: S
 
 /** The first `count` designs of the front sorted by the first objective, each by its candidates.csv rank. */
 function frontLines(spec: SweepSpec, state: SweepState, count: number): string[] {
-  const ranked = state.pool.ranked();
   const first = spec.objectives[0];
-  const front = ranked
-    .map((entry, position) => ({ entry, rank: position + 1 }))
-    .filter((e) => e.entry.paretoRank === 1);
   const column = first ? metricIndex(first.metric) : -1;
-  const valueOf = (payload: (typeof ranked)[number]['payload']) => unpackRow(payload).metrics[column] ?? Number.NaN;
+  // Each front design once, unpacked once, with its rank in candidates.csv and its first objective.
+  const front = state.pool
+    .ranked()
+    .map((entry, position) => ({ entry, rank: position + 1 }))
+    .filter((e) => e.entry.paretoRank === 1)
+    .map(({ entry, rank }) => {
+      const row = unpackRow(entry.payload);
+      return { row, rank, key: row.metrics[column] ?? Number.NaN };
+    });
   if (first) {
     const sign = first.sense === 'maximize' ? -1 : 1;
-    front.sort((a, b) => sign * (valueOf(a.entry.payload) - valueOf(b.entry.payload)) || a.rank - b.rank);
+    front.sort((a, b) => sign * (a.key - b.key) || a.rank - b.rank);
   }
   const shown = front.slice(0, count);
   const lines = [
     `the front: ${front.length} designs; ${shown.length === front.length ? 'all' : `the first ${shown.length}`} by ${first ? `${first.metric} (${first.sense === 'maximize' ? 'highest' : 'lowest'} first)` : 'rank'}, each with its rank in candidates.csv:`,
   ];
-  for (const { entry, rank } of shown) {
-    const row = unpackRow(entry.payload);
+  for (const { row, rank } of shown) {
     const objectives = spec.objectives.map(
       (o) => `${o.metric} ${metricText(o.metric, row.metrics[metricIndex(o.metric)])}`,
     );
@@ -84,13 +87,15 @@ function frontLines(spec: SweepSpec, state: SweepState, count: number): string[]
 
 /** The varied parameters in display units with their units: 'secondary.base_height=749.6 mm'. */
 function parameterText(spec: SweepSpec, values: readonly number[]): string {
-  return parameterCells(spec.dimensions, values)
-    .map((cell, d) => {
-      const dimension = spec.dimensions[d];
-      if (!dimension) return '';
+  return spec.dimensions
+    .map((dimension, d) => {
       const name = dimension.path.join('.');
+      // The dimension's own cells: one, or a wire's label and then its bare diameter in mm.
+      const [cell, bare] = parameterCells([dimension], [values[d] ?? Number.NaN]);
+      if (dimension.kind === 'choose' && dimension.wire)
+        return `${name}=${String(cell)}${typeof bare === 'number' ? ` (${formatNumber(bare)} mm)` : ''}`;
       if (typeof cell !== 'number') return `${name}=${String(cell)}`;
-      const unit = dimension.kind === 'choose' ? undefined : KIND_DISPLAY[dimension.quantity as QuantityKind];
+      const unit = dimension.quantity === undefined ? undefined : KIND_DISPLAY[dimension.quantity as QuantityKind];
       return `${name}=${formatNumber(cell)}${unit?.label ? ` ${humanUnit(unit.label)}` : ''}`;
     })
     .join(' ');

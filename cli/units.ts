@@ -223,3 +223,43 @@ export interface DisplayUnit {
   /** Display value = SI value / divisor. */
   divisor: number;
 }
+
+/** Units `show` may write a quantity in, most natural first (each must be a unit readQuantity takes). */
+const WRITE_UNITS: Partial<Record<QuantityKind, readonly string[]>> = {
+  length: ['mm', 'm'],
+  capacitance: ['nF', 'pF', 'uF'],
+  inductance: ['uH', 'mH', 'H'],
+  voltage: ['kV', 'V'],
+  current: ['A'],
+  frequency: ['Hz', 'kHz'],
+  power: ['W', 'kW'],
+  angle: ['deg', 'rad'],
+  temperature: ['degC', 'K'],
+  time: ['us', 'ms', 's'],
+  resistance: ['ohm'],
+  mass: ['kg', 'g'],
+  energy: ['J'],
+};
+
+/**
+ * A quantity as text in a practical unit with the fewest digits that read back (by readQuantity)
+ * to exactly the same SI number: 0.16 → '160 mm', 1.5e-8 → '15 nF', 293.15 → '20 degC'. Null when
+ * no unit of the list reproduces it exactly (the caller then writes the SI number).
+ */
+export function exactQuantityText(value: number, kind: QuantityKind): string | null {
+  if (!Number.isFinite(value)) return null;
+  let best: string | null = null;
+  for (const unit of WRITE_UNITS[kind] ?? []) {
+    const definition = UNITS[kind][unit];
+    if (!definition) continue;
+    const offset = definition.offset ?? 0;
+    for (let digits = 1; digits <= 17; digits++) {
+      const number = Number(((value - offset) / definition.scale).toPrecision(digits));
+      if (number * definition.scale + offset !== value) continue;
+      const text = `${String(number)} ${unit}`;
+      if (best === null || text.length < best.length - 1) best = text;
+      break;
+    }
+  }
+  return best;
+}

@@ -2,7 +2,7 @@
  * The design of one resonant transformer, in SI base units (m, F, H, V, Hz, W, K, rad, Ω).
  *
  * This is what the physics core receives. The CLI parses design files (strings with units) into
- * this shape; the core never sees a unit string. Geometry conventions (../shared/DESIGN.md):
+ * this shape; the core never sees a unit string. Geometry conventions (as the README states them):
  * the floor is the plane z = 0; `baseHeight` is the bottom of the winding above the floor; the
  * primary is a set of coaxial rings whose diameters are to the conductor's centre line.
  */

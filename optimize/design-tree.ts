@@ -43,6 +43,10 @@ export type Dimension =
       values: Array<LeafValue | NormalSection>;
       /** Short labels for CSV columns, as the user wrote each choice. */
       labels: string[];
+      /** Kind of quantity when the choices are quantities (their CSV column is then a number). */
+      quantity?: string;
+      /** The choices are wires: the CSV adds the bare diameter as a number column. */
+      wire?: boolean;
     };
 
 export function isSlot(value: unknown): value is DimensionSlot {

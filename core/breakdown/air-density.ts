@@ -7,7 +7,7 @@
  *   δ = (p / 101.325 kPa) · (298.15 K / T),
  * equal to 1 at 76 cmHg and 25 °C, Peek's reference (F. W. Peek, *Dielectric Phenomena in
  * High-Voltage Engineering*, 3rd ed., 1929; Kuffel & Zaengl, *High Voltage Engineering
- * Fundamentals* — REFERENCES §6.1). The pressure comes from the standard atmosphere at the
+ * Fundamentals* — refs §6.1). The pressure comes from the standard atmosphere at the
  * altitude; the temperature is the actual air temperature (not the standard one).
  */
 

@@ -5,9 +5,9 @@
  * curvature radius and decides onset):
  *   g = 30 · m · δ · (1 + 0.301/√(δ r)) kV/cm, r in cm (peak value)
  * (F. W. Peek, *Dielectric Phenomena in High-Voltage Engineering*, 3rd ed., 1929; Kuffel & Zaengl,
- * *High Voltage Engineering Fundamentals*, p. 366 — REFERENCES §6.1 [P2]; "peak" from memory).
+ * *High Voltage Engineering Fundamentals*, p. 366 — refs §6.1 [P2]; "peak" from memory).
  * Sphere: g = 27.2 · m · δ · (1 + 0.54/√(δ R)) kV/cm, R sphere radius in cm — constants from memory
- * (REFERENCES §6.1 [M], not confirmed in a source read).
+ * (refs §6.1 [M], not confirmed in a source read).
  * m is the surface (irregularity) factor: polished 1.0, roughened or weathered 0.98–0.93 (§6.1
  * [P2]). Peek's constants come from power-frequency tests on conductors of mm–cm radius; at the
  * 50–500 kHz of a resonant transformer, with space charge, onset is lower and less defined: the

@@ -5,11 +5,11 @@
  * length-to-diameter ratio only, from coils measured with one end grounded (R. G. Medhurst, "H.F.
  * resistance and self-capacitance of single-layer solenoids", Wireless Engineer 24, 1947; the H
  * table as reproduced in builders' correspondence citing Medhurst and the Radiotron Designer's
- * Handbook, 4th ed., 1953 — REFERENCES §4.1 [P2]). Interpolated log–log between table rows; outside
+ * Handbook, 4th ed., 1953 — refs §4.1 [P2]). Interpolated log–log between table rows; outside
  * 0.1 ≤ l/D ≤ 50 there is no value (null). Claimed accuracy about 5 %.
  */
 
-/** Medhurst's table: l/D and H (REFERENCES §4.1 [P2]). */
+/** Medhurst's table: l/D and H (refs §4.1 [P2]). */
 export const MEDHURST_TABLE: ReadonlyArray<readonly [number, number]> = [
   [0.1, 0.96],
   [0.15, 0.79],

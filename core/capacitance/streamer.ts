@@ -1,6 +1,6 @@
 /**
  * Streamer loading of the topload: common practice (no authoritative source) adds about 1 pF per
- * foot of streamer, ≈ 3.28 pF/m, to the capacitance at the top (REFERENCES §9 [C]; an electrostatic
+ * foot of streamer, ≈ 3.28 pF/m, to the capacitance at the top (refs §9 [C]; an electrostatic
  * estimate quoted there gives ≈ 0.8 pF/ft up to 30 in).
  */
 

@@ -55,7 +55,7 @@ export function primaryEnergy(circuit: CoupledCircuit, v1: number, i1: number): 
 /**
  * Lossless normal-mode angular frequencies ω₋ ≤ ω₊ of the coupled circuit, rad/s: the roots of
  * (L1L2 − M²)ω⁴ − (L1/C2 + L2/C1)ω² + 1/(C1C2) = 0 (determinant of the loop equations with
- * R = 0). For equal tuning they reduce to ω0/√(1 ± k) (REFERENCES §8.1, Terman 1943).
+ * R = 0). For equal tuning they reduce to ω0/√(1 ± k) (refs §8.1, Terman 1943).
  */
 export function losslessModeFrequencies(circuit: CoupledCircuit): [number, number] {
   const { primaryInductance: l1, primaryCapacitance: c1, secondaryInductance: l2, secondaryCapacitance: c2 } = circuit;

@@ -3,7 +3,7 @@
  *
  * For two equally tuned lossless resonators started from a charged tank, v1 = V cos Δt cos Σt
  * with Σ/Δ = (ω₊ + ω₋)/(ω₊ − ω₋); full transfer at the first null needs Σ/Δ = 2n + 1, i.e.
- * k = (2n + 1)/(2n² + 2n + 1), n = 1, 2, … (REFERENCES §8.2 [X], after Drude 1904).
+ * k = (2n + 1)/(2n² + 2n + 1), n = 1, 2, … (refs §8.2 [X], after Drude 1904).
  */
 
 /** The n-th full-transfer coupling (2n + 1)/(2n² + 2n + 1), n ≥ 1 (n = 1: 0.6, n = 2: 0.3846…). */

@@ -6,7 +6,7 @@
  * exact RLC solution (free-resonator.ts); only the search for minima and maxima is numerical.
  *
  * The quench rule follows the quenched-spark principle (M. Wien 1906, from memory [M]); the
- * resistive gap model is common practice (REFERENCES §8.4 [C]).
+ * resistive gap model is common practice (refs §8.4 [C]).
  */
 import type { CoupledCircuit } from './circuit.ts';
 import { circuitEnergy, primaryEnergy } from './circuit.ts';

@@ -5,7 +5,7 @@
  * ∇²J = jωμσ J; its solution J0(kr), k = (1 − j)/δ, gives the internal impedance per unit length
  * Z / R_dc = (ka/2) · J0(ka) / J1(ka) (Ramo, Whinnery & Van Duzer, Fields and Waves in
  * Communication Electronics, "internal impedance of a round wire"; S. A. Schelkunoff 1934; the
- * formula in ../shared/REFERENCES.md §7.4 is from memory there, and its check values are [X]).
+ * formula in refs §7.4 is from memory there, and its check values are [X]).
  * With x = √2 a/δ the real part is R/R_dc = (x/2)(ber x · bei′ x − bei x · ber′ x)/(ber′² + bei′²).
  */
 import { kelvinSeries } from './kelvin.ts';

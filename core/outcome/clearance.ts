@@ -7,7 +7,7 @@ import type { ToploadSpec } from '../design.ts';
 
 /**
  * Withstand gradient assumed for long, non-uniform air gaps at RF, V/m: ≈ 200 kV per metre, the
- * builders' figure for streamer length per voltage (REFERENCES §9 [C], "very rough"). It is much
+ * builders' figure for streamer length per voltage (refs §9 [C], "very rough"). It is much
  * below the 3 MV/m of uniform cm-scale gaps (§6.2), as long rod-like gaps are.
  */
 export const LONG_GAP_WITHSTAND_GRADIENT = 200e3;

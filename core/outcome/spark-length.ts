@@ -1,11 +1,11 @@
 /**
  * Rules of thumb of the trade for sparks: length from input power, and the resonance with the
  * streamers' loading of the topload (their capacitance, 1 pF per foot, is in
- * core/capacitance/streamer.ts). Both are common practice (REFERENCES §9 [C]) with no controlled
+ * core/capacitance/streamer.ts). Both are common practice (refs §9 [C]) with no controlled
  * study behind them: every report that shows them says so.
  */
 
-/** Spark length per √watt, m/√W: L[in] ≈ 1.7 √P[W], i.e. L[m] ≈ 0.043 √P[W] (common practice, REFERENCES §9 [C]). */
+/** Spark length per √watt, m/√W: L[in] ≈ 1.7 √P[W], i.e. L[m] ≈ 0.043 √P[W] (common practice, refs §9 [C]). */
 export const SPARK_LENGTH_PER_ROOT_WATT = 0.043;
 
 /**

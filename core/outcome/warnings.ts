@@ -3,7 +3,7 @@
  * the limit it was held against. Every limit here is a rule of thumb and says so.
  */
 
-/** Coupling above which a spark gap tends to quench poorly and racing arcs appear (common practice, REFERENCES §9 [C]: k ≈ 0.10–0.20). */
+/** Coupling above which a spark gap tends to quench poorly and racing arcs appear (common practice, refs §9 [C]: k ≈ 0.10–0.20). */
 export const SPARK_GAP_COUPLING_LIMIT = 0.2;
 /**
  * Axial gradient (peak voltage over winding length) above which racing arcs along the winding

@@ -1,5 +1,5 @@
 /**
- * Ring positions of a primary modelled as coaxial circles (convention of ../shared/DESIGN.md).
+ * Ring positions of a primary modelled as coaxial circles (the geometry convention of the README, Design files).
  *
  * Ring i (from 0, the inner end) of a flat spiral has radius r0 + i·p; of a cone r0 + i·p·cos θ at
  * height i·p·sin θ; of a helix r0 at height i·p; with r0 = inner_diameter/2 and p = conductor

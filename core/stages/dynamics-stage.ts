@@ -19,7 +19,7 @@ import { sparkGapShot } from '../dynamics/spark-gap.ts';
 import { solidStateBurst } from '../dynamics/solid-state.ts';
 import { formatNumber, formatQuantity, SPARK_GAP_COUPLING_LIMIT, TANK_RATING_FACTOR } from '../outcome/warnings.ts';
 
-/** Equivalent resistance of a conducting spark gap when the design gives none, Ω (common practice, REFERENCES §8.4 [C]: of order 1 Ω). */
+/** Equivalent resistance of a conducting spark gap when the design gives none, Ω (common practice, refs §8.4 [C]: of order 1 Ω). */
 export const DEFAULT_GAP_RESISTANCE = 1;
 
 /** Longest burst simulated, in cycles of the upper mode (beyond it the burst is cut, with a warning). */

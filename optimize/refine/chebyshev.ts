@@ -12,7 +12,7 @@ import { refineRangeError } from './refine-errors.ts';
  * Chebyshev problem with a utopian reference point, and the augmentation term keeps the minima
  * properly Pareto optimal rather than weakly). Bibliographic details and these statements are
  * cited from memory; no equation numbers are quoted. Miettinen writes the augmentation as
- * ρ·Σ (f_i − z_i), unweighted, which we follow (issue 7 suggested ρ·Σ w_i (f_i − z_i); either
+ * ρ·Σ (f_i − z_i), unweighted, which we follow (a weighted ρ·Σ w_i (f_i − z_i) was also proposed; either
  * serves, the weighted form only rescales ρ per objective).
  */
 

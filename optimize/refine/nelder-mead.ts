@@ -38,7 +38,7 @@ import { refineRangeError, refineStateError } from './refine-errors.ts';
  * - When the budget runs out inside an iteration, a reflected point already evaluated is kept if
  *   it beats the worst vertex (scipy discards it), and a shrink is done on as many vertices as the
  *   budget allows (scipy moves the rest without evaluating them). `evaluations` never exceeds
- *   `maxEvaluations`, also for the initial simplex (scipy issue 14165).
+ *   `maxEvaluations`, also for the initial simplex (scipy can overrun it there; [scipy-nm]).
  * - A start outside the bounds is clipped into them, as scipy does (scipy warns).
  */
 
@@ -498,7 +498,7 @@ export class NelderMead {
         moved = center[k] + this.absoluteSteps[k];
       else moved = center[k] !== 0 ? (1 + RELATIVE_STEP) * center[k] : STEP_AT_ZERO;
       if (Math.abs(moved - center[k]) > largestStep) moved = center[k] + Math.sign(moved - center[k]) * largestStep;
-      // scipy (PR 20345, issue 19991): a vertex past the upper bound is reflected inside it, then
+      // As scipy does since 1.13 ([scipy-nm]): a vertex past the upper bound is reflected inside it, then
       // clipped; we also reflect one past the lower bound (a negative step could put it there).
       if (moved > this.upper[k]) moved = 2 * this.upper[k] - moved;
       else if (moved < this.lower[k]) moved = 2 * this.lower[k] - moved;

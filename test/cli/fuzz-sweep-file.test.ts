@@ -6,7 +6,7 @@ import { parseInputText } from '../../cli/read-file.ts';
 import { applyMutation, expectReaderContract, hostileLeaf, hostileTexts, mutationsOf } from './fuzz-inputs.ts';
 
 // The sweep-file reader never throws a stack trace on any input: every problem is one line with the
-// file and the field path. (Issue 6, item 6.) The base sweep is an invented demo scenario.
+// file and the field path. The base sweep is an invented demo scenario.
 const FILE = 'night.yaml';
 const base = {
   design: {

@@ -22,7 +22,7 @@ import {
   type Running,
 } from './sweep-harness.ts';
 
-// Issue 6, items 2 and 3: a sweep interrupted by kill -9, SIGINT, SIGTERM or its time limit and then
+// A sweep interrupted by kill -9, SIGINT, SIGTERM or its time limit and then
 // resumed writes files byte-identical to an uninterrupted run (summary.json's timing aside). The
 // reference is the same CLI run once without interruption; the exit codes are the shells' 128 +
 // signal number (POSIX signal numbers: SIGINT 2, SIGTERM 15) and 124 for the time limit (the
@@ -192,7 +192,7 @@ describe('SIGINT, SIGTERM and --time-limit stop cleanly and resume to the same f
     expect(stopped.signal).toBeNull();
     expect(stopped.code, stopped.stderr).toBe(130); // 128 + SIGINT (2)
     expect(stopped.stderr).toContain('received SIGINT');
-    expect(stopped.stderr).toContain(`resume with: coilfront sweep --resume ${directory}`);
+    expect(stopped.stderr).toContain(`resume with: npx coilfront sweep --resume ${directory}`);
     // Outputs so far are written, marked incomplete.
     const partial = JSON.parse(readFileSync(join(directory, 'summary.json'), 'utf8')) as {
       complete: boolean;
@@ -209,7 +209,7 @@ describe('SIGINT, SIGTERM and --time-limit stop cleanly and resume to the same f
     const terminated = await second.done;
     expect(terminated.code, terminated.stderr).toBe(143); // 128 + SIGTERM (15)
     expect(terminated.stderr).toContain('received SIGTERM');
-    expect(terminated.stderr).toContain(`resume with: coilfront sweep --resume ${directory}`);
+    expect(terminated.stderr).toContain(`resume with: npx coilfront sweep --resume ${directory}`);
     const last = await resume(directory).done;
     expect(last.code, last.stderr).toBe(0);
     expectSameResults(directory, reference);
@@ -262,7 +262,7 @@ describe('SIGINT, SIGTERM and --time-limit stop cleanly and resume to the same f
     ]);
     expect(stopped.code, stopped.stderr).toBe(TIME_LIMIT_EXIT_CODE);
     expect(stopped.stderr).toContain('time limit');
-    expect(stopped.stderr).toContain(`resume with: coilfront sweep --resume ${directory}`);
+    expect(stopped.stderr).toContain(`resume with: npx coilfront sweep --resume ${directory}`);
     expect(summaryCounts(directory).evaluated).toBeLessThan(SMALL_SWEEP_SAMPLES);
     const resumed = await resume(directory).done;
     expect(resumed.code, resumed.stderr).toBe(0);

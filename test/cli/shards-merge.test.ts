@@ -13,7 +13,7 @@ import {
   SMALL_SWEEP_SAMPLES,
 } from './sweep-harness.ts';
 
-// Issue 6, item 5: shards of one sweep, whether given by --shard k/N, a Slurm job array
+// Shards of one sweep, whether given by --shard k/N, a Slurm job array
 // (SLURM_ARRAY_TASK_ID with SLURM_ARRAY_TASK_COUNT, as documented by Slurm's sbatch --array) or a
 // Kubernetes Indexed Job (JOB_COMPLETION_INDEX, 0-based, as documented for batch/v1 Jobs with
 // completionMode: Indexed), merged by `coilfront merge`, give exactly the files one run over all

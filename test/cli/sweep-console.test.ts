@@ -37,6 +37,15 @@ describe('the console after a sweep', () => {
       previous = value;
     }
     expect(text).toMatch(/secondary\.base_height=[\d.]+ mm/);
+    // Each parameter sits beside its own name (a set of wires adds a bare-diameter cell in the CSV).
+    for (const line of text.split('\n').filter((l) => l.includes('secondary.turns='))) {
+      expect(line).toMatch(
+        /secondary\.form_diameter=(160|200|250) mm secondary\.wire=AWG (22|24|26) \([\d.]+ mm\) secondary\.turns=\d+ /,
+      );
+      const turns = Number(/secondary\.turns=(\d+)/.exec(line)?.[1]);
+      expect(turns).toBeGreaterThanOrEqual(600);
+      expect(turns).toBeLessThanOrEqual(1400);
+    }
     for (const file of ['candidates.csv', 'front.csv', 'infeasible.csv', 'summary.json']) expect(text).toContain(file);
     expect(text).not.toContain('journal-');
   });
@@ -55,5 +64,27 @@ describe('the console after a sweep', () => {
     expect(result.stdout).toContain(`${out}/infeasible.csv`);
     const summary = JSON.parse(readFileSync(`${out}/summary.json`, 'utf8')) as { counts: { feasible: number } };
     expect(summary.counts.feasible).toBe(0);
+  });
+
+  it('candidates.csv is spreadsheet-clean: sets of quantities are numbers, wires get a bare diameter, no text in numeric columns', () => {
+    const text = readFileSync(`${area.dir('run')}/candidates.csv`, 'utf8');
+    const rows = parse(text, { columns: true }) as Array<Record<string, string>>;
+    const header = Object.keys(rows[0] ?? {});
+    expect(header).toContain('secondary.form_diameter_mm');
+    expect(header).toContain('secondary.wire');
+    expect(header).toContain('secondary.wire_bare_diameter_mm');
+    // ASTM B258: d = 0.127 mm × 92^((36 − n)/39) (refs §7.1): AWG 22 0.6438 mm, 24 0.5106 mm, 26 0.4049 mm.
+    const bare: Record<string, number> = { 'AWG 22': 0.6438, 'AWG 24': 0.5106, 'AWG 26': 0.4049 };
+    for (const row of rows) {
+      expect([160, 200, 250]).toContain(Number(row['secondary.form_diameter_mm']));
+      const wire = row['secondary.wire'] ?? '';
+      expect(Number(row['secondary.wire_bare_diameter_mm'])).toBeCloseTo(bare[wire] ?? Number.NaN, 3);
+      expect(['0', '1']).toContain(row.feasible);
+      for (const [column, cell] of Object.entries(row)) {
+        if (column === 'secondary.wire' || column === 'reason' || column === 'warnings') continue;
+        if (cell !== '') expect(Number.isFinite(Number(cell)), `${column}: ${cell}`).toBe(true);
+      }
+    }
+    expect(text).not.toMatch(/,inf,|,true,|,false,/);
   });
 });

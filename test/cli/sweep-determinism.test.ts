@@ -11,7 +11,7 @@ import {
   summaryWithoutTiming,
 } from './sweep-harness.ts';
 
-// Issue 5: "the same file and seed give byte-identical CSVs for --workers 1 and --workers 2", and a
+// The same file and seed give byte-identical CSVs for --workers 1 and --workers 2: a
 // design is a pure function of the file, the seed and its index, so neither the number of workers,
 // the batch boundaries, the thread that evaluates nor the file's formatting may change any output.
 // Checked on the real CLI against its own run with other settings; the sweep is the machinery

@@ -66,7 +66,7 @@ describe('the files of a sweep, checked from their own columns', () => {
     const rows = readRows(join(run, 'candidates.csv'));
     expect(rows.length).toBeGreaterThan(0);
     for (const row of rows) {
-      expect(row.feasible).toBe('true');
+      expect(row.feasible).toBe('1');
       expect(si(row, 'overall_height')).toBeLessThanOrEqual(2.4 * (1 + 1e-12));
       expect(si(row, 'resonant_frequency')).toBeGreaterThanOrEqual(90e3 * (1 - 1e-12));
       expect(si(row, 'resonant_frequency')).toBeLessThanOrEqual(300e3 * (1 + 1e-12));
@@ -162,5 +162,42 @@ describe('coilfront refine RUN_DIR', () => {
       expect(metrics.resonant_frequency).toBeLessThanOrEqual(300e3);
       expect(metrics.wire_length).toBeLessThanOrEqual(900);
     }
+    // refined.csv holds improved, distinct designs: none dominated by the swept front, no two
+    // within 1 % of the front's extent in both objectives; the trials have a file of their own.
+    const sweptFront = readRows(join(second, 'front.csv'))
+      .filter((row) => row.sample_index !== '')
+      .map((row) => [-si(row, 'breakout_voltage'), si(row, 'wire_mass')]);
+    const points = refined.map((row) => [-si(row, 'breakout_voltage'), si(row, 'wire_mass')]);
+    const dominates = (a: number[], b: number[]) =>
+      (a[0] ?? 0) <= (b[0] ?? 0) &&
+      (a[1] ?? 0) <= (b[1] ?? 0) &&
+      ((a[0] ?? 0) < (b[0] ?? 0) || (a[1] ?? 0) < (b[1] ?? 0));
+    for (const p of points) for (const q of [...sweptFront, ...points]) expect(dominates(q, p)).toBe(false);
+    const all = [...sweptFront, ...points];
+    const extent = [0, 1].map((j) => Math.max(...all.map((p) => p[j] ?? 0)) - Math.min(...all.map((p) => p[j] ?? 0)));
+    for (let i = 0; i < points.length; i++)
+      for (let j = i + 1; j < points.length; j++) {
+        const near = [0, 1].every(
+          (d) => Math.abs((points[i]?.[d] ?? 0) - (points[j]?.[d] ?? 0)) <= 0.01 * (extent[d] ?? 1),
+        );
+        expect(near).toBe(false);
+      }
+    expect(refined.length).toBeLessThan(readRows(join(run, 'refine-trials.csv')).length);
+    const byId = await cli(['show', run, 'r1']);
+    expect(byId.out).toBe((await cli(['show', run, '--refined', '1'])).out);
   }, 120_000);
+
+  it('front.csv names each swept design by its candidates.csv rank and crowding, refined ones by rN', () => {
+    const candidates = readRows(join(root, 'run-copy', 'candidates.csv'));
+    const bySample = new Map(candidates.map((row) => [row.sample_index, row]));
+    for (const row of readRows(join(run, 'front.csv'))) {
+      if (row.sample_index === '') {
+        expect(row.rank === '' || /^r\d+$/.test(row.rank ?? '')).toBe(true);
+        continue;
+      }
+      const candidate = bySample.get(row.sample_index);
+      expect(row.rank).toBe(candidate?.rank);
+      expect(row.crowding).toBe(candidate?.crowding);
+    }
+  });
 });

@@ -11,7 +11,7 @@ import {
   summaryCounts,
 } from './sweep-harness.ts';
 
-// Issue 6, item 4: a worker that exits mid-batch is replaced and its batch retried once; a batch that
+// A worker that exits mid-batch is replaced and its batch retried once; a batch that
 // fails twice is recorded as failed designs with the reason, and the sweep goes on. The crash comes
 // from the worker's test hook (COILFRONT_TEST_CRASH, read in workers/evaluate-worker.ts), which makes
 // the worker thread exit when it reaches one sample index. The check is against a clean run of the
@@ -71,7 +71,7 @@ describe('a worker that exits while evaluating a batch', () => {
       expect(index).toBe(row - 1);
       if (failedIndices.includes(index)) {
         expect(crashedRows[row]).toMatch(/worker failed twice on this batch: .*exited/);
-        expect(crashedRows[row].split(',')[3]).toBe('false'); // feasible
+        expect(crashedRows[row].split(',')[3]).toBe('0'); // feasible
       } else {
         expect(crashedRows[row], `row of index ${index}`).toBe(cleanRows[row]);
       }

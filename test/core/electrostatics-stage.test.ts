@@ -127,7 +127,7 @@ describe('electrostaticsStage without a topload', () => {
 });
 
 describe('electrostaticsStage with a topload alone', () => {
-  test('R = 0.3 m, r = 0.1 m at 1.5 m: 38.302 pF and ≈ 648 kV breakout (REFERENCES §5.3, §6.1 [X])', () => {
+  test('R = 0.3 m, r = 0.1 m at 1.5 m: 38.302 pF and ≈ 648 kV breakout (refs §5.3, §6.1 [X])', () => {
     const d: Design = {
       topload: { shape: 'toroid', outerDiameter: 0.8, tubeDiameter: 0.2, centerHeight: 1.5 },
       environment: { altitude: 0, temperature: 298.15 },
@@ -135,7 +135,7 @@ describe('electrostaticsStage with a topload alone', () => {
     const m = run(d, null).metrics;
     expect(m.topload_capacitance! / 38.302e-12).toBeCloseTo(1, 3);
     expect(m.total_capacitance).toBe(m.topload_capacitance);
-    // 3.286 MV/m × 0.1 m / 0.5071 (the field factor of REFERENCES §5.3 at h = 1.5 m).
+    // 3.286 MV/m × 0.1 m / 0.5071 (the field factor of refs §5.3 at h = 1.5 m).
     expect(m.breakout_voltage! / ((peekCylinderOnsetField(0.1, 1, 1) * 0.1) / 0.5071)).toBeCloseTo(1, 2);
     expect(m.resonant_frequency).toBeNull();
     expect(m.secondary_self_capacitance).toBeNull();
@@ -275,7 +275,7 @@ describe('monotonic facts (properties)', () => {
     );
   });
   test('raising a topload above the floor lowers its capacitance toward the isolated value', () => {
-    // Isolated torus R = 0.3 m, r = 0.1 m (R/r = 3): 1.030591456 × 4πε0R (REFERENCES §5.3 series).
+    // Isolated torus R = 0.3 m, r = 0.1 m (R/r = 3): 1.030591456 × 4πε0R (refs §5.3 series).
     const isolated = 1.030591456 * 111.265005545e-12 * 0.3;
     fc.assert(
       fc.property(

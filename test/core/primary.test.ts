@@ -296,11 +296,12 @@ describe('primaryStage', () => {
     expect(evaluation.metrics.mutual_inductance).toBe(evaluation.primary?.mutual);
   });
 
-  const outOfReach = (requireTuning?: boolean) => {
+  /** The primary stage on SECONDARY with a given total capacitance of 25 pF and the tank given. */
+  const tunedAgainst = (primary: Partial<PrimarySpec>, tankCapacitance: number) => {
     const evaluation = context({
       secondary: SECONDARY,
-      primary: flatSpiral({ turns: 3, ...(requireTuning === undefined ? {} : { requireTuning }) }),
-      tank: { capacitance: 5e-9 },
+      primary: flatSpiral(primary),
+      tank: { capacitance: tankCapacitance },
     });
     secondaryStage(evaluation);
     evaluation.electrostatics = {
@@ -313,6 +314,8 @@ describe('primaryStage', () => {
     primaryStage(evaluation);
     return evaluation;
   };
+  const tuningOption = (requireTuning?: boolean) => (requireTuning === undefined ? {} : { requireTuning });
+  const outOfReach = (requireTuning?: boolean) => tunedAgainst({ turns: 3, ...tuningOption(requireTuning) }, 5e-9);
 
   test('out of reach: infeasible by default, naming the needed and available inductance and the mistuning', () => {
     const evaluation = outOfReach();
@@ -340,23 +343,7 @@ describe('primaryStage', () => {
   });
 
   test('a fixed tap far off tune is infeasible by default and a fixed_tap_mistuned warning when relaxed', () => {
-    const build = (requireTuning?: boolean) => {
-      const evaluation = context({
-        secondary: SECONDARY,
-        primary: flatSpiral({ tapTurns: 2, ...(requireTuning === undefined ? {} : { requireTuning }) }),
-        tank: { capacitance: 30e-9 },
-      });
-      secondaryStage(evaluation);
-      evaluation.electrostatics = {
-        totalCapacitance: 25e-12,
-        toploadCapacitance: null,
-        toploadFieldPerVolt: null,
-        onsetField: null,
-        breakoutVoltage: null,
-      };
-      primaryStage(evaluation);
-      return evaluation;
-    };
+    const build = (requireTuning?: boolean) => tunedAgainst({ tapTurns: 2, ...tuningOption(requireTuning) }, 30e-9);
     const strict = build();
     expect(Math.abs(strict.metrics.tuning_error ?? 0)).toBeGreaterThan(0.03);
     expect(strict.problems[0]?.field).toBe('primary.tap_turns');

@@ -20,7 +20,7 @@ describe('standardAtmospherePressure (ICAO standard atmosphere, troposphere)', (
   });
 });
 
-describe('relativeAirDensity (Peek; Kuffel & Zaengl — REFERENCES §6.1)', () => {
+describe('relativeAirDensity (Peek; Kuffel & Zaengl — refs §6.1)', () => {
   test('is 1 at sea level and 25 °C, Peek’s reference (δ = 3.92 b/(273 + t) with b = 76 cmHg, t = 25: 0.9997)', () => {
     expect(relativeAirDensity(0, 298.15)).toBeCloseTo(1, 12);
     expect(Math.abs((3.92 * 76) / (273 + 25) - relativeAirDensity(0, 298.15))).toBeLessThan(1e-3);
@@ -42,7 +42,7 @@ describe('relativeAirDensity (Peek; Kuffel & Zaengl — REFERENCES §6.1)', () =
 });
 
 describe('peekCylinderOnsetField: g = 30 m δ (1 + 0.301/√(δ r)) kV/cm (Peek 1929; Kuffel & Zaengl p. 366)', () => {
-  test('r = 10 cm, δ = 1, m = 1 gives 32.86 kV/cm (REFERENCES §6.1 [X] worked example)', () => {
+  test('r = 10 cm, δ = 1, m = 1 gives 32.86 kV/cm (refs §6.1 [X] worked example)', () => {
     expect(peekCylinderOnsetField(0.1, 1, 1) / 1e5).toBeCloseTo(32.86, 2);
   });
   test('applies δ inside the root and m outside: r = 1 cm, δ = 0.8, m = 0.9 (published form evaluated by hand: 28.869 kV/cm)', () => {
@@ -58,7 +58,7 @@ describe('peekCylinderOnsetField: g = 30 m δ (1 + 0.301/√(δ r)) kV/cm (Peek 
   });
 });
 
-describe('peekSphereOnsetField: g = 27.2 m δ (1 + 0.54/√(δ R)) kV/cm (constants from memory, REFERENCES §6.1 [M])', () => {
+describe('peekSphereOnsetField: g = 27.2 m δ (1 + 0.54/√(δ R)) kV/cm (constants from memory, refs §6.1 [M])', () => {
   test('R = 10 cm, δ = 1: 31.84 kV/cm', () => {
     expect(peekSphereOnsetField(0.1, 1, 1) / 1e5).toBeCloseTo(27.2 * (1 + 0.54 / Math.sqrt(10)), 9);
     expect(peekSphereOnsetField(0.1, 1, 1) / 1e5).toBeCloseTo(31.845, 2);
@@ -66,7 +66,7 @@ describe('peekSphereOnsetField: g = 27.2 m δ (1 + 0.54/√(δ R)) kV/cm (consta
 });
 
 describe('breakoutVoltage = onset field / peak field per volt', () => {
-  test('reproduces the REFERENCES §6.1 [X] example: r = 0.1 m, R/r = 3 isolated (0.456 V/r) ≈ 720 kV', () => {
+  test('reproduces the refs §6.1 [X] example: r = 0.1 m, R/r = 3 isolated (0.456 V/r) ≈ 720 kV', () => {
     expect(breakoutVoltage(peekCylinderOnsetField(0.1, 1, 1), 0.456 / 0.1) / 1e3).toBeCloseTo(720.5, 0);
   });
 });

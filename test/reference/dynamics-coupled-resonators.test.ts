@@ -1,7 +1,7 @@
 /**
  * The coupled two-resonator circuit against coupled-circuit theory:
- * - normal modes f0/√(1 ± k) of two equally tuned lossless circuits (REFERENCES §8.1, Terman 1943 [P]);
- * - the full-transfer couplings k = (2n+1)/(2n²+2n+1) and their transfer times t₁·f0 (REFERENCES
+ * - normal modes f0/√(1 ± k) of two equally tuned lossless circuits (refs §8.1, Terman 1943 [P]);
+ * - the full-transfer couplings k = (2n+1)/(2n²+2n+1) and their transfer times t₁·f0 (refs
  *   §8.2 table [X]: formula, each row verified there with scipy DOP853) with V2 = V1√(C1/C2)
  *   (energy conservation, §8.3);
  * - an independent fixed-step RK4 integration written in this file.
@@ -32,7 +32,7 @@ function tuned(k: number, r1 = 0, r2 = 0): CoupledCircuit {
   };
 }
 
-describe('normal modes of the lossless tuned pair (REFERENCES §8.1)', () => {
+describe('normal modes of the lossless tuned pair (refs §8.1)', () => {
   test.each([0.05, 0.15, 0.3, 0.6, 0.9])('k = %f gives f0/√(1+k) and f0/√(1−k)', (k) => {
     const [low, high] = losslessModeFrequencies(tuned(k)).map((omega) => omega / (2 * Math.PI));
     expect(low / (F0 / Math.sqrt(1 + k))).toBeCloseTo(1, 12);
@@ -43,7 +43,7 @@ describe('normal modes of the lossless tuned pair (REFERENCES §8.1)', () => {
   });
 });
 
-describe('full transfer at the first envelope null (REFERENCES §8.2 [X], §8.3)', () => {
+describe('full transfer at the first envelope null (refs §8.2 [X], §8.3)', () => {
   // [n, k, t₁·f0 (ODE)] from the §8.2 table
   const table: Array<[number, number, number]> = [
     [1, 0.6, 0.63246],

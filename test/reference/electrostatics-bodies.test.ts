@@ -22,11 +22,11 @@ describe('isolated bodies (exact solutions)', () => {
   test('thin disc: C = 8ε0a (exact, Jackson 3rd ed. ch. 3)', () => {
     const solution = solveField({ topload: { shape: 'disc', radius: 1, centerZ: 0 }, floor: false })!;
     expect(relative(solution.totalCapacitance, 8 * VACUUM_PERMITTIVITY)).toBeLessThan(TOLERANCE);
-    expect(relative(solution.totalCapacitance, 70.8335e-12)).toBeLessThan(TOLERANCE); // REFERENCES §5.3 [P]
+    expect(relative(solution.totalCapacitance, 70.8335e-12)).toBeLessThan(TOLERANCE); // refs §5.3 [P]
   });
 });
 
-describe('sphere over a grounded plane (image series, Smythe; REFERENCES §5.3)', () => {
+describe('sphere over a grounded plane (image series, Smythe; refs §5.3)', () => {
   /** C = 4πε0 a sinh α Σ_{n≥1} 1/sinh(nα), cosh α = h/a (image series, evaluated here). */
   function imageSeriesCapacitance(radius: number, height: number): number {
     const alpha = Math.acosh(height / radius);
@@ -38,7 +38,7 @@ describe('sphere over a grounded plane (image series, Smythe; REFERENCES §5.3)'
     }
     return FOUR_PI_EPS0 * radius * Math.sinh(alpha) * sum;
   }
-  // E_max·a/V at the point nearest the plane: REFERENCES §5.3 table, [X] (independent BEM).
+  // E_max·a/V at the point nearest the plane: refs §5.3 table, [X] (independent BEM).
   test.each([
     [1.5, 1.5353705, 2.7174],
     [2, 1.3410598, 1.7701],
@@ -59,17 +59,17 @@ describe('sphere over a grounded plane (image series, Smythe; REFERENCES §5.3)'
     [0.2, 14.9213],
     [0.5, 12.3642],
     [1.0, 11.7122],
-  ])('a = 0.1 m at h = %f m: %f pF (REFERENCES §5.3 [X])', (height, picofarads) => {
+  ])('a = 0.1 m at h = %f m: %f pF (refs §5.3 [X])', (height, picofarads) => {
     const solution = solveField({ topload: { shape: 'sphere', radius: 0.1, centerZ: height }, floor: true })!;
     expect(relative(solution.totalCapacitance, picofarads * 1e-12)).toBeLessThan(1e-4);
     expect(relative(solution.totalCapacitance, imageSeriesCapacitance(0.1, height))).toBeLessThan(1e-4);
   });
 });
 
-describe('isolated torus (toroidal harmonics; REFERENCES §5.3)', () => {
+describe('isolated torus (toroidal harmonics; refs §5.3)', () => {
   /**
    * C = 8ε0 c Σ ε_n Q_{n−½}(cosh η0)/P_{n−½}(cosh η0), c = √(R² − r²), cosh η0 = R/r (toroidal
-   * harmonics, Smythe; REFERENCES §5.3 [M], confirmed [X]). The Legendre functions are evaluated
+   * harmonics, Smythe; refs §5.3 [M], confirmed [X]). The Legendre functions are evaluated
    * here from Laplace's and Heine's integrals (NIST DLMF §14.12): P_ν(x) = (1/π)∫₀^π (x + √(x²−1)
    * cos φ)^ν dφ, Q_ν(x) = ∫₀^∞ (x + √(x²−1) cosh t)^(−ν−1) dt.
    */
@@ -100,7 +100,7 @@ describe('isolated torus (toroidal harmonics; REFERENCES §5.3)', () => {
     }
     return 8 * VACUUM_PERMITTIVITY * Math.sqrt(major * major - minor * minor) * total;
   }
-  // C/(4πε0R), E_max·r/V at the outer equator: REFERENCES §5.3 table [X] (mpmath series; BEM).
+  // C/(4πε0R), E_max·r/V at the outer equator: refs §5.3 table [X] (mpmath series; BEM).
   test.each([
     [1.5, 1.393955733, 0.5853],
     [2, 1.215835206, 0.5301],
@@ -126,7 +126,7 @@ describe('isolated torus (toroidal harmonics; REFERENCES §5.3)', () => {
     })!;
     expect(relative(solution.totalCapacitance, series)).toBeLessThan(2e-4);
   });
-  // Torus R = 0.3 m, r = 0.1 m over the floor: REFERENCES §5.3 [X] (independent BEM with image).
+  // Torus R = 0.3 m, r = 0.1 m over the floor: refs §5.3 [X] (independent BEM with image).
   test.each([
     [0.5, 48.011, 0.6326],
     [1.0, 40.506, 0.535],

@@ -1,12 +1,12 @@
 /**
- * Medhurst's empirical self-capacitance (REFERENCES §4.1 [P2]) and the comparison with the
+ * Medhurst's empirical self-capacitance (refs §4.1 [P2]) and the comparison with the
  * field-based self-capacitance of a bare winding over the floor.
  */
 import { describe, expect, test } from 'vitest';
 import { MEDHURST_TABLE, medhurstFactor, medhurstSelfCapacitance } from '../../core/capacitance/medhurst.ts';
 import { solveField, type WindingProfile } from '../../core/electrostatics/field-solve.ts';
 
-describe('medhurstFactor (Medhurst 1947, table as reproduced — REFERENCES §4.1 [P2])', () => {
+describe('medhurstFactor (Medhurst 1947, table as reproduced — refs §4.1 [P2])', () => {
   test('returns the table at its rows', () => {
     for (const [ratio, factor] of MEDHURST_TABLE) expect(medhurstFactor(ratio)).toBeCloseTo(factor, 12);
     expect(medhurstFactor(0.7)).toBe(0.47); // the row one widely copied table got wrong (0.70)
@@ -20,7 +20,7 @@ describe('medhurstFactor (Medhurst 1947, table as reproduced — REFERENCES §4.
     expect(medhurstFactor(Number.NaN)).toBeNull();
     expect(medhurstSelfCapacitance(0, 1)).toBeNull();
   });
-  test('D = 20 cm, l/D = 4: 0.72 × 20 = 14.4 pF (REFERENCES §2 worked example)', () => {
+  test('D = 20 cm, l/D = 4: 0.72 × 20 = 14.4 pF (refs §2 worked example)', () => {
     expect(medhurstSelfCapacitance(0.2, 0.8)! / 1e-12).toBeCloseTo(14.4, 10);
   });
 });

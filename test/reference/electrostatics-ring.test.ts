@@ -20,7 +20,7 @@ describe('ellipticKFromComplement / ellipticEFromComplement (A&S 17.3.34, 17.3.3
       expect(Math.abs(ellipticEFromComplement(1 - m) - stdlibEllipe(m))).toBeLessThan(2.5e-8);
     },
   );
-  test('reproduce the REFERENCES §1 [X] (mpmath) value K(0.999999) = 8.29405146361544', () => {
+  test('reproduce the refs §1 [X] (mpmath) value K(0.999999) = 8.29405146361544', () => {
     expect(ellipticKFromComplement(1e-6)).toBeCloseTo(8.29405146361544, 7);
   });
   test('follow the logarithmic asymptote K ≈ ln(4/√m1) near the source ring (A&S 17.3.26)', () => {
@@ -29,8 +29,8 @@ describe('ellipticKFromComplement / ellipticEFromComplement (A&S 17.3.34, 17.3.3
   });
 });
 
-describe('ringChargePotential (Smythe; REFERENCES §5.1)', () => {
-  // Normalised potential 4πε0·a·V/q for a = 1: REFERENCES §5.1 [X] (mpmath).
+describe('ringChargePotential (Smythe; refs §5.1)', () => {
+  // Normalised potential 4πε0·a·V/q for a = 1: refs §5.1 [X] (mpmath).
   test.each([
     [0, 0, 1],
     [0, 1, 0.707106781187],
@@ -47,8 +47,8 @@ describe('ringChargePotential (Smythe; REFERENCES §5.1)', () => {
   });
 });
 
-describe('ringChargeField (REFERENCES §5.1)', () => {
-  // q = 1 C, a = 1 m: REFERENCES §5.1 [X] (mpmath).
+describe('ringChargeField (refs §5.1)', () => {
+  // q = 1 C, a = 1 m: refs §5.1 [X] (mpmath).
   test('matches the tabulated V, E_r, E_z at (0.5, 0.3) and (2, 1)', () => {
     const near = ringChargeField(1, 1, 0, 0.5, 0.3);
     expect(ringChargePotential(1, 1, 0, 0.5, 0.3) / 8.99082791e9).toBeCloseTo(1, 8);

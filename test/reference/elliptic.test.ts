@@ -32,7 +32,7 @@ describe('ellipticKE(m) against @stdlib/math ellipk/ellipe (parameter convention
   });
 });
 
-describe('ellipticKE(m) against mpmath values (REFERENCES §1 [X]; A&S Table 17.1 where it has entries)', () => {
+describe('ellipticKE(m) against mpmath values (refs §1 [X]; A&S Table 17.1 where it has entries)', () => {
   const table: Array<[number, number, number]> = [
     [0, 1.570796326794897, 1.570796326794897],
     [0.1, 1.612441348720219, 1.530757636897763],

@@ -1,6 +1,6 @@
 /**
  * Checks of the skin-effect losses against published and exact solutions:
- * - the Bessel solution of an isolated round wire, values of REFERENCES §7.4 [X] (scipy Bessel);
+ * - the Bessel solution of an isolated round wire, values of refs §7.4 [X] (scipy Bessel);
  * - Kelvin functions against A&S Table 9.12 (from memory) and against Bessel's integral
  *   J0(z) = (1/π)∫₀^π cos(z sin θ) dθ evaluated here by quadrature (exact representation, DLMF 10.9.1);
  * - Dowell's one-layer factor against the exact 1-D diffusion solution in a conducting slab,
@@ -16,7 +16,7 @@ import { skinDepth } from '../../core/wire/copper.ts';
 const COPPER_20C = 1 / 58e6; // IEC 60028, as used for the §7.4 values
 
 describe('roundWireResistanceRatio(radius, skinDepth)', () => {
-  // REFERENCES §7.4 [X] (scipy Bessel, copper at 20 °C)
+  // refs §7.4 [X] (scipy Bessel, copper at 20 °C)
   test.each([
     [0.7e-3, 100e3, 1.1451],
     [0.7e-3, 200e3, 1.4376],
@@ -27,7 +27,7 @@ describe('roundWireResistanceRatio(radius, skinDepth)', () => {
     expect(Math.abs(ratio - expected)).toBeLessThan(6e-5);
   });
 
-  test('approaches a/(2δ) + 1/4 for large a/δ (REFERENCES §7.4 [M] asymptote; next term 3δ/(32a))', () => {
+  test('approaches a/(2δ) + 1/4 for large a/δ (refs §7.4 [M] asymptote; next term 3δ/(32a))', () => {
     for (const ratio of [30, 100, 500, 1000]) {
       const value = roundWireResistanceRatio(ratio, 1);
       expect(Math.abs(value - (ratio / 2 + 0.25))).toBeLessThan(0.2 / ratio);
@@ -127,12 +127,12 @@ describe('solenoidAcResistance and roundConductorAcResistance', () => {
   });
 
   test('a close-wound winding loses more than the same wire alone; the tube follows §7.4 [X]', () => {
-    // REFERENCES §2.4 worked secondary: 1000 turns of 0.70 mm at 0.8 mm pitch, 628.32 m, 28.149 Ω
+    // refs §2.4 worked secondary: 1000 turns of 0.70 mm at 0.8 mm pitch, 628.32 m, 28.149 Ω
     const frequency = 108.12e3;
     const winding = solenoidAcResistance(28.149, 628.32, 0.7e-3, 0.8e-3, frequency);
     const isolated = 28.149 * roundWireResistanceRatio(0.35e-3, skinDepth(frequency, COPPER_20C));
     expect(winding).toBeGreaterThan(1.5 * isolated);
-    // the ¼-in tube at 100 kHz: 7.8525 × R_dc (REFERENCES §7.4 [X])
+    // the ¼-in tube at 100 kHz: 7.8525 × R_dc (refs §7.4 [X])
     const dc = (COPPER_20C * 5) / (Math.PI * 3.175e-3 ** 2);
     expect(roundConductorAcResistance(5, 3.175e-3, COPPER_20C, 100e3) / dc).toBeCloseTo(7.8525, 3);
   });

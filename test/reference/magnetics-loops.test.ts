@@ -25,7 +25,7 @@ function maxwellLiteral(a: number, b: number, d: number): number {
 }
 
 describe('coaxialLoopMutualInductance (Maxwell 1873 §701)', () => {
-  // REFERENCES §3.1 [X] (mpmath)
+  // refs §3.1 [X] (mpmath)
   const table: Array<[number, number, number, string]> = [
     [1, 1, 1, '494.0784631'],
     [1, 1, 0.1, '3002.876304'],
@@ -85,7 +85,7 @@ describe('coaxialLoopMutualInductance (Maxwell 1873 §701)', () => {
 });
 
 describe('loopSelfInductance (Grover 1946; Rosa 1908)', () => {
-  // REFERENCES §3.2 [X]: L_DC = μ0 a (ln(8a/ρ) − 7/4), L_HF = μ0 a (ln(8a/ρ) − 2)
+  // refs §3.2 [X]: L_DC = μ0 a (ln(8a/ρ) − 7/4), L_HF = μ0 a (ln(8a/ρ) − 2)
   const table: Array<[number, number, string, string]> = [
     [0.1, 0.001, '620.1016', '588.6857'],
     [1, 0.001, '9094.530', '8780.371'],

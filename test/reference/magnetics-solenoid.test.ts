@@ -1,6 +1,6 @@
 /**
  * Single-layer solenoid inductance: Nagaoka's coefficient, Wheeler, Lundin, Rosa's corrections and
- * the exact loop sum, against the published and independently computed values of REFERENCES §2.
+ * the exact loop sum, against the published and independently computed values of refs §2.
  */
 import { describe, expect, test } from 'vitest';
 import { currentSheetInductance, nagaokaCoefficient } from '../../core/inductance/nagaoka.ts';
@@ -26,7 +26,7 @@ function logSpaced(count: number, from: number, to: number): number[] {
 }
 
 describe('nagaokaCoefficient (exact elliptic form)', () => {
-  // REFERENCES §2.1 [X]: mpmath, confirmed by integrating Maxwell's filament formula over the sheet.
+  // refs §2.1 [X]: mpmath, confirmed by integrating Maxwell's filament formula over the sheet.
   const table: Array<[number, string]> = [
     [0.01, '0.9957683680'],
     [0.1, '0.9588071242'],
@@ -46,7 +46,7 @@ describe('nagaokaCoefficient (exact elliptic form)', () => {
     expect(Math.abs(nagaokaCoefficient(x) - Number(printed))).toBeLessThanOrEqual(0.5 * 10 ** -decimals);
   });
 
-  // Leading terms 1 − 4x/(3π): REFERENCES §2.1 (Knight; follows from Lundin's form). The x²/8 term
+  // Leading terms 1 − 4x/(3π): refs §2.1 (Knight; follows from Lundin's form). The x²/8 term
   // is from memory (the standard long-coil expansion; Lundin's f1 ≈ 1 + 0.12495 x² agrees).
   test('long-coil limit K_N → 1 − 4(D/l)/(3π) + (D/l)²/8, and no loss of digits as D/l → 0', () => {
     for (const x of [1e-3, 1e-4, 1e-5, 1e-6]) {
@@ -70,7 +70,7 @@ describe('nagaokaCoefficient (exact elliptic form)', () => {
 });
 
 describe('lundinNagaokaCoefficient', () => {
-  test('within 1e-5 (stated 2.5e-6) of the exact coefficient over D/l in [1e-3, 1e3] (REFERENCES §2.3 [X])', () => {
+  test('within 1e-5 (stated 2.5e-6) of the exact coefficient over D/l in [1e-3, 1e3] (refs §2.3 [X])', () => {
     let worst = 0;
     for (const x of logSpaced(601, 1e-3, 1e3))
       worst = Math.max(worst, relativeError(lundinNagaokaCoefficient(x), nagaokaCoefficient(x)));
@@ -78,7 +78,7 @@ describe('lundinNagaokaCoefficient', () => {
     expect(worst).toBeGreaterThan(1e-7); // it is an approximation, not the same formula
   });
 
-  test('regression: 4/(3π) in place of 2/π in the short branch would be wrong by exactly 1/3 (REFERENCES §2.3)', () => {
+  test('regression: 4/(3π) in place of 2/π in the short branch would be wrong by exactly 1/3 (refs §2.3)', () => {
     const x = 4;
     const u = 1 / x;
     const f1 = (1 + 0.383901 * u * u + 0.017108 * u ** 4) / (1 + 0.258952 * u * u);
@@ -90,7 +90,7 @@ describe('lundinNagaokaCoefficient', () => {
 });
 
 describe('Wheeler’s long-coil formula', () => {
-  test('K_W = 1/(1 + 0.45 D/l) stays inside the computed error band (REFERENCES §2.2 [X])', () => {
+  test('K_W = 1/(1 + 0.45 D/l) stays inside the computed error band (refs §2.2 [X])', () => {
     // the printed maxima (0.31 %, 0.33 %, 0.84 %, 2.3 %) plus half a unit of their last digit
     const band = (x: number) => (x <= 1 ? 0.00315 : x <= 2.5 ? 0.00335 : x <= 3 ? 0.00845 : 0.0235);
     for (const x of logSpaced(400, 1e-3, 4)) {
@@ -104,7 +104,7 @@ describe('Wheeler’s long-coil formula', () => {
     expect(wheelerNagaokaCoefficient(10) / nagaokaCoefficient(10) - 1).toBeCloseTo(-0.106, 3);
   });
 
-  test('the inch formula equals the SI current sheet with K_W divided by 1.0027 (REFERENCES §2.2, Knight)', () => {
+  test('the inch formula equals the SI current sheet with K_W divided by 1.0027 (refs §2.2, Knight)', () => {
     const radius = 0.1;
     const length = 0.5;
     const turns = 800;
@@ -118,7 +118,7 @@ describe('Wheeler’s long-coil formula', () => {
 });
 
 describe('Rosa’s corrections', () => {
-  // REFERENCES §2.4: exact GMD sum [X] and Grover 1946 p. 150 table [P2] (as reproduced by Knight).
+  // refs §2.4: exact GMD sum [X] and Grover 1946 p. 150 table [P2] (as reproduced by Knight).
   const table: Array<[number, number, number | null]> = [
     [1, 0, 0],
     [2, 0.11370564, 0.1137],
@@ -141,7 +141,7 @@ describe('Rosa’s corrections', () => {
     else expect(rosaMutualCorrection(turns)).toBe(rosaMutualCorrectionSum(turns));
   });
 
-  test('k_m tends to ln(2π) − 3/2 = 0.3378770664 (REFERENCES §2.4 [X])', () => {
+  test('k_m tends to ln(2π) − 3/2 = 0.3378770664 (refs §2.4 [X])', () => {
     expect(rosaMutualCorrection(1e9)).toBeCloseTo(0.3378770664, 8);
   });
 
@@ -157,7 +157,7 @@ describe('Rosa’s corrections', () => {
     expect(rosaMutualCorrectionSum(2.5)).toBeNaN();
   });
 
-  test('k_s = 5/4 − ln(2p/d) (DC) and 3/2 − ln(2p/d) (HF), negative for thin spaced wire (REFERENCES §2.4)', () => {
+  test('k_s = 5/4 − ln(2p/d) (DC) and 3/2 − ln(2p/d) (HF), negative for thin spaced wire (refs §2.4)', () => {
     expect(rosaSelfCorrection(0.8e-3, 0.7e-3, 'uniform')).toBeCloseTo(0.423321, 6);
     expect(rosaSelfCorrection(0.8e-3, 0.7e-3, 'surface') - rosaSelfCorrection(0.8e-3, 0.7e-3, 'uniform')).toBeCloseTo(
       0.25,
@@ -167,7 +167,7 @@ describe('Rosa’s corrections', () => {
   });
 });
 
-describe('round-wire solenoid: Nagaoka + Rosa against the exact loop sum (REFERENCES §2.4 validation [X])', () => {
+describe('round-wire solenoid: Nagaoka + Rosa against the exact loop sum (refs §2.4 validation [X])', () => {
   // direct sum of round-wire loops vs L_s − μ0 a N (k_s + k_m)
   const rows: Array<[number, number, number, number, string, string, number]> = [
     // N, a, p, d, loop sum µH, Nagaoka+Rosa µH (as printed), printed relative difference
@@ -204,7 +204,7 @@ describe('round-wire solenoid: Nagaoka + Rosa against the exact loop sum (REFERE
     expect(relativeError(byRosa, bySum)).toBeLessThan(3e-5);
   });
 
-  test('worked secondary example: D = 0.20 m, l = 0.80 m, N = 1000, d = 0.70 mm (REFERENCES §2.4 [X])', () => {
+  test('worked secondary example: D = 0.20 m, l = 0.80 m, N = 1000, d = 0.70 mm (refs §2.4 [X])', () => {
     const radius = 0.1;
     expect(nagaokaCoefficient(0.25)).toBeCloseTo(0.90164933, 8);
     expect(Math.abs(currentSheetInductance(radius, 0.8, 1000) * 1e3 - 44.4946)).toBeLessThan(5e-5);

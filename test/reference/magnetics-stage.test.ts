@@ -1,6 +1,6 @@
 /**
  * The secondary and primary stages end to end against worked examples and independent formulas:
- * the worked secondary of REFERENCES §2.4, a helix primary against Nagaoka + Rosa (HF form), a flat
+ * the worked secondary of refs §2.4, a helix primary against Nagaoka + Rosa (HF form), a flat
  * spiral against Wheeler's spiral formula, and the stage conventions.
  */
 import { describe, expect, test } from 'vitest';
@@ -31,7 +31,7 @@ function relativeError(actual: number, expected: number): number {
   return Math.abs(actual / expected - 1);
 }
 
-/** REFERENCES §2.4 worked example: centre-line D = 0.20 m, l = 0.80 m, N = 1000, d = 0.70 mm. */
+/** refs §2.4 worked example: centre-line D = 0.20 m, l = 0.80 m, N = 1000, d = 0.70 mm. */
 const WORKED: SecondarySpec = {
   formDiameter: 0.2 - 0.8e-3, // so that the wire's centre line has D = 0.20 m
   wire: { bareDiameter: 0.7e-3, insulation: 'grade2', overallDiameter: 0.8e-3 },
@@ -40,7 +40,7 @@ const WORKED: SecondarySpec = {
   voltageProfile: 'linear',
 };
 
-describe('secondaryStage on the worked example of REFERENCES §2.4 [X]', () => {
+describe('secondaryStage on the worked example of refs §2.4 [X]', () => {
   test('L = 44.3991 mH, wire length 628.32 m, R_dc(20 °C) = 28.149 Ω, close-wound pitch 0.8 mm', () => {
     const evaluation = context({ secondary: WORKED });
     secondaryStage(evaluation);
@@ -132,7 +132,7 @@ describe('primaryStage against independent formulas', () => {
   };
   const tube = 6.35e-3;
 
-  test('helix primary: the ring sum equals Nagaoka + Rosa with the surface-current k_s (REFERENCES §2.4: HF pair)', () => {
+  test('helix primary: the ring sum equals Nagaoka + Rosa with the surface-current k_s (refs §2.4: HF pair)', () => {
     // A helix of rings is a single-layer solenoid of round conductor; Rosa's HF corrections
     // (3/2 − ln(2p/d) with k_m) describe it to about 1e-3 for ten turns.
     for (const [innerDiameter, turns, spacing] of [
@@ -159,7 +159,7 @@ describe('primaryStage against independent formulas', () => {
     }
   });
 
-  test('flat spiral: within 5 % of Wheeler’s spiral formula a²N²/(8a + 11c) for c > 0.2a (REFERENCES §3.3 [P2])', () => {
+  test('flat spiral: within 5 % of Wheeler’s spiral formula a²N²/(8a + 11c) for c > 0.2a (refs §3.3 [P2])', () => {
     // a = mean radius, c = radial width N·p of the winding (current-sheet width), inches → µH
     for (const [innerDiameter, turns, diameter, spacing] of [
       [0.25, 10, tube, 6e-3],

@@ -24,7 +24,7 @@ describe('awgDiameter (ASTM B258 rule)', () => {
     expect(relativeError(awgDiameter(-3), 0.46 * 0.0254)).toBeLessThan(1e-14);
   });
 
-  // REFERENCES §7.1: d (mm) [X] from the rule, R20 (Ω/km) [X] with ρ = 1/58 µΩ·m (IEC 60028);
+  // refs §7.1: d (mm) [X] from the rule, R20 (Ω/km) [X] with ρ = 1/58 µΩ·m (IEC 60028);
   // NEMA nominal bare (in) [P2] from a manufacturer's table based on NEMA MW 1000.
   const table: Array<[number, number, number, number]> = [
     [10, 2.5882, 3.2771, 0.1019],
@@ -58,7 +58,7 @@ describe('awgDiameter (ASTM B258 rule)', () => {
 });
 
 describe('copper (IEC 60028)', () => {
-  test('ρ(20 °C) = 1/58 Ω·mm²/m and ρ(100 °C) = 2.2662e-8 Ω·m (REFERENCES §7.2 [X], α = 0.00393 /K from memory)', () => {
+  test('ρ(20 °C) = 1/58 Ω·mm²/m and ρ(100 °C) = 2.2662e-8 Ω·m (refs §7.2 [X], α = 0.00393 /K from memory)', () => {
     expect(relativeError(copperResistivity(293.15), 1 / 58e6)).toBeLessThan(1e-15);
     expect(relativeError(copperResistivity(373.15), 2.2662e-8)).toBeLessThan(3e-5);
   });
@@ -68,7 +68,7 @@ describe('copper (IEC 60028)', () => {
   });
 });
 
-describe('skinDepth (δ = √(ρ/(π f μ0)), REFERENCES §7.4 [X] for copper at 20 °C)', () => {
+describe('skinDepth (δ = √(ρ/(π f μ0)), refs §7.4 [X] for copper at 20 °C)', () => {
   // values as printed; each is checked to half a unit of its last printed digit
   const table: Array<[number, string]> = [
     [50, '9.346'],
@@ -89,7 +89,7 @@ describe('skinDepth (δ = √(ρ/(π f μ0)), REFERENCES §7.4 [X] for copper at
   });
 });
 
-describe('insulatedDiameter (IEC 60317-0-1 grades via IS 13730-0-1, REFERENCES §7.3 [P2])', () => {
+describe('insulatedDiameter (IEC 60317-0-1 grades via IS 13730-0-1, refs §7.3 [P2])', () => {
   // At a table row the figure is the midpoint of [d + minimum increase, maximum overall diameter].
   const rows: Array<[number, 'grade1' | 'grade2' | 'grade3', number, number]> = [
     [1.626, 'grade1', 0.039, 1.698],
@@ -131,7 +131,7 @@ describe('insulatedDiameter (IEC 60317-0-1 grades via IS 13730-0-1, REFERENCES �
 });
 
 describe('helicalWireLength (arc length of a circular helix)', () => {
-  test('REFERENCES §2.4 worked example: 1000 turns on D = 0.20 m at 0.8 mm pitch ≈ NπD = 628.32 m', () => {
+  test('refs §2.4 worked example: 1000 turns on D = 0.20 m at 0.8 mm pitch ≈ NπD = 628.32 m', () => {
     const length = helicalWireLength(1000, 0.1, 0.8e-3);
     expect(Math.abs(length - 628.32)).toBeLessThan(0.005);
     // exact helix: N √((2πr)² + p²) exceeds NπD by N p²/(4πr) to first order
@@ -144,7 +144,7 @@ describe('helicalWireLength (arc length of a circular helix)', () => {
 });
 
 describe('wireDcResistance', () => {
-  test('REFERENCES §2.4 worked example: 628.32 m of 0.70 mm copper at 20 °C is 28.149 Ω', () => {
+  test('refs §2.4 worked example: 628.32 m of 0.70 mm copper at 20 °C is 28.149 Ω', () => {
     expect(Math.abs(wireDcResistance(helicalWireLength(1000, 0.1, 0.8e-3), 0.7e-3, 293.15) - 28.149)).toBeLessThan(
       0.0006,
     );

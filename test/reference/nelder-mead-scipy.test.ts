@@ -26,7 +26,7 @@ const unbounded = (n: number) => ({ lower: new Array(n).fill(-Infinity), upper: 
 
 describe('minimize(rosenbrock) against scipy', () => {
   test('2-D from (−1.2, 1), xatol = fatol = 1e-8: 219 evaluations, scipy nit 117 [X]; reaches (1, 1)', () => {
-    // 219 evaluations is also the figure quoted for scipy in issue 7 (order-of-magnitude check).
+    // 219 evaluations is also the figure scipy gives for this case (order-of-magnitude check).
     const result = minimize(rosenbrock, [-1.2, 1], { ...unbounded(2), xatol: 1e-8, fatol: 1e-8 });
     expect(result.status).toBe('converged');
     expect(result.evaluations).toBe(219);
@@ -134,9 +134,9 @@ describe('minimize(himmelblau)', () => {
   );
 });
 
-describe('bounds (scipy issue 19991)', () => {
+describe('bounds (reflected then clipped, as scipy [scipy-nm])', () => {
   test('minimize(x² − 3) on [0, 4] from the upper bound 4 reaches the minimum at 0, f = −3', () => {
-    // Before scipy PR 20345 this returned 4: the initial vertex 4.2 was clipped back onto 4 and
+    // Before scipy 1.13 this returned 4: the initial vertex 4.2 was clipped back onto 4 and
     // the simplex had no width. Exact solution: x = 0 (on the lower bound), f = −3.
     const trace: number[] = [];
     const result = minimize(
