@@ -129,7 +129,10 @@ export async function evolveCommand(directory: string, options: EvolveCommandOpt
 
     const front = sortedFront(outcome.merged);
     const improved = improvedDesigns(front, spec.samples);
-    writeStageDesigns(directory, spec, improved, 'e', { csv: RUN_FILES.evolved, json: RUN_FILES.evolvedDesigns });
+    const kept = new Set(improved);
+    const near = front.filter((entry) => entry.item.index >= spec.samples && !kept.has(entry));
+    const files = { csv: RUN_FILES.evolved, json: RUN_FILES.evolvedDesigns };
+    writeStageDesigns(directory, spec, improved, 'e', files, near);
     const ids = new Map(improved.map((entry, i) => [entry.item.index, `e${i + 1}`]));
     await writeMergedFront(directory, spec, front, candidates, ids, improved);
     const summaryPath = writeSummarySection(directory, 'evolve', {

@@ -93,7 +93,7 @@ export async function refineCommand(directory: string, options: RefineCommandOpt
   writeStageDesigns(directory, spec, improved, 'r', { csv: RUN_FILES.refined, json: RUN_FILES.refinedDesigns });
   // A refined design is known by its id in refined.csv (`show RUN r3`), an evolved one by its e-id.
   const ids = new Map<number, string>([
-    ...evolved.map((design, k): [number, string] => [spec.samples + k, design.id]),
+    ...evolved.flatMap((design, k): [number, string][] => (design.id ? [[spec.samples + k, design.id]] : [])),
     ...improved.map((entry, i): [number, string] => [entry.item.index, `r${i + 1}`]),
   ]);
   await writeMergedFront(directory, spec, front, candidates, ids, improved);

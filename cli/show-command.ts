@@ -101,7 +101,10 @@ export function showCommand(
       throw new InputError(
         `${directory}: no ${stage.word} designs yet (run npx coilfront ${stage.command} ${directory})`,
       );
-    const designs = JSON.parse(readFileSync(path, 'utf8')) as { rank: number; values: number[] }[];
+    // Designs without a rank (evolved ones near an improved one) are there for later stages only.
+    const designs = (JSON.parse(readFileSync(path, 'utf8')) as { rank: number | null; values: number[] }[]).filter(
+      (d) => d.rank !== null,
+    );
     const entry = designs.find((d) => d.rank === rank);
     if (!entry)
       throw new InputError(

@@ -54,10 +54,14 @@ export function improvedDesigns(
   return kept;
 }
 
-/** A stage design as its list file keeps it: rank, id, exact dimension values, metrics, warnings. */
+/**
+ * A stage design as its list file keeps it: rank, id, exact dimension values, metrics, warnings. The
+ * stage's other designs on the merged front (near an improved one) follow with rank and id null, so a
+ * later stage starts from the same front.
+ */
 export interface StageDesign {
-  rank: number;
-  id: string;
+  rank: number | null;
+  id: string | null;
   values: number[];
   metrics?: Array<number | null>;
   warning_mask?: number;
@@ -70,22 +74,22 @@ export function writeStageDesigns(
   improved: readonly RankedEntry<PackedRow>[],
   prefix: 'e' | 'r',
   files: { csv: string; json: string },
+  near: readonly RankedEntry<PackedRow>[] = [],
 ): void {
   const columns = columnSet(spec.dimensions);
   const indexColumn = columns.header.indexOf('sample_index');
   const rows = rankedRows(spec.dimensions, improved);
   for (const row of rows) row[indexColumn] = null;
   writeFileAtomicSync(join(directory, files.csv), toCsv(columns.header, rows));
-  const designs: StageDesign[] = improved.map((entry, i) => {
+  const designOf = (entry: RankedEntry<PackedRow>, rank: number | null): StageDesign => {
     const row = unpackRow(entry.payload);
-    return {
-      rank: i + 1,
-      id: `${prefix}${i + 1}`,
-      values: row.values,
-      metrics: row.metrics,
-      warning_mask: row.warningMask,
-    };
-  });
+    const id = rank === null ? null : `${prefix}${rank}`;
+    return { rank, id, values: row.values, metrics: row.metrics, warning_mask: row.warningMask };
+  };
+  const designs = [
+    ...improved.map((entry, i) => designOf(entry, i + 1)),
+    ...near.map((entry) => designOf(entry, null)),
+  ];
   writeFileAtomicSync(join(directory, files.json), `${JSON.stringify(designs, null, 1)}\n`);
 }
 
