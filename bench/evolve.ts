@@ -6,7 +6,8 @@
  *   sweep + evolve (the first B/2 samples, then B/2 evaluations of evolve seeded by all of them),
  *   evolve from random start (B evaluations, no sweep).
  * Hypervolumes are normalised by the best value seen for that budget and seed; reference point: the
- * default of optimize/pareto over every front of the comparison. Run: node dist/bench/evolve.js
+ * default of optimize/pareto over every front of the comparison. Part of `npm run bench`; alone:
+ * node dist/bench/evolve.js [budgets] [seeds], e.g. node dist/bench/evolve.js 2000,5000 1,2
  */
 import { resolve } from 'node:path';
 import { spaceDefinitionOf } from '../cli/sweep-command.ts';
@@ -24,10 +25,12 @@ function front(members: readonly Individual[]): Float64Array[] {
   return (fronts[0] ?? []).map((p) => feasible[p]);
 }
 
-async function main(): Promise<void> {
+/** Lines `budget  method  normalised hypervolume per seed  (mean)`, one per budget and method. */
+export async function benchEvolve(options: { budgets?: number[]; seeds?: number[] } = {}): Promise<string[]> {
   const spec = loadSweepFile(resolve('examples/sweeps/science-centre-ceiling.yaml'), { force: true });
-  const budgets = (process.argv[2] ?? '2000,5000').split(',').map(Number);
-  const seeds = (process.argv[3] ?? '1,2').split(',').map(Number);
+  const budgets = options.budgets ?? [2000, 5000];
+  const seeds = options.seeds ?? [1, 2];
+  const lines = ['budget\tmethod\thypervolume / best, per seed\tmean'];
   for (const budget of budgets) {
     const rows: Record<string, number[]> = { sweep: [], 'sweep+evolve': [], 'evolve (random start)': [] };
     for (const seed of seeds) {
@@ -64,9 +67,16 @@ async function main(): Promise<void> {
         list.push(volumes[i] / best);
       });
     }
-    for (const [name, list] of Object.entries(rows))
-      console.log(`${budget}\t${name}\t${list.map((v) => v.toFixed(3)).join('\t')}`);
+    for (const [name, list] of Object.entries(rows)) {
+      const mean = list.reduce((a, b) => a + b, 0) / list.length;
+      lines.push(`${budget}\t${name}\t${list.map((v) => v.toFixed(3)).join('\t')}\t${mean.toFixed(3)}`);
+    }
   }
+  return lines;
 }
 
-await main();
+if (process.argv[1]?.endsWith('evolve.js')) {
+  const list = (text: string | undefined) => text?.split(',').map(Number);
+  for (const line of await benchEvolve({ budgets: list(process.argv[2]), seeds: list(process.argv[3]) }))
+    console.log(line);
+}
