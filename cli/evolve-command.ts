@@ -23,7 +23,7 @@ import { acquireRunLock, RunLockError } from './durable/lock.ts';
 import { DiskError } from './durable/disk-error.ts';
 import { InputError, optionError } from './input-error.ts';
 import type { CliIo } from './io.ts';
-import { readRunRecord, RUN_FILES } from './run-directory.ts';
+import { readRunRecord, RUN_FILES, runDigits } from './run-directory.ts';
 import { SAFETY_CAUTIONS } from './safety.ts';
 import {
   designLines,
@@ -131,10 +131,11 @@ export async function evolveCommand(directory: string, options: EvolveCommandOpt
     const improved = improvedDesigns(front, spec.samples);
     const kept = new Set(improved);
     const near = front.filter((entry) => entry.item.index >= spec.samples && !kept.has(entry));
-    const files = { csv: RUN_FILES.evolved, json: RUN_FILES.evolvedDesigns };
+    const digits = runDigits(record);
+    const files = { csv: RUN_FILES.evolved, json: RUN_FILES.evolvedDesigns, digits };
     writeStageDesigns(directory, spec, improved, 'e', files, near);
     const ids = new Map(improved.map((entry, i) => [entry.item.index, `e${i + 1}`]));
-    await writeMergedFront(directory, spec, front, candidates, ids, improved);
+    await writeMergedFront(directory, spec, front, { candidates, ids, stageOf: () => 'evolved', digits }, improved);
     const summaryPath = writeSummarySection(directory, 'evolve', {
       seed,
       population: options.population,

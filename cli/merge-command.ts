@@ -9,7 +9,14 @@ import { SweepState } from '../optimize/sweep-state.ts';
 import { writeFileAtomicSync } from './durable/atomic-write.ts';
 import { InputError } from './input-error.ts';
 import type { CliIo } from './io.ts';
-import { prepareOutputDirectory, readRunRecord, RUN_FILES, writeRunRecord, type RunRecord } from './run-directory.ts';
+import {
+  prepareOutputDirectory,
+  readRunRecord,
+  RUN_FILES,
+  runDigits,
+  writeRunRecord,
+  type RunRecord,
+} from './run-directory.ts';
 import { checkCoverage } from './shard.ts';
 import { loadRunSpec } from './sweep-command.ts';
 import { writeSweepOutputs } from './sweep-outputs.ts';
@@ -84,6 +91,7 @@ export async function mergeCommand(
       range: [0, total],
       shard: null,
       keep: record.keep,
+      digits: runDigits(record),
     },
     { wallSeconds: 0, designsPerSecond: 0, workers: 0 },
     true,

@@ -1,20 +1,37 @@
 /**
- * front.svg: the trade-offs of a run drawn with Vega-Lite (rendered headless by Vega's View.toSVG),
- * so a builder sees the front without opening a spreadsheet. With two or more objectives, the first
- * objective against each of the others (up to three panels): the ranked candidates as small grey
- * marks, the non-dominated front as larger dark marks joined by a step line. With one objective, the
- * objective against rank. Values in the CSVs' practical units. Deterministic for the same rows.
+ * front.svg: the trade-offs of a run drawn with Vega-Lite (rendered headless), so a builder sees the
+ * front without opening a spreadsheet. Values in the CSVs' practical units; deterministic for the
+ * same rows.
+ * - One objective: the objective against rank.
+ * - Two objectives: one panel filling the canvas, the ranked candidates as small marks, the front as
+ *   a staircase with each point labelled by its rank in candidates.csv; evolved and refined designs
+ *   (after `evolve`, `refine`) each in their own colour and shape, with a legend.
+ * - Three or more: a matrix of every pair of objectives, the front as points (a front of three or
+ *   more objectives is no staircase in a 2-D projection, so nothing is joined).
+ * - No feasible design: the picture says so in words.
  */
 import type { TopLevelSpec } from 'vega-lite';
 import { METRIC_KEYS } from '../core/metrics.ts';
 import type { CandidateRow } from '../optimize/sweep-state.ts';
 import { METRIC_DISPLAY, humanUnit } from './display-units.ts';
 import type { ObjectiveSpec } from './sweep-spec.ts';
+import { PLOT_COLOURS } from './views/column-plot.ts';
+import { PICTURE_CAUTION, vegaLiteSvg, wrapText } from './views/vega-render.ts';
 
-interface Point {
-  set: string;
-  x: number;
-  y: number;
+/** What the front's points are, beside their rows: rank in candidates.csv, refined or swept. */
+export interface FrontMarks {
+  ranks?: ReadonlyArray<number | null>;
+  refined?: readonly boolean[];
+  /** Designs of `evolve` (their own colour and shape). */
+  evolved?: readonly boolean[];
+}
+
+type MarkSet = 'candidate' | 'swept front' | 'evolved front' | 'refined front';
+
+interface Datum {
+  set: MarkSet;
+  label: string;
+  [axis: string]: number | string;
 }
 
 function axisTitle(objective: ObjectiveSpec): string {
@@ -29,95 +46,178 @@ function valueOf(row: CandidateRow, metric: string): number | null {
   return display ? value / display.divisor : value;
 }
 
-const CAUTION =
-  'Model estimates, not a safety assessment: tank and supply voltages are lethal — read the safety cautions.';
+const SCHEMA = 'https://vega.github.io/schema/vega-lite/v6.json';
+const SETS: MarkSet[] = ['candidate', 'swept front', 'evolved front', 'refined front'];
+const SET_COLOURS = [PLOT_COLOURS.candidate, PLOT_COLOURS.front, PLOT_COLOURS.evolved, PLOT_COLOURS.refined];
+const SET_SHAPES = ['circle', 'square', 'triangle-up', 'diamond'];
+
+function title(text: string, width: number) {
+  return {
+    text: wrapText(text, width, 14),
+    subtitle: wrapText(PICTURE_CAUTION, width, 11),
+    fontSize: 14,
+    subtitleFontSize: 11,
+    anchor: 'start' as const,
+  };
+}
+
+function messageSpec(message: string): TopLevelSpec {
+  return {
+    $schema: SCHEMA,
+    title: title('No feasible design in this run', 560),
+    width: 560,
+    height: 120,
+    data: { values: wrapText(message, 560, 13).map((line, i) => ({ line, i })) },
+    mark: { type: 'text', align: 'left', fontSize: 13, color: '#5b2a12' },
+    encoding: {
+      x: { value: 0 },
+      y: { field: 'i', type: 'ordinal', axis: null },
+      text: { field: 'line' },
+    },
+  };
+}
+
+/** The Vega-Lite spec of front.svg (exported for the report). */
+export function frontPlotSpec(
+  objectives: readonly ObjectiveSpec[],
+  candidates: readonly CandidateRow[],
+  front: readonly CandidateRow[],
+  marks: FrontMarks = {},
+): TopLevelSpec {
+  if (candidates.length === 0 && front.length === 0) {
+    return messageSpec(
+      'Nothing met every constraint, so there is no front to draw. infeasible.csv lists the closest misses with their reasons, and summary.json counts the designs each constraint rejected.',
+    );
+  }
+  const data: Datum[] = [];
+  const push = (row: CandidateRow, set: MarkSet, label: string) => {
+    const datum: Datum = { set, label };
+    for (let j = 0; j < objectives.length; j++) {
+      const value = valueOf(row, objectives[j].metric);
+      if (value === null) return;
+      datum[`o${j}`] = value;
+    }
+    data.push(datum);
+  };
+  for (const row of candidates) push(row, 'candidate', '');
+  front.forEach((row, i) => {
+    const rank = marks.ranks?.[i];
+    push(
+      row,
+      marks.refined?.[i] ? 'refined front' : marks.evolved?.[i] ? 'evolved front' : 'swept front',
+      rank === null || rank === undefined ? '' : String(rank),
+    );
+  });
+  const setEncoding = {
+    field: 'set',
+    type: 'nominal' as const,
+    title: null,
+    scale: { domain: SETS, range: SET_COLOURS },
+  };
+  const shapeEncoding = {
+    field: 'set',
+    type: 'nominal' as const,
+    title: null,
+    scale: { domain: SETS, range: SET_SHAPES },
+  };
+  const axis = (j: number, width: number) => ({
+    field: `o${j}`,
+    type: 'quantitative' as const,
+    title: wrapText(axisTitle(objectives[j]), width, 11),
+    scale: { zero: false },
+  });
+  const frontCount = front.length;
+  if (objectives.length === 1) {
+    const objective = objectives[0];
+    const values = candidates.flatMap((row, i) => {
+      const y = valueOf(row, objective.metric);
+      return y === null ? [] : [{ set: 'candidate', x: i + 1, y }];
+    });
+    return {
+      $schema: SCHEMA,
+      title: title(`Ranked candidates by ${objective.metric.replace(/_/g, ' ')}`, 640),
+      data: { values },
+      mark: { type: 'point', filled: true, size: 14, color: PLOT_COLOURS.front },
+      encoding: {
+        x: { field: 'x', type: 'quantitative', title: 'rank' },
+        y: { field: 'y', type: 'quantitative', title: axisTitle(objective), scale: { zero: false } },
+      },
+      width: 640,
+      height: 420,
+    };
+  }
+  const heading = `Trade-offs: ${frontCount} non-dominated designs among ${candidates.length} ranked candidates`;
+  if (objectives.length === 2) {
+    const frontFilter = "datum.set !== 'candidate'";
+    return {
+      $schema: SCHEMA,
+      title: title(`${heading}; each front point carries its rank in candidates.csv`, 640),
+      width: 640,
+      height: 420,
+      data: { values: data as unknown as Record<string, unknown>[] },
+      encoding: { x: axis(0, 640), y: axis(1, 420) },
+      layer: [
+        {
+          transform: [{ filter: "datum.set === 'candidate'" }],
+          mark: { type: 'point', filled: true, size: 12, opacity: 0.7 },
+          encoding: { color: setEncoding, shape: shapeEncoding },
+        },
+        {
+          transform: [{ filter: frontFilter }],
+          mark: { type: 'line', interpolate: 'step-after', color: PLOT_COLOURS.front, strokeWidth: 1, opacity: 0.6 },
+          encoding: { order: { field: 'o0', type: 'quantitative' } },
+        },
+        {
+          transform: [{ filter: frontFilter }],
+          mark: { type: 'point', filled: true, size: 44, stroke: '#102a2a', strokeWidth: 0.6 },
+          encoding: { color: setEncoding, shape: shapeEncoding },
+        },
+        {
+          transform: [{ filter: frontFilter }],
+          mark: { type: 'text', dx: 7, dy: -7, align: 'left', fontSize: 9, color: '#102a2a' },
+          encoding: { text: { field: 'label' } },
+        },
+      ],
+    } as TopLevelSpec;
+  }
+  // Every pair of objectives, one panel each, rows of up to three.
+  const size = 240;
+  const panels = [];
+  for (let a = 0; a < objectives.length; a++)
+    for (let b = a + 1; b < objectives.length; b++)
+      panels.push({
+        width: size,
+        height: size,
+        encoding: { x: axis(a, size), y: axis(b, size) },
+        layer: [
+          {
+            transform: [{ filter: "datum.set === 'candidate'" }],
+            mark: { type: 'point' as const, filled: true, size: 8, opacity: 0.6 },
+            encoding: { color: setEncoding, shape: shapeEncoding },
+          },
+          {
+            transform: [{ filter: "datum.set !== 'candidate'" }],
+            mark: { type: 'point' as const, filled: true, size: 30, stroke: '#102a2a', strokeWidth: 0.5 },
+            encoding: { color: setEncoding, shape: shapeEncoding },
+          },
+        ],
+      });
+  const rows = [];
+  for (let i = 0; i < panels.length; i += 3) rows.push({ hconcat: panels.slice(i, i + 3) });
+  return {
+    $schema: SCHEMA,
+    title: title(`${heading}, every pair of the ${objectives.length} objectives`, 3 * size + 120),
+    data: { values: data as unknown as Record<string, unknown>[] },
+    vconcat: rows,
+  } as TopLevelSpec;
+}
 
 /** The SVG text of the run's plot. */
 export async function frontPlotSvg(
   objectives: readonly ObjectiveSpec[],
   candidates: readonly CandidateRow[],
   front: readonly CandidateRow[],
+  marks: FrontMarks = {},
 ): Promise<string> {
-  let spec: TopLevelSpec;
-  if (objectives.length === 1) {
-    const objective = objectives[0];
-    const values = candidates.flatMap((row, i) => {
-      const y = valueOf(row, objective.metric);
-      return y === null ? [] : [{ set: 'candidates', x: i + 1, y }];
-    });
-    spec = {
-      $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
-      title: { text: `Ranked candidates by ${objective.metric.replace(/_/g, ' ')}`, subtitle: CAUTION },
-      data: { values },
-      mark: { type: 'point', filled: true, size: 14, color: '#3a5f7d' },
-      encoding: {
-        x: { field: 'x', type: 'quantitative', title: 'rank' },
-        y: { field: 'y', type: 'quantitative', title: axisTitle(objective), scale: { zero: false } },
-      },
-      width: 520,
-      height: 360,
-    };
-  } else {
-    const panels = objectives.slice(1, 4).map((other) => {
-      const points = (rows: readonly CandidateRow[], set: string): Point[] =>
-        rows.flatMap((row) => {
-          const x = valueOf(row, objectives[0].metric);
-          const y = valueOf(row, other.metric);
-          return x === null || y === null ? [] : [{ set, x, y }];
-        });
-      const frontPoints = points(front, 'front').sort((a, b) => a.x - b.x || a.y - b.y);
-      return {
-        data: { values: [...points(candidates, 'candidates'), ...frontPoints] },
-        width: 420,
-        height: 320,
-        layer: [
-          {
-            transform: [{ filter: "datum.set === 'candidates'" }],
-            mark: { type: 'point' as const, filled: true, size: 10, color: '#b9b4a8', opacity: 0.7 },
-            encoding: {
-              x: {
-                field: 'x',
-                type: 'quantitative' as const,
-                title: axisTitle(objectives[0]),
-                scale: { zero: false },
-              },
-              y: { field: 'y', type: 'quantitative' as const, title: axisTitle(other), scale: { zero: false } },
-            },
-          },
-          {
-            transform: [{ filter: "datum.set === 'front'" }],
-            mark: { type: 'line' as const, interpolate: 'step-after' as const, color: '#7a2e1f', strokeWidth: 1 },
-            encoding: {
-              x: { field: 'x', type: 'quantitative' as const },
-              y: { field: 'y', type: 'quantitative' as const },
-              order: { field: 'x', type: 'quantitative' as const },
-            },
-          },
-          {
-            transform: [{ filter: "datum.set === 'front'" }],
-            mark: { type: 'point' as const, filled: true, size: 30, color: '#7a2e1f' },
-            encoding: {
-              x: { field: 'x', type: 'quantitative' as const },
-              y: { field: 'y', type: 'quantitative' as const },
-            },
-          },
-        ],
-      };
-    });
-    spec = {
-      $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
-      title: {
-        text: `Trade-offs: ${front.length} non-dominated designs (dark) among ${candidates.length} ranked candidates`,
-        subtitle: CAUTION,
-      },
-      hconcat: panels,
-    } as TopLevelSpec;
-  }
-  // Vega is loaded on first use: most commands never draw, and it takes a while to load.
-  const [vega, { compile }] = await Promise.all([import('vega'), import('vega-lite')]);
-  const compiled = compile(spec).spec;
-  const view = new vega.View(vega.parse(compiled), { renderer: 'none' });
-  const svg = await view.toSVG();
-  view.finalize();
-  return `${svg}\n`;
+  return vegaLiteSvg(frontPlotSpec(objectives, candidates, front, marks));
 }

@@ -3,6 +3,8 @@
  * whole CLI runs inside vitest; cli/main.ts is the process entry. Errors of input are one line and
  * exit code 2; anything else is a bug and says so.
  */
+import { registerViewCommands } from './view-commands.ts';
+import { MAX_DIGITS } from './csv.ts';
 import { readFileSync } from 'node:fs';
 import { Command, CommanderError, InvalidArgumentError } from 'commander';
 import { InputError } from './input-error.ts';
@@ -40,6 +42,14 @@ function integer(option: string) {
     if (!/^\s*\d+\s*$/.test(text)) throw new InvalidArgumentError(`${option}: expected a whole number, got '${text}'`);
     return Number(text);
   };
+}
+
+/** Commander parser of --digits: a whole number from 1 to MAX_DIGITS. */
+function digitsOption(text: string): number {
+  const value = integer('--digits')(text);
+  if (value < 1 || value > MAX_DIGITS)
+    throw new InvalidArgumentError(`--digits: expected 1 to ${MAX_DIGITS} significant digits, got ${value}`);
+  return value;
 }
 
 export async function runCli(argv: string[], io: CliIo): Promise<number> {
@@ -91,6 +101,10 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .action((options: { design?: boolean }) => {
       io.out(`${JSON.stringify(options.design ? designFileSchema() : sweepSchema(), null, 2)}\n`);
     });
+
+  registerViewCommands(program, io, (code) => {
+    exitCode = code;
+  });
 
   program
     .command('show')
@@ -164,6 +178,7 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
       integer('--keep'),
     )
     .option('--all', 'also write all.csv with every evaluated design')
+    .option('--digits <n>', 'significant digits of CSV numbers (default 7, at most 17)', digitsOption)
     .option('--shard <k/N>', 'evaluate slice k of N of the sample indices')
     .option('--shard-count <n>', 'number of shards when the scheduler gives only an index', integer('--shard-count'))
     .option('--time-limit <duration>', 'stop cleanly after this long (90m, 8h, 1d)')

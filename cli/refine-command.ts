@@ -18,7 +18,7 @@ import { toCsv } from './csv.ts';
 import { writeFileAtomicSync } from './durable/atomic-write.ts';
 import { InputError, optionError } from './input-error.ts';
 import type { CliIo } from './io.ts';
-import { readRunRecord, RUN_FILES } from './run-directory.ts';
+import { readRunRecord, RUN_FILES, runDigits } from './run-directory.ts';
 import { columnSet } from './sweep-columns.ts';
 import { loadRunSpec, spaceDefinitionOf } from './sweep-command.ts';
 import { candidateNumbering, outputEntries, rankedRows, sortedFront } from './sweep-outputs.ts';
@@ -90,13 +90,15 @@ export async function refineCommand(directory: string, options: RefineCommandOpt
   writeFileAtomicSync(join(directory, RUN_FILES.refineTrials), toCsv(columns.header, trialRows));
   const front = sortedFront(outcome.merged);
   const improved = improvedDesigns(front, firstRefined);
-  writeStageDesigns(directory, spec, improved, 'r', { csv: RUN_FILES.refined, json: RUN_FILES.refinedDesigns });
+  const digits = runDigits(record);
+  writeStageDesigns(directory, spec, improved, 'r', { csv: RUN_FILES.refined, json: RUN_FILES.refinedDesigns, digits });
   // A refined design is known by its id in refined.csv (`show RUN r3`), an evolved one by its e-id.
   const ids = new Map<number, string>([
     ...evolved.flatMap((design, k): [number, string][] => (design.id ? [[spec.samples + k, design.id]] : [])),
     ...improved.map((entry, i): [number, string] => [entry.item.index, `r${i + 1}`]),
   ]);
-  await writeMergedFront(directory, spec, front, candidates, ids, improved);
+  const stageOf = (index: number) => (index < firstRefined ? 'evolved' : 'refined');
+  await writeMergedFront(directory, spec, front, { candidates, ids, stageOf, digits }, improved);
   const improvedStarts = outcome.startResults.filter((r) => r.improved).length;
   const summaryPath = writeSummarySection(directory, 'refine', {
     starts: outcome.startResults.length,

@@ -2,6 +2,7 @@
  * The files of a run directory and the identity record that ties them together (run.json). A resumed
  * run, `show`, `refine` and `merge` all start here.
  */
+import { DEFAULT_DIGITS } from './csv.ts';
 import { existsSync, mkdirSync, readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { InputError } from './input-error.ts';
@@ -42,7 +43,14 @@ export interface RunRecord {
   keep: number;
   batch_size: number;
   all: boolean;
+  /** Significant digits of the run's CSV numbers (absent in older runs: DEFAULT_DIGITS). */
+  digits?: number;
   created: string;
+}
+
+/** The CSV digits of a run: its own record's, or the default. */
+export function runDigits(record: RunRecord): number {
+  return record.digits ?? DEFAULT_DIGITS;
 }
 
 export function readRunRecord(directory: string): RunRecord {

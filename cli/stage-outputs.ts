@@ -73,14 +73,14 @@ export function writeStageDesigns(
   spec: SweepSpec,
   improved: readonly RankedEntry<PackedRow>[],
   prefix: 'e' | 'r',
-  files: { csv: string; json: string },
+  files: { csv: string; json: string; digits: number },
   near: readonly RankedEntry<PackedRow>[] = [],
 ): void {
   const columns = columnSet(spec.dimensions);
   const indexColumn = columns.header.indexOf('sample_index');
   const rows = rankedRows(spec.dimensions, improved);
   for (const row of rows) row[indexColumn] = null;
-  writeFileAtomicSync(join(directory, files.csv), toCsv(columns.header, rows));
+  writeFileAtomicSync(join(directory, files.csv), toCsv(columns.header, rows, files.digits));
   const designOf = (entry: RankedEntry<PackedRow>, rank: number | null): StageDesign => {
     const row = unpackRow(entry.payload);
     const id = rank === null ? null : `${prefix}${rank}`;
@@ -110,6 +110,17 @@ export function rowOfStageDesign(design: StageDesign): CandidateRow {
   };
 }
 
+/** How front.csv and front.svg name the merged front's designs. */
+export interface FrontNames {
+  /** Each swept design's rank and crowding in candidates.csv, by sample index. */
+  candidates: ReadonlyMap<number, { rank: number; crowding: number }>;
+  /** A stage design's id (e3, r2) by pool index; none for one near another. */
+  ids: ReadonlyMap<number, string>;
+  /** Which stage a design of pool index ≥ samples comes from (its mark in front.svg). */
+  stageOf: (index: number) => 'evolved' | 'refined';
+  digits: number;
+}
+
 /**
  * Rewrites front.csv and front.svg with the merged front: swept designs (index < samples) keep their
  * candidates.csv rank and crowding; a stage design shows its id (e3, r2) in the rank column.
@@ -118,10 +129,10 @@ export async function writeMergedFront(
   directory: string,
   spec: SweepSpec,
   front: readonly RankedEntry<PackedRow>[],
-  candidates: ReadonlyMap<number, { rank: number; crowding: number }>,
-  ids: ReadonlyMap<number, string>,
+  names: FrontNames,
   highlighted: readonly RankedEntry<PackedRow>[],
 ): Promise<void> {
+  const { candidates, ids, stageOf, digits } = names;
   const columns = columnSet(spec.dimensions);
   const indexColumn = columns.header.indexOf('sample_index');
   const rankColumn = columns.header.indexOf('rank');
@@ -132,13 +143,20 @@ export async function writeMergedFront(
     row[indexColumn] = null;
     row[rankColumn] = ids.get(entry.item.index) ?? null;
   });
-  writeFileAtomicSync(join(directory, RUN_FILES.front), toCsv(columns.header, rows));
+  writeFileAtomicSync(join(directory, RUN_FILES.front), toCsv(columns.header, rows, digits));
+  const swept = (entry: RankedEntry<PackedRow>) => entry.item.index < spec.samples;
   writeFileAtomicSync(
     join(directory, RUN_FILES.plot),
     await frontPlotSvg(
       spec.objectives,
       highlighted.map((entry) => unpackRow(entry.payload)),
       front.map((entry) => unpackRow(entry.payload)),
+      {
+        // Swept designs keep their rank in candidates.csv; stage designs are marked by their stage.
+        ranks: front.map((entry) => (swept(entry) ? (candidates.get(entry.item.index)?.rank ?? null) : null)),
+        refined: front.map((entry) => !swept(entry) && stageOf(entry.item.index) === 'refined'),
+        evolved: front.map((entry) => !swept(entry) && stageOf(entry.item.index) === 'evolved'),
+      },
     ),
   );
 }

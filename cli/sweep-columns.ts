@@ -1,7 +1,8 @@
 /**
  * The columns of candidates.csv, front.csv, refined.csv and all.csv: ranking columns, every varied
  * parameter, every metric of the contract, each column with its unit in the name
- * (`secondary.form_diameter_mm`, `resonant_frequency_kHz`, `wire_length_m`). The order is stable.
+ * (`secondary.form_diameter_mm`, `resonant_frequency_kHz`, `wire_length_m`), whether a parameter was
+ * varied as a range or as a set of quantities. The order is stable.
  */
 import { warningKeysOf } from '../core/outcome/warnings.ts';
 import { METRICS } from '../core/metrics.ts';

@@ -33,7 +33,7 @@ import {
 import { SweepState, type SweepStateData } from '../optimize/sweep-state.ts';
 import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
 import { decodeBatchRecord, encodeBatchRecord } from './batch-codec.ts';
-import { csvRows, toCsv } from './csv.ts';
+import { csvRows, DEFAULT_DIGITS, toCsv } from './csv.ts';
 import { removeLeftoverTemporaryFiles, writeChunksAtomicSync } from './durable/atomic-write.ts';
 import { jsonChunks } from './json-chunks.ts';
 import { acquireRunLock, RunLockError, type RunLock } from './durable/lock.ts';
@@ -47,6 +47,7 @@ import {
   journalName,
   prepareOutputDirectory,
   readRunRecord,
+  runDigits,
   RUN_FILES,
   writeRunRecord,
   type RunRecord,
@@ -73,6 +74,8 @@ export interface SweepOptions {
   overwrite?: boolean;
   quiet?: boolean;
   batchSize?: number;
+  /** Significant digits of CSV numbers (a new run only; a resumed run keeps its own). */
+  digits?: number;
 }
 
 /** Candidates kept and ranked exactly when --keep is not given. */
@@ -256,6 +259,8 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
       );
     if (options.keep !== undefined && options.keep !== record.keep)
       throw optionError('--keep', `the run was started with --keep ${record.keep}`);
+    if (options.digits !== undefined && options.digits !== runDigits(record))
+      throw optionError('--digits', `the run was started with --digits ${runDigits(record)}`);
     const checkpointPath = join(directory, RUN_FILES.checkpoint);
     if (existsSync(checkpointPath)) {
       try {
@@ -295,6 +300,7 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
       keep: options.keep ?? DEFAULT_KEEP,
       batch_size: measured.batchSize,
       all: options.all ?? false,
+      digits: options.digits ?? DEFAULT_DIGITS,
       created: new Date().toISOString(),
     };
     try {
@@ -349,6 +355,7 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
       range,
       shard: record.shard ? { index: record.shard.index, count: record.shard.count } : null,
       keep: record.keep,
+      digits: runDigits(record),
     };
     const dimensionCount = spec.dimensions.length;
     const columns = columnSet(spec.dimensions);
@@ -367,7 +374,7 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
     const writer = record.all
       ? new OrderedCsvWriter(
           allPath,
-          toCsv(columns.header, []),
+          toCsv(columns.header, [], runDigits(record)),
           checkpoint ? checkpoint.all_bytes : 0,
           checkpoint ? checkpoint.all_pending : {},
         )
@@ -392,7 +399,7 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
           ),
         );
       }
-      return csvRows(rows);
+      return csvRows(rows, runDigits(record));
     };
     const takeResult = (batch: number, result: BatchResult) => {
       state.offerBatch(result, dimensionCount);

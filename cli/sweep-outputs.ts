@@ -13,7 +13,7 @@ import { defaultReferencePoint, hypervolume } from '../optimize/pareto/hypervolu
 import type { CandidatePool, RankedEntry } from '../optimize/pareto/candidate-pool.ts';
 import { type SweepState, sortedCounts } from '../optimize/sweep-state.ts';
 import { unpackRow, type PackedRow } from '../optimize/packed-row.ts';
-import { toCsv, type Cell } from './csv.ts';
+import { DEFAULT_DIGITS, toCsv, type Cell } from './csv.ts';
 import { writeFileAtomicSync } from './durable/atomic-write.ts';
 import { candidateCells, columnSet } from './sweep-columns.ts';
 import { frontPlotSvg } from './plots.ts';
@@ -30,6 +30,8 @@ export interface RunIdentity {
   range: [number, number];
   shard: { index: number; count: number } | null;
   keep: number;
+  /** Significant digits of CSV numbers (DEFAULT_DIGITS when absent). */
+  digits?: number;
 }
 
 export interface Timing {
@@ -82,6 +84,15 @@ export function sortedFront(pool: CandidatePool<PackedRow>): RankedEntry<PackedR
     return a.item.index - b.item.index;
   });
   return front;
+}
+
+/** Each front entry's rank in the ranked list (candidates.csv), by sample index; null if not listed. */
+export function frontRanks(
+  ranked: readonly RankedEntry<PackedRow>[],
+  front: readonly RankedEntry<PackedRow>[],
+): Array<number | null> {
+  const rankOf = new Map(ranked.map((entry, position) => [entry.item.index, position + 1]));
+  return front.map((entry) => rankOf.get(entry.item.index) ?? null);
 }
 
 /** Hypervolume of the front, minimisation convention, with its reference point (spec or default). */
@@ -202,12 +213,12 @@ export async function writeSweepOutputs(
 ): Promise<void> {
   const columns = columnSet(spec.dimensions);
   const { ranked, misses, front } = outputEntries(state, identity.keep);
-  writeFileAtomicSync(join(directory, 'candidates.csv'), toCsv(columns.header, rankedRows(spec.dimensions, ranked)));
-  writeFileAtomicSync(join(directory, 'infeasible.csv'), toCsv(columns.header, rankedRows(spec.dimensions, misses)));
-  writeFileAtomicSync(
-    join(directory, 'front.csv'),
-    toCsv(columns.header, rankedRows(spec.dimensions, front, candidateNumbering(ranked))),
-  );
+  const digits = identity.digits ?? DEFAULT_DIGITS;
+  const csv = (entries: readonly RankedEntry<PackedRow>[], numbering?: ReturnType<typeof candidateNumbering>) =>
+    toCsv(columns.header, rankedRows(spec.dimensions, entries, numbering), digits);
+  writeFileAtomicSync(join(directory, 'candidates.csv'), csv(ranked));
+  writeFileAtomicSync(join(directory, 'infeasible.csv'), csv(misses));
+  writeFileAtomicSync(join(directory, 'front.csv'), csv(front, candidateNumbering(ranked)));
   writeFileAtomicSync(
     join(directory, 'summary.json'),
     `${JSON.stringify(summaryObject(spec, state, identity, timing, complete, front), null, 2)}\n`,
@@ -216,6 +227,7 @@ export async function writeSweepOutputs(
     spec.objectives,
     ranked.map((entry) => unpackRow(entry.payload)),
     front.map((entry) => unpackRow(entry.payload)),
+    { ranks: frontRanks(ranked, front) },
   );
   writeFileAtomicSync(join(directory, 'front.svg'), svg);
 }

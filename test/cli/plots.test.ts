@@ -1,5 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { frontPlotSvg } from '../../cli/plots.ts';
+import { columnPlotSpec } from '../../cli/views/column-plot.ts';
+import { parseRunTable } from '../../cli/views/run-table.ts';
+import { svgToPng, vegaLiteSvg } from '../../cli/views/vega-render.ts';
 import { METRIC_KEYS } from '../../core/metrics.ts';
 import type { CandidateRow } from '../../optimize/sweep-state.ts';
 
@@ -33,5 +36,91 @@ describe('frontPlotSvg(objectives, candidates, front)', () => {
   it('plots one objective against rank', async () => {
     const svg = await frontPlotSvg([objectives[1]], candidates, front);
     expect(svg).toContain('rank');
+  });
+});
+
+describe('front.svg, mended', () => {
+  const two = [
+    { metric: 'breakout_voltage', sense: 'maximize' as const },
+    { metric: 'wire_mass', sense: 'minimize' as const },
+  ];
+  const candidates = [row(400e3, 0.5), row(500e3, 0.9), row(450e3, 1.2)];
+  const front = [row(400e3, 0.5), row(500e3, 0.9)];
+
+  it('labels each front point with its rank and tells refined designs apart in a legend', async () => {
+    const svg = await frontPlotSvg(two, candidates, front, { ranks: [17, 4], refined: [false, true] });
+    expect(svg).toContain('>17<');
+    expect(svg).toContain('>4<');
+    expect(svg).toContain('refined front');
+    expect(svg).toContain('swept front');
+  });
+
+  it('draws one panel as wide as the canvas allows with two objectives', async () => {
+    const svg = await frontPlotSvg(two, candidates, front);
+    const width = Number(/<svg[^>]*width="(\d+(\.\d+)?)"/.exec(svg)?.[1]);
+    // 640 px of plot, the y axis and the legend: the panel takes most of the canvas.
+    expect(640 / width).toBeGreaterThan(0.7);
+  });
+
+  it('draws every pair of four objectives as points, none joined', async () => {
+    const four = [
+      ...two,
+      { metric: 'resonant_frequency', sense: 'minimize' as const },
+      { metric: 'peak_voltage', sense: 'maximize' as const },
+    ];
+    const full = (b: number, m: number, f: number, v: number) => {
+      const r = row(b, m);
+      r.metrics[METRIC_KEYS.indexOf('resonant_frequency')] = f;
+      r.metrics[METRIC_KEYS.indexOf('peak_voltage')] = v;
+      return r;
+    };
+    const rows = [full(400e3, 0.5, 150e3, 600e3), full(500e3, 0.9, 120e3, 700e3), full(450e3, 1.2, 200e3, 500e3)];
+    const svg = await frontPlotSvg(four, rows, rows.slice(0, 2));
+    // 4 objectives: C(4,2) = 6 panels, each with its own pair of axis titles.
+    expect(svg.match(/>resonant frequency \(kHz\)/g)?.length).toBe(3);
+    expect(svg.match(/>peak voltage \(kV\)/g)?.length).toBe(3);
+    expect(svg).not.toMatch(/class="mark-line/);
+  });
+
+  it('says in words when nothing is feasible', async () => {
+    const svg = await frontPlotSvg(two, [], []);
+    expect(svg).toContain('No feasible design in this run');
+    expect(svg).toContain('infeasible.csv');
+  });
+});
+
+describe('coilfront plot: any column against any other', () => {
+  const csv = (lines: string[]) => parseRunTable(`${lines.join('\n')}\n`);
+  const header = 'rank,pareto_rank,crowding,feasible,sample_index,secondary.wire,tank.capacitance_nF,wire_mass_kg';
+  const tables = {
+    candidates: csv([header, '1,1,,1,12,AWG 24,20,0.4', '2,1,,1,3,AWG 22,30,0.6', '3,2,0.5,1,7,AWG 24,40,0.9']),
+    front: csv([header, '1,1,,1,3,AWG 22,30,0.6', '2,1,,1,12,AWG 24,20,0.4']),
+    infeasible: csv([header, '1,,,0,9,AWG 22,40,1.4']),
+  };
+
+  it('plots set quantities as numbers, labels front marks by candidate rank, titles axes with units', async () => {
+    const svg = await vegaLiteSvg(
+      columnPlotSpec(tables, {
+        x: 'tank.capacitance_nF',
+        y: 'wire_mass_kg',
+        color: 'secondary.wire',
+        nearMisses: true,
+      }),
+    );
+    expect(svg).toContain('tank capacitance (nF)');
+    expect(svg).toContain('wire mass (kg)');
+    expect(svg).toMatch(/voltages are lethal/);
+    // the front's sample 3 is rank 2 of candidates.csv, sample 12 rank 1
+    expect(svg).toContain('>2<');
+    expect(svg).toContain('AWG 22');
+    const png = await svgToPng(svg, 1);
+    expect([...png.subarray(0, 8)]).toEqual([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]); // PNG signature
+  });
+
+  it('refuses a text column as an axis and an unknown column, naming the option', () => {
+    expect(() => columnPlotSpec(tables, { x: 'secondary.wire', y: 'wire_mass_kg' })).toThrow(/--x: .*holds text/);
+    expect(() => columnPlotSpec(tables, { x: 'tank.capacitance', y: 'wire_mass_kg' })).toThrow(
+      /--x: no column 'tank.capacitance'.*tank.capacitance_nF/,
+    );
   });
 });

@@ -56,7 +56,18 @@ function hypervolume2d(points: number[][], reference: number[]): number {
 const spec = { breakout: { metric: 'breakout_voltage', sense: -1 }, mass: { metric: 'wire_mass', sense: 1 } };
 
 beforeAll(async () => {
-  const result = await cli(['sweep', 'test/fixtures/sweep-small.yaml', '--out', run, '--workers', '2', '--quiet']);
+  const result = await cli([
+    'sweep',
+    'test/fixtures/sweep-small.yaml',
+    '--out',
+    run,
+    '--workers',
+    '2',
+    '--quiet',
+    // full precision, so that the checks below recompute from the columns exactly
+    '--digits',
+    '17',
+  ]);
   expect(result.err).toBe('');
   expect(result.code).toBe(0);
 }, 120_000);

@@ -1,0 +1,36 @@
+/**
+ * The commands that show a finished run: spreadsheet, plot, draw, compare, report. Registered here
+ * so that program.ts stays a list of one line per group.
+ */
+import type { Command } from 'commander';
+import type { CliIo } from './io.ts';
+import { type PlotCommandOptions, plotCommand } from './plot-command.ts';
+import { spreadsheetCommand, type SpreadsheetOptions } from './spreadsheet-command.ts';
+
+export function registerViewCommands(program: Command, io: CliIo, setExit: (code: number) => void): void {
+  program
+    .command('spreadsheet')
+    .description('write candidates.xlsx (typed columns, frozen header, cautions on a second sheet)')
+    .argument('<run>', 'run directory')
+    .option('--file <csv>', 'which CSV of the run (default candidates.csv)')
+    .option('--out <file>', 'where to write (default: beside the CSV)')
+    .action(async (run: string, options: SpreadsheetOptions) => {
+      setExit(await spreadsheetCommand(run, options, io));
+    });
+
+  program
+    .command('plot')
+    .description('any two columns of a run against each other (SVG, or PNG by the --out name)')
+    .argument('<run>', 'run directory')
+    .requiredOption('--x <column>', 'column for the horizontal axis (a CSV header name)')
+    .requiredOption('--y <column>', 'column for the vertical axis')
+    .option('--color <column>', 'colour the marks by this column')
+    .option('--front-only', 'only the non-dominated designs')
+    .option('--near-misses', 'also the closest infeasible designs, muted')
+    .option('--log-x', 'logarithmic horizontal axis')
+    .option('--log-y', 'logarithmic vertical axis')
+    .option('--out <file>', 'plot.svg or plot.png (default: plot-X-Y.svg in the run)')
+    .action(async (run: string, options: PlotCommandOptions) => {
+      setExit(await plotCommand(run, options, io));
+    });
+}

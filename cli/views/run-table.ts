@@ -1,0 +1,49 @@
+/**
+ * A run's CSV read back as a typed table: each column numeric (every non-empty cell a number) or
+ * text, numbers as numbers and empty cells as null. The spreadsheet, the plots, the drawings and the
+ * report all start here, so they read the same columns the user sees.
+ */
+import { existsSync, readFileSync } from 'node:fs';
+import { parse as parseCsv } from 'csv-parse/sync';
+import { InputError } from '../input-error.ts';
+
+export type TableCell = number | string | null;
+
+export interface RunTable {
+  header: string[];
+  /** Per column: true where every non-empty cell is a number. */
+  numeric: boolean[];
+  rows: TableCell[][];
+}
+
+const NUMBER = /^-?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/;
+
+/** Parses CSV text into a typed table. */
+export function parseRunTable(text: string): RunTable {
+  const records = parseCsv(text, { skip_empty_lines: true, relax_column_count: false }) as string[][];
+  const [header = [], ...body] = records;
+  const numeric = header.map((_, c) => body.every((row) => row[c] === '' || NUMBER.test(row[c] ?? '')));
+  const rows = body.map((row) =>
+    header.map((_, c): TableCell => {
+      const text = row[c] ?? '';
+      if (text === '') return null;
+      return numeric[c] ? Number(text) : text;
+    }),
+  );
+  return { header, numeric, rows };
+}
+
+/** Reads a run's CSV file (candidates.csv, front.csv, …) as a typed table. */
+export function readRunTable(path: string): RunTable {
+  if (!existsSync(path)) throw new InputError(`${path}: no such file`);
+  return parseRunTable(readFileSync(path, 'utf8'));
+}
+
+/** A column's index, or an input error naming the columns there are (with the closest first). */
+export function columnIndex(table: RunTable, name: string, option: string): number {
+  const index = table.header.indexOf(name);
+  if (index >= 0) return index;
+  const near = table.header.filter((h) => h.startsWith(name) || h.includes(name));
+  const hint = near.length > 0 ? `did you mean ${near.slice(0, 3).join(', ')}?` : `columns: ${table.header.join(', ')}`;
+  throw new InputError(`${option}: no column '${name}' in the run (${hint})`);
+}

@@ -1,0 +1,264 @@
+/**
+ * The winding as a distributed resonator: a quasi-static ladder of n axial segments.
+ *
+ * Unknowns: the voltages v_1 … v_n of the nodes between segments (node 0, the base, grounded; node n
+ * the top, where the topload and any streamer load sit) and the segment currents i_1 … i_n
+ * (segment k runs from node k − 1 to node k). With the segment inductance matrix L (mutuals
+ * included) and the Maxwell capacitance matrix C of the nodes (charges q = C v):
+ *   L di/dt = −Dᵀ v  (the drop across each segment),   C dv/dt = D i  (charge conservation),
+ * D the n × n incidence matrix (D_kk = 1, D_k,k+1 = −1: current in from below, out above). So
+ *   ω² C v = K v,  K = D L⁻¹ Dᵀ,
+ * a symmetric-definite generalised eigenproblem (dense-eigen.ts). It is the lumped-element
+ * (Kirchhoff) discretisation of the multiconductor-line model of a coil with the full mutual
+ * inductance and capacitance of every part to every other [paul2008] ch. 4–5; a uniform line gives
+ * the quarter-wave ladder, a dominant top capacitance gives Thomson's 1/(2π√(L C)).
+ *
+ * Equivalent lumped values at the top (for the fundamental, top voltage V): the capacitance that
+ * stores the same energy, C_eff = vᵀ C v / V², and L_eff = 1/(ω² C_eff), which gives the same
+ * frequency; with the mode's peak current amplitudes i = L⁻¹ Dᵀ v / ω the magnetic energy ½ iᵀ L i
+ * equals ½ C_eff V² (energy balance, checked in the tests). The effective current is
+ * I_eff = √(iᵀ L i / L_eff) and the effective mutual to another circuit whose mutuals to the
+ * segments are m_k is M_eff = |m · i| / I_eff (same flux linkage for the same energy).
+ */
+import {
+  backSubstituteTransposed,
+  choleskyFactor,
+  forwardSubstitute,
+  generalizedSymmetricEigen,
+} from './dense-eigen.ts';
+
+/** The ladder's inputs, SI, row-major matrices. */
+export interface LadderMatrices {
+  /** n × n segment inductance matrix, H (segment 1 at the base). */
+  inductance: Float64Array;
+  /** n × n Maxwell capacitance matrix of nodes 1 … n, F (the topload already folded into node n). */
+  capacitance: Float64Array;
+  /** n + 1 node heights as fractions of the winding length (0 first, 1 last). */
+  fractions: ArrayLike<number>;
+  /** Winding length, m (for gradients). */
+  length: number;
+}
+
+/** One mode of the ladder. */
+export interface ResonatorMode {
+  /** Frequency, Hz. */
+  frequency: number;
+  /** Node voltages 0 … n, normalised to 1 at the top (the base is 0). */
+  voltage: Float64Array;
+  /** Segment current amplitudes per volt at the top, A/V (segment 1 at the base). */
+  current: Float64Array;
+}
+
+/** What solveResonator returns. */
+export interface ResonatorSolution {
+  /** Modes by ascending frequency (all n). */
+  modes: ResonatorMode[];
+  /** The fundamental (modes[0]). */
+  fundamental: ResonatorMode;
+  /** First overtone frequency / fundamental; null for n = 1. */
+  overtoneRatio: number | null;
+  /** C_eff = vᵀ C v / V_top², F (fundamental). */
+  effectiveCapacitance: number;
+  /** L_eff = 1/(ω² C_eff), H. */
+  effectiveInductance: number;
+  /** I_eff per volt at the top, A/V: √(iᵀ L i / L_eff). */
+  effectiveCurrent: number;
+  /** Peak electric energy ½ vᵀ C v and peak magnetic energy ½ iᵀ L i per V² at the top, J/V². */
+  electricEnergy: number;
+  magneticEnergy: number;
+  /** Peak |dv/dz| of the fundamental per volt at the top, 1/m, and the fraction of the length where it sits. */
+  peakGradientPerVolt: number;
+  peakGradientFraction: number;
+  /** Segments n. */
+  segments: number;
+}
+
+function multiply(matrix: Float64Array, n: number, x: ArrayLike<number>): Float64Array {
+  const y = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    let sum = 0;
+    for (let j = 0; j < n; j++) sum += matrix[i * n + j] * x[j];
+    y[i] = sum;
+  }
+  return y;
+}
+
+function quadratic(matrix: Float64Array, n: number, x: ArrayLike<number>): number {
+  const y = multiply(matrix, n, x);
+  let sum = 0;
+  for (let i = 0; i < n; i++) sum += x[i] * y[i];
+  return sum;
+}
+
+/** Dᵀ v: the rise v_k − v_(k−1) across each segment (v_0 = 0). */
+function segmentRise(v: ArrayLike<number>, n: number): Float64Array {
+  const rise = new Float64Array(n);
+  for (let k = 0; k < n; k++) rise[k] = v[k] - (k > 0 ? v[k - 1] : 0);
+  return rise;
+}
+
+/**
+ * Solves the ladder. Null when a matrix is not positive definite (an impossible input).
+ */
+export function solveResonator(ladder: LadderMatrices): ResonatorSolution | null {
+  const n = ladder.fractions.length - 1;
+  if (!(n >= 1) || ladder.inductance.length < n * n || ladder.capacitance.length < n * n) return null;
+  const g = choleskyFactor(ladder.inductance, n);
+  if (!g) return null;
+  // K = D L⁻¹ Dᵀ: column j of L⁻¹ Dᵀ is L⁻¹ (Dᵀ e_j), Dᵀ e_j = e_j − e_(j+1).
+  const inverseRise = (rise: Float64Array) => {
+    const x = Float64Array.from(rise);
+    forwardSubstitute(g, n, x);
+    backSubstituteTransposed(g, n, x);
+    return x;
+  };
+  const stiffness = new Float64Array(n * n);
+  for (let j = 0; j < n; j++) {
+    const unit = new Float64Array(n);
+    unit[j] = 1;
+    const column = inverseRise(segmentRise(unit, n)); // L⁻¹ Dᵀ e_j
+    // D column: (D x)_k = x_k − x_(k+1)
+    for (let k = 0; k < n; k++) stiffness[k * n + j] = column[k] - (k + 1 < n ? column[k + 1] : 0);
+  }
+  for (let i = 0; i < n; i++) {
+    for (let j = i + 1; j < n; j++) {
+      const mean = 0.5 * (stiffness[i * n + j] + stiffness[j * n + i]);
+      stiffness[i * n + j] = mean;
+      stiffness[j * n + i] = mean;
+    }
+  }
+  const eigen = generalizedSymmetricEigen(stiffness, ladder.capacitance, n);
+  if (!eigen) return null;
+  const modes: ResonatorMode[] = [];
+  for (let m = 0; m < n; m++) {
+    const lambda = eigen.values[m];
+    if (!(lambda > 0)) return null;
+    const omega = Math.sqrt(lambda);
+    const raw = new Float64Array(n);
+    for (let k = 0; k < n; k++) raw[k] = eigen.vectors[k * n + m];
+    const top = raw[n - 1];
+    const scale = top !== 0 ? 1 / top : 1;
+    const voltage = new Float64Array(n + 1);
+    for (let k = 0; k < n; k++) voltage[k + 1] = raw[k] * scale;
+    const current = inverseRise(segmentRise(voltage.subarray(1), n));
+    for (let k = 0; k < n; k++) current[k] /= omega;
+    modes.push({ frequency: omega / (2 * Math.PI), voltage, current });
+  }
+  const fundamental = modes[0];
+  const v = fundamental.voltage.subarray(1);
+  const electric = 0.5 * quadratic(ladder.capacitance, n, v);
+  const magnetic = 0.5 * quadratic(ladder.inductance, n, fundamental.current);
+  const omega = 2 * Math.PI * fundamental.frequency;
+  const effectiveCapacitance = 2 * electric;
+  const effectiveInductance = 1 / (omega * omega * effectiveCapacitance);
+  let peakGradientPerVolt = 0;
+  let peakGradientFraction = 0;
+  for (let k = 0; k < n; k++) {
+    const span = (ladder.fractions[k + 1] - ladder.fractions[k]) * ladder.length;
+    const gradient = Math.abs(fundamental.voltage[k + 1] - fundamental.voltage[k]) / span;
+    if (gradient > peakGradientPerVolt) {
+      peakGradientPerVolt = gradient;
+      peakGradientFraction = 0.5 * (ladder.fractions[k] + ladder.fractions[k + 1]);
+    }
+  }
+  return {
+    modes,
+    fundamental,
+    overtoneRatio: n > 1 ? modes[1].frequency / fundamental.frequency : null,
+    effectiveCapacitance,
+    effectiveInductance,
+    effectiveCurrent: Math.sqrt((2 * magnetic) / effectiveInductance),
+    electricEnergy: electric,
+    magneticEnergy: magnetic,
+    peakGradientPerVolt,
+    peakGradientFraction,
+    segments: n,
+  };
+}
+
+/**
+ * Effective mutual inductance of the fundamental to a circuit with mutuals m_k to the segments, H:
+ * |Σ m_k i_k| / I_eff (see the header).
+ */
+export function effectiveMutualInductance(solution: ResonatorSolution, segmentMutuals: ArrayLike<number>): number {
+  let linkage = 0;
+  for (let k = 0; k < solution.segments; k++) linkage += segmentMutuals[k] * solution.fundamental.current[k];
+  return Math.abs(linkage) / solution.effectiveCurrent;
+}
+
+/** The top-normalised voltage of a mode at a fraction of the winding length (linear between nodes). */
+export function voltageAt(mode: ResonatorMode, fractions: ArrayLike<number>, fraction: number): number {
+  const n = fractions.length - 1;
+  if (fraction <= 0) return 0;
+  if (fraction >= 1) return mode.voltage[n];
+  let k = 0;
+  while (k < n - 1 && fractions[k + 1] < fraction) k++;
+  const w = (fraction - fractions[k]) / (fractions[k + 1] - fractions[k]);
+  return (1 - w) * mode.voltage[k] + w * mode.voltage[k + 1];
+}
+
+/**
+ * Folds a topload conductor (the last row and column of a (n + 1)-conductor Maxwell matrix) into
+ * node n: the topload is tied to the top of the winding, v_T = v_n. Adds `extraTop` (F, a lumped
+ * capacitance to ground at the top: streamer loading) to the top node.
+ */
+export function foldTopload(matrix: Float64Array, size: number, nodes: number, extraTop = 0): Float64Array {
+  const n = nodes;
+  const folded = new Float64Array(n * n);
+  for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) folded[i * n + j] = matrix[i * size + j];
+  if (size > n) {
+    const t = n;
+    for (let i = 0; i < n; i++) {
+      folded[i * n + (n - 1)] += matrix[i * size + t];
+      folded[(n - 1) * n + i] += matrix[t * size + i];
+    }
+    folded[(n - 1) * n + (n - 1)] += matrix[t * size + t];
+  }
+  folded[(n - 1) * n + (n - 1)] += extraTop;
+  return folded;
+}
+
+/**
+ * The capacitance matrix of a coarser ladder whose nodes are every `stride`-th fine node: the
+ * coarse hats are combinations of the fine ones (piecewise-linear interpolation in height), so
+ * C_coarse = R C Rᵀ exactly (Galerkin restriction). Returns the matrix and the coarse fractions.
+ */
+export function coarsenCapacitance(
+  matrix: Float64Array,
+  fineFractions: ArrayLike<number>,
+  stride: number,
+): { matrix: Float64Array; fractions: Float64Array } | null {
+  const fine = fineFractions.length - 1;
+  if (!(stride >= 1) || fine % stride !== 0) return null;
+  const n = fine / stride;
+  const fractions = new Float64Array(n + 1);
+  for (let c = 0; c <= n; c++) fractions[c] = fineFractions[c * stride];
+  // R (n × fine): coarse hat c at fine node f (1-based both; stored 0-based as c − 1, f − 1).
+  const r = new Float64Array(n * fine);
+  for (let c = 1; c <= n; c++) {
+    for (let f = (c - 1) * stride + 1; f <= Math.min(fine, (c + 1) * stride - 1); f++) {
+      const z = fineFractions[f];
+      const centre = fractions[c];
+      const value =
+        f <= c * stride
+          ? (z - fractions[c - 1]) / (centre - fractions[c - 1])
+          : (fractions[c + 1] - z) / (fractions[c + 1] - centre);
+      r[(c - 1) * fine + (f - 1)] = value;
+    }
+  }
+  const temp = new Float64Array(n * fine); // R C
+  for (let i = 0; i < n; i++)
+    for (let f = 0; f < fine; f++) {
+      const w = r[i * fine + f];
+      if (w === 0) continue;
+      for (let j = 0; j < fine; j++) temp[i * fine + j] += w * matrix[f * fine + j];
+    }
+  const coarse = new Float64Array(n * n);
+  for (let i = 0; i < n; i++)
+    for (let j = 0; j < n; j++) {
+      let sum = 0;
+      for (let f = 0; f < fine; f++) sum += temp[i * fine + f] * r[j * fine + f];
+      coarse[i * n + j] = sum;
+    }
+  return { matrix: coarse, fractions };
+}
