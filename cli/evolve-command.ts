@@ -106,6 +106,7 @@ export async function evolveCommand(directory: string, options: EvolveCommandOpt
     const evaluator: BatchEvaluator =
       threads === 0 ? inProcessEvaluator(space) : createWorkerPool(spaceDefinitionOf(spec), { threads });
     const started = performance.now();
+    let lastProgress = started;
     let outcome: EvolveOutcome;
     try {
       const runOptions = {
@@ -120,12 +121,19 @@ export async function evolveCommand(directory: string, options: EvolveCommandOpt
         append: (generation) => {
           journal.append(generation);
           journal.sync();
+          // Progress on stderr: a refreshing line on a terminal, a plain line every ten seconds in a log.
+          const now = performance.now();
+          if (!io.isTty && now - lastProgress < 10_000) return;
+          lastProgress = now;
+          const text = `evolve: generation ${generation.generation}, ${generation.used}/${options.evaluations} evaluations`;
+          io.err(io.isTty ? `\r${text}` : `${text}\n`);
         },
       });
     } finally {
       await evaluator.close();
       journal.close();
     }
+    if (io.isTty) io.err('\n');
 
     const front = sortedFront(outcome.merged);
     const improved = improvedDesigns(front, spec.samples);
