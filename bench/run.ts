@@ -5,6 +5,7 @@
  */
 import { benchDynamics } from './dynamics.ts';
 import { benchElectrostatics } from './electrostatics.ts';
+import { benchEvolve } from './evolve.ts';
 import { benchPareto } from './pareto.ts';
 import { benchRefine } from './refine.ts';
 import { benchSweep } from './sweep.ts';
@@ -16,6 +17,11 @@ const sections: Array<[string, () => Promise<string[]>]> = [
   ['dynamics', () => benchDynamics()],
   ['pareto machinery', () => benchPareto(long ? {} : { offers: 200_000 })],
   ['refinement engine (ZDT)', () => benchRefine()],
+  // Quick: one budget and seed; otherwise two of each (a few minutes on one thread).
+  [
+    'evolutionary stage vs more samples (science-centre example)',
+    () => benchEvolve(quick ? { budgets: [1000], seeds: [1] } : {}),
+  ],
 ];
 if (!quick)
   sections.push([

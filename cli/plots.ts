@@ -4,8 +4,8 @@
  * same rows.
  * - One objective: the objective against rank.
  * - Two objectives: one panel filling the canvas, the ranked candidates as small marks, the front as
- *   a staircase with each point labelled by its rank in candidates.csv; refined designs (after
- *   `refine`) in their own colour and shape, with a legend.
+ *   a staircase with each point labelled by its rank in candidates.csv; evolved and refined designs
+ *   (after `evolve`, `refine`) each in their own colour and shape, with a legend.
  * - Three or more: a matrix of every pair of objectives, the front as points (a front of three or
  *   more objectives is no staircase in a 2-D projection, so nothing is joined).
  * - No feasible design: the picture says so in words.
@@ -22,9 +22,11 @@ import { PICTURE_CAUTION, vegaLiteSvg, wrapText } from './views/vega-render.ts';
 export interface FrontMarks {
   ranks?: ReadonlyArray<number | null>;
   refined?: readonly boolean[];
+  /** Designs of `evolve` (their own colour and shape). */
+  evolved?: readonly boolean[];
 }
 
-type MarkSet = 'candidate' | 'swept front' | 'refined front';
+type MarkSet = 'candidate' | 'swept front' | 'evolved front' | 'refined front';
 
 interface Datum {
   set: MarkSet;
@@ -45,9 +47,9 @@ function valueOf(row: CandidateRow, metric: string): number | null {
 }
 
 const SCHEMA = 'https://vega.github.io/schema/vega-lite/v6.json';
-const SETS: MarkSet[] = ['candidate', 'swept front', 'refined front'];
-const SET_COLOURS = [PLOT_COLOURS.candidate, PLOT_COLOURS.front, PLOT_COLOURS.refined];
-const SET_SHAPES = ['circle', 'square', 'diamond'];
+const SETS: MarkSet[] = ['candidate', 'swept front', 'evolved front', 'refined front'];
+const SET_COLOURS = [PLOT_COLOURS.candidate, PLOT_COLOURS.front, PLOT_COLOURS.evolved, PLOT_COLOURS.refined];
+const SET_SHAPES = ['circle', 'square', 'triangle-up', 'diamond'];
 
 function title(text: string, width: number) {
   return {
@@ -102,7 +104,7 @@ export function frontPlotSpec(
     const rank = marks.ranks?.[i];
     push(
       row,
-      marks.refined?.[i] ? 'refined front' : 'swept front',
+      marks.refined?.[i] ? 'refined front' : marks.evolved?.[i] ? 'evolved front' : 'swept front',
       rank === null || rank === undefined ? '' : String(rank),
     );
   });

@@ -18,6 +18,7 @@ import { showCommand } from './show-command.ts';
 import { mergeCommand } from './merge-command.ts';
 import { demoCommand } from './demo-command.ts';
 import { refineCommand, type RefineCommandOptions } from './refine-command.ts';
+import { evolveCommand, type EvolveCommandOptions } from './evolve-command.ts';
 
 /** The version in package.json (one directory above cli/ and dist/cli/). */
 function packageVersion(): string {
@@ -109,7 +110,10 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .command('show')
     .description('print the design file of a ranked candidate of a run')
     .argument('<run>', 'run directory')
-    .argument('[rank]', 'rank in candidates.csv (the same rank front.csv shows), or a refined id r1, r2, …')
+    .argument(
+      '[rank]',
+      'rank in candidates.csv (the same rank front.csv shows), a refined id r1, r2, … or an evolved id e1, e2, …',
+    )
     .option('--refined <rank>', 'a design of refined.csv instead (the same as rN)')
     .option('--sample <index>', 'the design of a sample index (the sample_index column)')
     .action((run: string, rank: string | undefined, options: { refined?: string; sample?: string }) => {
@@ -125,6 +129,18 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .option('--workers <n>', 'worker threads (default: available parallelism)', integer('--workers'))
     .action(async (run: string, options: RefineCommandOptions) => {
       exitCode = await refineCommand(run, options, io);
+    });
+
+  program
+    .command('evolve')
+    .description("carry a sweep's kept candidates further with a multi-objective genetic algorithm")
+    .argument('<run>', 'run directory of a sweep')
+    .option('--evaluations <n>', 'new evaluations to spend', integer('--evaluations'), 2000)
+    .option('--population <n>', 'designs per generation (at least 4)', integer('--population'), 100)
+    .option('--seed <n>', "seed of the stage's random draws (default: the sweep's)", integer('--seed'))
+    .option('--workers <n>', 'worker threads (default: available parallelism)', integer('--workers'))
+    .action(async (run: string, options: EvolveCommandOptions) => {
+      exitCode = await evolveCommand(run, options, io);
     });
 
   program

@@ -1,20 +1,18 @@
 /**
  * `coilfront refine RUN_DIR [--starts N] [--evaluations N]`: polishes a finished (or stopped) sweep
- * with Nelder–Mead from its best candidates and across its Pareto front, in the same worker pool.
+ * with Nelder–Mead from its best candidates and across its Pareto front, in the same worker pool
+ * (after `evolve`, the front includes the evolved designs of evolved.json).
  * Writes refined.csv (ranked, the columns of candidates.csv), refined.json (exact values for
  * `show --refined`), rewrites front.csv as the sweep's front merged with the refined designs, and
  * adds hypervolume before and after and the evaluations used to summary.json. It reads the sweep's
  * own front from checkpoint.json, so running it twice gives the same files.
  */
-import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { inProcessEvaluator, type BatchEvaluator } from '../optimize/evaluate-batch.ts';
 import { DesignSpace } from '../optimize/design-space.ts';
 import { type RefineOutcome, refineSweep } from '../optimize/refine-run.ts';
-import { type PackedRow, unpackRow } from '../optimize/packed-row.ts';
+import { type PackedRow, packRow } from '../optimize/packed-row.ts';
 import type { RankedEntry } from '../optimize/pareto/candidate-pool.ts';
-import { metricIndex } from '../core/metrics.ts';
-import { SweepState } from '../optimize/sweep-state.ts';
 import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
 import { toCsv } from './csv.ts';
 import { writeFileAtomicSync } from './durable/atomic-write.ts';
@@ -25,9 +23,18 @@ import { columnSet } from './sweep-columns.ts';
 import { loadRunSpec, spaceDefinitionOf } from './sweep-command.ts';
 import { candidateNumbering, outputEntries, rankedRows, sortedFront } from './sweep-outputs.ts';
 import { SAFETY_CAUTIONS } from './safety.ts';
-import { formatNumber } from './display-units.ts';
-import { frontPlotSvg } from './plots.ts';
-import { metricText } from './top-candidates.ts';
+import {
+  designLines,
+  hypervolumeLines,
+  improvedDesigns,
+  readStageDesigns,
+  readSummarySection,
+  readSweepState,
+  rowOfStageDesign,
+  writeMergedFront,
+  writeStageDesigns,
+  writeSummarySection,
+} from './stage-outputs.ts';
 
 export interface RefineCommandOptions {
   starts: number;
@@ -42,28 +49,32 @@ export async function refineCommand(directory: string, options: RefineCommandOpt
     throw optionError('--evaluations', `expected a whole number of at least 1, got ${options.evaluations}`);
   const record = readRunRecord(directory);
   const spec = loadRunSpec(directory);
-  const checkpointPath = join(directory, RUN_FILES.checkpoint);
-  if (!existsSync(checkpointPath))
-    throw new InputError(`${directory}: no checkpoint yet; let the sweep run (or resume it) first`);
-  const checkpoint = JSON.parse(readFileSync(checkpointPath, 'utf8')) as {
-    state: Parameters<typeof SweepState.restore>[0];
-  };
-  const state = SweepState.restore(checkpoint.state, spec.objectives, spec.constraints, record.keep, spec.seed);
+  const state = readSweepState(directory, spec, record.keep);
   if (state.pool.size === 0) throw new InputError(`${directory}: the sweep has no candidates to refine`);
 
   // Before refining: the sweep's candidates.csv numbering (rank and crowding by sample index).
   const candidates = candidateNumbering(outputEntries(state, record.keep).ranked);
+  // After an evolve, its improved designs join the front the starts come from (numbered after the samples).
+  const evolved = readStageDesigns(directory, RUN_FILES.evolvedDesigns);
+  evolved.forEach((design, k) => {
+    const row = rowOfStageDesign(design);
+    const objectives = state.objectiveVector(row.metrics.map((v) => v ?? Number.NaN));
+    if (objectives) state.pool.offer({ index: spec.samples + k, violation: 0, objectives }, packRow(row));
+  });
+  const firstRefined = spec.samples + evolved.length;
+  const evolveSection = evolved.length > 0 ? readSummarySection(directory, 'evolve') : null;
+  const referencePoint = spec.referencePoint ?? (evolveSection?.reference_point as number[] | undefined) ?? null;
   const threads = options.workers ?? defaultWorkerCount();
   const space = new DesignSpace(spaceDefinitionOf(spec));
   const evaluator: BatchEvaluator =
     threads === 0 ? inProcessEvaluator(space) : createWorkerPool(spaceDefinitionOf(spec), { threads });
   const started = performance.now();
-  let outcome;
+  let outcome: RefineOutcome;
   try {
-    outcome = await refineSweep(space, state, spec.samples, evaluator, {
+    outcome = await refineSweep(space, state, firstRefined, evaluator, {
       starts: options.starts,
       evaluations: options.evaluations,
-      referencePoint: spec.referencePoint,
+      referencePoint,
       batchSize: Math.max(8, record.batch_size),
     });
   } finally {
@@ -71,57 +82,25 @@ export async function refineCommand(directory: string, options: RefineCommandOpt
   }
   const columns = columnSet(spec.dimensions);
   const indexColumn = columns.header.indexOf('sample_index');
-  const rankColumn = columns.header.indexOf('rank');
   // Every feasible trial point, ranked, goes to refine-trials.csv; refined.csv holds only the
   // improved designs: the refined ones on the merged front, one per distinct objective vector.
   const trials = outcome.refined.ranked(record.keep);
   const trialRows = rankedRows(spec.dimensions, trials);
   for (const row of trialRows) row[indexColumn] = null;
   writeFileAtomicSync(join(directory, RUN_FILES.refineTrials), toCsv(columns.header, trialRows));
-  const improved = improvedDesigns(sortedFront(outcome.merged), spec.samples);
-  const rows = rankedRows(spec.dimensions, improved);
-  for (const row of rows) row[indexColumn] = null;
-  writeFileAtomicSync(join(directory, RUN_FILES.refined), toCsv(columns.header, rows, runDigits(record)));
-  writeFileAtomicSync(
-    join(directory, RUN_FILES.refinedDesigns),
-    `${JSON.stringify(
-      improved.map((entry, i) => ({ rank: i + 1, id: `r${i + 1}`, values: unpackRow(entry.payload).values })),
-      null,
-      1,
-    )}\n`,
-  );
-  const refinedId = new Map(improved.map((entry, i) => [entry.item.index, `r${i + 1}`]));
   const front = sortedFront(outcome.merged);
-  const frontRows = rankedRows(spec.dimensions, front, candidates);
-  front.forEach((entry, i) => {
-    const row = frontRows[i];
-    if (!row || entry.item.index < spec.samples) return;
-    // A refined design is known by its id in refined.csv (`show RUN r3`); it has no sample index.
-    row[indexColumn] = null;
-    row[rankColumn] = refinedId.get(entry.item.index) ?? null;
-  });
-  writeFileAtomicSync(join(directory, RUN_FILES.front), toCsv(columns.header, frontRows, runDigits(record)));
-  writeFileAtomicSync(
-    join(directory, 'front.svg'),
-    await frontPlotSvg(
-      spec.objectives,
-      improved.map((entry) => unpackRow(entry.payload)),
-      front.map((entry) => unpackRow(entry.payload)),
-      {
-        // Swept designs keep their rank in candidates.csv; refined ones are marked as such.
-        ranks: front.map((entry) =>
-          entry.item.index >= spec.samples ? null : (candidates.get(entry.item.index)?.rank ?? null),
-        ),
-        refined: front.map((entry) => entry.item.index >= spec.samples),
-      },
-    ),
-  );
-  const summaryPath = join(directory, RUN_FILES.summary);
-  const summary = existsSync(summaryPath)
-    ? (JSON.parse(readFileSync(summaryPath, 'utf8')) as Record<string, unknown>)
-    : {};
+  const improved = improvedDesigns(front, firstRefined);
+  const digits = runDigits(record);
+  writeStageDesigns(directory, spec, improved, 'r', { csv: RUN_FILES.refined, json: RUN_FILES.refinedDesigns, digits });
+  // A refined design is known by its id in refined.csv (`show RUN r3`), an evolved one by its e-id.
+  const ids = new Map<number, string>([
+    ...evolved.flatMap((design, k): [number, string][] => (design.id ? [[spec.samples + k, design.id]] : [])),
+    ...improved.map((entry, i): [number, string] => [entry.item.index, `r${i + 1}`]),
+  ]);
+  const stageOf = (index: number) => (index < firstRefined ? 'evolved' : 'refined');
+  await writeMergedFront(directory, spec, front, { candidates, ids, stageOf, digits }, improved);
   const improvedStarts = outcome.startResults.filter((r) => r.improved).length;
-  summary.refine = {
+  const summaryPath = writeSummarySection(directory, 'refine', {
     starts: outcome.startResults.length,
     improved_starts: improvedStarts,
     improved_designs: improved.length,
@@ -133,38 +112,9 @@ export async function refineCommand(directory: string, options: RefineCommandOpt
     hypervolume_after: outcome.hypervolumeAfter,
     reference_point: outcome.referencePoint,
     timing: { wall_seconds: (performance.now() - started) / 1000, workers: threads },
-  };
-  writeFileAtomicSync(summaryPath, `${JSON.stringify(summary, null, 2)}\n`);
+  });
   io.out(refineConsole(directory, spec, outcome, improved, improvedStarts, summaryPath).join('\n'));
   return 0;
-}
-
-/** Designs closer than this fraction of the front's extent in every objective count as one. */
-const DISTINCT_FRACTION = 0.01;
-
-/**
- * The refined designs on the merged front, distinct: in front order, a design is kept unless a kept
- * one lies within DISTINCT_FRACTION of the front's extent in every objective (Nelder–Mead trials
- * near a converged point would otherwise repeat one design many times).
- */
-function improvedDesigns(front: readonly RankedEntry<PackedRow>[], samples: number): RankedEntry<PackedRow>[] {
-  const objectiveCount = front[0]?.item.objectives.length ?? 0;
-  const extent = Array.from({ length: objectiveCount }, (_, j) => {
-    const values = front.map((entry) => entry.item.objectives[j] ?? 0);
-    return Math.max(...values) - Math.min(...values) || 1;
-  });
-  const kept: RankedEntry<PackedRow>[] = [];
-  for (const entry of front) {
-    if (entry.item.index < samples) continue;
-    const near = kept.some((other) =>
-      extent.every(
-        (range, j) =>
-          Math.abs((entry.item.objectives[j] ?? 0) - (other.item.objectives[j] ?? 0)) <= DISTINCT_FRACTION * range,
-      ),
-    );
-    if (!near) kept.push(entry);
-  }
-  return kept;
 }
 
 /** What refine prints: the improved designs with units, the hypervolume explained, the files. */
@@ -187,30 +137,9 @@ function refineConsole(
     lines.push('no refined design extends the front: the sweep front is already as good near every start');
   } else {
     lines.push(`${improved.length} refined designs extend the front (in refined.csv, shown by their id):`);
-    improved.slice(0, 10).forEach((entry, i) => {
-      const row = unpackRow(entry.payload);
-      const values = spec.objectives.map(
-        (o) => `${o.metric} ${metricText(o.metric, row.metrics[metricIndex(o.metric)])}`,
-      );
-      lines.push(`  r${i + 1}  ${values.join(', ')}`);
-    });
-    if (improved.length > 10) lines.push(`  … and ${improved.length - 10} more in refined.csv`);
+    lines.push(...designLines(spec, improved, 'r', RUN_FILES.refined));
   }
-  const before = outcome.hypervolumeBefore;
-  const after = outcome.hypervolumeAfter;
-  if (before !== null && after !== null && outcome.referencePoint) {
-    const gain =
-      before > 0 ? ` (${after >= before ? '+' : ''}${formatNumber((100 * (after - before)) / before, 3)} %)` : '';
-    const reference = spec.objectives
-      .map((o, j) => {
-        const value = (outcome.referencePoint?.[j] ?? Number.NaN) * (o.sense === 'maximize' ? -1 : 1);
-        return `${o.metric} ${metricText(o.metric, value)}`;
-      })
-      .join(', ');
-    lines.push(
-      `hypervolume of the front ${formatNumber(before, 6)} → ${formatNumber(after, 6)}${gain}: the objective space the front dominates up to the reference point (${reference}), in SI units multiplied`,
-    );
-  }
+  lines.push(...hypervolumeLines(spec, outcome.hypervolumeBefore, outcome.hypervolumeAfter, outcome.referencePoint));
   lines.push(
     `files: ${join(directory, RUN_FILES.refined)} (improved designs), ${join(directory, RUN_FILES.refineTrials)} (every feasible trial), ${join(directory, RUN_FILES.front)} (updated), ${summaryPath} (refine section)`,
   );

@@ -21,6 +21,9 @@ export const RUN_FILES = {
   refined: 'refined.csv',
   refinedDesigns: 'refined.json',
   refineTrials: 'refine-trials.csv',
+  evolved: 'evolved.csv',
+  evolvedDesigns: 'evolved.json',
+  evolveJournal: 'evolve-journal.log',
 } as const;
 
 export function journalName(generation: number): string {

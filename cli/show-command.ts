@@ -1,6 +1,6 @@
 /**
  * `coilfront show RUN_DIR RANK` prints the complete design file of a ranked candidate (or, with
- * `--refined`, of a refined design), in each quantity in a practical unit with the fewest digits that read back exactly, so that a row
+ * `--refined` or an id r3, of a refined design; with an id e3, of an evolved design), in each quantity in a practical unit with the fewest digits that read back exactly, so that a row
  * of the spreadsheet goes straight to `coilfront evaluate` and gives the same metrics.
  */
 import { existsSync, readFileSync } from 'node:fs';
@@ -79,30 +79,41 @@ export function showCommand(
     );
     return 0;
   }
-  // A refined design is known by its id in refined.csv: `show RUN r3` (or --refined 3).
-  const refinedId = rankText !== undefined ? /^r(\d+)$/.exec(rankText) : null;
-  if (refinedId) options = { ...options, refined: refinedId[1] };
-  const wanted = options.refined ?? rankText;
+  // A stage design is known by its id: `show RUN r3` (refined.csv, or --refined 3), `show RUN e3` (evolved.csv).
+  const stageId = rankText !== undefined ? /^([er])(\d+)$/.exec(rankText) : null;
+  if (stageId?.[1] === 'r') options = { ...options, refined: stageId[2] };
+  const wanted = stageId?.[1] === 'e' ? stageId[2] : (options.refined ?? rankText);
   if (wanted === undefined || !/^\d+$/.test(wanted) || Number(wanted) < 1) {
     throw new InputError(
-      `show: expected a rank in candidates.csv (1, 2, …), a refined id (r1, r2, …) or --sample I, got '${wanted ?? ''}'`,
+      `show: expected a rank in candidates.csv (1, 2, …), a refined id (r1, r2, …), an evolved id (e1, e2, …) or --sample I, got '${wanted ?? ''}'`,
     );
   }
   const rank = Number(wanted);
-  if (options.refined !== undefined) {
-    const path = join(directory, RUN_FILES.refinedDesigns);
+  const stage =
+    stageId?.[1] === 'e'
+      ? { file: RUN_FILES.evolvedDesigns, csv: RUN_FILES.evolved, word: 'evolved', command: 'evolve' }
+      : options.refined !== undefined
+        ? { file: RUN_FILES.refinedDesigns, csv: RUN_FILES.refined, word: 'refined', command: 'refine' }
+        : null;
+  if (stage) {
+    const path = join(directory, stage.file);
     if (!existsSync(path))
-      throw new InputError(`${directory}: no refined designs yet (run npx coilfront refine ${directory})`);
-    const designs = JSON.parse(readFileSync(path, 'utf8')) as { rank: number; values: number[] }[];
+      throw new InputError(
+        `${directory}: no ${stage.word} designs yet (run npx coilfront ${stage.command} ${directory})`,
+      );
+    // Designs without a rank (evolved ones near an improved one) are there for later stages only.
+    const designs = (JSON.parse(readFileSync(path, 'utf8')) as { rank: number | null; values: number[] }[]).filter(
+      (d) => d.rank !== null,
+    );
     const entry = designs.find((d) => d.rank === rank);
     if (!entry)
       throw new InputError(
-        `${directory}: there is no refined design of rank ${rank} (${designs.length} in refined.csv)`,
+        `${directory}: there is no ${stage.word} design of rank ${rank} (${designs.length} in ${stage.csv})`,
       );
     const sampled = space.designOf(entry.values);
     io.out(
       treeToYaml(sampled.tree, [
-        `refined design ${rank} of ${directory}`,
+        `${stage.word} design ${rank} of ${directory}`,
         'each value in a practical unit that reads back exactly',
       ]),
     );

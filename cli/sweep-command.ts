@@ -319,6 +319,10 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
       RUN_FILES.plot,
       RUN_FILES.summary,
       RUN_FILES.all,
+      // A later stage must not start from an earlier sweep's evolved designs.
+      RUN_FILES.evolved,
+      RUN_FILES.evolvedDesigns,
+      RUN_FILES.evolveJournal,
     ])
       rmSync(join(directory, name), { force: true });
   }

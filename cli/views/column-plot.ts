@@ -28,7 +28,13 @@ export interface RunTables {
 }
 
 /** Our own palette: candidates slate, front deep teal, near misses pale sand. */
-export const PLOT_COLOURS = { candidate: '#8795a1', front: '#0b6e69', miss: '#d9c9a3', refined: '#c2571a' };
+export const PLOT_COLOURS = {
+  candidate: '#8795a1',
+  front: '#0b6e69',
+  miss: '#d9c9a3',
+  refined: '#c2571a',
+  evolved: '#6b4c9a',
+};
 
 interface Datum {
   set: 'candidate' | 'front' | 'near miss';

@@ -41,7 +41,7 @@ describe('README.md', () => {
   it('writes every command as npx coilfront, the name that works right after npm ci', () => {
     const bare = readme
       .split('\n')
-      .filter((line) => /(^|[`|] ?)coilfront (evaluate|check|schema|sweep|refine|show|merge)\b/.test(line));
+      .filter((line) => /(^|[`|] ?)coilfront (evaluate|check|schema|sweep|evolve|refine|show|merge)\b/.test(line));
     expect(bare).toEqual([]);
     const hints = readdirSync('cli')
       .filter((name) => name.endsWith('.ts'))
@@ -51,7 +51,7 @@ describe('README.md', () => {
           .filter(
             (line) =>
               !/^\s*(\*|\/\/)/.test(line) &&
-              /(?<![-\w'])(?<!npx )coilfront (show|evaluate|check|sweep|refine)\b/.test(line),
+              /(?<![-\w'])(?<!npx )coilfront (show|evaluate|check|sweep|evolve|refine)\b/.test(line),
           ),
       );
     expect(hints).toEqual([]);
