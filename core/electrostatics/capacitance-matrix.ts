@@ -29,6 +29,7 @@ import {
   defaultPanelCounts,
   densityFields,
   type FieldArrangement,
+  windingEnergyCapacitance,
   type SurfaceFields,
   type VoltageShape,
 } from './field-solve.ts';
@@ -53,6 +54,11 @@ export interface NodeCapacitanceMatrix {
   toploadPanels: { first: number; count: number };
   /** Unknowns of the boundary-element system. */
   unknowns: number;
+  /**
+   * Energy capacitance of the winding with the linear profile and the topload absent (the winding,
+   * the grounded rings and the floor alone: the leading block of the same system), F.
+   */
+  selfCapacitance: number | null;
 }
 
 /**
@@ -80,6 +86,7 @@ export function nodeCapacitanceMatrix(
   const layout = buildPanelLayout(shapes);
   const n = layout.count;
   const matrixA = assembleCollocationMatrix(layout, arrangement.floor, true);
+  const selfCapacitance = leadingBlockSelfCapacitance(matrixA, n, layout, windingCount, leadingCount, winding);
   const pivots = luFactor(matrixA, n);
   if (!pivots) return null;
   const p = windingCount;
@@ -132,7 +139,45 @@ export function nodeCapacitanceMatrix(
     densities,
     toploadPanels: { first: leadingCount, count: toploadCount },
     unknowns: n,
+    selfCapacitance,
   };
+}
+
+/**
+ * The winding alone (no topload) with the linear profile: the leading block of the collocation
+ * matrix (winding and rings) solved for the profile's midpoint potentials, its energy Σ σ ∫φ dA.
+ */
+function leadingBlockSelfCapacitance(
+  matrix: Float64Array,
+  n: number,
+  layout: PanelLayout,
+  windingCount: number,
+  leadingCount: number,
+  winding: NonNullable<FieldArrangement['winding']>,
+): number | null {
+  const linear = { ...winding, profile: 'linear' as const };
+  const block = new Float64Array(leadingCount * leadingCount);
+  for (let i = 0; i < leadingCount; i++) block.set(matrix.subarray(i * n, i * n + leadingCount), i * leadingCount);
+  const pivots = luFactor(block, leadingCount);
+  if (!pivots) return null;
+  const density = new Float64Array(leadingCount);
+  for (let j = 0; j < windingCount; j++) {
+    density[j] = (layout.midZ[j] - winding.bottomZ) / (winding.topZ - winding.bottomZ);
+  }
+  luSolve(block, leadingCount, pivots, density);
+  return windingEnergyCapacitance(layout, density, windingCount, linear);
+}
+
+/** Vᵀ C V for the linear profile V_k = z_k/ℓ with the topload at the top's potential, F. */
+export function linearProfileCapacitance(matrix: NodeCapacitanceMatrix): number {
+  const voltage = new Float64Array(matrix.size);
+  for (let k = 0; k < matrix.nodes; k++) voltage[k] = matrix.fractions[k + 1];
+  if (matrix.size > matrix.nodes) voltage[matrix.nodes] = 1;
+  let energy = 0;
+  for (let i = 0; i < matrix.size; i++) {
+    for (let j = 0; j < matrix.size; j++) energy += voltage[i] * matrix.matrix[i * matrix.size + j] * voltage[j];
+  }
+  return energy;
 }
 
 /**

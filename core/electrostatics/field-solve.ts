@@ -424,7 +424,8 @@ export function densityFields(
   };
 }
 
-function windingEnergyCapacitance(
+/** Σ σ_j ∫ φ dA over the winding's panels: the winding's share of 2W at 1 V on top, F. */
+export function windingEnergyCapacitance(
   layout: PanelLayout,
   density: Float64Array,
   windingCount: number,

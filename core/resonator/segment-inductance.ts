@@ -45,16 +45,7 @@ export function segmentInductanceMatrix(
   const turns = winding.turns;
   const count = Math.ceil(turns - 1e-9);
   // F(s) for s = 0 … count − 1, and its running sum over signed offsets S(x) = Σ_{s=−(count−1)}^{x} F(|s|).
-  const loop = new Float64Array(count);
-  loop[0] = loopSelfInductance(winding.radius, winding.wireRadius, distribution);
-  for (let s = 1; s < count; s++)
-    loop[s] = coaxialLoopMutualInductance(winding.radius, winding.radius, s * winding.pitch);
-  const running = new Float64Array(2 * count); // running[x + count − 1] = S(x), x ∈ [−(count−1), count−1]
-  let sum = 0;
-  for (let x = -(count - 1); x <= count - 1; x++) {
-    sum += loop[Math.abs(x)];
-    running[x + count - 1] = sum;
-  }
+  const { loop, running } = loopTables(winding, count, distribution);
   const cumulative = (x: number) => (x < -(count - 1) ? 0 : running[Math.min(x, count - 1) + count - 1]);
   // Each segment: whole turns [first, last) plus up to two partial turns at its ends.
   const segments: { first: number; last: number; partial: { t: number; w: number }[] }[] = [];
@@ -90,4 +81,29 @@ export function segmentInductanceMatrix(
     }
   }
   return matrix;
+}
+
+/** The last winding's loop tables: one design asks for several segment counts of the same winding. */
+let lastTables: { key: string; loop: Float64Array; running: Float64Array } | null = null;
+
+/** F(s), the mutual of two turns s apart (s = 0: the loop's self-inductance), and its running sum. */
+function loopTables(
+  winding: SegmentedWinding,
+  count: number,
+  distribution: CurrentDistribution,
+): { loop: Float64Array; running: Float64Array } {
+  const key = `${winding.radius}|${winding.pitch}|${winding.wireRadius}|${count}|${distribution}`;
+  if (lastTables?.key === key) return lastTables;
+  const loop = new Float64Array(count);
+  loop[0] = loopSelfInductance(winding.radius, winding.wireRadius, distribution);
+  for (let s = 1; s < count; s++)
+    loop[s] = coaxialLoopMutualInductance(winding.radius, winding.radius, s * winding.pitch);
+  const running = new Float64Array(2 * count); // running[x + count − 1] = S(x), x ∈ [−(count−1), count−1]
+  let sum = 0;
+  for (let x = -(count - 1); x <= count - 1; x++) {
+    sum += loop[Math.abs(x)];
+    running[x + count - 1] = sum;
+  }
+  lastTables = { key, loop, running };
+  return lastTables;
 }

@@ -15,7 +15,7 @@
  * estimate). Medhurst's empirical self-capacitance is reported beside the field-based one as a
  * cross-check. A topload alone (no secondary) is solved over the floor at its centre height.
  */
-import type { EvalContext } from '../context.ts';
+import type { EvalContext, SecondaryGeometry } from '../context.ts';
 import { relativeAirDensity, TROPOPAUSE_ALTITUDE } from '../breakdown/air-density.ts';
 import {
   breakoutVoltage,
@@ -27,8 +27,8 @@ import { medhurstSelfCapacitance } from '../capacitance/medhurst.ts';
 import { lcResonantFrequency } from '../capacitance/resonance.ts';
 import { streamerCapacitance } from '../capacitance/streamer.ts';
 import { arrangementFromDesign } from '../electrostatics/arrangement.ts';
-import { shapedSurfaceFields } from '../electrostatics/capacitance-matrix.ts';
-import { solveField, type SurfaceFields } from '../electrostatics/field-solve.ts';
+import { linearProfileCapacitance, shapedSurfaceFields } from '../electrostatics/capacitance-matrix.ts';
+import { type FieldArrangement, solveField, type SurfaceFields } from '../electrostatics/field-solve.ts';
 import { distributedWinding } from '../resonator/design-resonator.ts';
 import { formatNumber } from '../outcome/warnings.ts';
 
@@ -66,45 +66,18 @@ export function electrostaticsStage(context: EvalContext): void {
 
   const arrangement = arrangementFromDesign(design, secondary, problems);
   if (!arrangement) return;
-  const lumped = solveField(arrangement);
-  if (!lumped) {
-    problems.push({
-      field: design.topload ? 'topload' : 'secondary',
-      reason: 'the field solve found no solution for this geometry (singular system)',
-    });
+  const computed = Boolean(secondary && arrangement.winding && design.secondary?.voltageProfile === 'computed');
+  const solved = computed && secondary ? distributedSolve(context, arrangement, secondary) : assumedSolve(arrangement);
+  if (!solved) {
+    if (problems.length === 0) {
+      problems.push({
+        field: design.topload ? 'topload' : 'secondary',
+        reason: 'the field solve found no solution for this geometry (singular system)',
+      });
+    }
     return;
   }
-  let surface: SurfaceFields = lumped;
-  // The computed profile: the distributed resonator's fundamental, then the fields of that profile.
-  if (secondary && arrangement.winding && design.secondary?.voltageProfile === 'computed') {
-    const resonator = distributedWinding(arrangement, {
-      radius: secondary.radius,
-      turns: secondary.turns,
-      pitch: secondary.pitch,
-      wireRadius: secondary.bareDiameter / 2,
-    });
-    if (!resonator) {
-      problems.push({
-        field: 'secondary',
-        reason:
-          'the distributed model of the winding found no resonance (its inductance or capacitance matrix is not positive definite)',
-      });
-      return;
-    }
-    context.resonator = resonator;
-    if (!resonator.converged) {
-      const change =
-        resonator.lastChange === null
-          ? ''
-          : ` (the last doubling changed it by ${formatNumber(100 * resonator.lastChange)} %)`;
-      context.warnings.push({
-        key: 'resonator_unconverged',
-        message: `the distributed model of the winding stopped at ${resonator.solution.segments} segments before its fundamental converged to 0.1 %${change}: ${formatNumber(secondary.turns)} turns allow no finer segments of at least one turn`,
-      });
-    }
-    // The fields of the computed profile, by superposition of the resonator's solved densities.
-    surface = shapedSurfaceFields(arrangement, resonator.capacitance, resonator.shape);
-  }
+  const { surface, lumped } = solved;
   const resonator = context.resonator;
 
   const airDensity = relativeAirDensity(environment.altitude, environment.temperature);
@@ -173,5 +146,60 @@ export function electrostaticsStage(context: EvalContext): void {
     toploadFieldPerVolt: surface.toploadPeakFieldPerVolt,
     onsetField,
     breakoutVoltage: breakout,
+  };
+}
+
+/** What the stage needs from either solve: the fields of the profile and the lumped cross-check. */
+interface SolvedFields {
+  surface: SurfaceFields;
+  lumped: { totalCapacitance: number; selfCapacitance: number | null };
+}
+
+/** An assumed profile: one field solve gives everything. */
+function assumedSolve(arrangement: FieldArrangement): SolvedFields | null {
+  const solution = solveField(arrangement);
+  return solution ? { surface: solution, lumped: solution } : null;
+}
+
+/**
+ * The computed profile: the distributed resonator's node capacitance matrix gives the fields of the
+ * fundamental's profile (by superposition) and the linear-profile capacitances of the lumped
+ * cross-check (Vᵀ C V; the winding alone from the leading block), without a second field solve.
+ */
+function distributedSolve(
+  context: EvalContext,
+  arrangement: FieldArrangement,
+  secondary: SecondaryGeometry,
+): SolvedFields | null {
+  const resonator = distributedWinding(arrangement, {
+    radius: secondary.radius,
+    turns: secondary.turns,
+    pitch: secondary.pitch,
+    wireRadius: secondary.bareDiameter / 2,
+  });
+  if (!resonator) {
+    context.problems.push({
+      field: 'secondary',
+      reason:
+        'the distributed model of the winding found no resonance (its inductance or capacitance matrix is not positive definite)',
+    });
+    return null;
+  }
+  context.resonator = resonator;
+  if (!resonator.converged) {
+    const change =
+      resonator.lastChange === null
+        ? ''
+        : ` (the last doubling changed it by ${formatNumber(100 * resonator.lastChange)} %)`;
+    context.warnings.push({
+      key: 'resonator_unconverged',
+      message: `the distributed model of the winding stopped at ${resonator.solution.segments} segments before its fundamental converged to 0.1 %${change}: ${formatNumber(secondary.turns)} turns allow no finer segments of at least one turn`,
+    });
+  }
+  const matrix = resonator.capacitance;
+  const linear = linearProfileCapacitance(matrix);
+  return {
+    surface: shapedSurfaceFields(arrangement, matrix, resonator.shape),
+    lumped: { totalCapacitance: linear, selfCapacitance: arrangement.topload ? matrix.selfCapacitance : linear },
   };
 }
