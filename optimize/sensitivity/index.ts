@@ -1,2 +1,4 @@
 export { SaltelliDesign, sobolIndices } from './saltelli.ts';
 export type { IndexEstimate, SobolIndices, SobolOptions } from './saltelli.ts';
+export { spaceSensitivity } from './space-sensitivity.ts';
+export type { MetricSensitivity } from './space-sensitivity.ts';
