@@ -19,6 +19,7 @@ import { mergeCommand } from './merge-command.ts';
 import { demoCommand } from './demo-command.ts';
 import { refineCommand, type RefineCommandOptions } from './refine-command.ts';
 import { evolveCommand, type EvolveCommandOptions } from './evolve-command.ts';
+import { sensitivityCommand, type SensitivityOptions } from './sensitivity-command.ts';
 
 /** The version in package.json (one directory above cli/ and dist/cli/). */
 function packageVersion(): string {
@@ -129,6 +130,17 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .option('--workers <n>', 'worker threads (default: available parallelism)', integer('--workers'))
     .action(async (run: string, options: RefineCommandOptions) => {
       exitCode = await refineCommand(run, options, io);
+    });
+
+  program
+    .command('sensitivity')
+    .description('first-order and total Sobol indices of the fields of a sweep file on its metrics')
+    .argument('<file>', 'sweep file, YAML or JSON')
+    .option('--samples <n>', 'base samples N (N·(fields + 2) evaluations)', integer('--samples'), 512)
+    .option('--workers <n>', 'worker threads (default: available parallelism)', integer('--workers'))
+    .option('--out <dir>', 'directory for sensitivity.csv and sensitivity.json', '.')
+    .action(async (file: string, options: SensitivityOptions) => {
+      exitCode = await sensitivityCommand(file, options, io);
     });
 
   program
