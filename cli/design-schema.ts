@@ -389,12 +389,65 @@ function labelOf(input: unknown): string {
   return yamlStringify(input, { collectionStyle: 'flow' }).trim();
 }
 
+/** A quantity as written, '450 mm': its number and its unit. */
+const WRITTEN_QUANTITY = /^(-?[\d.]+(?:e-?\d+)?)\s*([^\d\s].*)$/;
+
+/**
+ * A short label for a whole section chosen from a set: its shape (when it has one) and its first two
+ * size quantities (not heights or elevations), as written, sharing their unit when they have the same
+ * one ('toroid 450×110 mm').
+ */
+export function sectionLabel(item: Record<string, unknown>): string {
+  const parts: string[] = [];
+  for (const key of ['shape', 'kind']) if (typeof item[key] === 'string') parts.push(item[key] as string);
+  const quantities: Array<[string, string]> = [];
+  for (const [key, value] of Object.entries(item)) {
+    // the size, not the position: heights and elevations say where the section sits
+    if (key === 'shape' || key === 'kind' || /height|elevation/.test(key) || typeof value !== 'string') continue;
+    const match = WRITTEN_QUANTITY.exec(value.trim());
+    if (match) quantities.push([match[1], match[2]]);
+  }
+  const [first, second] = quantities;
+  if (first && second && first[1] === second[1]) parts.push(`${first[0]}×${second[0]} ${first[1]}`);
+  else parts.push(...quantities.slice(0, 2).map(([number, unit]) => `${number} ${unit}`));
+  return parts.length > 0 ? parts.join(' ') : labelOf(item);
+}
+
+/**
+ * One choice of a set and its label: for whole sections, the user's `label:` (taken out of the
+ * section) or one built from its key dimensions; for leaves, the value as written.
+ */
+function sectionChoice(
+  raw: unknown,
+  sections: boolean,
+  path: Array<string | number>,
+  state: WalkState,
+): { item: unknown; label: string } | undefined {
+  if (!sections || !isMapping(raw)) return { item: raw, label: labelOf(raw) };
+  if (!('label' in raw)) return { item: raw, label: sectionLabel(raw) };
+  const { label, ...item } = raw;
+  if (typeof label !== 'string' || label.trim() === '') {
+    state.issues.push({
+      path: [...path, 'label'],
+      message: `expected a short text label, got ${describeValue(label)}`,
+    });
+    return undefined;
+  }
+  return { item, label: label.trim() };
+}
+
+/** Labels as built, except that two equal ones fall back to the choices written out in full. */
+function uniqueLabels(labels: string[], items: unknown[]): string[] {
+  return labels.map((label, i) => (labels.indexOf(label) !== labels.lastIndexOf(label) ? labelOf(items[i]) : label));
+}
+
 function readChoose(
   input: Record<string, unknown>,
   path: string[],
   state: WalkState,
   readOne: (item: unknown, itemPath: Array<string | number>) => LeafValue | NormalSection | undefined,
   field?: FieldSpec,
+  sections = false,
 ): DimensionSlot | undefined {
   const keys = Object.keys(input);
   if (keys.length !== 1) {
@@ -415,16 +468,20 @@ function readChoose(
     return undefined;
   }
   const values: Array<LeafValue | NormalSection> = [];
+  const labels: string[] = [];
   for (let i = 0; i < items.length; i++) {
-    const value = readOne(items[i], [...path, 'choose', i]);
+    const choice = sectionChoice(items[i], sections, [...path, 'choose', i], state);
+    if (choice === undefined) return undefined;
+    const value = readOne(choice.item, [...path, 'choose', i]);
     if (value === undefined) return undefined;
     values.push(value);
+    labels.push(choice.label);
   }
   state.dimensions.push({
     kind: 'choose',
     path,
     values,
-    labels: items.map(labelOf),
+    labels: uniqueLabels(labels, items),
     ...(field?.type === 'quantity' ? { quantity: field.kind } : {}),
     ...(field?.type === 'wire' ? { wire: true } : {}),
   });
@@ -441,7 +498,7 @@ function readSection(
   state: WalkState,
 ): NormalSection | DimensionSlot | undefined {
   if (state.mode === 'sweep' && isMapping(input) && 'choose' in input) {
-    return readChoose(
+    const slot = readChoose(
       input,
       path,
       state,
@@ -449,7 +506,11 @@ function readSection(
         readSection(name, section, item, itemPath as string[], { ...state, mode: 'design' }) as
           | NormalSection
           | undefined,
+      undefined,
+      true,
     );
+    if (slot) attachSectionFields(section, state.dimensions[slot.slot]);
+    return slot;
   }
   if (!isMapping(input)) {
     state.issues.push({ path, message: `expected a mapping of ${name} fields, got ${describeValue(input)}` });
@@ -575,4 +636,36 @@ export function readDesignTree(input: unknown, mode: Mode, basePath: string[] = 
     path: dimension.path.slice(basePath.length),
   }));
   return { tree, dimensions, issues: state.issues };
+}
+
+/** The numeric fields of a set of whole sections, for their own CSV columns (see Dimension). */
+function attachSectionFields(section: SectionSpec, dimension: Dimension | undefined): void {
+  if (!dimension || dimension.kind !== 'choose') return;
+  const choices = dimension.values.filter((v): v is NormalSection => typeof v === 'object' && !('awg' in v));
+  if (choices.length !== dimension.values.length) return;
+  const names: string[] = [];
+  for (const choice of choices) {
+    for (const [key, value] of Object.entries(choice))
+      if (typeof value === 'number' && !names.includes(key)) names.push(key);
+  }
+  dimension.sectionFields = names.map((name) => {
+    const spec = fieldSpecIn(section, choices, name);
+    return {
+      name,
+      quantity: spec?.type === 'quantity' ? spec.kind : null,
+      values: choices.map((choice) => (typeof choice[name] === 'number' ? (choice[name] as number) : null)),
+    };
+  });
+}
+
+/** The field spec of a section's field, in its common fields or in any of its forms. */
+function fieldSpecIn(section: SectionSpec, choices: NormalSection[], name: string): FieldSpec | undefined {
+  if (section.fields[name]) return section.fields[name];
+  const variants = section.variants;
+  if (!variants) return undefined;
+  for (const choice of choices) {
+    const form = variants.forms[String(choice[variants.key])];
+    if (form?.[name]) return form[name];
+  }
+  return undefined;
 }

@@ -81,7 +81,7 @@ function section(spec: SectionSpec, sweep: boolean): Schema {
       body,
       {
         type: 'object',
-        properties: { choose: { type: 'array', minItems: 1, items: section(spec, false) } },
+        properties: { choose: { type: 'array', minItems: 1, items: labelled(section(spec, false)) } },
         required: ['choose'],
         additionalProperties: false,
       },
@@ -150,4 +150,12 @@ export function designFileSchema(): Schema {
     title: 'coilfront design file',
     ...designSchema(false),
   };
+}
+
+/** A section schema whose object forms also take a `label:` (the short name of a choice in a set). */
+function labelled(schema: Schema): Schema {
+  const label = { type: 'string', minLength: 1, description: 'short label of this choice (console, check, CSV)' };
+  const addLabel = (form: Schema): Schema => ({ ...form, properties: { ...(form.properties as Schema), label } });
+  if (Array.isArray(schema.oneOf)) return { ...schema, oneOf: (schema.oneOf as Schema[]).map(addLabel) };
+  return addLabel(schema);
 }

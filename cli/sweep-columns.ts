@@ -19,14 +19,25 @@ export interface ColumnSet {
   metricHeaders: string[];
 }
 
-/** The column names of one dimension: one, or two for a set of wires (the label and the bare diameter). */
+/**
+ * The column names of one dimension: one; two for a set of wires (the label and the bare diameter);
+ * for a set of whole sections the label and then one number column per numeric field.
+ */
 function headersOf(dimension: Dimension): string[] {
   const name = dimension.path.join('.');
   if (dimension.kind === 'choose' && dimension.wire) return [name, `${name}_bare_diameter_mm`];
+  if (dimension.kind === 'choose' && dimension.sectionFields) {
+    return [name, ...dimension.sectionFields.map((field) => `${name}.${field.name}${unitSuffix(field.quantity)}`)];
+  }
   const quantity = dimension.quantity;
   if (quantity === undefined) return [name];
   const unit = KIND_DISPLAY[quantity as QuantityKind];
   return [unit && unit.label !== '' ? `${name}_${unit.label}` : name];
+}
+
+function unitSuffix(quantity: string | null): string {
+  const unit = quantity === null ? undefined : KIND_DISPLAY[quantity as QuantityKind];
+  return unit && unit.label !== '' ? `_${unit.label}` : '';
 }
 
 function metricHeader(key: string, siUnit: string): string {
@@ -60,6 +71,15 @@ export function parameterCells(dimensions: readonly Dimension[], values: readonl
     if (dimension.kind === 'choose') {
       const chosen = dimension.values[value];
       if (dimension.wire) return [dimension.labels[value] ?? null, wireDiameterMm(chosen)];
+      if (dimension.sectionFields) {
+        // A whole section: its label, then each numeric field in display units (empty where it has none).
+        const cells = dimension.sectionFields.map((field): Cell => {
+          const number = field.values[value] ?? null;
+          const unit = field.quantity === null ? undefined : KIND_DISPLAY[field.quantity as QuantityKind];
+          return number === null ? null : unit ? number / unit.divisor : number;
+        });
+        return [dimension.labels[value] ?? null, ...cells];
+      }
       if (dimension.quantity !== undefined && typeof chosen === 'number') {
         const unit = KIND_DISPLAY[dimension.quantity as QuantityKind];
         return [unit ? chosen / unit.divisor : chosen];

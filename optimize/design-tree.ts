@@ -47,6 +47,11 @@ export type Dimension =
       quantity?: string;
       /** The choices are wires: the CSV adds the bare diameter as a number column. */
       wire?: boolean;
+      /**
+       * The choices are whole sections: each numeric field any of them has, as its own CSV number
+       * column after the label (SI values per choice, null where a choice lacks the field).
+       */
+      sectionFields?: { name: string; quantity: string | null; values: Array<number | null> }[];
     };
 
 export function isSlot(value: unknown): value is DimensionSlot {
