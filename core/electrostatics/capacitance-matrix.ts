@@ -15,25 +15,19 @@
  * to discretisation accuracy; the returned matrix is the symmetric part, and the largest relative
  * asymmetry is reported (reciprocity, [smythe1950] §3.07: C_kl = C_lk exactly).
  */
-import {
-  groundedRingPanels,
-  spherePanels,
-  toroidPanels,
-  discPanels,
-  windingNodeFraction,
-  windingPanels,
-} from './bodies.ts';
+import { windingNodeFraction } from './bodies.ts';
 import { assembleCollocationMatrix } from './assembly.ts';
 import { luFactor, luSolve } from './dense-lu.ts';
 import {
   defaultPanelCounts,
+  arrangementPanels,
   densityFields,
   type FieldArrangement,
-  windingEnergyCapacitance,
+  windingAloneCapacitance,
   type SurfaceFields,
   type VoltageShape,
 } from './field-solve.ts';
-import { buildPanelLayout, type PanelLayout, type PanelShape } from './panels.ts';
+import { buildPanelLayout, type PanelLayout } from './panels.ts';
 
 /** The Maxwell matrix of the winding's nodes and the topload, SI. */
 export interface NodeCapacitanceMatrix {
@@ -74,19 +68,18 @@ export function nodeCapacitanceMatrix(
   const winding = arrangement.winding;
   if (!winding || !(windingPanelCount >= 1)) return null;
   const counts = defaultPanelCounts(arrangement);
-  const shapes: PanelShape[] = [...windingPanels(winding, windingPanelCount)];
-  const windingCount = shapes.length;
-  shapes.push(...groundedRingPanels(arrangement.groundedRings ?? []));
-  const leadingCount = shapes.length;
-  const topload = arrangement.topload;
-  if (topload?.shape === 'toroid') shapes.push(...toroidPanels(topload, counts.topload));
-  else if (topload?.shape === 'sphere') shapes.push(...spherePanels(topload, counts.topload));
-  else if (topload?.shape === 'disc') shapes.push(...discPanels(topload, counts.topload));
+  const { shapes, windingCount, leadingCount } = arrangementPanels(arrangement, {
+    winding: windingPanelCount,
+    topload: counts.topload,
+  });
   const toploadCount = shapes.length - leadingCount;
   const layout = buildPanelLayout(shapes);
   const n = layout.count;
   const matrixA = assembleCollocationMatrix(layout, arrangement.floor, true);
-  const selfCapacitance = leadingBlockSelfCapacitance(matrixA, n, layout, windingCount, leadingCount, winding);
+  const selfCapacitance = windingAloneCapacitance(matrixA, n, layout, windingCount, leadingCount, {
+    ...winding,
+    profile: 'linear',
+  });
   const pivots = luFactor(matrixA, n);
   if (!pivots) return null;
   const p = windingCount;
@@ -141,31 +134,6 @@ export function nodeCapacitanceMatrix(
     unknowns: n,
     selfCapacitance,
   };
-}
-
-/**
- * The winding alone (no topload) with the linear profile: the leading block of the collocation
- * matrix (winding and rings) solved for the profile's midpoint potentials, its energy Σ σ ∫φ dA.
- */
-function leadingBlockSelfCapacitance(
-  matrix: Float64Array,
-  n: number,
-  layout: PanelLayout,
-  windingCount: number,
-  leadingCount: number,
-  winding: NonNullable<FieldArrangement['winding']>,
-): number | null {
-  const linear = { ...winding, profile: 'linear' as const };
-  const block = new Float64Array(leadingCount * leadingCount);
-  for (let i = 0; i < leadingCount; i++) block.set(matrix.subarray(i * n, i * n + leadingCount), i * leadingCount);
-  const pivots = luFactor(block, leadingCount);
-  if (!pivots) return null;
-  const density = new Float64Array(leadingCount);
-  for (let j = 0; j < windingCount; j++) {
-    density[j] = (layout.midZ[j] - winding.bottomZ) / (winding.topZ - winding.bottomZ);
-  }
-  luSolve(block, leadingCount, pivots, density);
-  return windingEnergyCapacitance(layout, density, windingCount, linear);
 }
 
 /** Vᵀ C V for the linear profile V_k = z_k/ℓ with the topload at the top's potential, F. */

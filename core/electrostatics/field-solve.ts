@@ -299,17 +299,8 @@ export function solveField(arrangement: FieldArrangement, options: FieldSolveOpt
     topload: arrangement.topload ? (options.panelCounts?.topload ?? defaults.topload) : 0,
     winding: arrangement.winding ? (options.panelCounts?.winding ?? defaults.winding) : 0,
   };
-  // Order: winding, grounded rings, topload last (so the winding-alone system is the leading block).
-  const shapes: PanelShape[] = [];
   const winding = arrangement.winding;
-  if (winding) shapes.push(...windingPanels(winding, counts.winding));
-  const windingCount = shapes.length;
-  shapes.push(...groundedRingPanels(arrangement.groundedRings ?? []));
-  const leadingCount = shapes.length;
-  const topload = arrangement.topload;
-  if (topload?.shape === 'toroid') shapes.push(...toroidPanels(topload, counts.topload));
-  else if (topload?.shape === 'sphere') shapes.push(...spherePanels(topload, counts.topload));
-  else if (topload?.shape === 'disc') shapes.push(...discPanels(topload, counts.topload));
+  const { shapes, windingCount, leadingCount } = arrangementPanels(arrangement, counts);
   const toploadCount = shapes.length - leadingCount;
   counts.topload = toploadCount;
   const layout = buildPanelLayout(shapes);
@@ -323,16 +314,9 @@ export function solveField(arrangement: FieldArrangement, options: FieldSolveOpt
   const matrix = assembleCollocationMatrix(layout, arrangement.floor, true, matrixScratch(n * n));
   // The winding-alone system (leading block) before the full matrix is factored in place.
   let selfCapacitance: number | null = null;
-  if (winding) {
-    if (toploadCount > 0) {
-      const block = blockScratch(leadingCount * leadingCount);
-      for (let i = 0; i < leadingCount; i++) block.set(matrix.subarray(i * n, i * n + leadingCount), i * leadingCount);
-      const pivots = luFactor(block, leadingCount);
-      if (!pivots) return null;
-      const alone = potential.slice(0, leadingCount);
-      luSolve(block, leadingCount, pivots, alone);
-      selfCapacitance = windingEnergyCapacitance(layout, alone, windingCount, winding);
-    }
+  if (winding && toploadCount > 0) {
+    selfCapacitance = windingAloneCapacitance(matrix, n, layout, windingCount, leadingCount, winding);
+    if (selfCapacitance === null) return null;
   }
   const pivots = luFactor(matrix, n);
   if (!pivots) return null;
@@ -361,6 +345,49 @@ export function solveField(arrangement: FieldArrangement, options: FieldSolveOpt
     density,
     toploadPanels: { first: leadingCount, count: toploadCount },
   };
+}
+
+/**
+ * The panels of an arrangement in the solve's order: the winding, the grounded rings, the topload
+ * last, so that the winding-alone system is the leading block of the matrix.
+ */
+export function arrangementPanels(
+  arrangement: FieldArrangement,
+  counts: PanelCounts,
+): { shapes: PanelShape[]; windingCount: number; leadingCount: number } {
+  const shapes: PanelShape[] = [];
+  if (arrangement.winding) shapes.push(...windingPanels(arrangement.winding, counts.winding));
+  const windingCount = shapes.length;
+  shapes.push(...groundedRingPanels(arrangement.groundedRings ?? []));
+  const leadingCount = shapes.length;
+  const topload = arrangement.topload;
+  if (topload?.shape === 'toroid') shapes.push(...toroidPanels(topload, counts.topload));
+  else if (topload?.shape === 'sphere') shapes.push(...spherePanels(topload, counts.topload));
+  else if (topload?.shape === 'disc') shapes.push(...discPanels(topload, counts.topload));
+  return { shapes, windingCount, leadingCount };
+}
+
+/**
+ * The energy capacitance of the winding alone (the topload absent): the leading block (winding and
+ * rings) of a collocation matrix, copied before the full matrix is factored in place, solved for the
+ * winding's potentials at its panel midpoints. Null when the block is singular.
+ */
+export function windingAloneCapacitance(
+  matrix: Float64Array,
+  n: number,
+  layout: PanelLayout,
+  windingCount: number,
+  leadingCount: number,
+  winding: NonNullable<FieldArrangement['winding']>,
+): number | null {
+  const block = blockScratch(leadingCount * leadingCount);
+  for (let i = 0; i < leadingCount; i++) block.set(matrix.subarray(i * n, i * n + leadingCount), i * leadingCount);
+  const pivots = luFactor(block, leadingCount);
+  if (!pivots) return null;
+  const alone = new Float64Array(leadingCount);
+  for (let j = 0; j < windingCount; j++) alone[j] = windingPotential(winding, layout.midZ[j]);
+  luSolve(block, leadingCount, pivots, alone);
+  return windingEnergyCapacitance(layout, alone, windingCount, winding);
 }
 
 /** What a solved surface density gives: the topload's charge and fields, the winding's top field (per volt). */
