@@ -12,7 +12,7 @@ import * as z from 'zod';
 import { stringify as yamlStringify } from 'yaml';
 import { DESIGN_SECTIONS, sectionFields, type FieldSpec, type SectionSpec } from './design-fields.ts';
 import { describeValue, readQuantity, describeKind, type QuantityKind, unitsOf } from './units.ts';
-import type { InputIssue } from './input-error.ts';
+import type { InputIssue } from '../run/input-error.ts';
 import type {
   Dimension,
   DimensionSlot,

@@ -4,10 +4,10 @@
  * exit code 2; anything else is a bug and says so.
  */
 import { registerViewCommands } from './view-commands.ts';
-import { MAX_DIGITS } from './csv.ts';
+import { MAX_DIGITS } from '../run/csv.ts';
 import { readFileSync } from 'node:fs';
 import { Command, CommanderError, InvalidArgumentError } from 'commander';
-import { InputError } from './input-error.ts';
+import { InputError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
 import { evaluateCommand } from './evaluate-command.ts';
 import { sweepCommand, type SweepOptions } from './sweep-command.ts';
