@@ -20,6 +20,7 @@ import { demoCommand } from './demo-command.ts';
 import { refineCommand, type RefineCommandOptions } from './refine-command.ts';
 import { evolveCommand, type EvolveCommandOptions } from './evolve-command.ts';
 import { sensitivityCommand, type SensitivityOptions } from './sensitivity-command.ts';
+import { stockCommand } from './stock-command.ts';
 
 /** The version in package.json (one directory above cli/ and dist/cli/). */
 function packageVersion(): string {
@@ -201,6 +202,14 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .option('--quiet', 'no progress on stderr')
     .action(async (spec: string | undefined, options: SweepOptions) => {
       exitCode = await sweepCommand(spec, options, io);
+    });
+
+  program
+    .command('stock')
+    .description('list the stock catalogues (pipe, tube, magnet wire), or the sizes of one')
+    .argument('[name]', 'catalogue name')
+    .action((name: string | undefined) => {
+      exitCode = stockCommand(name, io);
     });
 
   try {
