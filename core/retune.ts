@@ -5,7 +5,7 @@
  * What is trusted and what is fitted:
  * - The secondary is the lumped pair the tank sees at the top, L_eff and C_eff (core/stages: the
  *   distributed model's effective values, or the winding's inductance and the field solve's total
- *   capacitance), with f2 = 1/(2π √(L_eff C_eff)) (Thomson; refs §4).
+ *   capacitance), with f2 = 1/(2π √(L_eff C_eff)) ([thomson1853], refs §11.4); what is fitted is ours (refs §13).
  * - A measured low-frequency inductance L_meas scales L_eff by ρ = L_meas / L_model (the winding's
  *   inductance is the better-known part; the ratio carries a measured error of it into L_eff).
  * - The capacitance is the uncertain part (the winding's and topload's surroundings: floor, walls,

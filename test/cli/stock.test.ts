@@ -118,7 +118,7 @@ describe('the stock catalogues against their standards', () => {
   });
 
   it('wire_metric: the IEC 60317-0-1 nominal diameters are the ISO 3 R 20 and R 40 numbers, to the micrometre', () => {
-    // ISO 3 preferred numbers (from memory): R 20, and the R 40 numbers between them
+    // ISO 3 preferred numbers [iso3] (from memory): R 20, and the R 40 numbers between them
     const r20 = [1, 1.12, 1.25, 1.4, 1.6, 1.8, 2, 2.24, 2.5, 2.8, 3.15, 3.55, 4, 4.5, 5, 5.6, 6.3, 7.1, 8, 9];
     const r40 = [
       1.06, 1.18, 1.32, 1.5, 1.7, 1.9, 2.12, 2.36, 2.65, 3, 3.35, 3.75, 4.25, 4.75, 5.3, 6, 6.7, 7.5, 8.5, 9.5,
