@@ -124,9 +124,12 @@ export function formatRetune(file: string, measured: RetuneMeasurements, retune:
     '',
     `  ${tapLine("model's tap", retune.modelTap, retune.primaryTurns)}`,
     `  ${tapLine('set the tap to', retune.fittedTap, retune.primaryTurns)}`,
-    `  move: ${move >= 0 ? '+' : '−'}${turns(Math.abs(move))} (${Math.abs(move) < 0.005 ? 'stay' : move > 0 ? 'outward: more turns' : 'inward: fewer turns'})`,
+    `  move: ${move >= 0 ? '+' : '−'}${turns(Math.abs(move))} from the model's tap (${Math.abs(move) < 0.005 ? 'stay' : move > 0 ? 'outward: more turns' : 'inward: fewer turns'})${retune.currentTap !== null ? `; the file's tap_turns is ${turns(retune.currentTap)}` : ''}`,
     `  margins: ${turns(retune.fittedTap.tapMargin)} to the nearer end of the primary; the tank reaches ${hz(retune.tankRange.lowest)} to ${hz(retune.tankRange.highest)} over its taps`,
   );
+  if (retune.couplingAtFittedTap !== null) {
+    lines.push(`  coupling at the new tap: ${retune.couplingAtFittedTap.toFixed(3)} (the modelled geometry)`);
+  }
   if (retune.loadedTap && retune.loadedFrequency !== null) {
     lines.push(
       `  ${tapLine('with streamer loading', retune.loadedTap, retune.primaryTurns)} (secondary ${hz(retune.loadedFrequency)}, common practice 1 pF per foot of streamer)`,
@@ -165,6 +168,8 @@ export function retuneJson(measured: RetuneMeasurements, retune: Retune): Record
     loaded_tap: tap(retune.loadedTap),
     loaded_frequency: retune.loadedFrequency,
     tank_range: retune.tankRange,
+    current_tap: retune.currentTap,
+    coupling_at_fitted_tap: retune.couplingAtFittedTap,
   };
 }
 

@@ -73,6 +73,11 @@ export function retuneDesign(design: Design, measured: RetuneMeasurements): Retu
   const modelTap = tapFor(table, primary.turns, c1, inductance, capacitance);
   const fittedTap = tapFor(table, primary.turns, c1, fit.inductance, fit.capacitance);
   const loaded = model.streamerCapacitance > 0;
+  // The coupling at the new tap: the design evaluated with the primary tapped there.
+  const tapped = evaluateDesign({
+    ...design,
+    primary: { ...primary, tapTurns: fittedTap.tuning.tapTurns, requireTuning: false },
+  });
   return {
     model,
     fit,
@@ -88,5 +93,7 @@ export function retuneDesign(design: Design, measured: RetuneMeasurements): Retu
       lowest: lcResonantFrequency(primaryInductanceAtTap(table, primary.turns), c1),
     },
     primaryTurns: primary.turns,
+    currentTap: primary.tapTurns ?? null,
+    couplingAtFittedTap: tapped.problems.length === 0 ? tapped.metrics.coupling : null,
   };
 }

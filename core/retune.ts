@@ -179,6 +179,10 @@ export interface Retune {
   tankRange: { highest: number; lowest: number };
   /** The primary's turns (the highest tap). */
   primaryTurns: number;
+  /** The tap the design file fixes (`tap_turns`), or null. */
+  currentTap: number | null;
+  /** The coupling coefficient with the primary tapped at the fitted tap (the model's geometry), or null. */
+  couplingAtFittedTap: number | null;
 }
 
 /** Why a design cannot be retuned: the field and the reason (an input problem for the CLI). */
