@@ -9,6 +9,7 @@ import { runCli } from '../../cli/program.ts';
 import type { CliIo } from '../../cli/io.ts';
 import { InputError } from '../../cli/input-error.ts';
 import { sweepFromValue } from '../../cli/sweep-spec.ts';
+import { sweepSchema } from '../../cli/json-schema.ts';
 import { STOCK_CATALOGUES, type StockCatalogue } from '../../cli/stock/catalogues.ts';
 import { ASTM_D1785_ROWS } from '../../cli/stock/pipe-astm-d1785.ts';
 import { ASTM_B88_ROWS } from '../../cli/stock/copper-tube.ts';
@@ -243,6 +244,28 @@ describe('stock sets in sweep files', () => {
     } finally {
       rmSync(dir, { recursive: true, force: true });
     }
+  });
+});
+
+describe('the JSON Schema of sweep files', () => {
+  type Node = { anyOf?: Node[]; properties?: Record<string, Node>; enum?: string[] };
+  const leaf = (field: string): Node[] => {
+    const secondary = (sweepSchema() as Node).properties?.design?.properties?.secondary;
+    const form = secondary?.anyOf?.[0]?.properties?.[field];
+    return form?.anyOf ?? [];
+  };
+
+  it('offers the length catalogues on a length field and the wire catalogues on the wire', () => {
+    const stockOf = (field: string) => leaf(field).find((node) => node.properties?.stock)?.properties?.stock?.enum;
+    expect(stockOf('form_diameter')).toEqual([
+      'pipe_metric',
+      'pipe_inch_sch40',
+      'pipe_inch_sch80',
+      'tube_inch',
+      'tube_metric',
+    ]);
+    expect(stockOf('wire')).toEqual(['wire_awg', 'wire_metric']);
+    expect(stockOf('turns')).toBeUndefined();
   });
 });
 
