@@ -6,7 +6,7 @@
 import { retuneDesign } from '../core/retune-design.ts';
 import type { Retune, RetuneMeasurements, SecondaryFit, TapSetting } from '../core/retune.ts';
 import { formatQuantity } from '../core/outcome/warnings.ts';
-import { fieldError, optionError } from './input-error.ts';
+import { fieldError, optionError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
 import { loadDesignFile } from './load-design.ts';
 import { safetyBlock } from './safety.ts';

@@ -2,7 +2,7 @@
  * `coilfront stock` lists the stock catalogues; `coilfront stock NAME` lists the sizes of one, with
  * its source and how sure its values are (cli/stock/catalogues.ts).
  */
-import { fieldError } from './input-error.ts';
+import { fieldError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
 import { SAFETY_LINE } from './safety.ts';
 import { STOCK_CATALOGUES, stockNames, type StockCatalogue } from './stock/catalogues.ts';

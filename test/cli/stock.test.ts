@@ -7,7 +7,7 @@ import { parse } from 'yaml';
 import { describe, expect, it } from 'vitest';
 import { runCli } from '../../cli/program.ts';
 import type { CliIo } from '../../cli/io.ts';
-import { InputError } from '../../cli/input-error.ts';
+import { InputError } from '../../run/input-error.ts';
 import { sweepFromValue } from '../../cli/sweep-spec.ts';
 import { sweepSchema } from '../../cli/json-schema.ts';
 import { STOCK_CATALOGUES, type StockCatalogue } from '../../cli/stock/catalogues.ts';
