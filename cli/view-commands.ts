@@ -6,6 +6,7 @@ import type { Command } from 'commander';
 import type { CliIo } from './io.ts';
 import { type PlotCommandOptions, plotCommand } from './plot-command.ts';
 import { spreadsheetCommand, type SpreadsheetOptions } from './spreadsheet-command.ts';
+import { drawCommand } from './draw-command.ts';
 
 export function registerViewCommands(program: Command, io: CliIo, setExit: (code: number) => void): void {
   program
@@ -32,5 +33,18 @@ export function registerViewCommands(program: Command, io: CliIo, setExit: (code
     .option('--out <file>', 'plot.svg or plot.png (default: plot-X-Y.svg in the run)')
     .action(async (run: string, options: PlotCommandOptions) => {
       setExit(await plotCommand(run, options, io));
+    });
+
+  program
+    .command('draw')
+    .description('a design drawn to scale with its equipotentials (a design file, or a run and a rank)')
+    .argument('<source>', 'design file, or run directory')
+    .argument('[rank]', 'with a run: rank in candidates.csv, or r1 (refined), e1 (evolved)')
+    .option(
+      '--out <file>',
+      'drawing.svg or drawing.png (default: beside the design file, or drawing-RANK.svg in the run)',
+    )
+    .action(async (source: string, rank: string | undefined, options: { out?: string }) => {
+      setExit(await drawCommand(source, rank, options, io));
     });
 }
