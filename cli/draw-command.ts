@@ -15,13 +15,13 @@ import { designDrawingSvg } from './views/design-drawing.ts';
 import { svgToPng } from './views/vega-render.ts';
 
 /** The drawing of one design; a design that cannot be built is an input error naming the field. */
-export function drawingOf(design: Design, title: string, source: string): string {
+export function drawingOf(design: Design, title: string, source: string, fieldColumns?: number): string {
   const field = designField(design);
   if (field.evaluation.problems.length > 0) {
     const problem = field.evaluation.problems[0];
     throw fieldError(source, { path: problem.field.split('.'), message: problem.reason });
   }
-  return designDrawingSvg(design, field, { title });
+  return designDrawingSvg(design, field, { title, fieldColumns });
 }
 
 /** A design file, or a run directory and an id in it. */

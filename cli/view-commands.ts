@@ -7,6 +7,7 @@ import type { CliIo } from './io.ts';
 import { type PlotCommandOptions, plotCommand } from './plot-command.ts';
 import { spreadsheetCommand, type SpreadsheetOptions } from './spreadsheet-command.ts';
 import { drawCommand } from './draw-command.ts';
+import { type ReportOptions, reportCommand } from './report-command.ts';
 
 export function registerViewCommands(program: Command, io: CliIo, setExit: (code: number) => void): void {
   program
@@ -46,5 +47,15 @@ export function registerViewCommands(program: Command, io: CliIo, setExit: (code
     )
     .action(async (source: string, rank: string | undefined, options: { out?: string }) => {
       setExit(await drawCommand(source, rank, options, io));
+    });
+
+  program
+    .command('report')
+    .description('one self-contained HTML file of a run: cautions, counts, interactive front, drawings, sensitivities')
+    .argument('<run>', 'run directory')
+    .option('--out <file>', 'where to write (default: report.html in the run)')
+    .option('--drawings <n>', 'most front designs drawn (default 40)')
+    .action(async (run: string, options: ReportOptions) => {
+      setExit(await reportCommand(run, options, io));
     });
 }

@@ -113,7 +113,7 @@ function isolinePath(
         // d3-contour's grid coordinates put sample k at k + 0.5.
         const x = toX(p[0] - 0.5);
         const y = toY(p[1] - 0.5);
-        parts.push(`${pen ? 'L' : 'M'}${n(x)},${n(y)}`);
+        parts.push(`${pen ? 'L' : 'M'}${Math.round(x * 10) / 10},${Math.round(y * 10) / 10}`);
         pen = true;
       }
     }
