@@ -8,6 +8,7 @@ import { type PlotCommandOptions, plotCommand } from './plot-command.ts';
 import { spreadsheetCommand, type SpreadsheetOptions } from './spreadsheet-command.ts';
 import { drawCommand } from './draw-command.ts';
 import { type ReportOptions, reportCommand } from './report-command.ts';
+import { compareCommand } from './compare-command.ts';
 
 export function registerViewCommands(program: Command, io: CliIo, setExit: (code: number) => void): void {
   program
@@ -57,5 +58,15 @@ export function registerViewCommands(program: Command, io: CliIo, setExit: (code
     .option('--drawings <n>', 'most front designs drawn (default 40)')
     .action(async (run: string, options: ReportOptions) => {
       setExit(await reportCommand(run, options, io));
+    });
+
+  program
+    .command('compare')
+    .description('designs side by side: every parameter and metric with units, differences marked')
+    .argument('<source>', 'run directory (then ranks), or the first design file')
+    .argument('[more...]', 'ranks in the run (1, r2, e3), or more design files')
+    .option('--svg <file>', 'also draw them side by side at one scale')
+    .action((source: string, more: string[], options: { svg?: string }) => {
+      setExit(compareCommand(source, more, options, io));
     });
 }

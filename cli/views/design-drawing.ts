@@ -64,6 +64,8 @@ export interface DrawingOptions {
   height?: number;
   /** Grid cells across the half-width for the field (default 70). */
   fieldColumns?: number;
+  /** Height of the picture above the floor, m (default: the highest point plus 15 % and 5 cm); one value for several drawings puts them at one scale. */
+  pictureTop?: number;
 }
 
 const TITLE_BLOCK_WIDTH = 300;
@@ -145,7 +147,7 @@ export function designDrawingSvg(design: Design, field: DesignField, options: Dr
     top = Math.max(top, toploadCentre + rise);
   }
   halfWidth *= 1.6;
-  const fieldTop = top * 1.15 + 0.05;
+  const fieldTop = Math.max(top * 1.15 + 0.05, options.pictureTop ?? 0);
   const drawingHeight = options.height ?? 640;
   const scale = drawingHeight / fieldTop;
   const drawingWidth = 2 * halfWidth * scale;
