@@ -1,7 +1,7 @@
 /**
  * The potential anywhere in the meridian half-plane from a solved surface density: the
  * superposition of the ring-charge potentials of every panel (refs §5.1, Smythe's ring potential
- * V = (q/4πε0)(2/π) K(m)/d₊, the kernel of assembly.ts) and, with the floor, of their images
+ * V = (q/4πε0)(2/π) K(m)/d₊, the kernel of assembly.ts; checks in refs §5.4) and, with the floor, of their images
  * (charge −σ at z → −z), so that the floor z = 0 is at 0 V exactly. Per volt at the top of the
  * winding when the density is the field solve's.
  *

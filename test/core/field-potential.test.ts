@@ -4,7 +4,7 @@ import { solveField } from '../../core/electrostatics/field-solve.ts';
 import { buildPanelLayout } from '../../core/electrostatics/panels.ts';
 import { VACUUM_PERMITTIVITY } from '../../core/electrostatics/ring-kernel.ts';
 
-describe('potentialAt (superposed ring-charge potentials of a solved density, refs §5.1)', () => {
+describe('potentialAt (superposed ring-charge potentials of a solved density, refs §5.1, §5.4)', () => {
   test("a uniformly charged ring's on-axis potential is q/(4πε0√(a² + z²)) (exact, Jackson ch. 1)", () => {
     const a = 0.4;
     const lambda = 2e-9; // C/m along the ring
