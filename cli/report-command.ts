@@ -138,6 +138,12 @@ export async function reportCommand(directory: string, options: ReportOptions, i
       values: names.map((p) => metrics.map((m) => summary.sensitivities?.[p]?.[m] ?? null)),
     };
   }
+  const sensitivityCsv = join(directory, 'sensitivity.csv');
+  let globalIndices: ReportData['globalIndices'] = null;
+  if (existsSync(sensitivityCsv)) {
+    const table = readRunTable(sensitivityCsv);
+    globalIndices = { header: table.header, rows: table.rows };
+  }
   if (frontRows.length === 0)
     notes.push(`No design met every constraint: see ${RUN_FILES.infeasible} and the bars above.`);
 
@@ -158,6 +164,7 @@ export async function reportCommand(directory: string, options: ReportOptions, i
     drawings,
     topThree,
     sensitivities,
+    globalIndices,
     notes,
   };
   const out = options.out ?? join(directory, 'report.html');

@@ -39,6 +39,8 @@ export interface ReportData {
   /** The ids of the top three candidates, drawn in their own section. */
   topThree: string[];
   sensitivities: { parameters: string[]; metrics: string[]; values: (number | null)[][] } | null;
+  /** The Sobol indices of `coilfront sensitivity … --out RUN` (sensitivity.csv), when the run has them. */
+  globalIndices: { header: string[]; rows: (number | string | null)[][] } | null;
   notes: string[];
 }
 
@@ -155,7 +157,9 @@ const REPORT_SCRIPT = `
       datasets: { candidates: data.candidates, front: data.front },
       layer: [
         { name: 'candidates', data: { name: 'candidates' }, mark: { type: 'point', filled: true, color: '#8795a1', opacity: 0.55 }, encoding: enc(22) },
-        { name: 'front', data: { name: 'front' }, mark: { type: 'point', filled: true, color: '#0b6e69', cursor: 'pointer', stroke: '#ffffff', strokeWidth: 1 }, encoding: enc(110) }
+        { name: 'front', data: { name: 'front' }, mark: { type: 'point', filled: true, color: '#0b6e69', cursor: 'pointer', stroke: '#ffffff', strokeWidth: 1 }, encoding: enc(110) },
+        { name: 'front_labels', data: { name: 'front' }, mark: { type: 'text', dx: 9, dy: -7, fontSize: 10, color: '#0b6e69' },
+          encoding: { x: { field: state.x, type: 'quantitative' }, y: { field: state.y, type: 'quantitative' }, text: { field: 'rank' } } }
       ]
     };
   }
@@ -183,6 +187,14 @@ const REPORT_SCRIPT = `
     var id = String(row.rank);
     detail.setAttribute('data-rank', id);
     detail.appendChild(el('h3', null, (data.front.indexOf(row) >= 0 ? 'front design ' : 'candidate ') + id));
+    var svg = data.drawings[id];
+    if (svg) {
+      var holder = el('div', { class: 'drawing' });
+      holder.innerHTML = svg;
+      detail.appendChild(holder);
+    } else {
+      detail.appendChild(el('p', { class: 'note' }, 'No drawing in this report for ' + id + ': npx coilfront draw ' + data.run + ' ' + id));
+    }
     var table = el('table', { class: 'key-figures' });
     var columns = data.keyColumns.filter(function (c) { return c in row; });
     columns.forEach(function (c) {
@@ -192,14 +204,6 @@ const REPORT_SCRIPT = `
       table.appendChild(tr);
     });
     detail.appendChild(table);
-    var svg = data.drawings[id];
-    if (svg) {
-      var holder = el('div', { class: 'drawing' });
-      holder.innerHTML = svg;
-      detail.appendChild(holder);
-    } else {
-      detail.appendChild(el('p', { class: 'note' }, 'No drawing in this report for ' + id + ': npx coilfront draw ' + data.run + ' ' + id));
-    }
     detail.appendChild(el('p', { class: 'note' }, 'Design file: npx coilfront show ' + data.run + ' ' + id));
   }
 
@@ -330,6 +334,25 @@ export function reportHtml(data: ReportData): string {
       }
       parts.push('</tr>');
     });
+    parts.push('</table></section>');
+  }
+  if (data.globalIndices) {
+    parts.push('<section id="global-indices"><h2>Global sensitivity (Sobol indices)</h2>');
+    parts.push(
+      '<p class="note">From sensitivity.csv in the run (npx coilfront sensitivity … --out RUN): S1 the share of a metric\'s variance a field explains alone, ST with its interactions, 95 % bootstrap intervals.</p>',
+    );
+    parts.push('<table><tr>');
+    for (const h of data.globalIndices.header) parts.push(`<th>${escapeHtml(h)}</th>`);
+    parts.push('</tr>');
+    for (const row of data.globalIndices.rows) {
+      parts.push('<tr>');
+      for (const cell of row) {
+        const text =
+          typeof cell === 'number' ? (Number.isInteger(cell) ? String(cell) : cell.toFixed(3)) : (cell ?? '—');
+        parts.push(`<td${typeof cell === 'number' ? '' : ' class="text"'}>${escapeHtml(String(text))}</td>`);
+      }
+      parts.push('</tr>');
+    }
     parts.push('</table></section>');
   }
   if (data.notes.length > 0) {

@@ -55,6 +55,26 @@ describe('coilfront report (the file)', () => {
     expect(html).not.toMatch(/<link[^>]+href=/i);
   });
 
+  it('adds the Sobol indices of a sensitivity analysis written into the run (sensitivity.csv)', async () => {
+    const sensitivity = await cli([
+      'sensitivity',
+      'test/fixtures/sweep-sets.yaml',
+      '--samples',
+      '8',
+      '--workers',
+      '0',
+      '--out',
+      run,
+    ]);
+    expect(sensitivity.code).toBe(0);
+    const withIndices = join(root, 'with-indices.html');
+    expect((await cli(['report', run, '--out', withIndices])).code).toBe(0);
+    const html = readFileSync(withIndices, 'utf8');
+    expect(html).toContain('id="global-indices"');
+    const fields = parseRunTable(readFileSync(join(run, 'sensitivity.csv'), 'utf8')).rows.map((r) => String(r[0]));
+    for (const field of fields) expect(html).toContain(`<td class="text">${field}</td>`);
+  }, 30_000);
+
   it('refuses a directory that is not a finished run, and an --out that is not .html, with exit 2', async () => {
     const missing = await cli(['report', join(root, 'nothing-here')]);
     expect(missing.code).toBe(2);
