@@ -406,6 +406,13 @@ function titleBlock(field: DesignField, title: string, x: number, y: number, sca
   lines.push(
     `<line x1="${n(x)}" y1="${n(cy - 4)}" x2="${n(x + 24)}" y2="${n(cy - 4)}" stroke="${DRAWING_COLOURS.equipotential}"/><text x="${n(x + 30)}" y="${n(cy)}">equipotentials, every 10 % of the top voltage</text>`,
   );
+  const peakVoltage = metrics.peak_voltage;
+  if (peakVoltage !== null && peakVoltage !== undefined && Number.isFinite(peakVoltage) && peakVoltage > 0) {
+    cy += 14;
+    lines.push(
+      `<text x="${n(x + 30)}" y="${n(cy)}">(${formatNumber(peakVoltage / 1e4, 3)} kV apart at the peak voltage)</text>`,
+    );
+  }
   cy += 15;
   lines.push(
     `<circle cx="${n(x + 12)}" cy="${n(cy - 4)}" r="4" fill="${DRAWING_COLOURS.peak}"/><text x="${n(x + 30)}" y="${n(cy)}">peak surface field on the topload</text>`,
