@@ -291,6 +291,9 @@ export function buildDesign(tree: NormalTree, basePath: string[] = []): DesignBu
       issues.push({ path: at('supply', 'ballast_impedance'), message: 'only with kind: ballasted' });
     }
     if (!tank) issues.push({ path: at('supply'), message: 'a supply needs a tank to charge' });
+    if (tree.driver !== undefined && text(section(tree, 'driver') ?? {}, 'kind') !== 'spark_gap') {
+      issues.push({ path: at('supply'), message: 'a supply charges the tank of a spark-gap driver only' });
+    }
     design.supply = spec;
   }
   const bank = section(tree, 'tank_bank');

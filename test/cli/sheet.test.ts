@@ -72,7 +72,7 @@ describe.each(examples)('the sheet of %s', (file) => {
     expect(find('form length to cut')?.value).toBeCloseTo(winding + 2 * margin, 12);
     const buy = (evaluation.metrics.wire_length ?? 0) * (1 + SPARE_FRACTION) + 2 * LEAD_LENGTH;
     expect(find('wire to buy')?.value).toBeCloseTo(buy, 9);
-    // copper: 8890 kg/m³ (IEC 60028 annealed copper) × π d²/4 × length
+    // copper: 8890 kg/m³ (the IEC 60028 figure for annealed copper, from memory) × π d²/4 × length
     const d = design.secondary.wire.bareDiameter;
     expect(find('copper to buy')?.value).toBeCloseTo(8890 * ((Math.PI * d * d) / 4) * buy, 9);
     // and the winding's own copper is the metric wire_mass with the same density
