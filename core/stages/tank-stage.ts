@@ -149,7 +149,7 @@ export function prepareTank(
     }
     if (chargeVoltage !== undefined) {
       metrics.supply_charge_voltage = chargeVoltage;
-      metrics.supply_charge_ratio = Number.isFinite(limit) ? chargeVoltage / limit : 0;
+      metrics.supply_charge_ratio = Number.isFinite(limit) ? chargeVoltage / limit : null;
     }
   }
   if (bank && layout) {

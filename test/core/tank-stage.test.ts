@@ -12,6 +12,7 @@ import { coupledModes, coupledStateAt } from '../../core/dynamics/coupled-modes.
 import { sparkGapShot } from '../../core/dynamics/spark-gap.ts';
 import type { CoupledCircuit } from '../../core/dynamics/circuit.ts';
 import { RECTIFIED_MEAN_FACTOR } from '../../core/supply/supply.ts';
+import { sphereGapAirDensity } from '../../core/breakdown/sphere-gap.ts';
 
 /** 0.06 A / (2π · 50 Hz · 15 kV), the supply's resonant capacitance (hand arithmetic). */
 const C_RES = 0.06 / (2 * Math.PI * 50 * 15e3);
@@ -157,5 +158,44 @@ describe('designs without supply, bank or safety gap', () => {
     }
     expect(result.metrics.energy_per_shot).toBeCloseTo(0.5 * 10e-9 * 12e3 * 12e3, 9);
     expect(result.metrics.tank_rms_current).toBeGreaterThan(0);
+  });
+});
+
+describe('a static gap on a ballasted supply (an invented bench case)', () => {
+  const design: Design = {
+    ...example,
+    tankBank: undefined,
+    safetyGap: { electrodes: 'rounded', fireAt: 1.25 },
+    supply: { kind: 'ballasted', voltage: 10e3, power: 1e3, frequency: 60, ballastImpedance: 200e3 },
+    tank: { capacitance: 20e-9, chargeVoltage: 12e3 },
+    driver: { kind: 'spark_gap', gap: 'static', breakRate: 120, quench: true },
+  };
+  const result = evaluateDesign(design);
+  const r = result.metrics;
+
+  test('the ballast sets the short-circuit current: C_res = (10 kV/200 kΩ)/(2π·60·10 kV) = 13.26 nF', () => {
+    expect(r.supply_resonant_capacitance).toBeCloseTo(0.05 / (2 * Math.PI * 60 * 10e3), 14);
+  });
+
+  test('the gap fires at its setting, and the supply could reach √2·10 kV/|1 − C/C_res|', () => {
+    const ratio = 20e-9 / (0.05 / (2 * Math.PI * 60 * 10e3));
+    expect(r.supply_charge_voltage).toBe(12e3);
+    expect(r.supply_charge_limit).toBeCloseTo((Math.SQRT2 * 10e3) / Math.abs(1 - ratio), 6);
+    expect(r.energy_per_shot).toBeCloseTo(0.5 * 20e-9 * 12e3 * 12e3, 9);
+    // the mean rectified current (2√2/π)·50 mA refills 20 nF to 12 kV this often
+    expect(r.supply_break_rate_estimate).toBeCloseTo((RECTIFIED_MEAN_FACTOR * 0.05) / (20e-9 * 12e3), 9);
+    // the rated VA is the given power, 1 kVA
+    expect(r.supply_load_fraction).toBeCloseTo((r.input_power ?? 0) / 1e3, 12);
+  });
+
+  test('rounded electrodes at 3 kV/mm (common practice) in air of relative density δ', () => {
+    expect(r.safety_gap_voltage).toBeCloseTo(15e3, 9);
+    expect(r.safety_gap_spacing).toBeCloseTo(15e3 / 3e6 / sphereGapAirDensity(200, 293.15), 12);
+  });
+
+  test('inside the resonant band the warning says so', () => {
+    const near = evaluateDesign({ ...design, tank: { capacitance: 13e-9, chargeVoltage: 12e3 } });
+    expect(near.warnings.map((w) => w.key)).toContain('supply_resonant_rise');
+    expect(result.warnings.map((w) => w.key)).not.toContain('supply_resonant_rise');
   });
 });
