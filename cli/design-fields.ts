@@ -20,6 +20,8 @@ export type FieldSpec =
        * the number is refused with the unit it probably meant. Defaults by kind (PLAUSIBLE_BY_KIND).
        */
       plausible?: readonly [number, number];
+      /** The word `auto` may stand for the field left out (the core chooses it). */
+      auto?: boolean;
       description: string;
     }
   | { type: 'enum'; values: readonly string[]; optional?: boolean; default?: string; description: string }
@@ -366,7 +368,9 @@ export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
         range: 'positive',
         integer: true,
         optional: true,
-        description: 'parts in series per string; chosen from the working voltage × voltage_margin when absent',
+        auto: true,
+        description:
+          'parts in series per string, or auto (the default): the fewest that hold the working voltage × voltage_margin',
       },
       parallel: {
         type: 'quantity',
@@ -374,7 +378,8 @@ export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
         range: 'positive',
         integer: true,
         optional: true,
-        description: "strings in parallel; chosen for the tank's capacitance when absent",
+        auto: true,
+        description: "strings in parallel, or auto (the default): the nearest to the tank's capacitance",
       },
       voltage_margin: {
         type: 'quantity',
