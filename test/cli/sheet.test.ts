@@ -177,3 +177,35 @@ describe('coilfront sheet', () => {
     expect(fromRun.out).toMatch(/^# Build sheet: candidate 1 of /);
   });
 });
+
+describe('a sweep over the parallel count of a bank with weak parts', () => {
+  test('keeps the banks that hold and lists the others as infeasible with the rating they exceed', async () => {
+    const root = mkdtempSync(join(tmpdir(), 'coilfront-bank-sweep-'));
+    const spec = parseYaml(readFileSync('test/fixtures/sweep-small.yaml', 'utf8'));
+    spec.design.tank = { capacitance: '30 nF', charge_voltage: '15 kV' };
+    spec.design.tank_bank = {
+      part_capacitance: '150 nF',
+      part_voltage_rating: '2 kV',
+      part_rms_current_rating: '4 A',
+      parallel: { from: 1, to: 6, integer: true },
+    };
+    spec.constraints = {};
+    spec.sweep.samples = 48;
+    const specFile = join(root, 'bank.yaml');
+    writeFileSync(specFile, stringifyYaml(spec));
+    const run = join(root, 'run');
+    expect((await cli(['sweep', specFile, '--out', run, '--workers', '0', '--quiet'])).code).toBe(0);
+    const read = (name: string) =>
+      parseCsv(readFileSync(join(run, name), 'utf8'), { columns: true }) as Record<string, string>[];
+    const kept = read('candidates.csv');
+    const refused = read('infeasible.csv').filter((row) => row.reason.includes('tank_bank.part_rms_current_rating'));
+    expect(kept.length).toBeGreaterThan(0);
+    expect(refused.length).toBeGreaterThan(0);
+    for (const row of kept) {
+      expect(Number(row.tank_bank_part_rms_current_A)).toBeLessThanOrEqual(4);
+      // 15 kV × 2 on 2 kV parts: 15 in series; the parallel count as sampled
+      expect(Number(row.tank_bank_series)).toBe(15);
+      expect(Number(row.tank_bank_capacitance_nF)).toBeCloseTo((Number(row['tank_bank.parallel']) * 150) / 15, 4);
+    }
+  });
+});
