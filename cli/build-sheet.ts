@@ -17,7 +17,7 @@ import { insulatedDiameter } from '../core/wire/insulation.ts';
 import { sphereGapAirDensity } from '../core/breakdown/sphere-gap.ts';
 import { BLEED_SAFE_VOLTAGE } from '../core/tank/bank.ts';
 import { RESONANT_BAND } from '../core/supply/supply.ts';
-import { toCsv } from './csv.ts';
+import { toCsv } from '../run/csv.ts';
 import { METRIC_DISPLAY, formatNumber, humanUnit } from './display-units.ts';
 import { SAFETY_CAUTIONS } from './safety.ts';
 
