@@ -600,7 +600,7 @@ export function buildSheet(
           source: 'computed: the primary’s inductance table tuned to the loaded frequency',
         });
         notes.push(
-          `Start at ${formatNumber(tap)} turns, the bare tuning. As the sparks lengthen the secondary's frequency falls: move the tap outward, towards ${formatNumber(loadedTap)} turns, a quarter turn at a time, and keep the position that gives the longest sparks (common practice: run the tank a few per cent below the bare secondary).`,
+          `Start at ${formatNumber(tap)} turns, the bare tuning. As the sparks lengthen the secondary's frequency falls: move the tap outward, towards ${formatNumber(loadedTap)} turns, a quarter turn at a time, and keep the position that gives the longest sparks${design.driver?.kind === 'spark_gap' ? ' (common practice: run the tank a few per cent below the bare secondary)' : ''}.`,
         );
       } else {
         if (beyondPrimary !== null) notes.push(`Note: ${beyondPrimary}.`, '');
