@@ -20,6 +20,8 @@ export type FieldSpec =
        * the number is refused with the unit it probably meant. Defaults by kind (PLAUSIBLE_BY_KIND).
        */
       plausible?: readonly [number, number];
+      /** The word `auto` may stand for the field left out (the core chooses it). */
+      auto?: boolean;
       description: string;
     }
   | { type: 'enum'; values: readonly string[]; optional?: boolean; default?: string; description: string }
@@ -284,6 +286,139 @@ export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
         range: 'nonnegative',
         optional: true,
       }),
+    },
+  },
+  // --- appended: the supply, a tank built from capacitor parts, the safety gap ---
+  supply: {
+    description: 'the supply transformer that charges the tank (spark-gap drivers)',
+    optional: true,
+    fields: {
+      kind: {
+        type: 'enum',
+        values: ['current_limited', 'ballasted'],
+        optional: true,
+        default: 'current_limited',
+        description:
+          'current_limited: the rated current is the short-circuit current; ballasted: a stiff transformer behind a ballast of ballast_impedance',
+      },
+      voltage: {
+        type: 'quantity',
+        kind: 'voltage',
+        range: 'positive',
+        plausible: [50, 1e6],
+        description: 'rated output voltage, rms',
+      },
+      current: {
+        type: 'quantity',
+        kind: 'current',
+        range: 'positive',
+        optional: true,
+        description: 'rated output current, rms (give current or power)',
+      },
+      power: {
+        type: 'quantity',
+        kind: 'power',
+        range: 'positive',
+        optional: true,
+        description: 'rated output in VA (give current or power)',
+      },
+      frequency: { type: 'quantity', kind: 'frequency', range: 'positive', description: 'mains frequency' },
+      ballast_impedance: {
+        type: 'quantity',
+        kind: 'resistance',
+        range: 'positive',
+        optional: true,
+        description: 'impedance of the ballast (kind: ballasted): short-circuit current = voltage / impedance',
+      },
+    },
+  },
+  tank_bank: {
+    description: 'the tank capacitor built from identical capacitor parts, series × parallel',
+    optional: true,
+    fields: {
+      part_capacitance: {
+        type: 'quantity',
+        kind: 'capacitance',
+        range: 'positive',
+        description: 'capacitance of one part',
+      },
+      part_voltage_rating: {
+        type: 'quantity',
+        kind: 'voltage',
+        range: 'positive',
+        plausible: [50, 1e6],
+        description: 'DC voltage rating of one part',
+      },
+      part_rms_current_rating: {
+        type: 'quantity',
+        kind: 'current',
+        range: 'positive',
+        description: 'rms current rating of one part',
+      },
+      part_peak_current_rating: {
+        type: 'quantity',
+        kind: 'current',
+        range: 'positive',
+        optional: true,
+        description: 'peak current rating of one part',
+      },
+      series: {
+        type: 'quantity',
+        kind: 'dimensionless',
+        range: 'positive',
+        integer: true,
+        optional: true,
+        auto: true,
+        description:
+          'parts in series per string, or auto (the default): the fewest that hold the working voltage × voltage_margin',
+      },
+      parallel: {
+        type: 'quantity',
+        kind: 'dimensionless',
+        range: 'positive',
+        integer: true,
+        optional: true,
+        auto: true,
+        description: "strings in parallel, or auto (the default): the nearest to the tank's capacitance",
+      },
+      voltage_margin: {
+        type: 'quantity',
+        kind: 'dimensionless',
+        range: 'positive',
+        optional: true,
+        default: 2,
+        description: 'part rating over the largest voltage across it (default 2, common practice)',
+      },
+      bleed_time: {
+        type: 'quantity',
+        kind: 'time',
+        range: 'positive',
+        optional: true,
+        default: 60,
+        description: 'time in which the bleeders bring the bank below 50 V (default 60 s, common practice)',
+      },
+    },
+  },
+  safety_gap: {
+    description: 'a safety gap across the tank, set to fire at a multiple of the charge voltage',
+    optional: true,
+    fields: {
+      electrodes: {
+        type: 'enum',
+        values: ['sphere', 'rounded'],
+        optional: true,
+        default: 'sphere',
+        description: 'sphere: from the sphere-gap table of IEC 60052; rounded: about 3 kV/mm (common practice)',
+      },
+      sphere_diameter: length('diameter of the spheres (electrodes: sphere)', { optional: true }),
+      fire_at: {
+        type: 'quantity',
+        kind: 'dimensionless',
+        range: 'positive',
+        optional: true,
+        default: 1.3,
+        description: 'firing voltage over the charge voltage (common practice 1.2–1.5)',
+      },
     },
   },
 };

@@ -654,6 +654,8 @@ function readSection(
   for (const [key, field] of Object.entries(fields)) {
     const value = input[key];
     const fieldPath = [...path, key];
+    // A field that may be chosen by the core (a tank bank's counts): the word auto is the same as leaving it out.
+    if (value === 'auto' && field.type === 'quantity' && field.auto) continue;
     if (value === undefined || value === null) {
       if (!field.optional) {
         state.issues.push({ path: fieldPath, message: `required: ${field.description}` });

@@ -49,6 +49,15 @@ export const METRIC_DISPLAY: Record<string, DisplayUnit> = {
   overall_height: unit('m', 1),
   spark_length: unit('m', 1),
   headroom_needed: unit('m', 1),
+  // --- appended: supply, tank bank, safety gap ---
+  supply_resonant_capacitance: unit('nF', 1e-9),
+  supply_charge_limit: unit('kV', 1e3),
+  supply_charge_voltage: unit('kV', 1e3),
+  tank_bank_capacitance: unit('nF', 1e-9),
+  tank_bank_part_voltage: unit('kV', 1e3),
+  tank_bank_bleeder_resistance: unit('Mohm', 1e6),
+  safety_gap_voltage: unit('kV', 1e3),
+  safety_gap_spacing: unit('mm', 1e-3),
 };
 
 /** Display unit of each kind of design quantity. */

@@ -17,6 +17,7 @@ function leaf(field: FieldSpec): Schema {
       if (field.range === 'positive' || field.range === 'fraction') number.exclusiveMinimum = 0;
       if (field.range === 'nonnegative') number.minimum = 0;
       if (field.range === 'fraction') number.maximum = 1;
+      if (field.auto) return { oneOf: [number, { const: 'auto' }], description: field.description };
       if (units.length === 0) return { ...number, description: field.description };
       return {
         description: `${field.description} (SI number, or a string with a unit: ${units.join(', ')})`,

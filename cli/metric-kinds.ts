@@ -20,6 +20,7 @@ const KIND_OF_SI_UNIT: Record<string, QuantityKind> = {
   '1/m': 'inverse_length',
   '': 'dimensionless',
   count: 'dimensionless',
+  A: 'current',
 };
 
 /** The kind of a metric's value, or undefined for an unknown metric. */

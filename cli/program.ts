@@ -20,6 +20,7 @@ import { demoCommand } from './demo-command.ts';
 import { refineCommand, type RefineCommandOptions } from './refine-command.ts';
 import { evolveCommand, type EvolveCommandOptions } from './evolve-command.ts';
 import { sensitivityCommand, type SensitivityOptions } from './sensitivity-command.ts';
+import { sheetCommand, type SheetCommandOptions } from './sheet-command.ts';
 import { stockCommand } from './stock-command.ts';
 import { retuneCommand } from './retune-command.ts';
 
@@ -211,6 +212,20 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .action(async (spec: string | undefined, given: Omit<SweepOptions, 'syncEvery'> & SyncEveryFlags) => {
       const { syncEvery, checkpointEvery, ...options } = given;
       exitCode = await sweepCommand(spec, { ...options, syncEvery: syncEvery ?? checkpointEvery ?? '5s' }, io);
+    });
+
+  program
+    .command('sheet')
+    .description('the build sheet of a design file or of a ranked candidate of a run (Markdown, and a parts CSV)')
+    .argument('<design-or-run>', 'design file (YAML or JSON) or run directory')
+    .argument('[rank]', 'with a run: rank in candidates.csv, a refined id r1, … or an evolved id e1, …')
+    .option('--out <file>', 'write the Markdown here (and the parts list beside it, NAME.parts.csv)')
+    .option('--parts <file>', 'write the parts list (CSV) here')
+    .option('--refined <rank>', 'a design of refined.csv (the same as rN)')
+    .option('--sample <index>', 'the design of a sample index (the sample_index column)')
+    .option('--reel-mass <mass>', 'copper on one reel of magnet wire (default 1 kg)')
+    .action((target: string, rank: string | undefined, options: SheetCommandOptions) => {
+      exitCode = sheetCommand(target, rank, options, io);
     });
 
   program

@@ -57,12 +57,12 @@ function readCsvRows(path: string): Record<string, string>[] {
   return parseCsv(readFileSync(path, 'utf8'), { columns: true, skip_empty_lines: true }) as Record<string, string>[];
 }
 
-export function showCommand(
+/** A design of a run, by rank (candidates.csv), stage id (r3, e3 / --refined 3) or --sample I: its normal tree and what it is. */
+export function runDesignTree(
   directory: string,
   rankText: string | undefined,
   options: { refined?: string; sample?: string },
-  io: CliIo,
-): number {
+): { tree: NormalTree; title: string } {
   const spec = loadRunSpec(directory);
   const space = new DesignSpace(spaceDefinitionOf(spec));
   if (options.sample !== undefined) {
@@ -71,13 +71,7 @@ export function showCommand(
       throw new InputError(
         `show --sample: expected a sample index 0 … ${spec.samples - 1} (the sample_index column), got '${options.sample}'`,
       );
-    io.out(
-      treeToYaml(space.designAt(index).tree, [
-        `sample ${index} of ${directory}`,
-        'each value in a practical unit that reads back exactly',
-      ]),
-    );
-    return 0;
+    return { tree: space.designAt(index).tree, title: `sample ${index} of ${directory}` };
   }
   // A stage design is known by its id: `show RUN r3` (refined.csv, or --refined 3), `show RUN e3` (evolved.csv).
   const stageId = rankText !== undefined ? /^([er])(\d+)$/.exec(rankText) : null;
@@ -110,26 +104,23 @@ export function showCommand(
       throw new InputError(
         `${directory}: there is no ${stage.word} design of rank ${rank} (${designs.length} in ${stage.csv})`,
       );
-    const sampled = space.designOf(entry.values);
-    io.out(
-      treeToYaml(sampled.tree, [
-        `${stage.word} design ${rank} of ${directory}`,
-        'each value in a practical unit that reads back exactly',
-      ]),
-    );
-    return 0;
+    return { tree: space.designOf(entry.values).tree, title: `${stage.word} design ${rank} of ${directory}` };
   }
   const rows = readCsvRows(join(directory, RUN_FILES.candidates));
   const row = rows.find((r) => r.rank === String(rank));
   if (!row)
     throw new InputError(`${directory}: there is no candidate of rank ${rank} (${rows.length} in candidates.csv)`);
   const index = Number(row.sample_index);
-  const sampled = space.designAt(index);
-  io.out(
-    treeToYaml(sampled.tree, [
-      `candidate ${rank} of ${directory} (sample ${index})`,
-      'each value in a practical unit that reads back exactly',
-    ]),
-  );
+  return { tree: space.designAt(index).tree, title: `candidate ${rank} of ${directory} (sample ${index})` };
+}
+
+export function showCommand(
+  directory: string,
+  rankText: string | undefined,
+  options: { refined?: string; sample?: string },
+  io: CliIo,
+): number {
+  const { tree, title } = runDesignTree(directory, rankText, options);
+  io.out(treeToYaml(tree, [title, 'each value in a practical unit that reads back exactly']));
   return 0;
 }

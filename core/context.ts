@@ -9,6 +9,9 @@ import type { Metrics } from './metrics.ts';
 import type { DesignWarning } from './outcome/warnings.ts';
 
 import type { DistributedWinding } from './resonator/design-resonator.ts';
+import type { CoupledCircuit } from './dynamics/circuit.ts';
+import type { SparkGapShot } from './dynamics/spark-gap.ts';
+import type { BankLayout } from './tank/bank.ts';
 
 /** A reason why a design cannot be built as given (an infeasible candidate, exit 2 in evaluate). */
 export interface DesignProblem {
@@ -89,4 +92,12 @@ export interface EvalContext {
   electrostatics?: ElectrostaticSolution;
   /** The distributed model of the winding, with the computed profile (core/resonator/design-resonator.ts). */
   resonator?: DistributedWinding;
+  /** The lumped circuit the dynamics simulated (core/stages/dynamics-stage.ts). */
+  circuit?: CoupledCircuit;
+  /** The spark-gap shot and its charge voltage, V (spark-gap drivers). */
+  sparkShot?: { shot: SparkGapShot; chargeVoltage: number };
+  /** Peak tank voltage of a solid-state burst, V. */
+  burstPeakTankVoltage?: number;
+  /** The tank bank's layout, when the design builds its tank from parts (core/stages/tank-stage.ts). */
+  tankBank?: BankLayout & { workingVoltage: number };
 }

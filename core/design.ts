@@ -143,7 +143,51 @@ export interface EnvironmentSpec {
   streamerLength?: number;
 }
 
+/** The supply transformer that charges the tank (spark-gap drivers), SI. */
+export interface SupplySpec {
+  /** current_limited: its rated current is its short-circuit current; ballasted: a stiff transformer behind a ballast. */
+  kind: 'current_limited' | 'ballasted';
+  /** Rated output voltage, V rms. */
+  voltage: number;
+  /** Rated output current, A rms (or give power). */
+  current?: number;
+  /** Rated output, VA (current = power / voltage when current is absent). */
+  power?: number;
+  /** Mains frequency, Hz. */
+  frequency: number;
+  /** Impedance of the ballast, Ω (ballasted only): short-circuit current = voltage / impedance. */
+  ballastImpedance?: number;
+}
+
+/** A tank capacitor built from identical parts, SI. */
+export interface TankBankSpec {
+  partCapacitance: number;
+  partVoltageRating: number;
+  partRmsCurrentRating: number;
+  partPeakCurrentRating?: number;
+  /** Parts in series per string; chosen from the working voltage when absent. */
+  series?: number;
+  /** Strings in parallel; chosen from the target capacitance when absent. */
+  parallel?: number;
+  /** Part rating over its working voltage (default 2, common practice). */
+  voltageMargin: number;
+  /** Time in which the bleeders bring the bank below 50 V, s. */
+  bleedTime: number;
+}
+
+/** A safety gap across the tank, set to fire at a multiple of the charge voltage, SI. */
+export interface SafetyGapSpec {
+  electrodes: 'sphere' | 'rounded';
+  /** Sphere diameter, m (spheres). */
+  sphereDiameter?: number;
+  /** Firing voltage over the charge voltage. */
+  fireAt: number;
+}
+
 export interface Design {
+  supply?: SupplySpec;
+  tankBank?: TankBankSpec;
+  safetyGap?: SafetyGapSpec;
   secondary?: SecondarySpec;
   topload?: ToploadSpec;
   primary?: PrimarySpec;

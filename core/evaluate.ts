@@ -15,6 +15,7 @@ import { electrostaticsStage } from './stages/electrostatics-stage.ts';
 import { primaryStage } from './stages/primary-stage.ts';
 import { dynamicsStage } from './stages/dynamics-stage.ts';
 import { outcomeStage } from './stages/outcome-stage.ts';
+import { prepareTank, tankStage } from './stages/tank-stage.ts';
 
 export interface Evaluation {
   metrics: Metrics;
@@ -56,6 +57,7 @@ const STAGES: ReadonlyArray<(context: EvalContext) => void> = [
   primaryStage,
   dynamicsStage,
   outcomeStage,
+  tankStage,
 ];
 
 /** Evaluates one design through every stage of the physics core. */
@@ -68,10 +70,15 @@ export function evaluateDesign(design: Design): Evaluation {
  * tap, the distributed model), for pictures of the design.
  */
 export function evaluateDesignInDetail(design: Design): { evaluation: Evaluation; context: EvalContext } {
-  const context: EvalContext = { design, metrics: emptyMetrics(), warnings: [], problems: [] };
+  const metrics = emptyMetrics();
+  const warnings: DesignWarning[] = [];
+  const problems: DesignProblem[] = [];
+  // The tank as built (a bank of parts, the charge the supply reaches) is what every stage sees.
+  const prepared = prepareTank(design, metrics, warnings, problems);
+  const context: EvalContext = { design: prepared.design, metrics, warnings, problems, tankBank: prepared.layout };
   for (const stage of STAGES) {
-    stage(context);
     if (context.problems.length > 0) break;
+    stage(context);
   }
   context.metrics.warning_count = context.warnings.length;
   const profile = context.resonator && context.problems.length === 0 ? profileTable(context.resonator) : null;

@@ -149,6 +149,61 @@ export const METRICS: readonly MetricInfo[] = [
     'where the steepest voltage gradient along the winding sits, as a fraction of its length from the base',
   ),
   metric('resonator_segments', 'count', 'segments of the distributed model of the winding, chosen by convergence'),
+  // --- appended: supply, tank bank, safety gap ---
+  metric(
+    'supply_resonant_capacitance',
+    'F',
+    "tank capacitance that resonates with the supply's reactance at mains frequency, I/(2πfV)",
+  ),
+  metric(
+    'supply_capacitance_ratio',
+    '',
+    "the tank's capacitance over the supply's resonant size (common practice: stay outside 0.7–1.4)",
+  ),
+  metric(
+    'supply_charge_limit',
+    'V',
+    'peak tank voltage the supply reaches without firing, √2·V / abs(1 − C/C_res) (lossless bound)',
+  ),
+  metric(
+    'supply_charge_voltage',
+    'V',
+    'tank voltage at firing as simulated: the static gap setting, or the charge a rotary gap reaches',
+  ),
+  metric('supply_charge_ratio', '', 'supply_charge_voltage over supply_charge_limit'),
+  metric(
+    'supply_break_rate_estimate',
+    'Hz',
+    "static gap: firings per second the supply's mean rectified current gives at the setting (estimate)",
+  ),
+  metric('supply_load_fraction', '', "input power over the supply's rated VA"),
+  metric('tank_bank_series', 'count', 'parts in series per string of the tank bank'),
+  metric('tank_bank_parallel', 'count', 'strings in parallel of the tank bank'),
+  metric('tank_bank_part_count', 'count', 'parts in the tank bank, series × parallel'),
+  metric('tank_bank_capacitance', 'F', "the bank's capacitance, parallel × part / series (the tank's capacitance)"),
+  metric('tank_bank_stored_energy', 'J', 'energy the bank holds at the working voltage, ½CV²'),
+  metric(
+    'tank_bank_part_voltage',
+    'V',
+    'largest voltage across one part (the tank voltage of either polarity over the series count)',
+  ),
+  metric('tank_peak_current', 'A', 'largest tank (primary) current of one shot'),
+  metric('tank_rms_current', 'A', 'rms tank current: √(break rate × ∫i1²dt over one shot)'),
+  metric('tank_voltage_reversal', '', 'largest reverse tank voltage of one shot over the charge voltage'),
+  metric('tank_bank_part_rms_current', 'A', 'rms current of one part, tank_rms_current over the parallel count'),
+  metric('tank_bank_part_peak_current', 'A', 'peak current of one part, tank_peak_current over the parallel count'),
+  metric(
+    'tank_bank_bleeder_resistance',
+    'ohm',
+    'largest bleeder per part that brings the bank below 50 V within the bleed time',
+  ),
+  metric('tank_bank_bleeder_power', 'W', 'dissipation of one bleeder at the working voltage'),
+  metric('safety_gap_voltage', 'V', 'voltage at which the safety gap is set to fire, fire_at × charge voltage'),
+  metric(
+    'safety_gap_spacing',
+    'm',
+    'safety-gap spacing for that voltage (sphere gaps: IEC 60052 table points from memory, air-density corrected)',
+  ),
 ];
 
 export const METRIC_KEYS: readonly string[] = METRICS.map((m) => m.key);

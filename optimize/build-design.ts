@@ -225,7 +225,7 @@ export function buildDesign(tree: NormalTree, basePath: string[] = []): DesignBu
       const gapResistance = num(driver, 'gap_resistance');
       if (gapResistance !== undefined) spec.gapResistance = gapResistance;
       if (!tank) issues.push({ path: at('tank'), message: 'required by the spark-gap driver' });
-      else if (num(tank, 'charge_voltage') === undefined) {
+      else if (num(tank, 'charge_voltage') === undefined && !(spec.gap === 'rotary' && tree.supply !== undefined)) {
         issues.push({ path: at('tank', 'charge_voltage'), message: 'required by the spark-gap driver' });
       }
     } else {
@@ -262,6 +262,77 @@ export function buildDesign(tree: NormalTree, basePath: string[] = []): DesignBu
     const streamer = num(environment, 'streamer_length');
     if (surface !== undefined) design.environment.surfaceFactor = surface;
     if (streamer !== undefined) design.environment.streamerLength = streamer;
+  }
+
+  // --- appended: the supply, the tank bank, the safety gap ---
+  const supply = section(tree, 'supply');
+  if (supply) {
+    const kind = (text(supply, 'kind') ?? 'current_limited') as 'current_limited' | 'ballasted';
+    const spec: Design['supply'] = {
+      kind,
+      voltage: num(supply, 'voltage') ?? Number.NaN,
+      frequency: num(supply, 'frequency') ?? Number.NaN,
+    };
+    const current = num(supply, 'current');
+    const power = num(supply, 'power');
+    const impedance = num(supply, 'ballast_impedance');
+    if (current !== undefined) spec.current = current;
+    if (power !== undefined) spec.power = power;
+    if (impedance !== undefined) spec.ballastImpedance = impedance;
+    if (current === undefined && power === undefined) {
+      issues.push({ path: at('supply', 'current'), message: 'required: give current or power' });
+    } else if (current !== undefined && power !== undefined) {
+      issues.push({ path: at('supply', 'power'), message: 'give current or power, not both' });
+    }
+    if (kind === 'ballasted' && impedance === undefined) {
+      issues.push({ path: at('supply', 'ballast_impedance'), message: 'required with kind: ballasted' });
+    }
+    if (kind !== 'ballasted' && impedance !== undefined) {
+      issues.push({ path: at('supply', 'ballast_impedance'), message: 'only with kind: ballasted' });
+    }
+    if (!tank) issues.push({ path: at('supply'), message: 'a supply needs a tank to charge' });
+    if (tree.driver !== undefined && text(section(tree, 'driver') ?? {}, 'kind') !== 'spark_gap') {
+      issues.push({ path: at('supply'), message: 'a supply charges the tank of a spark-gap driver only' });
+    }
+    design.supply = spec;
+  }
+  const bank = section(tree, 'tank_bank');
+  if (bank) {
+    if (!tank)
+      issues.push({ path: at('tank_bank'), message: 'a tank bank needs a tank section (its target capacitance)' });
+    const spec: Design['tankBank'] = {
+      partCapacitance: num(bank, 'part_capacitance') ?? Number.NaN,
+      partVoltageRating: num(bank, 'part_voltage_rating') ?? Number.NaN,
+      partRmsCurrentRating: num(bank, 'part_rms_current_rating') ?? Number.NaN,
+      voltageMargin: num(bank, 'voltage_margin') ?? 2,
+      bleedTime: num(bank, 'bleed_time') ?? 60,
+    };
+    const peak = num(bank, 'part_peak_current_rating');
+    const series = num(bank, 'series');
+    const parallel = num(bank, 'parallel');
+    if (peak !== undefined) spec.partPeakCurrentRating = peak;
+    if (series !== undefined) spec.series = series;
+    if (parallel !== undefined) spec.parallel = parallel;
+    design.tankBank = spec;
+  }
+  const gap = section(tree, 'safety_gap');
+  if (gap) {
+    const electrodes = (text(gap, 'electrodes') ?? 'sphere') as 'sphere' | 'rounded';
+    const spec: Design['safetyGap'] = { electrodes, fireAt: num(gap, 'fire_at') ?? 1.3 };
+    const diameter = num(gap, 'sphere_diameter');
+    if (diameter !== undefined) spec.sphereDiameter = diameter;
+    if (!(spec.fireAt > 1)) {
+      issues.push({
+        path: at('safety_gap', 'fire_at'),
+        message: 'must exceed 1 (common practice 1.2 to 1.5)',
+        byValue: true,
+      });
+    }
+    if (electrodes === 'sphere' && diameter === undefined) {
+      issues.push({ path: at('safety_gap', 'sphere_diameter'), message: 'required with electrodes: sphere' });
+    }
+    if (!tank) issues.push({ path: at('safety_gap'), message: 'a safety gap needs a tank' });
+    design.safetyGap = spec;
   }
   return { design: issues.length === 0 ? design : null, issues };
 }

@@ -43,6 +43,10 @@ export const WARNING_KEYS = [
   'primary_strike_risk',
   'strike_rail_needed',
   'resonator_unconverged',
+  // --- appended: supply and safety gap ---
+  'supply_resonant_rise',
+  'supply_overloaded',
+  'safety_gap_outside_table',
 ] as const;
 
 export type WarningKey = (typeof WARNING_KEYS)[number];

@@ -97,6 +97,7 @@ export function dynamicsStage(context: EvalContext): void {
       metrics.mode_frequency_high = frequencies[3];
     }
   }
+  context.circuit = circuit;
   if (!driver) return;
   if (driver.kind === 'spark_gap') runSparkGap(context, circuit, driver, coupling);
   else runSolidState(context, circuit, driver);
@@ -130,6 +131,7 @@ function runSparkGap(context: EvalContext, circuit: CoupledCircuit, driver: Spar
     });
     return;
   }
+  context.sparkShot = { shot, chargeVoltage };
   metrics.transfer_time = shot.transferTime;
   metrics.peak_voltage = shot.peakVoltage;
   if (shot.transferTime === null) {
@@ -188,6 +190,7 @@ function runSolidState(context: EvalContext, circuit: CoupledCircuit, driver: So
       message: `the topload reaches its breakout voltage ${formatQuantity(breakoutVoltage, 'V')} after ${formatNumber(burst.breakoutCycles ?? 0)} cycles (${formatQuantity(burst.breakoutTime, 's')}) of the ${formatQuantity(burst.endTime, 's')} burst; the peak voltage assumes it held`,
     });
   }
+  context.burstPeakTankVoltage = burst.peakTankVoltage;
   tankRatingCheck(context, burst.peakTankVoltage, 'the peak tank voltage in the burst');
 }
 

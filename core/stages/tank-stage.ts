@@ -1,0 +1,294 @@
+/**
+ * Stage of the evaluation pipeline (see core/evaluate.ts): the supply, the tank bank and the
+ * safety gap.
+ *
+ * Before the other stages, `prepareTank` turns the design's tank into the one that is built: with
+ * a `tankBank` its capacitance is the bank's (n_p·C_part/n_s, core/tank/bank.ts) and its rating the
+ * string's (n_s·V_part); with a `supply` and a rotary gap the charge voltage is the charge reached
+ * from the supply's current at the break rate (core/supply/supply.ts). The dynamics then simulate
+ * that tank. After them, `tankStage` takes the computed tank waveform (the spark-gap shot) for the
+ * currents each part carries, checks the parts' ratings (a bank that cannot meet them makes the
+ * design infeasible), sizes the bleeders, compares the shots with the supply's rating and sets the
+ * safety gap.
+ */
+import type { DesignProblem, EvalContext } from '../context.ts';
+import type { Design, SupplySpec } from '../design.ts';
+import type { Metrics } from '../metrics.ts';
+import type { DesignWarning } from '../outcome/warnings.ts';
+import { formatNumber, formatQuantity } from '../outcome/warnings.ts';
+import {
+  RESONANT_BAND,
+  resonantCapacitance,
+  rotaryChargeVoltage,
+  staticBreakRateEstimate,
+  type SupplySource,
+  unloadedChargePeak,
+} from '../supply/supply.ts';
+import { type BankLayout, bankLayout, bleederResistance, primaryCurrentSquaredIntegral } from '../tank/bank.ts';
+import { coupledModes, ModalMarch } from '../dynamics/coupled-modes.ts';
+import { electrodeGapSpacing, sphereGapAirDensity, sphereGapSpacing } from '../breakdown/sphere-gap.ts';
+
+/** The supply as a source behind its reactance: rated voltage, short-circuit current, frequency. */
+export function supplySource(supply: SupplySpec): SupplySource {
+  const rated = supply.current ?? (supply.power !== undefined ? supply.power / supply.voltage : Number.NaN);
+  const current =
+    supply.kind === 'ballasted' && supply.ballastImpedance !== undefined
+      ? supply.voltage / supply.ballastImpedance
+      : rated;
+  return { voltage: supply.voltage, current, frequency: supply.frequency };
+}
+
+/** The supply's rated output, VA. */
+export function supplyRating(supply: SupplySpec): number {
+  return supply.power ?? supply.voltage * (supply.current ?? Number.NaN);
+}
+
+/**
+ * The design with the tank as built (bank capacitance and rating, the charge the supply reaches);
+ * sets the supply and bank metrics known before the dynamics, pushes their problems and warnings.
+ */
+export function prepareTank(
+  design: Design,
+  metrics: Metrics,
+  warnings: DesignWarning[],
+  problems: DesignProblem[],
+): { design: Design; layout?: EvalContext['tankBank'] } {
+  const tank = design.tank;
+  if (!tank) return { design };
+  const driver = design.driver;
+  const spark = driver?.kind === 'spark_gap' ? driver : undefined;
+  const supply = spark ? design.supply : undefined;
+  const source = supply ? supplySource(supply) : undefined;
+  if (supply && source && !(source.current > 0)) {
+    problems.push({ field: 'supply.current', reason: 'give the rated current or power of the supply' });
+    return { design };
+  }
+  const rotary = spark?.gap === 'rotary';
+  const chargeAt = (capacitance: number): number | undefined => {
+    if (source && spark && rotary) {
+      const reached = rotaryChargeVoltage(source, capacitance, spark.breakRate);
+      return tank.chargeVoltage !== undefined ? Math.min(reached, tank.chargeVoltage) : reached;
+    }
+    return tank.chargeVoltage;
+  };
+
+  let capacitance = tank.capacitance;
+  let rating = tank.voltageRating;
+  let layout: EvalContext['tankBank'];
+  const bank = design.tankBank;
+  if (bank) {
+    const part = {
+      capacitance: bank.partCapacitance,
+      voltageRating: bank.partVoltageRating,
+      rmsCurrentRating: bank.partRmsCurrentRating,
+      peakCurrentRating: bank.partPeakCurrentRating,
+    };
+    const solid = driver?.kind === 'solid_state';
+    const working = solid ? undefined : chargeAt(tank.capacitance);
+    if (working === undefined && bank.series === undefined) {
+      problems.push({
+        field: 'tank_bank.series',
+        reason: solid
+          ? 'give the series count with a solid-state driver (its tank voltage is known only from the burst)'
+          : 'give the series count, or a charge voltage to choose it from',
+      });
+      return { design };
+    }
+    // The smallest series count whose parts hold margin × the charge the bank as built reaches (a
+    // rotary gap's charge depends on the bank's capacitance, so each count is tried in turn).
+    let first: BankLayout | null = null;
+    if (bank.series !== undefined) {
+      first = bankLayout(part, tank.capacitance, 0, bank.voltageMargin, bank.series, bank.parallel);
+    } else {
+      for (let series = 1; series <= MAX_AUTO_SERIES && first === null; series++) {
+        const trial = bankLayout(part, tank.capacitance, 0, bank.voltageMargin, series, bank.parallel);
+        const charge = chargeAt(trial.capacitance) ?? 0;
+        if (bank.voltageMargin * charge <= series * part.voltageRating * (1 + 1e-12)) first = trial;
+      }
+      if (first === null) {
+        problems.push({
+          field: 'tank_bank.part_voltage_rating',
+          reason: `no series count up to ${MAX_AUTO_SERIES} holds ${formatNumber(bank.voltageMargin)}× the charge voltage with ${formatQuantity(part.voltageRating, 'V')} parts`,
+        });
+        return { design };
+      }
+    }
+    const finalWorking = solid ? 0 : (chargeAt(first.capacitance) ?? 0);
+    capacitance = first.capacitance;
+    rating = first.series * part.voltageRating;
+    layout = { ...first, workingVoltage: finalWorking };
+    metrics.tank_bank_series = first.series;
+    metrics.tank_bank_parallel = first.parallel;
+    metrics.tank_bank_part_count = first.partCount;
+    metrics.tank_bank_capacitance = first.capacitance;
+  }
+
+  let chargeVoltage = chargeAt(capacitance);
+  if (supply && source && spark) {
+    const resonant = resonantCapacitance(source);
+    const ratio = capacitance / resonant;
+    const limit = unloadedChargePeak(source, capacitance);
+    metrics.supply_resonant_capacitance = resonant;
+    metrics.supply_capacitance_ratio = ratio;
+    metrics.supply_charge_limit = Number.isFinite(limit) ? limit : null;
+    if (ratio >= RESONANT_BAND[0] && ratio <= RESONANT_BAND[1]) {
+      warnings.push({
+        key: 'supply_resonant_rise',
+        message: `the tank (${formatQuantity(capacitance, 'F')}) is ${formatNumber(ratio)}× the supply's resonant size ${formatQuantity(resonant, 'F')}: resonant rise can drive the tank and the supply far beyond their ratings (common practice: stay outside ${RESONANT_BAND[0]}–${RESONANT_BAND[1]}×)`,
+      });
+    }
+    if (!rotary && chargeVoltage !== undefined) {
+      if (Number.isFinite(limit) && chargeVoltage > limit) {
+        problems.push({
+          field: 'tank.charge_voltage',
+          reason: `the supply charges the tank to at most ${formatQuantity(limit, 'V')} (√2·V/|1 − C/C_res|), below the static gap's firing voltage ${formatQuantity(chargeVoltage, 'V')}: the gap never fires`,
+        });
+        return { design };
+      }
+      metrics.supply_break_rate_estimate = staticBreakRateEstimate(source, capacitance, chargeVoltage);
+    }
+    if (chargeVoltage !== undefined) {
+      metrics.supply_charge_voltage = chargeVoltage;
+      metrics.supply_charge_ratio = Number.isFinite(limit) ? chargeVoltage / limit : null;
+    }
+  }
+  if (bank && layout) {
+    metrics.tank_bank_stored_energy =
+      chargeVoltage !== undefined ? 0.5 * capacitance * chargeVoltage * chargeVoltage : null;
+    if (chargeVoltage !== undefined) layout.workingVoltage = chargeVoltage;
+  }
+  if (chargeVoltage === undefined) chargeVoltage = tank.chargeVoltage;
+  const built = { ...tank, capacitance };
+  if (chargeVoltage !== undefined) built.chargeVoltage = chargeVoltage;
+  if (rating !== undefined) built.voltageRating = rating;
+  return { design: { ...design, tank: built }, layout };
+}
+
+/** Largest series count the automatic layout tries. */
+const MAX_AUTO_SERIES = 1000;
+
+/** Samples per upper-mode period in the scan for the peak current and the voltage reversal. */
+const SCAN_SAMPLES_PER_CYCLE = 256;
+const SCAN_MAX_SAMPLES = 200_000;
+
+/**
+ * After the dynamics: the tank's peak and rms current, the voltage reversal, the bank's per-part
+ * currents and bleeders against the part's ratings, the supply's load and the safety gap.
+ */
+export function tankStage(context: EvalContext): void {
+  const { design, metrics, warnings, problems } = context;
+  const driver = design.driver;
+  const tank = design.tank;
+  if (!tank || !driver) return;
+
+  // --- the tank waveform of one spark-gap shot ---
+  let peakCurrent: number | null = null;
+  let rmsCurrent: number | null = null;
+  let largestVoltage: number | null = null;
+  if (driver.kind === 'spark_gap' && context.circuit && context.sparkShot) {
+    const { shot, chargeVoltage } = context.sparkShot;
+    const modes = coupledModes(context.circuit, chargeVoltage);
+    if (modes !== null) {
+      const end = shot.quenchTime ?? Number.POSITIVE_INFINITY;
+      const squared = primaryCurrentSquaredIntegral(modes, end);
+      if (Number.isFinite(squared) && squared >= 0) rmsCurrent = Math.sqrt(squared * driver.breakRate);
+      const step = 1 / (shot.modeFrequencyHigh * SCAN_SAMPLES_PER_CYCLE);
+      const beat = 1 / (shot.modeFrequencyHigh - shot.modeFrequencyLow);
+      const scanEnd = Math.min(shot.quenchTime ?? 2 * beat, SCAN_MAX_SAMPLES * step);
+      const march = new ModalMarch(modes, 0, step);
+      let current = 0;
+      let lowest = chargeVoltage;
+      let highest = chargeVoltage;
+      for (let n = 0; n * step <= scanEnd; n++) {
+        current = Math.max(current, Math.abs(march.state[2]));
+        lowest = Math.min(lowest, march.state[0]);
+        highest = Math.max(highest, march.state[0]);
+        march.advance();
+      }
+      peakCurrent = current;
+      largestVoltage = Math.max(highest, -lowest);
+      metrics.tank_peak_current = current;
+      metrics.tank_rms_current = rmsCurrent;
+      metrics.tank_voltage_reversal = chargeVoltage > 0 ? Math.max(0, -lowest) / chargeVoltage : null;
+    }
+  }
+
+  // --- the bank's parts ---
+  const bank = design.tankBank;
+  const layout = context.tankBank;
+  if (bank && layout) {
+    const working =
+      driver.kind === 'solid_state'
+        ? (context.burstPeakTankVoltage ?? 0)
+        : Math.max(largestVoltage ?? 0, layout.workingVoltage);
+    const perPart = working / layout.series;
+    metrics.tank_bank_part_voltage = working > 0 ? perPart : null;
+    if (driver.kind === 'solid_state' && working > 0) {
+      metrics.tank_bank_stored_energy = 0.5 * layout.capacitance * working * working;
+    }
+    if (working > 0 && perPart * bank.voltageMargin > bank.partVoltageRating * (1 + 1e-12)) {
+      problems.push({
+        field: 'tank_bank.series',
+        reason: `each of the ${layout.series} parts in series sees ${formatQuantity(perPart, 'V')}; ${formatNumber(bank.voltageMargin)}× that exceeds its ${formatQuantity(bank.partVoltageRating, 'V')} rating`,
+      });
+    }
+    if (rmsCurrent !== null) {
+      const partRms = rmsCurrent / layout.parallel;
+      metrics.tank_bank_part_rms_current = partRms;
+      if (partRms > bank.partRmsCurrentRating) {
+        problems.push({
+          field: 'tank_bank.part_rms_current_rating',
+          reason: `each part carries ${formatQuantity(partRms, 'A')} rms (${layout.parallel} strings share ${formatQuantity(rmsCurrent, 'A')}), above its ${formatQuantity(bank.partRmsCurrentRating, 'A')} rating`,
+        });
+      }
+    }
+    if (peakCurrent !== null) {
+      const partPeak = peakCurrent / layout.parallel;
+      metrics.tank_bank_part_peak_current = partPeak;
+      if (bank.partPeakCurrentRating !== undefined && partPeak > bank.partPeakCurrentRating) {
+        problems.push({
+          field: 'tank_bank.part_peak_current_rating',
+          reason: `each part carries ${formatQuantity(partPeak, 'A')} peak (${layout.parallel} strings share ${formatQuantity(peakCurrent, 'A')}), above its ${formatQuantity(bank.partPeakCurrentRating, 'A')} rating`,
+        });
+      }
+    }
+    const bleeder = bleederResistance(bank.partCapacitance, working, bank.bleedTime);
+    metrics.tank_bank_bleeder_resistance = bleeder;
+    metrics.tank_bank_bleeder_power = bleeder !== null ? (perPart * perPart) / bleeder : null;
+  }
+
+  // --- the supply's load ---
+  if (design.supply && driver.kind === 'spark_gap' && metrics.input_power !== null) {
+    const rating = supplyRating(design.supply);
+    if (rating > 0) {
+      const load = metrics.input_power / rating;
+      metrics.supply_load_fraction = load;
+      if (load > 1) {
+        warnings.push({
+          key: 'supply_overloaded',
+          message: `the shots take ${formatQuantity(metrics.input_power, 'W')}, ${formatNumber(load)}× the supply's ${formatQuantity(rating, 'VA')} rating`,
+        });
+      }
+    }
+  }
+
+  // --- the safety gap ---
+  const gap = design.safetyGap;
+  const charge = driver.kind === 'spark_gap' ? tank.chargeVoltage : context.burstPeakTankVoltage;
+  if (gap && charge !== undefined && charge > 0) {
+    const firing = gap.fireAt * charge;
+    const density = sphereGapAirDensity(design.environment.altitude, design.environment.temperature);
+    const spacing =
+      gap.electrodes === 'sphere' && gap.sphereDiameter !== undefined
+        ? sphereGapSpacing(gap.sphereDiameter, firing, density)
+        : electrodeGapSpacing(firing, density);
+    metrics.safety_gap_voltage = firing;
+    metrics.safety_gap_spacing = spacing;
+    if (spacing === null) {
+      warnings.push({
+        key: 'safety_gap_outside_table',
+        message: `no spacing for ${formatQuantity(firing, 'V')} with ${formatQuantity(gap.sphereDiameter ?? 0, 'm')} spheres within the sphere-gap table: choose other spheres`,
+      });
+    }
+  }
+}
