@@ -15,6 +15,7 @@ import { electrostaticsStage } from './stages/electrostatics-stage.ts';
 import { primaryStage } from './stages/primary-stage.ts';
 import { dynamicsStage } from './stages/dynamics-stage.ts';
 import { outcomeStage } from './stages/outcome-stage.ts';
+import { resonatorStage } from './stages/resonator-stage.ts';
 
 export interface Evaluation {
   metrics: Metrics;
@@ -53,6 +54,7 @@ function profileTable(resonator: NonNullable<EvalContext['resonator']>): Winding
 const STAGES: ReadonlyArray<(context: EvalContext) => void> = [
   secondaryStage,
   electrostaticsStage,
+  resonatorStage,
   primaryStage,
   dynamicsStage,
   outcomeStage,

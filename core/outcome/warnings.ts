@@ -43,6 +43,9 @@ export const WARNING_KEYS = [
   'primary_strike_risk',
   'strike_rail_needed',
   'resonator_unconverged',
+  // --- appended: three-coil systems ---
+  'resonator_too_close',
+  'three_coil_not_simulated',
 ] as const;
 
 export type WarningKey = (typeof WARNING_KEYS)[number];
