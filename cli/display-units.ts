@@ -49,6 +49,21 @@ export const METRIC_DISPLAY: Record<string, DisplayUnit> = {
   overall_height: unit('m', 1),
   spark_length: unit('m', 1),
   headroom_needed: unit('m', 1),
+  // --- appended: three-coil systems ---
+  resonator_effective_inductance: unit('mH', 1e-3),
+  resonator_effective_capacitance: unit('pF', 1e-12),
+  resonator_frequency: unit('kHz', 1e3),
+  line_capacitance: unit('pF', 1e-12),
+  line_inductance: unit('uH', 1e-6),
+  junction_capacitance: unit('pF', 1e-12),
+  three_coil_mode_frequency_low: unit('kHz', 1e3),
+  three_coil_mode_frequency_mid: unit('kHz', 1e3),
+  three_coil_mode_frequency_high: unit('kHz', 1e3),
+  resonator_transfer_time: unit('us', 1e-6),
+  resonator_peak_voltage: unit('kV', 1e3),
+  junction_peak_voltage: unit('kV', 1e3),
+  resonator_ac_resistance: unit('ohm', 1),
+  resonator_separation_needed: unit('m', 1),
 };
 
 /** Display unit of each kind of design quantity. */
