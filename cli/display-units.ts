@@ -64,6 +64,7 @@ export const METRIC_DISPLAY: Record<string, DisplayUnit> = {
   junction_peak_voltage: unit('kV', 1e3),
   resonator_ac_resistance: unit('ohm', 1),
   resonator_separation_needed: unit('m', 1),
+  line_length_for_ratios: unit('m', 1),
 };
 
 /** Display unit of each kind of design quantity. */

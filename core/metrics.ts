@@ -190,6 +190,12 @@ export const METRICS: readonly MetricInfo[] = [
     "series resistance of the resonator's loop: its wire's AC resistance for its mode's current plus the line's conductor",
   ),
   metric(
+    'line_length_for_ratios',
+    'm',
+    'the line length (0.1 to 4 times the given one, same conductor and height) that, with its own best tap, brings the modes nearest 1:2:3',
+  ),
+  metric('three_coil_ratio_error_at_that_length', '', 'three_coil_ratio_error with that line length and its tap'),
+  metric(
     'resonator_separation_needed',
     'm',
     'axis distance beyond which the secondary–resonator coupling stays below 1 % of the primary coupling',

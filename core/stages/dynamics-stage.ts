@@ -28,6 +28,7 @@ import {
 } from '../dynamics/three-coil.ts';
 import { threeCoilRatioError } from '../three-coil/tuning.ts';
 import { separationForCoupling } from '../three-coil/parallel-mutual.ts';
+import { toploadOuterRadius } from '../three-coil/clearance.ts';
 
 /** Equivalent resistance of a conducting spark gap when the design gives none, Ω (common practice, refs §8.4 [C]: of order 1 Ω). */
 export const DEFAULT_GAP_RESISTANCE = 1;
@@ -221,6 +222,23 @@ function runThreeCoil(context: EvalContext, two: CoupledCircuit, coupling: numbe
   const spec = design.resonator;
   if (!parts || !spec) return;
   const winding = parts.winding;
+  // The resonator must stand clear of the primary as well as of the secondary.
+  const primary = context.primary;
+  const resonatorOuter = Math.max(
+    winding.radius + winding.overallDiameter / 2,
+    design.topload ? toploadOuterRadius(design.topload) : 0,
+  );
+  if (primary) {
+    let primaryOuter = 0;
+    for (const ring of primary.rings) primaryOuter = Math.max(primaryOuter, ring.r + primary.conductorRadius);
+    if (!(parts.axisSpacing > primaryOuter + resonatorOuter)) {
+      context.problems.push({
+        field: spec.axisSpacing !== undefined ? 'resonator.axis_spacing' : 'resonator.line_length',
+        reason: `the resonator (outer radius ${formatQuantity(resonatorOuter, 'm')}) at ${formatQuantity(parts.axisSpacing, 'm')} from the secondary's axis overlaps the primary (outer radius ${formatQuantity(primaryOuter, 'm')})`,
+      });
+      return;
+    }
+  }
   const resistivity = copperResistivity(design.environment.temperature);
   const r3 =
     solenoidAcResistance(

@@ -34,7 +34,7 @@ import { couplingCoefficient, ringMutualInductances, tappedMutualInductance } fr
 import { ringToSheetMutualInductance } from '../inductance/sheet-mutual.ts';
 import { segmentMutuals } from '../resonator/design-resonator.ts';
 import { effectiveMutualInductance } from '../resonator/resonator.ts';
-import { threeCoilTap } from '../three-coil/tuning.ts';
+import { bestLineLength, threeCoilRatioError, threeCoilTap } from '../three-coil/tuning.ts';
 import type { Ring } from '../context.ts';
 
 /** A length in millimetres for messages. */
@@ -130,26 +130,40 @@ export function primaryStage(context: EvalContext): void {
   }
   // A three-coil system: the tap that brings the three modes nearest 1:2:3 (three-coil/tuning.ts).
   const threeCoil = context.threeCoil;
-  if (threeCoil && secondary && spec.tapTurns === undefined && tankCapacitance !== undefined) {
+  const line = design.resonator?.line;
+  if (threeCoil && line && secondary && tankCapacitance !== undefined) {
     const perRing = ringEffectiveMutuals(context, rings);
     const lowest = Math.min(1, spec.turns);
-    const best = threeCoilTap(lowest, spec.turns, (tap) => ({
+    // The lossless circuit at a tap, with the line scaled to a length (per-length values fixed).
+    const circuitAt = (tap: number, length: number) => ({
       primaryInductance: primaryInductanceAtTap(table, tap),
       primaryCapacitance: tankCapacitance,
       primaryResistance: 0,
       driverInductance: secondaryInductance,
       driverResistance: 0,
       mutualInductance: perRing.reduce((sum, m, i) => sum + Math.min(1, Math.max(0, tap - i)) * m, 0),
-      junctionCapacitance: threeCoil.junctionCapacitance,
-      resonatorInductance: threeCoil.inductance + threeCoil.lineInductance,
+      junctionCapacitance: threeCoil.driverCapacitance + (threeCoil.lineCapacitance * length) / line.length,
+      resonatorInductance: threeCoil.inductance + (threeCoil.lineInductance * length) / line.length,
       resonatorResistance: 0,
       resonatorCapacitance: threeCoil.capacitance,
-    }));
-    if (best) {
-      tapTurns = best.tapTurns;
-      reportedTap = tapTurns;
-      untunedRange = null;
+    });
+    if (spec.tapTurns === undefined) {
+      const best = threeCoilTap(lowest, spec.turns, (tap) => circuitAt(tap, line.length));
+      if (best) {
+        tapTurns = best.tapTurns;
+        reportedTap = tapTurns;
+        untunedRange = null;
+      }
     }
+    // The line length (0.1 to 4 times the given one) that, with its own best tap, comes nearest.
+    const fixedTap = spec.tapTurns;
+    const lineBest = bestLineLength(0.1 * line.length, 4 * line.length, (length) =>
+      fixedTap !== undefined
+        ? threeCoilRatioError(circuitAt(fixedTap, length))
+        : (threeCoilTap(lowest, spec.turns, (tap) => circuitAt(tap, length))?.ratioError ?? null),
+    );
+    metrics.line_length_for_ratios = lineBest?.length ?? null;
+    metrics.three_coil_ratio_error_at_that_length = lineBest?.ratioError ?? null;
   }
   const inductance = primaryInductanceAtTap(table, tapTurns);
 

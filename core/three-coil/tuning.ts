@@ -59,3 +59,42 @@ export function threeCoilTap(
   }
   return { tapTurns: bestTap, ratioError: bestError };
 }
+
+/**
+ * The line length in [shortest, longest] whose ratio error (at its own best tap, as `errorAt`
+ * gives it) is smallest: a scan of 40 log-spaced lengths, then golden-section refinement; null when
+ * no length gives modes.
+ */
+export function bestLineLength(
+  shortest: number,
+  longest: number,
+  errorAt: (length: number) => number | null,
+): { length: number; ratioError: number } | null {
+  if (!(shortest > 0) || !(longest > shortest)) return null;
+  const error = (length: number) => errorAt(length) ?? Number.POSITIVE_INFINITY;
+  const count = 40;
+  const factor = (longest / shortest) ** (1 / count);
+  let bestLength = shortest;
+  let bestError = error(shortest);
+  for (let k = 1; k <= count; k++) {
+    const length = shortest * factor ** k;
+    const value = error(length);
+    if (value < bestError) {
+      bestError = value;
+      bestLength = length;
+    }
+  }
+  if (!Number.isFinite(bestError)) return null;
+  const ratio = (Math.sqrt(5) - 1) / 2;
+  let low = Math.log(Math.max(shortest, bestLength / factor));
+  let high = Math.log(Math.min(longest, bestLength * factor));
+  for (let iteration = 0; iteration < 30; iteration++) {
+    const a = high - ratio * (high - low);
+    const b = low + ratio * (high - low);
+    if (error(Math.exp(a)) < error(Math.exp(b))) high = b;
+    else low = a;
+  }
+  const refined = Math.exp(0.5 * (low + high));
+  const value = error(refined);
+  return value < bestError ? { length: refined, ratioError: value } : { length: bestLength, ratioError: bestError };
+}

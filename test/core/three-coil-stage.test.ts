@@ -121,3 +121,50 @@ describe('the three-coil example through the pipeline', () => {
     expect(Math.abs((metrics.resonator_transfer_time ?? 0) / bestTime - 1)).toBeLessThan(0.01);
   });
 });
+
+describe('bad three-coil geometry is a design problem naming the field', () => {
+  const { design } = loadDesignFile(here('examples/three-coil-exhibit.yaml'));
+  const resonator = design.resonator;
+  if (!resonator) throw new Error('the example has a resonator');
+
+  test('a resonator overlapping the primary (axis spacing 0.7 m) names resonator.axis_spacing', () => {
+    const { problems } = evaluateDesign({ ...design, resonator: { ...resonator, axisSpacing: 0.7 } });
+    expect(problems.map((p) => p.field)).toEqual(['resonator.axis_spacing']);
+    expect(problems[0].reason).toContain('overlaps the primary');
+  });
+
+  test('a resonator overlapping the secondary names resonator.axis_spacing', () => {
+    const { problems } = evaluateDesign({ ...design, resonator: { ...resonator, axisSpacing: 0.3 } });
+    expect(problems.map((p) => p.field)).toEqual(['resonator.axis_spacing']);
+    expect(problems[0].reason).toContain('overlaps the secondary');
+  });
+
+  test('a line lying on the floor names resonator.line_height', () => {
+    const { problems } = evaluateDesign({
+      ...design,
+      resonator: { ...resonator, line: { ...resonator.line, height: 0.01 } },
+    });
+    expect(problems.map((p) => p.field)).toEqual(['resonator.line_height']);
+  });
+
+  test('a resonator closer than the separation it needs keeps a warning, not a problem', () => {
+    // a small sphere instead of the toroid, so that the resonator may stand close
+    const { problems, warnings, metrics } = evaluateDesign({
+      ...design,
+      topload: { shape: 'sphere', diameter: 0.2, heightAboveWinding: 0.15 },
+      resonator: { ...resonator, axisSpacing: 0.6 },
+    });
+    expect(problems).toEqual([]);
+    expect(metrics.resonator_separation_needed ?? 0).toBeGreaterThan(0.6);
+    expect(warnings.map((w) => w.key)).toContain('resonator_too_close');
+  });
+
+  test('the tap chosen brings the example within 0.01 of 1:2:3, and the best line length does no worse', () => {
+    const { metrics } = evaluateDesign(design);
+    expect(metrics.three_coil_ratio_error ?? 1).toBeLessThan(0.01);
+    expect(metrics.three_coil_ratio_error_at_that_length ?? 1).toBeLessThanOrEqual(
+      (metrics.three_coil_ratio_error ?? 0) * (1 + 1e-9) + 1e-12,
+    );
+    expect(metrics.line_length_for_ratios ?? 0).toBeGreaterThan(0);
+  });
+});
