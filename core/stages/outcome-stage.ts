@@ -47,6 +47,9 @@ export function outcomeStage(context: EvalContext): void {
     metrics.loaded_resonant_frequency = context.resonator
       ? context.resonator.loadedFundamental(streamer)
       : loadedResonantFrequency(secondary.inductance, electrostatics.totalCapacitance, streamer);
+    // three coils: the streamers load the resonator's top, not the secondary's
+    const resonatorModel = context.threeCoil?.distributed;
+    if (context.threeCoil) metrics.loaded_resonant_frequency = resonatorModel?.loadedFundamental(streamer) ?? null;
   }
   if (peak === null || !(peak > 0)) return;
 

@@ -103,6 +103,8 @@ export function resonatorStage(context: EvalContext): void {
   };
   context.threeCoil = parts;
   for (const key of TOPLOAD_METRICS) metrics[key] = sub.metrics[key];
+  // streamer loading (a given streamer length) acts on the resonator's top
+  metrics.loaded_resonant_frequency = sub.metrics.loaded_resonant_frequency;
   metrics.line_capacitance = cLine;
   metrics.line_inductance = lLine;
   metrics.junction_capacitance = parts.junctionCapacitance;
