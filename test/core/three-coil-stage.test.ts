@@ -11,7 +11,11 @@ import { loadDesignFile } from '../../cli/load-design.ts';
 import { evaluateDesign } from '../../core/evaluate.ts';
 import { coaxialLoopMutualInductance } from '../../core/inductance/coaxial-loops.ts';
 import { lineCapacitance, lineInductance } from '../../core/three-coil/line.ts';
-import { parallelLoopMutualInductance } from '../../core/three-coil/parallel-mutual.ts';
+import {
+  parallelLoopMutualInductance,
+  parallelSolenoidMutualInductance,
+  separationForCoupling,
+} from '../../core/three-coil/parallel-mutual.ts';
 
 const here = (path: string): string => fileURLToPath(new URL(`../../${path}`, import.meta.url));
 
@@ -62,6 +66,28 @@ describe('parallelLoopMutualInductance', () => {
     const d = 40;
     const dipole = (-4e-7 * Math.PI * Math.PI * a * a * b * b) / (4 * d ** 3);
     expect(Math.abs(parallelLoopMutualInductance(a, b, d, 0) / dipole - 1)).toBeLessThan(1e-3);
+  });
+});
+
+describe('separationForCoupling', () => {
+  // two short coils at the same height: far apart they are dipoles of moment N π r² side by side,
+  // M = −μ0 N1 N2 π r1² r2² / (4 d³) (standard magnetostatics), so k(d) ∝ d⁻³
+  const one = { x: 0, radius: 0.1, bottomZ: 1, topZ: 1.02, turns: 20, inductance: 1e-4 };
+  const other = { x: 0, radius: 0.05, bottomZ: 1, topZ: 1.02, turns: 30, inductance: 5e-5 };
+  test('equals the dipole distance where the coupling is small (1 %)', () => {
+    const target = 1e-5;
+    const dipole =
+      ((4e-7 * Math.PI * 20 * 30 * Math.PI * 0.01 * 0.0025) / (4 * target * Math.sqrt(1e-4 * 5e-5))) ** (1 / 3);
+    const found = separationForCoupling(one, other, target);
+    expect(found).not.toBeNull();
+    expect(Math.abs((found ?? 0) / dipole - 1)).toBeLessThan(0.01);
+  });
+  test('the solenoid mutual with 8 filaments per winding agrees with 32 at a metre (0.5 %)', () => {
+    const tall = { x: 0, radius: 0.2, bottomZ: 0.25, topZ: 0.55, turns: 250 };
+    const resonator = { x: 1, radius: 0.125, bottomZ: 0.3, topZ: 1.0, turns: 450 };
+    const coarse = parallelSolenoidMutualInductance(tall, resonator, 8);
+    const fine = parallelSolenoidMutualInductance(tall, resonator, 32);
+    expect(Math.abs(coarse / fine - 1)).toBeLessThan(0.005);
   });
 });
 
