@@ -45,7 +45,6 @@ export const WARNING_KEYS = [
   'resonator_unconverged',
   // --- appended: three-coil systems ---
   'resonator_too_close',
-  'three_coil_not_simulated',
 ] as const;
 
 export type WarningKey = (typeof WARNING_KEYS)[number];

@@ -19,6 +19,7 @@ import { sparkGapShot } from '../dynamics/spark-gap.ts';
 import { solidStateBurst } from '../dynamics/solid-state.ts';
 import { formatNumber, formatQuantity, SPARK_GAP_COUPLING_LIMIT, TANK_RATING_FACTOR } from '../outcome/warnings.ts';
 import { loopModes } from '../dynamics/loop-modes.ts';
+import { threeCoilBurst } from '../dynamics/three-coil-burst.ts';
 import {
   chargedTankState,
   ringingFrequencies,
@@ -295,11 +296,7 @@ function runThreeCoil(context: EvalContext, two: CoupledCircuit, coupling: numbe
   const driver = design.driver;
   if (!driver) return;
   if (driver.kind !== 'spark_gap') {
-    warnings.push({
-      key: 'three_coil_not_simulated',
-      message:
-        'a solid-state driver of a three-coil system is not simulated: energy per burst and peak voltage not computed',
-    });
+    runThreeCoilBurst(context, circuit, driver, frequencies ? frequencies[2] : null);
     return;
   }
   if (coupling > THREE_COIL_COUPLING_LIMIT) {
@@ -333,6 +330,57 @@ function runThreeCoil(context: EvalContext, two: CoupledCircuit, coupling: numbe
   metrics.resonator_peak_voltage = shot.peakVoltage;
   metrics.peak_voltage = shot.peakVoltage;
   metrics.junction_peak_voltage = shot.junctionPeakVoltage;
+}
+
+/** A solid-state burst of a three-coil system (three-coil-burst.ts), with the two-coil burst's rules and warnings. */
+function runThreeCoilBurst(
+  context: EvalContext,
+  circuit: ThreeCoilCircuit,
+  driver: SolidStateDriver,
+  upperFrequency: number | null,
+): void {
+  const { metrics, warnings } = context;
+  if (driver.onTime === undefined && driver.cycles === undefined) {
+    warnings.push({
+      key: 'burst_not_simulated',
+      message: 'solid-state driver without on_time or cycles: the burst is not simulated',
+    });
+    return;
+  }
+  const upperPeriod =
+    1 / (upperFrequency ?? 1 / (2 * Math.PI * Math.sqrt(circuit.primaryInductance * circuit.primaryCapacitance)));
+  let onTime = driver.onTime;
+  let cycles = driver.cycles;
+  if ((onTime ?? Infinity) > MAX_BURST_CYCLES * upperPeriod && (cycles ?? Infinity) > MAX_BURST_CYCLES) {
+    warnings.push({
+      key: 'burst_truncated',
+      message: `burst longer than ${MAX_BURST_CYCLES} cycles: simulated for the first ${MAX_BURST_CYCLES} only`,
+    });
+    onTime = MAX_BURST_CYCLES * upperPeriod;
+    cycles = undefined;
+  }
+  const driveVoltage = driver.bridge === 'full' ? driver.busVoltage : driver.busVoltage / 2;
+  const burst = threeCoilBurst(circuit, { driveVoltage, currentLimit: driver.currentLimit, onTime, cycles });
+  if (!burst) return;
+  if (burst.endReason === 'step_limit') {
+    warnings.push({
+      key: 'burst_truncated',
+      message: `the burst was cut at the step limit after ${formatNumber(burst.cycles)} cycles (${formatQuantity(burst.endTime, 's')})`,
+    });
+  }
+  metrics.energy_per_shot = burst.energyFromSource;
+  metrics.input_power = driver.repetitionRate >= 0 ? burst.energyFromSource * driver.repetitionRate : null;
+  metrics.peak_voltage = burst.peakVoltage;
+  metrics.resonator_peak_voltage = burst.peakVoltage;
+  metrics.junction_peak_voltage = burst.peakJunctionVoltage;
+  metrics.transfer_time = null; // a driven burst has no single transfer
+  if (burst.endReason === 'current_limit') {
+    warnings.push({
+      key: 'current_limit_reached',
+      message: `primary current reached the ${formatQuantity(driver.currentLimit ?? 0, 'A')} limit after ${formatNumber(burst.cycles)} cycles (${formatQuantity(burst.endTime, 's')}): the burst ends there`,
+    });
+  }
+  tankRatingCheck(context, burst.peakTankVoltage, 'the peak tank voltage in the burst');
 }
 
 /** tank_voltage_margin and its warning. */

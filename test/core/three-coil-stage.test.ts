@@ -193,4 +193,17 @@ describe('bad three-coil geometry is a design problem naming the field', () => {
     );
     expect(metrics.line_length_for_ratios ?? 0).toBeGreaterThan(0);
   });
+
+  test('a solid-state bridge drives the three coils: energy from the bus and the peak at the resonator top', () => {
+    const { metrics, problems, warnings } = evaluateDesign({
+      ...design,
+      driver: { kind: 'solid_state', bridge: 'full', busVoltage: 400, cycles: 12, repetitionRate: 100 },
+    });
+    expect(problems).toEqual([]);
+    expect(metrics.energy_per_shot ?? 0).toBeGreaterThan(0);
+    expect(metrics.peak_voltage).toBe(metrics.resonator_peak_voltage);
+    expect(metrics.peak_voltage ?? 0).toBeGreaterThan(metrics.junction_peak_voltage ?? Infinity);
+    expect(metrics.transfer_time).toBeNull();
+    expect(warnings.map((w) => w.key)).not.toContain('burst_truncated');
+  });
 });
