@@ -421,6 +421,46 @@ export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
       },
     },
   },
+  resonator: {
+    description:
+      'a separate resonator (three-coil system): a second winding on the floor that carries the topload, fed at its base from the top of the secondary (then the driver) through a line; height_above_winding of the topload is then above this winding',
+    optional: true,
+    fields: {
+      form_diameter: length("outside diameter of the resonator's form", { plausible: [5e-3, 5] }),
+      wire: { type: 'wire', description: "the resonator's wire: 'AWG n' (ASTM B258) or a bare copper diameter" },
+      insulation: {
+        type: 'enum',
+        values: ['grade_1', 'grade_2', 'grade_3', 'none'],
+        optional: true,
+        default: 'grade_2',
+        description: 'enamel build grade of IEC 60317-0-1, or none for bare wire',
+      },
+      wire_overall_diameter: length('measured insulated wire diameter; overrides the grade', { optional: true }),
+      turns: {
+        type: 'quantity',
+        kind: 'dimensionless',
+        range: 'positive',
+        optional: true,
+        description: 'turns of the resonator (give turns or winding_length)',
+      },
+      winding_length: length('axial length of the resonator winding (give turns or winding_length)', {
+        optional: true,
+      }),
+      pitch: length('axial distance between turn centres; close-wound when absent', { optional: true }),
+      base_height: length('bottom of the resonator winding above the floor', {
+        range: 'nonnegative',
+        optional: true,
+        default: 0,
+      }),
+      line_length: length("length of the line from the secondary's top to the resonator's base"),
+      line_conductor_diameter: length("diameter of the line's round conductor", { plausible: [1e-4, 0.1] }),
+      line_height: length('height of the line above the floor'),
+      axis_spacing: length(
+        "distance between the secondary's and the resonator's axes that the floor space allows (the line length when absent)",
+        { optional: true },
+      ),
+    },
+  },
 };
 
 /** The fields of a section in a given form (variant), the variant key excluded. */

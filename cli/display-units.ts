@@ -58,6 +58,22 @@ export const METRIC_DISPLAY: Record<string, DisplayUnit> = {
   tank_bank_bleeder_resistance: unit('Mohm', 1e6),
   safety_gap_voltage: unit('kV', 1e3),
   safety_gap_spacing: unit('mm', 1e-3),
+  // --- appended: three-coil systems ---
+  resonator_effective_inductance: unit('mH', 1e-3),
+  resonator_effective_capacitance: unit('pF', 1e-12),
+  resonator_frequency: unit('kHz', 1e3),
+  line_capacitance: unit('pF', 1e-12),
+  line_inductance: unit('uH', 1e-6),
+  junction_capacitance: unit('pF', 1e-12),
+  three_coil_mode_frequency_low: unit('kHz', 1e3),
+  three_coil_mode_frequency_mid: unit('kHz', 1e3),
+  three_coil_mode_frequency_high: unit('kHz', 1e3),
+  resonator_transfer_time: unit('us', 1e-6),
+  resonator_peak_voltage: unit('kV', 1e3),
+  junction_peak_voltage: unit('kV', 1e3),
+  resonator_ac_resistance: unit('ohm', 1),
+  resonator_separation_needed: unit('m', 1),
+  line_length_for_ratios: unit('m', 1),
 };
 
 /** Display unit of each kind of design quantity. */

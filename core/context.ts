@@ -100,4 +100,29 @@ export interface EvalContext {
   burstPeakTankVoltage?: number;
   /** The tank bank's layout, when the design builds its tank from parts (core/stages/tank-stage.ts). */
   tankBank?: BankLayout & { workingVoltage: number };
+  /** A separate resonator and its line (three-coil systems, core/stages/resonator-stage.ts). */
+  threeCoil?: ThreeCoilParts;
+}
+
+/** The resonator of a three-coil system and its line, SI. */
+export interface ThreeCoilParts {
+  /** The resonator's winding (as a secondary, on the floor beside the driver). */
+  winding: SecondaryGeometry;
+  /** Its distributed model (the computed profile), with the topload. */
+  distributed: DistributedWinding | undefined;
+  /** Effective inductance and capacitance of the resonator at its top, H and F. */
+  inductance: number;
+  capacitance: number;
+  /** Its fundamental, Hz. */
+  frequency: number;
+  /** Steepest |dV/dz| along the resonator per volt at its top, 1/m. */
+  gradientPerVolt: number;
+  /** Line capacitance to the floor and series inductance, F and H. */
+  lineCapacitance: number;
+  lineInductance: number;
+  /** The driver's own top capacitance (winding alone) and the junction total with the line, F. */
+  driverCapacitance: number;
+  junctionCapacitance: number;
+  /** The axis distance the floor gives, m. */
+  axisSpacing: number;
 }

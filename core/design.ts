@@ -184,6 +184,27 @@ export interface SafetyGapSpec {
   fireAt: number;
 }
 
+/**
+ * A separate resonator (a three-coil system): a second winding standing on the floor beside the
+ * driven secondary, carrying the topload, fed at its base from the top of the driven secondary
+ * through a connecting line.
+ */
+export interface ResonatorSpec {
+  /** The resonator's winding, as a secondary (its own form, wire, turns or length, base height). */
+  winding: SecondarySpec;
+  /** The connecting line from the driver's top to the resonator's base. */
+  line: {
+    /** Length of the line, m. */
+    length: number;
+    /** Diameter of the line's round conductor, m. */
+    conductorDiameter: number;
+    /** Height of the line above the floor, m. */
+    height: number;
+  };
+  /** Distance between the driver's and the resonator's axes that the floor space allows, m (the line length when absent). */
+  axisSpacing?: number;
+}
+
 export interface Design {
   supply?: SupplySpec;
   tankBank?: TankBankSpec;
@@ -194,6 +215,8 @@ export interface Design {
   strikeRail?: StrikeRailSpec;
   tank?: TankSpec;
   driver?: DriverSpec;
+  /** A separate resonator carrying the topload (three-coil system). */
+  resonator?: ResonatorSpec;
   environment: EnvironmentSpec;
 }
 

@@ -16,6 +16,7 @@ import { primaryStage } from './stages/primary-stage.ts';
 import { dynamicsStage } from './stages/dynamics-stage.ts';
 import { outcomeStage } from './stages/outcome-stage.ts';
 import { prepareTank, tankStage } from './stages/tank-stage.ts';
+import { resonatorStage } from './stages/resonator-stage.ts';
 
 export interface Evaluation {
   metrics: Metrics;
@@ -54,6 +55,7 @@ function profileTable(resonator: NonNullable<EvalContext['resonator']>): Winding
 const STAGES: ReadonlyArray<(context: EvalContext) => void> = [
   secondaryStage,
   electrostaticsStage,
+  resonatorStage,
   primaryStage,
   dynamicsStage,
   outcomeStage,

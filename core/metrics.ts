@@ -204,6 +204,57 @@ export const METRICS: readonly MetricInfo[] = [
     'm',
     'safety-gap spacing for that voltage (sphere gaps: IEC 60052 table points from memory, air-density corrected)',
   ),
+  // --- appended: three-coil systems (a separate resonator fed through a line) ---
+  metric('resonator_turns', 'count', 'turns of the separate resonator'),
+  metric(
+    'resonator_effective_inductance',
+    'H',
+    "the resonator's effective inductance at its top (distributed model, base grounded)",
+  ),
+  metric(
+    'resonator_effective_capacitance',
+    'F',
+    "the resonator's effective capacitance at its top, with the topload (distributed model)",
+  ),
+  metric('resonator_frequency', 'Hz', "the resonator's own fundamental with its topload, base grounded"),
+  metric('line_capacitance', 'F', 'capacitance of the connecting line to the floor, 2πε0 ℓ / arcosh(h/a)'),
+  metric('line_inductance', 'H', 'series inductance of the connecting line over the floor, (μ0/2π) ℓ arcosh(h/a)'),
+  metric(
+    'junction_capacitance',
+    'F',
+    "capacitance at the junction: the secondary's own top capacitance (winding alone) plus the line's",
+  ),
+  metric('three_coil_mode_frequency_low', 'Hz', 'lowest of the three ringing frequencies of the three-coil circuit'),
+  metric('three_coil_mode_frequency_mid', 'Hz', 'middle ringing frequency of the three-coil circuit'),
+  metric('three_coil_mode_frequency_high', 'Hz', 'highest ringing frequency of the three-coil circuit'),
+  metric(
+    'three_coil_ratio_error',
+    '',
+    'distance of the lossless mode ratios from the complete-transfer 1:2:3: √((f2/f1 − 2)² + (f3/f1 − 3)²)',
+  ),
+  metric(
+    'resonator_transfer_time',
+    's',
+    "first full transfer to the resonator's top: the largest top voltage before its envelope (per period of the lowest mode) stops rising",
+  ),
+  metric('resonator_peak_voltage', 'V', "the resonator's top voltage at resonator_transfer_time (also peak_voltage)"),
+  metric('junction_peak_voltage', 'V', 'largest voltage at the junction (top of the secondary) up to that time'),
+  metric(
+    'resonator_ac_resistance',
+    'ohm',
+    "series resistance of the resonator's loop: its wire's AC resistance for its mode's current plus the line's conductor",
+  ),
+  metric(
+    'line_length_for_ratios',
+    'm',
+    'the line length (0.1 to 4 times the given one, same conductor and height) that, with its own best tap, brings the modes nearest 1:2:3',
+  ),
+  metric('three_coil_ratio_error_at_that_length', '', 'three_coil_ratio_error with that line length and its tap'),
+  metric(
+    'resonator_separation_needed',
+    'm',
+    'axis distance beyond which the secondary–resonator coupling stays below 1 % of the primary coupling',
+  ),
 ];
 
 export const METRIC_KEYS: readonly string[] = METRICS.map((m) => m.key);

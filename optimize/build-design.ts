@@ -252,6 +252,47 @@ export function buildDesign(tree: NormalTree, basePath: string[] = []): DesignBu
     design.driver = spec;
   }
 
+  const resonator = section(tree, 'resonator');
+  if (resonator) {
+    if (!secondary) issues.push({ path: at('resonator'), message: 'a resonator needs a secondary to drive it' });
+    const turns = num(resonator, 'turns');
+    const windingLength = num(resonator, 'winding_length');
+    const pitch = num(resonator, 'pitch');
+    if (turns === undefined && windingLength === undefined) {
+      issues.push({ path: at('resonator', 'turns'), message: 'required: give turns or winding_length' });
+    } else if (turns !== undefined && windingLength !== undefined && pitch !== undefined) {
+      issues.push({
+        path: at('resonator', 'pitch'),
+        message: 'give two of turns, winding_length and pitch, not all three',
+      });
+    }
+    const wire = wireSpec(resonator.wire, resonator);
+    const winding: NonNullable<Design['secondary']> = {
+      formDiameter: num(resonator, 'form_diameter') ?? 0,
+      wire,
+      baseHeight: num(resonator, 'base_height') ?? 0,
+      voltageProfile: 'computed',
+    };
+    if (turns !== undefined) winding.turns = turns;
+    if (windingLength !== undefined) winding.windingLength = windingLength;
+    if (pitch !== undefined) winding.pitch = pitch;
+    const conductor = num(resonator, 'line_conductor_diameter') ?? 0;
+    const lineHeight = num(resonator, 'line_height') ?? 0;
+    if (lineHeight <= conductor / 2) {
+      issues.push({
+        path: at('resonator', 'line_height'),
+        message: `the line (${mm(conductor)} conductor) at ${mm(lineHeight)} touches the floor`,
+        byValue: true,
+      });
+    }
+    design.resonator = {
+      winding,
+      line: { length: num(resonator, 'line_length') ?? 0, conductorDiameter: conductor, height: lineHeight },
+    };
+    const spacing = num(resonator, 'axis_spacing');
+    if (spacing !== undefined) design.resonator.axisSpacing = spacing;
+  }
+
   const environment = section(tree, 'environment');
   if (environment) {
     design.environment = {

@@ -47,6 +47,8 @@ export const WARNING_KEYS = [
   'supply_resonant_rise',
   'supply_overloaded',
   'safety_gap_outside_table',
+  // --- appended: three-coil systems ---
+  'resonator_too_close',
 ] as const;
 
 export type WarningKey = (typeof WARNING_KEYS)[number];

@@ -18,9 +18,24 @@ import { nearestFullTransferCoupling } from '../dynamics/full-transfer.ts';
 import { sparkGapShot } from '../dynamics/spark-gap.ts';
 import { solidStateBurst } from '../dynamics/solid-state.ts';
 import { formatNumber, formatQuantity, SPARK_GAP_COUPLING_LIMIT, TANK_RATING_FACTOR } from '../outcome/warnings.ts';
+import { loopModes } from '../dynamics/loop-modes.ts';
+import { threeCoilBurst } from '../dynamics/three-coil-burst.ts';
+import {
+  chargedTankState,
+  ringingFrequencies,
+  type ThreeCoilCircuit,
+  threeCoilNetwork,
+  threeCoilSparkGapShot,
+} from '../dynamics/three-coil.ts';
+import { threeCoilRatioError } from '../three-coil/tuning.ts';
+import { separationForCoupling } from '../three-coil/parallel-mutual.ts';
+import { toploadOuterRadius } from '../three-coil/clearance.ts';
 
 /** Equivalent resistance of a conducting spark gap when the design gives none, Ω (common practice, refs §8.4 [C]: of order 1 Ω). */
 export const DEFAULT_GAP_RESISTANCE = 1;
+
+/** Coupling of a three-coil system's driver above which the gap quenches poorly (common practice: 0.3–0.6 is usual for such drivers). */
+const THREE_COIL_COUPLING_LIMIT = 0.6;
 
 /** Longest burst simulated, in cycles of the upper mode (beyond it the burst is cut, with a warning). */
 const MAX_BURST_CYCLES = 3000;
@@ -88,6 +103,10 @@ export function dynamicsStage(context: EvalContext): void {
     secondaryResistance: r2,
     mutualInductance: coupling * Math.sqrt(l1 * l2),
   };
+  if (context.threeCoil) {
+    runThreeCoil(context, circuit, coupling);
+    return;
+  }
   metrics.full_transfer_coupling = nearestFullTransferCoupling(coupling).coupling;
   const modes = coupledModes(circuit, 1);
   if (modes !== null) {
@@ -191,6 +210,179 @@ function runSolidState(context: EvalContext, circuit: CoupledCircuit, driver: So
     });
   }
   context.burstPeakTankVoltage = burst.peakTankVoltage;
+  tankRatingCheck(context, burst.peakTankVoltage, 'the peak tank voltage in the burst');
+}
+
+/**
+ * A three-coil system (resonator-stage.ts): the two-coil circuit's tank and driver with the junction
+ * capacitance as C2, and the resonator (its effective L with the line's in series, its effective
+ * C at the top, the AC resistance of its wire for its mode's current plus the line's conductor) as
+ * the third loop. Sets the three mode frequencies, the ratio error, the separation the resonator
+ * needs, and for a spark gap the shot (three-coil.ts); a solid-state driver is not simulated here.
+ */
+function runThreeCoil(context: EvalContext, two: CoupledCircuit, coupling: number): void {
+  const { design, metrics, warnings } = context;
+  const parts = context.threeCoil;
+  const spec = design.resonator;
+  if (!parts || !spec) return;
+  const winding = parts.winding;
+  // The resonator must stand clear of the primary as well as of the secondary.
+  const primary = context.primary;
+  const resonatorOuter = Math.max(
+    winding.radius + winding.overallDiameter / 2,
+    design.topload ? toploadOuterRadius(design.topload) : 0,
+  );
+  if (primary) {
+    let primaryOuter = 0;
+    for (const ring of primary.rings) primaryOuter = Math.max(primaryOuter, ring.r + primary.conductorRadius);
+    if (!(parts.axisSpacing > primaryOuter + resonatorOuter)) {
+      context.problems.push({
+        field: spec.axisSpacing !== undefined ? 'resonator.axis_spacing' : 'resonator.line_length',
+        reason: `the resonator (outer radius ${formatQuantity(resonatorOuter, 'm')}) at ${formatQuantity(parts.axisSpacing, 'm')} from the secondary's axis overlaps the primary (outer radius ${formatQuantity(primaryOuter, 'm')})`,
+      });
+      return;
+    }
+  }
+  const resistivity = copperResistivity(design.environment.temperature);
+  const r3 =
+    solenoidAcResistance(
+      winding.dcResistance,
+      winding.wireLength,
+      winding.bareDiameter,
+      winding.pitch,
+      parts.frequency,
+    ) *
+      (parts.distributed?.resistanceFactor ?? 1) +
+    roundConductorAcResistance(spec.line.length, spec.line.conductorDiameter / 2, resistivity, parts.frequency);
+  const circuit: ThreeCoilCircuit = {
+    primaryInductance: two.primaryInductance,
+    primaryCapacitance: two.primaryCapacitance,
+    primaryResistance: two.primaryResistance,
+    driverInductance: two.secondaryInductance,
+    driverResistance: two.secondaryResistance,
+    mutualInductance: two.mutualInductance,
+    junctionCapacitance: parts.junctionCapacitance,
+    resonatorInductance: parts.inductance + parts.lineInductance,
+    resonatorResistance: Number.isFinite(r3) ? r3 : 0,
+    resonatorCapacitance: parts.capacitance,
+  };
+  metrics.resonator_ac_resistance = circuit.resonatorResistance;
+  metrics.three_coil_ratio_error = threeCoilRatioError({
+    ...circuit,
+    primaryResistance: 0,
+    driverResistance: 0,
+    resonatorResistance: 0,
+  });
+  const modes = loopModes(threeCoilNetwork(circuit), chargedTankState(circuit, 1));
+  const frequencies = modes ? ringingFrequencies(modes) : null;
+  if (frequencies) {
+    [
+      metrics.three_coil_mode_frequency_low,
+      metrics.three_coil_mode_frequency_mid,
+      metrics.three_coil_mode_frequency_high,
+    ] = frequencies;
+    metrics.mode_frequency_low = frequencies[0];
+    metrics.mode_frequency_high = frequencies[2];
+  }
+  // The separation at which the driver–resonator coupling falls below 1 % of the primary's.
+  const secondary = context.secondary;
+  if (secondary) {
+    const needed = separationForCoupling({ x: 0, ...secondary }, { x: 0, ...winding }, 0.01 * coupling);
+    metrics.resonator_separation_needed = needed;
+    if (needed !== null && parts.axisSpacing < needed) {
+      warnings.push({
+        key: 'resonator_too_close',
+        message: `the resonator stands ${formatQuantity(parts.axisSpacing, 'm')} from the secondary's axis; its coupling to the secondary stays below 1 % of the primary coupling (${formatNumber(coupling)}) only beyond ${formatQuantity(needed, 'm')}: the separate-resonator model does not hold`,
+      });
+    }
+  }
+  const driver = design.driver;
+  if (!driver) return;
+  if (driver.kind !== 'spark_gap') {
+    runThreeCoilBurst(context, circuit, driver, frequencies ? frequencies[2] : null);
+    return;
+  }
+  if (coupling > THREE_COIL_COUPLING_LIMIT) {
+    warnings.push({
+      key: 'gap_coupling_high',
+      message: `coupling ${formatNumber(coupling)} is high even for the driver of a three-coil system (common practice 0.3–${THREE_COIL_COUPLING_LIMIT}): poor quenching and flashover to the primary likely`,
+    });
+  }
+  const chargeVoltage = design.tank?.chargeVoltage;
+  if (chargeVoltage === undefined || !(chargeVoltage > 0)) {
+    warnings.push({
+      key: 'no_charge_voltage',
+      message: 'no tank charge_voltage given: energy per shot, transfer time and peak voltage not computed',
+    });
+    return;
+  }
+  const energy = 0.5 * circuit.primaryCapacitance * chargeVoltage * chargeVoltage;
+  metrics.energy_per_shot = energy;
+  metrics.input_power = driver.breakRate >= 0 ? energy * driver.breakRate : null;
+  tankRatingCheck(context, chargeVoltage, 'the charge voltage');
+  const shot = threeCoilSparkGapShot(circuit, chargeVoltage, driver.quench);
+  if (shot === null) {
+    warnings.push({
+      key: 'no_ringing_modes',
+      message: `the three-coil circuit has no three ringing modes (coupling ${formatNumber(coupling)}): transfer time and peak voltage not computed`,
+    });
+    return;
+  }
+  metrics.transfer_time = shot.primaryTransferTime;
+  metrics.resonator_transfer_time = shot.transferTime;
+  metrics.resonator_peak_voltage = shot.peakVoltage;
+  metrics.peak_voltage = shot.peakVoltage;
+  metrics.junction_peak_voltage = shot.junctionPeakVoltage;
+}
+
+/** A solid-state burst of a three-coil system (three-coil-burst.ts), with the two-coil burst's rules and warnings. */
+function runThreeCoilBurst(
+  context: EvalContext,
+  circuit: ThreeCoilCircuit,
+  driver: SolidStateDriver,
+  upperFrequency: number | null,
+): void {
+  const { metrics, warnings } = context;
+  if (driver.onTime === undefined && driver.cycles === undefined) {
+    warnings.push({
+      key: 'burst_not_simulated',
+      message: 'solid-state driver without on_time or cycles: the burst is not simulated',
+    });
+    return;
+  }
+  const upperPeriod =
+    1 / (upperFrequency ?? 1 / (2 * Math.PI * Math.sqrt(circuit.primaryInductance * circuit.primaryCapacitance)));
+  let onTime = driver.onTime;
+  let cycles = driver.cycles;
+  if ((onTime ?? Infinity) > MAX_BURST_CYCLES * upperPeriod && (cycles ?? Infinity) > MAX_BURST_CYCLES) {
+    warnings.push({
+      key: 'burst_truncated',
+      message: `burst longer than ${MAX_BURST_CYCLES} cycles: simulated for the first ${MAX_BURST_CYCLES} only`,
+    });
+    onTime = MAX_BURST_CYCLES * upperPeriod;
+    cycles = undefined;
+  }
+  const driveVoltage = driver.bridge === 'full' ? driver.busVoltage : driver.busVoltage / 2;
+  const burst = threeCoilBurst(circuit, { driveVoltage, currentLimit: driver.currentLimit, onTime, cycles });
+  if (!burst) return;
+  if (burst.endReason === 'step_limit') {
+    warnings.push({
+      key: 'burst_truncated',
+      message: `the burst was cut at the step limit after ${formatNumber(burst.cycles)} cycles (${formatQuantity(burst.endTime, 's')})`,
+    });
+  }
+  metrics.energy_per_shot = burst.energyFromSource;
+  metrics.input_power = driver.repetitionRate >= 0 ? burst.energyFromSource * driver.repetitionRate : null;
+  metrics.peak_voltage = burst.peakVoltage;
+  metrics.resonator_peak_voltage = burst.peakVoltage;
+  metrics.junction_peak_voltage = burst.peakJunctionVoltage;
+  metrics.transfer_time = null; // a driven burst has no single transfer
+  if (burst.endReason === 'current_limit') {
+    warnings.push({
+      key: 'current_limit_reached',
+      message: `primary current reached the ${formatQuantity(driver.currentLimit ?? 0, 'A')} limit after ${formatNumber(burst.cycles)} cycles (${formatQuantity(burst.endTime, 's')}): the burst ends there`,
+    });
+  }
   tankRatingCheck(context, burst.peakTankVoltage, 'the peak tank voltage in the burst');
 }
 

@@ -64,7 +64,10 @@ export function electrostaticsStage(context: EvalContext): void {
     return;
   }
 
-  const arrangement = arrangementFromDesign(design, secondary, problems);
+  // A three-coil system: the topload sits on the separate resonator (resonator-stage.ts), the
+  // driver's winding is solved alone.
+  const driverDesign = design.resonator && secondary ? { ...design, topload: undefined } : design;
+  const arrangement = arrangementFromDesign(driverDesign, secondary, problems);
   if (!arrangement) return;
   const computed = Boolean(secondary && arrangement.winding && design.secondary?.voltageProfile === 'computed');
   const solved = computed && secondary ? distributedSolve(context, arrangement, secondary) : assumedSolve(arrangement);

@@ -28,6 +28,11 @@ export function outcomeStage(context: EvalContext): void {
   const secondary = context.secondary;
   const electrostatics = context.electrostatics;
   metrics.overall_height = overallHeight(design, secondary);
+  const threeCoil = context.threeCoil;
+  if (threeCoil && secondary) {
+    // The topload stands on the resonator; the driver's top may still be the highest point.
+    metrics.overall_height = Math.max(secondary.topZ, overallHeight(design, threeCoil.winding) ?? 0);
+  }
 
   const peak = metrics.peak_voltage;
   const power = metrics.input_power;
@@ -42,6 +47,9 @@ export function outcomeStage(context: EvalContext): void {
     metrics.loaded_resonant_frequency = context.resonator
       ? context.resonator.loadedFundamental(streamer)
       : loadedResonantFrequency(secondary.inductance, electrostatics.totalCapacitance, streamer);
+    // three coils: the streamers load the resonator's top, not the secondary's
+    const resonatorModel = context.threeCoil?.distributed;
+    if (context.threeCoil) metrics.loaded_resonant_frequency = resonatorModel?.loadedFundamental(streamer) ?? null;
   }
   if (peak === null || !(peak > 0)) return;
 
@@ -65,7 +73,10 @@ export function outcomeStage(context: EvalContext): void {
   if (fieldPerVolt !== null) metrics.topload_peak_field = fieldPerVolt * peak;
 
   if (secondary) {
-    const gradient = peak * gradientPerVolt(context, secondary.windingLength);
+    // three coils: the resonator's winding carries the top voltage
+    const gradient = threeCoil
+      ? peak * threeCoil.gradientPerVolt
+      : peak * gradientPerVolt(context, secondary.windingLength);
     metrics.axial_gradient = gradient;
     if (gradient > AXIAL_GRADIENT_LIMIT) {
       warnings.push({
@@ -85,7 +96,7 @@ export function outcomeStage(context: EvalContext): void {
       primary.conductorRadius,
       secondary,
       windingProfile(context),
-      peak,
+      threeCoil ? (metrics.junction_peak_voltage ?? peak) : peak,
       primaryVoltage,
     );
     metrics.primary_strike_margin = Number.isFinite(strike.margin) ? strike.margin : null;
@@ -95,7 +106,7 @@ export function outcomeStage(context: EvalContext): void {
         message: `primary-to-secondary strike risk: ${formatQuantity(strike.voltage, 'V')} across ${formatQuantity(strike.gap, 'm')} of air between the outer primary ring and the winding at its height (strike margin ${formatNumber(strike.margin)} at ${formatQuantity(LONG_GAP_WITHSTAND_GRADIENT, 'V/m')}, common practice)`,
       });
     }
-    if (design.topload && !design.strikeRail && sparkLength !== null) {
+    if (design.topload && !threeCoil && !design.strikeRail && sparkLength !== null) {
       const centre = toploadCentreHeight(design.topload, secondary.topZ);
       if (centre !== null) {
         const reach = toploadToRingDistance(design.topload, centre, outerRing);

@@ -34,6 +34,8 @@ import { couplingCoefficient, ringMutualInductances, tappedMutualInductance } fr
 import { ringToSheetMutualInductance } from '../inductance/sheet-mutual.ts';
 import { segmentMutuals } from '../resonator/design-resonator.ts';
 import { effectiveMutualInductance } from '../resonator/resonator.ts';
+import { bestLineLength, threeCoilRatioError, threeCoilTap } from '../three-coil/tuning.ts';
+import type { Ring } from '../context.ts';
 
 /** A length in millimetres for messages. */
 function mm(metres: number): string {
@@ -126,6 +128,43 @@ export function primaryStage(context: EvalContext): void {
       untunedRange = `needs ${microhenries(tuning.requiredInductance)}, has ${microhenries(lowest)}–${microhenries(fullInductance)}`;
     }
   }
+  // A three-coil system: the tap that brings the three modes nearest 1:2:3 (three-coil/tuning.ts).
+  const threeCoil = context.threeCoil;
+  const line = design.resonator?.line;
+  if (threeCoil && line && secondary && tankCapacitance !== undefined) {
+    const perRing = ringEffectiveMutuals(context, rings);
+    const lowest = Math.min(1, spec.turns);
+    // The lossless circuit at a tap, with the line scaled to a length (per-length values fixed).
+    const circuitAt = (tap: number, length: number) => ({
+      primaryInductance: primaryInductanceAtTap(table, tap),
+      primaryCapacitance: tankCapacitance,
+      primaryResistance: 0,
+      driverInductance: secondaryInductance,
+      driverResistance: 0,
+      mutualInductance: perRing.reduce((sum, m, i) => sum + Math.min(1, Math.max(0, tap - i)) * m, 0),
+      junctionCapacitance: threeCoil.driverCapacitance + (threeCoil.lineCapacitance * length) / line.length,
+      resonatorInductance: threeCoil.inductance + (threeCoil.lineInductance * length) / line.length,
+      resonatorResistance: 0,
+      resonatorCapacitance: threeCoil.capacitance,
+    });
+    if (spec.tapTurns === undefined) {
+      const best = threeCoilTap(lowest, spec.turns, (tap) => circuitAt(tap, line.length));
+      if (best) {
+        tapTurns = best.tapTurns;
+        reportedTap = tapTurns;
+        untunedRange = null;
+      }
+    }
+    // The line length (0.1 to 4 times the given one) that, with its own best tap, comes nearest.
+    const fixedTap = spec.tapTurns;
+    const lineBest = bestLineLength(0.1 * line.length, 4 * line.length, (length) =>
+      fixedTap !== undefined
+        ? threeCoilRatioError(circuitAt(fixedTap, length))
+        : (threeCoilTap(lowest, spec.turns, (tap) => circuitAt(tap, length))?.ratioError ?? null),
+    );
+    metrics.line_length_for_ratios = lineBest?.length ?? null;
+    metrics.three_coil_ratio_error_at_that_length = lineBest?.ratioError ?? null;
+  }
   const inductance = primaryInductanceAtTap(table, tapTurns);
 
   let mutual: number | null = null;
@@ -191,6 +230,7 @@ function tuningRequirement(context: EvalContext, secondaryFrequency: number | nu
   const error = primaryFrequency / secondaryFrequency - 1;
   metrics.tuning_error = error;
   if (Math.abs(error) <= TUNING_TOLERANCE) return;
+  if (context.threeCoil) return; // three coils tune by the mode ratios (three_coil_ratio_error), not to the driver
   const offset = `tank ${formatQuantity(primaryFrequency, 'Hz')} against the secondary's ${formatQuantity(secondaryFrequency, 'Hz')} (${error > 0 ? '+' : ''}${formatNumber(100 * error)} %, tolerance ±${formatNumber(100 * TUNING_TOLERANCE)} %)`;
   const fixed = spec.tapTurns !== undefined;
   const what = fixed
@@ -207,5 +247,29 @@ function tuningRequirement(context: EvalContext, secondaryFrequency: number | nu
     fixed
       ? { key: 'fixed_tap_mistuned', message: `the primary is off tune ${what}` }
       : { key: 'primary_untuned', message: `the primary cannot be tuned: ${what}` },
+  );
+}
+
+/**
+ * Each whole ring's mutual inductance to the secondary, H: the mode's (M_eff of one ring) with the
+ * computed profile, else the ring against the current sheet; a tap's mutual is Σ w_i M_i.
+ */
+function ringEffectiveMutuals(context: EvalContext, rings: readonly Ring[]): number[] {
+  const secondary = context.secondary;
+  if (!secondary) return rings.map(() => 0);
+  const sheet = { radius: secondary.radius, bottomZ: secondary.bottomZ, topZ: secondary.topZ, turns: secondary.turns };
+  const resonator = context.resonator;
+  if (!resonator) return Array.from(ringMutualInductances(rings, sheet));
+  return rings.map((ring) =>
+    effectiveMutualInductance(
+      resonator.solution,
+      segmentMutuals(resonator.fractions, secondary, [
+        {
+          weight: 1,
+          mutual: (bottomZ: number, topZ: number, turns: number) =>
+            ringToSheetMutualInductance(ring.r, ring.z, { radius: secondary.radius, bottomZ, topZ, turns }),
+        },
+      ]),
+    ),
   );
 }
