@@ -18,6 +18,12 @@ export const TANK_RATING_FACTOR = 1.5;
  * builders retune when the tank is a few per cent off; the number is ours, not from a source.
  */
 export const TUNING_TOLERANCE = 0.03;
+/**
+ * A breakout point that fires below this share of the peak voltage the coil would reach without it
+ * clips the coil's swing to little use (common practice: the point should take the discharge near
+ * the top of the swing; the number 0.5 is ours).
+ */
+export const POINT_USEFUL_FRACTION = 0.5;
 
 /**
  * Every warning the core can give, by a stable short key (the CSV's warnings column names these,
@@ -43,6 +49,11 @@ export const WARNING_KEYS = [
   'primary_strike_risk',
   'strike_rail_needed',
   'resonator_unconverged',
+  'breakout_point_fires_low',
+  'breakout_point_above_topload',
+  'breakout_point_never_fires',
+  'breakout_point_beyond_model',
+  'support_field_high',
 ] as const;
 
 export type WarningKey = (typeof WARNING_KEYS)[number];
