@@ -2,12 +2,14 @@
  * A breakout point on the topload: when its tip reaches corona onset, and how long it must be to
  * fire at a chosen voltage.
  *
- * Model (local enhancement): the tip field per volt at the top is β(l/a) times the topload's own
- * surface field per volt at the point's base, β the apex enhancement of a hemisphere-capped rod on
- * a plane in a uniform field (core/electrostatics/breakout-rod.ts). That holds while the rod is
- * short against the curvature radius of the surface it stands on (the field the rod stands in is
- * then uniform over its height); beyond `POINT_MODEL_LENGTH_RATIO` of that radius the field falls
- * off along the rod and the model overstates the tip field (fires early): a warning says so.
+ * Model: the tip field per volt at the top is β times the topload's own surface field per volt
+ * at the point's base (from the design's field solve), β the enhancement of the rod on a sphere
+ * whose radius matches the mean curvature of the surface there (`pointEnhancement`): for a sphere
+ * topload its own radius (the rod on the pole is then solved as an axisymmetric body, exact for a
+ * lone sphere), for a toroid's tube the radius 1/H of its mean curvature H at the crown or the
+ * outer equator. On a toroid the curvature-matched sphere stands in for the tube: first-order in
+ * the rod's height, so beyond `POINT_MODEL_LENGTH_RATIO` of the tube radius a warning says the
+ * estimate is rough.
  *
  * Onset at the tip: Peek's sphere form for the tip radius (peek.ts, refs §6.1 [peek1929]). Peek's
  * law rises without bound as the radius shrinks (like 1/√a); his sphere tests went down to radii of
@@ -17,7 +19,7 @@
  * fires no later than Peek's extrapolation would say.
  */
 import { peekSphereOnsetField } from './peek.ts';
-import { MAX_ROD_ASPECT, rodEnhancement } from '../electrostatics/breakout-rod.ts';
+import { MAX_ROD_ASPECT, rodEnhancement, rodOnSphereEnhancement } from '../electrostatics/breakout-rod.ts';
 
 /** Smallest tip radius at which Peek's sphere form is used as it stands, m (from memory: 1 mm). */
 export const PEEK_SMALLEST_RADIUS = 1e-3;
@@ -34,6 +36,21 @@ export function tipOnsetField(tipRadius: number, airDensity: number, surfaceFact
 }
 
 /**
+ * Enhancement of the tip field over the base field for a rod of height l, tip radius a, on a
+ * surface whose mean curvature is 1/R: the rod on a sphere of radius R, solved
+ * (`rodOnSphereEnhancement`). First-order matching: the normal field just off a conductor falls as
+ * dE/ds = −2H·E (H the mean curvature of the surface; Gauss's law in a charge-free region, e.g.
+ * [jackson1999] ch. 1 problem form, from memory), so a sphere of radius 1/H has the same falloff
+ * over the rod's height. Exact (to discretisation) for a rod on a lone sphere's pole; for a sphere
+ * in its arrangement the rest of the arrangement enters through the base field. R = ∞ (a plane)
+ * gives the plane value.
+ */
+export function pointEnhancement(length: number, tipRadius: number, curvatureRadius: number): number {
+  if (!Number.isFinite(curvatureRadius)) return rodEnhancement(length, tipRadius);
+  return rodOnSphereEnhancement(length, tipRadius, curvatureRadius);
+}
+
+/**
  * Top voltage at which the tip reaches onset, V: onset / (β · base field per volt); NaN when the
  * rod is outside the model (l < a, l/a beyond MAX_ROD_ASPECT) or the base field is not positive.
  */
@@ -42,8 +59,9 @@ export function pointFiringVoltage(
   tipRadius: number,
   baseFieldPerVolt: number,
   onsetField: number,
+  curvatureRadius = Number.POSITIVE_INFINITY,
 ): number {
-  const beta = rodEnhancement(length, tipRadius);
+  const beta = pointEnhancement(length, tipRadius, curvatureRadius);
   if (!(beta > 0) || !(baseFieldPerVolt > 0)) return Number.NaN;
   return onsetField / (beta * baseFieldPerVolt);
 }
@@ -54,27 +72,47 @@ export type PointSizing =
   | { ok: false; reason: 'too_high' | 'too_low'; limitVoltage: number };
 
 /**
- * The rod length at which the point fires at `targetVoltage` (bisection on ln l, the firing voltage
- * falls monotonically with length). 'too_high': even the shortest point (l = a, a bare hemisphere)
- * fires below the target; 'too_low': even the longest (l/a = MAX_ROD_ASPECT) fires above it.
+ * The rod length at which the point fires at `targetVoltage` (the firing voltage falls
+ * monotonically with length; regula falsi with the Illinois step on ln V over ln l, which is nearly
+ * straight, to 10⁻⁶ in ln V). 'too_high': even the shortest point (l = a, a bare hemisphere) fires
+ * below the target; 'too_low': even the longest (l/a = MAX_ROD_ASPECT) fires above it.
  */
 export function sizePointLength(
   targetVoltage: number,
   tipRadius: number,
   baseFieldPerVolt: number,
   onsetField: number,
+  curvatureRadius = Number.POSITIVE_INFINITY,
 ): PointSizing {
-  const firing = (length: number) => pointFiringVoltage(length, tipRadius, baseFieldPerVolt, onsetField);
+  const firing = (u: number) =>
+    pointFiringVoltage(Math.exp(u), tipRadius, baseFieldPerVolt, onsetField, curvatureRadius);
   let low = Math.log(tipRadius);
   let high = Math.log(tipRadius * MAX_ROD_ASPECT);
-  const shortest = firing(tipRadius);
-  const longest = firing(Math.exp(high));
+  const shortest = firing(low);
+  const longest = firing(high);
   if (!(targetVoltage <= shortest)) return { ok: false, reason: 'too_high', limitVoltage: shortest };
   if (!(targetVoltage >= longest)) return { ok: false, reason: 'too_low', limitVoltage: longest };
-  for (let iteration = 0; iteration < 60 && high - low > 1e-10; iteration++) {
-    const middle = 0.5 * (low + high);
-    if (firing(Math.exp(middle)) > targetVoltage) low = middle;
-    else high = middle;
+  const goal = Math.log(targetVoltage);
+  let fLow = Math.log(shortest) - goal;
+  let fHigh = Math.log(longest) - goal;
+  let side = 0;
+  let u = low;
+  for (let iteration = 0; iteration < 60; iteration++) {
+    u = fLow === fHigh ? 0.5 * (low + high) : (low * fHigh - high * fLow) / (fHigh - fLow);
+    const f = Math.log(firing(u)) - goal;
+    if (!Number.isFinite(f)) return { ok: false, reason: 'too_low', limitVoltage: longest };
+    if (Math.abs(f) < 1e-6 || high - low < 1e-12) break;
+    if (f > 0) {
+      low = u;
+      fLow = f;
+      if (side === 1) fHigh /= 2;
+      side = 1;
+    } else {
+      high = u;
+      fHigh = f;
+      if (side === -1) fLow /= 2;
+      side = -1;
+    }
   }
-  return { ok: true, length: Math.exp(0.5 * (low + high)) };
+  return { ok: true, length: Math.exp(u) };
 }

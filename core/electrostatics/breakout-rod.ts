@@ -167,3 +167,65 @@ export function rodEnhancement(height: number, tipRadius: number): number {
   const h11 = t * t * (t - 1);
   return Math.exp(h00 * y[k] + h10 * step * slope[k] + h01 * y[k + 1] + h11 * step * slope[k + 1]);
 }
+
+/** Growth of the sphere's panels away from the rod (the first is as long as a cap panel). */
+const SPHERE_GROWTH = 1.2;
+/** Largest sphere panel, as an angle (rad). */
+const SPHERE_LARGEST_PANEL = Math.PI / 24;
+
+/**
+ * The panels of a sphere of radius R centred at z = 0 with a rod of height l (from the pole to the
+ * apex) and tip radius a standing on its north pole: the sphere's meridian from the south pole to
+ * where it meets the rod's side (panels growing geometrically away from the rod, at most π/24),
+ * then the rod (rodPanels, raised onto the sphere).
+ */
+export function sphereWithRodPanels(height: number, tipRadius: number, sphereRadius: number): PanelShape[] {
+  const meet = Math.acos(tipRadius / sphereRadius);
+  const edges: number[] = [meet];
+  let size = (0.5 * Math.PI * tipRadius) / CAP_PANELS / sphereRadius;
+  let angle = meet;
+  while (angle - size > -Math.PI / 2 + 0.5 * size) {
+    angle -= size;
+    edges.push(angle);
+    size = Math.min(size * SPHERE_GROWTH, SPHERE_LARGEST_PANEL);
+  }
+  edges.push(-Math.PI / 2);
+  const shapes: PanelShape[] = [];
+  for (let k = edges.length - 1; k > 0; k--) {
+    const angle0 = edges[k];
+    const angle1 = edges[k - 1];
+    const position = sphereRadius * 0.5 * (angle0 + angle1);
+    shapes.push({ kind: 'arc', centerR: 0, centerZ: 0, radius: sphereRadius, angle0, angle1, position });
+  }
+  const base = Math.sqrt(sphereRadius ** 2 - tipRadius ** 2);
+  for (const shape of rodPanels(sphereRadius + height - base, tipRadius)) {
+    if (shape.kind === 'line') shapes.push({ ...shape, z0: shape.z0 + base, z1: shape.z1 + base });
+    else if (shape.kind === 'arc') shapes.push({ ...shape, centerZ: shape.centerZ + base });
+  }
+  return shapes;
+}
+
+/**
+ * Apex enhancement of a rod standing on the pole of an isolated sphere at 1 V: the tip field over
+ * the bare sphere's surface field 1/R (exact, [jackson1999]), by the boundary-element solve of the
+ * sphere and the rod together (all on the axis, so the solve is exact to discretisation). It falls
+ * below the plane value `rodEnhancement` as the rod grows against R (the field of a curved surface
+ * decays over the rod's height). NaN when l < a, a ≥ R/2 or l/a > 4·MAX_ROD_ASPECT.
+ */
+export function rodOnSphereEnhancement(height: number, tipRadius: number, sphereRadius: number): number {
+  if (!(tipRadius > 0) || !(height >= tipRadius) || !(height / tipRadius <= 4 * MAX_ROD_ASPECT)) return Number.NaN;
+  if (!(tipRadius < 0.5 * sphereRadius)) return Number.NaN;
+  const layout = buildPanelLayout(sphereWithRodPanels(height, tipRadius, sphereRadius));
+  const n = layout.count;
+  const matrix = assembleCollocationMatrix(layout, false, true);
+  const pivots = luFactor(matrix, n);
+  if (!pivots) return Number.NaN;
+  const density = new Float64Array(n).fill(1);
+  luSolve(matrix, n, pivots, density);
+  const field = (j: number) => density[j] / VACUUM_PERMITTIVITY;
+  const last = n - 1;
+  const s0 = layout.midR[last];
+  const s1 = layout.midR[last - 1];
+  const c2 = (field(last - 1) - field(last)) / (s1 * s1 - s0 * s0);
+  return (field(last) - c2 * s0 * s0) * sphereRadius;
+}

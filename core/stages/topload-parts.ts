@@ -12,11 +12,12 @@
 import type { EvalContext } from '../context.ts';
 import {
   POINT_MODEL_LENGTH_RATIO,
+  pointEnhancement,
   pointFiringVoltage,
   sizePointLength,
   tipOnsetField,
 } from '../breakdown/breakout-point.ts';
-import { rodEnhancement } from '../electrostatics/breakout-rod.ts';
+import { MAX_ROD_ASPECT } from '../electrostatics/breakout-rod.ts';
 import type { FieldArrangement, SurfaceFields } from '../electrostatics/field-solve.ts';
 import {
   lowFieldBand,
@@ -68,6 +69,13 @@ export function toploadParts(
       return;
     }
     const onset = tipOnsetField(tipRadius, airDensity, surfaceFactor);
+    // Radius of the sphere with the surface's mean curvature where the point stands.
+    const curvature =
+      topload.shape === 'sphere'
+        ? topload.radius
+        : point.position === 'rim'
+          ? 2 / (1 / topload.minorRadius + 1 / (topload.majorRadius + topload.minorRadius))
+          : 2 * topload.minorRadius;
     let length = point.length;
     if (length === undefined) {
       const fraction = point.fireAtFraction;
@@ -81,39 +89,45 @@ export function toploadParts(
         });
         return;
       }
-      const sizing = sizePointLength(target, tipRadius, baseField, onset);
+      const sizing = sizePointLength(target, tipRadius, baseField, onset, curvature);
       if (!sizing.ok) {
         problems.push({
           field,
           reason:
             sizing.reason === 'too_high'
               ? `no rod fires as late as ${formatQuantity(target, 'V')}: even a bare hemisphere of ${mm(tipRadius)} radius fires at ${formatQuantity(sizing.limitVoltage, 'V')} (a smaller tip radius raises its onset field; the top sees less field than the rim)`
-              : `no rod fires as early as ${formatQuantity(target, 'V')}: even one ${formatNumber(1000)} tip radii long fires at ${formatQuantity(sizing.limitVoltage, 'V')} (a larger tip radius allows a longer rod)`,
+              : `no rod fires as early as ${formatQuantity(target, 'V')}: even one ${MAX_ROD_ASPECT} tip radii long fires at ${formatQuantity(sizing.limitVoltage, 'V')} (a larger tip radius allows a longer rod)`,
         });
         return;
       }
       length = sizing.length;
     }
-    const enhancement = rodEnhancement(length, tipRadius);
-    if (!(enhancement > 0)) {
+    if (!(tipRadius < 0.5 * curvature)) {
       problems.push({
-        field: 'breakout_point.length',
-        reason: `the rod (${mm(length)}) must be at least its tip radius (${mm(tipRadius)}) and at most 1000 tip radii long`,
+        field: 'breakout_point.tip_radius',
+        reason: `the tip radius (${mm(tipRadius)}) is not below half the curvature radius it stands on (${mm(curvature)})`,
       });
       return;
     }
-    const firing = pointFiringVoltage(length, tipRadius, baseField, onset);
+    const enhancement = pointEnhancement(length, tipRadius, curvature);
+    if (!(enhancement > 0) || !(length <= MAX_ROD_ASPECT * tipRadius)) {
+      problems.push({
+        field: 'breakout_point.length',
+        reason: `the rod (${mm(length)}) must be at least its tip radius (${mm(tipRadius)}) and at most ${MAX_ROD_ASPECT} tip radii long`,
+      });
+      return;
+    }
+    const firing = pointFiringVoltage(length, tipRadius, baseField, onset, curvature);
     metrics.breakout_point_length = length;
     metrics.breakout_point_enhancement = enhancement;
     metrics.breakout_point_base_field_per_volt = baseField;
     metrics.breakout_point_onset_field = onset;
     metrics.breakout_point_voltage = firing;
     electrostatics.breakoutPointVoltage = firing;
-    const curvature = topload.shape === 'toroid' ? topload.minorRadius : topload.radius;
-    if (length > POINT_MODEL_LENGTH_RATIO * curvature) {
+    if (topload.shape === 'toroid' && length > POINT_MODEL_LENGTH_RATIO * topload.minorRadius) {
       warnings.push({
         key: 'breakout_point_beyond_model',
-        message: `the breakout point (${mm(length)}) is longer than ${formatNumber(POINT_MODEL_LENGTH_RATIO)} of the curvature radius it stands on (${mm(curvature)}): the local-enhancement model overstates its tip field, so it fires later than the ${formatQuantity(firing, 'V')} given`,
+        message: `the breakout point (${mm(length)}) is longer than ${formatNumber(POINT_MODEL_LENGTH_RATIO)} of the tube radius it stands on (${mm(topload.minorRadius)}): its tip field is modelled on a sphere of the tube's mean curvature, so the ${formatQuantity(firing, 'V')} is a rough estimate`,
       });
     }
     if (breakout !== null && firing >= breakout) {

@@ -20,8 +20,16 @@ import {
   MAX_ROD_ASPECT,
   rodEnhancement,
   rodEnhancementSolved,
+  rodOnSphereEnhancement,
+  sphereWithRodPanels,
   uniformFieldApexEnhancement,
 } from '../../core/electrostatics/breakout-rod.ts';
+import { assembleCollocationMatrix } from '../../core/electrostatics/assembly.ts';
+import { luFactor, luSolve } from '../../core/electrostatics/dense-lu.ts';
+import { solveField } from '../../core/electrostatics/field-solve.ts';
+import { buildPanelLayout } from '../../core/electrostatics/panels.ts';
+import { toploadFieldAtAngle } from '../../core/electrostatics/supports.ts';
+import { VACUUM_PERMITTIVITY } from '../../core/electrostatics/ring-kernel.ts';
 import type { PanelShape } from '../../core/electrostatics/panels.ts';
 
 const relative = (value: number, expected: number) => Math.abs(value / expected - 1);
@@ -119,4 +127,60 @@ describe('firing voltage and sizing', () => {
     expect(low).toMatchObject({ ok: false, reason: 'too_low' });
     expect(sizePointLength(Number.NaN, 0.002, 6, onset).ok).toBe(false);
   });
+});
+
+describe('a rod on a sphere, solved as one axisymmetric body', () => {
+  test('on a very large sphere it tends to the plane value, and a bare hemisphere to 3', () => {
+    expect(relative(rodOnSphereEnhancement(0.05, 0.001, 1e4), rodEnhancement(0.05, 0.001))).toBeLessThan(1e-3);
+    expect(relative(rodOnSphereEnhancement(0.001, 0.001, 1), 3)).toBeLessThan(2e-3);
+  });
+  test('the field of the curved surface falls off over the rod: below the plane value, more so for longer rods', () => {
+    let previousShare = 1;
+    for (const length of [0.004, 0.02, 0.075]) {
+      const share = rodOnSphereEnhancement(length, 0.002, 0.15) / rodEnhancement(length, 0.002);
+      expect(share).toBeLessThan(previousShare);
+      previousShare = share;
+    }
+  });
+  test.each([0.004, 0.02, 0.06])(
+    'a %s m rod on a sphere over the floor: the model (base field × β on the lone sphere) is within 0.2 % of the whole solve',
+    (length) => {
+      const radius = 0.15;
+      const centre = 0.6;
+      const tip = 0.002;
+      // the whole solve: sphere and rod as one body at 1 V over the floor (images)
+      const shapes = sphereWithRodPanels(length, tip, radius).map((shape) =>
+        shape.kind === 'arc'
+          ? { ...shape, centerZ: shape.centerZ + centre }
+          : shape.kind === 'line'
+            ? { ...shape, z0: shape.z0 + centre, z1: shape.z1 + centre }
+            : shape,
+      );
+      const layout = buildPanelLayout(shapes);
+      const n = layout.count;
+      const matrix = assembleCollocationMatrix(layout, true, true);
+      const pivots = luFactor(matrix, n);
+      if (!pivots) throw new Error('singular');
+      const density = new Float64Array(n).fill(1);
+      luSolve(matrix, n, pivots, density);
+      const field = (j: number) => density[j] / VACUUM_PERMITTIVITY;
+      const s0 = layout.midR[n - 1];
+      const s1 = layout.midR[n - 2];
+      const whole = field(n - 1) - ((field(n - 2) - field(n - 1)) / (s1 * s1 - s0 * s0)) * s0 * s0;
+      // the model: the bare sphere's solve over the floor gives the base field at the pole
+      const bare = solveField({ topload: { shape: 'sphere', radius, centerZ: centre }, floor: true });
+      if (!bare) throw new Error('no solution');
+      const { first, count } = bare.toploadPanels;
+      const base = toploadFieldAtAngle(
+        { shape: 'sphere', radius, centerZ: centre },
+        bare.layout,
+        bare.density,
+        first,
+        count,
+        Math.PI / 2,
+      ) as number;
+      const model = base * rodOnSphereEnhancement(length, tip, radius);
+      expect(relative(model, whole)).toBeLessThan(0.002);
+    },
+  );
 });
