@@ -37,10 +37,10 @@ export function tipOnsetField(tipRadius: number, airDensity: number, surfaceFact
 
 /**
  * Enhancement of the tip field over the base field for a rod of height l, tip radius a, on a
- * surface whose mean curvature is 1/R: the rod on a sphere of radius R, solved
+ * surface of mean curvature H: the rod on a sphere of radius R = 1/H, solved
  * (`rodOnSphereEnhancement`). First-order matching: the normal field just off a conductor falls as
- * dE/ds = −2H·E (H the mean curvature of the surface; Gauss's law in a charge-free region, e.g.
- * [jackson1999] ch. 1 problem form, from memory), so a sphere of radius 1/H has the same falloff
+ * dE/ds = −2H·E (H the mean curvature of the surface; Gauss's law in a charge-free region, standard,
+ * from memory; docs/references.md, breakout point), so a sphere of radius 1/H has the same falloff
  * over the rod's height. Exact (to discretisation) for a rod on a lone sphere's pole; for a sphere
  * in its arrangement the rest of the arrangement enters through the base field. R = ∞ (a plane)
  * gives the plane value.
