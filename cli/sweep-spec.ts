@@ -9,11 +9,12 @@ import { buildDesign } from '../optimize/build-design.ts';
 import { fillSlots, type Dimension, type NormalTree } from '../optimize/design-tree.ts';
 import { readDesignTree } from './design-schema.ts';
 import { DESIGN_SECTIONS } from './design-fields.ts';
-import { fieldError, InputError, type InputIssue } from './input-error.ts';
+import { fieldError, InputError, type InputIssue } from '../run/input-error.ts';
 import { metricKind } from './metric-kinds.ts';
 import { readInputFile } from './read-file.ts';
 import { suggest } from './suggest.ts';
 import { describeValue, readQuantity } from './units.ts';
+import { must } from '../core/must.ts';
 
 export type SamplingMethod = 'sobol' | 'lhs' | 'grid' | 'random';
 
@@ -107,7 +108,7 @@ function readBound(
   path: Array<string | number>,
   issues: InputIssue[],
 ): number | undefined {
-  const kind = metricKind(metric)!;
+  const kind = must(metricKind(metric));
   const result = readQuantity(input, kind);
   if (!result.ok) {
     issues.push({ path, message: result.reason });
@@ -383,7 +384,7 @@ export function sweepFromValue(value: unknown, file: string, options: SweepReadO
       }
       const read = readBound(objective.metric, bound, ['sweep', 'reference_point', objective.metric], issues);
       if (read === undefined) fail();
-      point.push(objective.sense === 'maximize' ? -read! : read!);
+      point.push(objective.sense === 'maximize' ? -must(read) : must(read));
     }
     for (const key of Object.keys(given as object)) {
       if (!objectives.some((o) => o.metric === key)) {

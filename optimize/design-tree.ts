@@ -64,18 +64,18 @@ export function isSlot(value: unknown): value is DimensionSlot {
  */
 export function fillSlots(tree: NormalTree, dimensions: readonly Dimension[], values: ArrayLike<number>): NormalTree {
   const filled: NormalTree = {};
-  const valueOf = (slot: DimensionSlot): LeafValue | NormalSection => {
+  const slotValue = (slot: DimensionSlot): LeafValue | NormalSection => {
     const dimension = dimensions[slot.slot];
     const value = values[slot.slot];
     return dimension.kind === 'range' ? value : dimension.values[value];
   };
   for (const [name, section] of Object.entries(tree)) {
     if (isSlot(section)) {
-      filled[name] = valueOf(section) as NormalSection;
+      filled[name] = slotValue(section) as NormalSection;
       continue;
     }
     const out: NormalSection = {};
-    for (const [key, leaf] of Object.entries(section)) out[key] = isSlot(leaf) ? (valueOf(leaf) as LeafValue) : leaf;
+    for (const [key, leaf] of Object.entries(section)) out[key] = isSlot(leaf) ? (slotValue(leaf) as LeafValue) : leaf;
     filled[name] = out;
   }
   return filled;

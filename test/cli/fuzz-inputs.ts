@@ -5,7 +5,7 @@
  */
 import fc from 'fast-check';
 import { expect } from 'vitest';
-import { InputError } from '../../cli/input-error.ts';
+import { InputError } from '../../run/input-error.ts';
 
 /** A path into a plain value: keys of mappings and indices of lists. */
 export type ValuePath = ReadonlyArray<string | number>;
@@ -78,8 +78,9 @@ export const hostileKey: fc.Arbitrary<string> = fc.oneof(
 /** Every path to a place inside `value` (mappings and lists, the root included as []). */
 export function pathsOf(value: unknown, prefix: ValuePath = []): ValuePath[] {
   const paths: ValuePath[] = [prefix];
-  if (Array.isArray(value)) value.forEach((item, index) => paths.push(...pathsOf(item, [...prefix, index])));
-  else if (typeof value === 'object' && value !== null) {
+  if (Array.isArray(value)) {
+    for (const [index, item] of value.entries()) paths.push(...pathsOf(item, [...prefix, index]));
+  } else if (typeof value === 'object' && value !== null) {
     for (const [key, item] of Object.entries(value)) paths.push(...pathsOf(item, [...prefix, key]));
   }
   return paths;
