@@ -64,6 +64,17 @@ describe('a breakout point', () => {
     expect(keys).toContain('breakout_point_above_topload');
     expect(keys).toContain('breakout_point_never_fires');
   });
+  test('a point that never fires changes no other metric the design had without it', () => {
+    const without = gallery();
+    delete without.breakoutPoint;
+    const withPoint = gallery();
+    withPoint.breakoutPoint = { position: 'top', tipRadius: 0.001, length: 0.001 };
+    const a = evaluateDesign(without).metrics;
+    const b = evaluateDesign(withPoint).metrics;
+    expect(b.breakout_point_voltage as number).toBeGreaterThan(b.peak_voltage as number);
+    // (its warnings differ: it says that it never fires instead of the topload never breaking out)
+    for (const key of METRIC_KEYS) if (!NEW_KEYS.includes(key) && key !== 'warning_count') expect(b[key]).toBe(a[key]);
+  });
   test('a point that fires far below the peak warns that it clips the swing', () => {
     const design = gallery();
     design.breakoutPoint = { position: 'rim', tipRadius: 0.001, length: 0.1 };
