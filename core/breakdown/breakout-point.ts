@@ -84,8 +84,10 @@ export function sizePointLength(
   onsetField: number,
   curvatureRadius = Number.POSITIVE_INFINITY,
 ): PointSizing {
+  // (clamped: exp(ln a) may round just below a)
+  const lengthOf = (u: number) => Math.min(tipRadius * MAX_ROD_ASPECT, Math.max(tipRadius, Math.exp(u)));
   const firing = (u: number) =>
-    pointFiringVoltage(Math.exp(u), tipRadius, baseFieldPerVolt, onsetField, curvatureRadius);
+    pointFiringVoltage(lengthOf(u), tipRadius, baseFieldPerVolt, onsetField, curvatureRadius);
   let low = Math.log(tipRadius);
   let high = Math.log(tipRadius * MAX_ROD_ASPECT);
   const shortest = firing(low);
@@ -114,5 +116,5 @@ export function sizePointLength(
       side = -1;
     }
   }
-  return { ok: true, length: Math.exp(u) };
+  return { ok: true, length: lengthOf(u) };
 }

@@ -184,3 +184,22 @@ describe('a rod on a sphere, solved as one axisymmetric body', () => {
     },
   );
 });
+
+describe('sizing on a curved surface', () => {
+  test.each([0.0011, 0.0018, 0.0027, 0.0043])(
+    'with a %s m tip on a 0.1 m sphere the shortest rod has a finite firing voltage and sizing round-trips',
+    (tip) => {
+      const onset = tipOnsetField(tip, 1, 1);
+      const shortest = pointFiringVoltage(tip, tip, 6, onset, 0.1);
+      expect(Number.isFinite(shortest)).toBe(true);
+      const high = sizePointLength(2 * shortest, tip, 6, onset, 0.1);
+      expect(high).toMatchObject({ ok: false, reason: 'too_high' });
+      if (!high.ok) expect(high.limitVoltage).toBeCloseTo(shortest, 6);
+      const sizing = sizePointLength(0.5 * shortest, tip, 6, onset, 0.1);
+      expect(sizing.ok).toBe(true);
+      if (sizing.ok) {
+        expect(relative(pointFiringVoltage(sizing.length, tip, 6, onset, 0.1), 0.5 * shortest)).toBeLessThan(1e-5);
+      }
+    },
+  );
+});
