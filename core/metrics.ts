@@ -71,7 +71,11 @@ export const METRICS: readonly MetricInfo[] = [
   metric('transfer_time', 's', "first minimum of the primary's stored energy"),
   metric('energy_per_shot', 'J', 'energy delivered to the primary per shot or burst'),
   metric('input_power', 'W', 'average input power, energy per shot × repetition rate'),
-  metric('peak_voltage', 'V', 'peak secondary voltage if the topload held'),
+  metric(
+    'peak_voltage',
+    'V',
+    'peak secondary voltage if the topload held (with a breakout point: capped at its firing voltage)',
+  ),
   metric('breakout_margin', '', 'breakout voltage over peak voltage'),
   metric('topload_peak_field', 'V/m', 'peak topload surface field at the peak voltage'),
   metric(
