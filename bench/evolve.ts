@@ -10,9 +10,8 @@
  * node dist/bench/evolve.js [budgets] [seeds], e.g. node dist/bench/evolve.js 2000,5000 1,2
  */
 import { resolve } from 'node:path';
-import { spaceDefinitionOf } from '../cli/sweep-command.ts';
 import { loadSweepFile } from '../cli/sweep-spec.ts';
-import { DesignSpace } from '../optimize/design-space.ts';
+import { DesignSpace, spaceDefinitionOf } from '../optimize/design-space.ts';
 import { inProcessEvaluator } from '../optimize/evaluate-batch.ts';
 import { designProblem } from '../optimize/evolve/design-problem.ts';
 import { evolve, type Individual } from '../optimize/evolve/index.ts';

@@ -2,12 +2,12 @@
  * `coilfront check SPEC`: validates a sweep file and says what it will do: the varied dimensions,
  * the size of the discrete part of the space, and a run-time estimate measured on this machine.
  */
-import { DesignSpace } from '../optimize/design-space.ts';
+import { DesignSpace, spaceDefinitionOf } from '../optimize/design-space.ts';
 import { KIND_DISPLAY, formatNumber } from './display-units.ts';
 import type { CliIo } from './io.ts';
 import { formatDuration } from './duration.ts';
 import { defaultWorkerCount } from '../workers/pool.ts';
-import { measureBatchSize, spaceDefinitionOf } from './sweep-command.ts';
+import { measureBatchSize } from '../run/sweep-setup.ts';
 import { discreteLevels, loadSweepFile } from './sweep-spec.ts';
 import { SAFETY_LINE } from './safety.ts';
 import type { QuantityKind } from './units.ts';

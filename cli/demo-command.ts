@@ -23,7 +23,7 @@ export async function demoCommand(options: { workers?: number }, io: CliIo): Pro
     {
       out: 'runs/demo',
       overwrite: true,
-      checkpointEvery: '5s',
+      syncEvery: '5s',
       ...(options.workers !== undefined ? { workers: options.workers } : {}),
     },
     io,

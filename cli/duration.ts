@@ -1,5 +1,5 @@
 /**
- * Durations on the command line (--time-limit 8h, --checkpoint-every 30s): a number and a unit, or
+ * Durations on the command line (--time-limit 8h, --sync-every 30s): a number and a unit, or
  * several from the largest unit down ("1h30m", "1d 6h"). Units: ms, s, m (minutes), h, d (24 h).
  */
 import { type InputError, optionError } from '../run/input-error.ts';

@@ -12,15 +12,14 @@
  */
 import { existsSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
-import { DesignSpace } from '../optimize/design-space.ts';
+import { DesignSpace, spaceDefinitionOf } from '../optimize/design-space.ts';
 import { type BatchEvaluator, inProcessEvaluator } from '../optimize/evaluate-batch.ts';
 import { type EvolveOutcome, evolveSweep, type GenerationRecord } from '../optimize/evolve-run.ts';
 import type { RankedEntry } from '../optimize/pareto/candidate-pool.ts';
 import type { PackedRow } from '../optimize/packed-row.ts';
 import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
 import { openJournal, readJournal } from '../run/durable/journal.ts';
-import { acquireRunLock, RunLockError } from '../run/durable/lock.ts';
-import { DiskError } from '../run/durable/disk-error.ts';
+import { lockRunOrRefuse } from '../run/sweep-setup.ts';
 import { InputError, optionError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
 import { readRunRecord, RUN_FILES, runDigits } from '../run/run-directory.ts';
@@ -34,7 +33,7 @@ import {
   writeStageDesigns,
   writeSummarySection,
 } from './stage-outputs.ts';
-import { loadRunSpec, spaceDefinitionOf } from './sweep-command.ts';
+import { loadRunSpec } from './sweep-spec.ts';
 import type { SweepSpec } from './sweep-spec.ts';
 import { candidateNumbering, outputEntries, sortedFront } from './sweep-outputs.ts';
 
@@ -66,14 +65,7 @@ export async function evolveCommand(directory: string, options: EvolveCommandOpt
   const state = readSweepState(directory, spec, record.keep);
   if (state.pool.size === 0) throw new InputError(`${directory}: the sweep has no candidates to evolve from`);
   const seed = options.seed ?? spec.seed;
-  let lock: ReturnType<typeof acquireRunLock>;
-  try {
-    lock = acquireRunLock(directory);
-  } catch (error) {
-    if (error instanceof RunLockError || error instanceof DiskError)
-      throw new InputError(`${directory}: ${error.message}`);
-    throw error;
-  }
+  const lock = lockRunOrRefuse(directory);
   try {
     // The journal's first record names the stage it belongs to; one of other settings is started over.
     const identity = {

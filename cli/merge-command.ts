@@ -18,7 +18,7 @@ import {
   type RunRecord,
 } from '../run/run-directory.ts';
 import { checkCoverage } from '../run/shard.ts';
-import { loadRunSpec } from './sweep-command.ts';
+import { loadRunSpec } from './sweep-spec.ts';
 import { writeSweepOutputs } from './sweep-outputs.ts';
 import { SAFETY_LINE } from './safety.ts';
 

@@ -14,7 +14,7 @@ import type { TopLevelSpec } from 'vega-lite';
 import { METRIC_KEYS } from '../core/metrics.ts';
 import type { CandidateRow } from '../optimize/sweep-state.ts';
 import { METRIC_DISPLAY, humanUnit } from './display-units.ts';
-import type { ObjectiveSpec } from './sweep-spec.ts';
+import type { ObjectiveDefinition } from '../optimize/sweep-state.ts';
 import { PLOT_COLOURS } from './views/column-plot.ts';
 import { PICTURE_CAUTION, vegaLiteSvg, wrapText } from './views/vega-render.ts';
 
@@ -34,7 +34,7 @@ interface Datum {
   [axis: string]: number | string;
 }
 
-function axisTitle(objective: ObjectiveSpec): string {
+function axisTitle(objective: ObjectiveDefinition): string {
   const display = METRIC_DISPLAY[objective.metric];
   return `${objective.metric.replace(/_/g, ' ')}${display ? ` (${humanUnit(display.label)})` : ''} — ${objective.sense}`;
 }
@@ -79,7 +79,7 @@ function messageSpec(message: string): TopLevelSpec {
 
 /** The Vega-Lite spec of front.svg (exported for the report). */
 export function frontPlotSpec(
-  objectives: readonly ObjectiveSpec[],
+  objectives: readonly ObjectiveDefinition[],
   candidates: readonly CandidateRow[],
   front: readonly CandidateRow[],
   marks: FrontMarks = {},
@@ -214,7 +214,7 @@ export function frontPlotSpec(
 
 /** The SVG text of the run's plot. */
 export async function frontPlotSvg(
-  objectives: readonly ObjectiveSpec[],
+  objectives: readonly ObjectiveDefinition[],
   candidates: readonly CandidateRow[],
   front: readonly CandidateRow[],
   marks: FrontMarks = {},

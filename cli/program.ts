@@ -6,7 +6,7 @@
 import { registerViewCommands } from './view-commands.ts';
 import { MAX_DIGITS } from '../run/csv.ts';
 import { readFileSync } from 'node:fs';
-import { Command, CommanderError, InvalidArgumentError } from 'commander';
+import { Command, CommanderError, InvalidArgumentError, Option } from 'commander';
 import { InputError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
 import { evaluateCommand } from './evaluate-command.ts';
@@ -22,6 +22,12 @@ import { evolveCommand, type EvolveCommandOptions } from './evolve-command.ts';
 import { sensitivityCommand, type SensitivityOptions } from './sensitivity-command.ts';
 import { stockCommand } from './stock-command.ts';
 import { retuneCommand } from './retune-command.ts';
+
+/** The journal's sync interval: --sync-every, or its older spelling --checkpoint-every (hidden). */
+interface SyncEveryFlags {
+  syncEvery?: string;
+  checkpointEvery?: string;
+}
 
 /** The version in package.json (one directory above cli/ and dist/cli/). */
 function packageVersion(): string {
@@ -196,13 +202,15 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .option('--shard <k/N>', 'evaluate slice k of N of the sample indices')
     .option('--shard-count <n>', 'number of shards when the scheduler gives only an index', integer('--shard-count'))
     .option('--time-limit <duration>', 'stop cleanly after this long (90m, 8h, 1d)')
-    .option('--checkpoint-every <duration>', 'how often the journal is flushed to disk', '5s')
+    .option('--sync-every <duration>', 'how often the journal is forced to disk (default 5s)')
+    .addOption(new Option('--checkpoint-every <duration>').hideHelp())
     .option('--batch-size <n>', 'designs per worker task (default: measured)', integer('--batch-size'))
     .option('--force', 'allow sample counts beyond the documented limit')
     .option('--overwrite', 'write into a non-empty output directory')
     .option('--quiet', 'no progress on stderr')
-    .action(async (spec: string | undefined, options: SweepOptions) => {
-      exitCode = await sweepCommand(spec, options, io);
+    .action(async (spec: string | undefined, given: Omit<SweepOptions, 'syncEvery'> & SyncEveryFlags) => {
+      const { syncEvery, checkpointEvery, ...options } = given;
+      exitCode = await sweepCommand(spec, { ...options, syncEvery: syncEvery ?? checkpointEvery ?? '5s' }, io);
     });
 
   program

@@ -9,7 +9,7 @@
  */
 import { join } from 'node:path';
 import { inProcessEvaluator, type BatchEvaluator } from '../optimize/evaluate-batch.ts';
-import { DesignSpace } from '../optimize/design-space.ts';
+import { DesignSpace, spaceDefinitionOf } from '../optimize/design-space.ts';
 import { type RefineOutcome, refineSweep } from '../optimize/refine-run.ts';
 import { type PackedRow, packRow } from '../optimize/packed-row.ts';
 import type { RankedEntry } from '../optimize/pareto/candidate-pool.ts';
@@ -20,7 +20,7 @@ import { InputError, optionError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
 import { readRunRecord, RUN_FILES, runDigits } from '../run/run-directory.ts';
 import { columnSet } from './sweep-columns.ts';
-import { loadRunSpec, spaceDefinitionOf } from './sweep-command.ts';
+import { loadRunSpec } from './sweep-spec.ts';
 import { candidateNumbering, outputEntries, rankedRows, sortedFront } from './sweep-outputs.ts';
 import { SAFETY_CAUTIONS } from './safety.ts';
 import {

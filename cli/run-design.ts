@@ -7,11 +7,11 @@ import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { parse as parseCsv } from 'csv-parse/sync';
 import type { Design } from '../core/design.ts';
-import { DesignSpace } from '../optimize/design-space.ts';
+import { DesignSpace, spaceDefinitionOf } from '../optimize/design-space.ts';
 import type { NormalTree } from '../optimize/design-tree.ts';
 import { InputError } from '../run/input-error.ts';
 import { RUN_FILES } from '../run/run-directory.ts';
-import { loadRunSpec, spaceDefinitionOf } from './sweep-command.ts';
+import { loadRunSpec } from './sweep-spec.ts';
 
 export interface RunDesign {
   /** The id as given, normalised: '3', 'r3', 'e3'. */

@@ -6,7 +6,7 @@
  */
 import { mkdirSync, renameSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { DesignSpace } from '../optimize/design-space.ts';
+import { DesignSpace, spaceDefinitionOf } from '../optimize/design-space.ts';
 import { inProcessEvaluator } from '../optimize/evaluate-batch.ts';
 import { spaceSensitivity } from '../optimize/sensitivity/index.ts';
 import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
@@ -14,7 +14,6 @@ import { toCsv } from '../run/csv.ts';
 import { InputError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
 import { SAFETY_LINE, safetyBlock } from './safety.ts';
-import { spaceDefinitionOf } from './sweep-command.ts';
 import { loadSweepFile } from './sweep-spec.ts';
 
 export interface SensitivityOptions {

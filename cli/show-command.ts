@@ -6,7 +6,7 @@
 import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { parse as parseCsv } from 'csv-parse/sync';
-import { DesignSpace } from '../optimize/design-space.ts';
+import { DesignSpace, spaceDefinitionOf } from '../optimize/design-space.ts';
 import { isSlot, type NormalTree } from '../optimize/design-tree.ts';
 import { DESIGN_SECTIONS, sectionFields } from './design-fields.ts';
 import { KIND_DISPLAY, formatNumber } from './display-units.ts';
@@ -15,7 +15,7 @@ import { InputError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
 import { RUN_FILES } from '../run/run-directory.ts';
 import { SAFETY_LINE } from './safety.ts';
-import { loadRunSpec, spaceDefinitionOf } from './sweep-command.ts';
+import { loadRunSpec } from './sweep-spec.ts';
 
 /** A design's normal tree as YAML text: exact SI numbers, a unit comment beside each quantity. */
 export function treeToYaml(tree: NormalTree, heading: string[]): string {

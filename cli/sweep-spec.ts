@@ -3,6 +3,8 @@
  * settings, read and validated into a `SweepSpec`. Every problem is one line naming the field path.
  */
 import { createHash } from 'node:crypto';
+import { existsSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
 import * as z from 'zod';
 import { METRIC_KEYS } from '../core/metrics.ts';
 import { buildDesign } from '../optimize/build-design.ts';
@@ -11,30 +13,21 @@ import { readDesignTree } from './design-schema.ts';
 import { DESIGN_SECTIONS } from './design-fields.ts';
 import { fieldError, InputError, type InputIssue } from '../run/input-error.ts';
 import { metricKind } from './metric-kinds.ts';
-import { readInputFile } from './read-file.ts';
+import { parseInputText, readInputFile } from './read-file.ts';
+import { RUN_FILES } from '../run/run-directory.ts';
 import { suggest } from './suggest.ts';
 import { describeValue, readQuantity } from './units.ts';
 import { must } from '../core/must.ts';
+import type { ConstraintDefinition, ObjectiveDefinition } from '../optimize/sweep-state.ts';
 
 export type SamplingMethod = 'sobol' | 'lhs' | 'grid' | 'random';
-
-export interface ConstraintSpec {
-  metric: string;
-  min?: number;
-  max?: number;
-}
-
-export interface ObjectiveSpec {
-  metric: string;
-  sense: 'minimize' | 'maximize';
-}
 
 export interface SweepSpec {
   /** The design space: the normal tree with slots, and its dimensions. */
   tree: NormalTree;
   dimensions: Dimension[];
-  constraints: ConstraintSpec[];
-  objectives: ObjectiveSpec[];
+  constraints: ConstraintDefinition[];
+  objectives: ObjectiveDefinition[];
   method: SamplingMethod;
   /** Number of designs (for a grid: the product of its levels). */
   samples: number;
@@ -117,7 +110,7 @@ function readBound(
   return result.value;
 }
 
-function readConstraints(input: unknown, issues: InputIssue[]): ConstraintSpec[] {
+function readConstraints(input: unknown, issues: InputIssue[]): ConstraintDefinition[] {
   if (input === undefined || input === null) return [];
   if (!isMapping(input)) {
     issues.push({
@@ -126,7 +119,7 @@ function readConstraints(input: unknown, issues: InputIssue[]): ConstraintSpec[]
     });
     return [];
   }
-  const constraints: ConstraintSpec[] = [];
+  const constraints: ConstraintDefinition[] = [];
   for (const [metric, bounds] of Object.entries(input)) {
     const path = ['constraints', metric];
     if (!METRIC_KEYS.includes(metric)) {
@@ -143,7 +136,7 @@ function readConstraints(input: unknown, issues: InputIssue[]): ConstraintSpec[]
         return [];
       }
     }
-    const constraint: ConstraintSpec = { metric };
+    const constraint: ConstraintDefinition = { metric };
     if (bounds.min !== undefined) {
       const min = readBound(metric, bounds.min, [...path, 'min'], issues);
       if (min === undefined) return [];
@@ -170,7 +163,7 @@ function readConstraints(input: unknown, issues: InputIssue[]): ConstraintSpec[]
   return constraints;
 }
 
-function readObjectives(input: unknown, issues: InputIssue[]): ObjectiveSpec[] {
+function readObjectives(input: unknown, issues: InputIssue[]): ObjectiveDefinition[] {
   if (!Array.isArray(input)) {
     issues.push({
       path: ['objectives'],
@@ -185,7 +178,7 @@ function readObjectives(input: unknown, issues: InputIssue[]): ObjectiveSpec[] {
     issues.push({ path: ['objectives'], message: `expected 1 to 4 objectives, got ${input.length}` });
     return [];
   }
-  const objectives: ObjectiveSpec[] = [];
+  const objectives: ObjectiveDefinition[] = [];
   for (let i = 0; i < input.length; i++) {
     const item = input[i];
     const path = ['objectives', i];
@@ -424,4 +417,11 @@ export function sweepFromValue(value: unknown, file: string, options: SweepReadO
 /** Loads a sweep file (YAML or JSON). */
 export function loadSweepFile(file: string, options: SweepReadOptions = {}): SweepSpec {
   return sweepFromValue(readInputFile(file), file, options);
+}
+
+/** Loads the sweep file saved in a run directory (spec.yaml). */
+export function loadRunSpec(directory: string): SweepSpec {
+  const path = join(directory, RUN_FILES.spec);
+  if (!existsSync(path)) throw new InputError(`${directory}: not a coilfront run directory (no ${RUN_FILES.spec})`);
+  return sweepFromValue(parseInputText(readFileSync(path, 'utf8'), path), path, { force: true });
 }

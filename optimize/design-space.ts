@@ -20,6 +20,18 @@ export interface SpaceDefinition {
   gridLevels: number[] | null;
 }
 
+/** The space definition alone (what a worker needs), picked out of a larger object such as a sweep file's. */
+export function spaceDefinitionOf(spec: SpaceDefinition): SpaceDefinition {
+  return {
+    tree: spec.tree,
+    dimensions: spec.dimensions,
+    method: spec.method,
+    samples: spec.samples,
+    seed: spec.seed,
+    gridLevels: spec.gridLevels,
+  };
+}
+
 /** The value of one dimension at unit coordinate u: a number for ranges, a choice position for sets. */
 export function dimensionValue(dimension: Dimension, u: number): number {
   if (dimension.kind === 'choose') return mapUnitToChoice(u, dimension.values.length);

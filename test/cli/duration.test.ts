@@ -59,8 +59,8 @@ describe('parseDuration(text)', () => {
   });
 
   it('refuses a zero duration unless allowed', () => {
-    expect(() => parseDuration('0s', { option: '--checkpoint-every' })).toThrow(
-      "--checkpoint-every: expected a duration longer than zero, got '0s'",
+    expect(() => parseDuration('0s', { option: '--sync-every' })).toThrow(
+      "--sync-every: expected a duration longer than zero, got '0s'",
     );
     expect(parseDuration('0m', { allowZero: true })).toBe(0);
   });

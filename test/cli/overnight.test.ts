@@ -38,10 +38,10 @@ let referenceLoopMs = 500;
  * (every twelve syncs) and the journal's next generation are written several times per run and the
  * kills land before, between and after them. (The references use batches of 8.)
  */
-const SNAPSHOTTING = ['--batch-size', '4', '--checkpoint-every', '5ms', '--quiet'];
+const SNAPSHOTTING = ['--batch-size', '4', '--sync-every', '5ms', '--quiet'];
 
 function resume(directory: string, extra: string[] = ['--quiet']): Running {
-  return startCli(['sweep', '--resume', directory, '--workers', '2', '--checkpoint-every', '5ms', ...extra]);
+  return startCli(['sweep', '--resume', directory, '--workers', '2', '--sync-every', '5ms', ...extra]);
 }
 
 /** Waits until checkpoint.json is written anew (it differs from `before`) or the process ends. */
@@ -182,7 +182,7 @@ describe('SIGINT, SIGTERM and --time-limit stop cleanly and resume to the same f
       '2',
       '--batch-size',
       '8',
-      '--checkpoint-every',
+      '--sync-every',
       '100ms',
       ...KEEP,
     ]);
@@ -254,7 +254,7 @@ describe('SIGINT, SIGTERM and --time-limit stop cleanly and resume to the same f
       '2',
       '--batch-size',
       '8',
-      '--checkpoint-every',
+      '--sync-every',
       '100ms',
       '--time-limit',
       limit,

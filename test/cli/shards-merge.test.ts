@@ -20,7 +20,7 @@ import {
 // samples writes (summary.json's timing aside). The check is against that single run of the same CLI.
 const area = scratchArea('shards');
 const reference = area.dir('single');
-const COMMON = ['--batch-size', '8', '--checkpoint-every', '100ms', '--quiet', '--keep', '40'];
+const COMMON = ['--batch-size', '8', '--sync-every', '100ms', '--quiet', '--keep', '40'];
 const shardDirs = [1, 2, 3].map((k) => area.dir(`flag-${k}`));
 
 interface RunRecord {

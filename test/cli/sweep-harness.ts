@@ -183,7 +183,7 @@ export function seededRandom(seed: number): () => number {
 }
 
 /** The sweep options every machinery test uses: small batches, frequent journal syncs and snapshots. */
-export const BUSY_RUN = ['--batch-size', '8', '--checkpoint-every', '100ms', '--quiet'];
+export const BUSY_RUN = ['--batch-size', '8', '--sync-every', '100ms', '--quiet'];
 
 /** Expects stderr to be exactly one line. */
 export function expectOneLine(stderr: string, context: string): string {

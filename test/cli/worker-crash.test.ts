@@ -18,7 +18,7 @@ import {
 // same CLI; the sweep is the machinery fixture (invented demo data).
 const area = scratchArea('worker-crash');
 const clean = area.dir('clean');
-const COMMON = ['--all', '--keep', '40', '--checkpoint-every', '100ms'];
+const COMMON = ['--all', '--keep', '40', '--sync-every', '100ms'];
 
 const rowsOf = (directory: string): string[] => readFileSync(join(directory, 'all.csv'), 'utf8').trimEnd().split('\n');
 /** The sample_index column of an all.csv row (rows are in index order after the header). */

@@ -1,8 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { resolve } from 'node:path';
 import { loadSweepFile } from '../../cli/sweep-spec.ts';
-import { spaceDefinitionOf } from '../../cli/sweep-command.ts';
-import { DesignSpace } from '../../optimize/design-space.ts';
+import { DesignSpace, spaceDefinitionOf } from '../../optimize/design-space.ts';
 import { type BatchEvaluator, inProcessEvaluator } from '../../optimize/evaluate-batch.ts';
 import { splitValuesTasks } from '../../optimize/split-values.ts';
 
