@@ -461,6 +461,85 @@ export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
       ),
     },
   },
+  breakout_point: {
+    description:
+      'a rod with a hemispherical tip standing out of the topload, sized so that the discharge starts there (give one of length, fire_at_voltage, fire_at_fraction)',
+    optional: true,
+    fields: {
+      position: {
+        type: 'enum',
+        values: ['top', 'rim'],
+        optional: true,
+        default: 'top',
+        description:
+          "where it stands: top (a sphere's pole, on the axis; a toroid's crown), pointing up, or rim (the outer equator), pointing outward",
+      },
+      tip_radius: length('radius of the hemispherical tip (and of the rod)', { plausible: [1e-4, 0.1] }),
+      length: length("height of the rod from the topload's surface to the tip's apex (at least the tip radius)", {
+        optional: true,
+      }),
+      fire_at_voltage: {
+        type: 'quantity',
+        kind: 'voltage',
+        range: 'positive',
+        optional: true,
+        description: 'top voltage at which the point is to fire; the rod length is solved for',
+      },
+      fire_at_fraction: {
+        type: 'quantity',
+        kind: 'dimensionless',
+        range: 'fraction',
+        optional: true,
+        description:
+          "the same as a fraction of the bare topload's breakout voltage (such as 0.85); the rod length is solved for",
+      },
+    },
+  },
+  supports: {
+    description:
+      'insulating supports of the topload: a central column or a set of straight rods; the field along them is reported (their permittivity ignored)',
+    optional: true,
+    fields: {
+      diameter: length('diameter of the column or of each rod', { plausible: [1e-3, 1] }),
+      field_limit: {
+        type: 'quantity',
+        kind: 'field',
+        range: 'positive',
+        optional: true,
+        description: 'largest surface field allowed along a support (common practice 1 MV/m = 10 kV/cm when absent)',
+      },
+    },
+    variants: {
+      key: 'kind',
+      forms: {
+        column: {
+          from: {
+            type: 'enum',
+            values: ['floor', 'winding_top'],
+            optional: true,
+            default: 'winding_top',
+            description:
+              "where the column on the axis starts: the floor (inside the coil form) or the top of the winding; it ends at the topload (a sphere's underside, a toroid's mid-plane)",
+          },
+        },
+        rods: {
+          count: {
+            type: 'quantity',
+            kind: 'dimensionless',
+            range: 'positive',
+            integer: true,
+            optional: true,
+            default: 3,
+            description: 'rods spaced evenly around the axis',
+          },
+          from_radius: length('first end of a rod: distance from the axis', { range: 'nonnegative' }),
+          from_height: length('first end of a rod: height above the floor', { range: 'any' }),
+          to_radius: length('second end of a rod: distance from the axis', { range: 'nonnegative' }),
+          to_height: length('second end of a rod: height above the floor', { range: 'any' }),
+        },
+      },
+    },
+  },
 };
 
 /** The fields of a section in a given form (variant), the variant key excluded. */

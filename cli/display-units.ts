@@ -74,6 +74,15 @@ export const METRIC_DISPLAY: Record<string, DisplayUnit> = {
   resonator_ac_resistance: unit('ohm', 1),
   resonator_separation_needed: unit('m', 1),
   line_length_for_ratios: unit('m', 1),
+  breakout_point_length: unit('mm', 1e-3),
+  breakout_point_base_field_per_volt: unit('per_m', 1),
+  breakout_point_onset_field: unit('kV_per_cm', 1e5),
+  breakout_point_voltage: unit('kV', 1e3),
+  peak_voltage_without_point: unit('kV', 1e3),
+  support_peak_field_per_volt: unit('per_m', 1),
+  support_peak_field: unit('kV_per_cm', 1e5),
+  topload_low_field_angle: unit('deg', Math.PI / 180),
+  topload_low_field_per_volt: unit('per_m', 1),
 };
 
 /** Display unit of each kind of design quantity. */

@@ -96,6 +96,24 @@ const GROUPS: Group[] = [
     ],
   },
   {
+    title: 'Breakout point and supports',
+    keys: [
+      'breakout_point_length',
+      'breakout_point_enhancement',
+      'breakout_point_base_field_per_volt',
+      'breakout_point_onset_field',
+      'breakout_point_voltage',
+      'peak_voltage_without_point',
+      'support_peak_field_per_volt',
+      'support_peak_field_position',
+      'support_peak_field',
+      'support_field_margin',
+      'topload_low_field_angle',
+      'topload_low_field_per_volt',
+    ],
+    note: 'the point caps peak_voltage at its firing voltage; the support limit is common practice (1 MV/m unless given)',
+  },
+  {
     title: 'Outcome',
     keys: ['overall_height', 'spark_length', 'headroom_needed', 'warning_count'],
     note: 'spark length: common practice rule of thumb from input power, not a physical model',
@@ -255,6 +273,18 @@ const LABELS: Record<string, string> = {
   tank_bank_bleeder_power: 'bank: bleeder dissipation',
   safety_gap_voltage: 'safety gap fires at',
   safety_gap_spacing: 'safety-gap spacing',
+  breakout_point_length: 'breakout point: rod length (surface to tip)',
+  breakout_point_enhancement: 'breakout point: tip field enhancement',
+  breakout_point_base_field_per_volt: 'breakout point: topload field at its base per volt',
+  breakout_point_onset_field: "breakout point: tip onset field (Peek's law)",
+  breakout_point_voltage: 'breakout point: firing voltage',
+  peak_voltage_without_point: 'peak voltage the coil would reach without the point',
+  support_peak_field_per_volt: 'support: largest field along it per volt',
+  support_peak_field_position: 'support: where (fraction of its length from the first end)',
+  support_peak_field: 'support: largest field at the peak voltage',
+  support_field_margin: 'support: field limit / largest field',
+  topload_low_field_angle: 'topload: centre of its lowest-field band',
+  topload_low_field_per_volt: 'topload: mean field in that band per volt',
 };
 
 function line(key: string, value: number | null): string {

@@ -80,6 +80,10 @@ export interface ElectrostaticSolution {
   onsetField: number | null;
   /** Breakout voltage at the top of the winding, V. */
   breakoutVoltage: number | null;
+  /** Top voltage at which the breakout point fires, V (absent without one). */
+  breakoutPointVoltage?: number | null;
+  /** Largest field along the support per volt and its limit, V/m (absent without supports). */
+  support?: { peakPerVolt: number; limit: number } | null;
 }
 
 export interface EvalContext {

@@ -205,6 +205,53 @@ export interface ResonatorSpec {
   axisSpacing?: number;
 }
 
+/**
+ * A breakout point: a round rod with a hemispherical tip standing out of the topload, so that the
+ * discharge starts there (core/electrostatics/breakout-rod.ts). Exactly one of `length`,
+ * `fireAtVoltage` and `fireAtFraction` sizes it.
+ */
+export interface BreakoutPointSpec {
+  /** 'top': the top of the topload (a sphere's pole, on the axis; a toroid's crown), pointing up;
+   * 'rim': the outer equator, pointing outward. */
+  position: 'top' | 'rim';
+  /** Radius of the hemispherical tip (and of the rod), m. */
+  tipRadius: number;
+  /** Height of the rod from the topload's surface to its apex, m. */
+  length?: number;
+  /** Top voltage at which the point is to fire, V (the length is solved for). */
+  fireAtVoltage?: number;
+  /** The same as a fraction of the bare topload's breakout voltage (the length is solved for). */
+  fireAtFraction?: number;
+}
+
+/**
+ * Insulating supports of the topload (their permittivity ignored: the field along them is that of
+ * the solved charges). A central column on the axis from the floor or from the top of the winding
+ * up to the topload, or `count` straight rods, each in a meridian plane between two points.
+ */
+export type SupportSpec =
+  | {
+      kind: 'column';
+      from: 'floor' | 'winding_top';
+      /** Column diameter, m (the field is sampled on its surface). */
+      diameter: number;
+      /** Largest surface field allowed along the support, V/m (common practice default). */
+      fieldLimit?: number;
+    }
+  | {
+      kind: 'rods';
+      /** Rods spaced evenly around the axis (each sees the same axisymmetric field). */
+      count: number;
+      diameter: number;
+      /** First end: radius from the axis and height above the floor, m. */
+      fromRadius: number;
+      fromHeight: number;
+      /** Second end, m. */
+      toRadius: number;
+      toHeight: number;
+      fieldLimit?: number;
+    };
+
 export interface Design {
   supply?: SupplySpec;
   tankBank?: TankBankSpec;
@@ -218,6 +265,8 @@ export interface Design {
   /** A separate resonator carrying the topload (three-coil system). */
   resonator?: ResonatorSpec;
   environment: EnvironmentSpec;
+  breakoutPoint?: BreakoutPointSpec;
+  support?: SupportSpec;
 }
 
 /** Standard environment when a design gives none: sea level, 20 °C (the stages choose their own

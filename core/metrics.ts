@@ -71,7 +71,11 @@ export const METRICS: readonly MetricInfo[] = [
   metric('transfer_time', 's', "first minimum of the primary's stored energy"),
   metric('energy_per_shot', 'J', 'energy delivered to the primary per shot or burst'),
   metric('input_power', 'W', 'average input power, energy per shot × repetition rate'),
-  metric('peak_voltage', 'V', 'peak secondary voltage if the topload held'),
+  metric(
+    'peak_voltage',
+    'V',
+    'peak secondary voltage if the topload held (with a breakout point: capped at its firing voltage)',
+  ),
   metric('breakout_margin', '', 'breakout voltage over peak voltage'),
   metric('topload_peak_field', 'V/m', 'peak topload surface field at the peak voltage'),
   metric(
@@ -255,6 +259,51 @@ export const METRICS: readonly MetricInfo[] = [
     'm',
     'axis distance beyond which the secondary–resonator coupling stays below 1 % of the primary coupling',
   ),
+  // --- appended: a breakout point and the supports ---
+  metric(
+    'breakout_point_length',
+    'm',
+    "height of the breakout point from the topload's surface to its tip (given, or solved for fire_at)",
+  ),
+  metric(
+    'breakout_point_enhancement',
+    '',
+    'field enhancement at the tip of the breakout point: a hemisphere-capped rod on a plane in a uniform field',
+  ),
+  metric(
+    'breakout_point_base_field_per_volt',
+    '1/m',
+    "topload's own surface field per volt where the breakout point stands",
+  ),
+  metric(
+    'breakout_point_onset_field',
+    'V/m',
+    "Peek's corona-onset field for the tip radius (held at its 1 mm value below 1 mm)",
+  ),
+  metric('breakout_point_voltage', 'V', 'top voltage at which the tip of the breakout point reaches corona onset'),
+  metric(
+    'peak_voltage_without_point',
+    'V',
+    'peak secondary voltage the dynamics give before the breakout point caps it (peak_voltage is then the lower of this and breakout_point_voltage)',
+  ),
+  metric('support_peak_field_per_volt', '1/m', 'largest field along the support per volt at the top'),
+  metric(
+    'support_peak_field_position',
+    '',
+    "where that field sits: fraction of the support's length from its first end (a column: its foot)",
+  ),
+  metric('support_peak_field', 'V/m', 'largest field along the support at the peak voltage'),
+  metric(
+    'support_field_margin',
+    '',
+    "support field limit (common practice 1 MV/m unless given) over the support's largest field at the peak voltage",
+  ),
+  metric(
+    'topload_low_field_angle',
+    'rad',
+    "centre of the band (a twelfth of the topload's meridian) with the lowest surface field, where supports are best brought in; angle as topload_peak_field_angle",
+  ),
+  metric('topload_low_field_per_volt', '1/m', 'mean surface field over that band per volt at the top'),
 ];
 
 export const METRIC_KEYS: readonly string[] = METRICS.map((m) => m.key);

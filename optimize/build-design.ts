@@ -2,7 +2,16 @@
  * From a normal tree (SI numbers, field names of the file) to the physics core's `Design`, with the
  * checks that involve more than one field. Every problem is an FieldIssue naming the field.
  */
-import type { Design, DriverSpec, InsulationGrade, PrimarySpec, ToploadSpec, WireSpec } from '../core/design.ts';
+import type {
+  BreakoutPointSpec,
+  Design,
+  DriverSpec,
+  InsulationGrade,
+  PrimarySpec,
+  SupportSpec,
+  ToploadSpec,
+  WireSpec,
+} from '../core/design.ts';
 import { DEFAULT_ENVIRONMENT } from '../core/design.ts';
 import { awgDiameter } from '../core/wire/awg.ts';
 import {
@@ -375,7 +384,66 @@ export function buildDesign(tree: NormalTree, basePath: string[] = []): DesignBu
     if (!tank) issues.push({ path: at('safety_gap'), message: 'a safety gap needs a tank' });
     design.safetyGap = spec;
   }
+  const point = section(tree, 'breakout_point');
+  if (point) {
+    if (!topload) issues.push({ path: at('breakout_point'), message: 'a breakout point needs a topload to stand on' });
+    const spec: BreakoutPointSpec = {
+      position: (text(point, 'position') ?? 'top') as BreakoutPointSpec['position'],
+      tipRadius: required(point, 'tip_radius'),
+    };
+    const sizes = (['length', 'fire_at_voltage', 'fire_at_fraction'] as const).filter(
+      (key) => num(point, key) !== undefined,
+    );
+    if (sizes.length !== 1) {
+      issues.push({
+        path: at('breakout_point', sizes.length === 0 ? 'length' : sizes[1]),
+        message:
+          sizes.length === 0
+            ? 'required: give length, fire_at_voltage or fire_at_fraction'
+            : 'give one of length, fire_at_voltage and fire_at_fraction, not several',
+      });
+    }
+    const pointLength = num(point, 'length');
+    const fireVoltage = num(point, 'fire_at_voltage');
+    const fireFraction = num(point, 'fire_at_fraction');
+    if (pointLength !== undefined) spec.length = pointLength;
+    if (fireVoltage !== undefined) spec.fireAtVoltage = fireVoltage;
+    if (fireFraction !== undefined) spec.fireAtFraction = fireFraction;
+    design.breakoutPoint = spec;
+  }
+
+  const supports = section(tree, 'supports');
+  if (supports) {
+    if (!topload) issues.push({ path: at('supports'), message: 'supports need a topload to carry' });
+    const diameter = required(supports, 'diameter');
+    const limit = num(supports, 'field_limit');
+    let spec: SupportSpec;
+    if (text(supports, 'kind') === 'rods') {
+      spec = {
+        kind: 'rods',
+        count: num(supports, 'count') ?? 3,
+        diameter,
+        fromRadius: required(supports, 'from_radius'),
+        fromHeight: required(supports, 'from_height'),
+        toRadius: required(supports, 'to_radius'),
+        toHeight: required(supports, 'to_height'),
+      };
+    } else {
+      const from = (text(supports, 'from') ?? 'winding_top') as 'floor' | 'winding_top';
+      if (from === 'winding_top' && !secondary) {
+        issues.push({ path: at('supports', 'from'), message: 'a column from the winding top needs a secondary' });
+      }
+      spec = { kind: 'column', from, diameter };
+    }
+    if (limit !== undefined) spec.fieldLimit = limit;
+    design.support = spec;
+  }
   return { design: issues.length === 0 ? design : null, issues };
+}
+
+/** A field the schema requires (NaN if it were missing: the core then names it as a problem). */
+function required(section: NormalSection, key: string): number {
+  return num(section, key) ?? Number.NaN;
 }
 
 /** A length in millimetres for messages: '152.4 mm'. */

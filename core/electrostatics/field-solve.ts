@@ -398,6 +398,11 @@ export interface SurfaceFields {
   toploadPeakAngle: number | null;
   toploadUndersideFieldPerVolt: number | null;
   windingTopFieldPerVolt: number | null;
+  /** The panels and the density these fields come from (σ, C/m² per volt; λ for thin rings). */
+  layout: PanelLayout;
+  density: Float64Array;
+  /** Index range of the topload's panels in the layout. */
+  toploadPanels: { first: number; count: number };
 }
 
 /**
@@ -449,6 +454,9 @@ export function densityFields(
     toploadPeakAngle: fields ? fields.angle : null,
     toploadUndersideFieldPerVolt: fields ? fields.underside : null,
     windingTopFieldPerVolt,
+    layout,
+    density,
+    toploadPanels: { first: leadingCount, count: toploadCount },
   };
 }
 

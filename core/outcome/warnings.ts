@@ -18,6 +18,12 @@ export const TANK_RATING_FACTOR = 1.5;
  * builders retune when the tank is a few per cent off; the number is ours, not from a source.
  */
 export const TUNING_TOLERANCE = 0.03;
+/**
+ * A breakout point that fires below this share of the peak voltage the coil would reach without it
+ * clips the coil's swing to little use (common practice: the point should take the discharge near
+ * the top of the swing; the number 0.5 is ours).
+ */
+export const POINT_USEFUL_FRACTION = 0.5;
 
 /**
  * Every warning the core can give, by a stable short key (the CSV's warnings column names these,
@@ -49,6 +55,11 @@ export const WARNING_KEYS = [
   'safety_gap_outside_table',
   // --- appended: three-coil systems ---
   'resonator_too_close',
+  'breakout_point_fires_low',
+  'breakout_point_above_topload',
+  'breakout_point_never_fires',
+  'breakout_point_beyond_model',
+  'support_field_high',
 ] as const;
 
 export type WarningKey = (typeof WARNING_KEYS)[number];
@@ -60,6 +71,10 @@ export interface DesignWarning {
 }
 
 const WARNING_BIT = new Map<string, number>(WARNING_KEYS.map((key, index) => [key, index]));
+// Warning sets travel as 32-bit masks (batch results, packed rows, checkpoints): a 33rd key would
+// silently alias the first. Widening the mask is a format change of the checkpoint and the journal.
+if (WARNING_KEYS.length > 32)
+  throw new Error(`internal error: ${WARNING_KEYS.length} warning keys exceed the 32-bit mask`);
 
 /** The bit mask of a list of warnings (bit i set when WARNING_KEYS[i] is among them). */
 export function warningMask(warnings: readonly DesignWarning[]): number {

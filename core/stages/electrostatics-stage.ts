@@ -31,6 +31,7 @@ import { linearProfileCapacitance, shapedSurfaceFields } from '../electrostatics
 import { type FieldArrangement, solveField, type SurfaceFields } from '../electrostatics/field-solve.ts';
 import { distributedWinding } from '../resonator/design-resonator.ts';
 import { formatNumber } from '../outcome/warnings.ts';
+import { toploadParts } from './topload-parts.ts';
 
 /** Runs the field solve for the design in `context` and sets its electrostatics metrics (see above). */
 export function electrostaticsStage(context: EvalContext): void {
@@ -150,6 +151,8 @@ export function electrostaticsStage(context: EvalContext): void {
     onsetField,
     breakoutVoltage: breakout,
   };
+  if (design.breakoutPoint || design.support)
+    toploadParts(context, arrangement, surface, airDensity, surfaceFactor, breakout);
 }
 
 /** What the stage needs from either solve: the fields of the profile and the lumped cross-check. */

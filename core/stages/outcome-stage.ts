@@ -16,7 +16,7 @@ import {
   toploadCentreHeight,
   toploadToRingDistance,
 } from '../outcome/clearance.ts';
-import { AXIAL_GRADIENT_LIMIT, formatNumber, formatQuantity } from '../outcome/warnings.ts';
+import { AXIAL_GRADIENT_LIMIT, formatNumber, formatQuantity, POINT_USEFUL_FRACTION } from '../outcome/warnings.ts';
 
 /**
  * Sets overall_height, spark_length (common practice), loaded_resonant_frequency (from that spark
@@ -34,7 +34,7 @@ export function outcomeStage(context: EvalContext): void {
     metrics.overall_height = Math.max(secondary.topZ, overallHeight(design, threeCoil.winding) ?? 0);
   }
 
-  const peak = metrics.peak_voltage;
+  let peak = metrics.peak_voltage;
   const power = metrics.input_power;
   const sparkLength = power !== null && Number.isFinite(power) ? sparkLengthEstimate(power) : null;
   metrics.spark_length = sparkLength;
@@ -52,9 +52,27 @@ export function outcomeStage(context: EvalContext): void {
     if (context.threeCoil) metrics.loaded_resonant_frequency = resonatorModel?.loadedFundamental(streamer) ?? null;
   }
   if (peak === null || !(peak > 0)) return;
+  // A breakout point fires first and holds the top at its firing voltage.
+  const pointVoltage = electrostatics?.breakoutPointVoltage ?? null;
+  if (pointVoltage !== null && pointVoltage > 0) {
+    metrics.peak_voltage_without_point = peak;
+    pointWarnings(context, peak, pointVoltage);
+    peak = Math.min(peak, pointVoltage);
+    metrics.peak_voltage = peak;
+  }
 
   const breakout = electrostatics?.breakoutVoltage ?? null;
-  if (breakout !== null && breakout > 0) {
+  if (breakout !== null && breakout > 0 && pointVoltage !== null && pointVoltage > 0) {
+    // The topload's margin above the point: how far above the (capped) top voltage it holds.
+    const margin = breakout / peak;
+    metrics.breakout_margin = margin;
+    if (margin < 1) {
+      warnings.push({
+        key: 'topload_breaks_out_early',
+        message: `the topload breaks out at ${formatQuantity(breakout, 'V')}, below the ${formatQuantity(peak, 'V')} at which the breakout point holds the top (breakout margin ${formatNumber(margin)}): streamers start all round`,
+      });
+    }
+  } else if (breakout !== null && breakout > 0) {
     const margin = breakout / peak;
     metrics.breakout_margin = margin;
     if (margin < 1) {
@@ -71,6 +89,18 @@ export function outcomeStage(context: EvalContext): void {
   }
   const fieldPerVolt = electrostatics?.toploadFieldPerVolt ?? null;
   if (fieldPerVolt !== null) metrics.topload_peak_field = fieldPerVolt * peak;
+  const support = electrostatics?.support ?? null;
+  if (support) {
+    const supportPeak = support.peakPerVolt * peak;
+    metrics.support_peak_field = supportPeak;
+    metrics.support_field_margin = support.limit / supportPeak;
+    if (supportPeak > support.limit) {
+      warnings.push({
+        key: 'support_field_high',
+        message: `the field along the support reaches ${formatQuantity(supportPeak, 'V/m')} at the peak voltage ${formatQuantity(peak, 'V')}, above its ${formatQuantity(support.limit, 'V/m')} limit (common practice): tracking and flashover along it likely`,
+      });
+    }
+  }
 
   if (secondary) {
     // three coils: the resonator's winding carries the top voltage
@@ -135,4 +165,19 @@ function gradientPerVolt(context: EvalContext, windingLength: number): number {
   if (context.resonator) return context.resonator.peakGradientPerVolt;
   const quarterWave = context.design.secondary?.voltageProfile === 'quarter_wave';
   return (quarterWave ? Math.PI / 2 : 1) / windingLength;
+}
+
+/** The breakout point's warnings: it never fires, or it fires too low to leave useful sparks. */
+function pointWarnings(context: EvalContext, peak: number, pointVoltage: number): void {
+  if (peak < pointVoltage) {
+    context.warnings.push({
+      key: 'breakout_point_never_fires',
+      message: `the peak voltage ${formatQuantity(peak, 'V')} stays below the breakout point's firing voltage ${formatQuantity(pointVoltage, 'V')}: the point never fires (lengthen it or sharpen its tip)`,
+    });
+  } else if (pointVoltage < POINT_USEFUL_FRACTION * peak) {
+    context.warnings.push({
+      key: 'breakout_point_fires_low',
+      message: `the breakout point fires at ${formatQuantity(pointVoltage, 'V')}, below ${formatNumber(POINT_USEFUL_FRACTION)} of the ${formatQuantity(peak, 'V')} the coil would reach (common practice): it clips the swing to short sparks (shorten it or blunt its tip)`,
+    });
+  }
 }

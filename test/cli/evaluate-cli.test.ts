@@ -6,7 +6,13 @@ import { METRIC_KEYS } from '../../core/metrics.ts';
 import { runCli } from '../../cli/program.ts';
 import type { CliIo } from '../../cli/io.ts';
 
-const EXAMPLES = ['tabletop-teaching-coil', 'exhibit-two-metre-coil', 'solid-state-bench-coil', 'topload-alone'];
+const EXAMPLES = [
+  'tabletop-teaching-coil',
+  'exhibit-two-metre-coil',
+  'solid-state-bench-coil',
+  'topload-alone',
+  'gallery-coil-breakout-point',
+];
 
 async function run(args: string[]): Promise<{ code: number; out: string; err: string }> {
   let out = '';
