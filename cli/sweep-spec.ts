@@ -13,6 +13,7 @@ import { fieldError, InputError, type InputIssue } from './input-error.ts';
 import { metricKind } from './metric-kinds.ts';
 import { readInputFile } from './read-file.ts';
 import { suggest } from './suggest.ts';
+import { readTolerances, type ToleranceSection } from './tolerance-spec.ts';
 import { describeValue, readQuantity } from './units.ts';
 
 export type SamplingMethod = 'sobol' | 'lhs' | 'grid' | 'random';
@@ -46,6 +47,8 @@ export interface SweepSpec {
   shardCount: number | null;
   /** sha256 of the canonical JSON of the file's content: the identity of a run. */
   hash: string;
+  /** The build tolerances for `coilfront tolerance`, when the file has a `tolerances:` section. */
+  tolerances?: ToleranceSection | null;
 }
 
 /** Above this many designs a sweep is refused unless --force (a day of a small workstation). */
@@ -53,7 +56,7 @@ export const MAX_SAMPLES_WITHOUT_FORCE = 20_000_000;
 /** Never more than this: 2^32 Sobol points; index arithmetic stays exact. */
 export const MAX_SAMPLES = 2 ** 32;
 
-const TOP_KEYS = ['design', 'constraints', 'objectives', 'sweep'];
+const TOP_KEYS = ['design', 'constraints', 'objectives', 'sweep', 'tolerances'];
 const SWEEP_KEYS = ['method', 'samples', 'seed', 'levels', 'shard_count', 'reference_point'];
 
 function isMapping(value: unknown): value is Record<string, unknown> {
@@ -116,7 +119,7 @@ function readBound(
   return result.value;
 }
 
-function readConstraints(input: unknown, issues: InputIssue[]): ConstraintSpec[] {
+export function readConstraints(input: unknown, issues: InputIssue[]): ConstraintSpec[] {
   if (input === undefined || input === null) return [];
   if (!isMapping(input)) {
     issues.push({
@@ -169,7 +172,7 @@ function readConstraints(input: unknown, issues: InputIssue[]): ConstraintSpec[]
   return constraints;
 }
 
-function readObjectives(input: unknown, issues: InputIssue[]): ObjectiveSpec[] {
+export function readObjectives(input: unknown, issues: InputIssue[]): ObjectiveSpec[] {
   if (!Array.isArray(input)) {
     issues.push({
       path: ['objectives'],
@@ -282,6 +285,8 @@ export function sweepFromValue(value: unknown, file: string, options: SweepReadO
   const constraints = readConstraints(value.constraints, issues);
   if (issues.length) fail();
   const objectives = readObjectives(value.objectives, issues);
+  if (issues.length) fail();
+  const tolerances = value.tolerances === undefined ? null : readTolerances(value.tolerances, ['tolerances'], issues);
   if (issues.length) fail();
 
   const sweep = value.sweep ?? {};
@@ -417,6 +422,7 @@ export function sweepFromValue(value: unknown, file: string, options: SweepReadO
     referencePoint,
     shardCount,
     hash: createHash('sha256').update(canonicalJson(value)).digest('hex'),
+    tolerances,
   };
 }
 
