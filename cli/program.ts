@@ -20,6 +20,7 @@ import { demoCommand } from './demo-command.ts';
 import { refineCommand, type RefineCommandOptions } from './refine-command.ts';
 import { evolveCommand, type EvolveCommandOptions } from './evolve-command.ts';
 import { sensitivityCommand, type SensitivityOptions } from './sensitivity-command.ts';
+import { toleranceCommand, type ToleranceCommandOptions } from './tolerance-command.ts';
 
 /** The version in package.json (one directory above cli/ and dist/cli/). */
 function packageVersion(): string {
@@ -141,6 +142,19 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .option('--out <dir>', 'directory for sensitivity.csv and sensitivity.json', '.')
     .action(async (file: string, options: SensitivityOptions) => {
       exitCode = await sensitivityCommand(file, options, io);
+    });
+
+  program
+    .command('tolerance')
+    .description('yield and metric quantiles of candidates built with tolerances (same draws for every candidate)')
+    .argument('<target>', 'run directory of a sweep, or a design file (with --tolerances)')
+    .option('--top <n>', 'candidates of candidates.csv to study', integer('--top'), 20)
+    .option('--draws <n>', "builds per candidate (default: the tolerances' draws, or 256)", integer('--draws'))
+    .option('--tolerances <file>', 'file with a tolerances: section (and constraints, objectives, metrics)')
+    .option('--workers <n>', 'worker threads (default: available parallelism)', integer('--workers'))
+    .option('--out <dir>', 'directory for tolerance.csv and tolerance.json of a design file', '.')
+    .action(async (target: string, options: ToleranceCommandOptions) => {
+      exitCode = await toleranceCommand(target, options, io);
     });
 
   program
