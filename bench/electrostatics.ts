@@ -11,6 +11,7 @@ import { electrostaticsStage } from '../core/stages/electrostatics-stage.ts';
 import { assembleCollocationMatrix } from '../core/electrostatics/assembly.ts';
 import { luFactor } from '../core/electrostatics/dense-lu.ts';
 import { solveField, type FieldArrangement } from '../core/electrostatics/field-solve.ts';
+import { must } from '../core/must.ts';
 
 /**
  * Time per call in microseconds: the best of five batch means (each batch a fifth of the runs),
@@ -70,16 +71,16 @@ export async function benchElectrostatics(options: { runs?: number } = {}): Prom
   ];
   let sink = 0;
   for (const [name, arrangement] of DEMO_ARRANGEMENTS) {
-    const solution = solveField(arrangement)!;
+    const solution = must(solveField(arrangement));
     const solveMicroseconds = timePerCall(runs, () => {
-      sink += solveField(arrangement)!.totalCapacitance;
+      sink += must(solveField(arrangement)).totalCapacitance;
     });
     const assemblyMicroseconds = timePerCall(runs, () => {
       sink += assembleCollocationMatrix(solution.layout, true)[0];
     });
     const matrix = assembleCollocationMatrix(solution.layout, true);
     const factorMicroseconds = timePerCall(runs, () => {
-      sink += luFactor(matrix.slice(), solution.unknowns)![0];
+      sink += must(luFactor(matrix.slice(), solution.unknowns))[0];
     });
     const counts = solution.panelCounts;
     lines.push(

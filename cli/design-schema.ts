@@ -22,6 +22,7 @@ import type {
   WireValue,
 } from '../optimize/design-tree.ts';
 import { suggest } from './suggest.ts';
+import { must } from '../core/must.ts';
 
 export type {
   Dimension,
@@ -451,7 +452,7 @@ function readChoose(
 ): DimensionSlot | undefined {
   const keys = Object.keys(input);
   if (keys.length !== 1) {
-    const extra = keys.find((k) => k !== 'choose')!;
+    const extra = must(keys.find((k) => k !== 'choose'));
     state.issues.push({ path: [...path, extra], message: `a set takes only 'choose', got '${extra}' beside it` });
     return undefined;
   }
@@ -547,7 +548,7 @@ function readSection(
       state.issues.push({
         path: [...path, key],
         message: inOtherForm
-          ? `'${key}' belongs to ${section.variants!.key} ${inOtherForm}, not ${form}`
+          ? `'${key}' belongs to ${must(section.variants).key} ${inOtherForm}, not ${form}`
           : unknownKeyMessage(key, known),
       });
       return undefined;
@@ -640,7 +641,7 @@ export function readDesignTree(input: unknown, mode: Mode, basePath: string[] = 
 
 /** The numeric fields of a set of whole sections, for their own CSV columns (see Dimension). */
 function attachSectionFields(section: SectionSpec, dimension: Dimension | undefined): void {
-  if (!dimension || dimension.kind !== 'choose') return;
+  if (dimension?.kind !== 'choose') return;
   const choices = dimension.values.filter((v): v is NormalSection => typeof v === 'object' && !('awg' in v));
   if (choices.length !== dimension.values.length) return;
   const names: string[] = [];

@@ -24,6 +24,7 @@ export function formatPath(path: ReadonlyArray<string | number>): string {
  * message quoting a user's key or value stays on one line.
  */
 export function escapeControlCharacters(text: string): string {
+  // biome-ignore lint/suspicious/noControlCharactersInRegex: matching control characters is the point here
   return text.replace(/[\u0000-\u001f\u007f-\u009f\u2028\u2029]/g, (character) => {
     if (character === '\n') return '\\n';
     if (character === '\r') return '\\r';

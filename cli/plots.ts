@@ -39,7 +39,7 @@ function axisTitle(objective: ObjectiveSpec): string {
   return `${objective.metric.replace(/_/g, ' ')}${display ? ` (${humanUnit(display.label)})` : ''} — ${objective.sense}`;
 }
 
-function valueOf(row: CandidateRow, metric: string): number | null {
+function displayValueOf(row: CandidateRow, metric: string): number | null {
   const value = row.metrics[METRIC_KEYS.indexOf(metric)];
   if (value === null || value === undefined) return null;
   const display = METRIC_DISPLAY[metric];
@@ -93,7 +93,7 @@ export function frontPlotSpec(
   const push = (row: CandidateRow, set: MarkSet, label: string) => {
     const datum: Datum = { set, label };
     for (let j = 0; j < objectives.length; j++) {
-      const value = valueOf(row, objectives[j].metric);
+      const value = displayValueOf(row, objectives[j].metric);
       if (value === null) return;
       datum[`o${j}`] = value;
     }
@@ -130,7 +130,7 @@ export function frontPlotSpec(
   if (objectives.length === 1) {
     const objective = objectives[0];
     const values = candidates.flatMap((row, i) => {
-      const y = valueOf(row, objective.metric);
+      const y = displayValueOf(row, objective.metric);
       return y === null ? [] : [{ set: 'candidate', x: i + 1, y }];
     });
     return {

@@ -183,7 +183,7 @@ export function formatReport(file: string, evaluation: Evaluation): string {
   const listed = new Set<string>();
   for (const group of GROUPS) {
     const present = group.keys.filter((key) => key in evaluation.metrics);
-    group.keys.forEach((key) => listed.add(key));
+    for (const key of group.keys) listed.add(key);
     if (present.every((key) => evaluation.metrics[key] === null)) continue;
     out.push(group.title);
     for (const key of present) if (evaluation.metrics[key] !== null) out.push(line(key, evaluation.metrics[key]));

@@ -58,6 +58,7 @@ import { writeSweepOutputs, type RunIdentity } from './sweep-outputs.ts';
 import { loadSweepFile, sweepFromValue, type SweepSpec } from './sweep-spec.ts';
 import { parseInputText } from './read-file.ts';
 import { formatTopCandidates, NO_FEASIBLE_EXIT_CODE } from './top-candidates.ts';
+import { must } from '../core/must.ts';
 
 export interface SweepOptions {
   out?: string;
@@ -188,7 +189,7 @@ class OrderedCsvWriter {
   }
   private flush(): void {
     while (this.pending.has(this.nextBatch)) {
-      this.write(this.pending.get(this.nextBatch)!);
+      this.write(must(this.pending.get(this.nextBatch)));
       this.pending.delete(this.nextBatch);
       this.nextBatch++;
     }

@@ -15,6 +15,7 @@ import { readInputFile } from './read-file.ts';
 import { suggest } from './suggest.ts';
 import { readTolerances, type ToleranceSection } from './tolerance-spec.ts';
 import { describeValue, readQuantity } from './units.ts';
+import { must } from '../core/must.ts';
 
 export type SamplingMethod = 'sobol' | 'lhs' | 'grid' | 'random';
 
@@ -110,7 +111,7 @@ function readBound(
   path: Array<string | number>,
   issues: InputIssue[],
 ): number | undefined {
-  const kind = metricKind(metric)!;
+  const kind = must(metricKind(metric));
   const result = readQuantity(input, kind);
   if (!result.ok) {
     issues.push({ path, message: result.reason });
@@ -388,7 +389,7 @@ export function sweepFromValue(value: unknown, file: string, options: SweepReadO
       }
       const read = readBound(objective.metric, bound, ['sweep', 'reference_point', objective.metric], issues);
       if (read === undefined) fail();
-      point.push(objective.sense === 'maximize' ? -read! : read!);
+      point.push(objective.sense === 'maximize' ? -must(read) : must(read));
     }
     for (const key of Object.keys(given as object)) {
       if (!objectives.some((o) => o.metric === key)) {

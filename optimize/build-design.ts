@@ -13,6 +13,7 @@ import {
   type NormalTree,
   type WireValue,
 } from './design-tree.ts';
+import { must } from '../core/must.ts';
 
 /** One problem with a design's fields: the path in the file's names and a one-line reason. */
 export interface FieldIssue {
@@ -91,7 +92,7 @@ export function buildDesign(tree: NormalTree, basePath: string[] = []): DesignBu
     }
     const wire = wireSpec(secondary.wire, secondary);
     const spec: Design['secondary'] = {
-      formDiameter: num(secondary, 'form_diameter')!,
+      formDiameter: must(num(secondary, 'form_diameter')),
       wire,
       baseHeight: num(secondary, 'base_height') ?? 0,
       voltageProfile: (text(secondary, 'voltage_profile') ?? 'computed') as 'computed' | 'linear' | 'quarter_wave',
@@ -117,7 +118,11 @@ export function buildDesign(tree: NormalTree, basePath: string[] = []): DesignBu
     const centerHeight = num(topload, 'center_height');
     let spec: ToploadSpec;
     if (shape === 'toroid') {
-      spec = { shape, outerDiameter: num(topload, 'outer_diameter')!, tubeDiameter: num(topload, 'tube_diameter')! };
+      spec = {
+        shape,
+        outerDiameter: must(num(topload, 'outer_diameter')),
+        tubeDiameter: must(num(topload, 'tube_diameter')),
+      };
       if (spec.tubeDiameter >= spec.outerDiameter) {
         issues.push({
           path: at('topload', 'tube_diameter'),
@@ -126,7 +131,7 @@ export function buildDesign(tree: NormalTree, basePath: string[] = []): DesignBu
         });
       }
     } else {
-      spec = { shape: 'sphere', diameter: num(topload, 'diameter')! };
+      spec = { shape: 'sphere', diameter: must(num(topload, 'diameter')) };
     }
     if (secondary) {
       if (heightAbove === undefined) {
@@ -157,10 +162,10 @@ export function buildDesign(tree: NormalTree, basePath: string[] = []): DesignBu
     if (!secondary) issues.push({ path: at('primary'), message: 'a primary needs a secondary to couple to' });
     const spec: PrimarySpec = {
       shape: text(primary, 'shape') as PrimarySpec['shape'],
-      innerDiameter: num(primary, 'inner_diameter')!,
-      turns: num(primary, 'turns')!,
-      conductorDiameter: num(primary, 'conductor_diameter')!,
-      turnSpacing: num(primary, 'turn_spacing')!,
+      innerDiameter: must(num(primary, 'inner_diameter')),
+      turns: must(num(primary, 'turns')),
+      conductorDiameter: must(num(primary, 'conductor_diameter')),
+      turnSpacing: must(num(primary, 'turn_spacing')),
       elevation: num(primary, 'elevation') ?? 0,
     };
     const coneAngle = num(primary, 'cone_angle');
@@ -191,8 +196,8 @@ export function buildDesign(tree: NormalTree, basePath: string[] = []): DesignBu
   if (rail) {
     if (!secondary) issues.push({ path: at('strike_rail'), message: 'a strike rail needs a secondary' });
     design.strikeRail = {
-      diameter: num(rail, 'diameter')!,
-      conductorDiameter: num(rail, 'conductor_diameter')!,
+      diameter: must(num(rail, 'diameter')),
+      conductorDiameter: must(num(rail, 'conductor_diameter')),
       elevation: num(rail, 'elevation') ?? 0,
     };
   }
@@ -200,7 +205,7 @@ export function buildDesign(tree: NormalTree, basePath: string[] = []): DesignBu
   const tank = section(tree, 'tank');
   if (tank) {
     if (!primary) issues.push({ path: at('tank'), message: 'a tank capacitor needs a primary' });
-    design.tank = { capacitance: num(tank, 'capacitance')! };
+    design.tank = { capacitance: must(num(tank, 'capacitance')) };
     const charge = num(tank, 'charge_voltage');
     const rating = num(tank, 'voltage_rating');
     if (charge !== undefined) design.tank.chargeVoltage = charge;
@@ -214,7 +219,7 @@ export function buildDesign(tree: NormalTree, basePath: string[] = []): DesignBu
       spec = {
         kind: 'spark_gap',
         gap: (text(driver, 'gap') ?? 'static') as 'static' | 'rotary',
-        breakRate: num(driver, 'break_rate')!,
+        breakRate: must(num(driver, 'break_rate')),
         quench: driver.quench === undefined ? true : driver.quench === true,
       };
       const gapResistance = num(driver, 'gap_resistance');
@@ -227,8 +232,8 @@ export function buildDesign(tree: NormalTree, basePath: string[] = []): DesignBu
       spec = {
         kind: 'solid_state',
         bridge: (text(driver, 'bridge') ?? 'full') as 'full' | 'half',
-        busVoltage: num(driver, 'bus_voltage')!,
-        repetitionRate: num(driver, 'repetition_rate')!,
+        busVoltage: must(num(driver, 'bus_voltage')),
+        repetitionRate: must(num(driver, 'repetition_rate')),
       };
       const limit = num(driver, 'current_limit');
       const onTime = num(driver, 'on_time');

@@ -64,26 +64,26 @@ export function isSlot(value: unknown): value is DimensionSlot {
  */
 export function fillSlots(tree: NormalTree, dimensions: readonly Dimension[], values: ArrayLike<number>): NormalTree {
   const filled: NormalTree = {};
-  const valueOf = (slot: DimensionSlot): LeafValue | NormalSection => {
+  const slotValue = (slot: DimensionSlot): LeafValue | NormalSection => {
     const dimension = dimensions[slot.slot];
     const value = values[slot.slot];
     return dimension.kind === 'range' ? value : dimension.values[value];
   };
   for (const [name, section] of Object.entries(tree)) {
     if (isSlot(section)) {
-      const chosen = valueOf(section) as NormalSection;
+      const chosen = slotValue(section) as NormalSection;
       // A chosen section may itself hold slots (a tolerance study perturbs a field inside a set of sections).
       let nested: NormalSection | null = null;
       for (const [key, leaf] of Object.entries(chosen)) {
         if (!isSlot(leaf)) continue;
         nested ??= { ...chosen };
-        nested[key] = valueOf(leaf) as LeafValue;
+        nested[key] = slotValue(leaf) as LeafValue;
       }
       filled[name] = nested ?? chosen;
       continue;
     }
     const out: NormalSection = {};
-    for (const [key, leaf] of Object.entries(section)) out[key] = isSlot(leaf) ? (valueOf(leaf) as LeafValue) : leaf;
+    for (const [key, leaf] of Object.entries(section)) out[key] = isSlot(leaf) ? (slotValue(leaf) as LeafValue) : leaf;
     filled[name] = out;
   }
   return filled;

@@ -12,6 +12,7 @@ import { warningMask } from '../core/outcome/warnings.ts';
 import { evaluateDesign } from '../core/evaluate.ts';
 import { METRIC_KEYS } from '../core/metrics.ts';
 import type { DesignSpace } from './design-space.ts';
+import { must } from '../core/must.ts';
 
 export const STATUS_OK = 0;
 export const STATUS_PROBLEM = 1;
@@ -66,7 +67,7 @@ export function evaluateBatchTask(
       const sampled = space.designOf(values, task.kind === 'indices' ? task.start + row : -1);
       if (!sampled.design) {
         result.status[row] = STATUS_PROBLEM;
-        const issue = sampled.issue!;
+        const issue = must(sampled.issue);
         result.reasons.push([row, `${issue.path.join('.')}: ${issue.message}`]);
         continue;
       }

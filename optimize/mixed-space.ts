@@ -7,6 +7,7 @@
 import type { Dimension } from './design-tree.ts';
 import { dimensionValue } from './design-space.ts';
 import type { MixedPoint } from './refine/mixed-point.ts';
+import { must } from '../core/must.ts';
 
 export interface MixedSpace {
   /** Positions (in the dimension list) of the continuous dimensions. */
@@ -39,15 +40,15 @@ export function mixedSpaceOf(dimensions: readonly Dimension[]): MixedSpace {
 /** Dimension values of a mixed point. */
 export function valuesOfPoint(dimensions: readonly Dimension[], space: MixedSpace, point: MixedPoint): Float64Array {
   const values = new Float64Array(dimensions.length);
-  space.continuous.forEach(
-    (d, i) => (values[d] = dimensionValue(dimensions[d], Math.min(1, Math.max(0, point.continuous[i])))),
-  );
+  space.continuous.forEach((d, i) => {
+    values[d] = dimensionValue(dimensions[d], Math.min(1, Math.max(0, point.continuous[i])));
+  });
   space.discrete.forEach((d, i) => {
     const dimension = dimensions[d];
     const level = point.levels[i];
     if (dimension.kind === 'choose') values[d] = level;
     else if (dimension.integer) values[d] = Math.ceil(dimension.from) + level;
-    else values[d] = dimension.from + dimension.step! * level;
+    else values[d] = dimension.from + must(dimension.step) * level;
   });
   return values;
 }
@@ -75,7 +76,7 @@ export function pointOfValues(
     const value = values[d];
     if (dimension.kind === 'choose') levels[i] = value;
     else if (dimension.integer) levels[i] = Math.round(value - Math.ceil(dimension.from));
-    else levels[i] = Math.round((value - dimension.from) / dimension.step!);
+    else levels[i] = Math.round((value - dimension.from) / must(dimension.step));
     levels[i] = Math.min(space.levelCounts[i] - 1, Math.max(0, levels[i]));
   });
   return { continuous, levels };

@@ -50,7 +50,9 @@ export interface PackedRowData {
 export function packRow(row: CandidateRow): PackedRow {
   const packed = new Float64Array(row.values.length + row.metrics.length);
   packed.set(row.values, 0);
-  row.metrics.forEach((value, m) => (packed[row.values.length + m] = value === null ? Number.NaN : value));
+  row.metrics.forEach((value, m) => {
+    packed[row.values.length + m] = value === null ? Number.NaN : value;
+  });
   return new PackedRow(packed, row.values.length, row.status, row.reason, row.warningMask);
 }
 

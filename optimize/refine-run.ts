@@ -67,7 +67,9 @@ export async function refineSweep(
   // The evaluator of mixed points: dimension values to the pool as one 'values' task per chunk.
   const evaluateMixed = async (points: MixedPoint[]): Promise<RefineRecord[]> => {
     const values = new Float64Array(points.length * dimensions.length);
-    points.forEach((point, i) => values.set(valuesOfPoint(dimensions, space, point), i * dimensions.length));
+    points.forEach((point, i) => {
+      values.set(valuesOfPoint(dimensions, space, point), i * dimensions.length);
+    });
     const result = await evaluator.evaluate({ kind: 'values', values, count: points.length });
     return points.map((_, row) => {
       // The sweep's own classification; a design that could not be built or evaluated ranks last.

@@ -13,6 +13,7 @@ import { CandidatePool, type CandidatePoolData } from './pareto/candidate-pool.t
 import { totalViolation } from './pareto/constraint-violation.ts';
 import { IndexSample, type IndexSampleData } from './sampling/index-sample.ts';
 import { PackedRow, packRow, type PackedRowData } from './packed-row.ts';
+import { must } from '../core/must.ts';
 
 export interface ObjectiveDefinition {
   metric: string;
@@ -146,7 +147,9 @@ export class SweepState {
     const objectives = this.objectiveVector(result.metrics, offset);
     let reason: string | null = null;
     if (objectives === null) {
-      const missing = this.objectives.find((o) => !Number.isFinite(result.metrics[offset + metricIndex(o.metric)]))!;
+      const missing = must(
+        this.objectives.find((o) => !Number.isFinite(result.metrics[offset + metricIndex(o.metric)])),
+      );
       reason = `objective ${missing.metric} is not available for this design`;
       violation += 1;
     } else if (violation > 0) {

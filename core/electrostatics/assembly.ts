@@ -213,7 +213,7 @@ export function assembleCollocationMatrix(
     const z = layout.midZ[i];
     const row = i * n;
     for (let j = 0; j < n; j++) {
-      if (done && done[row + j]) continue;
+      if (done?.[row + j]) continue;
       let value = i === j ? panelSelfIntegral(layout, j) : panelIntegral(layout, j, r, z);
       // Image in the floor: the panel's image seen from (r, z) equals the panel seen from (r, −z).
       if (floor) value -= panelIntegral(layout, j, r, -z);

@@ -43,6 +43,7 @@ import { luFactor, luSolve } from './dense-lu.ts';
 import { buildPanelLayout, type PanelLayout, type PanelShape } from './panels.ts';
 import { VACUUM_PERMITTIVITY } from './ring-kernel.ts';
 import { windingOutsideField } from './surface-field.ts';
+import { must } from '../must.ts';
 
 /** A top-normalised voltage along the winding as a function of the fraction of its length (0 at the base). */
 export type VoltageShape = (fraction: number) => number;
@@ -308,7 +309,7 @@ export function solveField(arrangement: FieldArrangement, options: FieldSolveOpt
   if (n === 0) return null;
 
   const potential = new Float64Array(n);
-  for (let j = 0; j < windingCount; j++) potential[j] = windingPotential(winding!, layout.midZ[j]);
+  for (let j = 0; j < windingCount; j++) potential[j] = windingPotential(must(winding), layout.midZ[j]);
   for (let j = leadingCount; j < n; j++) potential[j] = 1;
 
   const matrix = assembleCollocationMatrix(layout, arrangement.floor, true, matrixScratch(n * n));

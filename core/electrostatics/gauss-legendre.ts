@@ -4,12 +4,13 @@
  * A&S §25.4.29 and Table 25.4).
  */
 import { gaussLegendreRule } from '../gauss-legendre.ts';
+import { must } from '../must.ts';
 
 const [rule2, rule4, rule8] = [2, 4, 8].map((n) => gaussLegendreRule(n));
 
-export const GAUSS2_NODES: readonly number[] = Array.from(rule2!.nodes);
-export const GAUSS2_WEIGHTS: readonly number[] = Array.from(rule2!.weights);
-export const GAUSS4_NODES: readonly number[] = Array.from(rule4!.nodes);
-export const GAUSS4_WEIGHTS: readonly number[] = Array.from(rule4!.weights);
-export const GAUSS8_NODES: readonly number[] = Array.from(rule8!.nodes);
-export const GAUSS8_WEIGHTS: readonly number[] = Array.from(rule8!.weights);
+export const GAUSS2_NODES: readonly number[] = Array.from(must(rule2).nodes);
+export const GAUSS2_WEIGHTS: readonly number[] = Array.from(must(rule2).weights);
+export const GAUSS4_NODES: readonly number[] = Array.from(must(rule4).nodes);
+export const GAUSS4_WEIGHTS: readonly number[] = Array.from(must(rule4).weights);
+export const GAUSS8_NODES: readonly number[] = Array.from(must(rule8).nodes);
+export const GAUSS8_WEIGHTS: readonly number[] = Array.from(must(rule8).weights);

@@ -2,6 +2,7 @@ import type { Scored } from './scored.ts';
 import { BoundedBest } from './bounded-best.ts';
 import { rankCandidates } from './rank-candidates.ts';
 import { DominanceIndex } from './dominance-index.ts';
+import { must } from '../../core/must.ts';
 
 /** One kept candidate with the caller's payload (e.g. its design and metrics row). */
 export interface PoolEntry<T> {
@@ -147,7 +148,7 @@ export class CandidatePool<T> {
 
   /** Number of feasible candidates kept. */
   get feasibleSize(): number {
-    return this.single === null ? this.index!.liveCount : this.single.size;
+    return this.single === null ? must(this.index).liveCount : this.single.size;
   }
 
   /**
@@ -200,7 +201,7 @@ export class CandidatePool<T> {
 
   private offerFeasible(sampleIndex: number, point: Float64Array, makePayload: () => T): boolean {
     const keep = this.keep;
-    const index = this.index!;
+    const index = must(this.index);
     // Rejected when K kept points dominate it (the count stops at K).
     const dominators = index.countDominators(point, keep);
     if (dominators >= keep) return false;
@@ -233,7 +234,7 @@ export class CandidatePool<T> {
       });
     } else {
       const m = this.objectiveCount;
-      const index = this.index!;
+      const index = must(this.index);
       for (let slot = 0; slot < index.slotCount; slot++) {
         if (index.live[slot] === 0) continue;
         entries.push({
@@ -355,10 +356,10 @@ export class CandidatePool<T> {
           `CandidatePool.restore: record ${record.index} is not a kept feasible candidate of this pool`,
         );
       }
-      pool.index!.insert(objectivesOf(record), record.dominatedBy, record.index, record.payload);
+      must(pool.index).insert(objectivesOf(record), record.dominatedBy, record.index, record.payload);
       pool.keptIndices.add(record.index);
     }
-    pool.index!.rebuild();
+    must(pool.index).rebuild();
     return pool;
   }
 }

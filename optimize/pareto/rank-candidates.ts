@@ -67,7 +67,9 @@ export function rankCandidates(items: readonly Scored[], limit = Infinity): Cand
           group.map((p) => items[p].objectives),
           group.map((_, k) => k),
         );
-        group.forEach((p, k) => (crowding[p] = distances[k]));
+        group.forEach((p, k) => {
+          crowding[p] = distances[k];
+        });
         start = i;
       }
     }

@@ -50,7 +50,9 @@ export function coalesceBatches<P, R>(
           offset += caller.items.length;
         }
       })
-      .catch((error: unknown) => callers.forEach((caller) => caller.reject(error)));
+      .catch((error: unknown) => {
+        for (const caller of callers) caller.reject(error);
+      });
   };
 
   return (items: P[]) => {

@@ -95,7 +95,9 @@ export class EvaluationCache<R> {
           });
           return values;
         });
-      records.catch(() => missKeys.forEach((key) => this.inFlight.delete(key)));
+      records.catch(() => {
+        for (const key of missKeys) this.inFlight.delete(key);
+      });
       missKeys.forEach((key, index) => {
         const one = records.then((values) => values[index]);
         one.catch(() => undefined); // the rejection is reported to whoever awaits it

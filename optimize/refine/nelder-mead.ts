@@ -1,6 +1,7 @@
 import { compareMerits, isBetterMerit, meritDistance, toMerit, WORST_MERIT } from './merit.ts';
 import type { Merit } from './merit.ts';
 import { refineRangeError, refineStateError } from './refine-errors.ts';
+import { must } from '../../core/must.ts';
 
 /**
  * Nelder–Mead downhill simplex minimiser as an ask/tell state machine, so that the points of each
@@ -290,15 +291,24 @@ export class NelderMead {
         const worstMerit = this.merits[worst];
         const budgetLeft = this.evaluationCount < this.maxEvaluations;
         if (isBetterMerit(reflected, best)) {
-          if (budgetLeft) return this.request('expand', this.stepPoint('expand'));
-          this.replaceWorst(this.reflectedPoint!, reflected, false);
+          if (budgetLeft) {
+            this.request('expand', this.stepPoint('expand'));
+            return;
+          }
+          this.replaceWorst(must(this.reflectedPoint), reflected, false);
         } else if (isBetterMerit(reflected, secondWorst)) {
-          this.replaceWorst(this.reflectedPoint!, reflected, true);
+          this.replaceWorst(must(this.reflectedPoint), reflected, true);
         } else if (isBetterMerit(reflected, worstMerit)) {
-          if (budgetLeft) return this.request('contract-outside', this.stepPoint('contract-outside'));
-          this.replaceWorst(this.reflectedPoint!, reflected, false);
+          if (budgetLeft) {
+            this.request('contract-outside', this.stepPoint('contract-outside'));
+            return;
+          }
+          this.replaceWorst(must(this.reflectedPoint), reflected, false);
         } else {
-          if (budgetLeft) return this.request('contract-inside', this.stepPoint('contract-inside'));
+          if (budgetLeft) {
+            this.request('contract-inside', this.stepPoint('contract-inside'));
+            return;
+          }
           this.sortSimplex();
           this.advance();
         }
@@ -307,7 +317,7 @@ export class NelderMead {
       case 'expand': {
         const expanded = merits[0];
         if (isBetterMerit(expanded, this.reflectedMerit)) this.replaceWorst(this.pending[0], expanded, true);
-        else this.replaceWorst(this.reflectedPoint!, this.reflectedMerit, true);
+        else this.replaceWorst(must(this.reflectedPoint), this.reflectedMerit, true);
         return;
       }
       case 'contract-outside': {
@@ -359,21 +369,25 @@ export class NelderMead {
 
   private advance(): void {
     if (this.evaluationCount >= this.maxEvaluations) {
-      return this.finish('max_evaluations', `stopped: evaluation budget of ${this.maxEvaluations} used`);
+      this.finish('max_evaluations', `stopped: evaluation budget of ${this.maxEvaluations} used`);
+      return;
     }
     if (this.iterationCount >= this.maxIterations) {
-      return this.finish('max_iterations', `stopped: iteration budget of ${this.maxIterations} used`);
+      this.finish('max_iterations', `stopped: iteration budget of ${this.maxIterations} used`);
+      return;
     }
     const size = this.simplexSize();
     const spread = this.meritSpread();
     if (this.isCollapsedOnBound() && this.mayRestart()) {
-      return this.startRestart();
+      this.startRestart();
+      return;
     }
     if (size <= this.xatol && spread <= this.fatol) {
-      return this.finish(
+      this.finish(
         'converged',
         `converged: simplex size ${size.toExponential(2)} <= xatol ${this.xatol} and merit spread ${spread.toExponential(2)} <= fatol ${this.fatol}`,
       );
+      return;
     }
     // Centroid of the best n vertices (scipy: np.add.reduce(sim[:-1], 0) / N, summed in order).
     const n = this.dimension;
@@ -430,7 +444,8 @@ export class NelderMead {
     const affordable = Math.min(n, this.maxEvaluations - this.evaluationCount);
     if (affordable <= 0) {
       this.sortSimplex();
-      return this.advance();
+      this.advance();
+      return;
     }
     const indices: number[] = [];
     for (let j = 1; j <= affordable; j++) {
@@ -625,7 +640,7 @@ function resolveBudgets(dimension: number, options: NelderMeadOptions): [number,
     ['maxEvaluations', evaluations],
     ['maxIterations', iterations],
   ] as const) {
-    if (!(budget! >= 0) || (Number.isFinite(budget) && !Number.isInteger(budget))) {
+    if (!(must(budget) >= 0) || (Number.isFinite(budget) && !Number.isInteger(budget))) {
       throw refineRangeError('NelderMead', `an integer ${name} >= 0 or Infinity`, budget);
     }
   }
@@ -636,7 +651,7 @@ function resolveBudgets(dimension: number, options: NelderMeadOptions): [number,
       'both Infinity',
     );
   }
-  return [evaluations!, iterations!];
+  return [must(evaluations), must(iterations)];
 }
 
 function resolveSteps(

@@ -120,7 +120,7 @@ describe('removeLeftoverTemporaryFiles(directory)', () => {
       writeFileSync(join(directory, keep), '');
     expect(removeLeftoverTemporaryFiles(directory)).toEqual(
       [
-        '.checkpoint.json.' + leftover.split('.checkpoint.json.')[1],
+        `.checkpoint.json.${leftover.split('.checkpoint.json.')[1]}`,
         '.run.lock.0f8e2c1a-5b7d-4e3f-9a2b-1c4d5e6f7a8b.tmp',
       ].sort(),
     );

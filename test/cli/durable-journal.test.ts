@@ -8,6 +8,7 @@ import { DiskError } from '../../cli/durable/disk-error.ts';
 import { faultyFileSystem } from './durable-faulty-disk.ts';
 import { transpileDurableModules } from './durable-child-modules.ts';
 import { spawn } from 'node:child_process';
+import { must } from '../../core/must.ts';
 
 let directory: string;
 beforeEach(() => {
@@ -77,7 +78,7 @@ describe('openJournal(path) and readJournal(path)', () => {
     const path = join(directory, 'journal.cfj');
     const ends = writeJournal(path, payloads);
     const whole = readFileSync(path);
-    const lastStart = ends.at(-2)!;
+    const lastStart = must(ends.at(-2));
     const cutPath = join(directory, 'cut.cfj');
     for (let cut = lastStart; cut < whole.length; cut++) {
       writeFileSync(cutPath, whole);
@@ -234,9 +235,9 @@ for (;;) {
       });
       const contents = readJournal(path);
       expect(contents.records.length).toBeGreaterThan(0);
-      contents.records.forEach((record, position) =>
-        expect(record).toEqual({ n: position, filler: 'x'.repeat(position % 97) }),
-      );
+      contents.records.forEach((record, position) => {
+        expect(record).toEqual({ n: position, filler: 'x'.repeat(position % 97) });
+      });
     }
   });
 });

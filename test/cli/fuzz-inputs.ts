@@ -78,8 +78,9 @@ export const hostileKey: fc.Arbitrary<string> = fc.oneof(
 /** Every path to a place inside `value` (mappings and lists, the root included as []). */
 export function pathsOf(value: unknown, prefix: ValuePath = []): ValuePath[] {
   const paths: ValuePath[] = [prefix];
-  if (Array.isArray(value)) value.forEach((item, index) => paths.push(...pathsOf(item, [...prefix, index])));
-  else if (typeof value === 'object' && value !== null) {
+  if (Array.isArray(value)) {
+    for (const [index, item] of value.entries()) paths.push(...pathsOf(item, [...prefix, index]));
+  } else if (typeof value === 'object' && value !== null) {
     for (const [key, item] of Object.entries(value)) paths.push(...pathsOf(item, [...prefix, key]));
   }
   return paths;

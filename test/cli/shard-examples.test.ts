@@ -13,6 +13,7 @@ import {
   type Shard,
 } from '../../cli/shard.ts';
 import { parseDuration } from '../../cli/duration.ts';
+import { must } from '../../core/must.ts';
 
 // The cluster examples must cut a sweep into shards that cover it exactly: each is read here the way
 // its scheduler would run it, and the shards it would produce are checked for coverage.
@@ -69,7 +70,7 @@ describe('examples/cluster/slurm-array.sh', () => {
   const script = example('slurm-array.sh');
 
   it('gives every array task a distinct shard from its environment, covering the sweep', () => {
-    const [, first, last] = /^#SBATCH --array=(\d+)-(\d+)$/m.exec(script)!.map(Number);
+    const [, first, last] = must(/^#SBATCH --array=(\d+)-(\d+)$/m.exec(script)).map(Number);
     const shards: Shard[] = [];
     for (let id = first; id <= last; id++) {
       // Slurm sets these for every array task (Slurm documentation, "Job Array Support").
@@ -80,7 +81,7 @@ describe('examples/cluster/slurm-array.sh', () => {
         SLURM_ARRAY_TASK_COUNT: String(last - first + 1),
         SLURM_ARRAY_TASK_STEP: '1',
       };
-      shards.push(shardFromEnvironment(env)!);
+      shards.push(must(shardFromEnvironment(env)));
     }
     expect(shards).toHaveLength(8);
     expect(covers(shards)).toEqual([]);
@@ -89,13 +90,13 @@ describe('examples/cluster/slurm-array.sh', () => {
   });
 
   it('stops coilfront by its own time limit before Slurm signals, and Slurm signals before the job limit', () => {
-    const [, hours, minutes, seconds] = /^#SBATCH --time=(\d+):(\d+):(\d+)$/m.exec(script)!.map(Number);
+    const [, hours, minutes, seconds] = must(/^#SBATCH --time=(\d+):(\d+):(\d+)$/m.exec(script)).map(Number);
     const jobLimit = hours * 3600 + minutes * 60 + seconds;
-    const signalLead = Number(/^#SBATCH --signal=B:TERM@(\d+)$/m.exec(script)![1]);
+    const signalLead = Number(must(/^#SBATCH --signal=B:TERM@(\d+)$/m.exec(script))[1]);
     const commands = script.split('\n').filter((line) => /^\s*exec coilfront sweep /.test(line));
     expect(commands).toHaveLength(2); // a first start and a resumed one
     for (const command of commands) {
-      const timeLimit = parseDuration(/--time-limit (\S+)/.exec(command)![1]);
+      const timeLimit = parseDuration(must(/--time-limit (\S+)/.exec(command))[1]);
       expect(timeLimit).toBeLessThan(jobLimit - signalLead);
     }
     expect(commands[0]).toMatch(/sweep --resume "\$out" /);
@@ -147,15 +148,14 @@ describe('examples/cluster/indexed-job.yaml', () => {
     expect(script).toContain('out=/runs/shard-$JOB_COMPLETION_INDEX');
     // no $(…) in the script: Kubernetes would expand it as a variable reference before the shell runs
     expect(script).not.toContain('$(');
-    const start = /exec coilfront sweep \/spec\/night\.yaml --out "\$out" --shard-count (\d+)/.exec(script)!;
+    const start = must(/exec coilfront sweep \/spec\/night\.yaml --out "\$out" --shard-count (\d+)/.exec(script));
     const count = parseShardCount(start[1]);
     expect(count).toBe(manifest.spec.completions);
     expect(script).toMatch(/if \[ -e "\$out\/run\.json" \]; then exec coilfront sweep --resume "\$out"; fi/);
     // Kubernetes numbers the pods of an Indexed Job 0 … completions − 1 (Kubernetes documentation,
     // "Indexed Job for Parallel Processing with Static Work Assignment").
-    const shards = Array.from(
-      { length: manifest.spec.completions },
-      (_, index) => shardFromEnvironment({ JOB_COMPLETION_INDEX: String(index) }, { count })!,
+    const shards = Array.from({ length: manifest.spec.completions }, (_, index) =>
+      must(shardFromEnvironment({ JOB_COMPLETION_INDEX: String(index) }, { count })),
     );
     expect(covers(shards)).toEqual([]);
   });
@@ -181,12 +181,12 @@ describe('examples/cluster/gnu-parallel.sh', () => {
   const script = example('gnu-parallel.sh');
 
   it('runs one shard per argument, covering the sweep, then merges them all', () => {
-    const line = script.split('\n').find((text) => text.startsWith('parallel '))!;
-    const pattern = /--shard \{\}\/(\d+)/.exec(line)!;
+    const line = must(script.split('\n').find((text) => text.startsWith('parallel ')));
+    const pattern = must(/--shard \{\}\/(\d+)/.exec(line));
     const values = line.split(':::')[1].trim().split(/\s+/);
     const shards = values.map((value) => parseShard(`${value}/${pattern[1]}`));
     expect(covers(shards)).toEqual([]);
-    const merged = /coilfront merge runs\/night-shard-\{(\d+)\.\.(\d+)\}/.exec(script)!;
+    const merged = must(/coilfront merge runs\/night-shard-\{(\d+)\.\.(\d+)\}/.exec(script));
     expect([Number(merged[1]), Number(merged[2])]).toEqual([1, shards.length]);
   });
 

@@ -10,6 +10,7 @@ import { tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { expect } from 'vitest';
+import { must } from '../../core/must.ts';
 
 export const REPO = resolve(dirname(fileURLToPath(import.meta.url)), '..', '..');
 /**
@@ -65,8 +66,12 @@ export function startCli(args: string[], options: { env?: Record<string, string>
   });
   let stdout = '';
   let stderr = '';
-  child.stdout!.setEncoding('utf8').on('data', (chunk: string) => (stdout += chunk));
-  child.stderr!.setEncoding('utf8').on('data', (chunk: string) => (stderr += chunk));
+  must(child.stdout)
+    .setEncoding('utf8')
+    .on('data', (chunk: string) => (stdout += chunk));
+  must(child.stderr)
+    .setEncoding('utf8')
+    .on('data', (chunk: string) => (stderr += chunk));
   const done = new Promise<Finished>((resolveDone, reject) => {
     child.on('error', reject);
     child.on('close', (code, signal) => resolveDone({ code, signal, stdout, stderr }));

@@ -7,6 +7,7 @@ import { runCli } from '../../cli/program.ts';
 import type { CliIo } from '../../cli/io.ts';
 import { METRIC_DISPLAY } from '../../cli/display-units.ts';
 import { METRICS } from '../../core/metrics.ts';
+import { must } from '../../core/must.ts';
 
 // The worker pool runs the built JS (dist/): `npm test` builds first. The fixture is machinery test
 // data (an invented scenario), not a physics check; the checks below are the ones a user runs on the
@@ -27,7 +28,7 @@ const readRows = (file: string): Row[] => parseCsv(readFileSync(file, 'utf8'), {
 
 /** A metric's value in SI from a CSV row (the column carries the display unit). */
 function si(row: Row, metric: string): number {
-  const info = METRICS.find((m) => m.key === metric)!;
+  const info = must(METRICS.find((m) => m.key === metric));
   const display = METRIC_DISPLAY[metric];
   const column = display
     ? `${metric}_${display.label}`
@@ -46,9 +47,9 @@ function hypervolume2d(points: number[][], reference: number[]): number {
   let area = 0;
   let lastY = reference[1];
   for (const [x, y] of sorted) {
-    if (y! >= lastY) continue;
-    area += (reference[0] - x!) * (lastY - y!);
-    lastY = y!;
+    if (must(y) >= lastY) continue;
+    area += (reference[0] - must(x)) * (lastY - must(y));
+    lastY = must(y);
   }
   return area;
 }
@@ -87,7 +88,7 @@ describe('the files of a sweep, checked from their own columns', () => {
 
   it('ranks run 1, 2, 3 … with Pareto ranks that never decrease', () => {
     const rows = readRows(join(run, 'candidates.csv'));
-    rows.forEach((row, i) => expect(Number(row.rank)).toBe(i + 1));
+    for (const [i, row] of rows.entries()) expect(Number(row.rank)).toBe(i + 1);
     for (let i = 1; i < rows.length; i++)
       expect(Number(rows[i].pareto_rank)).toBeGreaterThanOrEqual(Number(rows[i - 1].pareto_rank));
   });
@@ -164,7 +165,7 @@ describe('coilfront refine RUN_DIR', () => {
       expect(Number(row['secondary.turns'])).toBeLessThanOrEqual(1400);
       expect(Number(row['secondary.base_height_mm'])).toBeGreaterThanOrEqual(400 - 1e-9);
       expect(Number(row['secondary.base_height_mm'])).toBeLessThanOrEqual(900 + 1e-9);
-      const shown = await cli(['show', run, '--refined', row.rank!]);
+      const shown = await cli(['show', run, '--refined', must(row.rank)]);
       const file = join(root, `refined-${row.rank}.yaml`);
       writeFileSync(file, shown.out);
       const metrics = JSON.parse((await cli(['evaluate', file, '--json'])).out).metrics;

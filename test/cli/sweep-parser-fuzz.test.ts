@@ -6,6 +6,7 @@ import { InputError } from '../../cli/input-error.ts';
 import { runCli as runCliInProcess } from '../../cli/program.ts';
 import { sweepFromValue } from '../../cli/sweep-spec.ts';
 import { requireBuiltCli, runCli, scratchArea, SMALL_SWEEP } from './sweep-harness.ts';
+import { must } from '../../core/must.ts';
 
 // The sweep-file parser never throws a stack trace on any input. Every random or
 // mutated sweep either parses, or throws an InputError whose message is one line that starts with the
@@ -20,8 +21,9 @@ type Path = ReadonlyArray<string | number>;
 /** Every path to a node of `value` (the root as []). */
 function pathsOf(value: unknown, prefix: Path = []): Path[] {
   const paths: Path[] = [prefix];
-  if (Array.isArray(value)) value.forEach((item, index) => paths.push(...pathsOf(item, [...prefix, index])));
-  else if (typeof value === 'object' && value !== null)
+  if (Array.isArray(value)) {
+    for (const [index, item] of value.entries()) paths.push(...pathsOf(item, [...prefix, index]));
+  } else if (typeof value === 'object' && value !== null)
     for (const [key, item] of Object.entries(value)) paths.push(...pathsOf(item, [...prefix, key]));
   return paths;
 }
@@ -48,6 +50,7 @@ const awkwardText = fc.oneof(
     '\u2028',
     'ünïcödé',
     '"\'`',
+    // biome-ignore lint/suspicious/noTemplateCurlyInString: a literal placeholder is one of the hostile inputs
     '${x}',
     '%s%n',
     '__proto__',
@@ -235,7 +238,7 @@ const mutatedSweep = fc.array(mutation, { minLength: 1, maxLength: 4 }).map((mut
  * Returns 'parsed' or 'refused'; anything else thrown fails the test.
  */
 function expectParsesOrRefuses(value: unknown): 'parsed' | 'refused' {
-  let spec;
+  let spec: ReturnType<typeof sweepFromValue>;
   try {
     spec = sweepFromValue(value, FILE);
   } catch (error) {
@@ -449,7 +452,7 @@ describe('coilfront check FILE on mutated sweep files', () => {
         const file = files[next++];
         const result = await runCli(['check', file, '--workers', '1']);
         expectCheckContract(file, result.code, result.stdout, result.stderr);
-        outcomes[result.code!]++;
+        outcomes[must(result.code)]++;
       }
     };
     await Promise.all([worker(), worker(), worker()]);

@@ -3,6 +3,7 @@ import { parse } from 'yaml';
 import { describe, expect, it } from 'vitest';
 import { sweepFromValue } from '../../cli/sweep-spec.ts';
 import { InputError } from '../../cli/input-error.ts';
+import { must } from '../../core/must.ts';
 
 const demo = () => parse(readFileSync('examples/sweeps/science-centre-ceiling.yaml', 'utf8')) as Record<string, any>;
 
@@ -73,7 +74,7 @@ describe('sweepFromValue(value, file)', () => {
       ],
     };
     const read = sweepFromValue(spec, 'sets.yaml');
-    const set = read.dimensions.find((d) => d.path.join('.') === 'topload')!;
+    const set = must(read.dimensions.find((d) => d.path.join('.') === 'topload'));
     expect(set.kind).toBe('choose');
     if (set.kind === 'choose') expect(set.values).toHaveLength(2);
   });

@@ -2,6 +2,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { readQuantity } from '../../cli/units.ts';
 import { designFromValue } from '../../cli/load-design.ts';
+import { must } from '../../core/must.ts';
 
 describe('readQuantity(input, kind)', () => {
   // Conversion factors: NIST SP 811 (2008), appendix B (inch = 0.0254 m exactly, foot = 0.3048 m exactly).
@@ -67,9 +68,9 @@ describe('design files round-trip through the parser to the same SI numbers', ()
           };
           const a = designFromValue(inMetres, 'a.yaml').design;
           const b = designFromValue(inMillimetres, 'b.yaml').design;
-          expect(b.secondary!.formDiameter).toBeCloseTo(a.secondary!.formDiameter, 12);
-          expect(b.secondary!.baseHeight).toBeCloseTo(a.secondary!.baseHeight, 12);
-          expect(b.secondary!.turns).toBe(a.secondary!.turns);
+          expect(must(b.secondary).formDiameter).toBeCloseTo(must(a.secondary).formDiameter, 12);
+          expect(must(b.secondary).baseHeight).toBeCloseTo(must(a.secondary).baseHeight, 12);
+          expect(must(b.secondary).turns).toBe(must(a.secondary).turns);
           // JSON and YAML both carry plain numbers: the SI value comes back unchanged.
           const again = designFromValue(JSON.parse(JSON.stringify(inMetres)), 'c.json').design;
           expect(again).toEqual(a);

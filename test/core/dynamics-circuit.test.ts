@@ -11,6 +11,7 @@ import { circuitEnergy, primaryEnergy } from '../../core/dynamics/circuit.ts';
 import { coupledModes, coupledStateAt } from '../../core/dynamics/coupled-modes.ts';
 import { freeResonatorState } from '../../core/dynamics/free-resonator.ts';
 import { sparkGapShot } from '../../core/dynamics/spark-gap.ts';
+import { must } from '../../core/must.ts';
 
 // An invented demo-sized circuit: 12 µH with 40 nF against 40 mH with 14 pF.
 const lossy: CoupledCircuit = {
@@ -25,7 +26,7 @@ const lossy: CoupledCircuit = {
 
 /** ∫ (R1 i1² + R2 i2²) dt over [0, T] by 8-point Gauss–Legendre on `panels` panels. */
 function dissipated(circuit: CoupledCircuit, voltage: number, end: number, panels: number): number {
-  const modes = coupledModes(circuit, voltage)!;
+  const modes = must(coupledModes(circuit, voltage));
   const nodes = [
     -0.9602898564975363, -0.7966664774136267, -0.525532409916329, -0.1834346424956498, 0.1834346424956498,
     0.525532409916329, 0.7966664774136267, 0.9602898564975363,
@@ -55,7 +56,7 @@ describe('coupledModes with losses', () => {
   test('stored + dissipated energy equals the initial ½C1V² to 1e-6 (energy balance)', () => {
     const voltage = 12e3;
     const initial = 0.5 * lossy.primaryCapacitance * voltage ** 2;
-    const modes = coupledModes(lossy, voltage)!;
+    const modes = must(coupledModes(lossy, voltage));
     const out = new Float64Array(4);
     for (const end of [2e-6, 9e-6, 31e-6]) {
       const stored = circuitEnergy(lossy, coupledStateAt(modes, end, out));
@@ -66,7 +67,7 @@ describe('coupledModes with losses', () => {
   });
 
   test('starts from the given state: v1 = V, v2 = i1 = i2 = 0', () => {
-    const out = coupledStateAt(coupledModes(lossy, 5000)!, 0, new Float64Array(4));
+    const out = coupledStateAt(must(coupledModes(lossy, 5000)), 0, new Float64Array(4));
     expect(out[0]).toBeCloseTo(5000, 6);
     for (const c of [1, 2, 3]) expect(Math.abs(out[c])).toBeLessThan(1e-8);
   });
@@ -77,7 +78,7 @@ describe('coupledModes with losses', () => {
       secondaryCapacitance: 1e-12 * 0.05,
       mutualInductance: 1e-7 * Math.sqrt(12e-6 * 40e-3),
     };
-    const modes = coupledModes(circuit, 1000)!;
+    const modes = must(coupledModes(circuit, 1000));
     const out = new Float64Array(4);
     const period = 2 * Math.PI * Math.sqrt(circuit.primaryInductance * circuit.primaryCapacitance);
     const alpha = circuit.primaryResistance / (2 * circuit.primaryInductance);
@@ -137,19 +138,19 @@ describe('freeResonatorState', () => {
 
 describe('sparkGapShot', () => {
   test('quenches at the first primary current zero after the transfer time', () => {
-    const shot = sparkGapShot(lossy, 12e3, true)!;
+    const shot = must(sparkGapShot(lossy, 12e3, true));
     const primaryPeriod = 2 * Math.PI * Math.sqrt(lossy.primaryInductance * lossy.primaryCapacitance);
-    expect(shot.quenchTime!).toBeGreaterThanOrEqual(shot.transferTime! - primaryPeriod / 8);
-    expect(shot.quenchTime! - shot.transferTime!).toBeLessThan(0.6 * primaryPeriod);
-    const out = coupledStateAt(coupledModes(lossy, 12e3)!, shot.quenchTime!, new Float64Array(4));
+    expect(must(shot.quenchTime)).toBeGreaterThanOrEqual(must(shot.transferTime) - primaryPeriod / 8);
+    expect(must(shot.quenchTime) - must(shot.transferTime)).toBeLessThan(0.6 * primaryPeriod);
+    const out = coupledStateAt(must(coupledModes(lossy, 12e3)), must(shot.quenchTime), new Float64Array(4));
     expect(Math.abs(out[2]) / (12e3 * Math.sqrt(lossy.primaryCapacitance / lossy.primaryInductance))).toBeLessThan(
       1e-9,
     );
   });
 
   test('with or without quench the peak within the contract window differs by little', () => {
-    const quenched = sparkGapShot(lossy, 12e3, true)!;
-    const sloshing = sparkGapShot(lossy, 12e3, false)!;
+    const quenched = must(sparkGapShot(lossy, 12e3, true));
+    const sloshing = must(sparkGapShot(lossy, 12e3, false));
     expect(sloshing.quenchTime).toBeNull();
     expect(Math.abs(quenched.peakVoltage / sloshing.peakVoltage - 1)).toBeLessThan(0.02);
     expect(quenched.transferTime).toBe(sloshing.transferTime);
@@ -157,10 +158,10 @@ describe('sparkGapShot', () => {
 
   test('peak voltage is below the lossless bound V1√(C1/C2) and scales linearly with V1 (linear circuit)', () => {
     const bound = 12e3 * Math.sqrt(lossy.primaryCapacitance / lossy.secondaryCapacitance);
-    const shot = sparkGapShot(lossy, 12e3, true)!;
+    const shot = must(sparkGapShot(lossy, 12e3, true));
     expect(shot.peakVoltage).toBeLessThan(bound);
     expect(shot.peakVoltage).toBeGreaterThan(0.5 * bound);
-    expect(sparkGapShot(lossy, 24e3, true)!.peakVoltage / shot.peakVoltage).toBeCloseTo(2, 9);
+    expect(must(sparkGapShot(lossy, 24e3, true)).peakVoltage / shot.peakVoltage).toBeCloseTo(2, 9);
   });
 
   test('near a full-transfer coupling the quench does not jump half a cycle with the charge voltage (k = 0.394)', () => {
@@ -168,9 +169,9 @@ describe('sparkGapShot', () => {
       ...lossy,
       mutualInductance: 0.39414026736121693 * Math.sqrt(lossy.primaryInductance * lossy.secondaryInductance),
     };
-    const low = sparkGapShot(circuit, 1000, true)!;
-    const high = sparkGapShot(circuit, 1000.1, true)!;
-    expect(high.quenchTime! / low.quenchTime!).toBeCloseTo(1, 9);
+    const low = must(sparkGapShot(circuit, 1000, true));
+    const high = must(sparkGapShot(circuit, 1000.1, true));
+    expect(must(high.quenchTime) / must(low.quenchTime)).toBeCloseTo(1, 9);
     expect(high.peakVoltage / low.peakVoltage).toBeCloseTo(1.0001, 9);
   });
 
@@ -187,9 +188,9 @@ describe('sparkGapShot', () => {
             secondaryCapacitance: lossy.secondaryCapacitance * detune,
             mutualInductance: k * Math.sqrt(lossy.primaryInductance * lossy.secondaryInductance),
           };
-          const shot = sparkGapShot(circuit, 1000, true)!;
+          const shot = must(sparkGapShot(circuit, 1000, true));
           if (shot.transferTime === null) return true;
-          const modes = coupledModes(circuit, 1000)!;
+          const modes = must(coupledModes(circuit, 1000));
           const out = new Float64Array(4);
           const w1 = (t: number): number => {
             coupledStateAt(modes, t, out);
@@ -215,7 +216,7 @@ describe('sparkGapShot', () => {
       secondaryCapacitance: lossy.secondaryCapacitance * 1.07,
       mutualInductance: 0.03 * Math.sqrt(lossy.primaryInductance * lossy.secondaryInductance),
     };
-    const shot = sparkGapShot(circuit, 1000, true)!;
+    const shot = must(sparkGapShot(circuit, 1000, true));
     expect(shot.transferTime).toBeNull();
     expect(shot.quenchTime).toBeNull();
     expect(shot.peakVoltage).toBeGreaterThan(0);
@@ -232,8 +233,8 @@ describe('sparkGapShot', () => {
             ...lossy,
             mutualInductance: k * Math.sqrt(lossy.primaryInductance * lossy.secondaryInductance),
           };
-          const low = sparkGapShot(circuit, voltage, true)!;
-          const high = sparkGapShot(circuit, voltage * factor, true)!;
+          const low = must(sparkGapShot(circuit, voltage, true));
+          const high = must(sparkGapShot(circuit, voltage * factor, true));
           return high.peakVoltage >= low.peakVoltage;
         },
       ),

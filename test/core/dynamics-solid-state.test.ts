@@ -9,6 +9,7 @@ import { describe, expect, test } from 'vitest';
 import type { CoupledCircuit } from '../../core/dynamics/circuit.ts';
 import { circuitEnergy } from '../../core/dynamics/circuit.ts';
 import { solidStateBurst } from '../../core/dynamics/solid-state.ts';
+import { must } from '../../core/must.ts';
 
 // Invented demo circuit: 8 µH, 150 nF tank; 30 mH secondary tuned to it (40 pF).
 const base: CoupledCircuit = {
@@ -69,10 +70,10 @@ describe('solidStateBurst', () => {
     const breakout = 0.6 * free.peakVoltage;
     const burst = solidStateBurst(base, { driveVoltage: 340, onTime: 60e-6, breakoutVoltage: breakout });
     expect(burst.peakVoltage).toBe(free.peakVoltage);
-    expect(burst.breakoutTime!).toBeGreaterThan(0);
-    expect(burst.breakoutTime!).toBeLessThan(60e-6);
+    expect(must(burst.breakoutTime)).toBeGreaterThan(0);
+    expect(must(burst.breakoutTime)).toBeLessThan(60e-6);
     // just before the reported time the secondary was below breakout (a shorter burst stays under it)
-    const shorter = solidStateBurst(base, { driveVoltage: 340, onTime: burst.breakoutTime! * 0.98 });
+    const shorter = solidStateBurst(base, { driveVoltage: 340, onTime: must(burst.breakoutTime) * 0.98 });
     expect(shorter.peakVoltage).toBeLessThan(breakout);
     expect(free.breakoutTime).toBeNull();
   });

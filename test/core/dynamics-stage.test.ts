@@ -12,6 +12,7 @@ import { emptyMetrics } from '../../core/metrics.ts';
 import { dynamicsStage } from '../../core/stages/dynamics-stage.ts';
 import { outcomeStage } from '../../core/stages/outcome-stage.ts';
 import { SPARK_LENGTH_PER_ROOT_WATT } from '../../core/outcome/spark-length.ts';
+import { must } from '../../core/must.ts';
 
 const secondary: SecondaryGeometry = {
   turns: 1000,
@@ -97,12 +98,12 @@ function independentShot(
   tankC: number,
   chargeVoltage: number,
 ): { transferTime: number; peakVoltage: number } {
-  const L1 = metrics.primary_inductance!,
-    R1 = metrics.primary_resistance!,
+  const L1 = must(metrics.primary_inductance),
+    R1 = must(metrics.primary_resistance),
     L2 = metrics.secondary_inductance ?? secondary.inductance;
   const C2 = metrics.total_capacitance ?? totalCapacitance,
-    R2 = metrics.secondary_ac_resistance!,
-    M = metrics.coupling! * Math.sqrt(L1 * L2);
+    R2 = must(metrics.secondary_ac_resistance),
+    M = must(metrics.coupling) * Math.sqrt(L1 * L2);
   const det = L1 * L2 - M * M;
   const f = (s: number[]): number[] => {
     const a1 = -R1 * s[2] - s[0];
@@ -134,34 +135,34 @@ describe('dynamicsStage with a spark gap', () => {
   test('sets the lossy circuit metrics; energy per shot is exactly ½C1V²; R1 includes the 1 Ω gap', () => {
     const { metrics } = run(makeContext(sparkGap));
     expect(metrics.energy_per_shot).toBe(0.5 * tankCapacitance * 15e3 * 15e3);
-    expect(metrics.input_power).toBe(metrics.energy_per_shot! * 120);
+    expect(metrics.input_power).toBe(must(metrics.energy_per_shot) * 120);
     expect(metrics.gap_resistance).toBe(1);
-    expect(metrics.primary_resistance).toBeCloseTo(metrics.primary_conductor_resistance! + 1, 12);
-    expect(metrics.primary_conductor_resistance!).toBeGreaterThan(0);
-    expect(metrics.secondary_ac_resistance!).toBeGreaterThan(secondary.dcResistance);
+    expect(metrics.primary_resistance).toBeCloseTo(must(metrics.primary_conductor_resistance) + 1, 12);
+    expect(must(metrics.primary_conductor_resistance)).toBeGreaterThan(0);
+    expect(must(metrics.secondary_ac_resistance)).toBeGreaterThan(secondary.dcResistance);
     expect(metrics.secondary_q).toBeCloseTo(
-      (2 * Math.PI * secondaryFrequency * secondary.inductance) / metrics.secondary_ac_resistance!,
+      (2 * Math.PI * secondaryFrequency * secondary.inductance) / must(metrics.secondary_ac_resistance),
       9,
     );
-    expect(metrics.mode_frequency_low! / (secondaryFrequency / Math.sqrt(1 + coupling))).toBeCloseTo(1, 3);
-    expect(metrics.mode_frequency_high! / (secondaryFrequency / Math.sqrt(1 - coupling))).toBeCloseTo(1, 3);
+    expect(must(metrics.mode_frequency_low) / (secondaryFrequency / Math.sqrt(1 + coupling))).toBeCloseTo(1, 3);
+    expect(must(metrics.mode_frequency_high) / (secondaryFrequency / Math.sqrt(1 - coupling))).toBeCloseTo(1, 3);
     expect(metrics.full_transfer_coupling).toBeCloseTo(0.132743, 5); // n = 7, nearest to 0.14 (§8.2 formula)
-    expect(metrics.transfer_time!).toBeGreaterThan(0);
+    expect(must(metrics.transfer_time)).toBeGreaterThan(0);
     expect(metrics.tank_voltage_margin).toBe(2);
   });
 
   test('the reported lumped values reproduce transfer_time (2 %) and peak_voltage (3 %) in an independent RK4 solve', () => {
     const { metrics } = run(makeContext(sparkGap));
     const check = independentShot(metrics, tankCapacitance, 15e3);
-    expect(Math.abs(metrics.transfer_time! / check.transferTime - 1)).toBeLessThan(0.02);
-    expect(Math.abs(metrics.peak_voltage! / check.peakVoltage - 1)).toBeLessThan(0.03);
+    expect(Math.abs(must(metrics.transfer_time) / check.transferTime - 1)).toBeLessThan(0.02);
+    expect(Math.abs(must(metrics.peak_voltage) / check.peakVoltage - 1)).toBeLessThan(0.03);
   });
 
   test('a user gap resistance replaces the 1 Ω default and lowers the peak', () => {
     const lossless = run(makeContext({ ...sparkGap, gapResistance: 0.1 })).metrics;
     const lossy = run(makeContext({ ...sparkGap, gapResistance: 5 })).metrics;
     expect(lossy.gap_resistance).toBe(5);
-    expect(lossy.peak_voltage!).toBeLessThan(lossless.peak_voltage!);
+    expect(must(lossy.peak_voltage)).toBeLessThan(must(lossless.peak_voltage));
   });
 
   test('without a driver the shot metrics are null; without a tank the primary loop is null too', () => {
@@ -210,16 +211,16 @@ describe('dynamicsStage with a solid-state bridge', () => {
   test('simulates the burst: bus energy, input power, peak voltage; no transfer time', () => {
     const { metrics } = run(makeContext(bridge));
     expect(metrics.transfer_time).toBeNull();
-    expect(metrics.energy_per_shot!).toBeGreaterThan(0);
-    expect(metrics.input_power).toBeCloseTo(metrics.energy_per_shot! * 200, 9);
-    expect(metrics.peak_voltage!).toBeGreaterThan(0);
+    expect(must(metrics.energy_per_shot)).toBeGreaterThan(0);
+    expect(metrics.input_power).toBeCloseTo(must(metrics.energy_per_shot) * 200, 9);
+    expect(must(metrics.peak_voltage)).toBeGreaterThan(0);
     expect(metrics.gap_resistance).toBeNull();
     expect(metrics.primary_resistance).toBe(metrics.primary_conductor_resistance);
   });
 
   test('a half bridge gives half the peak voltage of a full bridge (linear circuit, E = bus/2)', () => {
-    const full = run(makeContext(bridge)).metrics.peak_voltage!;
-    const half = run(makeContext({ ...bridge, bridge: 'half' })).metrics.peak_voltage!;
+    const full = must(run(makeContext(bridge)).metrics.peak_voltage);
+    const half = must(run(makeContext({ ...bridge, bridge: 'half' })).metrics.peak_voltage);
     expect(half / full).toBeCloseTo(0.5, 9);
   });
 
@@ -230,9 +231,9 @@ describe('dynamicsStage with a solid-state bridge', () => {
 
   test('warns when the topload reaches breakout during the burst', () => {
     const context = makeContext({ ...bridge, onTime: 400e-6 });
-    context.electrostatics = { ...context.electrostatics!, breakoutVoltage: 60e3 };
+    context.electrostatics = { ...must(context.electrostatics), breakoutVoltage: 60e3 };
     run(context);
-    expect(context.metrics.peak_voltage!).toBeGreaterThan(60e3);
+    expect(must(context.metrics.peak_voltage)).toBeGreaterThan(60e3);
     expect(
       context.warnings.some(
         ({ message: w }) => w.includes('reaches its breakout voltage 60 kV') && w.includes('cycles'),
@@ -251,10 +252,10 @@ describe('outcomeStage', () => {
   test('breakout margin, topload field and axial gradient follow the peak voltage; margin scales as 1/V', () => {
     const low = run(makeContext(sparkGap)).metrics;
     const high = run(makeContext(sparkGap, { tank: { capacitance: tankCapacitance, chargeVoltage: 30e3 } })).metrics;
-    expect(low.breakout_margin).toBeCloseTo(3.2e6 / 8.5 / low.peak_voltage!, 12);
-    expect(high.breakout_margin! / low.breakout_margin!).toBeCloseTo(0.5, 9);
-    expect(low.topload_peak_field).toBeCloseTo(8.5 * low.peak_voltage!, 6);
-    expect(low.axial_gradient).toBeCloseTo(low.peak_voltage! / 0.8, 6);
+    expect(low.breakout_margin).toBeCloseTo(3.2e6 / 8.5 / must(low.peak_voltage), 12);
+    expect(must(high.breakout_margin) / must(low.breakout_margin)).toBeCloseTo(0.5, 9);
+    expect(low.topload_peak_field).toBeCloseTo(8.5 * must(low.peak_voltage), 6);
+    expect(low.axial_gradient).toBeCloseTo(must(low.peak_voltage) / 0.8, 6);
   });
 
   test('property: breakout_margin × peak_voltage is the breakout voltage for any charge voltage (margin ∝ 1/V)', () => {
@@ -262,10 +263,10 @@ describe('outcomeStage', () => {
       fc.property(fc.double({ min: 2e3, max: 60e3, noNaN: true }), (chargeVoltage) => {
         const { metrics } = run(makeContext(sparkGap, { tank: { capacitance: tankCapacitance, chargeVoltage } }));
         const reference = run(makeContext(sparkGap)).metrics;
-        const ratio = metrics.breakout_margin! / reference.breakout_margin!;
+        const ratio = must(metrics.breakout_margin) / must(reference.breakout_margin);
         return (
           Math.abs(ratio * (chargeVoltage / 15e3) - 1) < 1e-9 &&
-          Math.abs((metrics.breakout_margin! * metrics.peak_voltage!) / (3.2e6 / 8.5) - 1) < 1e-12
+          Math.abs((must(metrics.breakout_margin) * must(metrics.peak_voltage)) / (3.2e6 / 8.5) - 1) < 1e-12
         );
       }),
       { numRuns: 25, seed: 7 },
@@ -281,10 +282,12 @@ describe('outcomeStage', () => {
 
   test('spark length is the common-practice 0.043 √P and loads the resonance by 1 pF per foot', () => {
     const { metrics } = run(makeContext(sparkGap));
-    expect(metrics.spark_length).toBeCloseTo(SPARK_LENGTH_PER_ROOT_WATT * Math.sqrt(metrics.input_power!), 12);
+    expect(metrics.spark_length).toBeCloseTo(SPARK_LENGTH_PER_ROOT_WATT * Math.sqrt(must(metrics.input_power)), 12);
     const loaded =
       1 /
-      (2 * Math.PI * Math.sqrt(secondary.inductance * (totalCapacitance + (1e-12 / 0.3048) * metrics.spark_length!)));
+      (2 *
+        Math.PI *
+        Math.sqrt(secondary.inductance * (totalCapacitance + (1e-12 / 0.3048) * must(metrics.spark_length))));
     expect(metrics.loaded_resonant_frequency).toBeCloseTo(loaded, 6);
     // a given streamer length is left to the electrostatics stage
     const given = run(
@@ -296,33 +299,33 @@ describe('outcomeStage', () => {
   test('warns when the topload breaks out below the peak voltage, and when it never breaks out', () => {
     const breaking = makeContext(sparkGap, { tank: { capacitance: tankCapacitance, chargeVoltage: 40e3 } });
     run(breaking);
-    expect(breaking.metrics.breakout_margin!).toBeLessThan(1);
+    expect(must(breaking.metrics.breakout_margin)).toBeLessThan(1);
     expect(breaking.warnings.some(({ message: w }) => w.includes('breaks out') && w.includes('breakout margin'))).toBe(
       true,
     );
     const holding = makeContext(sparkGap, { tank: { capacitance: tankCapacitance, chargeVoltage: 5e3 } });
     run(holding);
-    expect(holding.metrics.breakout_margin!).toBeGreaterThan(1);
+    expect(must(holding.metrics.breakout_margin)).toBeGreaterThan(1);
     expect(holding.warnings.some(({ message: w }) => w.includes('breakout point'))).toBe(true);
   });
 
   test('warns about the axial gradient and a primary strike, with their numbers', () => {
     const context = makeContext(sparkGap, { tank: { capacitance: tankCapacitance, chargeVoltage: 40e3 } });
     run(context);
-    expect(context.metrics.axial_gradient!).toBeGreaterThan(400e3);
+    expect(must(context.metrics.axial_gradient)).toBeGreaterThan(400e3);
     expect(context.warnings.some(({ message: w }) => w.startsWith('axial gradient') && w.includes('kV/m'))).toBe(true);
-    expect(context.metrics.primary_strike_margin!).toBeLessThan(1);
+    expect(must(context.metrics.primary_strike_margin)).toBeLessThan(1);
     expect(context.warnings.some(({ message: w }) => w.includes('strike risk') && w.includes('strike margin'))).toBe(
       true,
     );
   });
 
   test('strike margin grows when the outer ring moves away; spark-to-primary warning only without a strike rail', () => {
-    const near = run(makeContext(sparkGap)).metrics.primary_strike_margin!;
+    const near = must(run(makeContext(sparkGap)).metrics.primary_strike_margin);
     const far = makeContext(sparkGap);
-    far.primary!.rings[far.primary!.rings.length - 1] = { r: 0.6, z: 0.5 };
+    must(far.primary).rings[must(far.primary).rings.length - 1] = { r: 0.6, z: 0.5 };
     run(far);
-    expect(far.metrics.primary_strike_margin!).toBeGreaterThan(near);
+    expect(must(far.metrics.primary_strike_margin)).toBeGreaterThan(near);
     const strong = makeContext(
       { ...sparkGap, breakRate: 2000 },
       { tank: { capacitance: tankCapacitance, chargeVoltage: 30e3 } },
@@ -343,12 +346,12 @@ describe('outcomeStage', () => {
   test('strike margin uses the winding voltage at the outer ring height: raising the ring lowers it', () => {
     const flat = run(makeContext(sparkGap));
     const raised = makeContext(sparkGap);
-    raised.primary!.rings[raised.primary!.rings.length - 1] = { r: 0.2658, z: 0.9 }; // half-way up the winding
+    must(raised.primary).rings[must(raised.primary).rings.length - 1] = { r: 0.2658, z: 0.9 }; // half-way up the winding
     run(raised);
     // at half height the linear profile gives half the peak, plus the 15 kV tank, over the radial gap
     const gap = 0.2658 - (0.1 + 0.38e-3) - 3.175e-3;
-    const expected = (gap * 200e3) / (raised.metrics.peak_voltage! / 2 + 15e3);
+    const expected = (gap * 200e3) / (must(raised.metrics.peak_voltage) / 2 + 15e3);
     expect(raised.metrics.primary_strike_margin).toBeCloseTo(expected, 9);
-    expect(raised.metrics.primary_strike_margin!).toBeLessThan(flat.metrics.primary_strike_margin!);
+    expect(must(raised.metrics.primary_strike_margin)).toBeLessThan(must(flat.metrics.primary_strike_margin));
   });
 });

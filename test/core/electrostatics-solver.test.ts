@@ -11,18 +11,22 @@ import { buildPanelLayout, panelPoint, type PanelShape } from '../../core/electr
 import { toroidPanels, windingPanels } from '../../core/electrostatics/bodies.ts';
 import { defaultPanelCounts, solveField, type FieldArrangement } from '../../core/electrostatics/field-solve.ts';
 import { GAUSS8_NODES, GAUSS8_WEIGHTS } from '../../core/electrostatics/gauss-legendre.ts';
+import { must } from '../../core/must.ts';
 
 describe('luFactor / luSolve (Golub & Van Loan Alg. 3.4.1)', () => {
   test('solve a system that needs pivoting, checked by the residual A x − b', () => {
     const n = 6;
     const a = new Float64Array(n * n);
     let seed = 7;
-    const next = () => (seed = (seed * 16807) % 2147483647) / 2147483647 - 0.5;
+    const next = () => {
+      seed = (seed * 16807) % 2147483647;
+      return seed / 2147483647 - 0.5;
+    };
     for (let i = 0; i < n * n; i++) a[i] = next();
     a[0] = 0; // forces a row exchange at the first step
     const b = Float64Array.from({ length: n }, () => next());
     const factors = a.slice();
-    const pivots = luFactor(factors, n)!;
+    const pivots = must(luFactor(factors, n));
     const x = b.slice();
     luSolve(factors, n, pivots, x);
     for (let i = 0; i < n; i++) {
@@ -143,9 +147,9 @@ const ARRANGEMENTS: Array<[string, FieldArrangement]> = [
 
 describe('convergence rule: doubling the default panel counts changes capacitance by < 0.2 %', () => {
   test.each(ARRANGEMENTS)('%s', (_, arrangement) => {
-    const base = solveField(arrangement)!;
-    const doubled = solveField(arrangement, { resolution: 2 })!;
-    const change = (a: number | null, b: number | null) => (a === null ? 0 : Math.abs(a / b! - 1));
+    const base = must(solveField(arrangement));
+    const doubled = must(solveField(arrangement, { resolution: 2 }));
+    const change = (a: number | null, b: number | null) => (a === null ? 0 : Math.abs(a / must(b) - 1));
     expect(change(base.totalCapacitance, doubled.totalCapacitance)).toBeLessThan(2e-3);
     expect(change(base.toploadCapacitance, doubled.toploadCapacitance)).toBeLessThan(2e-3);
     expect(change(base.selfCapacitance, doubled.selfCapacitance)).toBeLessThan(2e-3);
@@ -154,7 +158,7 @@ describe('convergence rule: doubling the default panel counts changes capacitanc
     expect(change(base.toploadUndersideFieldPerVolt, doubled.toploadUndersideFieldPerVolt)).toBeLessThan(2e-2);
     expect(change(base.windingTopFieldPerVolt, doubled.windingTopFieldPerVolt)).toBeLessThan(2e-2);
     // And a second doubling changes them less than the first did (or both are at rounding level).
-    const quadrupled = solveField(arrangement, { resolution: 4 })!;
+    const quadrupled = must(solveField(arrangement, { resolution: 4 }));
     const first = change(base.totalCapacitance, doubled.totalCapacitance);
     const second = change(doubled.totalCapacitance, quadrupled.totalCapacitance);
     expect(second <= first || second < 1e-5).toBe(true);
@@ -190,15 +194,17 @@ describe('convergence rule: doubling the default panel counts changes capacitanc
             })),
             floor: true,
           };
-          const base1 = solveField(arrangement)!;
-          const doubled = solveField(arrangement, { resolution: 2 })!;
+          const base1 = must(solveField(arrangement));
+          const doubled = must(solveField(arrangement, { resolution: 2 }));
           expect(Math.abs(base1.totalCapacitance / doubled.totalCapacitance - 1)).toBeLessThan(2e-3);
-          expect(Math.abs(base1.toploadCapacitance! / doubled.toploadCapacitance! - 1)).toBeLessThan(2e-3);
-          expect(Math.abs(base1.selfCapacitance! / doubled.selfCapacitance! - 1)).toBeLessThan(2e-3);
+          expect(Math.abs(must(base1.toploadCapacitance) / must(doubled.toploadCapacitance) - 1)).toBeLessThan(2e-3);
+          expect(Math.abs(must(base1.selfCapacitance) / must(doubled.selfCapacitance) - 1)).toBeLessThan(2e-3);
           // The peak field settles more slowly where a crowded underside takes the peak (a primary
           // ring a few centimetres below the tube, a tube hugging the winding): within 1 % (a scan of
           // 300 such random arrangements moved it by at most 0.8 %).
-          expect(Math.abs(base1.toploadPeakFieldPerVolt! / doubled.toploadPeakFieldPerVolt! - 1)).toBeLessThan(1e-2);
+          expect(
+            Math.abs(must(base1.toploadPeakFieldPerVolt) / must(doubled.toploadPeakFieldPerVolt) - 1),
+          ).toBeLessThan(1e-2);
         },
       ),
       { numRuns: 20, seed: 2026, endOnFailure: true },
@@ -207,13 +213,13 @@ describe('convergence rule: doubling the default panel counts changes capacitanc
   test('the default counts are 25 toroid, 24 sphere, 24 winding panels', () => {
     expect(defaultPanelCounts(ARRANGEMENTS[0][1])).toEqual({ topload: 25, winding: 24 });
     expect(defaultPanelCounts(ARRANGEMENTS[2][1])).toEqual({ topload: 24, winding: 24 });
-    expect(solveField(ARRANGEMENTS[0][1])!.unknowns).toBe(25 + 24 + 11);
+    expect(must(solveField(ARRANGEMENTS[0][1])).unknowns).toBe(25 + 24 + 11);
   });
 });
 
 describe('assembleCollocationMatrix', () => {
   test('pairing distant entries through the symmetric kernel gives the same matrix as entry by entry', () => {
-    const layout = solveField(ARRANGEMENTS[0][1])!.layout;
+    const layout = must(solveField(ARRANGEMENTS[0][1])).layout;
     const paired = assembleCollocationMatrix(layout, true, true);
     const plain = assembleCollocationMatrix(layout, true, false);
     let worst = 0;
@@ -231,7 +237,7 @@ describe('Green’s reciprocity of the coupled solve (exact: the capacitance mat
     const layout = buildPanelLayout(shapes);
     const n = layout.count;
     const factors = assembleCollocationMatrix(layout, true);
-    const pivots = luFactor(factors, n)!;
+    const pivots = must(luFactor(factors, n));
     const chargeOn = (density: Float64Array, from: number, to: number) => {
       let q = 0;
       for (let j = from; j < to; j++) q += density[j] * layout.area[j];
@@ -250,30 +256,32 @@ describe('Green’s reciprocity of the coupled solve (exact: the capacitance mat
 
 describe('solveField definitions', () => {
   test('total capacitance of a topload alone is its charge per volt', () => {
-    const solution = solveField(ARRANGEMENTS[3][1])!;
-    expect(solution.totalCapacitance).toBeCloseTo(solution.toploadCapacitance!, 20);
+    const solution = must(solveField(ARRANGEMENTS[3][1]));
+    expect(solution.totalCapacitance).toBeCloseTo(must(solution.toploadCapacitance), 20);
     expect(solution.selfCapacitance).toBeNull();
   });
   test('the winding alone gives total = self-capacitance, no topload values', () => {
-    const solution = solveField(ARRANGEMENTS[4][1])!;
+    const solution = must(solveField(ARRANGEMENTS[4][1]));
     expect(solution.totalCapacitance).toBe(solution.selfCapacitance);
     expect(solution.toploadCapacitance).toBeNull();
     expect(solution.toploadPeakFieldPerVolt).toBeNull();
   });
   test('the self-capacitance with a topload present equals a solve without the topload', () => {
     const [, arrangement] = ARRANGEMENTS[0];
-    const withTopload = solveField(arrangement)!;
-    const withoutTopload = solveField({ ...arrangement, topload: undefined })!;
-    expect(withTopload.selfCapacitance! / withoutTopload.totalCapacitance).toBeCloseTo(1, 12);
+    const withTopload = must(solveField(arrangement));
+    const withoutTopload = must(solveField({ ...arrangement, topload: undefined }));
+    expect(must(withTopload.selfCapacitance) / withoutTopload.totalCapacitance).toBeCloseTo(1, 12);
   });
   test('grounded rings near the base raise the winding’s energy capacitance', () => {
     const [, arrangement] = ARRANGEMENTS[0];
-    const bare = solveField({ winding: arrangement.winding, floor: true })!;
-    const withRings = solveField({
-      winding: arrangement.winding,
-      groundedRings: arrangement.groundedRings,
-      floor: true,
-    })!;
+    const bare = must(solveField({ winding: arrangement.winding, floor: true }));
+    const withRings = must(
+      solveField({
+        winding: arrangement.winding,
+        groundedRings: arrangement.groundedRings,
+        floor: true,
+      }),
+    );
     expect(withRings.totalCapacitance).toBeGreaterThan(bare.totalCapacitance);
   });
 });

@@ -11,6 +11,7 @@ import { electrostaticsStage } from '../../core/stages/electrostatics-stage.ts';
 import { peekCylinderOnsetField } from '../../core/breakdown/peek.ts';
 import { relativeAirDensity } from '../../core/breakdown/air-density.ts';
 import { STREAMER_CAPACITANCE_PER_METRE, streamerCapacitance } from '../../core/capacitance/streamer.ts';
+import { must } from '../../core/must.ts';
 
 /** An invented demo secondary: 160 mm form, 800 mm winding from 450 mm above the floor, 30 mH. */
 const SECONDARY: SecondaryGeometry = {
@@ -87,12 +88,12 @@ describe('electrostaticsStage with a secondary, a toroid and a primary', () => {
     expect(m.loaded_resonant_frequency).toBeNull(); // no streamer length given
   });
   test('resonant_frequency = 1/(2π√(L·C_total)) (Thomson)', () => {
-    expect(m.resonant_frequency).toBeCloseTo(1 / (2 * Math.PI * Math.sqrt(0.03 * m.total_capacitance!)), 6);
+    expect(m.resonant_frequency).toBeCloseTo(1 / (2 * Math.PI * Math.sqrt(0.03 * must(m.total_capacitance))), 6);
   });
   test('breakout_voltage = Peek onset field (tube radius, δ) / topload_field_per_volt', () => {
     const onset = peekCylinderOnsetField(0.075, relativeAirDensity(0, 293.15), 1);
     expect(m.topload_onset_field).toBe(onset);
-    expect(m.breakout_voltage).toBe(onset / m.topload_field_per_volt!);
+    expect(m.breakout_voltage).toBe(onset / must(m.topload_field_per_volt));
     expect(m.air_density_factor).toBeCloseTo(298.15 / 293.15, 12);
   });
   test('leaves the total capacitance for the primary tuning', () => {
@@ -104,14 +105,14 @@ describe('electrostaticsStage with a secondary, a toroid and a primary', () => {
     expect(streamerCapacitance(1.2)).toBeCloseTo(1.2 * STREAMER_CAPACITANCE_PER_METRE, 20);
     expect(STREAMER_CAPACITANCE_PER_METRE * 0.3048).toBeCloseTo(1e-12, 20);
     expect(loaded.loaded_resonant_frequency).toBeCloseTo(
-      1 / (2 * Math.PI * Math.sqrt(0.03 * (loaded.total_capacitance! + streamerCapacitance(1.2)))),
+      1 / (2 * Math.PI * Math.sqrt(0.03 * (must(loaded.total_capacitance) + streamerCapacitance(1.2)))),
       6,
     );
-    expect(loaded.loaded_resonant_frequency!).toBeLessThan(loaded.resonant_frequency!);
+    expect(must(loaded.loaded_resonant_frequency)).toBeLessThan(must(loaded.resonant_frequency));
   });
   test('a lower surface factor lowers the breakout voltage in proportion', () => {
     const rough = run({ ...d, environment: { ...d.environment, surfaceFactor: 0.9 } }).metrics;
-    expect(rough.breakout_voltage! / m.breakout_voltage!).toBeCloseTo(0.9, 12);
+    expect(must(rough.breakout_voltage) / must(m.breakout_voltage)).toBeCloseTo(0.9, 12);
   });
 });
 
@@ -133,10 +134,10 @@ describe('electrostaticsStage with a topload alone', () => {
       environment: { altitude: 0, temperature: 298.15 },
     };
     const m = run(d, null).metrics;
-    expect(m.topload_capacitance! / 38.302e-12).toBeCloseTo(1, 3);
+    expect(must(m.topload_capacitance) / 38.302e-12).toBeCloseTo(1, 3);
     expect(m.total_capacitance).toBe(m.topload_capacitance);
     // 3.286 MV/m × 0.1 m / 0.5071 (the field factor of refs §5.3 at h = 1.5 m).
-    expect(m.breakout_voltage! / ((peekCylinderOnsetField(0.1, 1, 1) * 0.1) / 0.5071)).toBeCloseTo(1, 2);
+    expect(must(m.breakout_voltage) / ((peekCylinderOnsetField(0.1, 1, 1) * 0.1) / 0.5071)).toBeCloseTo(1, 2);
     expect(m.resonant_frequency).toBeNull();
     expect(m.secondary_self_capacitance).toBeNull();
   });
@@ -148,7 +149,7 @@ describe('electrostaticsStage with a topload alone', () => {
       },
       null,
     ).metrics;
-    expect(m.topload_onset_field! / 1e5).toBeCloseTo(27.2 * (1 + 0.54 / Math.sqrt(15)), 9);
+    expect(must(m.topload_onset_field) / 1e5).toBeCloseTo(27.2 * (1 + 0.54 / Math.sqrt(15)), 9);
   });
 });
 
@@ -249,7 +250,7 @@ describe('monotonic facts (properties)', () => {
           const height = 0.6 * outer + 0.3;
           const small = alone({ outer, tube, height });
           const large = alone({ outer, tube: Math.min(tube * growth, 0.6 * outer), height });
-          expect(large.breakout_voltage!).toBeGreaterThan(small.breakout_voltage!);
+          expect(must(large.breakout_voltage)).toBeGreaterThan(must(small.breakout_voltage));
         },
       ),
       { numRuns: 15, seed: 42, endOnFailure: true },
@@ -267,8 +268,8 @@ describe('monotonic facts (properties)', () => {
           const large = run(
             design({ shape: 'toroid', outerDiameter: outer * growth, tubeDiameter: 0.12, heightAboveWinding: 0.05 }),
           ).metrics;
-          expect(large.topload_capacitance!).toBeGreaterThan(small.topload_capacitance!);
-          expect(large.resonant_frequency!).toBeLessThan(small.resonant_frequency!);
+          expect(must(large.topload_capacitance)).toBeGreaterThan(must(small.topload_capacitance));
+          expect(must(large.resonant_frequency)).toBeLessThan(must(small.resonant_frequency));
         },
       ),
       { numRuns: 12, seed: 7, endOnFailure: true },
@@ -284,12 +285,12 @@ describe('monotonic facts (properties)', () => {
         (height, factor) => {
           const low = alone({ outer: 0.8, tube: 0.2, height });
           const high = alone({ outer: 0.8, tube: 0.2, height: height * factor });
-          expect(high.topload_capacitance!).toBeLessThan(low.topload_capacitance!);
-          expect(high.topload_capacitance!).toBeGreaterThan(isolated);
+          expect(must(high.topload_capacitance)).toBeLessThan(must(low.topload_capacitance));
+          expect(must(high.topload_capacitance)).toBeGreaterThan(isolated);
         },
       ),
       { numRuns: 15, seed: 3, endOnFailure: true },
     );
-    expect(alone({ outer: 0.8, tube: 0.2, height: 60 }).topload_capacitance! / isolated - 1).toBeLessThan(0.01);
+    expect(must(alone({ outer: 0.8, tube: 0.2, height: 60 }).topload_capacitance) / isolated - 1).toBeLessThan(0.01);
   });
 });

@@ -8,6 +8,7 @@ import { evaluateBatchTask, inProcessEvaluator } from '../../optimize/evaluate-b
 import { SweepState } from '../../optimize/sweep-state.ts';
 import { unpackRow } from '../../optimize/packed-row.ts';
 import { METRIC_KEYS } from '../../core/metrics.ts';
+import { must } from '../../core/must.ts';
 
 const demo = () => parse(readFileSync('examples/sweeps/science-centre-ceiling.yaml', 'utf8')) as Record<string, any>;
 
@@ -32,8 +33,8 @@ describe('DesignSpace.designAt(index)', () => {
       expect(values[2]).toBeLessThanOrEqual(1400);
       expect(values[3]).toBeGreaterThanOrEqual(0.4);
       expect(values[3]).toBeLessThanOrEqual(0.9);
-      expect(design!.secondary!.turns).toBe(values[2]);
-      expect(design!.secondary!.formDiameter).toBe([0.16, 0.2, 0.25][values[0]]);
+      expect(must(must(design).secondary).turns).toBe(values[2]);
+      expect(must(must(design).secondary).formDiameter).toBe([0.16, 0.2, 0.25][values[0]]);
     }
   });
 

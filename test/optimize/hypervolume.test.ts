@@ -15,7 +15,9 @@ function inclusionExclusion(points: number[][], reference: number[]): number {
     for (let i = 0; i < inside.length; i++) {
       if (mask & (1 << i)) {
         sign = -sign;
-        inside[i].forEach((v, j) => (corner[j] = Math.max(corner[j], v)));
+        inside[i].forEach((v, j) => {
+          corner[j] = Math.max(corner[j], v);
+        });
       }
     }
     total += sign * corner.reduce((product, v, j) => product * (reference[j] - v), 1);

@@ -247,7 +247,7 @@ describe('async drivers', () => {
       batchSizes.push(points.length);
       return points.map(objective);
     }, starts);
-    starts.forEach((start, index) => expect(many[index]).toEqual(minimize(objective, start)));
+    for (const [index, start] of starts.entries()) expect(many[index]).toEqual(minimize(objective, start));
     expect(batchSizes[0]).toBe(12);
     expect(batchSizes.length).toBeLessThan(many.reduce((sum, result) => sum + result.iterations, 0));
   });

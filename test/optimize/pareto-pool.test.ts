@@ -6,6 +6,7 @@ import { rankCandidates } from '../../optimize/pareto/rank-candidates.ts';
 import type { Scored } from '../../optimize/pareto/scored.ts';
 import { uniformAt } from '../../optimize/random.ts';
 import { DominanceIndex } from '../../optimize/pareto/dominance-index.ts';
+import { must } from '../../core/must.ts';
 
 const scored = (index: number, violation: number, objectives: number[]): Scored => ({
   index,
@@ -95,7 +96,7 @@ describe('CandidatePool (K-dominance filter) against brute force', () => {
           expect(fromPool.map((e) => e.item.index)).toEqual(wholeFirst);
           const byIndex = new Map(items.map((item, position) => [item.index, position]));
           for (const entry of fromPool) {
-            const position = byIndex.get(entry.item.index)!;
+            const position = must(byIndex.get(entry.item.index));
             expect(entry.paretoRank).toBe(whole.paretoRank[position]);
             expect(entry.crowding).toBe(whole.crowding[position]);
           }

@@ -12,6 +12,7 @@ import { losslessModeFrequencies } from '../../core/dynamics/circuit.ts';
 import { coupledModes, coupledStateAt } from '../../core/dynamics/coupled-modes.ts';
 import { sparkGapShot } from '../../core/dynamics/spark-gap.ts';
 import { fullTransferCoupling, nearestFullTransferCoupling } from '../../core/dynamics/full-transfer.ts';
+import { must } from '../../core/must.ts';
 
 // The circuit of the §8.2 check table: L1 = 10 µH, C1 = 10 nF, C2 = 20 pF, equally tuned.
 const L1 = 10e-6;
@@ -37,7 +38,7 @@ describe('normal modes of the lossless tuned pair (refs §8.1)', () => {
     const [low, high] = losslessModeFrequencies(tuned(k)).map((omega) => omega / (2 * Math.PI));
     expect(low / (F0 / Math.sqrt(1 + k))).toBeCloseTo(1, 12);
     expect(high / (F0 / Math.sqrt(1 - k))).toBeCloseTo(1, 12);
-    const shot = sparkGapShot(tuned(k), 1000, true)!;
+    const shot = must(sparkGapShot(tuned(k), 1000, true));
     expect(shot.modeFrequencyLow / (F0 / Math.sqrt(1 + k))).toBeCloseTo(1, 10);
     expect(shot.modeFrequencyHigh / (F0 / Math.sqrt(1 - k))).toBeCloseTo(1, 10);
   });
@@ -58,24 +59,24 @@ describe('full transfer at the first envelope null (refs §8.2 [X], §8.3)', () 
   test.each(table)('n = %i: k = %f, t₁·f0 = %f and V2 = V1·√(C1/C2)', (n, k, transferTimes) => {
     const coupling = fullTransferCoupling(n);
     expect(coupling).toBeCloseTo(k, 6);
-    const shot = sparkGapShot(tuned(coupling), 1000, true)!;
-    expect(Math.abs(shot.transferTime! * F0 - transferTimes)).toBeLessThan(5e-5); // the table's ODE and formula columns differ by up to 3e-5
-    expect(shot.transferTime! * F0).toBeCloseTo(
+    const shot = must(sparkGapShot(tuned(coupling), 1000, true));
+    expect(Math.abs(must(shot.transferTime) * F0 - transferTimes)).toBeLessThan(5e-5); // the table's ODE and formula columns differ by up to 3e-5
+    expect(must(shot.transferTime) * F0).toBeCloseTo(
       1 / (2 * (Math.sqrt(1 / (1 - coupling)) - Math.sqrt(1 / (1 + coupling)))),
       9,
     );
     expect(shot.peakVoltage / (1000 * Math.sqrt(C1 / C2))).toBeCloseTo(1, 9);
-    expect(shot.primaryEnergyAtTransfer! / shot.energyPerShot).toBeLessThan(1e-12);
+    expect(must(shot.primaryEnergyAtTransfer) / shot.energyPerShot).toBeLessThan(1e-12);
     expect(shot.energyPerShot).toBe(0.5 * C1 * 1000 * 1000);
   });
 
   test('between full-transfer couplings the transfer is partial and the peak lower (k = 0.2)', () => {
-    const shot = sparkGapShot(tuned(0.2), 1000, true)!;
+    const shot = must(sparkGapShot(tuned(0.2), 1000, true));
     expect(shot.peakVoltage).toBeLessThan(1000 * Math.sqrt(C1 / C2));
     expect(shot.peakVoltage).toBeGreaterThan(0.9 * 1000 * Math.sqrt(C1 / C2));
     // the first envelope null is half a beat, 1/(2(f₊ − f₋)), to within the ripple of half a cycle
     const halfBeat = 1 / (2 * (shot.modeFrequencyHigh - shot.modeFrequencyLow));
-    expect(Math.abs(shot.transferTime! - halfBeat) * F0).toBeLessThan(0.5);
+    expect(Math.abs(must(shot.transferTime) - halfBeat) * F0).toBeLessThan(0.5);
   });
 
   test('nearestFullTransferCoupling picks the closest (2n+1)/(2n²+2n+1)', () => {
@@ -94,7 +95,7 @@ describe('full transfer at the first envelope null (refs §8.2 [X], §8.3)', () 
 describe('coupledStateAt against an independent RK4 integration of the loop equations', () => {
   test('lossy, detuned circuit agrees to 1e-7 over 20 cycles', () => {
     const circuit: CoupledCircuit = { ...tuned(0.17, 0.8, 120), secondaryCapacitance: 23e-12 };
-    const modes = coupledModes(circuit, 15e3)!;
+    const modes = must(coupledModes(circuit, 15e3));
     const cycles = 20;
     const stepsPerCycle = 2000;
     const h = 1 / (F0 * stepsPerCycle);

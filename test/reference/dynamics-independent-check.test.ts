@@ -11,6 +11,7 @@ import { describe, expect, test } from 'vitest';
 import { fileURLToPath } from 'node:url';
 import { loadDesignFile } from '../../cli/load-design.ts';
 import { evaluateDesign } from '../../core/evaluate.ts';
+import { must } from '../../core/must.ts';
 
 const examples = (name: string): string => fileURLToPath(new URL(`../../examples/${name}`, import.meta.url));
 
@@ -25,16 +26,16 @@ interface Lumped {
 }
 
 function lumped(metrics: Record<string, number | null>, tankCapacitance: number): Lumped {
-  const L1 = metrics.primary_inductance!,
-    L2 = metrics.effective_inductance!; // the secondary as the circuit sees it (dynamics-stage.ts)
+  const L1 = must(metrics.primary_inductance),
+    L2 = must(metrics.effective_inductance); // the secondary as the circuit sees it (dynamics-stage.ts)
   return {
     L1,
     C1: tankCapacitance,
-    R1: metrics.primary_resistance!,
+    R1: must(metrics.primary_resistance),
     L2,
-    C2: metrics.total_capacitance!,
-    R2: metrics.secondary_ac_resistance!,
-    M: metrics.coupling! * Math.sqrt(L1 * L2),
+    C2: must(metrics.total_capacitance),
+    R2: must(metrics.secondary_ac_resistance),
+    M: must(metrics.coupling) * Math.sqrt(L1 * L2),
   };
 }
 
@@ -88,21 +89,21 @@ describe("evaluate → lumped metrics → independent solve (the lead's acceptan
     const { design } = loadDesignFile(examples(file));
     const { metrics, problems } = evaluateDesign(design);
     expect(problems).toEqual([]);
-    const c = lumped(metrics, design.tank!.capacitance);
-    const chargeVoltage = design.tank!.chargeVoltage!;
-    expect(metrics.energy_per_shot).toBe(0.5 * design.tank!.capacitance * chargeVoltage * chargeVoltage);
+    const c = lumped(metrics, must(design.tank).capacitance);
+    const chargeVoltage = must(must(design.tank).chargeVoltage);
+    expect(metrics.energy_per_shot).toBe(0.5 * must(design.tank).capacitance * chargeVoltage * chargeVoltage);
     const check = sparkGapCheck(c, chargeVoltage);
-    expect(Math.abs(metrics.transfer_time! / check.transferTime - 1)).toBeLessThan(0.02);
-    expect(Math.abs(metrics.peak_voltage! / check.peakVoltage - 1)).toBeLessThan(0.03);
+    expect(Math.abs(must(metrics.transfer_time) / check.transferTime - 1)).toBeLessThan(0.02);
+    expect(Math.abs(must(metrics.peak_voltage) / check.peakVoltage - 1)).toBeLessThan(0.03);
   });
 
   test('solid state, solid-state-bench-coil.yaml: peak voltage and bus energy against a naive switched RK4 (1 %)', () => {
     const { design } = loadDesignFile(examples('solid-state-bench-coil.yaml'));
     const { metrics } = evaluateDesign(design);
-    const driver = design.driver!;
+    const driver = must(design.driver);
     if (driver.kind !== 'solid_state') throw new Error('the example should have a solid-state driver');
-    const c = lumped(metrics, design.tank!.capacitance);
-    const h = 1 / (metrics.mode_frequency_high! * 4000);
+    const c = lumped(metrics, must(design.tank).capacitance);
+    const h = 1 / (must(metrics.mode_frequency_high) * 4000);
     let y = [0, 0, 0, 0];
     let polarity = 1;
     let energy = 0;
@@ -115,7 +116,7 @@ describe("evaluate → lumped metrics → independent solve (the lead's acceptan
       if (driver.currentLimit !== undefined && Math.abs(y[2]) >= driver.currentLimit) break;
       if (polarity * y[2] < 0) polarity = -polarity; // switch at the current zero (to within one step)
     }
-    expect(Math.abs(metrics.peak_voltage! / peak - 1)).toBeLessThan(0.01);
-    expect(Math.abs(metrics.energy_per_shot! / energy - 1)).toBeLessThan(0.01);
+    expect(Math.abs(must(metrics.peak_voltage) / peak - 1)).toBeLessThan(0.01);
+    expect(Math.abs(must(metrics.energy_per_shot) / energy - 1)).toBeLessThan(0.01);
   });
 });

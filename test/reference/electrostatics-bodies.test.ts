@@ -5,6 +5,7 @@
 import { describe, expect, test } from 'vitest';
 import { solveField } from '../../core/electrostatics/field-solve.ts';
 import { VACUUM_PERMITTIVITY } from '../../core/electrostatics/ring-kernel.ts';
+import { must } from '../../core/must.ts';
 
 const FOUR_PI_EPS0 = 4 * Math.PI * VACUUM_PERMITTIVITY;
 const TOLERANCE = 2e-3;
@@ -15,12 +16,12 @@ function relative(value: number | null, expected: number): number {
 
 describe('isolated bodies (exact solutions)', () => {
   test('sphere: C = 4πε0a and surface field V/a (exact, e.g. Jackson ch. 1)', () => {
-    const solution = solveField({ topload: { shape: 'sphere', radius: 0.25, centerZ: 0 }, floor: false })!;
+    const solution = must(solveField({ topload: { shape: 'sphere', radius: 0.25, centerZ: 0 }, floor: false }));
     expect(relative(solution.totalCapacitance, FOUR_PI_EPS0 * 0.25)).toBeLessThan(1e-5);
     expect(relative(solution.toploadPeakFieldPerVolt, 1 / 0.25)).toBeLessThan(1e-4);
   });
   test('thin disc: C = 8ε0a (exact, Jackson 3rd ed. ch. 3)', () => {
-    const solution = solveField({ topload: { shape: 'disc', radius: 1, centerZ: 0 }, floor: false })!;
+    const solution = must(solveField({ topload: { shape: 'disc', radius: 1, centerZ: 0 }, floor: false }));
     expect(relative(solution.totalCapacitance, 8 * VACUUM_PERMITTIVITY)).toBeLessThan(TOLERANCE);
     expect(relative(solution.totalCapacitance, 70.8335e-12)).toBeLessThan(TOLERANCE); // refs §5.3 [P]
   });
@@ -48,7 +49,7 @@ describe('sphere over a grounded plane (image series, Smythe; refs §5.3)', () =
   ])(
     'h/a = %f: C matches the series (table %f) and the peak field (%f V/a) sits at the bottom',
     (ratio, tabulated, peak) => {
-      const solution = solveField({ topload: { shape: 'sphere', radius: 1, centerZ: ratio }, floor: true })!;
+      const solution = must(solveField({ topload: { shape: 'sphere', radius: 1, centerZ: ratio }, floor: true }));
       expect(relative(solution.totalCapacitance, imageSeriesCapacitance(1, ratio))).toBeLessThan(1e-4);
       expect(relative(imageSeriesCapacitance(1, ratio) / FOUR_PI_EPS0, tabulated)).toBeLessThan(1e-7);
       expect(relative(solution.toploadPeakFieldPerVolt, peak)).toBeLessThan(TOLERANCE);
@@ -60,7 +61,7 @@ describe('sphere over a grounded plane (image series, Smythe; refs §5.3)', () =
     [0.5, 12.3642],
     [1.0, 11.7122],
   ])('a = 0.1 m at h = %f m: %f pF (refs §5.3 [X])', (height, picofarads) => {
-    const solution = solveField({ topload: { shape: 'sphere', radius: 0.1, centerZ: height }, floor: true })!;
+    const solution = must(solveField({ topload: { shape: 'sphere', radius: 0.1, centerZ: height }, floor: true }));
     expect(relative(solution.totalCapacitance, picofarads * 1e-12)).toBeLessThan(1e-4);
     expect(relative(solution.totalCapacitance, imageSeriesCapacitance(0.1, height))).toBeLessThan(1e-4);
   });
@@ -108,22 +109,26 @@ describe('isolated torus (toroidal harmonics; refs §5.3)', () => {
     [5, 0.8687103499, 0.3744],
     [10, 0.7216898805, 0.2894],
   ])('R/r = %f: C/(4πε0R) = %f and peak field %f V/r at the outer equator', (ratio, shape, peak) => {
-    const solution = solveField({
-      topload: { shape: 'toroid', majorRadius: 1, minorRadius: 1 / ratio, centerZ: 0 },
-      floor: false,
-    })!;
+    const solution = must(
+      solveField({
+        topload: { shape: 'toroid', majorRadius: 1, minorRadius: 1 / ratio, centerZ: 0 },
+        floor: false,
+      }),
+    );
     expect(relative(solution.totalCapacitance / FOUR_PI_EPS0, shape)).toBeLessThan(2e-4);
-    expect(relative(solution.toploadPeakFieldPerVolt! / ratio, peak)).toBeLessThan(TOLERANCE);
-    expect(Math.abs(solution.toploadPeakAngle!)).toBeLessThan(1e-6);
+    expect(relative(must(solution.toploadPeakFieldPerVolt) / ratio, peak)).toBeLessThan(TOLERANCE);
+    expect(Math.abs(must(solution.toploadPeakAngle))).toBeLessThan(1e-6);
   });
   test.each([1.5, 3, 10])('R/r = %f: the series evaluated here agrees with the table and the solve', (ratio) => {
     const series = torusSeriesCapacitance(1, 1 / ratio);
     const table: Record<number, number> = { 1.5: 1.393955733, 3: 1.030591456, 10: 0.7216898805 };
     expect(relative(series / FOUR_PI_EPS0, table[ratio])).toBeLessThan(1e-5);
-    const solution = solveField({
-      topload: { shape: 'toroid', majorRadius: 1, minorRadius: 1 / ratio, centerZ: 0 },
-      floor: false,
-    })!;
+    const solution = must(
+      solveField({
+        topload: { shape: 'toroid', majorRadius: 1, minorRadius: 1 / ratio, centerZ: 0 },
+        floor: false,
+      }),
+    );
     expect(relative(solution.totalCapacitance, series)).toBeLessThan(2e-4);
   });
   // Torus R = 0.3 m, r = 0.1 m over the floor: refs §5.3 [X] (independent BEM with image).
@@ -133,13 +138,15 @@ describe('isolated torus (toroidal harmonics; refs §5.3)', () => {
     [1.5, 38.302, 0.5071],
     [3.0, 36.264, 0.4806],
   ])('R = 0.3 m, r = 0.1 m at h = %f m over the floor: %f pF, peak %f V/r', (height, picofarads, peak) => {
-    const solution = solveField({
-      topload: { shape: 'toroid', majorRadius: 0.3, minorRadius: 0.1, centerZ: height },
-      floor: true,
-    })!;
+    const solution = must(
+      solveField({
+        topload: { shape: 'toroid', majorRadius: 0.3, minorRadius: 0.1, centerZ: height },
+        floor: true,
+      }),
+    );
     expect(relative(solution.totalCapacitance, picofarads * 1e-12)).toBeLessThan(2e-4);
-    expect(relative(solution.toploadPeakFieldPerVolt! * 0.1, peak)).toBeLessThan(TOLERANCE);
+    expect(relative(must(solution.toploadPeakFieldPerVolt) * 0.1, peak)).toBeLessThan(TOLERANCE);
     // Near the floor the peak moves below the outer equator.
-    expect(solution.toploadPeakAngle!).toBeLessThanOrEqual(1e-9);
+    expect(must(solution.toploadPeakAngle)).toBeLessThanOrEqual(1e-9);
   });
 });

@@ -5,6 +5,7 @@
 import { describe, expect, test } from 'vitest';
 import { MEDHURST_TABLE, medhurstFactor, medhurstSelfCapacitance } from '../../core/capacitance/medhurst.ts';
 import { solveField, type WindingProfile } from '../../core/electrostatics/field-solve.ts';
+import { must } from '../../core/must.ts';
 
 describe('medhurstFactor (Medhurst 1947, table as reproduced — refs §4.1 [P2])', () => {
   test('returns the table at its rows', () => {
@@ -21,7 +22,7 @@ describe('medhurstFactor (Medhurst 1947, table as reproduced — refs §4.1 [P2]
     expect(medhurstSelfCapacitance(0, 1)).toBeNull();
   });
   test('D = 20 cm, l/D = 4: 0.72 × 20 = 14.4 pF (refs §2 worked example)', () => {
-    expect(medhurstSelfCapacitance(0.2, 0.8)! / 1e-12).toBeCloseTo(14.4, 10);
+    expect(must(medhurstSelfCapacitance(0.2, 0.8)) / 1e-12).toBeCloseTo(14.4, 10);
   });
 });
 
@@ -31,17 +32,19 @@ describe('field-based self-capacitance of a bare winding against Medhurst (l/D 1
   // notes for why the static field value lies below Medhurst's resonance-derived one.
   const diameter = 0.2;
   function selfCapacitance(ratio: number, profile: WindingProfile): number {
-    const solution = solveField({
-      winding: { radius: diameter / 2, bottomZ: 0.5, topZ: 0.5 + ratio * diameter, profile },
-      floor: true,
-    })!;
-    return solution.selfCapacitance!;
+    const solution = must(
+      solveField({
+        winding: { radius: diameter / 2, bottomZ: 0.5, topZ: 0.5 + ratio * diameter, profile },
+        floor: true,
+      }),
+    );
+    return must(solution.selfCapacitance);
   }
   test('stays within the band 0.70–0.95 and falls as the coil gets longer', () => {
     const lines: string[] = ['l/D  Medhurst pF  field pF (linear)  ratio  field pF (quarter-wave)  ratio'];
     let previous = Number.POSITIVE_INFINITY;
     for (const ratio of [1, 1.5, 2, 3, 4, 5, 6]) {
-      const medhurst = medhurstSelfCapacitance(diameter, ratio * diameter)!;
+      const medhurst = must(medhurstSelfCapacitance(diameter, ratio * diameter));
       const linear = selfCapacitance(ratio, 'linear');
       const quarterWave = selfCapacitance(ratio, 'quarter_wave');
       lines.push(

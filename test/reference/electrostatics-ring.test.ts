@@ -33,7 +33,7 @@ describe('ringChargePotential (Smythe; refs §5.1)', () => {
   // Normalised potential 4πε0·a·V/q for a = 1: refs §5.1 [X] (mpmath).
   test.each([
     [0, 0, 1],
-    [0, 1, 0.707106781187],
+    [0, 1, Math.SQRT1_2],
     [0.5, 0, 1.07318200715],
     [2, 0, 0.536591003575],
     [1, 1, 0.642637681773],

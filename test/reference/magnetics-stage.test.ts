@@ -17,6 +17,7 @@ import { coaxialLoopMutualInductance } from '../../core/inductance/coaxial-loops
 import { loopSelfInductance } from '../../core/inductance/loop.ts';
 import { ringToTurnsMutualInductance } from '../../core/inductance/sheet-mutual.ts';
 import { primaryRings, ringWeights } from '../../core/primary/rings.ts';
+import { must } from '../../core/must.ts';
 
 function context(design: Partial<Design>): EvalContext {
   return {
@@ -276,9 +277,9 @@ describe('primaryStage wiring against a direct computation (ring × turn sums, n
     secondaryStage(evaluation);
     primaryStage(evaluation);
     expect(evaluation.problems).toEqual([]);
-    const geometry = evaluation.secondary!;
+    const geometry = must(evaluation.secondary);
     const rings = primaryRings(primary, geometry.bottomZ);
-    const weights = ringWeights(rings.length, primary.tapTurns!);
+    const weights = ringWeights(rings.length, must(primary.tapTurns));
     let l1 = 0;
     let mutual = 0;
     const winding = { radius: geometry.radius, bottomZ: geometry.bottomZ, topZ: geometry.topZ, turns: geometry.turns };
