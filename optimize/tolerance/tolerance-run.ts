@@ -42,8 +42,10 @@ export interface CandidateTolerance {
   draws: number;
   /** Builds that would be feasible candidates. */
   passing: number;
-  /** Builds that could not be built or evaluated (impossible geometry, a failed evaluation). */
+  /** Builds that could not be built or evaluated (impossible geometry, no tuning, a failed evaluation). */
   impossible: number;
+  /** Those builds by the field their reason names (`primary.tap_turns`), in order of the field name. */
+  impossibleBy: Record<string, number>;
   yield: ProportionInterval;
   quantiles: MetricQuantiles[];
 }
@@ -82,6 +84,7 @@ export async function candidateTolerance(
   const pending: Promise<void>[] = [];
   const metricCount = METRIC_KEYS.length;
   const constraintValues = new Float64Array(constraintColumns.length);
+  const reasonCounts = new Map<string, number>();
   const record = (start: number, result: BatchResult) => {
     for (let row = 0; row < result.count; row++) {
       const j = start + row;
@@ -89,6 +92,9 @@ export async function candidateTolerance(
       for (let m = 0; m < metricColumns.length; m++) outputs[m][j] = result.metrics[offset + metricColumns[m]];
       if (result.status[row] !== STATUS_OK) {
         impossible[j] = 1;
+        const reason = result.reasons.find(([r]) => r === row)?.[1] ?? 'not evaluated';
+        const where = reason.split(':')[0];
+        reasonCounts.set(where, (reasonCounts.get(where) ?? 0) + 1);
         continue;
       }
       for (let c = 0; c < constraintColumns.length; c++)
@@ -126,5 +132,7 @@ export async function candidateTolerance(
       p95: sortedQuantile(kept, 0.95),
     };
   });
-  return { draws, passing, impossible: failed, yield: wilsonInterval(passing, draws), quantiles };
+  const impossibleBy: Record<string, number> = {};
+  for (const key of [...reasonCounts.keys()].sort()) impossibleBy[key] = reasonCounts.get(key) ?? 0;
+  return { draws, passing, impossible: failed, impossibleBy, yield: wilsonInterval(passing, draws), quantiles };
 }

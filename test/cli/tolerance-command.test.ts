@@ -112,6 +112,16 @@ describe('coilfront tolerance of one design', () => {
   }, 60_000);
 });
 
+describe('the example tolerance file', () => {
+  it('reads and runs (two builds)', async () => {
+    const dir = scratch();
+    const { io, text } = capture();
+    const args = ['tolerance', DESIGN, '--tolerances', 'examples/tabletop-tolerances.yaml', '--draws', '2'];
+    expect(await runCli([...args, '--workers', '0', '--out', dir], io)).toBe(0);
+    expect(text()).toContain('2 builds per candidate, 7 toleranced fields');
+  }, 60_000);
+});
+
 describe('coilfront tolerance of a run', () => {
   it('studies the top candidates of candidates.csv, resumes after a torn journal and gives the same files', async () => {
     const dir = scratch();
