@@ -105,6 +105,7 @@ export function spaceDefinitionOf(spec: SweepSpec): SpaceDefinition {
     samples: spec.samples,
     seed: spec.seed,
     gridLevels: spec.gridLevels,
+    ...(spec.robust ? { robust: spec.robust } : {}),
   };
 }
 

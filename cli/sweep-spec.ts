@@ -13,6 +13,8 @@ import { fieldError, InputError, type InputIssue } from './input-error.ts';
 import { metricKind } from './metric-kinds.ts';
 import { readInputFile } from './read-file.ts';
 import { suggest } from './suggest.ts';
+import type { RobustDefinition } from '../optimize/tolerance/robust-yield.ts';
+import { ToleranceSetupError, toleranceSpace } from '../optimize/tolerance/tolerance-space.ts';
 import { readTolerances, type ToleranceSection } from './tolerance-spec.ts';
 import { describeValue, readQuantity } from './units.ts';
 import { must } from '../core/must.ts';
@@ -50,6 +52,8 @@ export interface SweepSpec {
   hash: string;
   /** The build tolerances for `coilfront tolerance`, when the file has a `tolerances:` section. */
   tolerances?: ToleranceSection | null;
+  /** The robust merit build_yield, when an objective or constraint uses it (needs tolerances.sweep_draws). */
+  robust?: RobustDefinition;
 }
 
 /** Above this many designs a sweep is refused unless --force (a day of a small workstation). */
@@ -411,7 +415,47 @@ export function sweepFromValue(value: unknown, file: string, options: SweepReadO
     issues.push(structural);
     fail();
   }
+  // Tolerances: every field must find its nominal in this space; build_yield needs tolerances.sweep_draws.
+  let robust: RobustDefinition | undefined;
+  if (tolerances) {
+    let space: ReturnType<typeof toleranceSpace> | null = null;
+    try {
+      space = toleranceSpace({ tree: reading.tree, dimensions, method, samples, seed, gridLevels }, tolerances.fields);
+    } catch (error) {
+      if (!(error instanceof ToleranceSetupError)) throw error;
+      issues.push({ path: ['tolerances', ...error.path], message: error.message });
+    }
+    if (issues.length || space === null) fail();
+    const usesYield =
+      objectives.some((o) => o.metric === 'build_yield') || constraints.some((c) => c.metric === 'build_yield');
+    if (usesYield && tolerances.sweepDraws === null) {
+      issues.push({
+        path: ['tolerances', 'sweep_draws'],
+        message: 'required for build_yield: the tolerance draws per design (each costs one more evaluation)',
+      });
+      fail();
+    }
+    if (usesYield) {
+      robust = {
+        tolerance: space as ReturnType<typeof toleranceSpace>,
+        draws: tolerances.sweepDraws as number,
+        seed: tolerances.seed ?? seed,
+        constraints: constraints.filter((c) => c.metric !== 'build_yield'),
+        required: objectives.map((o) => o.metric).filter((m) => m !== 'build_yield'),
+      };
+    }
+  } else if (
+    objectives.some((o) => o.metric === 'build_yield') ||
+    constraints.some((c) => c.metric === 'build_yield')
+  ) {
+    issues.push({
+      path: ['tolerances'],
+      message: 'required for build_yield: a tolerances section with sweep_draws',
+    });
+    fail();
+  }
   return {
+    ...(robust ? { robust } : {}),
     tree: reading.tree,
     dimensions,
     constraints,

@@ -183,8 +183,9 @@ export async function toleranceCommand(target: string, options: ToleranceCommand
     if (!given)
       throw new InputError(`${target}: the sweep file has no tolerances: section; add one, or give --tolerances FILE`);
     section = given;
-    constraints = [...spec.constraints, ...(file?.constraints ?? [])];
-    objectives = [...spec.objectives, ...(file?.objectives ?? [])];
+    // build_yield is the sweep's own robust merit (a few draws per design): the study measures it afresh.
+    constraints = [...spec.constraints, ...(file?.constraints ?? [])].filter((c) => c.metric !== 'build_yield');
+    objectives = [...spec.objectives, ...(file?.objectives ?? [])].filter((o) => o.metric !== 'build_yield');
     base = spaceDefinitionOf(spec);
     const space = new DesignSpace(base);
     candidates = runCandidates(target, top).map((c) => {

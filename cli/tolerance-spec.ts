@@ -27,12 +27,16 @@ export interface ToleranceSection {
   draws: number | null;
   /** Seed of the draws, when the section says. */
   seed: number | null;
+  /** Draws per design for a robust merit (build_yield) inside a sweep, when the section says. */
+  sweepDraws: number | null;
 }
 
 /** Most builds per candidate a file may ask for. */
 export const MAX_TOLERANCE_DRAWS = 1_000_000;
 
-const SETTING_KEYS = ['draws', 'seed'];
+const SETTING_KEYS = ['draws', 'seed', 'sweep_draws'];
+/** Most draws per design a robust merit may ask for: each one is a full evaluation. */
+export const MAX_SWEEP_DRAWS = 1024;
 const ENTRY_KEYS = ['spread', 'from', 'to', 'distribution', 'sigmas'];
 const DISTRIBUTIONS: readonly ToleranceDistribution[] = ['uniform', 'normal', 'truncated_normal'];
 
@@ -197,11 +201,12 @@ export function readTolerances(
     issues.push({ path, message: `expected a mapping of section: { field: spread }, got ${describeValue(input)}` });
     return null;
   }
-  const section: ToleranceSection = { fields: [], draws: null, seed: null };
+  const section: ToleranceSection = { fields: [], draws: null, seed: null, sweepDraws: null };
   const names = Object.keys(DESIGN_SECTIONS);
   for (const [name, value] of Object.entries(input)) {
-    if (name === 'draws' || name === 'seed') {
-      const [min, max] = name === 'draws' ? [1, MAX_TOLERANCE_DRAWS] : [0, 2 ** 32 - 1];
+    if (SETTING_KEYS.includes(name)) {
+      const [min, max] =
+        name === 'draws' ? [1, MAX_TOLERANCE_DRAWS] : name === 'sweep_draws' ? [1, MAX_SWEEP_DRAWS] : [0, 2 ** 32 - 1];
       if (typeof value !== 'number' || !Number.isInteger(value) || value < min || value > max) {
         issues.push({
           path: [...path, name],
@@ -209,7 +214,8 @@ export function readTolerances(
         });
         return null;
       }
-      section[name] = value;
+      if (name === 'sweep_draws') section.sweepDraws = value;
+      else section[name as 'draws' | 'seed'] = value;
       continue;
     }
     const spec = DESIGN_SECTIONS[name];

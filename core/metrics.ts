@@ -149,6 +149,11 @@ export const METRICS: readonly MetricInfo[] = [
     'where the steepest voltage gradient along the winding sits, as a fraction of its length from the base',
   ),
   metric('resonator_segments', 'count', 'segments of the distributed model of the winding, chosen by convergence'),
+  metric(
+    'build_yield',
+    '',
+    "fraction of the sweep's tolerance draws (tolerances.sweep_draws) that would be feasible candidates; only in sweeps that ask for it",
+  ),
 ];
 
 export const METRIC_KEYS: readonly string[] = METRICS.map((m) => m.key);

@@ -118,7 +118,7 @@ export function toleranceSpace(base: SpaceDefinition, fields: readonly Tolerance
   }
   return {
     // The sampler of this definition is never used (rows come as values); 'random' takes any dimension count.
-    definition: { ...base, tree, dimensions, method: 'random', gridLevels: null },
+    definition: { tree, dimensions, method: 'random', samples: base.samples, seed: base.seed, gridLevels: null },
     baseDimensions,
     fields: [...fields],
     nominals,

@@ -161,6 +161,49 @@ describe('coilfront tolerance of a run', () => {
   }, 120_000);
 });
 
+describe('build_yield as a robust merit of a sweep', () => {
+  it('equals the yield coilfront tolerance finds at the same draws, in candidates.csv', async () => {
+    const dir = scratch();
+    const value = parseYaml(readFileSync(SWEEP, 'utf8'));
+    value.sweep.samples = 16;
+    value.tolerances.sweep_draws = 3;
+    // Wide enough that some builds leave the frequency band or the ceiling: yields between 0 and 1.
+    value.tolerances.secondary.turns = '±25 %';
+    value.constraints.resonant_frequency = { min: '90 kHz', max: '150 kHz' };
+    value.objectives = [{ maximize: 'build_yield' }, { minimize: 'wire_mass' }];
+    writeFileSync(join(dir, 'robust.yaml'), JSON.stringify(value));
+    const run = join(dir, 'run');
+    expect(
+      await runCli(['sweep', join(dir, 'robust.yaml'), '--out', run, '--workers', '0', '--quiet'], capture().io),
+    ).toBe(0);
+    const candidates = parseCsv(readFileSync(join(run, 'candidates.csv'), 'utf8'), { columns: true }) as Record<
+      string,
+      string
+    >[];
+    expect(candidates.length).toBeGreaterThan(0);
+    // Steps of 1/3 (three draws).
+    for (const row of candidates) {
+      const y = Number(row.build_yield);
+      expect(Math.abs(y * 3 - Math.round(y * 3))).toBeLessThan(1e-5);
+    }
+    expect(candidates.some((r) => Number(r.build_yield) < 1)).toBe(true);
+    expect(await runCli(['tolerance', run, '--top', '100', '--draws', '3', '--workers', '0'], capture().io)).toBe(0);
+    const study = JSON.parse(readFileSync(join(run, 'tolerance.json'), 'utf8'));
+    expect(study.candidates).toHaveLength(candidates.length);
+    for (let c = 0; c < study.candidates.length; c++) {
+      expect(study.candidates[c].yield.estimate).toBeCloseTo(Number(candidates[c].build_yield), 6);
+    }
+  }, 120_000);
+
+  it('needs tolerances.sweep_draws', () => {
+    const value = parseYaml(readFileSync(SWEEP, 'utf8'));
+    value.objectives = [{ maximize: 'build_yield' }];
+    expect(() => sweepFromValue(value, 'night.yaml')).toThrow(
+      /^night\.yaml: tolerances\.sweep_draws: required for build_yield/,
+    );
+  });
+});
+
 describe('bad tolerance input', () => {
   const cases: Array<[string, string, RegExp]> = [
     [
