@@ -144,6 +144,7 @@ export function sweepSchema(): Schema {
         properties: {
           draws: { type: 'integer', minimum: 1, maximum: 1000000 },
           seed: { type: 'integer', minimum: 0, maximum: 4294967295 },
+          sweep_draws: { type: 'integer', minimum: 1, maximum: 1024 },
         },
         additionalProperties: {
           type: 'object',
