@@ -11,7 +11,7 @@ import type { Design } from '../core/design.ts';
 import type { Evaluation } from '../core/evaluate.ts';
 import { createDesignPool, defaultWorkerCount } from '../workers/pool.ts';
 import { evaluationJson } from './evaluate-command.ts';
-import { fieldError, InputError } from './input-error.ts';
+import { fieldError, InputError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
 import { designFromValue, type LoadedDesign } from './load-design.ts';
 

@@ -12,7 +12,7 @@ import * as z from 'zod';
 import { stringify as yamlStringify } from 'yaml';
 import { DESIGN_SECTIONS, sectionFields, type FieldSpec, type SectionSpec } from './design-fields.ts';
 import { describeValue, readQuantity, describeKind, type QuantityKind, unitsOf } from './units.ts';
-import type { InputIssue } from './input-error.ts';
+import type { InputIssue } from '../run/input-error.ts';
 import type {
   Dimension,
   DimensionSlot,
@@ -23,6 +23,8 @@ import type {
 } from '../optimize/design-tree.ts';
 import { suggest } from './suggest.ts';
 import { must } from '../core/must.ts';
+import { awgDiameter } from '../core/wire/awg.ts';
+import { STOCK_CATALOGUES, stockBetween, stockNames } from './stock/catalogues.ts';
 
 export type {
   Dimension,
@@ -489,6 +491,101 @@ function readChoose(
   return { slot: state.dimensions.length - 1 };
 }
 
+// ---------------------------------------------------------------- stock sets: sizes that can be bought
+
+const STOCK_KEYS = ['stock', 'from', 'to'];
+
+/** The bounds of a stock set as written: 'from 300 mm to 310 mm', 'from 300 mm', 'up to 8 mm'. */
+function rangeText(from: unknown, to: unknown): string {
+  if (from === undefined) return `up to ${describeValue(to)}`;
+  if (to === undefined) return `from ${describeValue(from)} up`;
+  return `from ${describeValue(from)} to ${describeValue(to)}`;
+}
+
+/** The diameter a wire value stands for, m (an AWG size by the ASTM B258 rule). */
+function wireValueDiameter(wire: WireValue): number {
+  return 'awg' in wire ? awgDiameter(wire.awg) : wire.bareDiameter;
+}
+
+/**
+ * A stock set, `{ stock: NAME, from, to }` (from and to optional, inclusive): the catalogue's sizes
+ * between the bounds, as an ordinary set of values (cli/stock/catalogues.ts). Length catalogues fit
+ * length fields, wire catalogues wire fields; a wire's bounds may be written either way round.
+ */
+function readStock(
+  field: FieldSpec,
+  input: Record<string, unknown>,
+  path: string[],
+  state: WalkState,
+): DimensionSlot | undefined {
+  const issues = state.issues;
+  for (const key of Object.keys(input)) {
+    if (!STOCK_KEYS.includes(key)) {
+      issues.push({ path: [...path, key], message: unknownKeyMessage(key, STOCK_KEYS) });
+      return undefined;
+    }
+  }
+  const name = input.stock;
+  const catalogue = typeof name === 'string' ? STOCK_CATALOGUES.get(name) : undefined;
+  if (catalogue === undefined) {
+    const guess = typeof name === 'string' ? suggest(name, stockNames()) : null;
+    issues.push({
+      path: [...path, 'stock'],
+      message: `unknown stock catalogue ${describeValue(name)}${guess ? ` (did you mean '${guess}'?)` : ''}; expected one of ${stockNames().join(', ')} (npx coilfront stock lists them)`,
+    });
+    return undefined;
+  }
+  const fieldKind = field.type === 'wire' ? 'wire' : field.type === 'quantity' ? field.kind : null;
+  if (fieldKind !== catalogue.kind) {
+    const fitting = [...STOCK_CATALOGUES.values()].filter((c) => c.kind === fieldKind).map((c) => c.name);
+    const what = field.type === 'quantity' ? describeKind(field.kind) : field.type === 'wire' ? 'a wire' : field.type;
+    issues.push({
+      path: [...path, 'stock'],
+      message: `stock '${catalogue.name}' holds ${catalogue.kind === 'wire' ? 'wire sizes' : 'lengths'}, but this field takes ${what}${fitting.length ? ` (use ${fitting.join(', ')})` : '; stock sets fit length and wire fields'}`,
+    });
+    return undefined;
+  }
+  const bound = (key: 'from' | 'to', fallback: number): number | undefined => {
+    if (input[key] === undefined) return fallback;
+    const value = readLeaf(field, input[key], [...path, key], issues);
+    if (value === undefined) return undefined;
+    return typeof value === 'number' ? value : wireValueDiameter(value as WireValue);
+  };
+  let low = bound('from', 0);
+  let high = bound('to', Number.POSITIVE_INFINITY);
+  if (low === undefined || high === undefined) return undefined;
+  if (low > high) {
+    if (catalogue.kind === 'wire') [low, high] = [high, low];
+    else {
+      issues.push({
+        path,
+        message: `reversed range: 'from' (${describeValue(input.from)}) must not be above 'to' (${describeValue(input.to)})`,
+      });
+      return undefined;
+    }
+  }
+  const sizes = stockBetween(catalogue, low, high);
+  if (sizes.length === 0) {
+    const below = catalogue.sizes.filter((size) => size.diameter < low).at(-1);
+    const above = catalogue.sizes.find((size) => size.diameter > high);
+    const nearest = [below, above].filter((size) => size !== undefined).map((size) => size.label);
+    issues.push({
+      path,
+      message: `no size of stock '${catalogue.name}' lies ${rangeText(input.from, input.to)}${nearest.length ? ` (nearest: ${nearest.join(', ')})` : ''}`,
+    });
+    return undefined;
+  }
+  state.dimensions.push({
+    kind: 'choose',
+    path,
+    values: sizes.map((size) => size.value),
+    labels: sizes.map((size) => size.label),
+    ...(field.type === 'quantity' ? { quantity: field.kind } : {}),
+    ...(field.type === 'wire' ? { wire: true } : {}),
+  });
+  return { slot: state.dimensions.length - 1 };
+}
+
 // ---------------------------------------------------------------- sections and the tree
 
 function readSection(
@@ -564,17 +661,23 @@ function readSection(
       }
       continue;
     }
-    if (state.mode === 'sweep' && isMapping(value) && ('from' in value || 'to' in value || 'choose' in value)) {
+    if (
+      state.mode === 'sweep' &&
+      isMapping(value) &&
+      ('from' in value || 'to' in value || 'choose' in value || 'stock' in value)
+    ) {
       const slot =
-        'choose' in value
-          ? readChoose(
-              value,
-              fieldPath,
-              state,
-              (item, itemPath) => readLeaf(field, item, itemPath, state.issues),
-              field,
-            )
-          : readRange(field, value, fieldPath, state);
+        'stock' in value
+          ? readStock(field, value, fieldPath, state)
+          : 'choose' in value
+            ? readChoose(
+                value,
+                fieldPath,
+                state,
+                (item, itemPath) => readLeaf(field, item, itemPath, state.issues),
+                field,
+              )
+            : readRange(field, value, fieldPath, state);
       if (slot === undefined) return undefined;
       output[key] = slot;
       continue;

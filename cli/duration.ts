@@ -2,7 +2,7 @@
  * Durations on the command line (--time-limit 8h, --checkpoint-every 30s): a number and a unit, or
  * several from the largest unit down ("1h30m", "1d 6h"). Units: ms, s, m (minutes), h, d (24 h).
  */
-import { type InputError, optionError } from './input-error.ts';
+import { type InputError, optionError } from '../run/input-error.ts';
 
 const SECONDS_PER_UNIT: Readonly<Record<string, number>> = { d: 86_400, h: 3_600, m: 60, s: 1, ms: 0.001 };
 const UNIT_ORDER = ['d', 'h', 'm', 's', 'ms'];

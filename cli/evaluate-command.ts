@@ -2,7 +2,7 @@
  * `coilfront evaluate FILE [--json]`: one design, a readable report or the JSON contract.
  */
 import { evaluateDesign, type Evaluation } from '../core/evaluate.ts';
-import { fieldError } from './input-error.ts';
+import { fieldError } from '../run/input-error.ts';
 import { loadDesignFile } from './load-design.ts';
 import { formatReport } from './report.ts';
 import type { NormalTree } from './design-schema.ts';

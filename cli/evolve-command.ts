@@ -18,12 +18,12 @@ import { type EvolveOutcome, evolveSweep, type GenerationRecord } from '../optim
 import type { RankedEntry } from '../optimize/pareto/candidate-pool.ts';
 import type { PackedRow } from '../optimize/packed-row.ts';
 import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
-import { openJournal, readJournal } from './durable/journal.ts';
-import { acquireRunLock, RunLockError } from './durable/lock.ts';
-import { DiskError } from './durable/disk-error.ts';
-import { InputError, optionError } from './input-error.ts';
+import { openJournal, readJournal } from '../run/durable/journal.ts';
+import { acquireRunLock, RunLockError } from '../run/durable/lock.ts';
+import { DiskError } from '../run/durable/disk-error.ts';
+import { InputError, optionError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
-import { readRunRecord, RUN_FILES, runDigits } from './run-directory.ts';
+import { readRunRecord, RUN_FILES, runDigits } from '../run/run-directory.ts';
 import { SAFETY_CAUTIONS } from './safety.ts';
 import {
   designLines,

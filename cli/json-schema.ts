@@ -5,6 +5,7 @@
 import { METRIC_KEYS } from '../core/metrics.ts';
 import { DESIGN_SECTIONS, type FieldSpec, type SectionSpec } from './design-fields.ts';
 import { unitsOf } from './units.ts';
+import { STOCK_CATALOGUES } from './stock/catalogues.ts';
 
 type Schema = Record<string, unknown>;
 
@@ -39,7 +40,17 @@ function sweepLeaf(field: FieldSpec): Schema {
     required: ['choose'],
     additionalProperties: false,
   };
-  if (field.type !== 'quantity') return { anyOf: [value, choose] };
+  const stockKind = field.type === 'wire' ? 'wire' : field.type === 'quantity' ? field.kind : null;
+  const catalogues = [...STOCK_CATALOGUES.values()].filter((c) => c.kind === stockKind).map((c) => c.name);
+  const stock = {
+    type: 'object',
+    description: 'stock sizes of a catalogue (npx coilfront stock), optionally from/to inclusive',
+    properties: { stock: { enum: catalogues }, from: value, to: value },
+    required: ['stock'],
+    additionalProperties: false,
+  };
+  const stocked = catalogues.length > 0 ? [stock] : [];
+  if (field.type !== 'quantity') return { anyOf: [value, choose, ...stocked] };
   const range = {
     type: 'object',
     properties: {
@@ -52,7 +63,7 @@ function sweepLeaf(field: FieldSpec): Schema {
     required: ['from', 'to'],
     additionalProperties: false,
   };
-  return { anyOf: [value, range, choose], description: field.description };
+  return { anyOf: [value, range, choose, ...stocked], description: field.description };
 }
 
 function section(spec: SectionSpec, sweep: boolean): Schema {

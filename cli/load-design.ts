@@ -4,7 +4,7 @@
 import type { Design } from '../core/design.ts';
 import { buildDesign } from '../optimize/build-design.ts';
 import { readDesignTree, type NormalTree } from './design-schema.ts';
-import { fieldError } from './input-error.ts';
+import { fieldError } from '../run/input-error.ts';
 import { readInputFile } from './read-file.ts';
 
 export interface LoadedDesign {

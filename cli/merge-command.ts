@@ -6,8 +6,8 @@
 import { copyFileSync, existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { SweepState } from '../optimize/sweep-state.ts';
-import { writeFileAtomicSync } from './durable/atomic-write.ts';
-import { InputError } from './input-error.ts';
+import { writeFileAtomicSync } from '../run/durable/atomic-write.ts';
+import { InputError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
 import {
   prepareOutputDirectory,
@@ -16,8 +16,8 @@ import {
   runDigits,
   writeRunRecord,
   type RunRecord,
-} from './run-directory.ts';
-import { checkCoverage } from './shard.ts';
+} from '../run/run-directory.ts';
+import { checkCoverage } from '../run/shard.ts';
 import { loadRunSpec } from './sweep-command.ts';
 import { writeSweepOutputs } from './sweep-outputs.ts';
 import { SAFETY_LINE } from './safety.ts';

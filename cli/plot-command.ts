@@ -4,10 +4,10 @@
  */
 import { existsSync } from 'node:fs';
 import { join } from 'node:path';
-import { writeFileAtomicSync } from './durable/atomic-write.ts';
-import { InputError } from './input-error.ts';
+import { writeFileAtomicSync } from '../run/durable/atomic-write.ts';
+import { InputError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
-import { readRunRecord, RUN_FILES } from './run-directory.ts';
+import { readRunRecord, RUN_FILES } from '../run/run-directory.ts';
 import { SAFETY_LINE } from './safety.ts';
 import { type ColumnPlotOptions, columnPlotSpec } from './views/column-plot.ts';
 import { readRunTable } from './views/run-table.ts';

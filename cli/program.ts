@@ -4,10 +4,10 @@
  * exit code 2; anything else is a bug and says so.
  */
 import { registerViewCommands } from './view-commands.ts';
-import { MAX_DIGITS } from './csv.ts';
+import { MAX_DIGITS } from '../run/csv.ts';
 import { readFileSync } from 'node:fs';
 import { Command, CommanderError, InvalidArgumentError } from 'commander';
-import { InputError } from './input-error.ts';
+import { InputError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
 import { evaluateCommand } from './evaluate-command.ts';
 import { sweepCommand, type SweepOptions } from './sweep-command.ts';
@@ -20,6 +20,8 @@ import { demoCommand } from './demo-command.ts';
 import { refineCommand, type RefineCommandOptions } from './refine-command.ts';
 import { evolveCommand, type EvolveCommandOptions } from './evolve-command.ts';
 import { sensitivityCommand, type SensitivityOptions } from './sensitivity-command.ts';
+import { stockCommand } from './stock-command.ts';
+import { retuneCommand } from './retune-command.ts';
 import { toleranceCommand, type ToleranceCommandOptions } from './tolerance-command.ts';
 
 /** The version in package.json (one directory above cli/ and dist/cli/). */
@@ -215,6 +217,28 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .option('--quiet', 'no progress on stderr')
     .action(async (spec: string | undefined, options: SweepOptions) => {
       exitCode = await sweepCommand(spec, options, io);
+    });
+
+  program
+    .command('stock')
+    .description('list the stock catalogues (pipe, tube, magnet wire), or the sizes of one')
+    .argument('[name]', 'catalogue name')
+    .action((name: string | undefined) => {
+      exitCode = stockCommand(name, io);
+    });
+
+  program
+    .command('retune')
+    .description('fit the model to measurements on the built coil and give the tap to set')
+    .argument('<file>', 'design file, YAML or JSON')
+    .option(
+      '--measured <key=value>',
+      'a measurement (repeatable): secondary_frequency, frequency_with_topload, secondary_inductance, self_capacitance',
+      (value: string, previous: string[] = []) => [...previous, value],
+    )
+    .option('--json', 'print the retune as JSON (SI units)')
+    .action((file: string, options: { measured?: string[]; json?: boolean }) => {
+      exitCode = retuneCommand(file, options, io);
     });
 
   try {

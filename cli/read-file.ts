@@ -5,7 +5,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { parseDocument } from 'yaml';
-import { InputError } from './input-error.ts';
+import { InputError } from '../run/input-error.ts';
 
 const MAX_INPUT_BYTES = 16 * 1024 * 1024;
 

@@ -11,9 +11,9 @@ import { isSlot, type NormalTree } from '../optimize/design-tree.ts';
 import { DESIGN_SECTIONS, sectionFields } from './design-fields.ts';
 import { KIND_DISPLAY, formatNumber } from './display-units.ts';
 import { exactQuantityText } from './units.ts';
-import { InputError } from './input-error.ts';
+import { InputError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
-import { RUN_FILES } from './run-directory.ts';
+import { RUN_FILES } from '../run/run-directory.ts';
 import { SAFETY_LINE } from './safety.ts';
 import { loadRunSpec, spaceDefinitionOf } from './sweep-command.ts';
 

@@ -3,9 +3,9 @@
  * says), from candidates.csv (or --file front.csv / infeasible.csv / refined.csv).
  */
 import { basename, join } from 'node:path';
-import { writeFileAtomicSync } from './durable/atomic-write.ts';
+import { writeFileAtomicSync } from '../run/durable/atomic-write.ts';
 import type { CliIo } from './io.ts';
-import { readRunRecord } from './run-directory.ts';
+import { readRunRecord } from '../run/run-directory.ts';
 import { SAFETY_LINE } from './safety.ts';
 import { readRunTable } from './views/run-table.ts';
 import { workbookOf } from './views/spreadsheet.ts';

@@ -9,7 +9,7 @@ import { METRICS } from '../core/metrics.ts';
 import { awgDiameter } from '../core/wire/awg.ts';
 import type { Dimension } from '../optimize/design-tree.ts';
 import type { CandidateRow } from '../optimize/sweep-state.ts';
-import type { Cell } from './csv.ts';
+import type { Cell } from '../run/csv.ts';
 import { KIND_DISPLAY, METRIC_DISPLAY } from './display-units.ts';
 import type { QuantityKind } from './units.ts';
 

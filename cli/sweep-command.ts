@@ -32,16 +32,16 @@ import {
 } from '../optimize/evaluate-batch.ts';
 import { SweepState, type SweepStateData } from '../optimize/sweep-state.ts';
 import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
-import { decodeBatchRecord, encodeBatchRecord } from './batch-codec.ts';
-import { csvRows, DEFAULT_DIGITS, toCsv } from './csv.ts';
-import { removeLeftoverTemporaryFiles, writeChunksAtomicSync } from './durable/atomic-write.ts';
-import { jsonChunks } from './json-chunks.ts';
-import { acquireRunLock, RunLockError, type RunLock } from './durable/lock.ts';
-import { DiskError, toDiskError } from './durable/disk-error.ts';
-import { openJournal, readJournal, type Journal } from './durable/journal.ts';
-import { installStopSignal, type StopSignal } from './durable/stop-signal.ts';
+import { decodeBatchRecord, encodeBatchRecord } from '../run/batch-codec.ts';
+import { csvRows, DEFAULT_DIGITS, toCsv } from '../run/csv.ts';
+import { removeLeftoverTemporaryFiles, writeChunksAtomicSync } from '../run/durable/atomic-write.ts';
+import { jsonChunks } from '../run/json-chunks.ts';
+import { acquireRunLock, RunLockError, type RunLock } from '../run/durable/lock.ts';
+import { DiskError, toDiskError } from '../run/durable/disk-error.ts';
+import { openJournal, readJournal, type Journal } from '../run/durable/journal.ts';
+import { installStopSignal, type StopSignal } from '../run/durable/stop-signal.ts';
 import { parseDuration, formatDuration } from './duration.ts';
-import { InputError, optionError } from './input-error.ts';
+import { InputError, optionError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
 import {
   journalName,
@@ -51,8 +51,8 @@ import {
   RUN_FILES,
   writeRunRecord,
   type RunRecord,
-} from './run-directory.ts';
-import { describeShard, resolveShard, shardIndices } from './shard.ts';
+} from '../run/run-directory.ts';
+import { describeShard, resolveShard, shardIndices } from '../run/shard.ts';
 import { candidateCells, columnSet } from './sweep-columns.ts';
 import { writeSweepOutputs, type RunIdentity } from './sweep-outputs.ts';
 import { loadSweepFile, sweepFromValue, type SweepSpec } from './sweep-spec.ts';

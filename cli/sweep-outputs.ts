@@ -13,8 +13,8 @@ import { defaultReferencePoint, hypervolume } from '../optimize/pareto/hypervolu
 import type { CandidatePool, RankedEntry } from '../optimize/pareto/candidate-pool.ts';
 import { type SweepState, sortedCounts } from '../optimize/sweep-state.ts';
 import { unpackRow, type PackedRow } from '../optimize/packed-row.ts';
-import { DEFAULT_DIGITS, toCsv, type Cell } from './csv.ts';
-import { writeFileAtomicSync } from './durable/atomic-write.ts';
+import { DEFAULT_DIGITS, toCsv, type Cell } from '../run/csv.ts';
+import { writeFileAtomicSync } from '../run/durable/atomic-write.ts';
 import { candidateCells, columnSet } from './sweep-columns.ts';
 import { frontPlotSvg } from './plots.ts';
 import { SAFETY_LINE } from './safety.ts';

@@ -9,7 +9,7 @@ import { buildDesign } from '../optimize/build-design.ts';
 import { fillSlots, type Dimension, type NormalTree } from '../optimize/design-tree.ts';
 import { readDesignTree } from './design-schema.ts';
 import { DESIGN_SECTIONS } from './design-fields.ts';
-import { fieldError, InputError, type InputIssue } from './input-error.ts';
+import { fieldError, InputError, type InputIssue } from '../run/input-error.ts';
 import { metricKind } from './metric-kinds.ts';
 import { readInputFile } from './read-file.ts';
 import { suggest } from './suggest.ts';

@@ -25,15 +25,15 @@ import {
   type ToleranceSettings,
 } from '../optimize/tolerance/index.ts';
 import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
-import { type Cell, toCsv } from './csv.ts';
+import { type Cell, toCsv } from '../run/csv.ts';
 import { METRIC_DISPLAY, formatNumber } from './display-units.ts';
-import { writeFileAtomicSync } from './durable/atomic-write.ts';
-import { openJournal } from './durable/journal.ts';
-import { fieldError, InputError, type InputIssue, optionError } from './input-error.ts';
+import { writeFileAtomicSync } from '../run/durable/atomic-write.ts';
+import { openJournal } from '../run/durable/journal.ts';
+import { fieldError, InputError, type InputIssue, optionError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
 import { loadDesignFile } from './load-design.ts';
 import { readInputFile } from './read-file.ts';
-import { RUN_FILES } from './run-directory.ts';
+import { RUN_FILES } from '../run/run-directory.ts';
 import { SAFETY_LINE, safetyBlock } from './safety.ts';
 import { loadRunSpec, spaceDefinitionOf } from './sweep-command.ts';
 import { type ConstraintSpec, type ObjectiveSpec, readConstraints, readObjectives } from './sweep-spec.ts';

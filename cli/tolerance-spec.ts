@@ -17,7 +17,7 @@
  */
 import type { ToleranceDistribution, ToleranceField } from '../optimize/tolerance/tolerance-draws.ts';
 import { DESIGN_SECTIONS, type FieldSpec, type SectionSpec } from './design-fields.ts';
-import type { InputIssue } from './input-error.ts';
+import type { InputIssue } from '../run/input-error.ts';
 import { suggest } from './suggest.ts';
 import { describeValue, readQuantity, type QuantityKind } from './units.ts';
 

@@ -6,6 +6,9 @@ import type { Command } from 'commander';
 import type { CliIo } from './io.ts';
 import { type PlotCommandOptions, plotCommand } from './plot-command.ts';
 import { spreadsheetCommand, type SpreadsheetOptions } from './spreadsheet-command.ts';
+import { drawCommand } from './draw-command.ts';
+import { type ReportOptions, reportCommand } from './report-command.ts';
+import { compareCommand } from './compare-command.ts';
 
 export function registerViewCommands(program: Command, io: CliIo, setExit: (code: number) => void): void {
   program
@@ -32,5 +35,38 @@ export function registerViewCommands(program: Command, io: CliIo, setExit: (code
     .option('--out <file>', 'plot.svg or plot.png (default: plot-X-Y.svg in the run)')
     .action(async (run: string, options: PlotCommandOptions) => {
       setExit(await plotCommand(run, options, io));
+    });
+
+  program
+    .command('draw')
+    .description('a design drawn to scale with its equipotentials (a design file, or a run and a rank)')
+    .argument('<source>', 'design file, or run directory')
+    .argument('[rank]', 'with a run: rank in candidates.csv, or r1 (refined), e1 (evolved)')
+    .option(
+      '--out <file>',
+      'drawing.svg or drawing.png (default: beside the design file, or drawing-RANK.svg in the run)',
+    )
+    .action(async (source: string, rank: string | undefined, options: { out?: string }) => {
+      setExit(await drawCommand(source, rank, options, io));
+    });
+
+  program
+    .command('report')
+    .description('one self-contained HTML file of a run: cautions, counts, interactive front, drawings, sensitivities')
+    .argument('<run>', 'run directory')
+    .option('--out <file>', 'where to write (default: report.html in the run)')
+    .option('--drawings <n>', 'most front designs drawn (default 40)')
+    .action(async (run: string, options: ReportOptions) => {
+      setExit(await reportCommand(run, options, io));
+    });
+
+  program
+    .command('compare')
+    .description('designs side by side: every parameter and metric with units, differences marked')
+    .argument('<source>', 'run directory (then ranks), or the first design file')
+    .argument('[more...]', 'ranks in the run (1, r2, e3), or more design files')
+    .option('--svg <file>', 'also draw them side by side at one scale')
+    .action((source: string, more: string[], options: { svg?: string }) => {
+      setExit(compareCommand(source, more, options, io));
     });
 }

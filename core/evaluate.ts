@@ -60,6 +60,14 @@ const STAGES: ReadonlyArray<(context: EvalContext) => void> = [
 
 /** Evaluates one design through every stage of the physics core. */
 export function evaluateDesign(design: Design): Evaluation {
+  return evaluateDesignInDetail(design).evaluation;
+}
+
+/**
+ * The same evaluation with its working record (the stages' geometry: winding, primary rings and
+ * tap, the distributed model), for pictures of the design.
+ */
+export function evaluateDesignInDetail(design: Design): { evaluation: Evaluation; context: EvalContext } {
   const context: EvalContext = { design, metrics: emptyMetrics(), warnings: [], problems: [] };
   for (const stage of STAGES) {
     stage(context);
@@ -67,5 +75,8 @@ export function evaluateDesign(design: Design): Evaluation {
   }
   context.metrics.warning_count = context.warnings.length;
   const profile = context.resonator && context.problems.length === 0 ? profileTable(context.resonator) : null;
-  return { metrics: context.metrics, warnings: context.warnings, problems: context.problems, profile };
+  return {
+    evaluation: { metrics: context.metrics, warnings: context.warnings, problems: context.problems, profile },
+    context,
+  };
 }

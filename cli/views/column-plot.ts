@@ -4,7 +4,7 @@
  * muted hollow marks. Columns by their CSV names; axis titles carry the units of the names.
  */
 import type { TopLevelSpec } from 'vega-lite';
-import { InputError } from '../input-error.ts';
+import { InputError } from '../../run/input-error.ts';
 import { type RunTable, columnIndex } from './run-table.ts';
 import { PICTURE_CAUTION, columnTitle, wrapText } from './vega-render.ts';
 

@@ -5,7 +5,7 @@
  */
 import { existsSync, readFileSync } from 'node:fs';
 import { parse as parseCsv } from 'csv-parse/sync';
-import { InputError } from '../input-error.ts';
+import { InputError } from '../../run/input-error.ts';
 
 export type TableCell = number | string | null;
 

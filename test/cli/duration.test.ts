@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { formatDuration, parseDuration } from '../../cli/duration.ts';
-import { InputError } from '../../cli/input-error.ts';
+import { InputError } from '../../run/input-error.ts';
 
 describe('parseDuration(text)', () => {
   it('reads the forms of the --time-limit documentation in seconds', () => {

@@ -2,7 +2,7 @@ import { cpSync, existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { parse as parseCsv } from 'csv-parse/sync';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { readJournal } from '../../cli/durable/journal.ts';
+import { readJournal } from '../../run/durable/journal.ts';
 import type { CliIo } from '../../cli/io.ts';
 import { runCli } from '../../cli/program.ts';
 import { SAFETY_CAUTIONS } from '../../cli/safety.ts';

@@ -5,7 +5,7 @@
  */
 import fc from 'fast-check';
 import { expect } from 'vitest';
-import { InputError } from '../../cli/input-error.ts';
+import { InputError } from '../../run/input-error.ts';
 
 /** A path into a plain value: keys of mappings and indices of lists. */
 export type ValuePath = ReadonlyArray<string | number>;

@@ -11,7 +11,7 @@ import {
   shardFromEnvironment,
   shardIndices,
   type Shard,
-} from '../../cli/shard.ts';
+} from '../../run/shard.ts';
 import { parseDuration } from '../../cli/duration.ts';
 import { must } from '../../core/must.ts';
 

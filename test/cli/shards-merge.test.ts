@@ -1,7 +1,7 @@
 import { cpSync, existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { TIME_LIMIT_EXIT_CODE } from '../../cli/durable/stop-signal.ts';
+import { TIME_LIMIT_EXIT_CODE } from '../../run/durable/stop-signal.ts';
 import {
   expectOneLine,
   expectSameResults,

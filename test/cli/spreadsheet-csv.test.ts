@@ -5,7 +5,7 @@ import { join } from 'node:path';
 import ExcelJS from 'exceljs';
 import { parse as parseCsv } from 'csv-parse/sync';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { formatCsvNumber } from '../../cli/csv.ts';
+import { formatCsvNumber } from '../../run/csv.ts';
 import type { CliIo } from '../../cli/io.ts';
 import { runCli } from '../../cli/program.ts';
 

@@ -2,7 +2,7 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import fc from 'fast-check';
 import { parse as parseYaml, stringify as stringifyYaml } from 'yaml';
 import { afterAll, describe, expect, it } from 'vitest';
-import { InputError } from '../../cli/input-error.ts';
+import { InputError } from '../../run/input-error.ts';
 import { runCli as runCliInProcess } from '../../cli/program.ts';
 import { sweepFromValue } from '../../cli/sweep-spec.ts';
 import { requireBuiltCli, runCli, scratchArea, SMALL_SWEEP } from './sweep-harness.ts';

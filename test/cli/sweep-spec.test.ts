@@ -2,7 +2,7 @@ import { readFileSync } from 'node:fs';
 import { parse } from 'yaml';
 import { describe, expect, it } from 'vitest';
 import { sweepFromValue } from '../../cli/sweep-spec.ts';
-import { InputError } from '../../cli/input-error.ts';
+import { InputError } from '../../run/input-error.ts';
 import { must } from '../../core/must.ts';
 
 const demo = () => parse(readFileSync('examples/sweeps/science-centre-ceiling.yaml', 'utf8')) as Record<string, any>;

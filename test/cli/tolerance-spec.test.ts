@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import type { InputIssue } from '../../cli/input-error.ts';
+import type { InputIssue } from '../../run/input-error.ts';
 import { readTolerances } from '../../cli/tolerance-spec.ts';
 
 function read(input: unknown) {

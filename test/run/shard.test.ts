@@ -8,8 +8,8 @@ import {
   resolveShard,
   shardFromEnvironment,
   shardIndices,
-} from '../../cli/shard.ts';
-import { InputError } from '../../cli/input-error.ts';
+} from '../../run/shard.ts';
+import { InputError } from '../../run/input-error.ts';
 
 describe('parseShard(text)', () => {
   it('reads k/N', () => {

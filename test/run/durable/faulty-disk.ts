@@ -2,7 +2,7 @@
  * A file system for tests that behaves like node:fs until told to fail: after so many bytes
  * written (a disk filling up part-way through a write), or on a given call (fsync reporting EIO).
  */
-import { nodeFileSystem, type DurableFileSystem } from '../../cli/durable/file-system.ts';
+import { nodeFileSystem, type DurableFileSystem } from '../../../run/durable/file-system.ts';
 
 export interface FaultPlan {
   /** Let this many bytes through writeSync in total, then fail with `code` (a partial write first). */

@@ -1,6 +1,6 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { jsonChunks } from '../../cli/json-chunks.ts';
+import { jsonChunks } from '../../run/json-chunks.ts';
 
 describe('jsonChunks(value)', () => {
   it('concatenates to exactly JSON.stringify(value) for any JSON-like value (reference: the built-in JSON.stringify)', () => {

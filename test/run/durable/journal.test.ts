@@ -3,12 +3,12 @@ import fc from 'fast-check';
 import { mkdtempSync, readFileSync, rmSync, statSync, truncateSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { decodeJournal, encodeJournalRecord, openJournal, readJournal } from '../../cli/durable/journal.ts';
-import { DiskError } from '../../cli/durable/disk-error.ts';
-import { faultyFileSystem } from './durable-faulty-disk.ts';
-import { transpileDurableModules } from './durable-child-modules.ts';
+import { decodeJournal, encodeJournalRecord, openJournal, readJournal } from '../../../run/durable/journal.ts';
+import { DiskError } from '../../../run/durable/disk-error.ts';
+import { faultyFileSystem } from './faulty-disk.ts';
+import { transpileDurableModules } from './child-modules.ts';
 import { spawn } from 'node:child_process';
-import { must } from '../../core/must.ts';
+import { must } from '../../../core/must.ts';
 
 let directory: string;
 beforeEach(() => {

@@ -4,7 +4,7 @@ import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import ts from 'typescript';
-import { installStopSignal, signalNumber, TIME_LIMIT_EXIT_CODE } from '../../cli/durable/stop-signal.ts';
+import { installStopSignal, signalNumber, TIME_LIMIT_EXIT_CODE } from '../../../run/durable/stop-signal.ts';
 
 // ----------------------------------------------------------------------------- in this process
 
@@ -64,7 +64,7 @@ let script: string;
 beforeAll(() => {
   directory = mkdtempSync(join(tmpdir(), 'coilfront-stop-'));
   // Node 20 cannot run TypeScript; the module imports only node builtins, so transpiling it alone suffices.
-  const source = readFileSync(new URL('../../cli/durable/stop-signal.ts', import.meta.url), 'utf8');
+  const source = readFileSync(new URL('../../../run/durable/stop-signal.ts', import.meta.url), 'utf8');
   const output = ts.transpileModule(source, {
     compilerOptions: { module: ts.ModuleKind.ESNext, target: ts.ScriptTarget.ES2022, verbatimModuleSyntax: true },
   }).outputText;

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { crc32 as zlibCrc32 } from 'node:zlib';
-import { crc32, crc32Table } from '../../cli/durable/crc32.ts';
+import { crc32, crc32Table } from '../../../run/durable/crc32.ts';
 
 const ascii = (text: string): Uint8Array => new TextEncoder().encode(text);
 

@@ -7,9 +7,9 @@ import {
   temporaryPathFor,
   writeFileAtomic,
   writeFileAtomicSync,
-} from '../../cli/durable/atomic-write.ts';
-import { DiskError, isOutOfSpace, toDiskError } from '../../cli/durable/disk-error.ts';
-import { faultyFileSystem } from './durable-faulty-disk.ts';
+} from '../../../run/durable/atomic-write.ts';
+import { DiskError, isOutOfSpace, toDiskError } from '../../../run/durable/disk-error.ts';
+import { faultyFileSystem } from './faulty-disk.ts';
 
 let directory: string;
 beforeEach(() => {

@@ -3,8 +3,8 @@ import { spawn, spawnSync } from 'node:child_process';
 import { existsSync, mkdirSync, mkdtempSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { hostname, tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { transpileDurableModules } from './durable-child-modules.ts';
-import { acquireRunLock, currentBootId, readRunLock, RUN_LOCK_FILE, RunLockError } from '../../cli/durable/lock.ts';
+import { transpileDurableModules } from './child-modules.ts';
+import { acquireRunLock, currentBootId, readRunLock, RUN_LOCK_FILE, RunLockError } from '../../../run/durable/lock.ts';
 
 let directory: string;
 beforeEach(() => {

@@ -1,0 +1,103 @@
+/**
+ * Magnet wire: the AWG sizes of ASTM B258 (diameters by the rule in core/wire/awg.ts) and the metric
+ * nominal conductor diameters of IEC 60317-0-1 (refs §7.1 [astmB258], §12.5 [iec60317sizes]).
+ *
+ * IEC 60317-0-1, "Specifications for particular types of winding wires — Part 0-1: General
+ * requirements — Enamelled round copper wire", table of dimensions: the nominal conductor diameters
+ * are the R 20 series of preferred numbers (ISO 3) with the R 40 numbers between them as
+ * intermediate sizes from 0.106 mm up. Typed from memory of the standard, not checked against the
+ * printed standard. The overall diameters listed beside them by `coilfront stock` are those the
+ * evaluation uses (core/wire/insulation.ts, refs §7.3: the middle of each grade's window), not the
+ * standard's maximum overall diameters.
+ */
+
+/** Nominal conductor diameters, mm, with whether the size is an intermediate (R 40) one (from memory). */
+export const IEC_60317_NOMINAL_DIAMETERS_MM: ReadonlyArray<readonly [number, 'R20' | 'R40']> = [
+  [0.018, 'R20'],
+  [0.02, 'R20'],
+  [0.022, 'R20'],
+  [0.025, 'R20'],
+  [0.028, 'R20'],
+  [0.032, 'R20'],
+  [0.036, 'R20'],
+  [0.04, 'R20'],
+  [0.045, 'R20'],
+  [0.05, 'R20'],
+  [0.056, 'R20'],
+  [0.063, 'R20'],
+  [0.071, 'R20'],
+  [0.08, 'R20'],
+  [0.09, 'R20'],
+  [0.1, 'R20'],
+  [0.106, 'R40'],
+  [0.112, 'R20'],
+  [0.118, 'R40'],
+  [0.125, 'R20'],
+  [0.132, 'R40'],
+  [0.14, 'R20'],
+  [0.15, 'R40'],
+  [0.16, 'R20'],
+  [0.17, 'R40'],
+  [0.18, 'R20'],
+  [0.19, 'R40'],
+  [0.2, 'R20'],
+  [0.212, 'R40'],
+  [0.224, 'R20'],
+  [0.236, 'R40'],
+  [0.25, 'R20'],
+  [0.265, 'R40'],
+  [0.28, 'R20'],
+  [0.3, 'R40'],
+  [0.315, 'R20'],
+  [0.335, 'R40'],
+  [0.355, 'R20'],
+  [0.375, 'R40'],
+  [0.4, 'R20'],
+  [0.425, 'R40'],
+  [0.45, 'R20'],
+  [0.475, 'R40'],
+  [0.5, 'R20'],
+  [0.53, 'R40'],
+  [0.56, 'R20'],
+  [0.6, 'R40'],
+  [0.63, 'R20'],
+  [0.67, 'R40'],
+  [0.71, 'R20'],
+  [0.75, 'R40'],
+  [0.8, 'R20'],
+  [0.85, 'R40'],
+  [0.9, 'R20'],
+  [0.95, 'R40'],
+  [1.0, 'R20'],
+  [1.06, 'R40'],
+  [1.12, 'R20'],
+  [1.18, 'R40'],
+  [1.25, 'R20'],
+  [1.32, 'R40'],
+  [1.4, 'R20'],
+  [1.5, 'R40'],
+  [1.6, 'R20'],
+  [1.7, 'R40'],
+  [1.8, 'R20'],
+  [1.9, 'R40'],
+  [2.0, 'R20'],
+  [2.12, 'R40'],
+  [2.24, 'R20'],
+  [2.36, 'R40'],
+  [2.5, 'R20'],
+  [2.65, 'R40'],
+  [2.8, 'R20'],
+  [3.0, 'R40'],
+  [3.15, 'R20'],
+  [3.35, 'R40'],
+  [3.55, 'R20'],
+  [3.75, 'R40'],
+  [4.0, 'R20'],
+  [4.25, 'R40'],
+  [4.5, 'R20'],
+  [4.75, 'R40'],
+  [5.0, 'R20'],
+];
+
+/** The AWG numbers of the magnet-wire catalogue: 0000 (−3) to 44, the sizes design files accept. */
+export const AWG_RANGE = { largest: -3, smallest: 44 } as const;

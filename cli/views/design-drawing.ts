@@ -1,0 +1,434 @@
+/**
+ * A design drawn to scale in elevation, as hand-written SVG: the floor, the primary rings (the
+ * tapped part solid, the rest hollow, the tap marked), the strike rail, the coil form and the
+ * winding coloured by the voltage along it, the topload with the spot of its peak surface field,
+ * the equipotential lines of the solved field (d3-contour over the potential on a grid, computed
+ * from the solved charges), the overall height and the strike distance dimensioned, and a title
+ * block with the key figures and the one-line caution.
+ *
+ * Scale: one metre is `scale` SVG units (the root element says so in data-scale, and the title block
+ * as a ratio), the same on both axes; heights above the floor go up the page. Every body carries a
+ * class (floor, primary-ring, strike-rail, coil-form, winding, topload, equipotential, peak-field,
+ * dimension) so that tests and style sheets can find it.
+ */
+import { contours } from 'd3-contour';
+import type { Design } from '../../core/design.ts';
+import type { DesignField } from '../../core/design-field.ts';
+import { potentialAt } from '../../core/electrostatics/field-potential.ts';
+import { toploadCentreHeight, toploadToRingDistance } from '../../core/outcome/clearance.ts';
+import { METRIC_DISPLAY, formatNumber, humanUnit } from '../display-units.ts';
+import { PICTURE_CAUTION, wrapText } from './vega-render.ts';
+
+/** Our own palette for drawings. */
+export const DRAWING_COLOURS = {
+  paper: '#fbfaf6',
+  ink: '#26313b',
+  floor: '#6d5d4b',
+  copper: '#b8642b',
+  copperMuted: '#e7c3a3',
+  rail: '#4a5a66',
+  form: '#e9e2d0',
+  topload: '#9aa7b1',
+  equipotential: '#3d7ea6',
+  peak: '#d1253f',
+  dimension: '#55606a',
+};
+
+/** The winding's voltage ramp, 0 at the base to 1 at the top: slate blue, sage, amber, vermilion. */
+const VOLTAGE_RAMP = ['#34557a', '#6f9a8d', '#e2b13c', '#d1452c'];
+
+/** Colour of a voltage fraction on the ramp. */
+export function voltageColour(fraction: number): string {
+  const x = Math.min(1, Math.max(0, fraction)) * (VOLTAGE_RAMP.length - 1);
+  const k = Math.min(VOLTAGE_RAMP.length - 2, Math.floor(x));
+  const t = x - k;
+  const a = VOLTAGE_RAMP[k];
+  const b = VOLTAGE_RAMP[k + 1];
+  const channel = (i: number) => {
+    const va = Number.parseInt(a.slice(1 + 2 * i, 3 + 2 * i), 16);
+    const vb = Number.parseInt(b.slice(1 + 2 * i, 3 + 2 * i), 16);
+    return Math.round(va + (vb - va) * t)
+      .toString(16)
+      .padStart(2, '0');
+  };
+  return `#${channel(0)}${channel(1)}${channel(2)}`;
+}
+
+/** Equipotential levels, fractions of the top voltage. */
+export const EQUIPOTENTIAL_LEVELS = [0.1, 0.2, 0.3, 0.4, 0.5, 0.6, 0.7, 0.8, 0.9];
+
+export interface DrawingOptions {
+  /** First line of the title block (the file or the run and rank). */
+  title: string;
+  /** Height of the drawing area, SVG units (default 640). */
+  height?: number;
+  /** Grid cells across the half-width for the field (default 70). */
+  fieldColumns?: number;
+  /** Height of the picture above the floor, m (default: the highest point plus 15 % and 5 cm); one value for several drawings puts them at one scale. */
+  pictureTop?: number;
+}
+
+const TITLE_BLOCK_WIDTH = 300;
+/** Room between the drawing and the title block for the labels of the right-hand side. */
+const LABEL_ROOM = 170;
+const MARGIN = 56;
+
+function escapeXml(text: string): string {
+  return text.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
+}
+
+function n(value: number): string {
+  return String(Math.round(value * 100) / 100);
+}
+
+/** A metric in its display unit, e.g. '91.46 kHz', or '—'. */
+export function metricText(metrics: Record<string, number | null>, key: string, digits = 4): string {
+  const value = metrics[key];
+  if (value === null || value === undefined || !Number.isFinite(value)) return '—';
+  const display = METRIC_DISPLAY[key];
+  if (!display) return formatNumber(value, digits);
+  const label = humanUnit(display.label);
+  return `${formatNumber(value / display.divisor, digits)}${label === '' ? '' : ` ${label}`}`;
+}
+
+/** A path through the isoline rings of one contour level, broken where a ring runs along the grid's border. */
+function isolinePath(
+  coordinates: number[][][][],
+  columns: number,
+  rows: number,
+  toX: (column: number) => number,
+  toY: (row: number) => number,
+): string {
+  const onBorder = (p: number[]) => p[0] <= 0 || p[0] >= columns || p[1] <= 0 || p[1] >= rows;
+  const parts: string[] = [];
+  for (const polygon of coordinates) {
+    for (const ring of polygon) {
+      let pen = false;
+      for (let i = 0; i < ring.length; i++) {
+        const p = ring[i];
+        const previous = i > 0 ? ring[i - 1] : null;
+        const borderSegment = previous !== null && onBorder(previous) && onBorder(p);
+        if (borderSegment || previous === null) {
+          pen = false;
+        }
+        if (borderSegment) continue;
+        // d3-contour's grid coordinates put sample k at k + 0.5.
+        const x = toX(p[0] - 0.5);
+        const y = toY(p[1] - 0.5);
+        parts.push(`${pen ? 'L' : 'M'}${Math.round(x * 10) / 10},${Math.round(y * 10) / 10}`);
+        pen = true;
+      }
+    }
+  }
+  return parts.join('');
+}
+
+/** The SVG drawing of a design (see the module comment). */
+export function designDrawingSvg(design: Design, field: DesignField, options: DrawingOptions): string {
+  const metrics = field.evaluation.metrics;
+  const secondary = field.secondary;
+  const primary = field.primary;
+  const topload = design.topload;
+  const toploadCentre = topload ? toploadCentreHeight(topload, secondary ? secondary.topZ : null) : null;
+
+  // Extent of the picture in metres: the widest body and the highest point.
+  let halfWidth = 0.1;
+  let top = 0.1;
+  if (secondary) {
+    halfWidth = Math.max(halfWidth, secondary.radius + secondary.overallDiameter);
+    top = Math.max(top, secondary.topZ);
+  }
+  for (const ring of primary?.rings ?? []) halfWidth = Math.max(halfWidth, ring.r + (primary?.conductorRadius ?? 0));
+  if (design.strikeRail) halfWidth = Math.max(halfWidth, design.strikeRail.diameter / 2);
+  if (topload && toploadCentre !== null) {
+    const outer = topload.shape === 'toroid' ? topload.outerDiameter / 2 : topload.diameter / 2;
+    const rise = topload.shape === 'toroid' ? topload.tubeDiameter / 2 : topload.diameter / 2;
+    halfWidth = Math.max(halfWidth, outer);
+    top = Math.max(top, toploadCentre + rise);
+  }
+  halfWidth *= 1.6;
+  const fieldTop = Math.max(top * 1.15 + 0.05, options.pictureTop ?? 0);
+  const drawingHeight = options.height ?? 640;
+  const scale = drawingHeight / fieldTop;
+  const drawingWidth = 2 * halfWidth * scale;
+  const width = Math.ceil(drawingWidth + 2 * MARGIN + LABEL_ROOM + TITLE_BLOCK_WIDTH);
+  const height = Math.ceil(drawingHeight + 2 * MARGIN);
+  const axisX = MARGIN + drawingWidth / 2;
+  const floorY = MARGIN + drawingHeight;
+  const X = (r: number) => axisX + r * scale;
+  const Y = (z: number) => floorY - z * scale;
+
+  const out: string[] = [];
+  out.push(
+    `<svg xmlns="http://www.w3.org/2000/svg" width="${width}" height="${height}" viewBox="0 0 ${width} ${height}" data-scale="${scale}" data-axis-x="${n(axisX)}" data-floor-y="${n(floorY)}" font-family="DejaVu Sans, Verdana, sans-serif">`,
+  );
+  out.push(`<rect x="0" y="0" width="${width}" height="${height}" fill="${DRAWING_COLOURS.paper}"/>`);
+
+  // Equipotentials of the solved field, mirrored about the axis.
+  const solved = field.field;
+  let levelsDrawn = 0;
+  if (solved && field.arrangement) {
+    const half = Math.max(8, options.fieldColumns ?? 70);
+    const cell = halfWidth / half;
+    const rows = Math.max(8, Math.ceil(fieldTop / cell));
+    const columns = 2 * half + 1;
+    const values = new Array<number>(columns * rows);
+    const floor = field.arrangement.floor;
+    for (let i = 0; i < rows; i++) {
+      // Row 0 at the top of the picture (d3-contour's y grows down, as the SVG's does).
+      const z = fieldTop - i * (fieldTop / (rows - 1));
+      for (let k = 0; k <= half; k++) {
+        const value = potentialAt(solved.layout, solved.density, floor, k * cell, z);
+        values[i * columns + half + k] = value;
+        values[i * columns + half - k] = value;
+      }
+    }
+    const toX = (column: number) => X((column - half) * cell);
+    const toY = (row: number) => Y(fieldTop - row * (fieldTop / (rows - 1)));
+    const generator = contours().size([columns, rows]).thresholds(EQUIPOTENTIAL_LEVELS);
+    out.push('<g class="equipotentials" fill="none">');
+    for (const contour of generator(values)) {
+      const path = isolinePath(contour.coordinates, columns, rows, toX, toY);
+      if (path === '') continue;
+      levelsDrawn++;
+      out.push(
+        `<path class="equipotential" data-level="${contour.value}" d="${path}" stroke="${DRAWING_COLOURS.equipotential}" stroke-width="${contour.value === 0.5 ? 1.4 : 0.8}" stroke-opacity="0.75"/>`,
+      );
+    }
+    out.push('</g>');
+  }
+
+  // Floor.
+  out.push(
+    `<line class="floor" x1="${MARGIN / 2}" y1="${n(floorY)}" x2="${n(MARGIN * 1.5 + drawingWidth)}" y2="${n(floorY)}" stroke="${DRAWING_COLOURS.floor}" stroke-width="2"/>`,
+  );
+  for (let x = MARGIN / 2; x < MARGIN * 1.5 + drawingWidth; x += 12) {
+    out.push(
+      `<line x1="${n(x)}" y1="${n(floorY)}" x2="${n(x - 8)}" y2="${n(floorY + 8)}" stroke="${DRAWING_COLOURS.floor}" stroke-width="0.8"/>`,
+    );
+  }
+
+  // Coil form and winding.
+  if (secondary) {
+    const formRadius = design.secondary ? design.secondary.formDiameter / 2 : secondary.radius;
+    const formBottom = 0;
+    const formTop = secondary.topZ + secondary.overallDiameter;
+    out.push(
+      `<rect class="coil-form" x="${n(X(-formRadius))}" y="${n(Y(formTop))}" width="${n(2 * formRadius * scale)}" height="${n((formTop - formBottom) * scale)}" fill="${DRAWING_COLOURS.form}" stroke="${DRAWING_COLOURS.ink}" stroke-width="0.6"/>`,
+    );
+    const bands = 40;
+    const profile = field.profile ?? ((x: number) => x);
+    const length = secondary.topZ - secondary.bottomZ;
+    const thickness = Math.max(2, secondary.overallDiameter * scale * 2);
+    out.push(
+      `<g class="winding" data-bottom-z="${secondary.bottomZ}" data-top-z="${secondary.topZ}" data-radius="${secondary.radius}">`,
+    );
+    for (let b = 0; b < bands; b++) {
+      const z0 = secondary.bottomZ + (length * b) / bands;
+      const z1 = secondary.bottomZ + (length * (b + 1)) / bands;
+      const colour = voltageColour(profile((b + 0.5) / bands));
+      for (const side of [-1, 1]) {
+        const x = side < 0 ? X(-secondary.radius) - thickness / 2 : X(secondary.radius) - thickness / 2;
+        out.push(
+          `<rect x="${n(x)}" y="${n(Y(z1))}" width="${n(thickness)}" height="${n((z1 - z0) * scale + 0.3)}" fill="${colour}"/>`,
+        );
+      }
+    }
+    out.push('</g>');
+  }
+
+  // Primary rings: the tapped part solid, the rest hollow; the tap marked.
+  if (primary && primary.rings.length > 0) {
+    const radius = Math.max(1.6, primary.conductorRadius * scale);
+    out.push(`<g class="primary" data-tap-turns="${primary.tapTurns}">`);
+    for (let i = 0; i < primary.rings.length; i++) {
+      const ring = primary.rings[i];
+      const tapped = i < primary.tapTurns;
+      for (const side of [-1, 1]) {
+        out.push(
+          `<circle class="primary-ring" cx="${n(X(side * ring.r))}" cy="${n(Y(ring.z))}" r="${n(radius)}" fill="${tapped ? DRAWING_COLOURS.copper : DRAWING_COLOURS.copperMuted}" stroke="${DRAWING_COLOURS.copper}" stroke-width="0.6"/>`,
+        );
+      }
+    }
+    // The tap: between ring floor(t) and the next, at the fraction of the way.
+    const t = Math.min(primary.tapTurns, primary.rings.length - 1);
+    const k = Math.max(0, Math.min(primary.rings.length - 1, Math.floor(t)));
+    const next = primary.rings[Math.min(primary.rings.length - 1, k + 1)];
+    const ring = primary.rings[k];
+    const w = t - k;
+    const tapR = ring.r + (next.r - ring.r) * w;
+    const tapZ = ring.z + (next.z - ring.z) * w;
+    const tx = X(tapR);
+    const ty = Y(tapZ) + radius + 2;
+    out.push(
+      `<path class="tap" d="M${n(tx)},${n(ty)} l-5,10 h10 z" fill="${DRAWING_COLOURS.ink}"/><text x="${n(tx)}" y="${n(ty + 22)}" font-size="10" text-anchor="middle" fill="${DRAWING_COLOURS.ink}">tap ${formatNumber(primary.tapTurns, 3)} turns</text>`,
+    );
+    out.push('</g>');
+  }
+
+  // Strike rail.
+  if (design.strikeRail && secondary) {
+    const rail = design.strikeRail;
+    const z = secondary.bottomZ + rail.elevation;
+    const radius = Math.max(1.8, (rail.conductorDiameter / 2) * scale);
+    for (const side of [-1, 1]) {
+      out.push(
+        `<circle class="strike-rail" cx="${n(X((side * rail.diameter) / 2))}" cy="${n(Y(z))}" r="${n(radius)}" fill="${DRAWING_COLOURS.rail}"/>`,
+      );
+    }
+  }
+
+  // Topload, its peak-field spot, and the strike distance.
+  if (topload && toploadCentre !== null) {
+    if (topload.shape === 'toroid') {
+      const outer = topload.outerDiameter / 2;
+      const tube = topload.tubeDiameter / 2;
+      out.push(
+        `<rect class="topload" x="${n(X(-outer))}" y="${n(Y(toploadCentre + tube))}" width="${n(2 * outer * scale)}" height="${n(2 * tube * scale)}" rx="${n(tube * scale)}" fill="${DRAWING_COLOURS.topload}" fill-opacity="0.85" stroke="${DRAWING_COLOURS.ink}" stroke-width="0.8" data-outer-diameter="${topload.outerDiameter}"/>`,
+      );
+    } else {
+      out.push(
+        `<circle class="topload" cx="${n(axisX)}" cy="${n(Y(toploadCentre))}" r="${n((topload.diameter / 2) * scale)}" fill="${DRAWING_COLOURS.topload}" fill-opacity="0.85" stroke="${DRAWING_COLOURS.ink}" stroke-width="0.8" data-outer-diameter="${topload.diameter}"/>`,
+      );
+    }
+    const angle = metrics.topload_peak_field_angle;
+    if (angle !== null && angle !== undefined) {
+      const centreR = topload.shape === 'toroid' ? (topload.outerDiameter - topload.tubeDiameter) / 2 : 0;
+      const radius = topload.shape === 'toroid' ? topload.tubeDiameter / 2 : topload.diameter / 2;
+      const px = X(centreR + radius * Math.cos(angle));
+      const py = Y(toploadCentre + radius * Math.sin(angle));
+      const field = metricText(metrics, 'topload_peak_field', 3);
+      const label =
+        field !== '—'
+          ? `peak field ${field}`
+          : `peak field ${metricText(metrics, 'topload_field_per_volt', 3)} per volt`;
+      out.push(
+        `<g class="peak-field"><circle cx="${n(px)}" cy="${n(py)}" r="5" fill="${DRAWING_COLOURS.peak}" stroke="white" stroke-width="1.2"/><line x1="${n(px + 5)}" y1="${n(py - 3)}" x2="${n(px + 24)}" y2="${n(py - 16)}" stroke="${DRAWING_COLOURS.peak}"/><text x="${n(px + 26)}" y="${n(py - 18)}" font-size="11" fill="${DRAWING_COLOURS.peak}">${escapeXml(label)}</text></g>`,
+      );
+    }
+    const target = strikeTarget(design, field);
+    if (target) {
+      const distance = toploadToRingDistance(topload, toploadCentre, target.ring);
+      const centreR = topload.shape === 'toroid' ? (topload.outerDiameter - topload.tubeDiameter) / 2 : 0;
+      const radius = topload.shape === 'toroid' ? topload.tubeDiameter / 2 : topload.diameter / 2;
+      const dr = target.ring.r - centreR;
+      const dz = target.ring.z - toploadCentre;
+      const length = Math.hypot(dr, dz);
+      if (length > radius) {
+        const sr = centreR + (radius * dr) / length;
+        const sz = toploadCentre + (radius * dz) / length;
+        const mx = X((sr + target.ring.r) / 2);
+        const my = Y((sz + target.ring.z) / 2);
+        out.push(
+          `<g class="dimension strike-distance" data-metres="${distance}"><line x1="${n(X(sr))}" y1="${n(Y(sz))}" x2="${n(X(target.ring.r))}" y2="${n(Y(target.ring.z))}" stroke="${DRAWING_COLOURS.dimension}" stroke-dasharray="5 3" stroke-width="1"/><text x="${n(mx + 6)}" y="${n(my)}" font-size="11" fill="${DRAWING_COLOURS.dimension}">strike ${formatNumber(distance * 1000, 4)} mm to ${target.what}</text></g>`,
+        );
+      }
+    }
+  }
+
+  // Overall height, dimensioned on the left.
+  const overall = metrics.overall_height;
+  if (overall !== null && overall !== undefined && Number.isFinite(overall)) {
+    const x = MARGIN * 0.6;
+    out.push(
+      `<g class="dimension overall-height" data-metres="${overall}"><line x1="${n(x)}" y1="${n(floorY)}" x2="${n(x)}" y2="${n(Y(overall))}" stroke="${DRAWING_COLOURS.dimension}" stroke-width="1"/><line x1="${n(x - 5)}" y1="${n(Y(overall))}" x2="${n(X(0))}" y2="${n(Y(overall))}" stroke="${DRAWING_COLOURS.dimension}" stroke-width="0.6" stroke-dasharray="2 3"/><path d="M${n(x)},${n(Y(overall))} l-3,8 h6 z M${n(x)},${n(floorY)} l-3,-8 h6 z" fill="${DRAWING_COLOURS.dimension}"/><text transform="translate(${n(x - 6)},${n((floorY + Y(overall)) / 2)}) rotate(-90)" font-size="11" text-anchor="middle" fill="${DRAWING_COLOURS.dimension}">overall height ${formatNumber(overall * 1000, 4)} mm</text></g>`,
+    );
+  }
+
+  out.push(titleBlock(field, options.title, MARGIN * 1.5 + drawingWidth + LABEL_ROOM, MARGIN, scale, levelsDrawn));
+  out.push('</svg>');
+  return `${out.join('\n')}\n`;
+}
+
+/** What a strike would reach first: the strike rail when there is one, else the outermost primary ring. */
+function strikeTarget(design: Design, field: DesignField): { ring: { r: number; z: number }; what: string } | null {
+  if (design.strikeRail && field.secondary) {
+    return {
+      ring: { r: design.strikeRail.diameter / 2, z: field.secondary.bottomZ + design.strikeRail.elevation },
+      what: 'the strike rail',
+    };
+  }
+  const rings = field.primary?.rings ?? [];
+  if (rings.length === 0) return null;
+  return { ring: rings[rings.length - 1], what: 'the outer primary ring' };
+}
+
+/** Key figures of a design, label and display text, in the order the title block shows them. */
+export const KEY_FIGURES: ReadonlyArray<[string, string]> = [
+  ['resonant frequency', 'resonant_frequency'],
+  ['total capacitance', 'total_capacitance'],
+  ['topload capacitance', 'topload_capacitance'],
+  ['secondary inductance', 'secondary_inductance'],
+  ['coupling', 'coupling'],
+  ['primary tap', 'primary_tap_turns'],
+  ['peak voltage', 'peak_voltage'],
+  ['breakout voltage', 'breakout_voltage'],
+  ['breakout margin', 'breakout_margin'],
+  ['peak topload field', 'topload_peak_field'],
+  ['overall height', 'overall_height'],
+  ['spark length (rule of thumb)', 'spark_length'],
+  ['wire length', 'wire_length'],
+];
+
+function titleBlock(field: DesignField, title: string, x: number, y: number, scale: number, levels: number): string {
+  const metrics = field.evaluation.metrics;
+  const lines: string[] = [];
+  const w = TITLE_BLOCK_WIDTH - 16;
+  let cy = y + 20;
+  lines.push(`<g class="title-block" font-size="11" fill="${DRAWING_COLOURS.ink}">`);
+  for (const line of wrapText(title, w, 13).slice(0, 3)) {
+    lines.push(`<text x="${n(x)}" y="${n(cy)}" font-size="13" font-weight="bold">${escapeXml(line)}</text>`);
+    cy += 16;
+  }
+  lines.push(
+    `<text x="${n(x)}" y="${n(cy)}" fill="${DRAWING_COLOURS.dimension}">to scale: 1 m = ${formatNumber(scale, 4)} drawing units</text>`,
+  );
+  cy += 20;
+  for (const [label, key] of KEY_FIGURES) {
+    const text = metricText(metrics, key);
+    if (text === '—') continue;
+    lines.push(`<text x="${n(x)}" y="${n(cy)}">${escapeXml(label)}</text>`);
+    lines.push(`<text x="${n(x + w)}" y="${n(cy)}" text-anchor="end" data-metric="${key}">${escapeXml(text)}</text>`);
+    cy += 15;
+  }
+  cy += 10;
+  // Legend: the winding's voltage ramp and the equipotentials.
+  if (field.secondary) {
+    lines.push(`<text x="${n(x)}" y="${n(cy)}">winding voltage, base to top</text>`);
+    cy += 6;
+    for (let k = 0; k < 20; k++) {
+      lines.push(
+        `<rect x="${n(x + (k * w) / 20)}" y="${n(cy)}" width="${n(w / 20 + 0.5)}" height="8" fill="${voltageColour(k / 19)}"/>`,
+      );
+    }
+    cy += 24;
+  }
+  lines.push(
+    `<line x1="${n(x)}" y1="${n(cy - 4)}" x2="${n(x + 24)}" y2="${n(cy - 4)}" stroke="${DRAWING_COLOURS.equipotential}"/><text x="${n(x + 30)}" y="${n(cy)}">equipotentials, every 10 % of the top voltage</text>`,
+  );
+  const peakVoltage = metrics.peak_voltage;
+  if (peakVoltage !== null && peakVoltage !== undefined && Number.isFinite(peakVoltage) && peakVoltage > 0) {
+    cy += 14;
+    lines.push(
+      `<text x="${n(x + 30)}" y="${n(cy)}">(${formatNumber(peakVoltage / 1e4, 3)} kV apart at the peak voltage)</text>`,
+    );
+  }
+  cy += 15;
+  lines.push(
+    `<circle cx="${n(x + 12)}" cy="${n(cy - 4)}" r="4" fill="${DRAWING_COLOURS.peak}"/><text x="${n(x + 30)}" y="${n(cy)}">peak surface field on the topload</text>`,
+  );
+  cy += 15;
+  if (levels === 0) {
+    lines.push(`<text x="${n(x)}" y="${n(cy)}">(no field solved: nothing to contour)</text>`);
+    cy += 15;
+  }
+  cy += 10;
+  for (const line of wrapText(PICTURE_CAUTION, w, 10)) {
+    lines.push(
+      `<text class="caution" x="${n(x)}" y="${n(cy)}" font-size="10" fill="${DRAWING_COLOURS.peak}">${escapeXml(line)}</text>`,
+    );
+    cy += 13;
+  }
+  lines.push('</g>');
+  return lines.join('\n');
+}

@@ -1,0 +1,128 @@
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import type { CliIo } from '../../cli/io.ts';
+import { runCli } from '../../cli/program.ts';
+
+async function run(args: string[]): Promise<{ code: number; out: string; err: string }> {
+  let out = '';
+  let err = '';
+  const io: CliIo = { out: (t) => (out += t), err: (t) => (err += t), isTty: false };
+  const code = await runCli(args, io);
+  return { code, out, err };
+}
+
+const directory = mkdtempSync(join(tmpdir(), 'coilfront-draw-'));
+
+/** Attributes of every element of a class in an SVG text (a small reader for our own drawings). */
+function elements(svg: string, className: string): Record<string, string>[] {
+  const found: Record<string, string>[] = [];
+  const pattern = new RegExp(`<(\\w+) class="${className}"([^>]*)>`, 'g');
+  for (const match of svg.matchAll(pattern)) {
+    const attributes: Record<string, string> = { tag: match[1] };
+    for (const a of match[2].matchAll(/([\w-]+)="([^"]*)"/g)) attributes[a[1]] = a[2];
+    found.push(attributes);
+  }
+  return found;
+}
+
+function rootNumber(svg: string, name: string): number {
+  const value = new RegExp(`<svg[^>]* ${name}="([^"]+)"`).exec(svg)?.[1];
+  if (value === undefined) throw new Error(`no ${name} on the root element`);
+  return Number(value);
+}
+
+describe('coilfront draw examples/exhibit-two-metre-coil.yaml', async () => {
+  const out = join(directory, 'exhibit.svg');
+  const result = await run(['draw', 'examples/exhibit-two-metre-coil.yaml', '--out', out]);
+  const svg = readFileSync(out, 'utf8');
+  const scale = rootNumber(svg, 'data-scale');
+  const axisX = rootNumber(svg, 'data-axis-x');
+  const floorY = rootNumber(svg, 'data-floor-y');
+  // Drawing units are rounded to 0.01, so lengths agree to about 0.02/scale m (< 0.1 mm here).
+  const tolerance = 0.05 / scale;
+
+  it('writes the SVG and prints its path', () => {
+    expect(result.err).toBe('');
+    expect(result.code).toBe(0);
+    expect(result.out.trim()).toBe(out);
+    expect(svg.startsWith('<svg')).toBe(true);
+  });
+
+  // Check values: the design file's own dimensions (examples/exhibit-two-metre-coil.yaml).
+  it('draws the toroid 900 mm across and 230 mm thick, to scale', () => {
+    const [topload] = elements(svg, 'topload');
+    expect(Number(topload.width) / scale).toBeCloseTo(0.9, 3);
+    expect(Math.abs(Number(topload.height) / scale - 0.23)).toBeLessThan(tolerance);
+    expect(Math.abs(Number(topload.x) + Number(topload.width) / 2 - axisX)).toBeLessThan(0.02);
+  });
+
+  it('draws the coil form 250 mm across, the strike rail 1000 mm across, the innermost primary ring 360 mm across', () => {
+    const [form] = elements(svg, 'coil-form');
+    expect(Math.abs(Number(form.width) / scale - 0.25)).toBeLessThan(tolerance);
+    const rail = elements(svg, 'strike-rail').map((c) => Number(c.cx));
+    expect(rail.length).toBe(2);
+    expect(Math.abs((Math.max(...rail) - Math.min(...rail)) / scale - 1)).toBeLessThan(tolerance);
+    const rings = elements(svg, 'primary-ring');
+    expect(rings.length).toBe(2 * 14); // 14 turns, drawn on both sides of the axis
+    const radii = rings.map((c) => Math.abs(Number(c.cx) - axisX) / scale);
+    expect(Math.abs(Math.min(...radii) - 0.18)).toBeLessThan(tolerance);
+  });
+
+  it('puts the winding’s base 700 mm above the floor and the top of the toroid at the reported overall height', async () => {
+    const winding = /<g class="winding" data-bottom-z="([^"]+)"/.exec(svg);
+    expect(Number(winding?.[1])).toBeCloseTo(0.7, 9);
+    const evaluated = await run(['evaluate', 'examples/exhibit-two-metre-coil.yaml', '--json']);
+    const overall = JSON.parse(evaluated.out).metrics.overall_height as number;
+    const [topload] = elements(svg, 'topload');
+    expect(Math.abs((floorY - Number(topload.y)) / scale - overall)).toBeLessThan(tolerance);
+    const [dimension] = elements(svg, 'dimension overall-height');
+    expect(Number(dimension['data-metres'])).toBe(overall);
+  });
+
+  it('draws equipotentials of the solved field at several levels, the peak-field spot and the strike distance', () => {
+    const levels = new Set(elements(svg, 'equipotential').map((p) => p['data-level']));
+    expect(levels.size).toBeGreaterThanOrEqual(7);
+    expect(svg).toContain('class="peak-field"');
+    const [strike] = elements(svg, 'dimension strike-distance');
+    expect(Number(strike['data-metres'])).toBeGreaterThan(0.3);
+    expect(svg).toMatch(/voltages are lethal/);
+  });
+
+  it('the 50 % equipotential is a long line that stays above the floor', () => {
+    const half = elements(svg, 'equipotential').find((p) => p['data-level'] === '0.5');
+    const ys = [...(half?.d ?? '').matchAll(/[ML][\d.]+,([\d.]+)/g)].map((m) => Number(m[1]));
+    expect(ys.length).toBeGreaterThan(10);
+    expect(Math.max(...ys)).toBeLessThan(floorY);
+  });
+});
+
+describe('coilfront draw with bad input', () => {
+  it('exits 2 with one line for a missing file, and writes nothing', async () => {
+    const out = join(directory, 'none.svg');
+    const result = await run(['draw', join(directory, 'missing.yaml'), '--out', out]);
+    expect(result.code).toBe(2);
+    expect(result.err.trim().split('\n').length).toBe(1);
+  });
+
+  it('exits 2 naming the field of a design that cannot be built', async () => {
+    const file = join(directory, 'inside.yaml');
+    writeFileSync(
+      file,
+      `secondary: { form_diameter: 160 mm, wire: AWG 26, turns: 1100, base_height: 450 mm }
+topload: { shape: toroid, outer_diameter: 610 mm, tube_diameter: 150 mm, height_above_winding: 40 mm }
+primary: { shape: flat_spiral, inner_diameter: 100 mm, turns: 8, conductor_diameter: 6.35 mm, turn_spacing: 6 mm }
+`,
+    );
+    const result = await run(['draw', file]);
+    expect(result.code).toBe(2);
+    expect(result.err).toContain('primary.inner_diameter');
+  });
+
+  it('exits 2 for an output that is neither .svg nor .png', async () => {
+    const result = await run(['draw', 'examples/exhibit-two-metre-coil.yaml', '--out', join(directory, 'x.pdf')]);
+    expect(result.code).toBe(2);
+    expect(result.err).toContain('--out');
+  });
+});
