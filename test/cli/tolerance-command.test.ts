@@ -158,6 +158,11 @@ describe('coilfront tolerance of a run', () => {
     expect(await runCli(['tolerance', run, '--top', '3', '--workers', '0'], resumed.io)).toBe(0);
     expect(resumed.errors()).toContain('2 of 3 candidates taken from the journal');
     expect(readFileSync(join(run, 'tolerance.csv'), 'utf8')).toBe(csv3);
+    // The morning report of the run carries the study as a section.
+    expect(await runCli(['report', run, '--out', join(dir, 'report.html')], capture().io)).toBe(0);
+    const html = readFileSync(join(dir, 'report.html'), 'utf8');
+    expect(html).toContain('<section id="build-tolerances"><h2>Tolerances and yield</h2>');
+    expect(html).toContain('<th>yield_low</th>');
   }, 120_000);
 });
 
