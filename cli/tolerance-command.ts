@@ -28,7 +28,9 @@ import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
 import { type Cell, toCsv } from '../run/csv.ts';
 import { METRIC_DISPLAY, formatNumber } from './display-units.ts';
 import { writeFileAtomicSync } from '../run/durable/atomic-write.ts';
+import { DiskError } from '../run/durable/disk-error.ts';
 import { openJournal } from '../run/durable/journal.ts';
+import { acquireRunLock, RunLockError } from '../run/durable/lock.ts';
 import { fieldError, InputError, type InputIssue, optionError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
 import { loadDesignFile } from './load-design.ts';
@@ -241,98 +243,113 @@ export async function toleranceCommand(target: string, options: ToleranceCommand
     metrics,
   };
   mkdirSync(out, { recursive: true });
-
-  // The journal: a header naming everything that decides the results, then one record per finished candidate.
-  const header = { format: 'coilfront-tolerance', identity, fields: section.fields, settings };
-  const headerHash = hashOf(header);
-  const journalPath = join(out, TOLERANCE_FILES.journal);
-  let journal = openJournal(journalPath);
-  const first = journal.recovered.records[0] as { header?: string } | undefined;
-  if (first !== undefined && first.header !== headerHash) {
-    io.err('tolerance: the journal belongs to other settings; starting afresh\n');
-    journal.close();
-    unlinkSync(journalPath);
-    journal = openJournal(journalPath);
-  }
-  if (journal.recordCount === 0) {
-    journal.append({ header: headerHash });
-    journal.sync();
-  }
-  const done = new Map<string, CandidateTolerance>();
-  for (const record of journal.recovered.records.slice(1) as { key: string; result: CandidateTolerance }[])
-    done.set(record.key, record.result);
-
-  const threads = options.workers ?? defaultWorkerCount();
-  const evaluator: BatchEvaluator =
-    threads === 0
-      ? inProcessEvaluator(new DesignSpace(space.definition))
-      : createWorkerPool(space.definition, { threads });
-  settings.batchSize = Math.max(4, Math.min(64, Math.ceil(draws / Math.max(1, threads * 4))));
-  const results: CandidateTolerance[] = [];
-  let reused = 0;
+  // One study (or sweep, refine, evolve) at a time in a directory: the journal has one writer.
+  let lock: ReturnType<typeof acquireRunLock>;
   try {
-    for (let c = 0; c < candidates.length; c++) {
-      const candidate = candidates[c];
-      const key = hashOf(candidate.values);
-      let result = done.get(key);
-      if (result) reused++;
-      else {
-        result = await candidateTolerance(space, evaluator, candidate.values, settings);
-        journal.append({ key, result });
-        journal.sync();
-      }
-      results.push(result);
-      io.err(`tolerance: ${c + 1}/${candidates.length} candidates\n`);
-    }
+    lock = acquireRunLock(out);
+  } catch (error) {
+    if (error instanceof RunLockError || error instanceof DiskError) throw new InputError(`${out}: ${error.message}`);
+    throw error;
+  }
+  try {
+    return await study();
   } finally {
-    await evaluator.close();
-    journal.close();
+    lock.release();
   }
-  if (reused > 0) io.err(`tolerance: ${reused} of ${candidates.length} candidates taken from the journal\n`);
 
-  const head = ['rank', 'sample_index', 'draws', 'passing', 'impossible', 'yield', 'yield_low', 'yield_high'];
-  for (const metric of metrics) head.push(...['p05', 'p50', 'p95'].map((q) => metricColumn(metric, q)));
-  const rows: Cell[][] = results.map((result, c) => {
-    const row: Cell[] = [candidates[c].rank ?? 'design', candidates[c].sampleIndex, result.draws, result.passing];
-    row.push(result.impossible, result.yield.estimate, result.yield.low, result.yield.high);
-    for (const q of result.quantiles)
-      row.push(displayValue(q.metric, q.p05), displayValue(q.metric, q.p50), displayValue(q.metric, q.p95));
-    return row;
-  });
-  writeFileAtomicSync(join(out, TOLERANCE_FILES.csv), toCsv(head, rows));
-  const json = {
-    safety: SAFETY_LINE,
-    source: sourceFile,
-    draws,
-    seed: base.seed,
-    units: 'SI',
-    fields: section.fields.map((f) => ({ ...f, path: f.path.join('.') })),
-    constraints,
-    metrics,
-    candidates: results.map((result, c) => ({
-      rank: candidates[c].rank,
-      sample_index: candidates[c].sampleIndex,
-      ...result,
-    })),
-  };
-  writeFileAtomicSync(join(out, TOLERANCE_FILES.json), `${JSON.stringify(json, null, 2)}\n`);
+  async function study(): Promise<number> {
+    // The journal: a header naming everything that decides the results, then one record per finished candidate.
+    const header = { format: 'coilfront-tolerance', identity, fields: section.fields, settings };
+    const headerHash = hashOf(header);
+    const journalPath = join(out, TOLERANCE_FILES.journal);
+    let journal = openJournal(journalPath);
+    const first = journal.recovered.records[0] as { header?: string } | undefined;
+    if (first !== undefined && first.header !== headerHash) {
+      io.err('tolerance: the journal belongs to other settings; starting afresh\n');
+      journal.close();
+      unlinkSync(journalPath);
+      journal = openJournal(journalPath);
+    }
+    if (journal.recordCount === 0) {
+      journal.append({ header: headerHash });
+      journal.sync();
+    }
+    const done = new Map<string, CandidateTolerance>();
+    for (const record of journal.recovered.records.slice(1) as { key: string; result: CandidateTolerance }[])
+      done.set(record.key, record.result);
 
-  io.out(
-    `Tolerance study: ${draws} builds per candidate, ${section.fields.length} toleranced fields, yield with 95 % Wilson interval\n`,
-  );
-  const shown = metrics[0];
-  for (let c = 0; c < results.length; c++) {
-    const r = results[c];
-    const name = candidates[c].rank === null ? 'design' : `rank ${candidates[c].rank}`;
-    const q = r.quantiles[0];
-    const spread =
-      q.p05 === null
-        ? ''
-        : `   ${shown} 5/50/95 %: ${[q.p05, q.p50, q.p95].map((v) => formatNumber(displayValue(shown, v) as number)).join(' / ')} ${METRIC_DISPLAY[shown]?.label ?? ''}`;
+    const threads = options.workers ?? defaultWorkerCount();
+    const evaluator: BatchEvaluator =
+      threads === 0
+        ? inProcessEvaluator(new DesignSpace(space.definition))
+        : createWorkerPool(space.definition, { threads });
+    settings.batchSize = Math.max(4, Math.min(64, Math.ceil(draws / Math.max(1, threads * 4))));
+    const results: CandidateTolerance[] = [];
+    let reused = 0;
+    try {
+      for (let c = 0; c < candidates.length; c++) {
+        const candidate = candidates[c];
+        const key = hashOf(candidate.values);
+        let result = done.get(key);
+        if (result) reused++;
+        else {
+          result = await candidateTolerance(space, evaluator, candidate.values, settings);
+          journal.append({ key, result });
+          journal.sync();
+        }
+        results.push(result);
+        io.err(`tolerance: ${c + 1}/${candidates.length} candidates\n`);
+      }
+    } finally {
+      await evaluator.close();
+      journal.close();
+    }
+    if (reused > 0) io.err(`tolerance: ${reused} of ${candidates.length} candidates taken from the journal\n`);
+
+    const head = ['rank', 'sample_index', 'draws', 'passing', 'impossible', 'yield', 'yield_low', 'yield_high'];
+    for (const metric of metrics) head.push(...['p05', 'p50', 'p95'].map((q) => metricColumn(metric, q)));
+    const rows: Cell[][] = results.map((result, c) => {
+      const row: Cell[] = [candidates[c].rank ?? 'design', candidates[c].sampleIndex, result.draws, result.passing];
+      row.push(result.impossible, result.yield.estimate, result.yield.low, result.yield.high);
+      for (const q of result.quantiles)
+        row.push(displayValue(q.metric, q.p05), displayValue(q.metric, q.p50), displayValue(q.metric, q.p95));
+      return row;
+    });
+    writeFileAtomicSync(join(out, TOLERANCE_FILES.csv), toCsv(head, rows));
+    const json = {
+      safety: SAFETY_LINE,
+      source: sourceFile,
+      draws,
+      seed: base.seed,
+      units: 'SI',
+      fields: section.fields.map((f) => ({ ...f, path: f.path.join('.') })),
+      constraints,
+      metrics,
+      candidates: results.map((result, c) => ({
+        rank: candidates[c].rank,
+        sample_index: candidates[c].sampleIndex,
+        ...result,
+      })),
+    };
+    writeFileAtomicSync(join(out, TOLERANCE_FILES.json), `${JSON.stringify(json, null, 2)}\n`);
+
     io.out(
-      `${name.padEnd(9)} yield ${(100 * r.yield.estimate).toFixed(1).padStart(5)} % [${(100 * r.yield.low).toFixed(1)}, ${(100 * r.yield.high).toFixed(1)}]  ${r.passing}/${r.draws}${spread}\n`,
+      `Tolerance study: ${draws} builds per candidate, ${section.fields.length} toleranced fields, yield with 95 % Wilson interval\n`,
     );
+    const shown = metrics[0];
+    for (let c = 0; c < results.length; c++) {
+      const r = results[c];
+      const name = candidates[c].rank === null ? 'design' : `rank ${candidates[c].rank}`;
+      const q = r.quantiles[0];
+      const spread =
+        q.p05 === null
+          ? ''
+          : `   ${shown} 5/50/95 %: ${[q.p05, q.p50, q.p95].map((v) => formatNumber(displayValue(shown, v) as number)).join(' / ')} ${METRIC_DISPLAY[shown]?.label ?? ''}`;
+      io.out(
+        `${name.padEnd(9)} yield ${(100 * r.yield.estimate).toFixed(1).padStart(5)} % [${(100 * r.yield.low).toFixed(1)}, ${(100 * r.yield.high).toFixed(1)}]  ${r.passing}/${r.draws}${spread}\n`,
+      );
+    }
+    io.out(`files: ${join(out, TOLERANCE_FILES.csv)}, ${join(out, TOLERANCE_FILES.json)}\n\n${safetyBlock()}\n`);
+    return 0;
   }
-  io.out(`files: ${join(out, TOLERANCE_FILES.csv)}, ${join(out, TOLERANCE_FILES.json)}\n\n${safetyBlock()}\n`);
-  return 0;
 }

@@ -1,5 +1,5 @@
-import { mkdtempSync, readFileSync, truncateSync, statSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { existsSync, mkdtempSync, readFileSync, truncateSync, statSync, writeFileSync } from 'node:fs';
+import { hostname, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { parse as parseCsv } from 'csv-parse/sync';
 import { parse as parseYaml } from 'yaml';
@@ -7,6 +7,7 @@ import { describe, expect, it } from 'vitest';
 import type { CliIo } from '../../cli/io.ts';
 import { loadDesignFile } from '../../cli/load-design.ts';
 import { runCli } from '../../cli/program.ts';
+import { currentBootId } from '../../run/durable/lock.ts';
 import { SAFETY_CAUTIONS } from '../../cli/safety.ts';
 import { sweepFromValue } from '../../cli/sweep-spec.ts';
 import { evaluateDesign } from '../../core/evaluate.ts';
@@ -274,6 +275,21 @@ describe('bad tolerance input', () => {
     expect(errors()).toMatch(message);
     expect(errors()).toContain(file);
     expect(out).toHaveLength(0);
+  });
+
+  it('refuses a directory another live run holds (run.lock), exit 2', async () => {
+    const dir = scratch();
+    writeFileSync(join(dir, 'tol.yaml'), TOLERANCES);
+    const holder = { pid: process.pid, hostname: hostname(), bootId: currentBootId(), startedAt: '', token: 'other' };
+    writeFileSync(join(dir, 'run.lock'), JSON.stringify(holder));
+    const { io, errors } = capture();
+    const code = await runCli(
+      ['tolerance', DESIGN, '--tolerances', join(dir, 'tol.yaml'), '--workers', '0', '--out', dir],
+      io,
+    );
+    expect(code).toBe(2);
+    expect(errors().trim().split('\n')).toHaveLength(1);
+    expect(existsSync(join(dir, 'tolerance.csv'))).toBe(false);
   });
 
   it('refuses a design file without --tolerances, and a bad --draws', async () => {
