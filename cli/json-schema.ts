@@ -150,6 +150,35 @@ export function sweepSchema(): Schema {
         },
         additionalProperties: false,
       },
+      tolerances: {
+        type: 'object',
+        description: 'build tolerances and ranges of the surroundings, for coilfront tolerance',
+        properties: {
+          draws: { type: 'integer', minimum: 1, maximum: 1000000 },
+          seed: { type: 'integer', minimum: 0, maximum: 4294967295 },
+          sweep_draws: { type: 'integer', minimum: 1, maximum: 1024 },
+        },
+        additionalProperties: {
+          type: 'object',
+          additionalProperties: {
+            oneOf: [
+              { type: 'string', description: "a spread: '±2 %' or '±10 mm' (uniform)" },
+              { type: 'number' },
+              {
+                type: 'object',
+                properties: {
+                  spread: bound,
+                  from: bound,
+                  to: bound,
+                  distribution: { enum: ['uniform', 'normal', 'truncated_normal'] },
+                  sigmas: { type: 'number', exclusiveMinimum: 0, maximum: 8 },
+                },
+                additionalProperties: false,
+              },
+            ],
+          },
+        },
+      },
     },
     required: ['design', 'objectives'],
     additionalProperties: false,

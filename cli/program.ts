@@ -23,6 +23,7 @@ import { sensitivityCommand, type SensitivityOptions } from './sensitivity-comma
 import { sheetCommand, type SheetCommandOptions } from './sheet-command.ts';
 import { stockCommand } from './stock-command.ts';
 import { retuneCommand } from './retune-command.ts';
+import { toleranceCommand, type ToleranceCommandOptions } from './tolerance-command.ts';
 
 /** The journal's sync interval: --sync-every, or its older spelling --checkpoint-every (hidden). */
 interface SyncEveryFlags {
@@ -150,6 +151,19 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .option('--out <dir>', 'directory for sensitivity.csv and sensitivity.json', '.')
     .action(async (file: string, options: SensitivityOptions) => {
       exitCode = await sensitivityCommand(file, options, io);
+    });
+
+  program
+    .command('tolerance')
+    .description('yield and metric quantiles of candidates built with tolerances (same draws for every candidate)')
+    .argument('<target>', 'run directory of a sweep, or a design file (with --tolerances)')
+    .option('--top <n>', 'candidates of candidates.csv to study', integer('--top'), 20)
+    .option('--draws <n>', "builds per candidate (default: the tolerances' draws, or 256)", integer('--draws'))
+    .option('--tolerances <file>', 'file with a tolerances: section (and constraints, objectives, metrics)')
+    .option('--workers <n>', 'worker threads (default: available parallelism)', integer('--workers'))
+    .option('--out <dir>', 'directory for tolerance.csv and tolerance.json of a design file', '.')
+    .action(async (target: string, options: ToleranceCommandOptions) => {
+      exitCode = await toleranceCommand(target, options, io);
     });
 
   program

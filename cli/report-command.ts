@@ -144,6 +144,12 @@ export async function reportCommand(directory: string, options: ReportOptions, i
     const table = readRunTable(sensitivityCsv);
     globalIndices = { header: table.header, rows: table.rows };
   }
+  const toleranceCsv = join(directory, 'tolerance.csv');
+  let buildTolerances: ReportData['buildTolerances'] = null;
+  if (existsSync(toleranceCsv)) {
+    const table = readRunTable(toleranceCsv);
+    buildTolerances = { header: table.header, rows: table.rows };
+  }
   if (frontRows.length === 0)
     notes.push(`No design met every constraint: see ${RUN_FILES.infeasible} and the bars above.`);
 
@@ -165,6 +171,7 @@ export async function reportCommand(directory: string, options: ReportOptions, i
     topThree,
     sensitivities,
     globalIndices,
+    buildTolerances,
     notes,
   };
   const out = options.out ?? join(directory, 'report.html');

@@ -16,6 +16,9 @@ import { metricKind } from './metric-kinds.ts';
 import { parseInputText, readInputFile } from './read-file.ts';
 import { RUN_FILES } from '../run/run-directory.ts';
 import { suggest } from './suggest.ts';
+import type { RobustDefinition } from '../optimize/tolerance/robust-yield.ts';
+import { ToleranceSetupError, toleranceSpace } from '../optimize/tolerance/tolerance-space.ts';
+import { readTolerances, type ToleranceSection } from './tolerance-spec.ts';
 import { describeValue, readQuantity } from './units.ts';
 import { must } from '../core/must.ts';
 import type { ConstraintDefinition, ObjectiveDefinition } from '../optimize/sweep-state.ts';
@@ -40,6 +43,10 @@ export interface SweepSpec {
   shardCount: number | null;
   /** sha256 of the canonical JSON of the file's content: the identity of a run. */
   hash: string;
+  /** The build tolerances for `coilfront tolerance`, when the file has a `tolerances:` section. */
+  tolerances?: ToleranceSection | null;
+  /** The robust merit build_yield, when an objective or constraint uses it (needs tolerances.sweep_draws). */
+  robust?: RobustDefinition;
 }
 
 /** Above this many designs a sweep is refused unless --force (a day of a small workstation). */
@@ -47,7 +54,7 @@ export const MAX_SAMPLES_WITHOUT_FORCE = 20_000_000;
 /** Never more than this: 2^32 Sobol points; index arithmetic stays exact. */
 export const MAX_SAMPLES = 2 ** 32;
 
-const TOP_KEYS = ['design', 'constraints', 'objectives', 'sweep'];
+const TOP_KEYS = ['design', 'constraints', 'objectives', 'sweep', 'tolerances'];
 const SWEEP_KEYS = ['method', 'samples', 'seed', 'levels', 'shard_count', 'reference_point'];
 
 function isMapping(value: unknown): value is Record<string, unknown> {
@@ -110,7 +117,7 @@ function readBound(
   return result.value;
 }
 
-function readConstraints(input: unknown, issues: InputIssue[]): ConstraintDefinition[] {
+export function readConstraints(input: unknown, issues: InputIssue[]): ConstraintDefinition[] {
   if (input === undefined || input === null) return [];
   if (!isMapping(input)) {
     issues.push({
@@ -163,7 +170,7 @@ function readConstraints(input: unknown, issues: InputIssue[]): ConstraintDefini
   return constraints;
 }
 
-function readObjectives(input: unknown, issues: InputIssue[]): ObjectiveDefinition[] {
+export function readObjectives(input: unknown, issues: InputIssue[]): ObjectiveDefinition[] {
   if (!Array.isArray(input)) {
     issues.push({
       path: ['objectives'],
@@ -276,6 +283,8 @@ export function sweepFromValue(value: unknown, file: string, options: SweepReadO
   const constraints = readConstraints(value.constraints, issues);
   if (issues.length) fail();
   const objectives = readObjectives(value.objectives, issues);
+  if (issues.length) fail();
+  const tolerances = value.tolerances === undefined ? null : readTolerances(value.tolerances, ['tolerances'], issues);
   if (issues.length) fail();
 
   const sweep = value.sweep ?? {};
@@ -399,7 +408,47 @@ export function sweepFromValue(value: unknown, file: string, options: SweepReadO
     issues.push(structural);
     fail();
   }
+  // Tolerances: every field must find its nominal in this space; build_yield needs tolerances.sweep_draws.
+  let robust: RobustDefinition | undefined;
+  if (tolerances) {
+    let space: ReturnType<typeof toleranceSpace> | null = null;
+    try {
+      space = toleranceSpace({ tree: reading.tree, dimensions, method, samples, seed, gridLevels }, tolerances.fields);
+    } catch (error) {
+      if (!(error instanceof ToleranceSetupError)) throw error;
+      issues.push({ path: ['tolerances', ...error.path], message: error.message });
+    }
+    if (issues.length || space === null) fail();
+    const usesYield =
+      objectives.some((o) => o.metric === 'build_yield') || constraints.some((c) => c.metric === 'build_yield');
+    if (usesYield && tolerances.sweepDraws === null) {
+      issues.push({
+        path: ['tolerances', 'sweep_draws'],
+        message: 'required for build_yield: the tolerance draws per design (each costs one more evaluation)',
+      });
+      fail();
+    }
+    if (usesYield) {
+      robust = {
+        tolerance: space as ReturnType<typeof toleranceSpace>,
+        draws: tolerances.sweepDraws as number,
+        seed: tolerances.seed ?? seed,
+        constraints: constraints.filter((c) => c.metric !== 'build_yield'),
+        required: objectives.map((o) => o.metric).filter((m) => m !== 'build_yield'),
+      };
+    }
+  } else if (
+    objectives.some((o) => o.metric === 'build_yield') ||
+    constraints.some((c) => c.metric === 'build_yield')
+  ) {
+    issues.push({
+      path: ['tolerances'],
+      message: 'required for build_yield: a tolerances section with sweep_draws',
+    });
+    fail();
+  }
   return {
+    ...(robust ? { robust } : {}),
     tree: reading.tree,
     dimensions,
     constraints,
@@ -411,6 +460,7 @@ export function sweepFromValue(value: unknown, file: string, options: SweepReadO
     referencePoint,
     shardCount,
     hash: createHash('sha256').update(canonicalJson(value)).digest('hex'),
+    tolerances,
   };
 }
 

@@ -304,6 +304,11 @@ export const METRICS: readonly MetricInfo[] = [
     "centre of the band (a twelfth of the topload's meridian) with the lowest surface field, where supports are best brought in; angle as topload_peak_field_angle",
   ),
   metric('topload_low_field_per_volt', '1/m', 'mean surface field over that band per volt at the top'),
+  metric(
+    'build_yield',
+    '',
+    "fraction of the sweep's tolerance draws (tolerances.sweep_draws) that would be feasible candidates; only in sweeps that ask for it",
+  ),
 ];
 
 export const METRIC_KEYS: readonly string[] = METRICS.map((m) => m.key);

@@ -9,6 +9,7 @@ import { fillSlots, type Dimension, type NormalTree } from './design-tree.ts';
 import { createSampler } from './sampling/create-sampler.ts';
 import type { UnitCubeSampler } from './sampling/unit-cube-sampler.ts';
 import { mapUnitToChoice, mapUnitToRange } from './sampling/unit-interval-mapping.ts';
+import type { RobustDefinition } from './tolerance/robust-yield.ts';
 
 /** What a worker needs to regenerate designs: plain data (structured-clone and JSON safe). */
 export interface SpaceDefinition {
@@ -18,6 +19,8 @@ export interface SpaceDefinition {
   samples: number;
   seed: number;
   gridLevels: number[] | null;
+  /** A robust merit: each design's build_yield over a few tolerance draws (optimize/tolerance/robust-yield.ts). */
+  robust?: RobustDefinition;
 }
 
 /** The space definition alone (what a worker needs), picked out of a larger object such as a sweep file's. */
@@ -29,6 +32,7 @@ export function spaceDefinitionOf(spec: SpaceDefinition): SpaceDefinition {
     samples: spec.samples,
     seed: spec.seed,
     gridLevels: spec.gridLevels,
+    ...(spec.robust ? { robust: spec.robust } : {}),
   };
 }
 

@@ -71,7 +71,15 @@ export function fillSlots(tree: NormalTree, dimensions: readonly Dimension[], va
   };
   for (const [name, section] of Object.entries(tree)) {
     if (isSlot(section)) {
-      filled[name] = slotValue(section) as NormalSection;
+      const chosen = slotValue(section) as NormalSection;
+      // A chosen section may itself hold slots (a tolerance study perturbs a field inside a set of sections).
+      let nested: NormalSection | null = null;
+      for (const [key, leaf] of Object.entries(chosen)) {
+        if (!isSlot(leaf)) continue;
+        nested ??= { ...chosen };
+        nested[key] = slotValue(leaf) as LeafValue;
+      }
+      filled[name] = nested ?? chosen;
       continue;
     }
     const out: NormalSection = {};

@@ -12,6 +12,7 @@ import { warningMask } from '../core/outcome/warnings.ts';
 import { evaluateDesign } from '../core/evaluate.ts';
 import { METRIC_KEYS } from '../core/metrics.ts';
 import type { DesignSpace } from './design-space.ts';
+import { robustYield } from './tolerance/robust-yield.ts';
 import { must } from '../core/must.ts';
 
 export const STATUS_OK = 0;
@@ -36,6 +37,7 @@ export interface BatchResult {
 }
 
 const METRIC_COUNT = METRIC_KEYS.length;
+const BUILD_YIELD = METRIC_KEYS.indexOf('build_yield');
 
 /** Evaluates one batch in this thread. Never throws for a design: failures become status rows. */
 export function evaluateBatchTask(
@@ -89,6 +91,9 @@ export function evaluateBatchTask(
         result.metrics[row * METRIC_COUNT + m] = value;
       }
       result.warningMasks[row] = warningMask(evaluation.warnings);
+      // A robust merit: the design's yield over the sweep's tolerance draws (optimize/tolerance/robust-yield.ts).
+      const robust = space.definition.robust;
+      if (robust && failure === null) result.metrics[row * METRIC_COUNT + BUILD_YIELD] = robustYield(robust, values);
       if (failure) {
         result.metrics.fill(Number.NaN, row * METRIC_COUNT, (row + 1) * METRIC_COUNT);
         result.status[row] = STATUS_FAILED;

@@ -41,6 +41,8 @@ export interface ReportData {
   sensitivities: { parameters: string[]; metrics: string[]; values: (number | null)[][] } | null;
   /** The Sobol indices of `coilfront sensitivity … --out RUN` (sensitivity.csv), when the run has them. */
   globalIndices: { header: string[]; rows: (number | string | null)[][] } | null;
+  /** The yields and quantiles of `coilfront tolerance RUN` (tolerance.csv), when the run has them. */
+  buildTolerances?: { header: string[]; rows: (number | string | null)[][] } | null;
   notes: string[];
 }
 
@@ -349,6 +351,25 @@ export function reportHtml(data: ReportData): string {
       for (const cell of row) {
         const text =
           typeof cell === 'number' ? (Number.isInteger(cell) ? String(cell) : cell.toFixed(3)) : (cell ?? '—');
+        parts.push(`<td${typeof cell === 'number' ? '' : ' class="text"'}>${escapeHtml(String(text))}</td>`);
+      }
+      parts.push('</tr>');
+    }
+    parts.push('</table></section>');
+  }
+  if (data.buildTolerances) {
+    parts.push('<section id="build-tolerances"><h2>Tolerances and yield</h2>');
+    parts.push(
+      '<p class="note">From tolerance.csv in the run (npx coilfront tolerance RUN): the fraction of builds within the tolerances that would be feasible candidates, with its 95 % Wilson interval, and the 5/50/95 % quantiles of each objective and constrained metric over the same builds for every candidate.</p>',
+    );
+    parts.push('<table><tr>');
+    for (const h of data.buildTolerances.header) parts.push(`<th>${escapeHtml(h)}</th>`);
+    parts.push('</tr>');
+    for (const row of data.buildTolerances.rows) {
+      parts.push('<tr>');
+      for (const cell of row) {
+        const text =
+          typeof cell === 'number' ? (Number.isInteger(cell) ? String(cell) : cell.toPrecision(4)) : (cell ?? '—');
         parts.push(`<td${typeof cell === 'number' ? '' : ' class="text"'}>${escapeHtml(String(text))}</td>`);
       }
       parts.push('</tr>');

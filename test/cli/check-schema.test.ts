@@ -38,7 +38,7 @@ describe('coilfront schema', () => {
     expect(result.code).toBe(0);
     const schema = JSON.parse(result.out);
     expect(schema.$schema).toBe('https://json-schema.org/draft/2020-12/schema');
-    expect(Object.keys(schema.properties)).toEqual(['design', 'constraints', 'objectives', 'sweep']);
+    expect(Object.keys(schema.properties)).toEqual(['design', 'constraints', 'objectives', 'sweep', 'tolerances']);
     expect(schema.properties.constraints.propertyNames.enum).toEqual([...METRIC_KEYS]);
     expect(Object.keys(schema.properties.design.properties)).toEqual(Object.keys(DESIGN_SECTIONS));
   });
