@@ -10,6 +10,7 @@ import type { Design } from './design.ts';
 import { arrangementFromDesign } from './electrostatics/arrangement.ts';
 import { type FieldArrangement, type FieldSolution, solveField } from './electrostatics/field-solve.ts';
 import { type Evaluation, evaluateDesignInDetail } from './evaluate.ts';
+import { type SupportMember, supportMember } from './electrostatics/supports.ts';
 
 export interface DesignField {
   evaluation: Evaluation;
@@ -21,6 +22,8 @@ export interface DesignField {
   field: FieldSolution | null;
   /** The voltage along the winding per volt at the top, as a function of the fraction of its length. */
   profile: ((fraction: number) => number) | null;
+  /** The insulating support as a straight member (r, z at both ends), when the design has one. */
+  support: SupportMember | null;
 }
 
 /** Evaluates `design` and solves its field once more with the winding at its profile. */
@@ -29,11 +32,11 @@ export function designField(design: Design): DesignField {
   const secondary = context.secondary ?? null;
   const primary = context.primary ?? null;
   if (evaluation.problems.length > 0) {
-    return { evaluation, secondary, primary, arrangement: null, field: null, profile: null };
+    return { evaluation, secondary, primary, arrangement: null, field: null, profile: null, support: null };
   }
   const problems: EvalContext['problems'] = [];
   const arrangement = arrangementFromDesign(design, context.secondary, problems);
-  if (!arrangement) return { evaluation, secondary, primary, arrangement: null, field: null, profile: null };
+  if (!arrangement) return { evaluation, secondary, primary, arrangement: null, field: null, profile: null, support: null };
   let profile: ((fraction: number) => number) | null = null;
   if (arrangement.winding) {
     const resonator = context.resonator;
@@ -45,5 +48,9 @@ export function designField(design: Design): DesignField {
         : (x: number) => x;
     arrangement.winding = { ...arrangement.winding, profile };
   }
-  return { evaluation, secondary, primary, arrangement, field: solveField(arrangement), profile };
+  const support =
+    design.support && arrangement.topload
+      ? supportMember(design.support, arrangement.topload, context.secondary, [])
+      : null;
+  return { evaluation, secondary, primary, arrangement, field: solveField(arrangement), profile, support };
 }

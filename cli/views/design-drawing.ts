@@ -32,6 +32,8 @@ export const DRAWING_COLOURS = {
   equipotential: '#3d7ea6',
   peak: '#d1253f',
   dimension: '#55606a',
+  support: '#c9b98f',
+  point: '#7a3b8f',
 };
 
 /** The winding's voltage ramp, 0 at the base to 1 at the top: slate blue, sage, amber, vermilion. */
@@ -324,6 +326,45 @@ export function designDrawingSvg(design: Design, field: DesignField, options: Dr
         );
       }
     }
+  }
+
+  // The insulating support (both sides of the axis for rods) and the breakout point.
+  if (field.support) {
+    const member = field.support;
+    const width = Math.max(1.5, (design.support?.diameter ?? 0) * scale);
+    // a column stands on the axis (its member runs along its surface); rods are drawn on both sides
+    const column = design.support?.kind === 'column';
+    for (const side of column ? [0] : [1, -1])
+      out.push(
+        `<line class="support" x1="${n(X(side * member.r0))}" y1="${n(Y(member.z0))}" x2="${n(X(side * member.r1))}" y2="${n(Y(member.z1))}" stroke="${DRAWING_COLOURS.support}" stroke-width="${n(width)}" stroke-linecap="butt" data-diameter="${design.support?.diameter ?? 0}"/>`,
+      );
+  }
+  const point = design.breakoutPoint;
+  const pointLength = metrics.breakout_point_length;
+  if (point && topload && toploadCentre !== null && pointLength !== null && pointLength !== undefined) {
+    const tip = point.tipRadius;
+    const toroid = topload.shape === 'toroid';
+    const outer = toroid ? topload.outerDiameter / 2 : topload.diameter / 2;
+    const rise = toroid ? topload.tubeDiameter / 2 : topload.diameter / 2;
+    const crownR = toroid ? (topload.outerDiameter - topload.tubeDiameter) / 2 : 0;
+    // top: up from the crown (a sphere's pole, a toroid's crown on both sides); rim: out from the equator
+    const ends: Array<[number, number, number, number]> =
+      point.position === 'top'
+        ? (crownR === 0 ? [1] : [1, -1]).map((side) => [
+            side * crownR,
+            toploadCentre + rise,
+            side * crownR,
+            toploadCentre + rise + pointLength,
+          ])
+        : [1, -1].map((side) => [side * outer, toploadCentre, side * (outer + pointLength), toploadCentre]);
+    const [, , labelR, labelZ] = ends[0] ?? [0, 0, 0, 0];
+    out.push(
+      `<text class="breakout-point-label" x="${n(X(labelR) + 8)}" y="${n(Y(labelZ) - 6)}" font-size="11" fill="${DRAWING_COLOURS.point}">breakout point ${formatNumber(pointLength * 1000, 3)} mm</text>`,
+    );
+    for (const [r0, z0, r1, z1] of ends)
+      out.push(
+        `<g class="breakout-point" data-length="${pointLength}"><line x1="${n(X(r0))}" y1="${n(Y(z0))}" x2="${n(X(r1))}" y2="${n(Y(z1))}" stroke="${DRAWING_COLOURS.point}" stroke-width="${n(Math.max(1.2, 2 * tip * scale))}"/><circle cx="${n(X(r1))}" cy="${n(Y(z1))}" r="${n(Math.max(1.2, tip * scale))}" fill="${DRAWING_COLOURS.point}"/></g>`,
+      );
   }
 
   // Overall height, dimensioned on the left.

@@ -126,3 +126,35 @@ primary: { shape: flat_spiral, inner_diameter: 100 mm, turns: 8, conductor_diame
     expect(result.err).toContain('--out');
   });
 });
+
+describe('coilfront draw examples/gallery-coil-breakout-point.yaml', async () => {
+  const out = join(directory, 'gallery.svg');
+  const result = await run(['draw', 'examples/gallery-coil-breakout-point.yaml', '--out', out]);
+  const svg = readFileSync(out, 'utf8');
+  const scale = rootNumber(svg, 'data-scale');
+  const evaluated = await run(['evaluate', 'examples/gallery-coil-breakout-point.yaml', '--json']);
+  const metrics = (JSON.parse(evaluated.out) as { metrics: Record<string, number | null> }).metrics;
+
+  it('draws the breakout point at the length the evaluation sized it to', () => {
+    expect(result.code).toBe(0);
+    const points = [
+      ...svg.matchAll(
+        /class="breakout-point" data-length="([^"]+)"><line x1="([^"]+)" y1="([^"]+)" x2="([^"]+)" y2="([^"]+)"/g,
+      ),
+    ];
+    expect(points.length).toBeGreaterThan(0);
+    for (const [, length, x1, y1, x2, y2] of points) {
+      expect(Number(length)).toBeCloseTo(metrics.breakout_point_length ?? Number.NaN, 12);
+      expect(Math.hypot(Number(x2) - Number(x1), Number(y2) - Number(y1)) / scale).toBeCloseTo(Number(length), 4);
+    }
+  });
+
+  it('draws the column on the axis, as wide as its diameter, up from the winding top', () => {
+    const [column] = elements(svg, 'support');
+    expect(column).toBeDefined();
+    expect(Number(column?.['stroke-width']) / scale).toBeCloseTo(0.06, 4);
+    expect(column?.x1).toBe(column?.x2);
+    const top = elements(svg, 'winding').map((w) => Number(w.y1 ?? w.y ?? Number.NaN));
+    expect(top.length).toBeGreaterThan(0);
+  });
+});
