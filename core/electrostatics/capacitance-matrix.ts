@@ -3,17 +3,23 @@
  * the same boundary-element model as field-solve.ts: one assembly, one LU factorisation, one
  * right-hand side per conductor.
  *
- * The winding's sheet carries a piecewise-linear potential between nodes at its panel edges: node 0
- * at the base (grounded), nodes 1 … P above it, node P the top. The "conductors" are the hat
- * functions φ_k of nodes 1 … P and the topload (potential 1 on it, 0 elsewhere). For conductor l
- * the collocation potentials are φ_l at the panel midpoints (½ on the two panels beside node l) and
- * the solve gives the densities σ⁽ˡ⁾; the matrix is the Galerkin form
- *   C_kl = ∫ φ_k σ⁽ˡ⁾ dA (winding nodes), C_Tl = charge on the topload,
+ * The winding's sheet carries a piecewise-linear potential between S + 1 equally spaced ladder
+ * nodes z_k = kℓ/S: node 0 at the base (grounded), node S the top. The "conductors" are the
+ * interpolating hat functions φ_k of nodes 1 … S (φ_k(z_j) = δ_kj, linear between nodes) and the
+ * topload (potential 1 on it, 0 elsewhere). The panels stay graded toward the ends (the charge
+ * density is singular there) and are independent of the nodes: each hat is mapped onto the panels
+ * by its mean over each panel, w_kj = (1/|P_j|) ∫_(P_j) φ_k dz (exact, the hat is piecewise linear).
+ * For conductor l the collocation potentials are w_lj at the panel midpoints and the solve gives
+ * the densities σ⁽ˡ⁾; the matrix is the Galerkin form
+ *   C_kl = Σ_j w_kj σ⁽ˡ⁾_j A_j (winding nodes), C_Tl = charge on the topload,
  * so that for any node voltages V the stored energy is ½ Vᵀ C V, the same energy capacitance the
- * field solve forms (field-solve.ts) for a profile given at the nodes: with V_k = z_k/ℓ
- * (the linear profile) Vᵀ C V equals its total capacitance. The collocation form is symmetric only
- * to discretisation accuracy; the returned matrix is the symmetric part, and the largest relative
- * asymmetry is reported (reciprocity, [smythe1950] §3.07: C_kl = C_lk exactly).
+ * field solve forms (field-solve.ts) for the potential Σ V_k φ_k: with V_k = z_k/ℓ (the linear
+ * profile, which the hats reproduce exactly) Vᵀ C V equals its total capacitance. Because the
+ * nodes are uniform and shared with the segment inductance matrix (segment k between nodes k − 1
+ * and k), the ladder is a consistent discretisation whose fundamental converges like 1/S²
+ * (resonator.ts). The collocation form is symmetric only to discretisation accuracy; the returned
+ * matrix is the symmetric part, and the largest relative asymmetry is reported (reciprocity,
+ * [smythe1950] §3.07: C_kl = C_lk exactly).
  */
 import { windingNodeFraction } from './bodies.ts';
 import { assembleCollocationMatrix } from './assembly.ts';
@@ -31,11 +37,11 @@ import { buildPanelLayout, type PanelLayout } from './panels.ts';
 
 /** The Maxwell matrix of the winding's nodes and the topload, SI. */
 export interface NodeCapacitanceMatrix {
-  /** Winding nodes above the base (P = winding panel count). */
+  /** Winding nodes above the base (S, the ladder's segments). */
   nodes: number;
-  /** Heights of the P + 1 nodes as fractions of the winding length, 0 (base) first. */
+  /** Heights of the S + 1 nodes as fractions of the winding length, k/S, 0 (base) first. */
   fractions: Float64Array;
-  /** Conductors: P winding nodes, then the topload when there is one. */
+  /** Conductors: S winding nodes, then the topload when there is one. */
   size: number;
   /** Symmetric size × size matrix, F, row-major. */
   matrix: Float64Array;
@@ -44,6 +50,8 @@ export interface NodeCapacitanceMatrix {
   /** Panels and, per conductor, the densities for unit potential on it (σ, C/m²; λ for rings). */
   layout: PanelLayout;
   densities: Float64Array[];
+  /** Winding panels of the field solve (the first panels of the layout). */
+  windingPanels: number;
   /** Index range of the topload's panels. */
   toploadPanels: { first: number; count: number };
   /** Unknowns of the boundary-element system. */
@@ -55,18 +63,36 @@ export interface NodeCapacitanceMatrix {
   selfCapacitance: number | null;
 }
 
+/** ∫ from −∞ to x of the unit hat max(0, 1 − |t|) dt. */
+function hatIntegral(x: number): number {
+  if (x <= -1) return 0;
+  if (x <= 0) return 0.5 * (1 + x) ** 2;
+  if (x <= 1) return 1 - 0.5 * (1 - x) ** 2;
+  return 1;
+}
+
+/**
+ * Mean of the hat of node k of S uniform nodes over the fraction interval [a, b] (see the header).
+ */
+export function hatPanelMean(k: number, segments: number, a: number, b: number): number {
+  return (hatIntegral(b * segments - k) - hatIntegral(a * segments - k)) / ((b - a) * segments);
+}
+
 /**
  * Solves the arrangement once per conductor. The winding's profile, if any, is ignored.
  * @param arrangement bodies as for solveField (needs a winding)
- * @param windingPanelCount P, the number of winding panels = segments of the finest ladder
+ * @param windingPanelCount P, the number of winding panels of the field solve
+ * @param segments S, the uniform segments of the finest ladder (default P/2: every hat then spans
+ *   at least two of the graded panels, which the piecewise-constant collocation resolves)
  * @returns null when the system is singular or there is no winding
  */
 export function nodeCapacitanceMatrix(
   arrangement: FieldArrangement,
   windingPanelCount: number,
+  segments = Math.max(1, Math.floor(windingPanelCount / 2)),
 ): NodeCapacitanceMatrix | null {
   const winding = arrangement.winding;
-  if (!winding || !(windingPanelCount >= 1)) return null;
+  if (!winding || !(windingPanelCount >= 1) || !(segments >= 1) || !Number.isInteger(segments)) return null;
   const counts = defaultPanelCounts(arrangement);
   const { shapes, windingCount, leadingCount } = arrangementPanels(arrangement, {
     winding: windingPanelCount,
@@ -82,16 +108,26 @@ export function nodeCapacitanceMatrix(
   });
   const pivots = luFactor(matrixA, n);
   if (!pivots) return null;
-  const p = windingCount;
+  const p = segments;
   const size = p + (toploadCount > 0 ? 1 : 0);
+  // w_kj for the hats of nodes 1 … S on the winding panels j (each hat touches few panels).
+  const edges = new Float64Array(windingCount + 1);
+  for (let j = 0; j <= windingCount; j++) edges[j] = windingNodeFraction(j / windingCount);
+  const weights: { panel: number; weight: number }[][] = [];
+  for (let k = 1; k <= p; k++) {
+    const row: { panel: number; weight: number }[] = [];
+    for (let j = 0; j < windingCount; j++) {
+      if (edges[j + 1] <= (k - 1) / p || edges[j] >= (k + 1) / p) continue;
+      const weight = hatPanelMean(k, p, edges[j], edges[j + 1]);
+      if (weight > 0) row.push({ panel: j, weight });
+    }
+    weights.push(row);
+  }
   const densities: Float64Array[] = [];
   for (let l = 0; l < size; l++) {
     const rhs = new Float64Array(n);
-    if (l < p) {
-      // hat of node l + 1: panels l and l + 1 (the top node has only panel p − 1 below it)
-      rhs[l] = 0.5;
-      if (l + 1 < p) rhs[l + 1] = 0.5;
-    } else for (let j = leadingCount; j < n; j++) rhs[j] = 1;
+    if (l < p) for (const { panel, weight } of weights[l]) rhs[panel] = weight;
+    else for (let j = leadingCount; j < n; j++) rhs[j] = 1;
     luSolve(matrixA, n, pivots, rhs);
     if (!rhs.every(Number.isFinite)) return null;
     densities.push(rhs);
@@ -100,9 +136,9 @@ export function nodeCapacitanceMatrix(
   for (let l = 0; l < size; l++) {
     const sigma = densities[l];
     for (let k = 0; k < p; k++) {
-      // ∫ φ_(k+1) σ dA over panels k and k + 1: half of each panel's area (φ linear, r constant)
-      let value = 0.5 * sigma[k] * layout.area[k];
-      if (k + 1 < p) value += 0.5 * sigma[k + 1] * layout.area[k + 1];
+      // ∫ φ_(k+1) σ dA: σ constant on each panel, r constant on the sheet
+      let value = 0;
+      for (const { panel, weight } of weights[k]) value += weight * sigma[panel] * layout.area[panel];
       raw[k * size + l] = value;
     }
     if (toploadCount > 0) {
@@ -121,7 +157,7 @@ export function nodeCapacitanceMatrix(
     }
   }
   const fractions = new Float64Array(p + 1);
-  for (let k = 0; k <= p; k++) fractions[k] = windingNodeFraction(k / p);
+  for (let k = 0; k <= p; k++) fractions[k] = k / p;
   return {
     nodes: p,
     fractions,
@@ -130,6 +166,7 @@ export function nodeCapacitanceMatrix(
     asymmetry,
     layout,
     densities,
+    windingPanels: windingCount,
     toploadPanels: { first: leadingCount, count: toploadCount },
     unknowns: n,
     selfCapacitance,
@@ -164,5 +201,5 @@ export function shapedSurfaceFields(
   };
   for (let k = 0; k < matrix.nodes; k++) add(matrix.densities[k], shape(matrix.fractions[k + 1]));
   if (matrix.size > matrix.nodes) add(matrix.densities[matrix.nodes], shape(1));
-  return densityFields(arrangement, matrix.layout, density, matrix.nodes, matrix.toploadPanels.first);
+  return densityFields(arrangement, matrix.layout, density, matrix.windingPanels, matrix.toploadPanels.first);
 }

@@ -12,15 +12,16 @@
  *   the loss ½ R_eff I_eff² equals Σ ½ R Δ_k i_k²;
  * - the fundamental with a lumped capacitance added at the top node (streamer loading).
  *
- * The segment count: the ladders come from a 32-panel solve (8 and 16 segments); when those two
- * disagree by more than the convergence rule (0.1 %), from a 64-panel solve (8, 16, 32 segments).
+ * The segment count: the ladders (uniform segments) come from a 32-panel solve (8 and 16 segments);
+ * when the Richardson estimate of the 16-segment error (winding-resonator.ts) exceeds 0.1 %, from a
+ * 64-panel solve (8, 16, 32 segments).
  * The capacitance matrix does not depend on the voltage profile (electrostatics is linear), so the
  * modes and the profile need no iteration: a second pass would give the same matrices.
  */
 import { type NodeCapacitanceMatrix, nodeCapacitanceMatrix } from '../electrostatics/capacitance-matrix.ts';
 import type { FieldArrangement, VoltageShape } from '../electrostatics/field-solve.ts';
 import { type ResonatorSolution, solveResonator, voltageAt } from './resonator.ts';
-import { windingResonator } from './winding-resonator.ts';
+import { estimatedError, windingResonator } from './winding-resonator.ts';
 import type { SegmentedWinding } from './segment-inductance.ts';
 
 /** Panel counts tried in turn (see the header). */
@@ -48,9 +49,9 @@ export interface DistributedWinding {
   peakGradientFraction: number;
   /** R_eff / R for the mode's current (see the header). */
   resistanceFactor: number;
-  /** True when two successive segment counts agreed within 0.1 %. */
+  /** True when the kept count's estimated error is within 0.1 % (winding-resonator.ts). */
   converged: boolean;
-  /** |f(n)/f(n/2) − 1| between the last two counts tried (null when only one could be solved). */
+  /** Estimated relative error of the kept fundamental (null when only one count could be solved). */
   lastChange: number | null;
   /** The fundamental with `extraTop` farads added at the top node, Hz (null when the ladder fails). */
   loadedFundamental: (extraTop: number) => number | null;
@@ -66,7 +67,7 @@ export function distributedWinding(
   winding: SegmentedWinding,
 ): DistributedWinding | null {
   for (const panels of RESONATOR_PANELS) {
-    const capacitance = nodeCapacitanceMatrix(arrangement, panels);
+    const capacitance = nodeCapacitanceMatrix(arrangement, panels, panels / 2);
     if (!capacitance) return null;
     const resonator = windingResonator(arrangement, winding, 0, panels, capacitance);
     if (!resonator) return null;
@@ -130,5 +131,5 @@ export function segmentMutuals(
 
 function lastChange(byCount: readonly { frequency: number }[]): number | null {
   if (byCount.length < 2) return null;
-  return Math.abs(byCount[byCount.length - 1].frequency / byCount[byCount.length - 2].frequency - 1);
+  return estimatedError(byCount[byCount.length - 2].frequency, byCount[byCount.length - 1].frequency);
 }

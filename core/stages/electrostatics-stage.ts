@@ -194,12 +194,10 @@ function distributedSolve(
   context.resonator = resonator;
   if (!resonator.converged) {
     const change =
-      resonator.lastChange === null
-        ? ''
-        : ` (the last doubling changed it by ${formatNumber(100 * resonator.lastChange)} %)`;
+      resonator.lastChange === null ? '' : ` (its estimated error is ${formatNumber(100 * resonator.lastChange)} %)`;
     context.warnings.push({
       key: 'resonator_unconverged',
-      message: `the distributed model of the winding stopped at ${resonator.solution.segments} segments before its fundamental converged to 0.1 %${change}: ${formatNumber(secondary.turns)} turns allow no finer segments of at least one turn`,
+      message: `the distributed model of the winding stopped at ${resonator.solution.segments} segments before its fundamental converged to 0.1 %${change}`,
     });
   }
   const matrix = resonator.capacitance;

@@ -6,7 +6,7 @@ import { loopSumSolenoidInductance } from '../../core/inductance/filament-sum.ts
 import { choleskyFactor, generalizedSymmetricEigen, symmetricEigen } from '../../core/resonator/dense-eigen.ts';
 import { foldTopload, solveResonator } from '../../core/resonator/resonator.ts';
 import { segmentInductanceMatrix } from '../../core/resonator/segment-inductance.ts';
-import { windingResonator } from '../../core/resonator/winding-resonator.ts';
+import { estimatedError, windingResonator } from '../../core/resonator/winding-resonator.ts';
 
 describe('dense symmetric eigensolvers', () => {
   it('Jacobi: the (−1, 2, −1) matrix has eigenvalues 2 − 2cos(kπ/(n+1)) (exact; [golubvanloan2013] §4.8)', () => {
@@ -147,14 +147,21 @@ describe('distributed resonator of a winding', () => {
     expect(v[mid]).toBeGreaterThan(resonator.fractions[mid]);
   });
 
-  it('converges in the segment count: fundamental within 0.1 % of the doubled count', () => {
-    // 2000 turns: the finest ladder's end segments (graded like the panels) then hold a turn each
+  it('converges in the segment count: the kept fundamental is within 0.1 % of the limit of a finer solve (Richardson estimate, [richardson1927])', () => {
+    const { arrangement, turns, pitch } = coil(null, 2000);
+    const winding = { radius: 0.08, turns, pitch, wireRadius: WIRE };
     const { resonator } = solve(null, 2000);
     expect(resonator.converged).toBe(true);
     const counts = resonator.fundamentalByCount;
-    const last = counts[counts.length - 1].frequency;
-    const before = counts[counts.length - 2].frequency;
-    expect(Math.abs(before / last - 1)).toBeLessThan(1e-3);
+    const kept = resonator.solution.fundamental.frequency;
+    expect(kept).toBe(counts[counts.length - 1].frequency);
+    expect(estimatedError(counts[counts.length - 2].frequency, kept)).toBeLessThan(1e-3);
+    // the limit from 32 and 64 uniform segments of a 128-panel solve, extrapolated with order 2
+    const fine = windingResonator(arrangement, winding, 0, 128, nodeCapacitanceMatrix(arrangement, 128, 64));
+    const f32 = fine?.fundamentalByCount.find((x) => x.segments === 32)?.frequency ?? Number.NaN;
+    const f64 = fine?.fundamentalByCount.find((x) => x.segments === 64)?.frequency ?? f32;
+    const limit = f64 + (f64 - f32) / 3;
+    expect(Math.abs(kept / limit - 1)).toBeLessThan(1e-3);
   });
 
   it('energy balance of the fundamental: peak electric = peak magnetic energy (Rayleigh quotient; exact)', () => {
