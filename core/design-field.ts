@@ -36,7 +36,8 @@ export function designField(design: Design): DesignField {
   }
   const problems: EvalContext['problems'] = [];
   const arrangement = arrangementFromDesign(design, context.secondary, problems);
-  if (!arrangement) return { evaluation, secondary, primary, arrangement: null, field: null, profile: null, support: null };
+  if (!arrangement)
+    return { evaluation, secondary, primary, arrangement: null, field: null, profile: null, support: null };
   let profile: ((fraction: number) => number) | null = null;
   if (arrangement.winding) {
     const resonator = context.resonator;
