@@ -40,6 +40,7 @@ import { TASKS_IN_FLIGHT_PER_THREAD } from '../run/sweep-run.ts';
 import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
 import { designFromValue } from '../cli/load-design.ts';
 import { parseInputText } from '../cli/read-file.ts';
+import { outputEntries, sortedFront } from '../cli/sweep-outputs.ts';
 import { SAFETY_CAUTIONS, SAFETY_LINE } from '../cli/safety.ts';
 import { type SweepSpec, sweepFromValue } from '../cli/sweep-spec.ts';
 
@@ -144,8 +145,11 @@ export function evaluateDesign(design: Design): DesignEvaluation {
 
 /** One candidate of a sweep or a refinement, as a row of candidates.csv holds it but in SI units. */
 export interface Candidate {
-  /** 1-based position in the ranking (the `rank` column of candidates.csv). */
-  rank: number;
+  /**
+   * 1-based position in its list (the `rank` column of candidates.csv, or the order of infeasible.csv);
+   * on the front, its rank among the candidates, or `null` when it is not among them.
+   */
+  rank: number | null;
   /** The sample index of the design (a refined design: an index after the samples). */
   sampleIndex: number;
   /** 1 on the Pareto front, 2 on the next front, …; `null` for an infeasible candidate. */
@@ -204,9 +208,11 @@ export interface SweepOptions {
 
 /** What {@link sweep} returns. */
 export interface SweepResult {
-  /** The kept candidates in final order (feasible by Pareto rank and crowding, then infeasible). */
+  /** The best feasible designs, at most `keep`, by Pareto rank and then crowding (candidates.csv). */
   candidates: Candidate[];
-  /** The non-dominated feasible candidates, by sample index (front.csv). */
+  /** The infeasible designs closest to feasible, at most `keep`, by violation (infeasible.csv). */
+  nearMisses: Candidate[];
+  /** The non-dominated feasible designs, by the first objective, then the others (front.csv). */
   front: Candidate[];
   /** Counts by outcome. */
   counts: SweepCounts;
@@ -245,8 +251,8 @@ function parameterValue(dimension: Dimension, value: number): number | string {
 /** A pool entry as a candidate of the API. */
 function candidateOf(
   space: DesignSpace,
-  entry: PoolEntry<PackedRow> | RankedEntry<PackedRow>,
-  rank: number,
+  entry: PoolEntry<PackedRow>,
+  rank: number | null,
   ranked: RankedEntry<PackedRow> | null,
 ): Candidate {
   const dimensions = space.definition.dimensions;
@@ -277,16 +283,15 @@ function candidateOf(
   };
 }
 
-/** The ranked candidates and the front of a pool, as candidates of the API. */
-function candidatesOf(space: DesignSpace, pool: CandidatePool<PackedRow>): { ranked: Candidate[]; front: Candidate[] } {
-  const rankedEntries = pool.ranked();
-  const ranked = rankedEntries.map((entry, k) => candidateOf(space, entry, k + 1, entry));
-  const rankOf = new Map(rankedEntries.map((entry, k) => [entry.item.index, k]));
-  const front = pool.front().map((entry) => {
-    const k = rankOf.get(entry.item.index);
-    return k === undefined ? candidateOf(space, entry, 0, null) : ranked[k];
-  });
-  return { ranked, front };
+/** Ranked entries as candidates of the API, ranks from 1. */
+function rankedCandidates(space: DesignSpace, entries: RankedEntry<PackedRow>[]): Candidate[] {
+  return entries.map((entry, k) => candidateOf(space, entry, k + 1, entry));
+}
+
+/** The front in front.csv's order, each candidate with its rank in `ranked` (null when not listed there). */
+function frontCandidates(space: DesignSpace, pool: CandidatePool<PackedRow>, ranked: Candidate[]): Candidate[] {
+  const byIndex = new Map(ranked.map((candidate) => [candidate.sampleIndex, candidate]));
+  return sortedFront(pool).map((entry) => byIndex.get(entry.item.index) ?? candidateOf(space, entry, null, null));
 }
 
 /**
@@ -342,6 +347,8 @@ export async function sweep(spec: string | object, options: SweepOptions = {}): 
       }
       if (inFlight.size === 0) break;
       await Promise.race(inFlight);
+      // In this thread the batches resolve at once: let timers and abort handlers run between rounds.
+      if (workers === 0) await new Promise((resolve) => setImmediate(resolve));
     }
     await Promise.allSettled(inFlight);
   } finally {
@@ -349,10 +356,13 @@ export async function sweep(spec: string | object, options: SweepOptions = {}): 
   }
   if (failure !== null) throw (failure as { error: unknown }).error;
 
-  const { ranked, front } = candidatesOf(space, state.pool);
+  const keep = state.keep;
+  const { ranked, misses } = outputEntries(state, keep);
+  const candidates = rankedCandidates(space, ranked);
   const result: SweepResult = {
-    candidates: ranked,
-    front,
+    candidates,
+    nearMisses: rankedCandidates(space, misses),
+    front: frontCandidates(space, state.pool, candidates),
     counts: { ...state.counts },
     complete: finished === batchCount,
     samples: total,
@@ -378,9 +388,12 @@ export interface RefineOptions {
 
 /** What {@link refine} returns. */
 export interface RefineResult {
-  /** Every feasible design the refinement evaluated, ranked; sample indices follow the sweep's. */
+  /**
+   * Every feasible design the refinement evaluated, ranked, at most the sweep's `keep`
+   * (refine-trials.csv); their sample indices follow the sweep's samples.
+   */
   refined: Candidate[];
-  /** The sweep's front merged with the refined designs: the non-dominated feasible set. */
+  /** The sweep's front merged with the refined designs: the non-dominated feasible set (front.csv after refine). */
   front: Candidate[];
   /** Hypervolume of the sweep's front (minimisation convention), or `null` without a front. */
   hypervolumeBefore: number | null;
@@ -430,10 +443,10 @@ export async function refine(result: SweepResult, options: RefineOptions = {}): 
   } finally {
     await evaluator.close();
   }
-  const refined = candidatesOf(space, outcome.refined).ranked;
+  const refined = rankedCandidates(space, outcome.refined.ranked(state.keep));
   return {
     refined,
-    front: candidatesOf(space, outcome.merged).front,
+    front: frontCandidates(space, outcome.merged, refined),
     hypervolumeBefore: outcome.hypervolumeBefore,
     hypervolumeAfter: outcome.hypervolumeAfter,
     evaluations: outcome.evaluations,
