@@ -204,6 +204,8 @@ export interface SweepOptions {
   signal?: AbortSignal;
   /** The name error messages start with; `sweep` unless given. */
   name?: string;
+  /** Accept more than 20 million samples (as `--force`); refused unless set. */
+  force?: boolean;
 }
 
 /** What {@link sweep} returns. */
@@ -310,7 +312,9 @@ export async function sweep(spec: string | object, options: SweepOptions = {}): 
   checkWholeNumber('workers', options.workers, 0);
   checkWholeNumber('keep', options.keep, 1);
   checkWholeNumber('batchSize', options.batchSize, 1);
-  const parsed = sweepFromValue(typeof spec === 'string' ? parseInputText(spec, name) : spec, name, { force: true });
+  const parsed = sweepFromValue(typeof spec === 'string' ? parseInputText(spec, name) : spec, name, {
+    force: options.force ?? false,
+  });
   const space = new DesignSpace(spaceDefinitionOf(parsed));
   const state = new SweepState(parsed.objectives, parsed.constraints, options.keep ?? DEFAULT_KEEP, parsed.seed);
   const total = parsed.samples;

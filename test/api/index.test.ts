@@ -114,6 +114,8 @@ describe('sweep', () => {
     await expect(sweep({ design: {} }, { workers: 0 })).rejects.toThrow(InputError);
     await expect(sweep(smallSweep(8), { workers: -1 })).rejects.toThrow(/^workers: expected a whole number/);
     await expect(sweep('sweep: { samples: 8 }', { name: 'night.yaml' })).rejects.toThrow(/^night\.yaml: design: /);
+    const huge = { ...smallSweep(8), sweep: { method: 'random', samples: 30_000_000, seed: 1 } };
+    await expect(sweep(huge, { workers: 0 })).rejects.toThrow(/--force/);
   });
 });
 
