@@ -34,7 +34,7 @@ import type { CandidatePool, PoolEntry, RankedEntry } from '../optimize/pareto/c
 import type { PackedRow } from '../optimize/packed-row.ts';
 import { refineSweep } from '../optimize/refine-run.ts';
 import { SweepState } from '../optimize/sweep-state.ts';
-import { InputError } from '../run/input-error.ts';
+import { fieldError, InputError, optionError } from '../run/input-error.ts';
 import { DEFAULT_KEEP, measureBatchSize } from '../run/sweep-setup.ts';
 import { TASKS_IN_FLIGHT_PER_THREAD } from '../run/sweep-run.ts';
 import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
@@ -135,7 +135,7 @@ export function readDesign(input: string | object, options: ReadOptions = {}): D
 export function evaluateDesign(design: Design): DesignEvaluation {
   const evaluation = evaluateInCore(design);
   const problem = evaluation.problems[0];
-  if (problem) throw new InputError(`design: ${problem.field}: ${problem.reason}`);
+  if (problem) throw fieldError('design', { path: problem.field.split('.'), message: problem.reason });
   return {
     metrics: { ...evaluation.metrics },
     warnings: evaluation.warnings.map((warning) => ({ key: warning.key, message: warning.message })),
@@ -241,7 +241,7 @@ function evaluatorOf(spec: SweepSpec, space: DesignSpace, workers: number): Batc
 
 function checkWholeNumber(option: string, value: number | undefined, min: number): void {
   if (value !== undefined && (!Number.isInteger(value) || value < min))
-    throw new InputError(`${option}: expected a whole number of at least ${min}, got ${value}`);
+    throw optionError(option, `expected a whole number of at least ${min}, got ${value}`);
 }
 
 /** The label of the choice of a set dimension at `value` (its index), or the SI number of a range. */
@@ -419,7 +419,7 @@ export interface RefineResult {
  */
 export async function refine(result: SweepResult, options: RefineOptions = {}): Promise<RefineResult> {
   const inside = internals.get(result);
-  if (!inside) throw new InputError('refine: expected the result of sweep()');
+  if (!inside) throw optionError('refine', 'expected the result of sweep()');
   checkWholeNumber('starts', options.starts, 1);
   checkWholeNumber('evaluations', options.evaluations, 1);
   checkWholeNumber('workers', options.workers, 0);
