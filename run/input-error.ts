@@ -35,6 +35,7 @@ export function escapeControlCharacters(text: string): string {
 
 /** A problem with the user's input; the CLI prints `message` alone and exits with code 2. */
 export class InputError extends Error {
+  /** The exit code the command line ends with: 2. */
   readonly exitCode = 2;
   constructor(message: string) {
     super(escapeControlCharacters(message));
