@@ -281,7 +281,8 @@ export function buildSheet(
     // the tap with streamer loading: the same inductance table, tuned to the loaded frequency
     // the tank as built: the bank's capacitance when the design has one
     const tankCapacitance = m.tank_bank_capacitance ?? design.tank?.capacitance;
-    const loaded = loadedFrequency(design, evaluation);
+    // (three coils: the tap is set for the 1:2:3 modes, not to one frequency, so no single loaded tap)
+    const loaded = design.resonator ? null : loadedFrequency(design, evaluation);
     if (tankCapacitance !== undefined && loaded !== null) {
       const table = primaryInductanceTable(rings, primary.conductorDiameter / 2);
       const required = 1 / ((2 * Math.PI * loaded.frequency) ** 2 * tankCapacitance);
@@ -601,6 +602,10 @@ export function buildSheet(
         });
         notes.push(
           `Start at ${formatNumber(tap)} turns, the bare tuning. As the sparks lengthen the secondary's frequency falls: move the tap outward, towards ${formatNumber(loadedTap)} turns, a quarter turn at a time, and keep the position that gives the longest sparks${design.driver?.kind === 'spark_gap' ? ' (common practice: run the tank a few per cent below the bare secondary)' : ''}.`,
+        );
+      } else if (design.resonator) {
+        notes.push(
+          `Start at ${formatNumber(tap)} turns: with three coils the tap is the one that brings the three modes nearest 1:2:3 (three_coil_ratio_error), not the tuning to one frequency. Streamers load the resonator's top and pull its mode down; retune with the line length or the tap while watching the spark, a quarter turn at a time.`,
         );
       } else {
         if (beyondPrimary !== null) notes.push(`Note: ${beyondPrimary}.`, '');

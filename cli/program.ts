@@ -74,6 +74,36 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .configureOutput({ writeOut: (text) => io.out(text), writeErr: (text) => io.err(text) })
     .showHelpAfterError(false);
 
+  const setExit = (code: number) => {
+    exitCode = code;
+  };
+  registerDesignCommands(program, io, setExit);
+  registerStudyCommands(program, io, setExit);
+  registerRunCommands(program, io, setExit);
+  registerBuildCommands(program, io, setExit);
+
+  try {
+    await program.parseAsync(argv, { from: 'user' });
+    return exitCode;
+  } catch (error) {
+    if (error instanceof InputError) {
+      io.err(`coilfront: ${error.message}\n`);
+      return error.exitCode;
+    }
+    if (error instanceof CommanderError) {
+      if (error.code === 'commander.helpDisplayed' || error.code === 'commander.version' || error.exitCode === 0)
+        return 0;
+      return 2;
+    }
+    const message = error instanceof Error ? error.message : String(error);
+    io.err(`coilfront: internal error: ${message}\n  (this is a bug; please report it with the input file)\n`);
+    if (process.env.COILFRONT_DEBUG && error instanceof Error) io.err(`${error.stack}\n`);
+    return 70;
+  }
+}
+
+/** Commands on one design file and on a run's candidates: evaluate, check, schema, the views, show. */
+function registerDesignCommands(program: Command, io: CliIo, setExit: (code: number) => void): void {
   program
     .command('evaluate')
     .description('evaluate one design file and print a report (or --json)')
@@ -84,15 +114,13 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .action(async (file: string | undefined, options: { json?: boolean; batch?: string; workers?: number }) => {
       if (options.batch !== undefined) {
         if (file !== undefined) throw new InputError('evaluate: give a design file or --batch, not both');
-        exitCode = await batchEvaluate(
-          options.batch,
-          io,
-          options.workers !== undefined ? { workers: options.workers } : {},
+        setExit(
+          await batchEvaluate(options.batch, io, options.workers !== undefined ? { workers: options.workers } : {}),
         );
         return;
       }
       if (file === undefined) throw new InputError('evaluate: give a design file (or --batch FILE.jsonl)');
-      exitCode = evaluateCommand(file, options, io);
+      setExit(evaluateCommand(file, options, io));
     });
 
   program
@@ -102,7 +130,7 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .option('--workers <n>', 'workers to estimate for', integer('--workers'))
     .option('--force', 'allow sample counts beyond the documented limit')
     .action((spec: string, options: { workers?: number; force?: boolean }) => {
-      exitCode = checkCommand(spec, options, io);
+      setExit(checkCommand(spec, options, io));
     });
 
   program
@@ -112,10 +140,7 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .action((options: { design?: boolean }) => {
       io.out(`${JSON.stringify(options.design ? designFileSchema() : sweepSchema(), null, 2)}\n`);
     });
-
-  registerViewCommands(program, io, (code) => {
-    exitCode = code;
-  });
+  registerViewCommands(program, io, setExit);
 
   program
     .command('show')
@@ -128,9 +153,12 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .option('--refined <rank>', 'a design of refined.csv instead (the same as rN)')
     .option('--sample <index>', 'the design of a sample index (the sample_index column)')
     .action((run: string, rank: string | undefined, options: { refined?: string; sample?: string }) => {
-      exitCode = showCommand(run, rank, options, io);
+      setExit(showCommand(run, rank, options, io));
     });
+}
 
+/** Studies of a finished sweep or of a sweep file: refine, sensitivity, tolerance, evolve. */
+function registerStudyCommands(program: Command, io: CliIo, setExit: (code: number) => void): void {
   program
     .command('refine')
     .description("polish a sweep's best candidates and its Pareto front with Nelder-Mead")
@@ -139,7 +167,7 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .option('--evaluations <n>', 'total evaluation budget, shared by the starts', integer('--evaluations'), 2000)
     .option('--workers <n>', 'worker threads (default: available parallelism)', integer('--workers'))
     .action(async (run: string, options: RefineCommandOptions) => {
-      exitCode = await refineCommand(run, options, io);
+      setExit(await refineCommand(run, options, io));
     });
 
   program
@@ -150,7 +178,7 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .option('--workers <n>', 'worker threads (default: available parallelism)', integer('--workers'))
     .option('--out <dir>', 'directory for sensitivity.csv and sensitivity.json', '.')
     .action(async (file: string, options: SensitivityOptions) => {
-      exitCode = await sensitivityCommand(file, options, io);
+      setExit(await sensitivityCommand(file, options, io));
     });
 
   program
@@ -163,7 +191,7 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .option('--workers <n>', 'worker threads (default: available parallelism)', integer('--workers'))
     .option('--out <dir>', 'directory for tolerance.csv and tolerance.json of a design file', '.')
     .action(async (target: string, options: ToleranceCommandOptions) => {
-      exitCode = await toleranceCommand(target, options, io);
+      setExit(await toleranceCommand(target, options, io));
     });
 
   program
@@ -175,9 +203,12 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .option('--seed <n>', "seed of the stage's random draws (default: the sweep's)", integer('--seed'))
     .option('--workers <n>', 'worker threads (default: available parallelism)', integer('--workers'))
     .action(async (run: string, options: EvolveCommandOptions) => {
-      exitCode = await evolveCommand(run, options, io);
+      setExit(await evolveCommand(run, options, io));
     });
+}
 
+/** The overnight run and its companions: merge, demo, sweep. */
+function registerRunCommands(program: Command, io: CliIo, setExit: (code: number) => void): void {
   program
     .command('merge')
     .description('merge the shard directories of one sweep into the outputs of a single run')
@@ -185,7 +216,7 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .option('--out <dir>', 'directory for the merged results')
     .option('--overwrite', 'write into a non-empty output directory')
     .action(async (shards: string[], options: { out?: string; overwrite?: boolean }) => {
-      exitCode = await mergeCommand(shards, options, io);
+      setExit(await mergeCommand(shards, options, io));
     });
 
   program
@@ -193,7 +224,7 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .description('sweep the example science-centre scenario into runs/demo and print the best five')
     .option('--workers <n>', 'worker threads', integer('--workers'))
     .action(async (options: { workers?: number }) => {
-      exitCode = await demoCommand(options, io);
+      setExit(await demoCommand(options, io));
     });
 
   program
@@ -225,9 +256,12 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .option('--quiet', 'no progress on stderr')
     .action(async (spec: string | undefined, given: Omit<SweepOptions, 'syncEvery'> & SyncEveryFlags) => {
       const { syncEvery, checkpointEvery, ...options } = given;
-      exitCode = await sweepCommand(spec, { ...options, syncEvery: syncEvery ?? checkpointEvery ?? '5s' }, io);
+      setExit(await sweepCommand(spec, { ...options, syncEvery: syncEvery ?? checkpointEvery ?? '5s' }, io));
     });
+}
 
+/** From a candidate to a machine on the bench: sheet, stock, retune. */
+function registerBuildCommands(program: Command, io: CliIo, setExit: (code: number) => void): void {
   program
     .command('sheet')
     .description('the build sheet of a design file or of a ranked candidate of a run (Markdown, and a parts CSV)')
@@ -239,7 +273,7 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .option('--sample <index>', 'the design of a sample index (the sample_index column)')
     .option('--reel-mass <mass>', 'copper on one reel of magnet wire (default 1 kg)')
     .action((target: string, rank: string | undefined, options: SheetCommandOptions) => {
-      exitCode = sheetCommand(target, rank, options, io);
+      setExit(sheetCommand(target, rank, options, io));
     });
 
   program
@@ -247,7 +281,7 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     .description('list the stock catalogues (pipe, tube, magnet wire), or the sizes of one')
     .argument('[name]', 'catalogue name')
     .action((name: string | undefined) => {
-      exitCode = stockCommand(name, io);
+      setExit(stockCommand(name, io));
     });
 
   program
@@ -261,25 +295,6 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     )
     .option('--json', 'print the retune as JSON (SI units)')
     .action((file: string, options: { measured?: string[]; json?: boolean }) => {
-      exitCode = retuneCommand(file, options, io);
+      setExit(retuneCommand(file, options, io));
     });
-
-  try {
-    await program.parseAsync(argv, { from: 'user' });
-    return exitCode;
-  } catch (error) {
-    if (error instanceof InputError) {
-      io.err(`coilfront: ${error.message}\n`);
-      return error.exitCode;
-    }
-    if (error instanceof CommanderError) {
-      if (error.code === 'commander.helpDisplayed' || error.code === 'commander.version' || error.exitCode === 0)
-        return 0;
-      return 2;
-    }
-    const message = error instanceof Error ? error.message : String(error);
-    io.err(`coilfront: internal error: ${message}\n  (this is a bug; please report it with the input file)\n`);
-    if (process.env.COILFRONT_DEBUG && error instanceof Error) io.err(`${error.stack}\n`);
-    return 70;
-  }
 }

@@ -117,7 +117,14 @@ describe('the example tolerance file', () => {
   it('reads and runs (two builds)', async () => {
     const dir = scratch();
     const { io, text } = capture();
-    const args = ['tolerance', DESIGN, '--tolerances', 'examples/tabletop-tolerances.yaml', '--draws', '2'];
+    const args = [
+      'tolerance',
+      DESIGN,
+      '--tolerances',
+      'examples/tolerances/tabletop-teaching-coil.yaml',
+      '--draws',
+      '2',
+    ];
     expect(await runCli([...args, '--workers', '0', '--out', dir], io)).toBe(0);
     expect(text()).toContain('2 builds per candidate, 7 toleranced fields');
   }, 60_000);

@@ -1,0 +1,78 @@
+/**
+ * The layering of the source tree, read from the imports themselves: each layer imports only itself
+ * and the layers below it (cli → run → workers → optimize → core), and no file reaches itself
+ * through its imports (no cycles). The rule is ours (DEVELOPERS.md); the check is exact.
+ */
+import { readdirSync, readFileSync, statSync } from 'node:fs';
+import { dirname, join, normalize, relative } from 'node:path';
+import { describe, expect, it } from 'vitest';
+
+const ORDER = ['core', 'optimize', 'workers', 'run', 'cli'] as const;
+type Layer = (typeof ORDER)[number];
+
+function sourceFiles(folder: string): string[] {
+  const out: string[] = [];
+  for (const name of readdirSync(folder)) {
+    const path = join(folder, name);
+    if (statSync(path).isDirectory()) out.push(...sourceFiles(path));
+    else if (name.endsWith('.ts')) out.push(path);
+  }
+  return out;
+}
+
+/**
+ * Relative imports of a file (static and dynamic), resolved to repository paths; with `types: false`
+ * the whole-statement `import type` ones (erased by the compiler, so they order nothing at run time)
+ * are left out.
+ */
+function importsOf(file: string, types: boolean): string[] {
+  let text = readFileSync(file, 'utf8');
+  if (!types) text = text.replace(/^import type [^;]*;/gm, '');
+  const found: string[] = [];
+  for (const match of text.matchAll(/(?:from|import)\s*\(?\s*['"](\.{1,2}\/[^'"]+)['"]/g)) {
+    const spec = match[1];
+    if (spec !== undefined) found.push(normalize(join(dirname(file), spec)));
+  }
+  return found;
+}
+
+const layerOf = (path: string): Layer | undefined => ORDER.find((layer) => path.startsWith(`${layer}/`));
+const files = ORDER.flatMap((layer) => sourceFiles(layer));
+const graph = new Map(files.map((file) => [file, importsOf(file, true)]));
+const runtimeGraph = new Map(files.map((file) => [file, importsOf(file, false)]));
+
+describe('the source layers', () => {
+  it('import only their own layer and the layers below (cli → run → workers → optimize → core)', () => {
+    const upward: string[] = [];
+    for (const [file, targets] of graph) {
+      const from = ORDER.indexOf(layerOf(file) as Layer);
+      for (const target of targets) {
+        const layer = layerOf(target);
+        if (layer === undefined) {
+          upward.push(`${file} → ${relative('.', target)} (outside the layers)`);
+          continue;
+        }
+        if (ORDER.indexOf(layer) > from) upward.push(`${file} → ${target}`);
+      }
+    }
+    expect(upward).toEqual([]);
+  });
+
+  it('have no import cycles at run time (type-only imports aside)', () => {
+    const state = new Map<string, 'open' | 'done'>();
+    const cycles: string[] = [];
+    const visit = (file: string, trail: string[]) => {
+      const seen = state.get(file);
+      if (seen === 'done') return;
+      if (seen === 'open') {
+        cycles.push([...trail.slice(trail.indexOf(file)), file].join(' → '));
+        return;
+      }
+      state.set(file, 'open');
+      for (const target of runtimeGraph.get(file) ?? []) if (runtimeGraph.has(target)) visit(target, [...trail, file]);
+      state.set(file, 'done');
+    };
+    for (const file of runtimeGraph.keys()) visit(file, []);
+    expect(cycles).toEqual([]);
+  });
+});
