@@ -86,7 +86,7 @@ export function readStages(input: unknown, issues: InputIssue[]): StageSpec[] {
     const known = STAGE_SETTINGS[stage];
     const values: Record<string, number> = {};
     for (const [key, value] of Object.entries(settings)) {
-      const bounds = known[key];
+      const bounds = Object.hasOwn(known, key) ? known[key] : undefined;
       if (bounds === undefined) {
         const guess = suggest(key, Object.keys(known));
         issues.push({

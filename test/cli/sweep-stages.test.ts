@@ -126,6 +126,7 @@ describe('coilfront sweep with sweep.stages', () => {
       ],
       ['[ { evolve: { population: 3 } } ]', 'sweep.stages[0].evolve.population: expected a whole number of at least 4'],
       ['[ { evolve: { budget: 10 } } ]', "sweep.stages[0].evolve.budget: unknown key 'budget'"],
+      ['[ { refine: { toString: 1 } } ]', "sweep.stages[0].refine.toString: unknown key 'toString'"],
       ['[ evolve, { refin: {} } ]', "sweep.stages[1]: unknown stage 'refin' (did you mean 'refine'?)"],
       ['[ { refine: { starts: 1.5 } } ]', 'sweep.stages[0].refine.starts: expected a whole number of at least 1'],
       ['[ { refine: 8 } ]', 'sweep.stages[0].refine: expected a mapping of settings'],
