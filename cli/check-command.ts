@@ -10,6 +10,7 @@ import { defaultWorkerCount } from '../workers/pool.ts';
 import { measureBatchSize } from '../run/sweep-setup.ts';
 import { discreteLevels, loadSweepFile } from './sweep-spec.ts';
 import { SAFETY_LINE } from './safety.ts';
+import { describeStage } from './sweep-stages.ts';
 import type { QuantityKind } from './units.ts';
 
 export function checkCommand(file: string, options: { workers?: number; force?: boolean }, io: CliIo): number {
@@ -46,6 +47,8 @@ export function checkCommand(file: string, options: { workers?: number; force?: 
   lines.push(`constraints: ${spec.constraints.length ? spec.constraints.map((c) => c.metric).join(', ') : 'none'}`);
   lines.push(`objectives: ${spec.objectives.map((o) => `${o.sense} ${o.metric}`).join(', ')}`);
   lines.push(`sampling: ${spec.method}, ${spec.samples} designs, seed ${spec.seed}`);
+  if (spec.stages && spec.stages.length > 0)
+    lines.push(`stages after the sweep: ${spec.stages.map((stage) => describeStage(stage)).join(', then ')}`);
   const space = new DesignSpace(spaceDefinitionOf(spec));
   const { secondsPerDesign } = measureBatchSize(space, [0, Math.min(spec.samples, 64)]);
   const workers = options.workers ?? defaultWorkerCount();

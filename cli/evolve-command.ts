@@ -18,7 +18,7 @@ import { type EvolveOutcome, evolveSweep, type GenerationRecord } from '../optim
 import type { RankedEntry } from '../optimize/pareto/candidate-pool.ts';
 import type { PackedRow } from '../optimize/packed-row.ts';
 import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
-import { openJournal, readJournal } from '../run/durable/journal.ts';
+import { journalRecords, openJournal } from '../run/durable/journal.ts';
 import { lockRunOrRefuse } from '../run/sweep-setup.ts';
 import { InputError, optionError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
@@ -77,21 +77,35 @@ export async function evolveCommand(directory: string, options: EvolveCommandOpt
       population: options.population,
     };
     const journalPath = join(directory, RUN_FILES.evolveJournal);
-    let replay: GenerationRecord[] = [];
     if (existsSync(journalPath)) {
-      const [first, ...rest] = readJournal(journalPath).records;
-      if (JSON.stringify(first) === JSON.stringify(identity)) replay = rest as GenerationRecord[];
-      else if (first !== undefined) {
+      // Only the first record is read here; the generations are streamed into the stage below.
+      const records = journalRecords(journalPath);
+      const first = records.next();
+      records.return(undefined as never);
+      if (!first.done && JSON.stringify(first.value) !== JSON.stringify(identity)) {
         io.err(`${journalPath}: from an evolve with other settings or an earlier sweep; starting over\n`);
         rmSync(journalPath, { force: true });
       }
     }
-    if (replay.length > 0) io.err(`resuming evolve in ${directory}: ${replay.length} generations from the journal\n`);
-    const journal = openJournal(journalPath);
+    // Opened without keeping its records (a torn tail is cut off): memory stays flat in its length.
+    const journal = openJournal(journalPath, { keepRecords: false });
+    const replayCount = Math.max(0, journal.recordCount - 1);
+    if (replayCount > 0) io.err(`resuming evolve in ${directory}: ${replayCount} generations from the journal\n`);
     if (journal.recordCount === 0) {
       journal.append(identity);
       journal.sync();
     }
+    const replay: Iterable<GenerationRecord> = {
+      *[Symbol.iterator]() {
+        if (replayCount === 0) return;
+        let index = 0;
+        for (const record of journalRecords(journalPath)) {
+          // The identity first, then at most the generations counted when the journal was opened.
+          if (index > 0 && index <= replayCount) yield record as GenerationRecord;
+          if (++index > replayCount) return;
+        }
+      },
+    };
     const candidates = candidateNumbering(outputEntries(state, record.keep).ranked);
     const threads = options.workers ?? defaultWorkerCount();
     const space = new DesignSpace(spaceDefinitionOf(spec));

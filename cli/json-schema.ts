@@ -6,6 +6,7 @@ import { METRIC_KEYS } from '../core/metrics.ts';
 import { DESIGN_SECTIONS, type FieldSpec, type SectionSpec } from './design-fields.ts';
 import { unitsOf } from './units.ts';
 import { STOCK_CATALOGUES } from './stock/catalogues.ts';
+import { stagesSchema } from './sweep-stages.ts';
 
 type Schema = Record<string, unknown>;
 
@@ -147,6 +148,7 @@ export function sweepSchema(): Schema {
           levels: { type: 'integer', minimum: 2, maximum: 1000 },
           shard_count: { type: 'integer', minimum: 1 },
           reference_point: { type: 'object', additionalProperties: bound },
+          stages: stagesSchema(),
         },
         additionalProperties: false,
       },

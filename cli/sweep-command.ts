@@ -11,7 +11,7 @@ import { removeLeftoverTemporaryFiles } from '../run/durable/atomic-write.ts';
 import { DiskError, toDiskError } from '../run/durable/disk-error.ts';
 import { installStopSignal } from '../run/durable/stop-signal.ts';
 import { InputError, optionError } from '../run/input-error.ts';
-import { runDigits, type RunRecord } from '../run/run-directory.ts';
+import { RUN_FILES, runDigits, type RunRecord } from '../run/run-directory.ts';
 import { describeShard } from '../run/shard.ts';
 import {
   type CheckpointData,
@@ -28,6 +28,9 @@ import { candidateCells, columnSet } from './sweep-columns.ts';
 import { writeSweepOutputs, type RunIdentity } from './sweep-outputs.ts';
 import { loadRunSpec, loadSweepFile, type SweepSpec } from './sweep-spec.ts';
 import { formatTopCandidates, NO_FEASIBLE_EXIT_CODE } from './top-candidates.ts';
+import { runStages, stagesStarted, writeStagesProgress } from './stage-runner.ts';
+import { readSweepState } from './stage-outputs.ts';
+import { stagesIdentity } from './sweep-spec.ts';
 
 export interface SweepOptions {
   out?: string;
@@ -72,6 +75,10 @@ function openRun(specFile: string | undefined, options: SweepOptions): OpenedRun
     const spec = loadRunSpec(directory);
     const given =
       specFile !== undefined ? { file: specFile, problem: loadSweepFile(specFile, { force: true }) } : undefined;
+    if (given && stagesIdentity(given.problem) !== stagesIdentity(spec))
+      throw new InputError(
+        `--resume ${directory}: refused: the stages (sweep.stages) of ${specFile} differ from those of the run's ${RUN_FILES.spec}`,
+      );
     const opened = resumeSweepRun(directory, spec, {
       ...(given ? { given } : {}),
       ...(options.keep !== undefined ? { keep: options.keep } : {}),
@@ -105,7 +112,11 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
     if (!options.quiet) io.err(`${line}\n`);
   };
   const { directory, spec, record, checkpoint } = openRun(specFile, options);
+  const stages = record.shard ? [] : (spec.stages ?? []);
+  if (record.shard && (spec.stages ?? []).length > 0)
+    log(`a shard runs no stages: run them on the merged directory (npx coilfront evolve, refine)`);
   const lock = lockRunOrRefuse(directory);
+  let code: number;
   try {
     if (options.resume !== undefined)
       for (const leftover of removeLeftoverTemporaryFiles(directory))
@@ -114,16 +125,30 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
       log(
         `${describeShard({ ...record.shard, source: shardSourceOf(record) })}: sample indices ${record.range[0]} to ${record.range[1] - 1}`,
       );
-    return await sweepAndReport(directory, spec, record, checkpoint, {
-      options,
-      io,
-      log,
-      journalSyncSeconds,
-      timeLimitSeconds,
-    });
+    // A run whose stages have begun has its sweep finished and written: it goes on with the stages.
+    if (options.resume !== undefined && stages.length > 0 && stagesStarted(directory)) {
+      log(`the sweep of ${directory} is finished; continuing with its stages`);
+      code = readSweepState(directory, spec, record.keep).counts.feasible === 0 ? NO_FEASIBLE_EXIT_CODE : 0;
+    } else {
+      const swept = await sweepAndReport(directory, spec, record, checkpoint, {
+        options,
+        io,
+        log,
+        journalSyncSeconds,
+        timeLimitSeconds,
+      });
+      if (!swept.finished || stages.length === 0) return swept.code;
+      code = swept.code;
+      // The sweep's outputs are written: from here a resume continues with the stages.
+      writeStagesProgress(directory, []);
+    }
   } finally {
     lock.release();
   }
+  // Each stage takes the run's lock itself, as its command does.
+  const stageIo: CliIo = options.quiet ? { ...io, err: () => {} } : io;
+  const stageCode = await runStages(directory, stages, options.workers, stageIo, log);
+  return stageCode !== 0 ? stageCode : code;
 }
 
 interface LoopSettings {
@@ -140,7 +165,7 @@ async function sweepAndReport(
   record: RunRecord,
   checkpoint: CheckpointData | null,
   { options, io, log, journalSyncSeconds, timeLimitSeconds }: LoopSettings,
-): Promise<number> {
+): Promise<{ code: number; finished: boolean }> {
   const digits = runDigits(record);
   const columns = columnSet(spec.dimensions);
   const identity: RunIdentity = {
@@ -205,7 +230,7 @@ async function sweepAndReport(
       const diskError = error instanceof DiskError ? error : toDiskError(error, directory, 'write');
       io.err(`coilfront: ${diskError.message}\n  ${resumeHint}\n`);
     }
-    return 1;
+    return { code: 1, finished: false };
   }
   const { state, complete } = outcome;
   if (!complete) {
@@ -214,11 +239,11 @@ async function sweepAndReport(
     io.err(
       `stopped: ${why} after ${state.counts.evaluated} of ${record.range[1] - record.range[0]} designs; outputs so far are in ${directory}\n  resume with: npx coilfront sweep --resume ${directory}\n`,
     );
-    return stop.exitCode();
+    return { code: stop.exitCode(), finished: false };
   }
   if (!options.quiet) io.out(formatTopCandidates(directory, spec, state, 5));
   else if (state.counts.feasible === 0) io.err(`coilfront: no feasible design in ${directory}; see infeasible.csv\n`);
-  return state.counts.feasible === 0 && !record.shard ? NO_FEASIBLE_EXIT_CODE : 0;
+  return { code: state.counts.feasible === 0 && !record.shard ? NO_FEASIBLE_EXIT_CODE : 0, finished: true };
 }
 
 /** The progress line: refreshed in place on a terminal, one line every ten seconds in a log. */

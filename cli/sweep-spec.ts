@@ -21,6 +21,7 @@ import { ToleranceSetupError, toleranceSpace } from '../optimize/tolerance/toler
 import { readTolerances, type ToleranceSection } from './tolerance-spec.ts';
 import { describeValue, readQuantity } from './units.ts';
 import { must } from '../core/must.ts';
+import { readStages, type StageSpec } from './sweep-stages.ts';
 import type { ConstraintDefinition, ObjectiveDefinition } from '../optimize/sweep-state.ts';
 
 export type SamplingMethod = 'sobol' | 'lhs' | 'grid' | 'random';
@@ -47,6 +48,8 @@ export interface SweepSpec {
   tolerances?: ToleranceSection | null;
   /** The robust merit build_yield, when an objective or constraint uses it (needs tolerances.sweep_draws). */
   robust?: RobustDefinition;
+  /** The stages run after the sweep on its directory (`sweep.stages`), in order; none when absent. */
+  stages?: StageSpec[];
 }
 
 /** Above this many designs a sweep is refused unless --force (a day of a small workstation). */
@@ -55,7 +58,7 @@ export const MAX_SAMPLES_WITHOUT_FORCE = 20_000_000;
 export const MAX_SAMPLES = 2 ** 32;
 
 const TOP_KEYS = ['design', 'constraints', 'objectives', 'sweep', 'tolerances'];
-const SWEEP_KEYS = ['method', 'samples', 'seed', 'levels', 'shard_count', 'reference_point'];
+const SWEEP_KEYS = ['method', 'samples', 'seed', 'levels', 'shard_count', 'reference_point', 'stages'];
 
 function isMapping(value: unknown): value is Record<string, unknown> {
   return typeof value === 'object' && value !== null && !Array.isArray(value);
@@ -238,6 +241,21 @@ function canonicalJson(value: unknown): string {
   return JSON.stringify(value ?? null);
 }
 
+/**
+ * The file's content without `sweep.stages`: the stages run after the sweep and do not change its
+ * designs, so a sweep file with stages names the same sweep (the same hash) as the file without them.
+ */
+function withoutStages(value: Record<string, unknown>): Record<string, unknown> {
+  if (!isMapping(value.sweep) || !('stages' in value.sweep)) return value;
+  const { stages: _stages, ...sweep } = value.sweep;
+  return { ...value, sweep };
+}
+
+/** The canonical JSON of a file's `sweep.stages` as read, to tell two files' stages apart. */
+export function stagesIdentity(spec: SweepSpec): string {
+  return canonicalJson(spec.stages ?? []);
+}
+
 /** Number of levels of a dimension when it is discrete (sets, integers, steps), else null. */
 export function discreteLevels(dimension: Dimension): number | null {
   if (dimension.kind === 'choose') return dimension.values.length;
@@ -310,6 +328,7 @@ export function sweepFromValue(value: unknown, file: string, options: SweepReadO
   const seed = parseSetting('seed', integerSetting('an integer seed', 0, 2 ** 32 - 1), 1);
   const levels = parseSetting('levels', integerSetting('a number of grid levels', 2, 1000), 5);
   const shardCount = parseSetting('shard_count', integerSetting('a shard count', 1, 100_000), null as number | null);
+  const stages = readStages(settings.stages, issues);
   let samples = 0;
   if (issues.length) fail();
   const dimensions = reading.dimensions;
@@ -459,8 +478,11 @@ export function sweepFromValue(value: unknown, file: string, options: SweepReadO
     gridLevels,
     referencePoint,
     shardCount,
-    hash: createHash('sha256').update(canonicalJson(value)).digest('hex'),
+    hash: createHash('sha256')
+      .update(canonicalJson(withoutStages(value)))
+      .digest('hex'),
     tolerances,
+    stages,
   };
 }
 

@@ -48,8 +48,11 @@ export interface GenerationRecord {
 }
 
 export interface EvolveJournal {
-  /** The records of an interrupted run of the same stage, in order (may be empty). */
-  replay: readonly GenerationRecord[];
+  /**
+   * The records of an interrupted run of the same stage, in order (may be empty). Read once, one at a
+   * time: a caller may stream them from the file, so that memory does not grow with the journal.
+   */
+  replay: Iterable<GenerationRecord>;
   append(record: GenerationRecord): void;
 }
 
@@ -151,10 +154,14 @@ export async function evolveSweep(
   };
 
   let current: EvolveState;
-  const replayed = journal.replay;
-  if (replayed.length > 0) {
-    for (const record of replayed) for (const entry of record.evaluated) take(entry);
-    const last = replayed[replayed.length - 1];
+  let replayedCount = 0;
+  let last: GenerationRecord | null = null;
+  for (const record of journal.replay) {
+    for (const entry of record.evaluated) take(entry);
+    last = record;
+    replayedCount++;
+  }
+  if (last !== null) {
     current = {
       generation: last.generation,
       used: last.used,
@@ -189,6 +196,6 @@ export async function evolveSweep(
     referencePoint: reference ? Array.from(reference) : null,
     evaluations: current.used,
     generations: current.generation,
-    replayedGenerations: replayed.length,
+    replayedGenerations: replayedCount,
   };
 }

@@ -24,6 +24,8 @@ export const RUN_FILES = {
   evolved: 'evolved.csv',
   evolvedDesigns: 'evolved.json',
   evolveJournal: 'evolve-journal.log',
+  /** The stages of a sweep file's `sweep.stages` finished so far. */
+  stages: 'stages.json',
 } as const;
 
 export function journalName(generation: number): string {

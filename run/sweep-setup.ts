@@ -94,6 +94,8 @@ const STALE_OUTPUTS = [
   RUN_FILES.evolved,
   RUN_FILES.evolvedDesigns,
   RUN_FILES.evolveJournal,
+  // A new run starts its stages (sweep.stages) from the first.
+  RUN_FILES.stages,
 ];
 
 /** Starts a new run in `directory`: the record (with the measured batch size), spec.yaml, no stale outputs. */

@@ -15,6 +15,7 @@
  * The CRC covers the length, so a damaged length is caught as well as a damaged payload. Reading
  * stops at the first record that is short or fails a check; nothing after it is trusted.
  */
+import { closeSync, fstatSync, openSync, readSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
 import { crc32 } from './crc32.ts';
 import { DiskError, toDiskError } from './disk-error.ts';
@@ -185,10 +186,12 @@ export interface Journal {
  *   journal.append({ batch: 41, first: 10496, count: 256 }); journal.sync()
  *   journal.close()
  */
-export function openJournal(path: string, options: JournalOptions = {}): Journal {
+export function openJournal(path: string, options: JournalOptions & { keepRecords?: boolean } = {}): Journal {
   const fileSystem = options.fileSystem ?? nodeFileSystem;
   let fd: number;
   let recovered: JournalContents;
+  // With keepRecords false the file is checked record by record and `recovered.records` stays empty.
+  let recoveredCount = 0;
   let created = false;
   try {
     try {
@@ -202,9 +205,15 @@ export function openJournal(path: string, options: JournalOptions = {}): Journal
     throw toDiskError(error, path, 'open');
   }
   try {
-    recovered = created
-      ? { records: [], tornTail: false, validBytes: 0, totalBytes: 0, problem: null }
-      : readJournal(path, { fileSystem });
+    if (created) recovered = { records: [], tornTail: false, validBytes: 0, totalBytes: 0, problem: null };
+    else if (options.keepRecords === false) {
+      const { recordCount: scanned, ...scan } = scanJournal(path, () => undefined, { parse: false });
+      recovered = { records: [], ...scan };
+      recoveredCount = scanned;
+    } else {
+      recovered = readJournal(path, { fileSystem });
+      recoveredCount = recovered.records.length;
+    }
     if (recovered.tornTail) {
       fileSystem.ftruncateSync(fd, recovered.validBytes);
       fileSystem.fsyncSync(fd);
@@ -218,7 +227,7 @@ export function openJournal(path: string, options: JournalOptions = {}): Journal
     throw toDiskError(error, path, 'open');
   }
   let byteLength = recovered.validBytes;
-  let recordCount = recovered.records.length;
+  let recordCount = recoveredCount;
   let open = true;
   const ensureOpen = (): void => {
     if (!open) throw new DiskError('append to', path, 'EBADF', 'the journal is closed');
@@ -283,4 +292,121 @@ function writeAtSync(
   position: number,
 ): number {
   return fileSystem.writeSync(fd, record.subarray(from), 0, record.length - from, position);
+}
+
+/** What {@link scanJournal} found: {@link JournalContents} without the records, and how many there were. */
+export type JournalScan = Omit<JournalContents, 'records'> & { recordCount: number };
+
+/**
+ * Reads the journal at `path` one record at a time, handing each intact payload to `visit` (parsed
+ * JSON or a Uint8Array; with `parse: false`, nothing is decoded and `visit` gets null), and stops at
+ * the first short or damaged record exactly as {@link readJournal} does. Memory holds one record,
+ * never the file: for journals that grow with a run's length. Throws a {@link DiskError} only when
+ * the file cannot be read.
+ */
+export function scanJournal(
+  path: string,
+  visit: (payload: JournalPayload, index: number) => void,
+  options: { parse?: boolean } = {},
+): JournalScan {
+  const records = journalRecords(path, options);
+  for (let index = 0; ; index++) {
+    const next = records.next();
+    if (next.done) return next.value;
+    visit(next.value, index);
+  }
+}
+
+/**
+ * The intact records of the journal at `path` as a generator, read one at a time (see
+ * {@link scanJournal}); its return value is the scan's summary. Leaving a for-of loop early closes the file.
+ */
+export function* journalRecords(
+  path: string,
+  options: { parse?: boolean } = {},
+): Generator<JournalPayload, JournalScan, undefined> {
+  const parse = options.parse ?? true;
+  let fd: number;
+  try {
+    fd = openSync(path, 'r');
+  } catch (error) {
+    throw toDiskError(error, path, 'read');
+  }
+  const decoder = new TextDecoder('utf-8', { fatal: true });
+  const header = new Uint8Array(HEADER_BYTES);
+  const headerView = new DataView(header.buffer);
+  let offset = 0;
+  let count = 0;
+  let problem: string | null = null;
+  let totalBytes = 0;
+  try {
+    totalBytes = fstatSync(fd).size;
+    const readAt = (into: Uint8Array, position: number): number => {
+      let got = 0;
+      while (got < into.length) {
+        const n = readSync(fd, into, got, into.length - got, position + got);
+        if (n === 0) break;
+        got += n;
+      }
+      return got;
+    };
+    while (offset < totalBytes) {
+      const where = `record ${count + 1} at byte ${offset}`;
+      const remaining = totalBytes - offset;
+      if (remaining < HEADER_BYTES + TRAILER_BYTES) {
+        problem = `${where} is cut short (${remaining} bytes of at least ${HEADER_BYTES + TRAILER_BYTES})`;
+        break;
+      }
+      readAt(header, offset);
+      if (!MAGIC.every((value, index) => header[index] === value)) {
+        problem = `${where} does not start with the record mark`;
+        break;
+      }
+      const kind = headerView.getUint8(4);
+      const length = headerView.getUint32(5, true);
+      if (length > MAX_RECORD_BYTES) {
+        problem = `${where} declares ${length} bytes, more than a record may hold`;
+        break;
+      }
+      const size = HEADER_BYTES + length + TRAILER_BYTES;
+      if (size > remaining) {
+        problem = `${where} is cut short (${remaining} bytes of ${size})`;
+        break;
+      }
+      const record = new Uint8Array(size);
+      if (readAt(record, offset) < size) {
+        problem = `${where} is cut short (the file shrank while it was read)`;
+        break;
+      }
+      const view = new DataView(record.buffer);
+      if (crc32(record.subarray(4, HEADER_BYTES + length)) !== view.getUint32(HEADER_BYTES + length, true)) {
+        problem = `${where} fails its CRC-32 check`;
+        break;
+      }
+      let payload: JournalPayload = null;
+      if (kind !== KIND_JSON && kind !== KIND_BYTES) {
+        problem = `${where} has an unknown kind ${kind}`;
+        break;
+      }
+      if (parse) {
+        const body = record.subarray(HEADER_BYTES, HEADER_BYTES + length);
+        if (kind === KIND_JSON) {
+          try {
+            payload = JSON.parse(decoder.decode(body));
+          } catch {
+            problem = `${where} passes its check but does not hold valid JSON`;
+            break;
+          }
+        } else payload = Uint8Array.from(body);
+      }
+      offset += size;
+      count++;
+      yield payload;
+    }
+  } catch (error) {
+    throw toDiskError(error, path, 'read');
+  } finally {
+    closeSync(fd);
+  }
+  return { recordCount: count, tornTail: problem !== null, validBytes: offset, totalBytes, problem };
 }

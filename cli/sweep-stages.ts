@@ -1,0 +1,168 @@
+/**
+ * The pipeline shorthand of sweep files: `sweep.stages`, a list of later stages (`evolve`, `refine`)
+ * that `coilfront sweep` runs on the run directory once the sweep is finished, each exactly as the
+ * command of the same name would (cli/stage-runner.ts). Here: reading and describing the list.
+ */
+import type { InputIssue } from '../run/input-error.ts';
+import { suggest } from './suggest.ts';
+import { describeValue } from './units.ts';
+
+/** The defaults of the stages: those of the `evolve` and `refine` commands. */
+export const STAGE_DEFAULTS = {
+  evolve: { evaluations: 2000, population: 100 },
+  refine: { starts: 8, evaluations: 2000 },
+} as const;
+
+export type StageSpec =
+  | { stage: 'evolve'; evaluations: number; population: number; seed?: number }
+  | { stage: 'refine'; starts: number; evaluations: number };
+
+type StageName = StageSpec['stage'];
+const STAGE_NAMES: StageName[] = ['evolve', 'refine'];
+/** Each stage's settings: the least value, and the greatest (seeds are below 2^32). */
+const STAGE_SETTINGS: Record<StageName, Record<string, [number, number]>> = {
+  evolve: {
+    evaluations: [1, Number.MAX_SAFE_INTEGER],
+    population: [4, Number.MAX_SAFE_INTEGER],
+    seed: [0, 2 ** 32 - 1],
+  },
+  refine: { starts: [1, Number.MAX_SAFE_INTEGER], evaluations: [1, Number.MAX_SAFE_INTEGER] },
+};
+
+function isMapping(value: unknown): value is Record<string, unknown> {
+  return typeof value === 'object' && value !== null && !Array.isArray(value);
+}
+
+/**
+ * Reads `sweep.stages`: a list whose items are `{ evolve: { evaluations, population, seed } }` or
+ * `{ refine: { starts, evaluations } }` (settings optional: the commands' defaults), or the bare name.
+ * Pushes the first problem on `issues` (its path names the field) and returns what it read.
+ */
+export function readStages(input: unknown, issues: InputIssue[]): StageSpec[] {
+  if (input === undefined || input === null) return [];
+  const base = ['sweep', 'stages'];
+  if (!Array.isArray(input)) {
+    issues.push({
+      path: base,
+      message: `expected a list of stages ({ evolve: { ... } } or { refine: { ... } }), got ${describeValue(input)}`,
+    });
+    return [];
+  }
+  const stages: StageSpec[] = [];
+  for (let i = 0; i < input.length; i++) {
+    const item: unknown = input[i];
+    const path = [...base, i];
+    let name: string;
+    let settings: unknown;
+    if (typeof item === 'string') {
+      name = item;
+      settings = {};
+    } else if (isMapping(item) && Object.keys(item).length === 1) {
+      name = Object.keys(item)[0] as string;
+      settings = item[name] ?? {};
+    } else {
+      issues.push({
+        path,
+        message: `expected one stage, { evolve: { ... } } or { refine: { ... } }, got ${describeValue(item)}`,
+      });
+      return [];
+    }
+    if (!(STAGE_NAMES as string[]).includes(name)) {
+      const guess = suggest(name, STAGE_NAMES);
+      issues.push({
+        path,
+        message: `unknown stage '${name}'${guess ? ` (did you mean '${guess}'?)` : `; expected one of ${STAGE_NAMES.join(', ')}`}`,
+      });
+      return [];
+    }
+    const stage = name as StageName;
+    if (!isMapping(settings)) {
+      issues.push({
+        path: [...path, stage],
+        message: `expected a mapping of settings (${Object.keys(STAGE_SETTINGS[stage]).join(', ')}), got ${describeValue(settings)}`,
+      });
+      return [];
+    }
+    const known = STAGE_SETTINGS[stage];
+    const values: Record<string, number> = {};
+    for (const [key, value] of Object.entries(settings)) {
+      const bounds = Object.hasOwn(known, key) ? known[key] : undefined;
+      if (bounds === undefined) {
+        const guess = suggest(key, Object.keys(known));
+        issues.push({
+          path: [...path, stage, key],
+          message: guess
+            ? `unknown key '${key}' (did you mean '${guess}'?)`
+            : `unknown key '${key}'; expected one of ${Object.keys(known).join(', ')}`,
+        });
+        return [];
+      }
+      const [least, most] = bounds;
+      if (typeof value !== 'number' || !Number.isInteger(value) || value < least || value > most) {
+        issues.push({
+          path: [...path, stage, key],
+          message: `expected a whole number of at least ${least}${most < Number.MAX_SAFE_INTEGER ? ` and at most ${most}` : ''}, got ${describeValue(value)}`,
+        });
+        return [];
+      }
+      values[key] = value;
+    }
+    if (stage === 'evolve') {
+      stages.push({
+        stage,
+        evaluations: values.evaluations ?? STAGE_DEFAULTS.evolve.evaluations,
+        population: values.population ?? STAGE_DEFAULTS.evolve.population,
+        ...(values.seed !== undefined ? { seed: values.seed } : {}),
+      });
+    } else {
+      stages.push({
+        stage,
+        starts: values.starts ?? STAGE_DEFAULTS.refine.starts,
+        evaluations: values.evaluations ?? STAGE_DEFAULTS.refine.evaluations,
+      });
+    }
+  }
+  return stages;
+}
+
+/** The command a stage stands for, as a user would type it after the sweep. */
+export function stageCommand(stage: StageSpec, directory: string): string {
+  if (stage.stage === 'evolve')
+    return `npx coilfront evolve ${directory} --evaluations ${stage.evaluations} --population ${stage.population}${stage.seed !== undefined ? ` --seed ${stage.seed}` : ''}`;
+  return `npx coilfront refine ${directory} --starts ${stage.starts} --evaluations ${stage.evaluations}`;
+}
+
+/** A stage in words, for `check`: `evolve (2000 evaluations, population 100)`. */
+export function describeStage(stage: StageSpec): string {
+  if (stage.stage === 'evolve')
+    return `evolve (${stage.evaluations} evaluations, population ${stage.population}${stage.seed !== undefined ? `, seed ${stage.seed}` : ''})`;
+  return `refine (${stage.starts} starts, ${stage.evaluations} evaluations)`;
+}
+
+/** The JSON Schema of `sweep.stages`. */
+export function stagesSchema(): Record<string, unknown> {
+  const whole = (minimum: number, maximum?: number) => ({
+    type: 'integer',
+    minimum,
+    ...(maximum !== undefined ? { maximum } : {}),
+  });
+  const form = (name: StageName, properties: Record<string, unknown>) => ({
+    type: 'object',
+    properties: {
+      [name]: { oneOf: [{ type: 'null' }, { type: 'object', properties, additionalProperties: false }] },
+    },
+    required: [name],
+    additionalProperties: false,
+  });
+  return {
+    type: 'array',
+    description: 'stages run in order on the run directory after the sweep, as the evolve and refine commands',
+    items: {
+      oneOf: [
+        { enum: [...STAGE_NAMES] },
+        form('evolve', { evaluations: whole(1), population: whole(4), seed: whole(0, 4294967295) }),
+        form('refine', { starts: whole(1), evaluations: whole(1) }),
+      ],
+    },
+  };
+}
