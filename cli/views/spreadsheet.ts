@@ -3,12 +3,13 @@
  * candidates.csv, numbers stored as numbers (the unit in the header name), text as text, the header
  * row frozen, and the safety cautions on a second sheet. Written with exceljs.
  */
-import ExcelJS from 'exceljs';
 import { SAFETY_CAUTIONS } from '../safety.ts';
 import type { RunTable } from './run-table.ts';
 
 /** The workbook as bytes. */
 export async function workbookOf(table: RunTable, title: string): Promise<Buffer> {
+  // Loaded on demand: the package takes about 0.4 s to import, which every other command would pay.
+  const { default: ExcelJS } = await import('exceljs');
   const workbook = new ExcelJS.Workbook();
   workbook.creator = 'coilfront';
   // A fixed date, so that the same run gives the same bytes.

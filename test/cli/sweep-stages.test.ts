@@ -68,7 +68,9 @@ const staged = withStages('staged', STAGES);
 beforeAll(async () => {
   requireBuiltCli();
   // The reference: the sweep (no stages), then the two commands a user would type.
-  expect((await cli(['sweep', SMALL_SWEEP, '--out', byHand, '--workers', '0', '--quiet'])).code).toBe(0);
+  expect(
+    (await cli(['sweep', SMALL_SWEEP, '--out', byHand, '--workers', '0', '--batch-size', '8', '--quiet'])).code,
+  ).toBe(0);
   const evolve = ['--evaluations', `${EVOLVE.evaluations}`, '--population', `${EVOLVE.population}`];
   expect((await cli(['evolve', byHand, ...evolve, '--workers', '0'])).code).toBe(0);
   const refine = ['--starts', `${REFINE.starts}`, '--evaluations', `${REFINE.evaluations}`];
@@ -79,7 +81,7 @@ afterAll(() => area.cleanup());
 describe('coilfront sweep with sweep.stages', () => {
   it('gives the files of the sweep followed by the evolve and refine commands, byte for byte', async () => {
     const directory = area.dir('staged-run');
-    const result = await cli(['sweep', staged, '--out', directory, '--workers', '0']);
+    const result = await cli(['sweep', staged, '--out', directory, '--workers', '0', '--batch-size', '8']);
     expect(result.code, result.err).toBe(0);
     expect(result.err).toContain(
       `stage 1 of 2: npx coilfront evolve ${directory} --evaluations ${EVOLVE.evaluations} --population ${EVOLVE.population}`,
@@ -102,7 +104,7 @@ describe('coilfront sweep with sweep.stages', () => {
   it('after kill -9 in the evolve stage, sweep --resume continues there and ends in the same files', async () => {
     const directory = area.dir('killed');
     const journal = join(directory, 'evolve-journal.log');
-    const running = startCli(['sweep', staged, '--out', directory, '--workers', '1', '--quiet']);
+    const running = startCli(['sweep', staged, '--out', directory, '--workers', '1', '--batch-size', '8', '--quiet']);
     let ended = false;
     void running.done.then(() => (ended = true));
     // Kill once the evolve stage has journalled its identity and at least two generations.
