@@ -92,6 +92,20 @@ function push(figures: SheetFigure[], figure: SheetFigure | null): void {
   if (figure) figures.push(figure);
 }
 
+/** What the section builders of a sheet share: the design, its evaluation, and the lists they fill. */
+interface SheetContext {
+  design: Design;
+  evaluation: Evaluation;
+  m: Evaluation['metrics'];
+  sections: SheetSection[];
+  parts: PartRow[];
+  reelMass: number;
+  /** The streamer-loaded frequency (null when neither given nor estimable). */
+  loaded: ReturnType<typeof loadedFrequency>;
+  /** Set by the primary section, read by the tuning section. */
+  tuning: { loadedTap: number | null; beyondPrimary: string | null };
+}
+
 /**
  * The sheet of a design and its evaluation (a feasible one: the caller refuses the others).
  * @param title what the design is (a file, or a candidate of a run)
@@ -107,7 +121,32 @@ export function buildSheet(
   const parts: PartRow[] = [];
   const reelMass = options.reelMass ?? DEFAULT_REEL_MASS;
 
-  // --- secondary ---
+  const ctx: SheetContext = {
+    design,
+    evaluation,
+    m,
+    sections,
+    parts,
+    reelMass,
+    // evaluated once: the primary's streamer tap and the tuning section both need it
+    loaded: loadedFrequency(design, evaluation),
+    tuning: { loadedTap: null, beyondPrimary: null },
+  };
+  secondarySection(ctx);
+  primarySection(ctx);
+  toploadSection(ctx);
+  strikeRailSection(ctx);
+  tankSection(ctx);
+  supplySection(ctx);
+  safetyGapSection(ctx);
+  predictedTuningSection(ctx);
+
+  return { title, sections, parts, warnings: evaluation.warnings.map((w) => `${w.message} [${w.key}]`) };
+}
+
+/** The sheet's secondary section. */
+function secondarySection(ctx: SheetContext): void {
+  const { design, evaluation, m, sections, parts, reelMass } = ctx;
   const secondary = design.secondary;
   if (secondary) {
     const figures: SheetFigure[] = [];
@@ -197,11 +236,13 @@ export function buildSheet(
       source: 'computed: form length to cut',
     });
   }
+}
 
-  // --- primary ---
+/** The sheet's primary section. */
+function primarySection(ctx: SheetContext): void {
+  const { design, evaluation, m, sections, parts, tuning } = ctx;
+  const secondary = design.secondary;
   const primary = design.primary;
-  let loadedTap: number | null = null;
-  let beyondPrimary: string | null = null;
   if (primary && secondary) {
     const figures: SheetFigure[] = [];
     const notes: string[] = [];
@@ -282,19 +323,23 @@ export function buildSheet(
     // the tank as built: the bank's capacitance when the design has one
     const tankCapacitance = m.tank_bank_capacitance ?? design.tank?.capacitance;
     // (three coils: the tap is set for the 1:2:3 modes, not to one frequency, so no single loaded tap)
-    const loaded = design.resonator ? null : loadedFrequency(design, evaluation);
+    const loaded = design.resonator ? null : ctx.loaded;
     if (tankCapacitance !== undefined && loaded !== null) {
       const table = primaryInductanceTable(rings, primary.conductorDiameter / 2);
       const required = 1 / ((2 * Math.PI * loaded.frequency) ** 2 * tankCapacitance);
       const tuned = tapForInductance(table, required, Math.min(1, primary.turns), primary.turns);
-      loadedTap = tuned.status === 'tuned' ? tuned.tapTurns : null;
+      tuning.loadedTap = tuned.status === 'tuned' ? tuned.tapTurns : null;
       if (tuned.status === 'above_range') {
-        beyondPrimary = `the streamer-loaded frequency ${formatNumber(loaded.frequency / 1e3)} kHz needs ${formatNumber(required * 1e6)} µH, more than the whole primary's ${formatNumber(primaryInductanceAtTap(table, primary.turns) * 1e6)} µH: the tap would run off the outer end, so add a turn or two (or a larger tank) before the sparks grow`;
+        tuning.beyondPrimary = `the streamer-loaded frequency ${formatNumber(loaded.frequency / 1e3)} kHz needs ${formatNumber(required * 1e6)} µH, more than the whole primary's ${formatNumber(primaryInductanceAtTap(table, primary.turns) * 1e6)} µH: the tap would run off the outer end, so add a turn or two (or a larger tank) before the sparks grow`;
       }
     }
   }
+}
 
-  // --- topload ---
+/** The sheet's topload section. */
+function toploadSection(ctx: SheetContext): void {
+  const { design, evaluation, m, sections, parts } = ctx;
+  const secondary = design.secondary;
   const topload = design.topload;
   if (topload) {
     const figures: SheetFigure[] = [];
@@ -357,8 +402,12 @@ export function buildSheet(
       notes: ['Smooth, polished surfaces; no sharp edges except a breakout point if you want one.'],
     });
   }
+}
 
-  // --- strike rail ---
+/** The sheet's strike rail section. */
+function strikeRailSection(ctx: SheetContext): void {
+  const { design, sections, parts } = ctx;
+  const secondary = design.secondary;
   const rail = design.strikeRail;
   if (rail && secondary) {
     const figures: SheetFigure[] = [];
@@ -397,8 +446,11 @@ export function buildSheet(
       source: 'computed: π × diameter',
     });
   }
+}
 
-  // --- tank ---
+/** The sheet's tank section. */
+function tankSection(ctx: SheetContext): void {
+  const { design, evaluation, m, sections, parts } = ctx;
   const tank = design.tank;
   if (tank) {
     const figures: SheetFigure[] = [];
@@ -487,8 +539,11 @@ export function buildSheet(
     push(figures, metricFigure(evaluation, 'input_power'));
     sections.push({ title: 'Tank capacitor', figures, notes });
   }
+}
 
-  // --- supply ---
+/** The sheet's supply section. */
+function supplySection(ctx: SheetContext): void {
+  const { design, evaluation, sections, parts } = ctx;
   const supply = design.supply;
   if (supply) {
     const figures: SheetFigure[] = [];
@@ -524,8 +579,11 @@ export function buildSheet(
       source: 'design supply',
     });
   }
+}
 
-  // --- safety gap ---
+/** The sheet's safety gap section. */
+function safetyGapSection(ctx: SheetContext): void {
+  const { design, evaluation, sections, parts } = ctx;
   const gap = design.safetyGap;
   if (gap) {
     const figures: SheetFigure[] = [];
@@ -570,54 +628,53 @@ export function buildSheet(
       });
     }
   }
+}
 
-  // --- predicted tuning ---
-  {
-    const figures: SheetFigure[] = [];
-    const notes: string[] = [];
-    push(figures, metricFigure(evaluation, 'resonant_frequency', 'secondary with topload, bare'));
-    const loaded = loadedFrequency(design, evaluation);
-    if (loaded) {
-      figures.push({
-        label: `with streamer loading (${formatNumber(loaded.streamerLength)} m of streamer)`,
-        text: `${formatNumber(loaded.frequency / 1e3)} kHz`,
-        value: loaded.frequency,
-        source: loaded.source,
-        ...(loaded.source === 'metric loaded_resonant_frequency' ? { metric: 'loaded_resonant_frequency' } : {}),
-      });
-    }
-    push(figures, metricFigure(evaluation, 'primary_frequency', 'tank at the tap'));
-    push(figures, metricFigure(evaluation, 'coupling', 'coupling coefficient k'));
-    push(figures, metricFigure(evaluation, 'mode_frequency_low'));
-    push(figures, metricFigure(evaluation, 'mode_frequency_high'));
-    const tap = m.primary_tap_turns;
-    if (tap !== null) {
-      push(figures, metricFigure(evaluation, 'primary_tap_turns', 'start the tap at (turns from the inner end)'));
-      if (loadedTap !== null) {
-        figures.push({
-          label: 'tap for the streamer-loaded frequency',
-          text: `${formatNumber(loadedTap)} turns`,
-          value: loadedTap,
-          source: 'computed: the primary’s inductance table tuned to the loaded frequency',
-        });
-        notes.push(
-          `Start at ${formatNumber(tap)} turns, the bare tuning. As the sparks lengthen the secondary's frequency falls: move the tap outward, towards ${formatNumber(loadedTap)} turns, a quarter turn at a time, and keep the position that gives the longest sparks${design.driver?.kind === 'spark_gap' ? ' (common practice: run the tank a few per cent below the bare secondary)' : ''}.`,
-        );
-      } else if (design.resonator) {
-        notes.push(
-          `Start at ${formatNumber(tap)} turns: with three coils the tap is the one that brings the three modes nearest 1:2:3 (three_coil_ratio_error), not the tuning to one frequency. Streamers load the resonator's top and pull its mode down; retune with the line length or the tap while watching the spark, a quarter turn at a time.`,
-        );
-      } else {
-        if (beyondPrimary !== null) notes.push(`Note: ${beyondPrimary}.`, '');
-        notes.push(
-          `Start at ${formatNumber(tap)} turns, the bare tuning; streamers lower the secondary's frequency, so move the tap outward (more turns) a quarter turn at a time (common practice).`,
-        );
-      }
-    }
-    if (figures.length > 0) sections.push({ title: 'Predicted tuning', figures, notes });
+/** The sheet's predicted tuning section. */
+function predictedTuningSection(ctx: SheetContext): void {
+  const { design, evaluation, m, sections, tuning } = ctx;
+  const figures: SheetFigure[] = [];
+  const notes: string[] = [];
+  push(figures, metricFigure(evaluation, 'resonant_frequency', 'secondary with topload, bare'));
+  const loaded = ctx.loaded;
+  if (loaded) {
+    figures.push({
+      label: `with streamer loading (${formatNumber(loaded.streamerLength)} m of streamer)`,
+      text: `${formatNumber(loaded.frequency / 1e3)} kHz`,
+      value: loaded.frequency,
+      source: loaded.source,
+      ...(loaded.source === 'metric loaded_resonant_frequency' ? { metric: 'loaded_resonant_frequency' } : {}),
+    });
   }
-
-  return { title, sections, parts, warnings: evaluation.warnings.map((w) => `${w.message} [${w.key}]`) };
+  push(figures, metricFigure(evaluation, 'primary_frequency', 'tank at the tap'));
+  push(figures, metricFigure(evaluation, 'coupling', 'coupling coefficient k'));
+  push(figures, metricFigure(evaluation, 'mode_frequency_low'));
+  push(figures, metricFigure(evaluation, 'mode_frequency_high'));
+  const tap = m.primary_tap_turns;
+  if (tap !== null) {
+    push(figures, metricFigure(evaluation, 'primary_tap_turns', 'start the tap at (turns from the inner end)'));
+    if (tuning.loadedTap !== null) {
+      figures.push({
+        label: 'tap for the streamer-loaded frequency',
+        text: `${formatNumber(tuning.loadedTap)} turns`,
+        value: tuning.loadedTap,
+        source: 'computed: the primary’s inductance table tuned to the loaded frequency',
+      });
+      notes.push(
+        `Start at ${formatNumber(tap)} turns, the bare tuning. As the sparks lengthen the secondary's frequency falls: move the tap outward, towards ${formatNumber(tuning.loadedTap)} turns, a quarter turn at a time, and keep the position that gives the longest sparks${design.driver?.kind === 'spark_gap' ? ' (common practice: run the tank a few per cent below the bare secondary)' : ''}.`,
+      );
+    } else if (design.resonator) {
+      notes.push(
+        `Start at ${formatNumber(tap)} turns: with three coils the tap is the one that brings the three modes nearest 1:2:3 (three_coil_ratio_error), not the tuning to one frequency. Streamers load the resonator's top and pull its mode down; retune with the line length or the tap while watching the spark, a quarter turn at a time.`,
+      );
+    } else {
+      if (tuning.beyondPrimary !== null) notes.push(`Note: ${tuning.beyondPrimary}.`, '');
+      notes.push(
+        `Start at ${formatNumber(tap)} turns, the bare tuning; streamers lower the secondary's frequency, so move the tap outward (more turns) a quarter turn at a time (common practice).`,
+      );
+    }
+  }
+  if (figures.length > 0) sections.push({ title: 'Predicted tuning', figures, notes });
 }
 
 /**
