@@ -77,35 +77,7 @@ export async function evolveCommand(directory: string, options: EvolveCommandOpt
       population: options.population,
     };
     const journalPath = join(directory, RUN_FILES.evolveJournal);
-    if (existsSync(journalPath)) {
-      // Only the first record is read here; the generations are streamed into the stage below.
-      const records = journalRecords(journalPath);
-      const first = records.next();
-      records.return(undefined as never);
-      if (!first.done && JSON.stringify(first.value) !== JSON.stringify(identity)) {
-        io.err(`${journalPath}: from an evolve with other settings or an earlier sweep; starting over\n`);
-        rmSync(journalPath, { force: true });
-      }
-    }
-    // Opened without keeping its records (a torn tail is cut off): memory stays flat in its length.
-    const journal = openJournal(journalPath, { keepRecords: false });
-    const replayCount = Math.max(0, journal.recordCount - 1);
-    if (replayCount > 0) io.err(`resuming evolve in ${directory}: ${replayCount} generations from the journal\n`);
-    if (journal.recordCount === 0) {
-      journal.append(identity);
-      journal.sync();
-    }
-    const replay: Iterable<GenerationRecord> = {
-      *[Symbol.iterator]() {
-        if (replayCount === 0) return;
-        let index = 0;
-        for (const record of journalRecords(journalPath)) {
-          // The identity first, then at most the generations counted when the journal was opened.
-          if (index > 0 && index <= replayCount) yield record as GenerationRecord;
-          if (++index > replayCount) return;
-        }
-      },
-    };
+    const { journal, replay } = openEvolveJournal(journalPath, identity, directory, io);
     const candidates = candidateNumbering(outputEntries(state, record.keep).ranked);
     const threads = options.workers ?? defaultWorkerCount();
     const space = new DesignSpace(spaceDefinitionOf(spec));
@@ -141,28 +113,12 @@ export async function evolveCommand(directory: string, options: EvolveCommandOpt
     }
     if (io.isTty) io.err('\n');
 
-    const front = sortedFront(outcome.merged);
-    const improved = improvedDesigns(front, spec.samples);
-    const kept = new Set(improved);
-    const near = front.filter((entry) => entry.item.index >= spec.samples && !kept.has(entry));
-    const digits = runDigits(record);
-    const files = { csv: RUN_FILES.evolved, json: RUN_FILES.evolvedDesigns, digits };
-    writeStageDesigns(directory, spec, improved, 'e', files, near);
-    const ids = new Map(improved.map((entry, i) => [entry.item.index, `e${i + 1}`]));
-    await writeMergedFront(directory, spec, front, { candidates, ids, stageOf: () => 'evolved', digits }, improved);
-    const summaryPath = writeSummarySection(directory, 'evolve', {
+    const { improved, summaryPath } = await writeEvolveOutputs(directory, spec, record, outcome, {
       seed,
-      population: options.population,
-      generations: outcome.generations,
-      evaluations: outcome.evaluations,
-      evaluation_budget: options.evaluations,
-      improved_designs: improved.length,
-      evolved_feasible: outcome.evolved.feasibleSize,
-      front_size: front.length,
-      hypervolume_before: outcome.hypervolumeBefore,
-      hypervolume_after: outcome.hypervolumeAfter,
-      reference_point: outcome.referencePoint,
-      timing: { wall_seconds: (performance.now() - started) / 1000, workers: threads },
+      options,
+      candidates,
+      wallSeconds: (performance.now() - started) / 1000,
+      threads,
     });
     rmSync(journalPath, { force: true });
     const refinedEarlier = existsSync(join(directory, RUN_FILES.refinedDesigns));
@@ -171,6 +127,89 @@ export async function evolveCommand(directory: string, options: EvolveCommandOpt
   } finally {
     lock.release();
   }
+}
+
+/**
+ * The evolve journal: kept when its first record names this stage's settings, else started over;
+ * opened without keeping its records, and its generations replayed by streaming (flat memory).
+ */
+function openEvolveJournal(
+  journalPath: string,
+  identity: object,
+  directory: string,
+  io: CliIo,
+): { journal: ReturnType<typeof openJournal>; replay: Iterable<GenerationRecord> } {
+  if (existsSync(journalPath)) {
+    // Only the first record is read here; the generations are streamed into the stage below.
+    const records = journalRecords(journalPath);
+    const first = records.next();
+    records.return(undefined as never);
+    if (!first.done && JSON.stringify(first.value) !== JSON.stringify(identity)) {
+      io.err(`${journalPath}: from an evolve with other settings or an earlier sweep; starting over\n`);
+      rmSync(journalPath, { force: true });
+    }
+  }
+  // Opened without keeping its records (a torn tail is cut off): memory stays flat in its length.
+  const journal = openJournal(journalPath, { keepRecords: false });
+  const replayCount = Math.max(0, journal.recordCount - 1);
+  if (replayCount > 0) io.err(`resuming evolve in ${directory}: ${replayCount} generations from the journal\n`);
+  if (journal.recordCount === 0) {
+    journal.append(identity);
+    journal.sync();
+  }
+  const replay: Iterable<GenerationRecord> = {
+    *[Symbol.iterator]() {
+      if (replayCount === 0) return;
+      let index = 0;
+      for (const record of journalRecords(journalPath)) {
+        // The identity first, then at most the generations counted when the journal was opened.
+        if (index > 0 && index <= replayCount) yield record as GenerationRecord;
+        if (++index > replayCount) return;
+      }
+    },
+  };
+  return { journal, replay };
+}
+
+/** evolved.csv and .json, the merged front and the summary's evolve section. */
+async function writeEvolveOutputs(
+  directory: string,
+  spec: SweepSpec,
+  record: ReturnType<typeof readRunRecord>,
+  outcome: EvolveOutcome,
+  run: {
+    seed: number;
+    options: EvolveCommandOptions;
+    candidates: ReturnType<typeof candidateNumbering>;
+    wallSeconds: number;
+    threads: number;
+  },
+) {
+  const { seed, options, candidates } = run;
+  const front = sortedFront(outcome.merged);
+  const improved = improvedDesigns(front, spec.samples);
+  const kept = new Set(improved);
+  const near = front.filter((entry) => entry.item.index >= spec.samples && !kept.has(entry));
+  const digits = runDigits(record);
+  const files = { csv: RUN_FILES.evolved, json: RUN_FILES.evolvedDesigns, digits };
+  writeStageDesigns(directory, spec, improved, 'e', files, near);
+  const ids = new Map(improved.map((entry, i) => [entry.item.index, `e${i + 1}`]));
+  await writeMergedFront(directory, spec, front, { candidates, ids, stageOf: () => 'evolved', digits }, improved);
+  const summaryPath = writeSummarySection(directory, 'evolve', {
+    seed,
+    population: options.population,
+    generations: outcome.generations,
+    evaluations: outcome.evaluations,
+    evaluation_budget: options.evaluations,
+    improved_designs: improved.length,
+    evolved_feasible: outcome.evolved.feasibleSize,
+    front_size: front.length,
+    hypervolume_before: outcome.hypervolumeBefore,
+    hypervolume_after: outcome.hypervolumeAfter,
+    reference_point: outcome.referencePoint,
+    timing: { wall_seconds: run.wallSeconds, workers: run.threads },
+  });
+  return { improved, summaryPath };
 }
 
 /** What evolve prints: the improved designs with units, the hypervolume explained, the files. */

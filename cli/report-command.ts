@@ -120,36 +120,8 @@ export async function reportCommand(directory: string, options: ReportOptions, i
   const topThree = candidateRows.slice(0, 3).map((r) => String(r.rank));
   for (const id of topThree) draw(id);
 
-  const rejections: ReportData['rejections'] = [];
-  for (const constraint of summary.constraints ?? []) {
-    rejections.push({ label: constraintLabel(constraint), count: constraint.rejected, kind: 'constraint' });
-  }
-  for (const [reason, count] of Object.entries(summary.impossible_by ?? {})) {
-    rejections.push({ label: reason, count, kind: 'impossible' });
-  }
-
-  let sensitivities: ReportData['sensitivities'] = null;
-  if (summary.sensitivities && Object.keys(summary.sensitivities).length > 0) {
-    const names = Object.keys(summary.sensitivities);
-    const metrics = (summary.objectives ?? []).map((o) => o.metric);
-    sensitivities = {
-      parameters: names,
-      metrics,
-      values: names.map((p) => metrics.map((m) => summary.sensitivities?.[p]?.[m] ?? null)),
-    };
-  }
-  const sensitivityCsv = join(directory, 'sensitivity.csv');
-  let globalIndices: ReportData['globalIndices'] = null;
-  if (existsSync(sensitivityCsv)) {
-    const table = readRunTable(sensitivityCsv);
-    globalIndices = { header: table.header, rows: table.rows };
-  }
-  const toleranceCsv = join(directory, 'tolerance.csv');
-  let buildTolerances: ReportData['buildTolerances'] = null;
-  if (existsSync(toleranceCsv)) {
-    const table = readRunTable(toleranceCsv);
-    buildTolerances = { header: table.header, rows: table.rows };
-  }
+  const rejections = rejectionsOf(summary);
+  const { sensitivities, globalIndices, buildTolerances } = studyTables(directory, summary);
   if (frontRows.length === 0)
     notes.push(`No design met every constraint: see ${RUN_FILES.infeasible} and the bars above.`);
 
@@ -178,4 +150,45 @@ export async function reportCommand(directory: string, options: ReportOptions, i
   writeFileAtomicSync(out, reportHtml(data));
   io.out(`${out}\n`);
   return 0;
+}
+
+/** A bar per rejecting constraint and per reason a design could not be built. */
+function rejectionsOf(summary: Summary): ReportData['rejections'] {
+  const rejections: ReportData['rejections'] = [];
+  for (const constraint of summary.constraints ?? []) {
+    rejections.push({ label: constraintLabel(constraint), count: constraint.rejected, kind: 'constraint' });
+  }
+  for (const [reason, count] of Object.entries(summary.impossible_by ?? {})) {
+    rejections.push({ label: reason, count, kind: 'impossible' });
+  }
+  return rejections;
+}
+
+/** A CSV the run may hold (sensitivity.csv, tolerance.csv) as header and rows, or null. */
+function optionalTable(path: string): { header: string[]; rows: ReturnType<typeof readRunTable>['rows'] } | null {
+  if (!existsSync(path)) return null;
+  const table = readRunTable(path);
+  return { header: table.header, rows: table.rows };
+}
+
+/** The studies beside the sweep: rank correlations of summary.json, Sobol indices, build tolerances. */
+function studyTables(
+  directory: string,
+  summary: Summary,
+): Pick<ReportData, 'sensitivities' | 'globalIndices' | 'buildTolerances'> {
+  let sensitivities: ReportData['sensitivities'] = null;
+  if (summary.sensitivities && Object.keys(summary.sensitivities).length > 0) {
+    const names = Object.keys(summary.sensitivities);
+    const metrics = (summary.objectives ?? []).map((o) => o.metric);
+    sensitivities = {
+      parameters: names,
+      metrics,
+      values: names.map((p) => metrics.map((m) => summary.sensitivities?.[p]?.[m] ?? null)),
+    };
+  }
+  return {
+    sensitivities,
+    globalIndices: optionalTable(join(directory, 'sensitivity.csv')),
+    buildTolerances: optionalTable(join(directory, 'tolerance.csv')),
+  };
 }
