@@ -18,7 +18,7 @@ import { sphereGapAirDensity } from '../core/breakdown/sphere-gap.ts';
 import { BLEED_SAFE_VOLTAGE } from '../core/tank/bank.ts';
 import { RESONANT_BAND } from '../core/supply/supply.ts';
 import { toCsv } from '../run/csv.ts';
-import { METRIC_DISPLAY, formatNumber, humanUnit } from './display-units.ts';
+import { METRIC_DISPLAY, formatNumber, humanUnit, lengthText } from './display-units.ts';
 import { SAFETY_CAUTIONS } from './safety.ts';
 
 /** Bare form beyond each end of the winding: the larger of 30 mm and 5 % of the winding (common practice, our numbers). */
@@ -68,7 +68,6 @@ export interface SheetOptions {
   reelMass?: number;
 }
 
-const mm = (metres: number) => `${formatNumber(metres * 1000)} mm`;
 const metres = (value: number) => `${formatNumber(value)} m`;
 
 /** A figure repeating a metric, shown in the metric's display unit. */
@@ -156,42 +155,43 @@ function secondarySection(ctx: SheetContext): void {
     const formLength = winding + 2 * margin;
     figures.push({
       label: 'form outside diameter',
-      text: mm(secondary.formDiameter),
+      text: lengthText(secondary.formDiameter),
       value: secondary.formDiameter,
       source: 'design secondary.form_diameter',
     });
     push(figures, metricFigure(evaluation, 'winding_length', 'winding length'));
     figures.push({
       label: 'bare form beyond each end of the winding',
-      text: mm(margin),
+      text: lengthText(margin),
       value: margin,
-      source: `rule: the larger of ${mm(FORM_END_MARGIN.minimum)} and ${FORM_END_MARGIN.fraction * 100} % of the winding (common practice, our numbers)`,
+      source: `rule: the larger of ${lengthText(FORM_END_MARGIN.minimum)} and ${FORM_END_MARGIN.fraction * 100} % of the winding (common practice, our numbers)`,
     });
     figures.push({
       label: 'form length to cut',
-      text: mm(formLength),
+      text: lengthText(formLength),
       value: formLength,
       source: 'computed: winding_length + 2 × margin',
     });
     figures.push({
       label: 'winding starts above the floor',
-      text: mm(secondary.baseHeight),
+      text: lengthText(secondary.baseHeight),
       value: secondary.baseHeight,
       source: 'design secondary.base_height',
     });
     figures.push({
       label: 'winding ends above the floor',
-      text: mm(secondary.baseHeight + winding),
+      text: lengthText(secondary.baseHeight + winding),
       value: secondary.baseHeight + winding,
       source: 'computed: base_height + winding_length',
     });
     push(figures, metricFigure(evaluation, 'secondary_turns', 'turns'));
-    const wire = secondary.wire.awg !== undefined ? `AWG ${secondary.wire.awg}` : mm(secondary.wire.bareDiameter);
+    const wire =
+      secondary.wire.awg !== undefined ? `AWG ${secondary.wire.awg}` : lengthText(secondary.wire.bareDiameter);
     const overall =
       secondary.wire.overallDiameter ?? insulatedDiameter(secondary.wire.bareDiameter, secondary.wire.insulation);
     figures.push({
       label: 'wire',
-      text: `${wire} (bare ${mm(secondary.wire.bareDiameter)}, insulated about ${mm(overall)})`,
+      text: `${wire} (bare ${lengthText(secondary.wire.bareDiameter)}, insulated about ${lengthText(overall)})`,
       value: secondary.wire.bareDiameter,
       source: 'design secondary.wire, IEC 60317-0-1 grade for the insulation',
     });
@@ -230,7 +230,7 @@ function secondarySection(ctx: SheetContext): void {
     });
     parts.push({
       item: 'coil form',
-      specification: `outside diameter ${mm(secondary.formDiameter)}`,
+      specification: `outside diameter ${lengthText(secondary.formDiameter)}`,
       quantity: formLength,
       unit: 'm',
       source: 'computed: form length to cut',
@@ -253,13 +253,13 @@ function primarySection(ctx: SheetContext): void {
     figures.push({ label: 'shape', text: primary.shape.replace('_', ' '), source: 'design primary.shape' });
     figures.push({
       label: 'conductor (tube or wire) diameter',
-      text: mm(primary.conductorDiameter),
+      text: lengthText(primary.conductorDiameter),
       value: primary.conductorDiameter,
       source: 'design primary.conductor_diameter',
     });
     figures.push({
       label: 'centre-line pitch',
-      text: mm(primaryPitch(primary)),
+      text: lengthText(primaryPitch(primary)),
       value: primaryPitch(primary),
       source: 'computed: conductor_diameter + turn_spacing',
     });
@@ -303,7 +303,7 @@ function primarySection(ctx: SheetContext): void {
     const ringTable: string[] = ['| ring | centre-line diameter | height above the floor |', '| ---: | ---: | ---: |'];
     rings.forEach((r, i) => {
       ringTable.push(
-        `| ${i + 1}${i + 1 === rings.length && primary.turns % 1 > 1e-9 ? ` (${formatNumber(primary.turns % 1)} of a turn)` : ''} | ${mm(2 * r.r)} | ${mm(r.z)} |`,
+        `| ${i + 1}${i + 1 === rings.length && primary.turns % 1 > 1e-9 ? ` (${formatNumber(primary.turns % 1)} of a turn)` : ''} | ${lengthText(2 * r.r)} | ${lengthText(r.z)} |`,
       );
     });
     notes.push(
@@ -313,7 +313,7 @@ function primarySection(ctx: SheetContext): void {
     );
     parts.push({
       item: 'primary conductor',
-      specification: `diameter ${mm(primary.conductorDiameter)}`,
+      specification: `diameter ${lengthText(primary.conductorDiameter)}`,
       quantity: tubing,
       unit: 'm',
       source: 'rule: conductor to buy',
@@ -349,25 +349,25 @@ function toploadSection(ctx: SheetContext): void {
     if (topload.shape === 'toroid') {
       figures.push({
         label: 'toroid outside diameter',
-        text: mm(topload.outerDiameter),
+        text: lengthText(topload.outerDiameter),
         value: topload.outerDiameter,
         source: 'design topload.outer_diameter',
       });
       figures.push({
         label: 'tube diameter',
-        text: mm(topload.tubeDiameter),
+        text: lengthText(topload.tubeDiameter),
         value: topload.tubeDiameter,
         source: 'design topload.tube_diameter',
       });
       figures.push({
         label: 'hole (inside) diameter',
-        text: mm(topload.outerDiameter - 2 * topload.tubeDiameter),
+        text: lengthText(topload.outerDiameter - 2 * topload.tubeDiameter),
         value: topload.outerDiameter - 2 * topload.tubeDiameter,
         source: 'computed: outer − 2 × tube',
       });
       parts.push({
         item: 'topload toroid',
-        specification: `${mm(topload.outerDiameter)} × ${mm(topload.tubeDiameter)} tube`,
+        specification: `${lengthText(topload.outerDiameter)} × ${lengthText(topload.tubeDiameter)} tube`,
         quantity: 1,
         unit: 'piece',
         source: 'design topload',
@@ -375,13 +375,13 @@ function toploadSection(ctx: SheetContext): void {
     } else {
       figures.push({
         label: 'sphere diameter',
-        text: mm(topload.diameter),
+        text: lengthText(topload.diameter),
         value: topload.diameter,
         source: 'design topload.diameter',
       });
       parts.push({
         item: 'topload sphere',
-        specification: mm(topload.diameter),
+        specification: lengthText(topload.diameter),
         quantity: 1,
         unit: 'piece',
         source: 'design topload',
@@ -389,7 +389,7 @@ function toploadSection(ctx: SheetContext): void {
     }
     figures.push({
       label: 'mid-plane (centre) above the floor',
-      text: mm(centre),
+      text: lengthText(centre),
       value: centre,
       source: 'computed: base_height + winding_length + height_above_winding',
     });
@@ -414,19 +414,19 @@ function strikeRailSection(ctx: SheetContext): void {
     const length = Math.PI * rail.diameter;
     figures.push({
       label: 'ring centre-line diameter',
-      text: mm(rail.diameter),
+      text: lengthText(rail.diameter),
       value: rail.diameter,
       source: 'design strike_rail.diameter',
     });
     figures.push({
       label: 'conductor diameter',
-      text: mm(rail.conductorDiameter),
+      text: lengthText(rail.conductorDiameter),
       value: rail.conductorDiameter,
       source: 'design strike_rail.conductor_diameter',
     });
     figures.push({
       label: 'height above the floor',
-      text: mm(secondary.baseHeight + rail.elevation),
+      text: lengthText(secondary.baseHeight + rail.elevation),
       value: secondary.baseHeight + rail.elevation,
       source: 'computed: base_height + strike_rail.elevation',
     });
@@ -440,7 +440,7 @@ function strikeRailSection(ctx: SheetContext): void {
     });
     parts.push({
       item: 'strike-rail conductor',
-      specification: `diameter ${mm(rail.conductorDiameter)}`,
+      specification: `diameter ${lengthText(rail.conductorDiameter)}`,
       quantity: length,
       unit: 'm',
       source: 'computed: π × diameter',
@@ -590,7 +590,7 @@ function safetyGapSection(ctx: SheetContext): void {
     const density = sphereGapAirDensity(design.environment.altitude, design.environment.temperature);
     figures.push({
       label: 'electrodes',
-      text: gap.electrodes === 'sphere' ? `spheres of ${mm(gap.sphereDiameter ?? 0)}` : 'rounded electrodes',
+      text: gap.electrodes === 'sphere' ? `spheres of ${lengthText(gap.sphereDiameter ?? 0)}` : 'rounded electrodes',
       source: 'design safety_gap.electrodes, sphere_diameter',
     });
     figures.push({
@@ -607,7 +607,7 @@ function safetyGapSection(ctx: SheetContext): void {
       source: 'computed: IEC 60052 (p/101.3 kPa)(293 K/T), standard atmosphere',
     });
     const spacing = metricFigure(evaluation, 'safety_gap_spacing', 'spacing');
-    if (spacing) spacing.text = mm(spacing.value ?? 0);
+    if (spacing) spacing.text = lengthText(spacing.value ?? 0);
     push(figures, spacing);
     sections.push({
       title: 'Safety gap',
@@ -621,7 +621,7 @@ function safetyGapSection(ctx: SheetContext): void {
     if (gap.electrodes === 'sphere') {
       parts.push({
         item: 'safety-gap sphere',
-        specification: mm(gap.sphereDiameter ?? 0),
+        specification: lengthText(gap.sphereDiameter ?? 0),
         quantity: 2,
         unit: 'piece',
         source: 'design safety_gap.sphere_diameter',

@@ -3,7 +3,7 @@
  * the size of the discrete part of the space, and a run-time estimate measured on this machine.
  */
 import { DesignSpace, spaceDefinitionOf } from '../optimize/design-space.ts';
-import { KIND_DISPLAY, formatNumber } from './display-units.ts';
+import { fieldDisplay, formatNumber } from './display-units.ts';
 import type { CliIo } from './io.ts';
 import { formatDuration } from './duration.ts';
 import { defaultWorkerCount } from '../workers/pool.ts';
@@ -26,7 +26,7 @@ export function checkCommand(file: string, options: { workers?: number; force?: 
     if (levels !== null) discrete *= levels;
     if (dimension.kind === 'choose') lines.push(`  ${name}: one of ${dimension.labels.join(' | ')}`);
     else {
-      const unit = KIND_DISPLAY[dimension.quantity as QuantityKind];
+      const unit = fieldDisplay(name, dimension.quantity as QuantityKind, [dimension.from, dimension.to]);
       const show = (v: number) => `${formatNumber(v / unit.divisor, 6)}${unit.label ? ` ${unit.label}` : ''}`;
       const kind = dimension.integer
         ? 'integers'

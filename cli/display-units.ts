@@ -117,3 +117,44 @@ export function formatNumber(value: number, digits = 4): string {
   if (magnitude >= 1e7 || magnitude < 1e-4) return value.toExponential(digits - 1);
   return String(Number(value.toPrecision(digits)));
 }
+
+// --- appended: one rule for lengths in the human-readable views ---
+
+/**
+ * Design fields whose lengths are of the site, not of the machine: shown in metres whatever their
+ * size (an altitude in millimetres reads as a slip). Other lengths follow `lengthDisplay`.
+ */
+export const SITE_LENGTH_FIELDS: ReadonlySet<string> = new Set(['environment.altitude']);
+
+const MILLIMETRES = unit('mm', 1e-3);
+const METRES = unit('m', 1);
+const KILOMETRES = unit('km', 1e3);
+
+/**
+ * The unit a builder reads a length in, from the largest of the values shown together (a row of
+ * `compare`, one figure of a drawing or a sheet): millimetres below 10 m (forms, wire, rings, gaps,
+ * heights of a bench machine), metres from 10 m (wire to buy, site lengths), kilometres from 10 km.
+ * A site field (SITE_LENGTH_FIELDS) is in metres at least. One rule for every human-readable view;
+ * CSV columns keep their fixed units (KIND_DISPLAY, METRIC_DISPLAY) so a column never changes unit.
+ */
+export function lengthDisplay(metres: readonly number[], field?: string): DisplayUnit {
+  const largest = Math.max(0, ...metres.filter(Number.isFinite).map(Math.abs));
+  if (largest >= 1e4) return KILOMETRES;
+  if (largest >= 10 || (field !== undefined && SITE_LENGTH_FIELDS.has(field))) return METRES;
+  return MILLIMETRES;
+}
+
+/** A length as text in the unit `lengthDisplay` picks for it: '160 mm', '312.5 m', '1500 m'. */
+export function lengthText(metres: number, digits = 4, field?: string): string {
+  const display = lengthDisplay([metres], field);
+  return `${formatNumber(metres / display.divisor, digits)} ${display.label}`;
+}
+
+/**
+ * The unit a design field of a given kind is shown in, in the human-readable views (compare, show,
+ * sheet): lengths by `lengthDisplay` over the values shown together, every other kind by
+ * KIND_DISPLAY.
+ */
+export function fieldDisplay(field: string, kind: QuantityKind, values: readonly number[]): DisplayUnit {
+  return kind === 'length' ? lengthDisplay(values, field) : KIND_DISPLAY[kind];
+}

@@ -9,7 +9,7 @@ import { parse as parseCsv } from 'csv-parse/sync';
 import { DesignSpace, spaceDefinitionOf } from '../optimize/design-space.ts';
 import { isSlot, type NormalTree } from '../optimize/design-tree.ts';
 import { DESIGN_SECTIONS, sectionFields } from './design-fields.ts';
-import { KIND_DISPLAY, formatNumber } from './display-units.ts';
+import { KIND_DISPLAY, formatNumber, lengthText } from './display-units.ts';
 import { exactQuantityText } from './units.ts';
 import { InputError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
@@ -33,7 +33,7 @@ export function treeToYaml(tree: NormalTree, heading: string[]): string {
         lines.push(
           'awg' in value
             ? `  ${key}: AWG ${value.awg}`
-            : `  ${key}: ${value.bareDiameter}  # ${formatNumber(value.bareDiameter * 1000, 6)} mm`,
+            : `  ${key}: ${value.bareDiameter}  # ${lengthText(value.bareDiameter, 6)}`,
         );
       } else if (typeof value === 'number' && field?.type === 'quantity' && field.kind !== 'dimensionless') {
         // In a practical unit, with the fewest digits that read back to exactly this SI value.

@@ -16,7 +16,7 @@ import type { Design } from '../../core/design.ts';
 import type { DesignField } from '../../core/design-field.ts';
 import { potentialAt } from '../../core/electrostatics/field-potential.ts';
 import { toploadCentreHeight, toploadToRingDistance } from '../../core/outcome/clearance.ts';
-import { METRIC_DISPLAY, formatNumber, humanUnit } from '../display-units.ts';
+import { METRIC_DISPLAY, formatNumber, humanUnit, lengthText } from '../display-units.ts';
 import { PICTURE_CAUTION, wrapText } from './vega-render.ts';
 
 /** Our own palette for drawings. */
@@ -322,7 +322,7 @@ export function designDrawingSvg(design: Design, field: DesignField, options: Dr
         const mx = X((sr + target.ring.r) / 2);
         const my = Y((sz + target.ring.z) / 2);
         out.push(
-          `<g class="dimension strike-distance" data-metres="${distance}"><line x1="${n(X(sr))}" y1="${n(Y(sz))}" x2="${n(X(target.ring.r))}" y2="${n(Y(target.ring.z))}" stroke="${DRAWING_COLOURS.dimension}" stroke-dasharray="5 3" stroke-width="1"/><text x="${n(mx + 6)}" y="${n(my)}" font-size="11" fill="${DRAWING_COLOURS.dimension}">strike ${formatNumber(distance * 1000, 4)} mm to ${target.what}</text></g>`,
+          `<g class="dimension strike-distance" data-metres="${distance}"><line x1="${n(X(sr))}" y1="${n(Y(sz))}" x2="${n(X(target.ring.r))}" y2="${n(Y(target.ring.z))}" stroke="${DRAWING_COLOURS.dimension}" stroke-dasharray="5 3" stroke-width="1"/><text x="${n(mx + 6)}" y="${n(my)}" font-size="11" fill="${DRAWING_COLOURS.dimension}">strike ${lengthText(distance)} to ${target.what}</text></g>`,
         );
       }
     }
@@ -359,7 +359,7 @@ export function designDrawingSvg(design: Design, field: DesignField, options: Dr
         : [1, -1].map((side) => [side * outer, toploadCentre, side * (outer + pointLength), toploadCentre]);
     const [, , labelR, labelZ] = ends[0] ?? [0, 0, 0, 0];
     out.push(
-      `<text class="breakout-point-label" x="${n(X(labelR) + 8)}" y="${n(Y(labelZ) - 6)}" font-size="11" fill="${DRAWING_COLOURS.point}">breakout point ${formatNumber(pointLength * 1000, 3)} mm</text>`,
+      `<text class="breakout-point-label" x="${n(X(labelR) + 8)}" y="${n(Y(labelZ) - 6)}" font-size="11" fill="${DRAWING_COLOURS.point}">breakout point ${lengthText(pointLength, 3)}</text>`,
     );
     for (const [r0, z0, r1, z1] of ends)
       out.push(
@@ -372,7 +372,7 @@ export function designDrawingSvg(design: Design, field: DesignField, options: Dr
   if (overall !== null && overall !== undefined && Number.isFinite(overall)) {
     const x = MARGIN * 0.6;
     out.push(
-      `<g class="dimension overall-height" data-metres="${overall}"><line x1="${n(x)}" y1="${n(floorY)}" x2="${n(x)}" y2="${n(Y(overall))}" stroke="${DRAWING_COLOURS.dimension}" stroke-width="1"/><line x1="${n(x - 5)}" y1="${n(Y(overall))}" x2="${n(X(0))}" y2="${n(Y(overall))}" stroke="${DRAWING_COLOURS.dimension}" stroke-width="0.6" stroke-dasharray="2 3"/><path d="M${n(x)},${n(Y(overall))} l-3,8 h6 z M${n(x)},${n(floorY)} l-3,-8 h6 z" fill="${DRAWING_COLOURS.dimension}"/><text transform="translate(${n(x - 6)},${n((floorY + Y(overall)) / 2)}) rotate(-90)" font-size="11" text-anchor="middle" fill="${DRAWING_COLOURS.dimension}">overall height ${formatNumber(overall * 1000, 4)} mm</text></g>`,
+      `<g class="dimension overall-height" data-metres="${overall}"><line x1="${n(x)}" y1="${n(floorY)}" x2="${n(x)}" y2="${n(Y(overall))}" stroke="${DRAWING_COLOURS.dimension}" stroke-width="1"/><line x1="${n(x - 5)}" y1="${n(Y(overall))}" x2="${n(X(0))}" y2="${n(Y(overall))}" stroke="${DRAWING_COLOURS.dimension}" stroke-width="0.6" stroke-dasharray="2 3"/><path d="M${n(x)},${n(Y(overall))} l-3,8 h6 z M${n(x)},${n(floorY)} l-3,-8 h6 z" fill="${DRAWING_COLOURS.dimension}"/><text transform="translate(${n(x - 6)},${n((floorY + Y(overall)) / 2)}) rotate(-90)" font-size="11" text-anchor="middle" fill="${DRAWING_COLOURS.dimension}">overall height ${lengthText(overall)}</text></g>`,
     );
   }
 

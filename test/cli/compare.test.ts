@@ -23,6 +23,7 @@ topload: { shape: toroid, outer_diameter: 610 mm, tube_diameter: 150 mm, height_
 primary: { shape: flat_spiral, inner_diameter: 230 mm, turns: 14, conductor_diameter: 6.35 mm, turn_spacing: 6 mm, elevation: 0 mm }
 tank: { capacitance: 30 nF, charge_voltage: 14 kV }
 driver: { kind: spark_gap, break_rate: 120 Hz }
+environment: { altitude: ${turns === 1100 ? '1500 m' : '0 m'} }
 `;
 const a = join(directory, 'a.yaml');
 const b = join(directory, 'b.yaml');
@@ -57,6 +58,14 @@ describe('coilfront compare a.yaml b.yaml', async () => {
     expect(rowOf(result.out, 'tank.capacitance (nF)').startsWith(DIFFERS)).toBe(false);
     expect(rowOf(result.out, 'topload.outer_diameter (mm)').startsWith(DIFFERS)).toBe(false);
     expect(rowOf(result.out, 'secondary.wire').startsWith(DIFFERS)).toBe(false);
+  });
+
+  it('shows a site length in metres and a machine length in millimetres, one unit per row', () => {
+    // lengthDisplay: an altitude is a site length (metres whatever its size); a form diameter of
+    // 160 mm stays in millimetres (common practice of builders' drawings, no source).
+    expect(rowOf(result.out, 'environment.altitude (m)')).toMatch(/1500\s+0$/);
+    expect(rowOf(result.out, 'secondary.form_diameter (mm)')).toMatch(/160\s+160$/);
+    expect(result.out).not.toContain('environment.altitude (mm)');
   });
 
   it('draws both designs side by side at one scale with --svg', () => {
