@@ -16,7 +16,7 @@ import type { CandidateRow } from '../optimize/sweep-state.ts';
 import { METRIC_DISPLAY, humanUnit } from './display-units.ts';
 import type { ObjectiveDefinition } from '../optimize/sweep-state.ts';
 import { PLOT_COLOURS } from './views/column-plot.ts';
-import { PICTURE_CAUTION, vegaLiteSvg, wrapText } from './views/vega-render.ts';
+import { PICTURE_CAUTION, type PointLabel, pointLabelLayers, vegaLiteSvg, wrapText } from './views/vega-render.ts';
 
 /** What the front's points are, beside their rows: rank in candidates.csv, refined or swept. */
 export interface FrontMarks {
@@ -59,6 +59,14 @@ function title(text: string, width: number) {
     subtitleFontSize: 11,
     anchor: 'start' as const,
   };
+}
+
+/** The front's rank labels, best rank first (placed first when the plot is crowded). */
+function rankLabels(data: readonly Datum[]): PointLabel[] {
+  return data
+    .filter((d) => d.set !== 'candidate' && d.label !== '')
+    .sort((a, b) => Number(a.label) - Number(b.label))
+    .map((d) => ({ x: Number(d.o0), y: Number(d.o1), text: d.label }));
 }
 
 function messageSpec(message: string): TopLevelSpec {
@@ -172,13 +180,10 @@ export function frontPlotSpec(
           mark: { type: 'point', filled: true, size: 44, stroke: '#102a2a', strokeWidth: 0.6 },
           encoding: { color: setEncoding, shape: shapeEncoding },
         },
-        {
-          transform: [{ filter: frontFilter }],
-          mark: { type: 'text', dx: 7, dy: -7, align: 'left', fontSize: 9, color: '#102a2a' },
-          encoding: { text: { field: 'label' } },
-        },
+        ...pointLabelLayers('#102a2a'),
       ],
-    } as TopLevelSpec;
+      usermeta: { pointLabels: rankLabels(data) },
+    } as unknown as TopLevelSpec;
   }
   // Every pair of objectives, one panel each, rows of up to three.
   const size = 240;

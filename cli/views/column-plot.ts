@@ -6,7 +6,7 @@
 import type { TopLevelSpec } from 'vega-lite';
 import { InputError } from '../../run/input-error.ts';
 import { type RunTable, columnIndex } from './run-table.ts';
-import { PICTURE_CAUTION, columnTitle, wrapText } from './vega-render.ts';
+import { PICTURE_CAUTION, type PointLabel, columnTitle, pointLabelLayers, wrapText } from './vega-render.ts';
 
 const PLOT_WIDTH = 640;
 
@@ -49,6 +49,14 @@ function numericColumn(table: RunTable, name: string, option: string): number {
   const c = columnIndex(table, name, option);
   if (!table.numeric[c]) throw new InputError(`${option}: column '${name}' holds text, not numbers`);
   return c;
+}
+
+/** The front's rank labels, best rank first (the first placed when the plot is crowded). */
+function frontLabels(data: readonly Datum[]): PointLabel[] {
+  return data
+    .filter((d) => d.set === 'front' && d.rank !== null)
+    .sort((a, b) => (a.rank ?? 0) - (b.rank ?? 0))
+    .map((d) => ({ x: d.x, y: d.y, text: d.label }));
 }
 
 /** The Vega-Lite spec of the plot. */
@@ -155,11 +163,8 @@ export function columnPlotSpec(tables: RunTables, options: ColumnPlotOptions): T
         mark: { type: 'square', size: 46, stroke: '#102a2a', strokeWidth: 0.8 },
         encoding: { x, y, color },
       },
-      {
-        transform: [{ filter: "datum.set === 'front'" }],
-        mark: { type: 'text', dx: 7, dy: -7, fontSize: 9, align: 'left', color: '#102a2a' },
-        encoding: { x, y, text: { field: 'label' } },
-      },
+      ...pointLabelLayers('#102a2a'),
     ],
-  } as TopLevelSpec;
+    usermeta: { pointLabels: frontLabels(data) },
+  } as unknown as TopLevelSpec;
 }

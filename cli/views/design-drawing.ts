@@ -17,6 +17,7 @@ import type { DesignField } from '../../core/design-field.ts';
 import { potentialAt } from '../../core/electrostatics/field-potential.ts';
 import { toploadCentreHeight, toploadToRingDistance } from '../../core/outcome/clearance.ts';
 import { METRIC_DISPLAY, formatNumber, humanUnit, lengthText } from '../display-units.ts';
+import { type Box, type LabelRequest, placeLabels, textBox } from './label-placement.ts';
 import { PICTURE_CAUTION, wrapText } from './vega-render.ts';
 
 /** Our own palette for drawings. */
@@ -161,6 +162,9 @@ export function designDrawingSvg(design: Design, field: DesignField, options: Dr
   const Y = (z: number) => floorY - z * scale;
 
   const out: string[] = [];
+  /** Labels placed at the end so that none overlaps another, the overall height's or a body's. */
+  const callouts: Callout[] = [];
+  const obstacles: Box[] = [];
   out.push(
     `<svg xmlns="http://www.w3.org/2000/svg" width="${width}" height="${height}" viewBox="0 0 ${width} ${height}" data-scale="${scale}" data-axis-x="${n(axisX)}" data-floor-y="${n(floorY)}" font-family="DejaVu Sans, Verdana, sans-serif">`,
   );
@@ -218,6 +222,7 @@ export function designDrawingSvg(design: Design, field: DesignField, options: Dr
     out.push(
       `<rect class="coil-form" x="${n(X(-formRadius))}" y="${n(Y(formTop))}" width="${n(2 * formRadius * scale)}" height="${n((formTop - formBottom) * scale)}" fill="${DRAWING_COLOURS.form}" stroke="${DRAWING_COLOURS.ink}" stroke-width="0.6"/>`,
     );
+    obstacles.push({ x0: X(-formRadius), y0: Y(formTop), x1: X(formRadius), y1: Y(formBottom) });
     const bands = 40;
     const profile = field.profile ?? ((x: number) => x);
     const length = secondary.topZ - secondary.bottomZ;
@@ -262,9 +267,17 @@ export function designDrawingSvg(design: Design, field: DesignField, options: Dr
     const tapZ = ring.z + (next.z - ring.z) * w;
     const tx = X(tapR);
     const ty = Y(tapZ) + radius + 2;
-    out.push(
-      `<path class="tap" d="M${n(tx)},${n(ty)} l-5,10 h10 z" fill="${DRAWING_COLOURS.ink}"/><text x="${n(tx)}" y="${n(ty + 22)}" font-size="10" text-anchor="middle" fill="${DRAWING_COLOURS.ink}">tap ${formatNumber(primary.tapTurns, 3)} turns</text>`,
-    );
+    out.push(`<path class="tap" d="M${n(tx)},${n(ty)} l-5,10 h10 z" fill="${DRAWING_COLOURS.ink}"/>`);
+    callouts.push({
+      x: tx,
+      y: ty + 5,
+      text: `tap ${formatNumber(primary.tapTurns, 3)} turns`,
+      fontSize: 10,
+      clearance: 7,
+      prefer: [0, 1],
+      className: 'tap-label',
+      colour: DRAWING_COLOURS.ink,
+    });
     out.push('</g>');
   }
 
@@ -288,10 +301,13 @@ export function designDrawingSvg(design: Design, field: DesignField, options: Dr
       out.push(
         `<rect class="topload" x="${n(X(-outer))}" y="${n(Y(toploadCentre + tube))}" width="${n(2 * outer * scale)}" height="${n(2 * tube * scale)}" rx="${n(tube * scale)}" fill="${DRAWING_COLOURS.topload}" fill-opacity="0.85" stroke="${DRAWING_COLOURS.ink}" stroke-width="0.8" data-outer-diameter="${topload.outerDiameter}"/>`,
       );
+      obstacles.push({ x0: X(-outer), y0: Y(toploadCentre + tube), x1: X(outer), y1: Y(toploadCentre - tube) });
     } else {
       out.push(
         `<circle class="topload" cx="${n(axisX)}" cy="${n(Y(toploadCentre))}" r="${n((topload.diameter / 2) * scale)}" fill="${DRAWING_COLOURS.topload}" fill-opacity="0.85" stroke="${DRAWING_COLOURS.ink}" stroke-width="0.8" data-outer-diameter="${topload.diameter}"/>`,
       );
+      const r = topload.diameter / 2;
+      obstacles.push({ x0: X(-r), y0: Y(toploadCentre + r), x1: X(r), y1: Y(toploadCentre - r) });
     }
     const angle = metrics.topload_peak_field_angle;
     if (angle !== null && angle !== undefined) {
@@ -305,8 +321,17 @@ export function designDrawingSvg(design: Design, field: DesignField, options: Dr
           ? `peak field ${field}`
           : `peak field ${metricText(metrics, 'topload_field_per_volt', 3)} per volt`;
       out.push(
-        `<g class="peak-field"><circle cx="${n(px)}" cy="${n(py)}" r="5" fill="${DRAWING_COLOURS.peak}" stroke="white" stroke-width="1.2"/><line x1="${n(px + 5)}" y1="${n(py - 3)}" x2="${n(px + 24)}" y2="${n(py - 16)}" stroke="${DRAWING_COLOURS.peak}"/><text x="${n(px + 26)}" y="${n(py - 18)}" font-size="11" fill="${DRAWING_COLOURS.peak}">${escapeXml(label)}</text></g>`,
+        `<g class="peak-field"><circle cx="${n(px)}" cy="${n(py)}" r="5" fill="${DRAWING_COLOURS.peak}" stroke="white" stroke-width="1.2"/></g>`,
       );
+      callouts.push({
+        x: px,
+        y: py,
+        text: label,
+        fontSize: 11,
+        clearance: 7,
+        className: 'peak-field-label',
+        colour: DRAWING_COLOURS.peak,
+      });
     }
     const target = strikeTarget(design, field);
     if (target) {
@@ -322,8 +347,18 @@ export function designDrawingSvg(design: Design, field: DesignField, options: Dr
         const mx = X((sr + target.ring.r) / 2);
         const my = Y((sz + target.ring.z) / 2);
         out.push(
-          `<g class="dimension strike-distance" data-metres="${distance}"><line x1="${n(X(sr))}" y1="${n(Y(sz))}" x2="${n(X(target.ring.r))}" y2="${n(Y(target.ring.z))}" stroke="${DRAWING_COLOURS.dimension}" stroke-dasharray="5 3" stroke-width="1"/><text x="${n(mx + 6)}" y="${n(my)}" font-size="11" fill="${DRAWING_COLOURS.dimension}">strike ${lengthText(distance)} to ${target.what}</text></g>`,
+          `<g class="dimension strike-distance" data-metres="${distance}"><line x1="${n(X(sr))}" y1="${n(Y(sz))}" x2="${n(X(target.ring.r))}" y2="${n(Y(target.ring.z))}" stroke="${DRAWING_COLOURS.dimension}" stroke-dasharray="5 3" stroke-width="1"/></g>`,
         );
+        callouts.push({
+          x: mx,
+          y: my,
+          text: `strike ${lengthText(distance)} to ${target.what}`,
+          fontSize: 11,
+          clearance: 3,
+          prefer: [1, 0],
+          className: 'strike-distance-label',
+          colour: DRAWING_COLOURS.dimension,
+        });
       }
     }
   }
@@ -358,9 +393,15 @@ export function designDrawingSvg(design: Design, field: DesignField, options: Dr
           ])
         : [1, -1].map((side) => [side * outer, toploadCentre, side * (outer + pointLength), toploadCentre]);
     const [, , labelR, labelZ] = ends[0] ?? [0, 0, 0, 0];
-    out.push(
-      `<text class="breakout-point-label" x="${n(X(labelR) + 8)}" y="${n(Y(labelZ) - 6)}" font-size="11" fill="${DRAWING_COLOURS.point}">breakout point ${lengthText(pointLength, 3)}</text>`,
-    );
+    callouts.push({
+      x: X(labelR),
+      y: Y(labelZ),
+      text: `breakout point ${lengthText(pointLength, 3)}`,
+      fontSize: 11,
+      clearance: 4,
+      className: 'breakout-point-label',
+      colour: DRAWING_COLOURS.point,
+    });
     for (const [r0, z0, r1, z1] of ends)
       out.push(
         `<g class="breakout-point" data-length="${pointLength}"><line x1="${n(X(r0))}" y1="${n(Y(z0))}" x2="${n(X(r1))}" y2="${n(Y(z1))}" stroke="${DRAWING_COLOURS.point}" stroke-width="${n(Math.max(1.2, 2 * tip * scale))}"/><circle cx="${n(X(r1))}" cy="${n(Y(z1))}" r="${n(Math.max(1.2, tip * scale))}" fill="${DRAWING_COLOURS.point}"/></g>`,
@@ -371,14 +412,51 @@ export function designDrawingSvg(design: Design, field: DesignField, options: Dr
   const overall = metrics.overall_height;
   if (overall !== null && overall !== undefined && Number.isFinite(overall)) {
     const x = MARGIN * 0.6;
+    const along = textBox(0, 0, `overall height ${lengthText(overall)}`, 11, 'middle');
+    const middle = (floorY + Y(overall)) / 2;
+    // rotated by −90° about (x − 6, middle): the text's width runs up the page, its ascent to the left
+    obstacles.push({ x0: x - 6 + along.y0, y0: middle + along.x0, x1: x - 6 + along.y1, y1: middle + along.x1 });
     out.push(
       `<g class="dimension overall-height" data-metres="${overall}"><line x1="${n(x)}" y1="${n(floorY)}" x2="${n(x)}" y2="${n(Y(overall))}" stroke="${DRAWING_COLOURS.dimension}" stroke-width="1"/><line x1="${n(x - 5)}" y1="${n(Y(overall))}" x2="${n(X(0))}" y2="${n(Y(overall))}" stroke="${DRAWING_COLOURS.dimension}" stroke-width="0.6" stroke-dasharray="2 3"/><path d="M${n(x)},${n(Y(overall))} l-3,8 h6 z M${n(x)},${n(floorY)} l-3,-8 h6 z" fill="${DRAWING_COLOURS.dimension}"/><text transform="translate(${n(x - 6)},${n((floorY + Y(overall)) / 2)}) rotate(-90)" font-size="11" text-anchor="middle" fill="${DRAWING_COLOURS.dimension}">overall height ${lengthText(overall)}</text></g>`,
     );
   }
 
-  out.push(titleBlock(field, options.title, MARGIN * 1.5 + drawingWidth + LABEL_ROOM, MARGIN, scale, levelsDrawn));
+  const blockX = MARGIN * 1.5 + drawingWidth + LABEL_ROOM;
+  out.push(calloutsSvg(callouts, { x0: 0, y0: 0, x1: blockX - 8, y1: height }, obstacles));
+  out.push(titleBlock(field, options.title, blockX, MARGIN, scale, levelsDrawn));
   out.push('</svg>');
   return `${out.join('\n')}\n`;
+}
+
+/** A label of the drawing beside its point, with the class and colour it is drawn in. */
+interface Callout extends LabelRequest {
+  className: string;
+  colour: string;
+}
+
+/**
+ * The callouts placed so that no two overlap and none covers an obstacle (label-placement.ts), each
+ * with its leader line when it stands away from its point; one that finds no room is left out and
+ * listed in a comment (its figure is in the title block or the sheet).
+ */
+function calloutsSvg(callouts: Callout[], bounds: Box, obstacles: Box[]): string {
+  const { placed, dropped } = placeLabels(callouts, bounds, obstacles);
+  const out = ['<g class="callouts">'];
+  for (const label of placed) {
+    const { className, colour, fontSize, text } = label.request as Callout;
+    if (label.leader) {
+      const { x1, y1, x2, y2 } = label.leader;
+      out.push(
+        `<line class="leader" x1="${n(x1)}" y1="${n(y1)}" x2="${n(x2)}" y2="${n(y2)}" stroke="${colour}" stroke-width="0.7"/>`,
+      );
+    }
+    out.push(
+      `<text class="${className}" x="${n(label.x)}" y="${n(label.y)}" font-size="${fontSize}" text-anchor="${label.anchor}" fill="${colour}">${escapeXml(text)}</text>`,
+    );
+  }
+  for (const label of dropped) out.push(`<!-- no room for the label: ${escapeXml(label.text)} -->`);
+  out.push('</g>');
+  return out.join('\n');
 }
 
 /** What a strike would reach first: the strike rail when there is one, else the outermost primary ring. */

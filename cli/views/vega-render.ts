@@ -4,15 +4,84 @@
  */
 import type { TopLevelSpec } from 'vega-lite';
 import { KIND_DISPLAY, METRIC_DISPLAY, humanUnit } from '../display-units.ts';
+import { type LabelRequest, placeLabels, pointBox } from './label-placement.ts';
 
 /** The one-line caution every picture carries. */
 export const PICTURE_CAUTION =
   'Model estimates, not a safety assessment: tank and supply voltages are lethal — read the safety cautions.';
 
+/**
+ * Labels a spec asks for beside its points (in `usermeta.pointLabels`, data coordinates of its x and
+ * y scales), placed once the scales are known so that no two overlap (label-placement.ts); the spec
+ * draws them through the layers of `pointLabelLayers`.
+ */
+export interface PointLabel {
+  x: number;
+  y: number;
+  text: string;
+}
+
+/** Font size of the point labels, px. */
+export const POINT_LABEL_FONT_SIZE = 9;
+/** Radius of the marks the labels stand beside, px (a square of size 46 is about 7 px across). */
+const POINT_LABEL_CLEARANCE = 4;
+const LABEL_DATA = { start: 'point_labels_start', middle: 'point_labels_middle', end: 'point_labels_end' } as const;
+const LEADER_DATA = 'point_label_leaders';
+
+/** The layers that draw the placed labels and their leaders (pixel positions, no scale). */
+export function pointLabelLayers(colour: string): Record<string, unknown>[] {
+  const pixel = (field: string) => ({ field, type: 'quantitative' as const, scale: null });
+  const align = { start: 'left', middle: 'center', end: 'right' } as const;
+  return [
+    {
+      data: { name: LEADER_DATA },
+      mark: { type: 'rule', color: colour, strokeWidth: 0.6, opacity: 0.7 },
+      encoding: { x: pixel('x1'), y: pixel('y1'), x2: { field: 'x2' }, y2: { field: 'y2' } },
+    },
+    ...(['start', 'middle', 'end'] as const).map((anchor) => ({
+      data: { name: LABEL_DATA[anchor] },
+      mark: {
+        type: 'text',
+        align: align[anchor],
+        baseline: 'alphabetic',
+        fontSize: POINT_LABEL_FONT_SIZE,
+        color: colour,
+      },
+      encoding: { x: pixel('x'), y: pixel('y'), text: { field: 'text' } },
+    })),
+  ];
+}
+
 export async function vegaLiteSvg(spec: TopLevelSpec): Promise<string> {
   const [vega, { compile }] = await Promise.all([import('vega'), import('vega-lite')]);
   const compiled = compile(spec).spec;
   const view = new vega.View(vega.parse(compiled), { renderer: 'none' });
+  const labels = (spec.usermeta?.pointLabels ?? []) as PointLabel[];
+  if (labels.length > 0) {
+    await view.runAsync();
+    const width = Number(view.signal('width'));
+    const height = Number(view.signal('height'));
+    const xs = view.scale('x') as (value: number) => number;
+    const ys = view.scale('y') as (value: number) => number;
+    const requests: LabelRequest[] = labels.map((label) => ({
+      x: xs(label.x),
+      y: ys(label.y),
+      text: label.text,
+      fontSize: POINT_LABEL_FONT_SIZE,
+      clearance: POINT_LABEL_CLEARANCE,
+    }));
+    const marks = requests.map((r) => pointBox(r.x, r.y, POINT_LABEL_CLEARANCE));
+    const { placed } = placeLabels(requests, { x0: 0, y0: 0, x1: width, y1: height }, marks);
+    for (const anchor of ['start', 'middle', 'end'] as const)
+      view.data(
+        LABEL_DATA[anchor],
+        placed.filter((p) => p.anchor === anchor).map((p) => ({ x: p.x, y: p.y, text: p.request.text })),
+      );
+    view.data(
+      LEADER_DATA,
+      placed.flatMap((p) => (p.leader ? [p.leader] : [])),
+    );
+  }
   const svg = await view.toSVG();
   view.finalize();
   return `${svg}\n`;
