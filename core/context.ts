@@ -102,6 +102,9 @@ export interface EvalContext {
   sparkShot?: { shot: SparkGapShot; chargeVoltage: number };
   /** Peak tank voltage of a solid-state burst, V. */
   burstPeakTankVoltage?: number;
+  /** Peak tank current of a solid-state burst, A, and ∫ i1² dt over it, A²·s. */
+  burstPeakTankCurrent?: number;
+  burstTankCurrentSquared?: number;
   /** The tank bank's layout, when the design builds its tank from parts (core/stages/tank-stage.ts). */
   tankBank?: BankLayout & { workingVoltage: number };
   /** A separate resonator and its line (three-coil systems, core/stages/resonator-stage.ts). */

@@ -53,6 +53,8 @@ export interface SolidStateBurst {
   peakTankVoltage: number;
   /** Energy drawn from the supply, ∫ e·i1 dt, J. */
   energyFromSource: number;
+  /** ∫ i1² dt over the burst, A²·s (trapezoidal rule over the steps), for the rms tank current. */
+  primaryCurrentSquared: number;
   /** Energy dissipated in R1 and R2, ∫ (R1 i1² + R2 i2²) dt, J. */
   energyDissipated: number;
   /** State [v1, v2, i1, i2] at the end. */
@@ -88,6 +90,7 @@ export function solidStateBurst(circuit: CoupledCircuit, drive: BridgeDrive): So
   let switchings = 0;
   let time = 0;
   let energyFromSource = 0;
+  let currentSquared = 0;
   let peakVoltage = 0;
   let peakPrimaryCurrent = 0;
   let peakTankVoltage = 0;
@@ -113,6 +116,7 @@ export function solidStateBurst(circuit: CoupledCircuit, drive: BridgeDrive): So
     if (!overLimit && !reversed) {
       // the common case: no event inside the step
       energyFromSource += source * tankCapacitance * (trial[0] - state[0]);
+      currentSquared += 0.5 * (state[2] * state[2] + trial[2] * trial[2]) * length;
       if (full) peakVoltage = Math.max(peakVoltage, Math.abs(middle[1]));
       for (let c = 0; c < 5; c++) state[c] = trial[c];
       peakVoltage = Math.max(peakVoltage, Math.abs(state[1]));
@@ -140,6 +144,7 @@ export function solidStateBurst(circuit: CoupledCircuit, drive: BridgeDrive): So
     const fraction = Math.min(limitFraction, reverseFraction);
     advance(state, trial, fraction * length);
     energyFromSource += source * tankCapacitance * (trial[0] - state[0]);
+    currentSquared += 0.5 * (state[2] * state[2] + trial[2] * trial[2]) * fraction * length;
     state.set(trial);
     peakVoltage = Math.max(peakVoltage, Math.abs(state[1]));
     peakPrimaryCurrent = Math.max(peakPrimaryCurrent, Math.abs(state[2]));
@@ -168,6 +173,7 @@ export function solidStateBurst(circuit: CoupledCircuit, drive: BridgeDrive): So
     peakPrimaryCurrent,
     peakTankVoltage,
     energyFromSource,
+    primaryCurrentSquared: currentSquared,
     energyDissipated: state[4],
     finalState: state.slice(0, 4),
     breakoutTime,

@@ -210,6 +210,8 @@ function runSolidState(context: EvalContext, circuit: CoupledCircuit, driver: So
     });
   }
   context.burstPeakTankVoltage = burst.peakTankVoltage;
+  context.burstPeakTankCurrent = burst.peakPrimaryCurrent;
+  context.burstTankCurrentSquared = burst.primaryCurrentSquared;
   tankRatingCheck(context, burst.peakTankVoltage, 'the peak tank voltage in the burst');
 }
 

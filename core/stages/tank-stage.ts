@@ -5,7 +5,10 @@
  * Before the other stages, `prepareTank` turns the design's tank into the one that is built: with
  * a `tankBank` its capacitance is the bank's (n_p·C_part/n_s, core/tank/bank.ts) and its rating the
  * string's (n_s·V_part); with a `supply` and a rotary gap the charge voltage is the charge reached
- * from the supply's current at the break rate (core/supply/supply.ts). The dynamics then simulate
+ * from the supply's current at the break rate, and with a static gap the break rate is the one the
+ * supply's current gives at the gap's setting (staticBreakRateEstimate, an estimate, common practice
+ * [supply-charging]), so energy per shot and input power follow from the supply
+ * (core/supply/supply.ts). The dynamics then simulate
  * that tank. After them, `tankStage` takes the computed tank waveform (the spark-gap shot) for the
  * currents each part carries, checks the parts' ratings (a bank that cannot meet them makes the
  * design infeasible), sizes the bleeders, compares the shots with the supply's rating and sets the
@@ -76,7 +79,17 @@ export function prepareTank(
   let rating = tank.voltageRating;
   let layout: EvalContext['tankBank'];
   const bank = design.tankBank;
-  if (bank) {
+  const solidAuto = bank !== undefined && driver?.kind === 'solid_state' && bank.series === undefined;
+  if (solidAuto && bank.parallel !== undefined) {
+    problems.push({
+      field: 'tank_bank.parallel',
+      reason:
+        'with a solid-state driver and an automatic series count, leave the parallel count automatic too (the burst is simulated at the target capacitance, which only an automatic parallel count keeps)',
+    });
+    return { design };
+  }
+  // A solid-state bank with an automatic series count is laid out after the burst (layoutAfterBurst).
+  if (bank && !solidAuto) {
     const part = {
       capacitance: bank.partCapacitance,
       voltageRating: bank.partVoltageRating,
@@ -88,9 +101,7 @@ export function prepareTank(
     if (working === undefined && bank.series === undefined) {
       problems.push({
         field: 'tank_bank.series',
-        reason: solid
-          ? 'give the series count with a solid-state driver (its tank voltage is known only from the burst)'
-          : 'give the series count, or a charge voltage to choose it from',
+        reason: 'give the series count, or a charge voltage to choose it from',
       });
       return { design };
     }
@@ -124,6 +135,8 @@ export function prepareTank(
   }
 
   let chargeVoltage = chargeAt(capacitance);
+  /** A static gap fires as often as the supply charges the tank to its setting (the estimate is the break rate). */
+  let staticRate: number | undefined;
   if (supply && source && spark) {
     const resonant = resonantCapacitance(source);
     const ratio = capacitance / resonant;
@@ -145,7 +158,8 @@ export function prepareTank(
         });
         return { design };
       }
-      metrics.supply_break_rate_estimate = staticBreakRateEstimate(source, capacitance, chargeVoltage);
+      staticRate = staticBreakRateEstimate(source, capacitance, chargeVoltage);
+      metrics.supply_break_rate_estimate = staticRate;
     }
     if (chargeVoltage !== undefined) {
       metrics.supply_charge_voltage = chargeVoltage;
@@ -161,7 +175,34 @@ export function prepareTank(
   const built = { ...tank, capacitance };
   if (chargeVoltage !== undefined) built.chargeVoltage = chargeVoltage;
   if (rating !== undefined) built.voltageRating = rating;
-  return { design: { ...design, tank: built }, layout };
+  const firing =
+    spark && staticRate !== undefined && Number.isFinite(staticRate) ? { ...spark, breakRate: staticRate } : driver;
+  return { design: { ...design, tank: built, driver: firing }, layout };
+}
+
+/**
+ * The layout of a solid-state bank whose series count is automatic, from the burst's peak tank
+ * voltage (simulated at the target capacitance; the automatic parallel count keeps the bank within
+ * half a part's share of it): n_s = ⌈margin · V_peak / V_part⌉ (core/tank/bank.ts).
+ */
+function layoutAfterBurst(context: EvalContext): void {
+  const { design, metrics } = context;
+  const bank = design.tankBank;
+  const tank = design.tank;
+  const working = context.burstPeakTankVoltage;
+  if (!bank || !tank || working === undefined || !(working > 0)) return;
+  const part = {
+    capacitance: bank.partCapacitance,
+    voltageRating: bank.partVoltageRating,
+    rmsCurrentRating: bank.partRmsCurrentRating,
+    peakCurrentRating: bank.partPeakCurrentRating,
+  };
+  const layout = bankLayout(part, tank.capacitance, working, bank.voltageMargin);
+  context.tankBank = { ...layout, workingVoltage: working };
+  metrics.tank_bank_series = layout.series;
+  metrics.tank_bank_parallel = layout.parallel;
+  metrics.tank_bank_part_count = layout.partCount;
+  metrics.tank_bank_capacitance = layout.capacitance;
 }
 
 /** Largest series count the automatic layout tries. */
@@ -213,8 +254,19 @@ export function tankStage(context: EvalContext): void {
     }
   }
 
+  // --- a solid-state burst's tank current ---
+  if (driver.kind === 'solid_state' && context.burstPeakTankCurrent !== undefined) {
+    peakCurrent = context.burstPeakTankCurrent;
+    const squared = context.burstTankCurrentSquared ?? Number.NaN;
+    // rms over the bursts: √(rate · ∫ i1² dt) (rms of a repetitive pulse, exact)
+    rmsCurrent = Number.isFinite(squared) && squared >= 0 ? Math.sqrt(squared * driver.repetitionRate) : null;
+    metrics.tank_peak_current = peakCurrent;
+    metrics.tank_rms_current = rmsCurrent;
+  }
+
   // --- the bank's parts ---
   const bank = design.tankBank;
+  if (bank && driver.kind === 'solid_state' && !context.tankBank) layoutAfterBurst(context);
   const layout = context.tankBank;
   if (bank && layout) {
     const working =

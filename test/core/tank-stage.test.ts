@@ -7,7 +7,7 @@
 import { describe, expect, test } from 'vitest';
 import { loadDesignFile } from '../../cli/load-design.ts';
 import type { Design } from '../../core/design.ts';
-import { evaluateDesign } from '../../core/evaluate.ts';
+import { evaluateDesign, evaluateDesignInDetail } from '../../core/evaluate.ts';
 import { coupledModes, coupledStateAt } from '../../core/dynamics/coupled-modes.ts';
 import { sparkGapShot } from '../../core/dynamics/spark-gap.ts';
 import type { CoupledCircuit } from '../../core/dynamics/circuit.ts';
@@ -184,6 +184,9 @@ describe('a static gap on a ballasted supply (an invented bench case)', () => {
     expect(r.energy_per_shot).toBeCloseTo(0.5 * 20e-9 * 12e3 * 12e3, 9);
     // the mean rectified current (2√2/π)·50 mA refills 20 nF to 12 kV this often
     expect(r.supply_break_rate_estimate).toBeCloseTo((RECTIFIED_MEAN_FACTOR * 0.05) / (20e-9 * 12e3), 9);
+    // with a supply, that refill rate is the break rate: input power = energy per shot × rate
+    expect(r.input_power).toBeCloseTo((r.energy_per_shot ?? 0) * (r.supply_break_rate_estimate ?? 0), 6);
+    expect(Math.abs((r.input_power ?? 0) - (r.energy_per_shot ?? 0) * 120)).toBeGreaterThan(1);
     // the rated VA is the given power, 1 kVA
     expect(r.supply_load_fraction).toBeCloseTo((r.input_power ?? 0) / 1e3, 12);
   });
@@ -197,5 +200,55 @@ describe('a static gap on a ballasted supply (an invented bench case)', () => {
     const near = evaluateDesign({ ...design, tank: { capacitance: 13e-9, chargeVoltage: 12e3 } });
     expect(near.warnings.map((w) => w.key)).toContain('supply_resonant_rise');
     expect(result.warnings.map((w) => w.key)).not.toContain('supply_resonant_rise');
+  });
+});
+
+describe('a solid-state bank with automatic counts (examples/solid-state-bench-coil.yaml, invented 330 nF / 1.2 kV parts)', () => {
+  const bench = loadDesignFile('examples/solid-state-bench-coil.yaml').design;
+  const bank = {
+    partCapacitance: 330e-9,
+    partVoltageRating: 1.2e3,
+    partRmsCurrentRating: 40,
+    voltageMargin: 2,
+    bleedTime: 60,
+  };
+  const withBank: Design = { ...bench, tankBank: bank };
+  const bare = evaluateDesignInDetail(bench);
+  const built = evaluateDesignInDetail(withBank);
+  const b = built.evaluation.metrics;
+  const peak = bare.context.burstPeakTankVoltage ?? Number.NaN;
+
+  test('is feasible and lays the bank out from the burst at the target capacitance', () => {
+    expect(built.evaluation.problems).toEqual([]);
+    expect(peak).toBeGreaterThan(0);
+    // hand arithmetic (core/tank/bank.ts): n_s = ⌈2·V_peak/1.2 kV⌉, n_p = round(100 nF·n_s/330 nF)
+    const ns = Math.ceil((2 * peak) / 1.2e3);
+    expect(b.tank_bank_series).toBe(ns);
+    expect(b.tank_bank_parallel).toBe(Math.max(1, Math.round((100e-9 * ns) / 330e-9)));
+    expect(b.tank_bank_capacitance).toBeCloseTo(((b.tank_bank_parallel ?? 0) * 330e-9) / ns, 20);
+    expect(2 * (b.tank_bank_part_voltage ?? Number.POSITIVE_INFINITY)).toBeLessThanOrEqual(1.2e3);
+  });
+
+  test('the part currents are the burst tank current shared by the strings', () => {
+    const np = b.tank_bank_parallel ?? Number.NaN;
+    const rms = b.tank_rms_current ?? Number.NaN;
+    const peakCurrent = b.tank_peak_current ?? Number.NaN;
+    expect(b.tank_bank_part_rms_current).toBeCloseTo(rms / np, 9);
+    expect(b.tank_bank_part_peak_current).toBeCloseTo(peakCurrent / np, 9);
+    // rms of a repetitive pulse (exact bounds): below peak·√(rate·on time), and at least the
+    // rms a sine rising linearly to the peak over the 40 µs burst would have, peak·√(rate·T/6)
+    expect(rms).toBeLessThanOrEqual(peakCurrent * Math.sqrt(100 * 40e-6) * (1 + 1e-9));
+    expect(rms).toBeGreaterThan(peakCurrent * Math.sqrt((100 * 40e-6) / 6) * 0.5);
+  });
+
+  test('parts rated below the rms current make the design infeasible, naming the rating', () => {
+    const rms = b.tank_bank_part_rms_current ?? 0;
+    const weak = evaluateDesign({ ...withBank, tankBank: { ...bank, partRmsCurrentRating: rms / 2 } });
+    expect(weak.problems[0]?.field).toBe('tank_bank.part_rms_current_rating');
+  });
+
+  test('a fixed parallel count with an automatic series count is refused with its reason', () => {
+    const fixed = evaluateDesign({ ...withBank, tankBank: { ...bank, parallel: 3 } });
+    expect(fixed.problems[0]?.field).toBe('tank_bank.parallel');
   });
 });
