@@ -126,51 +126,32 @@ function isolinePath(
   return parts.join('');
 }
 
-/** The SVG drawing of a design (see the module comment). */
-export function designDrawingSvg(design: Design, field: DesignField, options: DrawingOptions): string {
-  const metrics = field.evaluation.metrics;
-  const secondary = field.secondary;
-  const primary = field.primary;
-  const topload = design.topload;
-  const toploadCentre = topload ? toploadCentreHeight(topload, secondary ? secondary.topZ : null) : null;
+/** What the parts of the drawing share: the design, its field, the picture's scale and what is drawn so far. */
+interface Canvas {
+  design: Design;
+  field: DesignField;
+  metrics: Record<string, number | null>;
+  secondary: DesignField['secondary'];
+  primary: DesignField['primary'];
+  topload: Design['topload'];
+  toploadCentre: number | null;
+  X: (r: number) => number;
+  Y: (z: number) => number;
+  scale: number;
+  axisX: number;
+  floorY: number;
+  drawingWidth: number;
+  halfWidth: number;
+  fieldTop: number;
+  options: DrawingOptions;
+  out: string[];
+  callouts: Callout[];
+  obstacles: Box[];
+}
 
-  // Extent of the picture in metres: the widest body and the highest point.
-  let halfWidth = 0.1;
-  let top = 0.1;
-  if (secondary) {
-    halfWidth = Math.max(halfWidth, secondary.radius + secondary.overallDiameter);
-    top = Math.max(top, secondary.topZ);
-  }
-  for (const ring of primary?.rings ?? []) halfWidth = Math.max(halfWidth, ring.r + (primary?.conductorRadius ?? 0));
-  if (design.strikeRail) halfWidth = Math.max(halfWidth, design.strikeRail.diameter / 2);
-  if (topload && toploadCentre !== null) {
-    const outer = topload.shape === 'toroid' ? topload.outerDiameter / 2 : topload.diameter / 2;
-    const rise = topload.shape === 'toroid' ? topload.tubeDiameter / 2 : topload.diameter / 2;
-    halfWidth = Math.max(halfWidth, outer);
-    top = Math.max(top, toploadCentre + rise);
-  }
-  halfWidth *= 1.6;
-  const fieldTop = Math.max(top * 1.15 + 0.05, options.pictureTop ?? 0);
-  const drawingHeight = options.height ?? 640;
-  const scale = drawingHeight / fieldTop;
-  const drawingWidth = 2 * halfWidth * scale;
-  const width = Math.ceil(drawingWidth + 2 * MARGIN + LABEL_ROOM + TITLE_BLOCK_WIDTH);
-  const height = Math.ceil(drawingHeight + 2 * MARGIN);
-  const axisX = MARGIN + drawingWidth / 2;
-  const floorY = MARGIN + drawingHeight;
-  const X = (r: number) => axisX + r * scale;
-  const Y = (z: number) => floorY - z * scale;
-
-  const out: string[] = [];
-  /** Labels placed at the end so that none overlaps another, the overall height's or a body's. */
-  const callouts: Callout[] = [];
-  const obstacles: Box[] = [];
-  out.push(
-    `<svg xmlns="http://www.w3.org/2000/svg" width="${width}" height="${height}" viewBox="0 0 ${width} ${height}" data-scale="${scale}" data-axis-x="${n(axisX)}" data-floor-y="${n(floorY)}" font-family="DejaVu Sans, Verdana, sans-serif">`,
-  );
-  out.push(`<rect x="0" y="0" width="${width}" height="${height}" fill="${DRAWING_COLOURS.paper}"/>`);
-
-  // Equipotentials of the solved field, mirrored about the axis.
+/** Equipotentials of the solved field, mirrored about the axis; returns the levels drawn. */
+function drawField(c: Canvas): number {
+  const { field, X, Y, halfWidth, fieldTop, options, out } = c;
   const solved = field.field;
   let levelsDrawn = 0;
   if (solved && field.arrangement) {
@@ -203,8 +184,12 @@ export function designDrawingSvg(design: Design, field: DesignField, options: Dr
     }
     out.push('</g>');
   }
+  return levelsDrawn;
+}
 
-  // Floor.
+/** The floor, hatched. */
+function drawFloor(c: Canvas): void {
+  const { floorY, drawingWidth, out } = c;
   out.push(
     `<line class="floor" x1="${MARGIN / 2}" y1="${n(floorY)}" x2="${n(MARGIN * 1.5 + drawingWidth)}" y2="${n(floorY)}" stroke="${DRAWING_COLOURS.floor}" stroke-width="2"/>`,
   );
@@ -213,8 +198,11 @@ export function designDrawingSvg(design: Design, field: DesignField, options: Dr
       `<line x1="${n(x)}" y1="${n(floorY)}" x2="${n(x - 8)}" y2="${n(floorY + 8)}" stroke="${DRAWING_COLOURS.floor}" stroke-width="0.8"/>`,
     );
   }
+}
 
-  // Coil form and winding.
+/** The coil form and the winding, coloured by its voltage. */
+function drawSecondary(c: Canvas): void {
+  const { design, field, secondary, X, Y, scale, out, obstacles } = c;
   if (secondary) {
     const formRadius = design.secondary ? design.secondary.formDiameter / 2 : secondary.radius;
     const formBottom = 0;
@@ -243,8 +231,11 @@ export function designDrawingSvg(design: Design, field: DesignField, options: Dr
     }
     out.push('</g>');
   }
+}
 
-  // Primary rings: the tapped part solid, the rest hollow; the tap marked.
+/** The primary rings (the tapped part solid, the rest hollow) and the tap. */
+function drawPrimary(c: Canvas): void {
+  const { primary, X, Y, scale, out, callouts } = c;
   if (primary && primary.rings.length > 0) {
     const radius = Math.max(1.6, primary.conductorRadius * scale);
     out.push(`<g class="primary" data-tap-turns="${primary.tapTurns}">`);
@@ -280,8 +271,11 @@ export function designDrawingSvg(design: Design, field: DesignField, options: Dr
     });
     out.push('</g>');
   }
+}
 
-  // Strike rail.
+/** The strike rail. */
+function drawStrikeRail(c: Canvas): void {
+  const { design, secondary, X, Y, scale, out } = c;
   if (design.strikeRail && secondary) {
     const rail = design.strikeRail;
     const z = secondary.bottomZ + rail.elevation;
@@ -292,8 +286,11 @@ export function designDrawingSvg(design: Design, field: DesignField, options: Dr
       );
     }
   }
+}
 
-  // Topload, its peak-field spot, and the strike distance.
+/** The topload, its peak-field spot and the strike distance. */
+function drawTopload(c: Canvas): void {
+  const { design, field, metrics, topload, toploadCentre, X, Y, scale, axisX, out, callouts, obstacles } = c;
   if (topload && toploadCentre !== null) {
     if (topload.shape === 'toroid') {
       const outer = topload.outerDiameter / 2;
@@ -362,8 +359,11 @@ export function designDrawingSvg(design: Design, field: DesignField, options: Dr
       }
     }
   }
+}
 
-  // The insulating support (both sides of the axis for rods) and the breakout point.
+/** The insulating support (both sides of the axis for rods) and the breakout point. */
+function drawSupportAndPoint(c: Canvas): void {
+  const { design, field, metrics, topload, toploadCentre, X, Y, scale, out, callouts } = c;
   if (field.support) {
     const member = field.support;
     const width = Math.max(1.5, (design.support?.diameter ?? 0) * scale);
@@ -407,8 +407,11 @@ export function designDrawingSvg(design: Design, field: DesignField, options: Dr
         `<g class="breakout-point" data-length="${pointLength}"><line x1="${n(X(r0))}" y1="${n(Y(z0))}" x2="${n(X(r1))}" y2="${n(Y(z1))}" stroke="${DRAWING_COLOURS.point}" stroke-width="${n(Math.max(1.2, 2 * tip * scale))}"/><circle cx="${n(X(r1))}" cy="${n(Y(z1))}" r="${n(Math.max(1.2, tip * scale))}" fill="${DRAWING_COLOURS.point}"/></g>`,
       );
   }
+}
 
-  // Overall height, dimensioned on the left.
+/** The overall height, dimensioned on the left. */
+function drawOverallHeight(c: Canvas): void {
+  const { metrics, X, Y, floorY, out, obstacles } = c;
   const overall = metrics.overall_height;
   if (overall !== null && overall !== undefined && Number.isFinite(overall)) {
     const x = MARGIN * 0.6;
@@ -420,6 +423,81 @@ export function designDrawingSvg(design: Design, field: DesignField, options: Dr
       `<g class="dimension overall-height" data-metres="${overall}"><line x1="${n(x)}" y1="${n(floorY)}" x2="${n(x)}" y2="${n(Y(overall))}" stroke="${DRAWING_COLOURS.dimension}" stroke-width="1"/><line x1="${n(x - 5)}" y1="${n(Y(overall))}" x2="${n(X(0))}" y2="${n(Y(overall))}" stroke="${DRAWING_COLOURS.dimension}" stroke-width="0.6" stroke-dasharray="2 3"/><path d="M${n(x)},${n(Y(overall))} l-3,8 h6 z M${n(x)},${n(floorY)} l-3,-8 h6 z" fill="${DRAWING_COLOURS.dimension}"/><text transform="translate(${n(x - 6)},${n((floorY + Y(overall)) / 2)}) rotate(-90)" font-size="11" text-anchor="middle" fill="${DRAWING_COLOURS.dimension}">overall height ${lengthText(overall)}</text></g>`,
     );
   }
+}
+
+/** The SVG drawing of a design (see the module comment). */
+export function designDrawingSvg(design: Design, field: DesignField, options: DrawingOptions): string {
+  const metrics = field.evaluation.metrics;
+  const secondary = field.secondary;
+  const primary = field.primary;
+  const topload = design.topload;
+  const toploadCentre = topload ? toploadCentreHeight(topload, secondary ? secondary.topZ : null) : null;
+
+  // Extent of the picture in metres: the widest body and the highest point.
+  let halfWidth = 0.1;
+  let top = 0.1;
+  if (secondary) {
+    halfWidth = Math.max(halfWidth, secondary.radius + secondary.overallDiameter);
+    top = Math.max(top, secondary.topZ);
+  }
+  for (const ring of primary?.rings ?? []) halfWidth = Math.max(halfWidth, ring.r + (primary?.conductorRadius ?? 0));
+  if (design.strikeRail) halfWidth = Math.max(halfWidth, design.strikeRail.diameter / 2);
+  if (topload && toploadCentre !== null) {
+    const outer = topload.shape === 'toroid' ? topload.outerDiameter / 2 : topload.diameter / 2;
+    const rise = topload.shape === 'toroid' ? topload.tubeDiameter / 2 : topload.diameter / 2;
+    halfWidth = Math.max(halfWidth, outer);
+    top = Math.max(top, toploadCentre + rise);
+  }
+  halfWidth *= 1.6;
+  const fieldTop = Math.max(top * 1.15 + 0.05, options.pictureTop ?? 0);
+  const drawingHeight = options.height ?? 640;
+  const scale = drawingHeight / fieldTop;
+  const drawingWidth = 2 * halfWidth * scale;
+  const width = Math.ceil(drawingWidth + 2 * MARGIN + LABEL_ROOM + TITLE_BLOCK_WIDTH);
+  const height = Math.ceil(drawingHeight + 2 * MARGIN);
+  const axisX = MARGIN + drawingWidth / 2;
+  const floorY = MARGIN + drawingHeight;
+  const X = (r: number) => axisX + r * scale;
+  const Y = (z: number) => floorY - z * scale;
+
+  const out: string[] = [];
+  /** Labels placed at the end so that none overlaps another, the overall height's or a body's. */
+  const callouts: Callout[] = [];
+  const obstacles: Box[] = [];
+  out.push(
+    `<svg xmlns="http://www.w3.org/2000/svg" width="${width}" height="${height}" viewBox="0 0 ${width} ${height}" data-scale="${scale}" data-axis-x="${n(axisX)}" data-floor-y="${n(floorY)}" font-family="DejaVu Sans, Verdana, sans-serif">`,
+  );
+  out.push(`<rect x="0" y="0" width="${width}" height="${height}" fill="${DRAWING_COLOURS.paper}"/>`);
+
+  const c: Canvas = {
+    design,
+    field,
+    metrics,
+    secondary,
+    primary,
+    topload,
+    toploadCentre,
+    X,
+    Y,
+    scale,
+    axisX,
+    floorY,
+    drawingWidth,
+    halfWidth,
+    fieldTop,
+    options,
+    out,
+    callouts,
+    obstacles,
+  };
+  const levelsDrawn = drawField(c);
+  drawFloor(c);
+  drawSecondary(c);
+  drawPrimary(c);
+  drawStrikeRail(c);
+  drawTopload(c);
+  drawSupportAndPoint(c);
+  drawOverallHeight(c);
 
   const blockX = MARGIN * 1.5 + drawingWidth + LABEL_ROOM;
   out.push(calloutsSvg(callouts, { x0: 0, y0: 0, x1: blockX - 8, y1: height }, obstacles));
