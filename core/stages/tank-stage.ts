@@ -15,7 +15,7 @@
  * safety gap.
  */
 import type { DesignProblem, EvalContext } from '../context.ts';
-import type { Design, SupplySpec } from '../design.ts';
+import type { Design, DriverSpec, SolidStateDriver, SparkGapDriver, SupplySpec, TankSpec } from '../design.ts';
 import type { Metrics } from '../metrics.ts';
 import type { DesignWarning } from '../outcome/warnings.ts';
 import { formatNumber, formatQuantity } from '../outcome/warnings.ts';
@@ -217,16 +217,29 @@ const SCAN_MAX_SAMPLES = 200_000;
  * currents and bleeders against the part's ratings, the supply's load and the safety gap.
  */
 export function tankStage(context: EvalContext): void {
-  const { design, metrics, warnings, problems } = context;
+  const { design } = context;
   const driver = design.driver;
   const tank = design.tank;
   if (!tank || !driver) return;
+  const currents = driver.kind === 'spark_gap' ? shotCurrents(context, driver) : burstCurrents(context, driver);
+  bankParts(context, driver, currents);
+  supplyLoad(context, driver);
+  safetyGap(context, driver, tank);
+}
 
-  // --- the tank waveform of one spark-gap shot ---
+/** The tank current of one spark-gap shot (peak, rms over the shots) and its largest voltage of either polarity. */
+interface TankCurrents {
+  peakCurrent: number | null;
+  rmsCurrent: number | null;
+  largestVoltage: number | null;
+}
+
+function shotCurrents(context: EvalContext, driver: SparkGapDriver): TankCurrents {
+  const { metrics } = context;
   let peakCurrent: number | null = null;
   let rmsCurrent: number | null = null;
   let largestVoltage: number | null = null;
-  if (driver.kind === 'spark_gap' && context.circuit && context.sparkShot) {
+  if (context.circuit && context.sparkShot) {
     const { shot, chargeVoltage } = context.sparkShot;
     const modes = coupledModes(context.circuit, chargeVoltage);
     if (modes !== null) {
@@ -254,17 +267,26 @@ export function tankStage(context: EvalContext): void {
     }
   }
 
-  // --- a solid-state burst's tank current ---
-  if (driver.kind === 'solid_state' && context.burstPeakTankCurrent !== undefined) {
-    peakCurrent = context.burstPeakTankCurrent;
-    const squared = context.burstTankCurrentSquared ?? Number.NaN;
-    // rms over the bursts: √(rate · ∫ i1² dt) (rms of a repetitive pulse, exact)
-    rmsCurrent = Number.isFinite(squared) && squared >= 0 ? Math.sqrt(squared * driver.repetitionRate) : null;
-    metrics.tank_peak_current = peakCurrent;
-    metrics.tank_rms_current = rmsCurrent;
-  }
+  return { peakCurrent, rmsCurrent, largestVoltage };
+}
 
-  // --- the bank's parts ---
+/** The tank current of a solid-state burst: its peak, and its rms over the bursts. */
+function burstCurrents(context: EvalContext, driver: SolidStateDriver): TankCurrents {
+  const { metrics } = context;
+  if (context.burstPeakTankCurrent === undefined) return { peakCurrent: null, rmsCurrent: null, largestVoltage: null };
+  const peakCurrent = context.burstPeakTankCurrent;
+  const squared = context.burstTankCurrentSquared ?? Number.NaN;
+  // rms over the bursts: √(rate · ∫ i1² dt) (rms of a repetitive pulse, exact)
+  const rmsCurrent = Number.isFinite(squared) && squared >= 0 ? Math.sqrt(squared * driver.repetitionRate) : null;
+  metrics.tank_peak_current = peakCurrent;
+  metrics.tank_rms_current = rmsCurrent;
+  return { peakCurrent, rmsCurrent, largestVoltage: null };
+}
+
+/** The bank's per-part voltage, currents and bleeders against the part's ratings. */
+function bankParts(context: EvalContext, driver: DriverSpec, currents: TankCurrents): void {
+  const { design, metrics, problems } = context;
+  const { peakCurrent, rmsCurrent, largestVoltage } = currents;
   const bank = design.tankBank;
   if (bank && driver.kind === 'solid_state' && !context.tankBank) layoutAfterBurst(context);
   const layout = context.tankBank;
@@ -308,8 +330,11 @@ export function tankStage(context: EvalContext): void {
     metrics.tank_bank_bleeder_resistance = bleeder;
     metrics.tank_bank_bleeder_power = bleeder !== null ? (perPart * perPart) / bleeder : null;
   }
+}
 
-  // --- the supply's load ---
+/** The shots' input power against the supply's rating. */
+function supplyLoad(context: EvalContext, driver: DriverSpec): void {
+  const { design, metrics, warnings } = context;
   if (design.supply && driver.kind === 'spark_gap' && metrics.input_power !== null) {
     const rating = supplyRating(design.supply);
     if (rating > 0) {
@@ -323,8 +348,11 @@ export function tankStage(context: EvalContext): void {
       }
     }
   }
+}
 
-  // --- the safety gap ---
+/** The safety gap's firing voltage and spacing. */
+function safetyGap(context: EvalContext, driver: DriverSpec, tank: TankSpec): void {
+  const { design, metrics, warnings } = context;
   const gap = design.safetyGap;
   const charge = driver.kind === 'spark_gap' ? tank.chargeVoltage : context.burstPeakTankVoltage;
   if (gap && charge !== undefined && charge > 0) {
