@@ -15,7 +15,16 @@
  * safety gap.
  */
 import type { DesignProblem, EvalContext } from '../context.ts';
-import type { Design, DriverSpec, SolidStateDriver, SparkGapDriver, SupplySpec, TankSpec } from '../design.ts';
+import type {
+  Design,
+  DriverSpec,
+  SolidStateDriver,
+  SparkGapDriver,
+  SupplySpec,
+  TankBankSpec,
+  TankSpec,
+} from '../design.ts';
+import { must } from '../must.ts';
 import type { Metrics } from '../metrics.ts';
 import type { DesignWarning } from '../outcome/warnings.ts';
 import { formatNumber, formatQuantity } from '../outcome/warnings.ts';
@@ -90,81 +99,18 @@ export function prepareTank(
   }
   // A solid-state bank with an automatic series count is laid out after the burst (layoutAfterBurst).
   if (bank && !solidAuto) {
-    const part = {
-      capacitance: bank.partCapacitance,
-      voltageRating: bank.partVoltageRating,
-      rmsCurrentRating: bank.partRmsCurrentRating,
-      peakCurrentRating: bank.partPeakCurrentRating,
-    };
-    const solid = driver?.kind === 'solid_state';
-    const working = solid ? undefined : chargeAt(tank.capacitance);
-    if (working === undefined && bank.series === undefined) {
-      problems.push({
-        field: 'tank_bank.series',
-        reason: 'give the series count, or a charge voltage to choose it from',
-      });
-      return { design };
-    }
-    // The smallest series count whose parts hold margin × the charge the bank as built reaches (a
-    // rotary gap's charge depends on the bank's capacitance, so each count is tried in turn).
-    let first: BankLayout | null = null;
-    if (bank.series !== undefined) {
-      first = bankLayout(part, tank.capacitance, 0, bank.voltageMargin, bank.series, bank.parallel);
-    } else {
-      for (let series = 1; series <= MAX_AUTO_SERIES && first === null; series++) {
-        const trial = bankLayout(part, tank.capacitance, 0, bank.voltageMargin, series, bank.parallel);
-        const charge = chargeAt(trial.capacitance) ?? 0;
-        if (bank.voltageMargin * charge <= series * part.voltageRating * (1 + 1e-12)) first = trial;
-      }
-      if (first === null) {
-        problems.push({
-          field: 'tank_bank.part_voltage_rating',
-          reason: `no series count up to ${MAX_AUTO_SERIES} holds ${formatNumber(bank.voltageMargin)}× the charge voltage with ${formatQuantity(part.voltageRating, 'V')} parts`,
-        });
-        return { design };
-      }
-    }
-    const finalWorking = solid ? 0 : (chargeAt(first.capacitance) ?? 0);
-    capacitance = first.capacitance;
-    rating = first.series * part.voltageRating;
-    layout = { ...first, workingVoltage: finalWorking };
-    metrics.tank_bank_series = first.series;
-    metrics.tank_bank_parallel = first.parallel;
-    metrics.tank_bank_part_count = first.partCount;
-    metrics.tank_bank_capacitance = first.capacitance;
+    const laid = layoutBank(design, bank, chargeAt, metrics, problems);
+    if (laid === null) return { design };
+    ({ capacitance, rating, layout } = laid);
   }
 
   let chargeVoltage = chargeAt(capacitance);
   /** A static gap fires as often as the supply charges the tank to its setting (the estimate is the break rate). */
   let staticRate: number | undefined;
   if (supply && source && spark) {
-    const resonant = resonantCapacitance(source);
-    const ratio = capacitance / resonant;
-    const limit = unloadedChargePeak(source, capacitance);
-    metrics.supply_resonant_capacitance = resonant;
-    metrics.supply_capacitance_ratio = ratio;
-    metrics.supply_charge_limit = Number.isFinite(limit) ? limit : null;
-    if (ratio >= RESONANT_BAND[0] && ratio <= RESONANT_BAND[1]) {
-      warnings.push({
-        key: 'supply_resonant_rise',
-        message: `the tank (${formatQuantity(capacitance, 'F')}) is ${formatNumber(ratio)}× the supply's resonant size ${formatQuantity(resonant, 'F')}: resonant rise can drive the tank and the supply far beyond their ratings (common practice: stay outside ${RESONANT_BAND[0]}–${RESONANT_BAND[1]}×)`,
-      });
-    }
-    if (!rotary && chargeVoltage !== undefined) {
-      if (Number.isFinite(limit) && chargeVoltage > limit) {
-        problems.push({
-          field: 'tank.charge_voltage',
-          reason: `the supply charges the tank to at most ${formatQuantity(limit, 'V')} (√2·V/|1 − C/C_res|), below the static gap's firing voltage ${formatQuantity(chargeVoltage, 'V')}: the gap never fires`,
-        });
-        return { design };
-      }
-      staticRate = staticBreakRateEstimate(source, capacitance, chargeVoltage);
-      metrics.supply_break_rate_estimate = staticRate;
-    }
-    if (chargeVoltage !== undefined) {
-      metrics.supply_charge_voltage = chargeVoltage;
-      metrics.supply_charge_ratio = Number.isFinite(limit) ? chargeVoltage / limit : null;
-    }
+    const checked = supplyChecks(source, capacitance, rotary, chargeVoltage, metrics, warnings, problems);
+    if (checked === null) return { design };
+    staticRate = checked.staticRate;
   }
   if (bank && layout) {
     metrics.tank_bank_stored_energy =
@@ -178,6 +124,111 @@ export function prepareTank(
   const firing =
     spark && staticRate !== undefined && Number.isFinite(staticRate) ? { ...spark, breakRate: staticRate } : driver;
   return { design: { ...design, tank: built, driver: firing }, layout };
+}
+
+/**
+ * The bank's layout before the dynamics (a spark gap's charge, or a given series count): the
+ * smallest series count whose parts hold margin × the charge the bank as built reaches, the
+ * parallel count for the target; null after pushing the problem when no layout holds.
+ */
+function layoutBank(
+  design: Design,
+  bank: TankBankSpec,
+  chargeAt: (capacitance: number) => number | undefined,
+  metrics: Metrics,
+  problems: DesignProblem[],
+): { capacitance: number; rating: number; layout: NonNullable<EvalContext['tankBank']> } | null {
+  const tank = must(design.tank, 'the tank');
+  const driver = design.driver;
+  const part = {
+    capacitance: bank.partCapacitance,
+    voltageRating: bank.partVoltageRating,
+    rmsCurrentRating: bank.partRmsCurrentRating,
+    peakCurrentRating: bank.partPeakCurrentRating,
+  };
+  const solid = driver?.kind === 'solid_state';
+  const working = solid ? undefined : chargeAt(tank.capacitance);
+  if (working === undefined && bank.series === undefined) {
+    problems.push({
+      field: 'tank_bank.series',
+      reason: 'give the series count, or a charge voltage to choose it from',
+    });
+    return null;
+  }
+  // The smallest series count whose parts hold margin × the charge the bank as built reaches (a
+  // rotary gap's charge depends on the bank's capacitance, so each count is tried in turn).
+  let first: BankLayout | null = null;
+  if (bank.series !== undefined) {
+    first = bankLayout(part, tank.capacitance, 0, bank.voltageMargin, bank.series, bank.parallel);
+  } else {
+    for (let series = 1; series <= MAX_AUTO_SERIES && first === null; series++) {
+      const trial = bankLayout(part, tank.capacitance, 0, bank.voltageMargin, series, bank.parallel);
+      const charge = chargeAt(trial.capacitance) ?? 0;
+      if (bank.voltageMargin * charge <= series * part.voltageRating * (1 + 1e-12)) first = trial;
+    }
+    if (first === null) {
+      problems.push({
+        field: 'tank_bank.part_voltage_rating',
+        reason: `no series count up to ${MAX_AUTO_SERIES} holds ${formatNumber(bank.voltageMargin)}× the charge voltage with ${formatQuantity(part.voltageRating, 'V')} parts`,
+      });
+      return null;
+    }
+  }
+  const finalWorking = solid ? 0 : (chargeAt(first.capacitance) ?? 0);
+  metrics.tank_bank_series = first.series;
+  metrics.tank_bank_parallel = first.parallel;
+  metrics.tank_bank_part_count = first.partCount;
+  metrics.tank_bank_capacitance = first.capacitance;
+  return {
+    capacitance: first.capacitance,
+    rating: first.series * part.voltageRating,
+    layout: { ...first, workingVoltage: finalWorking },
+  };
+}
+
+/**
+ * The supply against the tank: its resonant size, the ratio, the charge it can reach, the warning
+ * inside the resonant band; a static gap set above that charge is a problem (null); else the
+ * static gap's break rate (the supply's refill rate at the setting).
+ */
+function supplyChecks(
+  source: SupplySource,
+  capacitance: number,
+  rotary: boolean,
+  chargeVoltage: number | undefined,
+  metrics: Metrics,
+  warnings: DesignWarning[],
+  problems: DesignProblem[],
+): { staticRate: number | undefined } | null {
+  let staticRate: number | undefined;
+  const resonant = resonantCapacitance(source);
+  const ratio = capacitance / resonant;
+  const limit = unloadedChargePeak(source, capacitance);
+  metrics.supply_resonant_capacitance = resonant;
+  metrics.supply_capacitance_ratio = ratio;
+  metrics.supply_charge_limit = Number.isFinite(limit) ? limit : null;
+  if (ratio >= RESONANT_BAND[0] && ratio <= RESONANT_BAND[1]) {
+    warnings.push({
+      key: 'supply_resonant_rise',
+      message: `the tank (${formatQuantity(capacitance, 'F')}) is ${formatNumber(ratio)}× the supply's resonant size ${formatQuantity(resonant, 'F')}: resonant rise can drive the tank and the supply far beyond their ratings (common practice: stay outside ${RESONANT_BAND[0]}–${RESONANT_BAND[1]}×)`,
+    });
+  }
+  if (!rotary && chargeVoltage !== undefined) {
+    if (Number.isFinite(limit) && chargeVoltage > limit) {
+      problems.push({
+        field: 'tank.charge_voltage',
+        reason: `the supply charges the tank to at most ${formatQuantity(limit, 'V')} (√2·V/|1 − C/C_res|), below the static gap's firing voltage ${formatQuantity(chargeVoltage, 'V')}: the gap never fires`,
+      });
+      return null;
+    }
+    staticRate = staticBreakRateEstimate(source, capacitance, chargeVoltage);
+    metrics.supply_break_rate_estimate = staticRate;
+  }
+  if (chargeVoltage !== undefined) {
+    metrics.supply_charge_voltage = chargeVoltage;
+    metrics.supply_charge_ratio = Number.isFinite(limit) ? chargeVoltage / limit : null;
+  }
+  return { staticRate };
 }
 
 /**
