@@ -85,6 +85,117 @@ function messageSpec(message: string): TopLevelSpec {
   };
 }
 
+const SET_ENCODING = {
+  field: 'set',
+  type: 'nominal' as const,
+  title: null,
+  scale: { domain: SETS, range: SET_COLOURS },
+};
+const SHAPE_ENCODING = {
+  field: 'set',
+  type: 'nominal' as const,
+  title: null,
+  scale: { domain: SETS, range: SET_SHAPES },
+};
+
+/** The axis of objective j, its title wrapped to the panel's width. */
+function objectiveAxis(objectives: readonly ObjectiveDefinition[], j: number, width: number) {
+  return {
+    field: `o${j}`,
+    type: 'quantitative' as const,
+    title: wrapText(axisTitle(objectives[j]), width, 11),
+    scale: { zero: false },
+  };
+}
+
+/** One objective: the objective against rank. */
+function oneObjectiveSpec(objective: ObjectiveDefinition, candidates: readonly CandidateRow[]): TopLevelSpec {
+  const values = candidates.flatMap((row, i) => {
+    const y = displayValueOf(row, objective.metric);
+    return y === null ? [] : [{ set: 'candidate', x: i + 1, y }];
+  });
+  return {
+    $schema: SCHEMA,
+    title: title(`Ranked candidates by ${objective.metric.replace(/_/g, ' ')}`, 640),
+    data: { values },
+    mark: { type: 'point', filled: true, size: 14, color: PLOT_COLOURS.front },
+    encoding: {
+      x: { field: 'x', type: 'quantitative', title: 'rank' },
+      y: { field: 'y', type: 'quantitative', title: axisTitle(objective), scale: { zero: false } },
+    },
+    width: 640,
+    height: 420,
+  };
+}
+
+/** Two objectives: one panel, the front as a staircase with its rank labels placed clear of each other. */
+function twoObjectiveSpec(objectives: readonly ObjectiveDefinition[], data: Datum[], heading: string): TopLevelSpec {
+  const axis = (j: number, width: number) => objectiveAxis(objectives, j, width);
+  const frontFilter = "datum.set !== 'candidate'";
+  return {
+    $schema: SCHEMA,
+    title: title(`${heading}; each front point carries its rank in candidates.csv`, 640),
+    width: 640,
+    height: 420,
+    data: { values: data as unknown as Record<string, unknown>[] },
+    encoding: { x: axis(0, 640), y: axis(1, 420) },
+    layer: [
+      {
+        transform: [{ filter: "datum.set === 'candidate'" }],
+        mark: { type: 'point', filled: true, size: 12, opacity: 0.7 },
+        encoding: { color: SET_ENCODING, shape: SHAPE_ENCODING },
+      },
+      {
+        transform: [{ filter: frontFilter }],
+        mark: { type: 'line', interpolate: 'step-after', color: PLOT_COLOURS.front, strokeWidth: 1, opacity: 0.6 },
+        encoding: { order: { field: 'o0', type: 'quantitative' } },
+      },
+      {
+        transform: [{ filter: frontFilter }],
+        mark: { type: 'point', filled: true, size: 44, stroke: '#102a2a', strokeWidth: 0.6 },
+        encoding: { color: SET_ENCODING, shape: SHAPE_ENCODING },
+      },
+      ...pointLabelLayers('#102a2a'),
+    ],
+    usermeta: { pointLabels: rankLabels(data) },
+  } as unknown as TopLevelSpec;
+}
+
+/** Three or more objectives: every pair, one panel each, rows of up to three, the front as points. */
+function pairMatrixSpec(objectives: readonly ObjectiveDefinition[], data: Datum[], heading: string): TopLevelSpec {
+  const axis = (j: number, width: number) => objectiveAxis(objectives, j, width);
+  // Every pair of objectives, one panel each, rows of up to three.
+  const size = 240;
+  const panels = [];
+  for (let a = 0; a < objectives.length; a++)
+    for (let b = a + 1; b < objectives.length; b++)
+      panels.push({
+        width: size,
+        height: size,
+        encoding: { x: axis(a, size), y: axis(b, size) },
+        layer: [
+          {
+            transform: [{ filter: "datum.set === 'candidate'" }],
+            mark: { type: 'point' as const, filled: true, size: 8, opacity: 0.6 },
+            encoding: { color: SET_ENCODING, shape: SHAPE_ENCODING },
+          },
+          {
+            transform: [{ filter: "datum.set !== 'candidate'" }],
+            mark: { type: 'point' as const, filled: true, size: 30, stroke: '#102a2a', strokeWidth: 0.5 },
+            encoding: { color: SET_ENCODING, shape: SHAPE_ENCODING },
+          },
+        ],
+      });
+  const rows = [];
+  for (let i = 0; i < panels.length; i += 3) rows.push({ hconcat: panels.slice(i, i + 3) });
+  return {
+    $schema: SCHEMA,
+    title: title(`${heading}, every pair of the ${objectives.length} objectives`, 3 * size + 120),
+    data: { values: data as unknown as Record<string, unknown>[] },
+    vconcat: rows,
+  } as TopLevelSpec;
+}
+
 /** The Vega-Lite spec of front.svg (exported for the report). */
 export function frontPlotSpec(
   objectives: readonly ObjectiveDefinition[],
@@ -116,105 +227,11 @@ export function frontPlotSpec(
       rank === null || rank === undefined ? '' : String(rank),
     );
   });
-  const setEncoding = {
-    field: 'set',
-    type: 'nominal' as const,
-    title: null,
-    scale: { domain: SETS, range: SET_COLOURS },
-  };
-  const shapeEncoding = {
-    field: 'set',
-    type: 'nominal' as const,
-    title: null,
-    scale: { domain: SETS, range: SET_SHAPES },
-  };
-  const axis = (j: number, width: number) => ({
-    field: `o${j}`,
-    type: 'quantitative' as const,
-    title: wrapText(axisTitle(objectives[j]), width, 11),
-    scale: { zero: false },
-  });
-  const frontCount = front.length;
-  if (objectives.length === 1) {
-    const objective = objectives[0];
-    const values = candidates.flatMap((row, i) => {
-      const y = displayValueOf(row, objective.metric);
-      return y === null ? [] : [{ set: 'candidate', x: i + 1, y }];
-    });
-    return {
-      $schema: SCHEMA,
-      title: title(`Ranked candidates by ${objective.metric.replace(/_/g, ' ')}`, 640),
-      data: { values },
-      mark: { type: 'point', filled: true, size: 14, color: PLOT_COLOURS.front },
-      encoding: {
-        x: { field: 'x', type: 'quantitative', title: 'rank' },
-        y: { field: 'y', type: 'quantitative', title: axisTitle(objective), scale: { zero: false } },
-      },
-      width: 640,
-      height: 420,
-    };
-  }
-  const heading = `Trade-offs: ${frontCount} non-dominated designs among ${candidates.length} ranked candidates`;
-  if (objectives.length === 2) {
-    const frontFilter = "datum.set !== 'candidate'";
-    return {
-      $schema: SCHEMA,
-      title: title(`${heading}; each front point carries its rank in candidates.csv`, 640),
-      width: 640,
-      height: 420,
-      data: { values: data as unknown as Record<string, unknown>[] },
-      encoding: { x: axis(0, 640), y: axis(1, 420) },
-      layer: [
-        {
-          transform: [{ filter: "datum.set === 'candidate'" }],
-          mark: { type: 'point', filled: true, size: 12, opacity: 0.7 },
-          encoding: { color: setEncoding, shape: shapeEncoding },
-        },
-        {
-          transform: [{ filter: frontFilter }],
-          mark: { type: 'line', interpolate: 'step-after', color: PLOT_COLOURS.front, strokeWidth: 1, opacity: 0.6 },
-          encoding: { order: { field: 'o0', type: 'quantitative' } },
-        },
-        {
-          transform: [{ filter: frontFilter }],
-          mark: { type: 'point', filled: true, size: 44, stroke: '#102a2a', strokeWidth: 0.6 },
-          encoding: { color: setEncoding, shape: shapeEncoding },
-        },
-        ...pointLabelLayers('#102a2a'),
-      ],
-      usermeta: { pointLabels: rankLabels(data) },
-    } as unknown as TopLevelSpec;
-  }
-  // Every pair of objectives, one panel each, rows of up to three.
-  const size = 240;
-  const panels = [];
-  for (let a = 0; a < objectives.length; a++)
-    for (let b = a + 1; b < objectives.length; b++)
-      panels.push({
-        width: size,
-        height: size,
-        encoding: { x: axis(a, size), y: axis(b, size) },
-        layer: [
-          {
-            transform: [{ filter: "datum.set === 'candidate'" }],
-            mark: { type: 'point' as const, filled: true, size: 8, opacity: 0.6 },
-            encoding: { color: setEncoding, shape: shapeEncoding },
-          },
-          {
-            transform: [{ filter: "datum.set !== 'candidate'" }],
-            mark: { type: 'point' as const, filled: true, size: 30, stroke: '#102a2a', strokeWidth: 0.5 },
-            encoding: { color: setEncoding, shape: shapeEncoding },
-          },
-        ],
-      });
-  const rows = [];
-  for (let i = 0; i < panels.length; i += 3) rows.push({ hconcat: panels.slice(i, i + 3) });
-  return {
-    $schema: SCHEMA,
-    title: title(`${heading}, every pair of the ${objectives.length} objectives`, 3 * size + 120),
-    data: { values: data as unknown as Record<string, unknown>[] },
-    vconcat: rows,
-  } as TopLevelSpec;
+  const heading = `Trade-offs: ${front.length} non-dominated designs among ${candidates.length} ranked candidates`;
+  if (objectives.length === 1) return oneObjectiveSpec(objectives[0], candidates);
+  return objectives.length === 2
+    ? twoObjectiveSpec(objectives, data, heading)
+    : pairMatrixSpec(objectives, data, heading);
 }
 
 /** The SVG text of the run's plot. */
