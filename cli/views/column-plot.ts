@@ -59,13 +59,9 @@ function frontLabels(data: readonly Datum[]): PointLabel[] {
     .map((d) => ({ x: d.x, y: d.y, text: d.label }));
 }
 
-/** The Vega-Lite spec of the plot. */
-export function columnPlotSpec(tables: RunTables, options: ColumnPlotOptions): TopLevelSpec {
+/** The points of the plot: candidates, near misses (optional) and the front, each with its candidate rank. */
+function plotData(tables: RunTables, options: ColumnPlotOptions): Datum[] {
   const { candidates, front } = tables;
-  numericColumn(candidates, options.x, '--x');
-  numericColumn(candidates, options.y, '--y');
-  const cc = options.color !== undefined ? columnIndex(candidates, options.color, '--color') : -1;
-  const colorNumeric = cc >= 0 && candidates.numeric[cc];
   const rankOfIndex = new Map<number, number>();
   const indexColumn = candidates.header.indexOf('sample_index');
   const rankColumn = candidates.header.indexOf('rank');
@@ -94,6 +90,38 @@ export function columnPlotSpec(tables: RunTables, options: ColumnPlotOptions): T
   if (!options.frontOnly) take(candidates, 'candidate');
   if (options.nearMisses && tables.infeasible && !options.frontOnly) take(tables.infeasible, 'near miss');
   take(front, 'front');
+  return data;
+}
+
+/** The colour channel: the --color column (a scale of its own), else the set a point belongs to. */
+function colorEncoding(candidates: RunTable, options: ColumnPlotOptions) {
+  const cc = options.color !== undefined ? columnIndex(candidates, options.color, '--color') : -1;
+  const colorNumeric = cc >= 0 && candidates.numeric[cc];
+  return cc >= 0
+    ? {
+        field: 'c',
+        type: colorNumeric ? ('quantitative' as const) : ('nominal' as const),
+        title: columnTitle(options.color ?? ''),
+        ...(colorNumeric ? { scale: { scheme: 'viridis' } } : {}),
+      }
+    : {
+        field: 'set',
+        type: 'nominal' as const,
+        title: null,
+        scale: {
+          domain: ['candidate', 'front', 'near miss'],
+          range: [PLOT_COLOURS.candidate, PLOT_COLOURS.front, PLOT_COLOURS.miss],
+        },
+      };
+}
+
+/** The Vega-Lite spec of the plot. */
+export function columnPlotSpec(tables: RunTables, options: ColumnPlotOptions): TopLevelSpec {
+  const { candidates } = tables;
+  numericColumn(candidates, options.x, '--x');
+  numericColumn(candidates, options.y, '--y');
+  const color = colorEncoding(candidates, options);
+  const data = plotData(tables, options);
   const x = {
     field: 'x',
     type: 'quantitative' as const,
@@ -106,23 +134,6 @@ export function columnPlotSpec(tables: RunTables, options: ColumnPlotOptions): T
     title: columnTitle(options.y),
     scale: options.logY ? { type: 'log' as const } : { zero: false },
   };
-  const color =
-    cc >= 0
-      ? {
-          field: 'c',
-          type: colorNumeric ? ('quantitative' as const) : ('nominal' as const),
-          title: columnTitle(options.color ?? ''),
-          ...(colorNumeric ? { scale: { scheme: 'viridis' } } : {}),
-        }
-      : {
-          field: 'set',
-          type: 'nominal' as const,
-          title: null,
-          scale: {
-            domain: ['candidate', 'front', 'near miss'],
-            range: [PLOT_COLOURS.candidate, PLOT_COLOURS.front, PLOT_COLOURS.miss],
-          },
-        };
   const counts = (set: Datum['set']) => data.filter((d) => d.set === set).length;
   const empty = data.length === 0;
   return {
