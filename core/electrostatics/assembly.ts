@@ -17,7 +17,7 @@
  * the centre line), the thin-wire approximation (accurate to O(wire radius / ring radius)).
  */
 import { ellipticKLogPart, ellipticKSmoothPart } from './elliptic-polynomial.ts';
-import { GAUSS4_NODES, GAUSS4_WEIGHTS, GAUSS8_NODES, GAUSS8_WEIGHTS } from './gauss-legendre.ts';
+import { GAUSS4_NODES, GAUSS4_WEIGHTS, GAUSS8_NODES, GAUSS8_WEIGHTS } from '../gauss-legendre.ts';
 import { PANEL_THIN_RING, panelPoint, type PanelLayout } from './panels.ts';
 import { VACUUM_PERMITTIVITY } from './ring-kernel.ts';
 

@@ -10,7 +10,7 @@ import { assembleCollocationMatrix, panelIntegral, panelSelfIntegral } from '../
 import { buildPanelLayout, panelPoint, type PanelShape } from '../../core/electrostatics/panels.ts';
 import { toroidPanels, windingPanels } from '../../core/electrostatics/bodies.ts';
 import { defaultPanelCounts, solveField, type FieldArrangement } from '../../core/electrostatics/field-solve.ts';
-import { GAUSS8_NODES, GAUSS8_WEIGHTS } from '../../core/electrostatics/gauss-legendre.ts';
+import { GAUSS8_NODES, GAUSS8_WEIGHTS } from '../../core/gauss-legendre.ts';
 import { must } from '../../core/must.ts';
 
 describe('luFactor / luSolve (Golub & Van Loan Alg. 3.4.1)', () => {
