@@ -1,9 +1,9 @@
 /**
  * The accuracy-targeted panel counts of the field solve (defaultPanelCounts) against a fine
- * reference: the same solve with four times the panels on every body (computed; with the O(h²)
+ * reference [fine-reference]: the same solve with four times the panels on every body (computed; with the O(h²)
  * convergence of piecewise-constant collocation its own error is about a sixteenth of the
  * default's). Random buildable arrangements from a seeded generator (Park–Miller minimal standard
- * generator, S. K. Park & K. W. Miller, Commun. ACM 31(10), 1988): toroids and spheres on windings
+ * generator [parkmiller1988]): toroids and spheres on windings
  * with a flat primary and often a strike rail, bare windings, toroids alone over the floor.
  * The budget is the one a sweep uses: peak topload field and every capacitance within 0.3 %.
  */
