@@ -1,8 +1,9 @@
 /**
  * Benchmark of the electrostatic field solve: time per solve and panel counts for invented demo
  * arrangements (a toroid on a winding with a primary and strike rail, a sphere on a winding, a
- * bare winding, a topload alone), with the split into assembly, factorisation and the rest, and
- * the whole electrostatics stage. Returns printable lines.
+ * bare winding, a topload alone), with the split into assembly, factorisation and the rest, the
+ * error of the default counts against a fine reference solve (four times the panels on every
+ * body), and the whole electrostatics stage. Returns printable lines.
  */
 import type { EvalContext } from '../core/context.ts';
 import type { Design } from '../core/design.ts';
@@ -83,9 +84,15 @@ export async function benchElectrostatics(options: { runs?: number } = {}): Prom
       sink += must(luFactor(matrix.slice(), solution.unknowns))[0];
     });
     const counts = solution.panelCounts;
+    const fine = must(solveField(arrangement, { resolution: 4 }));
+    const error = (value: number | null, reference: number | null) =>
+      value === null || reference === null ? '–' : `${(100 * Math.abs(value / reference - 1)).toFixed(3)} %`;
     lines.push(
       `  ${name}: ${solution.unknowns} unknowns (topload ${counts.topload}, winding ${counts.winding}, rings ${solution.unknowns - counts.topload - counts.winding}): ` +
         `${solveMicroseconds.toFixed(0)} µs per solve (assembly ${assemblyMicroseconds.toFixed(0)} µs, one LU ${factorMicroseconds.toFixed(0)} µs)`,
+      `    against ${fine.unknowns} unknowns (four times the panels): peak field ${error(solution.toploadPeakFieldPerVolt, fine.toploadPeakFieldPerVolt)}, ` +
+        `total capacitance ${error(solution.totalCapacitance, fine.totalCapacitance)}, topload ${error(solution.toploadCapacitance, fine.toploadCapacitance)}, ` +
+        `self ${error(solution.selfCapacitance, fine.selfCapacitance)}`,
     );
   }
   const design: Design = {

@@ -1,6 +1,8 @@
 /**
- * Gauss–Legendre quadrature nodes and weights on [−1, 1].
+ * Gauss–Legendre quadrature nodes and weights on [−1, 1]: the rule generator, and the fixed 2-, 4-
+ * and 8-point rules of the field solve as plain arrays.
  */
+import { must } from './must.ts';
 
 /** Nodes and weights of an n-point rule, ascending nodes. */
 export interface QuadratureRule {
@@ -47,3 +49,13 @@ export function gaussLegendreRule(n: number): QuadratureRule {
   }
   return { nodes, weights };
 }
+
+const [rule2, rule4, rule8] = [2, 4, 8].map((n) => gaussLegendreRule(n));
+
+/** The 2-, 4- and 8-point rules (exact for polynomials of degree 3, 7, 15), as plain arrays. */
+export const GAUSS2_NODES: readonly number[] = Array.from(must(rule2).nodes);
+export const GAUSS2_WEIGHTS: readonly number[] = Array.from(must(rule2).weights);
+export const GAUSS4_NODES: readonly number[] = Array.from(must(rule4).nodes);
+export const GAUSS4_WEIGHTS: readonly number[] = Array.from(must(rule4).weights);
+export const GAUSS8_NODES: readonly number[] = Array.from(must(rule8).nodes);
+export const GAUSS8_WEIGHTS: readonly number[] = Array.from(must(rule8).weights);

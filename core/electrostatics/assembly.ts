@@ -17,7 +17,7 @@
  * the centre line), the thin-wire approximation (accurate to O(wire radius / ring radius)).
  */
 import { ellipticKLogPart, ellipticKSmoothPart } from './elliptic-polynomial.ts';
-import { GAUSS4_NODES, GAUSS4_WEIGHTS, GAUSS8_NODES, GAUSS8_WEIGHTS } from './gauss-legendre.ts';
+import { GAUSS4_NODES, GAUSS4_WEIGHTS, GAUSS8_NODES, GAUSS8_WEIGHTS } from '../gauss-legendre.ts';
 import { PANEL_THIN_RING, panelPoint, type PanelLayout } from './panels.ts';
 import { VACUUM_PERMITTIVITY } from './ring-kernel.ts';
 
@@ -149,24 +149,22 @@ export function panelSelfIntegral(layout: PanelLayout, j: number): number {
   return sum;
 }
 
-let pairedScratchBuffer = new Uint8Array(0);
-/** A zeroed scratch array of `size` flags, reused between assemblies (used only inside one call). */
-function pairedScratch(size: number): Uint8Array {
-  if (pairedScratchBuffer.length < size)
-    pairedScratchBuffer = new Uint8Array(Math.max(size, 2 * pairedScratchBuffer.length));
-  return pairedScratchBuffer.subarray(0, size).fill(0);
-}
-
 /**
  * The dense collocation matrix, row-major n × n, V per (C/m²) (V per C/m for thin rings).
  *
  * Structure used: the ring kernel K(m)/d₊ is symmetric in field and source point (d₊, d₋ are), and
- * so is its image term (z + z′). Where a pair is distant both ways (or involves a thin ring, whose
- * entry is a single node anyway), entries (i, j) and (j, i) are (area_j/2π)·k and (area_i/2π)·k of
- * the same kernel value k, computed once. The entries are the same numbers as without the pairing.
+ * so is its image term (z + z′). Each unordered pair (i, j) is visited once. Where a pair is distant
+ * both ways by the longer of the two panels (a thin ring counts as length 0, its entry is a single
+ * node anyway), its direct part is one kernel value k shared by the entries (i, j) and (j, i) as
+ * w_j·k and w_i·k (w = area/2π, r for a thin ring): exactly the midpoint values `panelIntegral`
+ * would return. The image part is shared in the same way on its own test (the image of a pair is
+ * often distant when the pair is not). Entries whose both parts are shared keep the one product
+ * (area_j/2π)·scale·(k − k_image). The entries are the same numbers, bit for bit, as before this
+ * split (the test compares with entry-by-entry evaluation).
  * @param layout panels of the arrangement
  * @param floor true to include the grounded floor z = 0 by images
  * @param pairDistant false to evaluate every entry on its own (reference path for the tests)
+ * @param out scratch of at least n² numbers to write the matrix into (spares an allocation per solve)
  */
 export function assembleCollocationMatrix(
   layout: PanelLayout,
@@ -177,47 +175,68 @@ export function assembleCollocationMatrix(
   const n = layout.count;
   // `out` (at least n² long) spares a fresh n² allocation per solve: in a sweep the same memory stays
   // in the cache, which lets two worker threads scale better on a shared memory bus.
-  const matrix = out ? out.subarray(0, n * n).fill(0) : new Float64Array(n * n);
+  const matrix = out ? out.subarray(0, n * n) : new Float64Array(n * n);
   const scale = 1 / (Math.PI * VACUUM_PERMITTIVITY);
-  const done = pairDistant ? pairedScratch(n * n) : null;
-  if (done) {
-    const distant2 = DISTANT_RATIO * DISTANT_RATIO;
-    for (let i = 0; i < n; i++) {
-      const ri = layout.midR[i];
-      const zi = layout.midZ[i];
-      const li = layout.kind[i] === PANEL_THIN_RING ? 0 : layout.length[i];
-      const weightI = (layout.area[i] / (2 * Math.PI)) * scale;
-      for (let j = i + 1; j < n; j++) {
-        const lj = layout.kind[j] === PANEL_THIN_RING ? 0 : layout.length[j];
-        const dr = ri - layout.midR[j];
-        const dz = zi - layout.midZ[j];
-        const longest = Math.max(li, lj);
-        if (dr * dr + dz * dz < distant2 * longest * longest) continue;
-        const zj = layout.midZ[j];
-        if (floor) {
-          const dzImage = zi + zj;
-          const longestImage2 = distant2 * longest * longest;
-          if (dr * dr + dzImage * dzImage < longestImage2) continue;
-        }
-        let kernel = ringKernel(ri, zi, layout.midR[j], zj);
-        if (floor) kernel -= ringKernel(ri, -zi, layout.midR[j], zj);
-        matrix[i * n + j] = (layout.area[j] / (2 * Math.PI)) * scale * kernel;
-        matrix[j * n + i] = weightI * kernel;
-        done[i * n + j] = 1;
-        done[j * n + i] = 1;
-      }
-    }
-  }
+  const { midR, midZ, kind, area, length } = layout;
   for (let i = 0; i < n; i++) {
-    const r = layout.midR[i];
-    const z = layout.midZ[i];
-    const row = i * n;
-    for (let j = 0; j < n; j++) {
-      if (done?.[row + j]) continue;
-      let value = i === j ? panelSelfIntegral(layout, j) : panelIntegral(layout, j, r, z);
-      // Image in the floor: the panel's image seen from (r, z) equals the panel seen from (r, −z).
-      if (floor) value -= panelIntegral(layout, j, r, -z);
-      matrix[row + j] = scale * value;
+    const r = midR[i];
+    const z = midZ[i];
+    let value = panelSelfIntegral(layout, i);
+    if (floor) value -= panelIntegral(layout, i, r, -z);
+    matrix[i * n + i] = scale * value;
+  }
+  const distant2 = DISTANT_RATIO * DISTANT_RATIO;
+  for (let i = 0; i < n; i++) {
+    const ri = midR[i];
+    const zi = midZ[i];
+    const thinI = kind[i] === PANEL_THIN_RING;
+    const li = thinI ? 0 : length[i];
+    // What `panelIntegral` multiplies a midpoint kernel by (the same expression, the same bits).
+    const weightI = thinI ? ri : area[i] / (2 * Math.PI);
+    const pairWeightI = (area[i] / (2 * Math.PI)) * scale;
+    for (let j = i + 1; j < n; j++) {
+      const rj = midR[j];
+      const zj = midZ[j];
+      const thinJ = kind[j] === PANEL_THIN_RING;
+      const lj = thinJ ? 0 : length[j];
+      const longest = Math.max(li, lj);
+      const limit2 = distant2 * longest * longest;
+      const dr = ri - rj;
+      const dz = zi - zj;
+      const directShared = pairDistant && dr * dr + dz * dz >= limit2;
+      const dzImage = zi + zj;
+      const imageShared = floor && pairDistant && dr * dr + dzImage * dzImage >= limit2;
+      if (directShared && (imageShared || !floor)) {
+        let kernel = ringKernel(ri, zi, rj, zj);
+        if (floor) kernel -= ringKernel(ri, -zi, rj, zj);
+        matrix[i * n + j] = (area[j] / (2 * Math.PI)) * scale * kernel;
+        matrix[j * n + i] = pairWeightI * kernel;
+        continue;
+      }
+      const weightJ = thinJ ? rj : area[j] / (2 * Math.PI);
+      let ij: number;
+      let ji: number;
+      if (directShared) {
+        const kernel = ringKernel(ri, zi, rj, zj);
+        ij = weightJ * kernel;
+        ji = weightI * kernel;
+      } else {
+        ij = panelIntegral(layout, j, ri, zi);
+        ji = panelIntegral(layout, i, rj, zj);
+      }
+      if (floor) {
+        // Image in the floor: the panel's image seen from (r, z) equals the panel seen from (r, −z).
+        if (imageShared) {
+          const kernel = ringKernel(ri, -zi, rj, zj);
+          ij -= weightJ * kernel;
+          ji -= weightI * kernel;
+        } else {
+          ij -= panelIntegral(layout, j, ri, -zi);
+          ji -= panelIntegral(layout, i, rj, -zj);
+        }
+      }
+      matrix[i * n + j] = scale * ij;
+      matrix[j * n + i] = scale * ji;
     }
   }
   return matrix;

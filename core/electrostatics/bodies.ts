@@ -63,13 +63,16 @@ const WINDING_TOP_BIAS = 1.6;
  * Panels around a toroid's tube circle, an odd count so that one panel is centred on the outer
  * equator (angle 0). Angle θ = π·(u − (α/π) sin πu), u uniform on [−1, 1]: panels are (1 − α)/(1 + α)
  * times shorter at the outer equator than at the inner one.
+ * @param inward true to grade toward the inner equator instead (α → −α), where the peak sits when
+ *   the tube hugs the top of the winding
  */
-export function toroidPanels(body: ToroidBody, panelCount: number): PanelShape[] {
+export function toroidPanels(body: ToroidBody, panelCount: number, inward = false): PanelShape[] {
   const count = panelCount % 2 === 1 ? panelCount : panelCount + 1;
+  const grading = inward ? -TOROID_GRADING : TOROID_GRADING;
   const angles: number[] = [];
   for (let k = 0; k <= count; k++) {
     const u = -1 + (2 * k) / count;
-    angles.push(Math.PI * (u - (TOROID_GRADING / Math.PI) * Math.sin(Math.PI * u)));
+    angles.push(Math.PI * (u - (grading / Math.PI) * Math.sin(Math.PI * u)));
   }
   const shapes: PanelShape[] = [];
   for (let k = 0; k < count; k++) {

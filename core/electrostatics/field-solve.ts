@@ -20,13 +20,16 @@
  *   (a sheet's edge density is singular, so its pointwise peak depends on the mesh; the band mean
  *   converges). It is the field of the equivalent sheet, not of a wire's surface.
  *
- * Panel counts (documented convergence rule, checked in the tests): the counts of
- * `defaultPanelCounts` (base counts, more topload panels when a grounded object comes close) are
- * chosen so that doubling them changes every capacitance by < 0.2 % over
- * the arrangements of the tests and random buildable ones (in those checks the capacitances moved
- * by at most 0.04 %); the peak topload field moves by < 0.1 % when it sits near the outer equator
- * and by under 1 % (0.8 % worst in a scan of 300 random arrangements) when a crowded underside
- * (a primary ring a few centimetres below the tube, a tube hugging the winding) takes the peak. `resolution` multiplies the counts.
+ * Panel counts (accuracy-targeted, checked in the tests against a fine reference solve over
+ * seeded random arrangements): `defaultPanelCounts` gives the topload the fewest panels that keep
+ * its peak field and the capacitances within 0.3 % of a solve with four times the panels. The rule
+ * is an error model fitted to a scan of 200 random arrangements (for each, the smallest topload
+ * count whose peak field, topload and total capacitance all stay within 0.15 %, half the budget):
+ * a smooth toroid far from everything needs 11–15 panels, and the count needed grows about
+ * linearly with tube radius / effective clearance (a crowded underside draws a narrow peak),
+ * at most 58 panels per unit of that ratio in the scan; a sphere 7–11 and at most 25 per unit.
+ * The capacitances are far less sensitive (within 0.07 % at these counts). `resolution` multiplies
+ * the counts.
  */
 import {
   discPanels,
@@ -110,16 +113,25 @@ export interface FieldSolution {
   toploadPanels: { first: number; count: number };
 }
 
-/** Base panel counts: toroid 25, sphere 24, disc 40, winding 24 (see the convergence tests). */
-export const BASE_PANEL_COUNTS = { toroid: 25, sphere: 24, disc: 40, winding: 24 } as const;
+/** Base panel counts: toroid 15, sphere 12, disc 40, winding 24 (see the accuracy tests). */
+export const BASE_PANEL_COUNTS = { toroid: 15, sphere: 12, disc: 40, winding: 24 } as const;
+
+/**
+ * Most panels a topload gets from the clearance rule: toroid 55, sphere 72. Beyond about 57 toroid
+ * panels a doubling no longer shrinks the capacitance change (it stays near 3·10⁻⁵, the floor of
+ * the entries' distance-tiered quadrature, measured on a toroid 5 cm above the floor), so more
+ * panels buy peak-field accuracy only in the rare arrangements where the tube hugs the winding.
+ */
+const MAX_PANEL_COUNTS = { toroid: 55, sphere: 72 } as const;
 
 /**
  * Panels per unit of (curvature radius / effective clearance) on a toroid's tube circle and on a
- * sphere's meridian (half as long): a grounded ring, the floor or the low part of the winding close
- * to the topload draws a narrow field peak that the base count would not resolve.
+ * sphere's meridian: a grounded ring, the floor or the low part of the winding close to the
+ * topload draws a narrow field peak that the base count would not resolve. Fitted to the scan of
+ * the header (58 and 25 the largest there, rounded up for a margin).
  */
-const TOROID_PANELS_PER_GAP_RATIO = 23;
-const SPHERE_PANELS_PER_GAP_RATIO = 12;
+const TOROID_PANELS_PER_GAP_RATIO = 60;
+const SPHERE_PANELS_PER_GAP_RATIO = 26;
 
 /** Winding points sampled for the clearance rule. */
 const CLEARANCE_SAMPLES = 16;
@@ -130,31 +142,53 @@ const CLEARANCE_SAMPLES = 16;
  * near the top are nearly at the topload's potential and draw less field; the square root is a
  * compromise found by the convergence scan, between no weighting and the parallel-plate 1/(1 − φ)).
  */
-function effectiveClearance(arrangement: FieldArrangement): number {
+function effectiveClearance(arrangement: FieldArrangement): { clearance: number; inner: boolean } {
   const topload = arrangement.topload;
-  if (!topload || topload.shape === 'disc') return Number.POSITIVE_INFINITY;
+  if (!topload || topload.shape === 'disc') return { clearance: Number.POSITIVE_INFINITY, inner: false };
   const centreR = topload.shape === 'toroid' ? topload.majorRadius : 0;
   const radius = topload.shape === 'toroid' ? topload.minorRadius : topload.radius;
   const surfaceDistance = (r: number, z: number) => Math.hypot(r - centreR, z - topload.centerZ) - radius;
   let clearance = arrangement.floor ? topload.centerZ - radius : Number.POSITIVE_INFINITY;
-  for (const ring of arrangement.groundedRings ?? []) {
-    clearance = Math.min(clearance, surfaceDistance(ring.r, ring.z) - ring.wireRadius);
-  }
+  // Whether the object that sets the clearance lies on the inner side of the tube's centre.
+  let inner = false;
+  const consider = (distance: number, r: number) => {
+    if (distance < clearance) {
+      clearance = distance;
+      inner = r < centreR;
+    }
+  };
+  for (const ring of arrangement.groundedRings ?? [])
+    consider(surfaceDistance(ring.r, ring.z) - ring.wireRadius, ring.r);
   const winding = arrangement.winding;
   if (winding) {
     for (let k = 0; k < CLEARANCE_SAMPLES; k++) {
       const z = winding.bottomZ + ((winding.topZ - winding.bottomZ) * k) / CLEARANCE_SAMPLES;
       const difference = 1 - windingPotential(winding, z);
-      if (difference > 0) clearance = Math.min(clearance, surfaceDistance(winding.radius, z) / Math.sqrt(difference));
+      if (difference > 0) consider(surfaceDistance(winding.radius, z) / Math.sqrt(difference), winding.radius);
     }
   }
-  return clearance;
+  return { clearance, inner };
 }
 
 /**
- * Panel counts of an arrangement. The topload gets its base count, raised (to at most three times
- * it) when an object at another potential comes close: count ≥ 23·r/gap on a toroid (r the tube
- * radius), ≥ 12·a/gap on a sphere, gap the effective clearance (floor and grounded rings by
+ * Whether a toroid's panels are graded toward its inner equator: when the object that sets its
+ * clearance lies inside the tube's centre radius and is close enough to raise the count above the
+ * base (it then draws the peak to the tube's inner side; found on the tubes that hug the top of the
+ * winding, whose peak error fell from 1.3 % to 0.01 % at 55 panels).
+ */
+export function toroidGradedInward(arrangement: FieldArrangement): boolean {
+  const topload = arrangement.topload;
+  if (topload?.shape !== 'toroid') return false;
+  const { clearance, inner } = effectiveClearance(arrangement);
+  return (
+    inner && clearance > 0 && TOROID_PANELS_PER_GAP_RATIO * topload.minorRadius > BASE_PANEL_COUNTS.toroid * clearance
+  );
+}
+
+/**
+ * Panel counts of an arrangement. The topload gets its base count, raised when an object at another
+ * potential comes close (to at most 55 or 72): count ≥ 60·r/gap on a toroid (r the tube radius),
+ * ≥ 26·a/gap on a sphere, gap the effective clearance (floor and grounded rings by
  * distance, the winding by distance/√(1 − φ)). The winding always gets the base count.
  * `resolution` multiplies all.
  */
@@ -162,13 +196,13 @@ export function defaultPanelCounts(arrangement: FieldArrangement, resolution = 1
   const topload = arrangement.topload;
   let toploadCount = 0;
   if (topload) {
-    const clearance = effectiveClearance(arrangement);
+    const { clearance } = effectiveClearance(arrangement);
     if (topload.shape === 'toroid') {
       const wanted = clearance > 0 ? Math.ceil((TOROID_PANELS_PER_GAP_RATIO * topload.minorRadius) / clearance) : 0;
-      toploadCount = Math.min(3 * BASE_PANEL_COUNTS.toroid, Math.max(BASE_PANEL_COUNTS.toroid, wanted));
+      toploadCount = Math.min(MAX_PANEL_COUNTS.toroid, Math.max(BASE_PANEL_COUNTS.toroid, wanted));
     } else if (topload.shape === 'sphere') {
       const wanted = clearance > 0 ? Math.ceil((SPHERE_PANELS_PER_GAP_RATIO * topload.radius) / clearance) : 0;
-      toploadCount = Math.min(3 * BASE_PANEL_COUNTS.sphere, Math.max(BASE_PANEL_COUNTS.sphere, wanted));
+      toploadCount = Math.min(MAX_PANEL_COUNTS.sphere, Math.max(BASE_PANEL_COUNTS.sphere, wanted));
     } else {
       toploadCount = BASE_PANEL_COUNTS.disc;
     }
@@ -362,7 +396,8 @@ export function arrangementPanels(
   shapes.push(...groundedRingPanels(arrangement.groundedRings ?? []));
   const leadingCount = shapes.length;
   const topload = arrangement.topload;
-  if (topload?.shape === 'toroid') shapes.push(...toroidPanels(topload, counts.topload));
+  if (topload?.shape === 'toroid')
+    shapes.push(...toroidPanels(topload, counts.topload, toroidGradedInward(arrangement)));
   else if (topload?.shape === 'sphere') shapes.push(...spherePanels(topload, counts.topload));
   else if (topload?.shape === 'disc') shapes.push(...discPanels(topload, counts.topload));
   return { shapes, windingCount, leadingCount };

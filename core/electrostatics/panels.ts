@@ -10,7 +10,7 @@
  * density and midpoint collocation; R. F. Harrington, *Field Computation by Moment Methods*, 1968;
  * N. H. Malik, IEEE Trans. Electr. Insul. 24(1), 1989).
  */
-import { GAUSS2_NODES, GAUSS2_WEIGHTS, GAUSS4_NODES, GAUSS4_WEIGHTS } from './gauss-legendre.ts';
+import { GAUSS2_NODES, GAUSS2_WEIGHTS, GAUSS4_NODES, GAUSS4_WEIGHTS } from '../gauss-legendre.ts';
 
 /** Panel kinds. */
 export const PANEL_LINE = 0;

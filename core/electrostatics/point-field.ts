@@ -12,7 +12,7 @@
  * (Gauss's law); points are meant to lie off the panels.
  */
 import { ellipticKEComplement } from '../elliptic.ts';
-import { GAUSS4_NODES, GAUSS4_WEIGHTS } from './gauss-legendre.ts';
+import { GAUSS4_NODES, GAUSS4_WEIGHTS } from '../gauss-legendre.ts';
 import { PANEL_THIN_RING, panelPoint, type PanelLayout } from './panels.ts';
 import { VACUUM_PERMITTIVITY } from './ring-kernel.ts';
 

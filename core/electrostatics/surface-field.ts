@@ -11,7 +11,7 @@
  * panels follow the distance rules of assembly.ts (midpoint, 2-point, 4-point, bisection).
  */
 import { ellipticKLogPart, ellipticKSmoothPart } from './elliptic-polynomial.ts';
-import { GAUSS4_NODES, GAUSS4_WEIGHTS, GAUSS8_NODES, GAUSS8_WEIGHTS } from './gauss-legendre.ts';
+import { GAUSS4_NODES, GAUSS4_WEIGHTS, GAUSS8_NODES, GAUSS8_WEIGHTS } from '../gauss-legendre.ts';
 import { DISTANT_RATIO, FAR_RATIO, NEAR_RATIO } from './assembly.ts';
 import { PANEL_THIN_RING, panelPoint, type PanelLayout } from './panels.ts';
 import { VACUUM_PERMITTIVITY } from './ring-kernel.ts';

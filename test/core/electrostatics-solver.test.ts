@@ -10,7 +10,7 @@ import { assembleCollocationMatrix, panelIntegral, panelSelfIntegral } from '../
 import { buildPanelLayout, panelPoint, type PanelShape } from '../../core/electrostatics/panels.ts';
 import { toroidPanels, windingPanels } from '../../core/electrostatics/bodies.ts';
 import { defaultPanelCounts, solveField, type FieldArrangement } from '../../core/electrostatics/field-solve.ts';
-import { GAUSS8_NODES, GAUSS8_WEIGHTS } from '../../core/electrostatics/gauss-legendre.ts';
+import { GAUSS8_NODES, GAUSS8_WEIGHTS } from '../../core/gauss-legendre.ts';
 import { must } from '../../core/must.ts';
 
 describe('luFactor / luSolve (Golub & Van Loan Alg. 3.4.1)', () => {
@@ -210,10 +210,10 @@ describe('convergence rule: doubling the default panel counts changes capacitanc
       { numRuns: 20, seed: 2026, endOnFailure: true },
     );
   });
-  test('the default counts are 25 toroid, 24 sphere, 24 winding panels', () => {
-    expect(defaultPanelCounts(ARRANGEMENTS[0][1])).toEqual({ topload: 25, winding: 24 });
-    expect(defaultPanelCounts(ARRANGEMENTS[2][1])).toEqual({ topload: 24, winding: 24 });
-    expect(must(solveField(ARRANGEMENTS[0][1])).unknowns).toBe(25 + 24 + 11);
+  test('the default counts are 15 toroid, 12 sphere, 24 winding panels', () => {
+    expect(defaultPanelCounts(ARRANGEMENTS[0][1])).toEqual({ topload: 15, winding: 24 });
+    expect(defaultPanelCounts(ARRANGEMENTS[2][1])).toEqual({ topload: 12, winding: 24 });
+    expect(must(solveField(ARRANGEMENTS[0][1])).unknowns).toBe(15 + 24 + 11);
   });
 });
 
