@@ -17,6 +17,7 @@ import { type BatchEvaluator, inProcessEvaluator } from '../optimize/evaluate-ba
 import { type EvolveOutcome, evolveSweep, type GenerationRecord } from '../optimize/evolve-run.ts';
 import type { RankedEntry } from '../optimize/pareto/candidate-pool.ts';
 import type { PackedRow } from '../optimize/packed-row.ts';
+import type { ShouldStop } from '../optimize/stage-stop.ts';
 import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
 import { journalRecords, openJournal } from '../run/durable/journal.ts';
 import { lockRunOrRefuse } from '../run/sweep-setup.ts';
@@ -42,6 +43,8 @@ export interface EvolveCommandOptions {
   population: number;
   seed?: number;
   workers?: number;
+  /** Polled between generations (the sweep's stages pass their stop request); true stops with StageStopped. */
+  shouldStop?: ShouldStop;
 }
 
 function checkOptions(options: EvolveCommandOptions): void {
@@ -93,6 +96,7 @@ export async function evolveCommand(directory: string, options: EvolveCommandOpt
         population: options.population,
         batchSize: Math.max(8, record.batch_size),
         referencePoint: spec.referencePoint,
+        ...(options.shouldStop ? { shouldStop: options.shouldStop } : {}),
       };
       outcome = await evolveSweep(space, state, spec.samples, evaluator, runOptions, {
         replay,

@@ -11,6 +11,7 @@ import { join } from 'node:path';
 import { inProcessEvaluator, type BatchEvaluator } from '../optimize/evaluate-batch.ts';
 import { DesignSpace, spaceDefinitionOf } from '../optimize/design-space.ts';
 import { type RefineOutcome, refineSweep } from '../optimize/refine-run.ts';
+import type { ShouldStop } from '../optimize/stage-stop.ts';
 import { type PackedRow, packRow } from '../optimize/packed-row.ts';
 import type { RankedEntry } from '../optimize/pareto/candidate-pool.ts';
 import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
@@ -40,6 +41,8 @@ export interface RefineCommandOptions {
   starts: number;
   evaluations: number;
   workers?: number;
+  /** Polled before each pool task (the sweep's stages pass their stop request); true stops with StageStopped. */
+  shouldStop?: ShouldStop;
 }
 
 export async function refineCommand(directory: string, options: RefineCommandOptions, io: CliIo): Promise<number> {
@@ -76,6 +79,7 @@ export async function refineCommand(directory: string, options: RefineCommandOpt
       evaluations: options.evaluations,
       referencePoint,
       batchSize: Math.max(8, record.batch_size),
+      ...(options.shouldStop ? { shouldStop: options.shouldStop } : {}),
     });
   } finally {
     await evaluator.close();

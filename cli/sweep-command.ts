@@ -147,7 +147,7 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
   }
   // Each stage takes the run's lock itself, as its command does.
   const stageIo: CliIo = options.quiet ? { ...io, err: () => {} } : io;
-  const stageCode = await runStages(directory, stages, options.workers, stageIo, log);
+  const stageCode = await runStages(directory, stages, options.workers, stageIo, log, io.err);
   return stageCode !== 0 ? stageCode : code;
 }
 
