@@ -21,7 +21,7 @@ import type { ShouldStop } from '../optimize/stage-stop.ts';
 import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
 import { journalRecords, openJournal } from '../run/durable/journal.ts';
 import { lockRunOrRefuse } from '../run/sweep-setup.ts';
-import { InputError, optionError } from '../run/input-error.ts';
+import { optionError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
 import { readRunRecord, RUN_FILES, runDigits } from '../run/run-directory.ts';
 import { SAFETY_CAUTIONS } from './safety.ts';
@@ -37,6 +37,7 @@ import {
 import { loadRunSpec } from './sweep-spec.ts';
 import type { SweepSpec } from './sweep-spec.ts';
 import { candidateNumbering, outputEntries, sortedFront } from './sweep-outputs.ts';
+import { fileError } from './input-errors.ts';
 
 export interface EvolveCommandOptions {
   evaluations: number;
@@ -64,9 +65,9 @@ export async function evolveCommand(directory: string, options: EvolveCommandOpt
   const record = readRunRecord(directory);
   const spec = loadRunSpec(directory);
   if (spec.objectives.length === 0)
-    throw new InputError(`${directory}: the sweep has no objectives; evolve needs at least one to improve on`);
+    throw fileError(directory, `the sweep has no objectives; evolve needs at least one to improve on`);
   const state = readSweepState(directory, spec, record.keep);
-  if (state.pool.size === 0) throw new InputError(`${directory}: the sweep has no candidates to evolve from`);
+  if (state.pool.size === 0) throw fileError(directory, `the sweep has no candidates to evolve from`);
   const seed = options.seed ?? spec.seed;
   const lock = lockRunOrRefuse(directory);
   try {

@@ -17,7 +17,7 @@ import type { RankedEntry } from '../optimize/pareto/candidate-pool.ts';
 import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
 import { toCsv } from '../run/csv.ts';
 import { writeFileAtomicSync } from '../run/durable/atomic-write.ts';
-import { InputError, optionError } from '../run/input-error.ts';
+import { optionError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
 import { readRunRecord, RUN_FILES, runDigits } from '../run/run-directory.ts';
 import { columnSet } from './sweep-columns.ts';
@@ -36,6 +36,7 @@ import {
   writeStageDesigns,
   writeSummarySection,
 } from './stage-outputs.ts';
+import { fileError } from './input-errors.ts';
 
 export interface RefineCommandOptions {
   starts: number;
@@ -53,7 +54,7 @@ export async function refineCommand(directory: string, options: RefineCommandOpt
   const record = readRunRecord(directory);
   const spec = loadRunSpec(directory);
   const state = readSweepState(directory, spec, record.keep);
-  if (state.pool.size === 0) throw new InputError(`${directory}: the sweep has no candidates to refine`);
+  if (state.pool.size === 0) throw fileError(directory, `the sweep has no candidates to refine`);
 
   // Before refining: the sweep's candidates.csv numbering (rank and crowding by sample index).
   const candidates = candidateNumbering(outputEntries(state, record.keep).ranked);

@@ -11,7 +11,7 @@ import { buildDesign } from '../optimize/build-design.ts';
 import { fillSlots, type Dimension, type NormalTree } from '../optimize/design-tree.ts';
 import { readDesignTree } from './design-schema.ts';
 import { DESIGN_SECTIONS } from './design-fields.ts';
-import { fieldError, InputError, type InputIssue } from '../run/input-error.ts';
+import { fieldError, type InputIssue } from '../run/input-error.ts';
 import { metricKind } from './metric-kinds.ts';
 import { parseInputText, readInputFile } from './read-file.ts';
 import { RUN_FILES } from '../run/run-directory.ts';
@@ -23,6 +23,7 @@ import { describeValue, readQuantity } from './units.ts';
 import { must } from '../core/must.ts';
 import { readStages, type StageSpec } from './sweep-stages.ts';
 import type { ConstraintDefinition, ObjectiveDefinition } from '../optimize/sweep-state.ts';
+import { fileError } from './input-errors.ts';
 
 export type SamplingMethod = 'sobol' | 'lhs' | 'grid' | 'random';
 
@@ -441,8 +442,9 @@ function readRobust(
 /** Reads and validates a sweep from its parsed value. Throws the first problem as an InputError. */
 export function sweepFromValue(value: unknown, file: string, options: SweepReadOptions = {}): SweepSpec {
   if (!isMapping(value)) {
-    throw new InputError(
-      `${file}: expected a mapping with design, constraints, objectives and sweep, got ${describeValue(value)}`,
+    throw fileError(
+      file,
+      `expected a mapping with design, constraints, objectives and sweep, got ${describeValue(value)}`,
     );
   }
   const { reading, constraints, objectives, tolerances } = readProblem(value, file);
@@ -485,6 +487,6 @@ export function loadSweepFile(file: string, options: SweepReadOptions = {}): Swe
 /** Loads the sweep file saved in a run directory (spec.yaml). */
 export function loadRunSpec(directory: string): SweepSpec {
   const path = join(directory, RUN_FILES.spec);
-  if (!existsSync(path)) throw new InputError(`${directory}: not a coilfront run directory (no ${RUN_FILES.spec})`);
+  if (!existsSync(path)) throw fileError(directory, `not a coilfront run directory (no ${RUN_FILES.spec})`);
   return sweepFromValue(parseInputText(readFileSync(path, 'utf8'), path), path, { force: true });
 }
