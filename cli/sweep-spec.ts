@@ -307,7 +307,13 @@ function readProblem(value: Record<string, unknown>, file: string) {
 }
 
 /** `sweep:`'s settings (method, seed, levels, shard count, stages) and the sample count they give. */
-function readSettings(value: unknown, dimensions: Dimension[], file: string, options: SweepReadOptions) {
+function readSettings(
+  value: unknown,
+  dimensions: Dimension[],
+  objectives: number,
+  file: string,
+  options: SweepReadOptions,
+) {
   const issues: InputIssue[] = [];
   const sweep = value ?? {};
   if (!isMapping(sweep))
@@ -327,7 +333,6 @@ function readSettings(value: unknown, dimensions: Dimension[], file: string, opt
   const seed = parseSetting('seed', integerSetting('an integer seed', 0, 2 ** 32 - 1), 1);
   const levels = parseSetting('levels', integerSetting('a number of grid levels', 2, 1000), 5);
   const shardCount = parseSetting('shard_count', integerSetting('a shard count', 1, 100_000), null as number | null);
-  const stages = readStages(settings.stages, issues);
   failOnFirst(file, issues);
   let samples = 0;
   let gridLevels: number[] | null = null;
@@ -366,6 +371,9 @@ function readSettings(value: unknown, dimensions: Dimension[], file: string, opt
       path: ['design'],
       message: 'nothing varies: give at least one range or set (or use npx coilfront evaluate)',
     });
+  // A stage's unset settings come from the problem's size (the default budget split of sweep-stages.ts).
+  const stages = readStages(settings.stages, issues, { samples, dimensions: dimensions.length, objectives });
+  failOnFirst(file, issues);
   return { settings, method, seed, shardCount, stages, samples, gridLevels };
 }
 
@@ -452,6 +460,7 @@ export function sweepFromValue(value: unknown, file: string, options: SweepReadO
   const { settings, method, seed, shardCount, stages, samples, gridLevels } = readSettings(
     value.sweep,
     dimensions,
+    objectives.length,
     file,
     options,
   );
