@@ -8,6 +8,7 @@ import { benchElectrostatics } from './electrostatics.ts';
 import { benchEvolve } from './evolve.ts';
 import { benchPareto } from './pareto.ts';
 import { benchRefine } from './refine.ts';
+import { benchStageSplit } from './stage-split.ts';
 import { benchSweep } from './sweep.ts';
 
 const quick = process.argv.includes('quick');
@@ -21,6 +22,11 @@ const sections: Array<[string, () => Promise<string[]>]> = [
   [
     'evolutionary stage vs more samples (science-centre example)',
     () => benchEvolve(quick ? { budgets: [1000], seeds: [1] } : {}),
+  ],
+  // The default split of sweep.stages (about four minutes on one thread; quick: one seed at 1000).
+  [
+    'budget split between sweep, evolve and refine (science-centre example)',
+    () => benchStageSplit(quick ? { budgets: [1000], seeds: [1] } : {}),
   ],
 ];
 if (!quick)

@@ -14,6 +14,7 @@ import { evaluationJson } from './evaluate-command.ts';
 import { fieldError, InputError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
 import { designFromValue, type LoadedDesign } from './load-design.ts';
+import { fileError } from './input-errors.ts';
 
 /** Designs per pool task. */
 const CHUNK = 32;
@@ -30,7 +31,7 @@ function readLine(text: string, lineNumber: number, where: string): Line {
     try {
       value = JSON.parse(text);
     } catch (error) {
-      throw new InputError(`${where}: not JSON: ${(error as Error).message}`);
+      throw fileError(where, `not JSON: ${(error as Error).message}`);
     }
     return { line: lineNumber, loaded: designFromValue(value, where), where };
   } catch (error) {
@@ -90,8 +91,7 @@ export async function batchEvaluate(file: string, io: CliIo, options: { workers?
     send();
     await written;
   } catch (error) {
-    if (openError)
-      throw new InputError(`${file}: cannot be read (${(openError as NodeJS.ErrnoException).code ?? 'error'})`);
+    if (openError) throw fileError(file, `cannot be read (${(openError as NodeJS.ErrnoException).code ?? 'error'})`);
     throw error;
   } finally {
     if (idleTimer !== null) clearTimeout(idleTimer);
@@ -99,8 +99,7 @@ export async function batchEvaluate(file: string, io: CliIo, options: { workers?
     await pool.close();
   }
   if (failure !== null) throw failure;
-  if (openError)
-    throw new InputError(`${file}: cannot be read (${(openError as NodeJS.ErrnoException).code ?? 'error'})`);
+  if (openError) throw fileError(file, `cannot be read (${(openError as NodeJS.ErrnoException).code ?? 'error'})`);
   return bad > 0 ? 2 : 0;
 }
 

@@ -7,12 +7,13 @@ import { basename, extname, join } from 'node:path';
 import type { Design } from '../core/design.ts';
 import { designField } from '../core/design-field.ts';
 import { writeFileAtomicSync } from '../run/durable/atomic-write.ts';
-import { fieldError, InputError } from '../run/input-error.ts';
+import { fieldError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
 import { loadDesignFile } from './load-design.ts';
 import { runDesign } from './run-design.ts';
 import { designDrawingSvg } from './views/design-drawing.ts';
 import { svgToPng } from './views/vega-render.ts';
+import { commandError, optionError } from './input-errors.ts';
 
 /** The drawing of one design; a design that cannot be built is an input error naming the field. */
 export function drawingOf(design: Design, title: string, source: string, fieldColumns?: number): string {
@@ -32,11 +33,11 @@ export function resolveDrawable(
   const isRun = existsSync(source) && statSync(source).isDirectory();
   if (isRun) {
     if (id === undefined)
-      throw new InputError(`draw: ${source} is a run directory: give a rank too (draw ${source} 1)`);
+      throw commandError('draw', `${source} is a run directory: give a rank too (draw ${source} 1)`);
     const found = runDesign(source, id);
     return { design: found.design, title: found.label, defaultOut: join(source, `drawing-${found.id}.svg`) };
   }
-  if (id !== undefined) throw new InputError(`draw: ${source} is not a run directory, so '${id}' means nothing here`);
+  if (id !== undefined) throw commandError('draw', `${source} is not a run directory, so '${id}' means nothing here`);
   const loaded = loadDesignFile(source);
   const stem = basename(source, extname(source));
   return {
@@ -53,7 +54,7 @@ export async function drawCommand(
   io: CliIo,
 ): Promise<number> {
   if (options.out !== undefined && !/\.(svg|png)$/i.test(options.out))
-    throw new InputError(`--out: expected a file name ending in .svg or .png, got '${options.out}'`);
+    throw optionError('--out', `expected a file name ending in .svg or .png, got '${options.out}'`);
   const drawable = resolveDrawable(source, id);
   const svg = drawingOf(drawable.design, drawable.title, source);
   const out = options.out ?? drawable.defaultOut;

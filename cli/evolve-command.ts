@@ -17,10 +17,11 @@ import { type BatchEvaluator, inProcessEvaluator } from '../optimize/evaluate-ba
 import { type EvolveOutcome, evolveSweep, type GenerationRecord } from '../optimize/evolve-run.ts';
 import type { RankedEntry } from '../optimize/pareto/candidate-pool.ts';
 import type { PackedRow } from '../optimize/packed-row.ts';
+import type { ShouldStop } from '../optimize/stage-stop.ts';
 import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
 import { journalRecords, openJournal } from '../run/durable/journal.ts';
 import { lockRunOrRefuse } from '../run/sweep-setup.ts';
-import { InputError, optionError } from '../run/input-error.ts';
+import { optionError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
 import { readRunRecord, RUN_FILES, runDigits } from '../run/run-directory.ts';
 import { SAFETY_CAUTIONS } from './safety.ts';
@@ -36,12 +37,15 @@ import {
 import { loadRunSpec } from './sweep-spec.ts';
 import type { SweepSpec } from './sweep-spec.ts';
 import { candidateNumbering, outputEntries, sortedFront } from './sweep-outputs.ts';
+import { fileError } from './input-errors.ts';
 
 export interface EvolveCommandOptions {
   evaluations: number;
   population: number;
   seed?: number;
   workers?: number;
+  /** Polled between generations (the sweep's stages pass their stop request); true stops with StageStopped. */
+  shouldStop?: ShouldStop;
 }
 
 function checkOptions(options: EvolveCommandOptions): void {
@@ -61,9 +65,9 @@ export async function evolveCommand(directory: string, options: EvolveCommandOpt
   const record = readRunRecord(directory);
   const spec = loadRunSpec(directory);
   if (spec.objectives.length === 0)
-    throw new InputError(`${directory}: the sweep has no objectives; evolve needs at least one to improve on`);
+    throw fileError(directory, `the sweep has no objectives; evolve needs at least one to improve on`);
   const state = readSweepState(directory, spec, record.keep);
-  if (state.pool.size === 0) throw new InputError(`${directory}: the sweep has no candidates to evolve from`);
+  if (state.pool.size === 0) throw fileError(directory, `the sweep has no candidates to evolve from`);
   const seed = options.seed ?? spec.seed;
   const lock = lockRunOrRefuse(directory);
   try {
@@ -93,6 +97,7 @@ export async function evolveCommand(directory: string, options: EvolveCommandOpt
         population: options.population,
         batchSize: Math.max(8, record.batch_size),
         referencePoint: spec.referencePoint,
+        ...(options.shouldStop ? { shouldStop: options.shouldStop } : {}),
       };
       outcome = await evolveSweep(space, state, spec.samples, evaluator, runOptions, {
         replay,

@@ -7,7 +7,6 @@ import { copyFileSync, existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { SweepState } from '../optimize/sweep-state.ts';
 import { writeFileAtomicSync } from '../run/durable/atomic-write.ts';
-import { InputError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
 import {
   prepareOutputDirectory,
@@ -21,29 +20,33 @@ import { checkCoverage } from '../run/shard.ts';
 import { loadRunSpec } from './sweep-spec.ts';
 import { writeSweepOutputs } from './sweep-outputs.ts';
 import { SAFETY_LINE } from './safety.ts';
+import { commandError, optionError } from './input-errors.ts';
 
 export async function mergeCommand(
   directories: string[],
   options: { out?: string; overwrite?: boolean },
   io: CliIo,
 ): Promise<number> {
-  if (options.out === undefined) throw new InputError('--out: required: the directory for the merged results');
-  if (directories.length === 0) throw new InputError('merge: give the shard directories');
+  if (options.out === undefined) throw optionError('--out', 'required: the directory for the merged results');
+  if (directories.length === 0) throw commandError('merge', 'give the shard directories');
   const records = directories.map((directory) => ({ directory, record: readRunRecord(directory) }));
   const first = records[0];
   for (const { directory, record } of records) {
     if (record.seed !== first.record.seed)
-      throw new InputError(
-        `merge: ${directory} used seed ${record.seed}, ${first.directory} seed ${first.record.seed}`,
+      throw commandError(
+        'merge',
+        `${directory} used seed ${record.seed}, ${first.directory} seed ${first.record.seed}`,
       );
     if (record.spec_hash !== first.record.spec_hash) {
-      throw new InputError(
-        `merge: ${directory} comes from another sweep file than ${first.directory} (spec hash ${record.spec_hash.slice(0, 12)} ≠ ${first.record.spec_hash.slice(0, 12)})`,
+      throw commandError(
+        'merge',
+        `${directory} comes from another sweep file than ${first.directory} (spec hash ${record.spec_hash.slice(0, 12)} ≠ ${first.record.spec_hash.slice(0, 12)})`,
       );
     }
     if (record.keep !== first.record.keep)
-      throw new InputError(
-        `merge: ${directory} kept ${record.keep} candidates, ${first.directory} ${first.record.keep}; use the same --keep`,
+      throw commandError(
+        'merge',
+        `${directory} kept ${record.keep} candidates, ${first.directory} ${first.record.keep}; use the same --keep`,
       );
   }
   const total = first.record.samples;
@@ -56,22 +59,24 @@ export async function mergeCommand(
     })),
     total,
   );
-  if (problems.length > 0) throw new InputError(`merge: refused: ${problems.join('; ')}`);
+  if (problems.length > 0) throw commandError('merge', `refused: ${problems.join('; ')}`);
   const spec = loadRunSpec(first.directory);
   const state = new SweepState(spec.objectives, spec.constraints, first.record.keep, spec.seed);
   for (const { directory } of records) {
     const path = join(directory, RUN_FILES.checkpoint);
     if (!existsSync(path))
-      throw new InputError(
-        `merge: ${directory} has no checkpoint; finish it with npx coilfront sweep --resume ${directory}`,
+      throw commandError(
+        'merge',
+        `${directory} has no checkpoint; finish it with npx coilfront sweep --resume ${directory}`,
       );
     const checkpoint = JSON.parse(readFileSync(path, 'utf8')) as {
       complete: boolean;
       state: Parameters<typeof SweepState.restore>[0];
     };
     if (!checkpoint.complete)
-      throw new InputError(
-        `merge: ${directory} is not finished; finish it with npx coilfront sweep --resume ${directory}`,
+      throw commandError(
+        'merge',
+        `${directory} is not finished; finish it with npx coilfront sweep --resume ${directory}`,
       );
     state.merge(SweepState.restore(checkpoint.state, spec.objectives, spec.constraints, first.record.keep, spec.seed));
   }

@@ -5,13 +5,13 @@
 import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { writeFileAtomicSync } from '../run/durable/atomic-write.ts';
-import { InputError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
 import { readRunRecord, RUN_FILES } from '../run/run-directory.ts';
 import { SAFETY_LINE } from './safety.ts';
 import { type ColumnPlotOptions, columnPlotSpec } from './views/column-plot.ts';
 import { readRunTable } from './views/run-table.ts';
 import { svgToPng, vegaLiteSvg } from './views/vega-render.ts';
+import { optionError } from './input-errors.ts';
 
 export interface PlotCommandOptions extends ColumnPlotOptions {
   out?: string;
@@ -20,7 +20,7 @@ export interface PlotCommandOptions extends ColumnPlotOptions {
 export async function plotCommand(directory: string, options: PlotCommandOptions, io: CliIo): Promise<number> {
   readRunRecord(directory);
   const out = options.out ?? join(directory, `plot-${options.x}-${options.y}.svg`);
-  if (!/\.(svg|png)$/i.test(out)) throw new InputError(`--out: expected a file ending in .svg or .png, got '${out}'`);
+  if (!/\.(svg|png)$/i.test(out)) throw optionError('--out', `expected a file ending in .svg or .png, got '${out}'`);
   const infeasiblePath = join(directory, RUN_FILES.infeasible);
   const spec = columnPlotSpec(
     {

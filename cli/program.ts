@@ -24,6 +24,7 @@ import { sheetCommand, type SheetCommandOptions } from './sheet-command.ts';
 import { stockCommand } from './stock-command.ts';
 import { retuneCommand } from './retune-command.ts';
 import { toleranceCommand, type ToleranceCommandOptions } from './tolerance-command.ts';
+import { commandError } from './input-errors.ts';
 
 /** The journal's sync interval: --sync-every, or its older spelling --checkpoint-every (hidden). */
 interface SyncEveryFlags {
@@ -113,13 +114,13 @@ function registerDesignCommands(program: Command, io: CliIo, setExit: (code: num
     .option('--workers <n>', 'worker threads for --batch (default: available parallelism)', integer('--workers'))
     .action(async (file: string | undefined, options: { json?: boolean; batch?: string; workers?: number }) => {
       if (options.batch !== undefined) {
-        if (file !== undefined) throw new InputError('evaluate: give a design file or --batch, not both');
+        if (file !== undefined) throw commandError('evaluate', 'give a design file or --batch, not both');
         setExit(
           await batchEvaluate(options.batch, io, options.workers !== undefined ? { workers: options.workers } : {}),
         );
         return;
       }
-      if (file === undefined) throw new InputError('evaluate: give a design file (or --batch FILE.jsonl)');
+      if (file === undefined) throw commandError('evaluate', 'give a design file (or --batch FILE.jsonl)');
       setExit(evaluateCommand(file, options, io));
     });
 

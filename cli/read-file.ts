@@ -5,7 +5,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { parseDocument } from 'yaml';
-import { InputError } from '../run/input-error.ts';
+import { fileError } from './input-errors.ts';
 
 const MAX_INPUT_BYTES = 16 * 1024 * 1024;
 
@@ -24,9 +24,9 @@ export function readInputText(file: string): string {
           : code === 'EACCES'
             ? 'permission denied'
             : `cannot be read (${code ?? 'unknown error'})`;
-    throw new InputError(`${file}: ${reason}`);
+    throw fileError(file, `${reason}`);
   }
-  if (buffer.length > MAX_INPUT_BYTES) throw new InputError(`${file}: larger than 16 MiB; not a design or sweep file`);
+  if (buffer.length > MAX_INPUT_BYTES) throw fileError(file, `larger than 16 MiB; not a design or sweep file`);
   return buffer.toString('utf8');
 }
 
@@ -38,15 +38,15 @@ export function parseInputText(text: string, file: string): unknown {
     const position = error.linePos?.[0];
     const where = position ? `line ${position.line}, column ${position.col}: ` : '';
     const reason = error.message.split('\n')[0].replace(/ at line \d+, column \d+:?$/, '');
-    throw new InputError(`${file}: ${where}cannot parse: ${reason}`);
+    throw fileError(file, `${where}cannot parse: ${reason}`);
   }
   let value: unknown;
   try {
     value = document.toJS({ maxAliasCount: 100 });
   } catch (caught) {
-    throw new InputError(`${file}: cannot parse: ${(caught as Error).message.split('\n')[0]}`);
+    throw fileError(file, `cannot parse: ${(caught as Error).message.split('\n')[0]}`);
   }
-  if (value === null || value === undefined) throw new InputError(`${file}: the file is empty`);
+  if (value === null || value === undefined) throw fileError(file, `the file is empty`);
   return value;
 }
 

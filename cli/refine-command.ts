@@ -11,12 +11,13 @@ import { join } from 'node:path';
 import { inProcessEvaluator, type BatchEvaluator } from '../optimize/evaluate-batch.ts';
 import { DesignSpace, spaceDefinitionOf } from '../optimize/design-space.ts';
 import { type RefineOutcome, refineSweep } from '../optimize/refine-run.ts';
+import type { ShouldStop } from '../optimize/stage-stop.ts';
 import { type PackedRow, packRow } from '../optimize/packed-row.ts';
 import type { RankedEntry } from '../optimize/pareto/candidate-pool.ts';
 import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
 import { toCsv } from '../run/csv.ts';
 import { writeFileAtomicSync } from '../run/durable/atomic-write.ts';
-import { InputError, optionError } from '../run/input-error.ts';
+import { optionError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
 import { readRunRecord, RUN_FILES, runDigits } from '../run/run-directory.ts';
 import { columnSet } from './sweep-columns.ts';
@@ -35,11 +36,14 @@ import {
   writeStageDesigns,
   writeSummarySection,
 } from './stage-outputs.ts';
+import { fileError } from './input-errors.ts';
 
 export interface RefineCommandOptions {
   starts: number;
   evaluations: number;
   workers?: number;
+  /** Polled before each pool task (the sweep's stages pass their stop request); true stops with StageStopped. */
+  shouldStop?: ShouldStop;
 }
 
 export async function refineCommand(directory: string, options: RefineCommandOptions, io: CliIo): Promise<number> {
@@ -50,7 +54,7 @@ export async function refineCommand(directory: string, options: RefineCommandOpt
   const record = readRunRecord(directory);
   const spec = loadRunSpec(directory);
   const state = readSweepState(directory, spec, record.keep);
-  if (state.pool.size === 0) throw new InputError(`${directory}: the sweep has no candidates to refine`);
+  if (state.pool.size === 0) throw fileError(directory, `the sweep has no candidates to refine`);
 
   // Before refining: the sweep's candidates.csv numbering (rank and crowding by sample index).
   const candidates = candidateNumbering(outputEntries(state, record.keep).ranked);
@@ -76,6 +80,7 @@ export async function refineCommand(directory: string, options: RefineCommandOpt
       evaluations: options.evaluations,
       referencePoint,
       batchSize: Math.max(8, record.batch_size),
+      ...(options.shouldStop ? { shouldStop: options.shouldStop } : {}),
     });
   } finally {
     await evaluator.close();

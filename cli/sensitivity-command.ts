@@ -11,10 +11,10 @@ import { inProcessEvaluator } from '../optimize/evaluate-batch.ts';
 import { spaceSensitivity } from '../optimize/sensitivity/index.ts';
 import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
 import { toCsv } from '../run/csv.ts';
-import { InputError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
 import { SAFETY_LINE, safetyBlock } from './safety.ts';
 import { loadSweepFile } from './sweep-spec.ts';
+import { fileError, optionError } from './input-errors.ts';
 
 export interface SensitivityOptions {
   samples?: number;
@@ -29,12 +29,12 @@ function writeWhole(path: string, text: string): void {
 
 export async function sensitivityCommand(file: string, options: SensitivityOptions, io: CliIo): Promise<number> {
   const samples = options.samples ?? 512;
-  if (samples < 2) throw new InputError(`--samples: expected at least 2, got ${samples}`);
+  if (samples < 2) throw optionError('--samples', `expected at least 2, got ${samples}`);
   const spec = loadSweepFile(file);
   const k = spec.dimensions.length;
-  if (k < 1 || k > 32) throw new InputError(`${file}: sensitivity needs 1 to 32 swept fields, the file has ${k}`);
+  if (k < 1 || k > 32) throw fileError(file, `sensitivity needs 1 to 32 swept fields, the file has ${k}`);
   const metrics = [...new Set([...spec.objectives.map((o) => o.metric), ...spec.constraints.map((c) => c.metric)])];
-  if (metrics.length === 0) throw new InputError(`${file}: no objectives or constraints to analyse`);
+  if (metrics.length === 0) throw fileError(file, `no objectives or constraints to analyse`);
   const definition = spaceDefinitionOf(spec);
   const threads = options.workers ?? defaultWorkerCount();
   const evaluator =

@@ -9,11 +9,12 @@ import { evaluateDesign } from '../core/evaluate.ts';
 import { buildDesign } from '../optimize/build-design.ts';
 import { buildSheet, partsCsv, sheetMarkdown } from './build-sheet.ts';
 import { writeFileAtomicSync } from '../run/durable/atomic-write.ts';
-import { fieldError, InputError, optionError } from '../run/input-error.ts';
+import { fieldError, optionError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
 import { loadDesignFile } from './load-design.ts';
 import { runDesignTree } from './show-command.ts';
 import { readQuantity } from './units.ts';
+import { commandError } from './input-errors.ts';
 
 export interface SheetCommandOptions {
   out?: string;
@@ -52,7 +53,7 @@ export function sheetCommand(
     design = built.design;
     title = found.title;
   } else {
-    if (rank !== undefined) throw new InputError(`sheet: ${target} is a design file; a rank goes with a run directory`);
+    if (rank !== undefined) throw commandError('sheet', `${target} is a design file; a rank goes with a run directory`);
     design = loadDesignFile(target).design;
     title = target;
   }

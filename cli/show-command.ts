@@ -11,11 +11,11 @@ import { isSlot, type NormalTree } from '../optimize/design-tree.ts';
 import { DESIGN_SECTIONS, sectionFields } from './design-fields.ts';
 import { KIND_DISPLAY, formatNumber, lengthText } from './display-units.ts';
 import { exactQuantityText } from './units.ts';
-import { InputError } from '../run/input-error.ts';
 import type { CliIo } from './io.ts';
 import { RUN_FILES } from '../run/run-directory.ts';
 import { SAFETY_LINE } from './safety.ts';
 import { loadRunSpec } from './sweep-spec.ts';
+import { commandError, fileError } from './input-errors.ts';
 
 /** A design's normal tree as YAML text: exact SI numbers, a unit comment beside each quantity. */
 export function treeToYaml(tree: NormalTree, heading: string[]): string {
@@ -53,7 +53,7 @@ export function treeToYaml(tree: NormalTree, heading: string[]): string {
 }
 
 function readCsvRows(path: string): Record<string, string>[] {
-  if (!existsSync(path)) throw new InputError(`${path}: no such file`);
+  if (!existsSync(path)) throw fileError(path, `no such file`);
   return parseCsv(readFileSync(path, 'utf8'), { columns: true, skip_empty_lines: true }) as Record<string, string>[];
 }
 
@@ -68,8 +68,9 @@ export function runDesignTree(
   if (options.sample !== undefined) {
     const index = Number(options.sample);
     if (!/^\d+$/.test(options.sample) || index >= spec.samples)
-      throw new InputError(
-        `show --sample: expected a sample index 0 … ${spec.samples - 1} (the sample_index column), got '${options.sample}'`,
+      throw commandError(
+        'show --sample',
+        `expected a sample index 0 … ${spec.samples - 1} (the sample_index column), got '${options.sample}'`,
       );
     return { tree: space.designAt(index).tree, title: `sample ${index} of ${directory}` };
   }
@@ -78,8 +79,9 @@ export function runDesignTree(
   if (stageId?.[1] === 'r') options = { ...options, refined: stageId[2] };
   const wanted = stageId?.[1] === 'e' ? stageId[2] : (options.refined ?? rankText);
   if (wanted === undefined || !/^\d+$/.test(wanted) || Number(wanted) < 1) {
-    throw new InputError(
-      `show: expected a rank in candidates.csv (1, 2, …), a refined id (r1, r2, …), an evolved id (e1, e2, …) or --sample I, got '${wanted ?? ''}'`,
+    throw commandError(
+      'show',
+      `expected a rank in candidates.csv (1, 2, …), a refined id (r1, r2, …), an evolved id (e1, e2, …) or --sample I, got '${wanted ?? ''}'`,
     );
   }
   const rank = Number(wanted);
@@ -92,24 +94,22 @@ export function runDesignTree(
   if (stage) {
     const path = join(directory, stage.file);
     if (!existsSync(path))
-      throw new InputError(
-        `${directory}: no ${stage.word} designs yet (run npx coilfront ${stage.command} ${directory})`,
-      );
+      throw fileError(directory, `no ${stage.word} designs yet (run npx coilfront ${stage.command} ${directory})`);
     // Designs without a rank (evolved ones near an improved one) are there for later stages only.
     const designs = (JSON.parse(readFileSync(path, 'utf8')) as { rank: number | null; values: number[] }[]).filter(
       (d) => d.rank !== null,
     );
     const entry = designs.find((d) => d.rank === rank);
     if (!entry)
-      throw new InputError(
-        `${directory}: there is no ${stage.word} design of rank ${rank} (${designs.length} in ${stage.csv})`,
+      throw fileError(
+        directory,
+        `there is no ${stage.word} design of rank ${rank} (${designs.length} in ${stage.csv})`,
       );
     return { tree: space.designOf(entry.values).tree, title: `${stage.word} design ${rank} of ${directory}` };
   }
   const rows = readCsvRows(join(directory, RUN_FILES.candidates));
   const row = rows.find((r) => r.rank === String(rank));
-  if (!row)
-    throw new InputError(`${directory}: there is no candidate of rank ${rank} (${rows.length} in candidates.csv)`);
+  if (!row) throw fileError(directory, `there is no candidate of rank ${rank} (${rows.length} in candidates.csv)`);
   const index = Number(row.sample_index);
   return { tree: space.designAt(index).tree, title: `candidate ${rank} of ${directory} (sample ${index})` };
 }

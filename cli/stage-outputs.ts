@@ -11,7 +11,6 @@ import type { RankedEntry } from '../optimize/pareto/candidate-pool.ts';
 import { type PackedRow, unpackRow } from '../optimize/packed-row.ts';
 import { STATUS_OK } from '../optimize/evaluate-batch.ts';
 import { type CandidateRow, SweepState } from '../optimize/sweep-state.ts';
-import { InputError } from '../run/input-error.ts';
 import { toCsv } from '../run/csv.ts';
 import { formatNumber } from './display-units.ts';
 import { writeFileAtomicSync } from '../run/durable/atomic-write.ts';
@@ -21,6 +20,7 @@ import { columnSet } from './sweep-columns.ts';
 import type { SweepSpec } from './sweep-spec.ts';
 import { rankedRows } from './sweep-outputs.ts';
 import { metricText } from './top-candidates.ts';
+import { fileError } from './input-errors.ts';
 
 /** Designs closer than this fraction of the front's extent in every objective count as one. */
 const DISTINCT_FRACTION = 0.01;
@@ -222,7 +222,7 @@ export function hypervolumeLines(
 export function readSweepState(directory: string, spec: SweepSpec, keep: number): SweepState {
   const checkpointPath = join(directory, RUN_FILES.checkpoint);
   if (!existsSync(checkpointPath))
-    throw new InputError(`${directory}: no checkpoint yet; let the sweep run (or resume it) first`);
+    throw fileError(directory, `no checkpoint yet; let the sweep run (or resume it) first`);
   const checkpoint = JSON.parse(readFileSync(checkpointPath, 'utf8')) as {
     state: Parameters<typeof SweepState.restore>[0];
   };

@@ -10,7 +10,9 @@
  */
 import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
+import { StageStopped, type ShouldStop } from '../optimize/stage-stop.ts';
 import { writeFileAtomicSync } from '../run/durable/atomic-write.ts';
+import { installStopSignal, type StopSignal } from '../run/durable/stop-signal.ts';
 import { RUN_FILES } from '../run/run-directory.ts';
 import { evolveCommand } from './evolve-command.ts';
 import type { CliIo } from './io.ts';
@@ -58,6 +60,8 @@ export async function runStages(
   workers: number | undefined,
   io: CliIo,
   log: (line: string) => void,
+  /** Where the stop line and its resume hint go (printed even when the stages are quiet); io.err unless given. */
+  notify: (text: string) => void = io.err,
 ): Promise<number> {
   const finished = readProgress(directory);
   let done = 0;
@@ -70,29 +74,66 @@ export async function runStages(
   const kept = stages.slice(0, done);
   if (done > 0 && done < stages.length)
     log(`resuming the stages of ${directory}: ${done} of ${stages.length} finished`);
-  for (let i = done; i < stages.length; i++) {
-    const stage = stages[i] as StageSpec;
-    log(`stage ${i + 1} of ${stages.length}: ${stageCommand(stage, directory)}`);
-    const code =
-      stage.stage === 'evolve'
-        ? await evolveCommand(
-            directory,
-            {
-              evaluations: stage.evaluations,
-              population: stage.population,
-              ...(stage.seed !== undefined ? { seed: stage.seed } : {}),
-              ...(workers !== undefined ? { workers } : {}),
-            },
-            io,
-          )
-        : await refineCommand(
-            directory,
-            { starts: stage.starts, evaluations: stage.evaluations, ...(workers !== undefined ? { workers } : {}) },
-            io,
-          );
-    if (code !== 0) return code;
-    kept.push(stage);
-    writeStagesProgress(directory, kept);
+  // Ctrl-C or SIGTERM in a stage: it stops between batches, its journal (evolve) kept, and the run resumes.
+  const stop = installStopSignal({ log });
+  const shouldStop = () => stop.stopRequested;
+  try {
+    for (let i = done; i < stages.length; i++) {
+      const stage = stages[i] as StageSpec;
+      if (stop.stopRequested) return stoppedIn(stop, i, stages.length, directory, notify);
+      log(`stage ${i + 1} of ${stages.length}: ${stageCommand(stage, directory)}`);
+      let code: number;
+      try {
+        code = await runStage(stage, directory, workers, shouldStop, io);
+      } catch (error) {
+        if (error instanceof StageStopped) return stoppedIn(stop, i, stages.length, directory, notify);
+        throw error;
+      }
+      if (code !== 0) return code;
+      kept.push(stage);
+      writeStagesProgress(directory, kept);
+    }
+  } finally {
+    stop.dispose();
   }
   return 0;
+}
+
+/** One stage through its command's own function. */
+function runStage(
+  stage: StageSpec,
+  directory: string,
+  workers: number | undefined,
+  shouldStop: ShouldStop,
+  io: CliIo,
+): Promise<number> {
+  const pool = workers !== undefined ? { workers } : {};
+  if (stage.stage === 'evolve')
+    return evolveCommand(
+      directory,
+      {
+        evaluations: stage.evaluations,
+        population: stage.population,
+        ...(stage.seed !== undefined ? { seed: stage.seed } : {}),
+        ...pool,
+        shouldStop,
+      },
+      io,
+    );
+  return refineCommand(directory, { starts: stage.starts, evaluations: stage.evaluations, ...pool, shouldStop }, io);
+}
+
+/** The stop of a stage in words, with the sweep's resume hint; the exit code of the stop. */
+function stoppedIn(
+  stop: StopSignal,
+  index: number,
+  count: number,
+  directory: string,
+  notify: (text: string) => void,
+): number {
+  const why = stop.reason === 'time-limit' ? 'the time limit was reached' : `${stop.signal ?? 'a signal'} was received`;
+  notify(
+    `stopped: ${why} in stage ${index + 1} of ${count}; the sweep's outputs are in ${directory}\n  resume with: npx coilfront sweep --resume ${directory}\n`,
+  );
+  return stop.exitCode();
 }

@@ -10,7 +10,6 @@ import { csvRows, toCsv } from '../run/csv.ts';
 import { removeLeftoverTemporaryFiles } from '../run/durable/atomic-write.ts';
 import { DiskError, toDiskError } from '../run/durable/disk-error.ts';
 import { installStopSignal } from '../run/durable/stop-signal.ts';
-import { InputError, optionError } from '../run/input-error.ts';
 import { RUN_FILES, runDigits, type RunRecord } from '../run/run-directory.ts';
 import { describeShard } from '../run/shard.ts';
 import {
@@ -31,6 +30,7 @@ import { formatTopCandidates, NO_FEASIBLE_EXIT_CODE } from './top-candidates.ts'
 import { runStages, stagesStarted, writeStagesProgress } from './stage-runner.ts';
 import { readSweepState } from './stage-outputs.ts';
 import { stagesIdentity } from './sweep-spec.ts';
+import { commandError, optionError } from './input-errors.ts';
 
 export interface SweepOptions {
   out?: string;
@@ -76,8 +76,9 @@ function openRun(specFile: string | undefined, options: SweepOptions): OpenedRun
     const given =
       specFile !== undefined ? { file: specFile, problem: loadSweepFile(specFile, { force: true }) } : undefined;
     if (given && stagesIdentity(given.problem) !== stagesIdentity(spec))
-      throw new InputError(
-        `--resume ${directory}: refused: the stages (sweep.stages) of ${specFile} differ from those of the run's ${RUN_FILES.spec}`,
+      throw optionError(
+        `--resume ${directory}`,
+        `refused: the stages (sweep.stages) of ${specFile} differ from those of the run's ${RUN_FILES.spec}`,
       );
     const opened = resumeSweepRun(directory, spec, {
       ...(given ? { given } : {}),
@@ -86,7 +87,7 @@ function openRun(specFile: string | undefined, options: SweepOptions): OpenedRun
     });
     return { directory, spec, ...opened };
   }
-  if (specFile === undefined) throw new InputError('sweep: give a sweep file, or --resume DIR');
+  if (specFile === undefined) throw commandError('sweep', 'give a sweep file, or --resume DIR');
   if (options.out === undefined) throw optionError('--out', 'required: the directory for the results');
   const spec = loadSweepFile(specFile, { force: options.force ?? false });
   const record = startSweepRun(options.out, spec, {
@@ -147,7 +148,7 @@ export async function sweepCommand(specFile: string | undefined, options: SweepO
   }
   // Each stage takes the run's lock itself, as its command does.
   const stageIo: CliIo = options.quiet ? { ...io, err: () => {} } : io;
-  const stageCode = await runStages(directory, stages, options.workers, stageIo, log);
+  const stageCode = await runStages(directory, stages, options.workers, stageIo, log, io.err);
   return stageCode !== 0 ? stageCode : code;
 }
 

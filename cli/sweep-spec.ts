@@ -11,7 +11,7 @@ import { buildDesign } from '../optimize/build-design.ts';
 import { fillSlots, type Dimension, type NormalTree } from '../optimize/design-tree.ts';
 import { readDesignTree } from './design-schema.ts';
 import { DESIGN_SECTIONS } from './design-fields.ts';
-import { fieldError, InputError, type InputIssue } from '../run/input-error.ts';
+import { fieldError, type InputIssue } from '../run/input-error.ts';
 import { metricKind } from './metric-kinds.ts';
 import { parseInputText, readInputFile } from './read-file.ts';
 import { RUN_FILES } from '../run/run-directory.ts';
@@ -23,6 +23,7 @@ import { describeValue, readQuantity } from './units.ts';
 import { must } from '../core/must.ts';
 import { readStages, type StageSpec } from './sweep-stages.ts';
 import type { ConstraintDefinition, ObjectiveDefinition } from '../optimize/sweep-state.ts';
+import { fileError } from './input-errors.ts';
 
 export type SamplingMethod = 'sobol' | 'lhs' | 'grid' | 'random';
 
@@ -268,17 +269,20 @@ export interface SweepReadOptions {
   force?: boolean;
 }
 
-/** Reads and validates a sweep from its parsed value. Throws the first problem as an InputError. */
-export function sweepFromValue(value: unknown, file: string, options: SweepReadOptions = {}): SweepSpec {
+/** Stops the read at its first problem: `file: path: reason`. */
+function fail(file: string, issue: InputIssue): never {
+  throw fieldError(file, issue);
+}
+
+/** Throws the first of `issues`, if any. */
+function failOnFirst(file: string, issues: readonly InputIssue[]): void {
+  const first = issues[0];
+  if (first !== undefined) fail(file, first);
+}
+
+/** The top level's keys, the design tree, the constraints, the objectives and the tolerances. */
+function readProblem(value: Record<string, unknown>, file: string) {
   const issues: InputIssue[] = [];
-  const fail = (): never => {
-    throw fieldError(file, issues[0]);
-  };
-  if (!isMapping(value)) {
-    throw new InputError(
-      `${file}: expected a mapping with design, constraints, objectives and sweep, got ${describeValue(value)}`,
-    );
-  }
   for (const key of Object.keys(value)) {
     if (TOP_KEYS.includes(key)) continue;
     if (key in DESIGN_SECTIONS) {
@@ -288,35 +292,36 @@ export function sweepFromValue(value: unknown, file: string, options: SweepReadO
       });
     } else issues.push(unknownKey([], key, TOP_KEYS));
   }
-  if (issues.length) fail();
-  if (value.design === undefined) {
-    issues.push({ path: ['design'], message: 'required: the design tree, where leaves may be ranges or sets' });
-    fail();
-  }
+  failOnFirst(file, issues);
+  if (value.design === undefined)
+    fail(file, { path: ['design'], message: 'required: the design tree, where leaves may be ranges or sets' });
   const reading = readDesignTree(value.design, 'sweep', ['design']);
-  if (reading.issues.length) {
-    issues.push(reading.issues[0]);
-    fail();
-  }
+  failOnFirst(file, reading.issues);
   const constraints = readConstraints(value.constraints, issues);
-  if (issues.length) fail();
+  failOnFirst(file, issues);
   const objectives = readObjectives(value.objectives, issues);
-  if (issues.length) fail();
+  failOnFirst(file, issues);
   const tolerances = value.tolerances === undefined ? null : readTolerances(value.tolerances, ['tolerances'], issues);
-  if (issues.length) fail();
+  failOnFirst(file, issues);
+  return { reading, constraints, objectives, tolerances };
+}
 
-  const sweep = value.sweep ?? {};
-  if (!isMapping(sweep)) {
-    issues.push({
-      path: ['sweep'],
-      message: `expected a mapping (method, samples, seed), got ${describeValue(sweep)}`,
-    });
-    fail();
-  }
+/** `sweep:`'s settings (method, seed, levels, shard count, stages) and the sample count they give. */
+function readSettings(
+  value: unknown,
+  dimensions: Dimension[],
+  objectives: number,
+  file: string,
+  options: SweepReadOptions,
+) {
+  const issues: InputIssue[] = [];
+  const sweep = value ?? {};
+  if (!isMapping(sweep))
+    fail(file, { path: ['sweep'], message: `expected a mapping (method, samples, seed), got ${describeValue(sweep)}` });
   const settings = sweep as Record<string, unknown>;
   for (const key of Object.keys(settings))
     if (!SWEEP_KEYS.includes(key)) issues.push(unknownKey(['sweep'], key, SWEEP_KEYS));
-  if (issues.length) fail();
+  failOnFirst(file, issues);
   const parseSetting = <T>(key: string, schema: z.ZodType<T>, fallback: T): T => {
     if (settings[key] === undefined) return fallback;
     const result = schema.safeParse(settings[key]);
@@ -328,147 +333,144 @@ export function sweepFromValue(value: unknown, file: string, options: SweepReadO
   const seed = parseSetting('seed', integerSetting('an integer seed', 0, 2 ** 32 - 1), 1);
   const levels = parseSetting('levels', integerSetting('a number of grid levels', 2, 1000), 5);
   const shardCount = parseSetting('shard_count', integerSetting('a shard count', 1, 100_000), null as number | null);
-  const stages = readStages(settings.stages, issues);
+  failOnFirst(file, issues);
   let samples = 0;
-  if (issues.length) fail();
-  const dimensions = reading.dimensions;
   let gridLevels: number[] | null = null;
   if (method === 'grid') {
-    if (settings.samples !== undefined) {
-      issues.push({
+    if (settings.samples !== undefined)
+      fail(file, {
         path: ['sweep', 'samples'],
         message: 'a grid has no sample count: its size is the product of its levels (set sweep.levels)',
       });
-      fail();
-    }
     gridLevels = dimensions.map((d) => discreteLevels(d) ?? levels);
     samples = gridLevels.reduce((product, n) => product * n, 1);
   } else {
-    if (settings.samples === undefined) {
-      issues.push({
+    if (settings.samples === undefined)
+      fail(file, {
         path: ['sweep', 'samples'],
         message: `required for method ${method}: the number of designs to evaluate`,
       });
-      fail();
-    }
     samples = parseSetting('samples', integerSetting('a whole number of samples', 1, MAX_SAMPLES), 0);
-    if (issues.length) fail();
-    if (method === 'sobol' && dimensions.length > 64) {
-      issues.push({
+    failOnFirst(file, issues);
+    if (method === 'sobol' && dimensions.length > 64)
+      fail(file, {
         path: ['design'],
         message: `${dimensions.length} varied fields; Sobol sampling here supports up to 64 (use lhs or random)`,
       });
-      fail();
-    }
   }
-  if (samples > MAX_SAMPLES) {
-    issues.push({
-      path: ['sweep', method === 'grid' ? 'levels' : 'samples'],
-      message: `${samples} designs is beyond the limit of ${MAX_SAMPLES}`,
-    });
-    fail();
-  }
-  if (samples > MAX_SAMPLES_WITHOUT_FORCE && !options.force) {
-    issues.push({
-      path: ['sweep', method === 'grid' ? 'levels' : 'samples'],
+  const countPath = ['sweep', method === 'grid' ? 'levels' : 'samples'];
+  if (samples > MAX_SAMPLES)
+    fail(file, { path: countPath, message: `${samples} designs is beyond the limit of ${MAX_SAMPLES}` });
+  if (samples > MAX_SAMPLES_WITHOUT_FORCE && !options.force)
+    fail(file, {
+      path: countPath,
       message: `${samples} designs is more than ${MAX_SAMPLES_WITHOUT_FORCE}; run with --force if you mean it`,
     });
-    fail();
-  }
-  if (dimensions.length === 0) {
-    issues.push({
+  if (dimensions.length === 0)
+    fail(file, {
       path: ['design'],
       message: 'nothing varies: give at least one range or set (or use npx coilfront evaluate)',
     });
-    fail();
+  // A stage's unset settings come from the problem's size (the default budget split of sweep-stages.ts).
+  const stages = readStages(settings.stages, issues, { samples, dimensions: dimensions.length, objectives });
+  failOnFirst(file, issues);
+  return { settings, method, seed, shardCount, stages, samples, gridLevels };
+}
+
+/** `sweep.reference_point`: a mapping metric -> value in objective units, to the minimisation convention. */
+function readReferencePoint(given: unknown, objectives: ObjectiveDefinition[], file: string): number[] | null {
+  if (given === undefined) return null;
+  const base = ['sweep', 'reference_point'];
+  if (!isMapping(given))
+    fail(file, { path: base, message: `expected a mapping objective metric: value, got ${describeValue(given)}` });
+  const point: number[] = [];
+  for (const objective of objectives) {
+    const path = [...base, objective.metric];
+    const bound = given[objective.metric];
+    if (bound === undefined) fail(file, { path, message: 'required: one value for each objective' });
+    const issues: InputIssue[] = [];
+    const read = readBound(objective.metric, bound, path, issues);
+    failOnFirst(file, issues);
+    point.push(objective.sense === 'maximize' ? -must(read) : must(read));
   }
-  // The reference point: a mapping metric -> value, in objective units.
-  let referencePoint: number[] | null = null;
-  if (settings.reference_point !== undefined) {
-    const given = settings.reference_point;
-    if (!isMapping(given)) {
-      issues.push({
-        path: ['sweep', 'reference_point'],
-        message: `expected a mapping objective metric: value, got ${describeValue(given)}`,
-      });
-      fail();
-    }
-    const point: number[] = [];
-    for (const objective of objectives) {
-      const bound = (given as Record<string, unknown>)[objective.metric];
-      if (bound === undefined) {
-        issues.push({
-          path: ['sweep', 'reference_point', objective.metric],
-          message: 'required: one value for each objective',
-        });
-        fail();
-      }
-      const read = readBound(objective.metric, bound, ['sweep', 'reference_point', objective.metric], issues);
-      if (read === undefined) fail();
-      point.push(objective.sense === 'maximize' ? -must(read) : must(read));
-    }
-    for (const key of Object.keys(given as object)) {
-      if (!objectives.some((o) => o.metric === key)) {
-        issues.push({ path: ['sweep', 'reference_point', key], message: `'${key}' is not an objective` });
-        fail();
-      }
-    }
-    referencePoint = point;
-  }
-  // Structural check: the first corner of the space must build as a design (field combinations).
+  for (const key of Object.keys(given))
+    if (!objectives.some((o) => o.metric === key))
+      fail(file, { path: [...base, key], message: `'${key}' is not an objective` });
+  return point;
+}
+
+/** The structural check: the first corner of the space must build as a design (field combinations). */
+function checkStructure(tree: NormalTree, dimensions: Dimension[], file: string): void {
   const probe = fillSlots(
-    reading.tree,
+    tree,
     dimensions,
     dimensions.map((d) => (d.kind === 'range' ? d.from : 0)),
   );
-  const built = buildDesign(probe, ['design']);
-  const structural = built.issues.find((issue) => !issue.byValue);
-  if (structural) {
-    issues.push(structural);
-    fail();
+  const structural = buildDesign(probe, ['design']).issues.find((issue) => !issue.byValue);
+  if (structural) fail(file, structural);
+}
+
+/** Tolerances: every field must find its nominal in this space; build_yield needs tolerances.sweep_draws. */
+function readRobust(
+  tolerances: ToleranceSection | null,
+  space: Parameters<typeof toleranceSpace>[0],
+  constraints: ConstraintDefinition[],
+  objectives: ObjectiveDefinition[],
+  file: string,
+): RobustDefinition | undefined {
+  const usesYield =
+    objectives.some((o) => o.metric === 'build_yield') || constraints.some((c) => c.metric === 'build_yield');
+  if (!tolerances) {
+    if (usesYield)
+      fail(file, { path: ['tolerances'], message: 'required for build_yield: a tolerances section with sweep_draws' });
+    return undefined;
   }
-  // Tolerances: every field must find its nominal in this space; build_yield needs tolerances.sweep_draws.
-  let robust: RobustDefinition | undefined;
-  if (tolerances) {
-    let space: ReturnType<typeof toleranceSpace> | null = null;
-    try {
-      space = toleranceSpace({ tree: reading.tree, dimensions, method, samples, seed, gridLevels }, tolerances.fields);
-    } catch (error) {
-      if (!(error instanceof ToleranceSetupError)) throw error;
-      issues.push({ path: ['tolerances', ...error.path], message: error.message });
-    }
-    if (issues.length || space === null) fail();
-    const usesYield =
-      objectives.some((o) => o.metric === 'build_yield') || constraints.some((c) => c.metric === 'build_yield');
-    if (usesYield && tolerances.sweepDraws === null) {
-      issues.push({
-        path: ['tolerances', 'sweep_draws'],
-        message: 'required for build_yield: the tolerance draws per design (each costs one more evaluation)',
-      });
-      fail();
-    }
-    if (usesYield) {
-      robust = {
-        tolerance: space as ReturnType<typeof toleranceSpace>,
-        draws: tolerances.sweepDraws as number,
-        seed: tolerances.seed ?? seed,
-        constraints: constraints.filter((c) => c.metric !== 'build_yield'),
-        required: objectives.map((o) => o.metric).filter((m) => m !== 'build_yield'),
-      };
-    }
-  } else if (
-    objectives.some((o) => o.metric === 'build_yield') ||
-    constraints.some((c) => c.metric === 'build_yield')
-  ) {
-    issues.push({
-      path: ['tolerances'],
-      message: 'required for build_yield: a tolerances section with sweep_draws',
+  let tolerance: ReturnType<typeof toleranceSpace>;
+  try {
+    tolerance = toleranceSpace(space, tolerances.fields);
+  } catch (error) {
+    if (!(error instanceof ToleranceSetupError)) throw error;
+    fail(file, { path: ['tolerances', ...error.path], message: error.message });
+  }
+  if (!usesYield) return undefined;
+  if (tolerances.sweepDraws === null)
+    fail(file, {
+      path: ['tolerances', 'sweep_draws'],
+      message: 'required for build_yield: the tolerance draws per design (each costs one more evaluation)',
     });
-    fail();
+  return {
+    tolerance,
+    draws: tolerances.sweepDraws,
+    seed: tolerances.seed ?? space.seed,
+    constraints: constraints.filter((c) => c.metric !== 'build_yield'),
+    required: objectives.map((o) => o.metric).filter((m) => m !== 'build_yield'),
+  };
+}
+
+/** Reads and validates a sweep from its parsed value. Throws the first problem as an InputError. */
+export function sweepFromValue(value: unknown, file: string, options: SweepReadOptions = {}): SweepSpec {
+  if (!isMapping(value)) {
+    throw fileError(
+      file,
+      `expected a mapping with design, constraints, objectives and sweep, got ${describeValue(value)}`,
+    );
   }
+  const { reading, constraints, objectives, tolerances } = readProblem(value, file);
+  const { tree, dimensions } = reading;
+  const { settings, method, seed, shardCount, stages, samples, gridLevels } = readSettings(
+    value.sweep,
+    dimensions,
+    objectives.length,
+    file,
+    options,
+  );
+  const referencePoint = readReferencePoint(settings.reference_point, objectives, file);
+  checkStructure(tree, dimensions, file);
+  const space = { tree, dimensions, method, samples, seed, gridLevels };
+  const robust = readRobust(tolerances, space, constraints, objectives, file);
   return {
     ...(robust ? { robust } : {}),
-    tree: reading.tree,
+    tree,
     dimensions,
     constraints,
     objectives,
@@ -494,6 +496,6 @@ export function loadSweepFile(file: string, options: SweepReadOptions = {}): Swe
 /** Loads the sweep file saved in a run directory (spec.yaml). */
 export function loadRunSpec(directory: string): SweepSpec {
   const path = join(directory, RUN_FILES.spec);
-  if (!existsSync(path)) throw new InputError(`${directory}: not a coilfront run directory (no ${RUN_FILES.spec})`);
+  if (!existsSync(path)) throw fileError(directory, `not a coilfront run directory (no ${RUN_FILES.spec})`);
   return sweepFromValue(parseInputText(readFileSync(path, 'utf8'), path), path, { force: true });
 }

@@ -13,6 +13,35 @@ export const STAGE_DEFAULTS = {
   refine: { starts: 8, evaluations: 2000 },
 } as const;
 
+/** The size of a sweep problem, from which a stage's unset settings are chosen. */
+export interface ProblemSize {
+  samples: number;
+  dimensions: number;
+  objectives: number;
+}
+
+/**
+ * The default budget split of `sweep.stages` (a stage's settings left unset), chosen from the problem's
+ * size: the sweep's samples S are a quarter of the budget, evolve gets half (2·S evaluations, at least
+ * ten generations of its population) and refine the last quarter (S evaluations over 4 starts per
+ * objective, at least the refine's own floor of dimensions + 2 per start). Measured on the science-centre
+ * example (bench/stage-split.ts, 2 objectives, two seeds, mean hypervolume over the best split's): at 2000
+ * evaluations in all the quarter/half/quarter split reached 0.998 (the best of seven splits), sweep only
+ * 0.889, half sweep + half evolve 0.990; at 5000, 0.998 with 4483 evaluations spent (refine stops when its
+ * starts converge), against 1.000 for a quarter sweep + three quarters evolve and 0.888 for sweep only.
+ */
+export function stageDefaults(size: ProblemSize): {
+  evolve: { evaluations: number; population: number };
+  refine: { starts: number; evaluations: number };
+} {
+  const population = STAGE_DEFAULTS.evolve.population;
+  const starts = 4 * Math.max(1, size.objectives);
+  return {
+    evolve: { evaluations: Math.max(2 * size.samples, 10 * population), population },
+    refine: { starts, evaluations: Math.max(size.samples, starts * (size.dimensions + 2)) },
+  };
+}
+
 export type StageSpec =
   | { stage: 'evolve'; evaluations: number; population: number; seed?: number }
   | { stage: 'refine'; starts: number; evaluations: number };
@@ -38,7 +67,8 @@ function isMapping(value: unknown): value is Record<string, unknown> {
  * `{ refine: { starts, evaluations } }` (settings optional: the commands' defaults), or the bare name.
  * Pushes the first problem on `issues` (its path names the field) and returns what it read.
  */
-export function readStages(input: unknown, issues: InputIssue[]): StageSpec[] {
+export function readStages(input: unknown, issues: InputIssue[], size?: ProblemSize): StageSpec[] {
+  const defaults = size ? stageDefaults(size) : STAGE_DEFAULTS;
   if (input === undefined || input === null) return [];
   const base = ['sweep', 'stages'];
   if (!Array.isArray(input)) {
@@ -110,15 +140,15 @@ export function readStages(input: unknown, issues: InputIssue[]): StageSpec[] {
     if (stage === 'evolve') {
       stages.push({
         stage,
-        evaluations: values.evaluations ?? STAGE_DEFAULTS.evolve.evaluations,
-        population: values.population ?? STAGE_DEFAULTS.evolve.population,
+        evaluations: values.evaluations ?? defaults.evolve.evaluations,
+        population: values.population ?? defaults.evolve.population,
         ...(values.seed !== undefined ? { seed: values.seed } : {}),
       });
     } else {
       stages.push({
         stage,
-        starts: values.starts ?? STAGE_DEFAULTS.refine.starts,
-        evaluations: values.evaluations ?? STAGE_DEFAULTS.refine.evaluations,
+        starts: values.starts ?? defaults.refine.starts,
+        evaluations: values.evaluations ?? defaults.refine.evaluations,
       });
     }
   }

@@ -18,6 +18,7 @@ import { CandidatePool, type JsonNumber } from './pareto/candidate-pool.ts';
 import { defaultReferencePoint, hypervolume } from './pareto/hypervolume.ts';
 import type { CandidateRow, SweepState } from './sweep-state.ts';
 import { splitValuesTasks } from './split-values.ts';
+import { type ShouldStop, stopIfAsked } from './stage-stop.ts';
 
 export interface EvolveRunOptions {
   seed: number;
@@ -28,6 +29,8 @@ export interface EvolveRunOptions {
   batchSize: number;
   /** Hypervolume reference point (minimisation convention), or null for the default from the sweep's front. */
   referencePoint: number[] | null;
+  /** Polled after each journalled generation: true stops the stage with StageStopped (the journal stays). */
+  shouldStop?: ShouldStop;
 }
 
 /** A member as journaled: numbers that JSON cannot hold (Infinity) as strings. */
@@ -173,6 +176,7 @@ export async function evolveSweep(
     finish(current);
   }
   while (hasBudget(engine, current)) {
+    stopIfAsked(options.shouldStop, 'evolve');
     current = await stepGeneration(problem, engine, current, onEvaluated);
     finish(current);
   }

@@ -20,6 +20,7 @@ import type { Merit } from './refine/merit.ts';
 import { mixedPointKey, type MixedPoint } from './refine/mixed-point.ts';
 import { refineStarts, type RefineStartResult } from './refine/refine-start.ts';
 import type { CandidateRow, SweepState } from './sweep-state.ts';
+import { type ShouldStop, stopIfAsked } from './stage-stop.ts';
 
 export interface RefineOptions {
   starts: number;
@@ -29,6 +30,8 @@ export interface RefineOptions {
   referencePoint: number[] | null;
   /** Batch size of pool tasks. */
   batchSize: number;
+  /** Polled before each pool task: true stops the stage with StageStopped (a refine runs again from the start). */
+  shouldStop?: ShouldStop;
 }
 
 interface RefineRecord {
@@ -66,6 +69,7 @@ export async function refineSweep(
 
   // The evaluator of mixed points: dimension values to the pool as one 'values' task per chunk.
   const evaluateMixed = async (points: MixedPoint[]): Promise<RefineRecord[]> => {
+    stopIfAsked(options.shouldStop, 'refine');
     const values = new Float64Array(points.length * dimensions.length);
     points.forEach((point, i) => {
       values.set(valuesOfPoint(dimensions, space, point), i * dimensions.length);

@@ -53,3 +53,25 @@ export function fieldError(file: string, issue: InputIssue): InputError {
 export function optionError(option: string, reason: string): InputError {
   return new InputError(`${option}: ${reason}`);
 }
+
+/**
+ * An InputError about a whole file, run directory or command (no field path): `subject: reason`, e.g.
+ * `runs/a: not a coilfront run directory (no spec.yaml)` or `merge: give the shard directories`.
+ */
+export function subjectError(subject: string, reason: string): InputError {
+  return new InputError(`${subject}: ${reason}`);
+}
+
+/**
+ * An InputError about the environment a run was started in (the scheduler's variables, which have no
+ * file or option to name first): the reason names the variables itself, e.g.
+ * `SLURM_ARRAY_TASK_STEP: expected a step of 1 or more, got 0`.
+ */
+export function environmentError(reason: string): InputError {
+  return new InputError(reason);
+}
+
+/** An InputError carrying a message already written in the `path: reason` shape (a DiskError's). */
+export function inputErrorOf(error: { message: string }): InputError {
+  return new InputError(error.message);
+}

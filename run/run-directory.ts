@@ -5,8 +5,8 @@
 import { DEFAULT_DIGITS } from './csv.ts';
 import { existsSync, mkdirSync, readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { InputError } from './input-error.ts';
 import { writeFileAtomicSync } from './durable/atomic-write.ts';
+import { optionError, subjectError } from './input-error.ts';
 
 export const RUN_FILES = {
   run: 'run.json',
@@ -57,13 +57,13 @@ export function runDigits(record: RunRecord): number {
 
 export function readRunRecord(directory: string): RunRecord {
   const path = join(directory, RUN_FILES.run);
-  if (!existsSync(path)) throw new InputError(`${directory}: not a coilfront run directory (no ${RUN_FILES.run})`);
+  if (!existsSync(path)) throw subjectError(directory, `not a coilfront run directory (no ${RUN_FILES.run})`);
   try {
     const record = JSON.parse(readFileSync(path, 'utf8')) as RunRecord;
     if (record.format !== 'coilfront-run') throw new Error('wrong format');
     return record;
   } catch {
-    throw new InputError(`${path}: damaged run record; the run cannot be resumed from this directory`);
+    throw subjectError(path, `damaged run record; the run cannot be resumed from this directory`);
   }
 }
 
@@ -79,21 +79,24 @@ export function prepareOutputDirectory(directory: string, overwrite: boolean): v
       entries = readdirSync(directory).filter((name) => name !== 'run.lock');
     } catch (error) {
       const code = (error as NodeJS.ErrnoException).code;
-      throw new InputError(
-        `--out ${directory}: ${code === 'ENOTDIR' ? 'is a file, not a directory' : `cannot be read (${code ?? 'error'})`}`,
+      throw subjectError(
+        `--out ${directory}`,
+        `${code === 'ENOTDIR' ? 'is a file, not a directory' : `cannot be read (${code ?? 'error'})`}`,
       );
     }
     if (entries.length > 0 && !overwrite) {
-      throw new InputError(
-        `--out ${directory}: the directory is not empty; choose another, resume it with --resume ${directory}, or pass --overwrite`,
+      throw optionError(
+        `--out ${directory}`,
+        `the directory is not empty; choose another, resume it with --resume ${directory}, or pass --overwrite`,
       );
     }
   } else {
     try {
       mkdirSync(directory, { recursive: true });
     } catch (error) {
-      throw new InputError(
-        `--out ${directory}: cannot create the directory (${(error as NodeJS.ErrnoException).code ?? 'error'})`,
+      throw optionError(
+        `--out ${directory}`,
+        `cannot create the directory (${(error as NodeJS.ErrnoException).code ?? 'error'})`,
       );
     }
   }

@@ -12,7 +12,7 @@
  * SLURM_ARRAY_TASK_MIN/MAX/STEP or SLURM_ARRAY_TASK_COUNT); else a Kubernetes Indexed Job
  * (JOB_COMPLETION_INDEX, 0-based, with the count from --shard-count or the sweep file).
  */
-import { InputError, optionError } from './input-error.ts';
+import { environmentError, type InputError, optionError, subjectError } from './input-error.ts';
 
 /** The largest number of shards accepted (far above any array a scheduler allows by default). */
 export const MAX_SHARD_COUNT = 1_000_000;
@@ -73,7 +73,7 @@ function variable(env: ShardEnvironment, name: string): string | undefined {
 function wholeVariable(env: ShardEnvironment, name: string): number | undefined {
   const value = variable(env, name);
   if (value === undefined) return undefined;
-  if (!/^\d+$/.test(value)) throw new InputError(`${name}: expected a whole number, got '${value}'`);
+  if (!/^\d+$/.test(value)) throw subjectError(name, `expected a whole number, got '${value}'`);
   return Number(value);
 }
 
@@ -103,20 +103,20 @@ export function shardFromEnvironment(env: ShardEnvironment, options: ShardEnviro
   const slurmId = wholeVariable(env, 'SLURM_ARRAY_TASK_ID');
   const kubernetesIndex = wholeVariable(env, 'JOB_COMPLETION_INDEX');
   if (slurmId !== undefined && kubernetesIndex !== undefined) {
-    throw new InputError(
+    throw environmentError(
       'both SLURM_ARRAY_TASK_ID and JOB_COMPLETION_INDEX are set: give --shard k/N to say which shard this is',
     );
   }
   if (slurmId !== undefined) return slurmShard(env, slurmId, options.count);
   if (kubernetesIndex !== undefined) {
     if (options.count === undefined) {
-      throw new InputError(
+      throw environmentError(
         `JOB_COMPLETION_INDEX is ${kubernetesIndex} but the number of shards is not known: give --shard-count N (the Job's completions) or a shard count in the sweep file`,
       );
     }
     checkCount(options.count, 'the shard count');
     if (kubernetesIndex >= options.count) {
-      throw new InputError(
+      throw environmentError(
         `JOB_COMPLETION_INDEX is ${kubernetesIndex}, outside 0 … ${options.count - 1} for ${options.count} shards: --shard-count must equal the Job's completions`,
       );
     }
@@ -127,7 +127,7 @@ export function shardFromEnvironment(env: ShardEnvironment, options: ShardEnviro
 
 function checkCount(count: number, what: string): void {
   if (!Number.isInteger(count) || count < 1 || count > MAX_SHARD_COUNT) {
-    throw new InputError(`${what} must be a whole number from 1 to ${MAX_SHARD_COUNT}, got ${count}`);
+    throw environmentError(`${what} must be a whole number from 1 to ${MAX_SHARD_COUNT}, got ${count}`);
   }
 }
 
@@ -137,41 +137,41 @@ function slurmShard(env: ShardEnvironment, id: number, givenCount: number | unde
   const step = wholeVariable(env, 'SLURM_ARRAY_TASK_STEP') ?? 1;
   const taskCount = wholeVariable(env, 'SLURM_ARRAY_TASK_COUNT');
   const described = `SLURM_ARRAY_TASK_ID=${id}`;
-  if (step < 1) throw new InputError(`SLURM_ARRAY_TASK_STEP: expected a step of 1 or more, got ${step}`);
+  if (step < 1) throw environmentError(`SLURM_ARRAY_TASK_STEP: expected a step of 1 or more, got ${step}`);
   let index: number;
   let count: number;
   if (minimum !== undefined && maximum !== undefined) {
     if (maximum < minimum || (maximum - minimum) % step !== 0) {
-      throw new InputError(
+      throw environmentError(
         `the Slurm array ${minimum}-${maximum}:${step} is not an evenly spaced range: give --shard k/N`,
       );
     }
     count = (maximum - minimum) / step + 1;
     if (taskCount !== undefined && taskCount !== count) {
-      throw new InputError(
+      throw environmentError(
         `the Slurm array has ${taskCount} tasks but runs ${minimum}-${maximum} in steps of ${step} (${count} ids): use --array=A-B[:S] or give --shard k/N`,
       );
     }
     if (id < minimum || id > maximum || (id - minimum) % step !== 0) {
-      throw new InputError(`${described} is not one of the array's ids ${minimum}-${maximum}:${step}`);
+      throw environmentError(`${described} is not one of the array's ids ${minimum}-${maximum}:${step}`);
     }
     index = (id - minimum) / step + 1;
   } else if (taskCount !== undefined) {
     count = taskCount;
     if (id < 1 || id > taskCount) {
-      throw new InputError(
+      throw environmentError(
         `${described} is outside 1 … ${taskCount} (SLURM_ARRAY_TASK_COUNT) and SLURM_ARRAY_TASK_MIN is not set: give --shard k/N`,
       );
     }
     index = id;
   } else {
-    throw new InputError(
+    throw environmentError(
       `${described} is set but neither SLURM_ARRAY_TASK_COUNT nor SLURM_ARRAY_TASK_MIN and _MAX are: give --shard k/N`,
     );
   }
   checkCount(count, 'the Slurm array size');
   if (givenCount !== undefined && givenCount !== count) {
-    throw new InputError(`the shard count ${givenCount} disagrees with the Slurm array of ${count} tasks`);
+    throw environmentError(`the shard count ${givenCount} disagrees with the Slurm array of ${count} tasks`);
   }
   return { index, count, source: 'slurm' };
 }

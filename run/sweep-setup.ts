@@ -11,7 +11,6 @@ import type { ConstraintDefinition, ObjectiveDefinition, SweepStateData } from '
 import { DEFAULT_DIGITS } from './csv.ts';
 import { DiskError, toDiskError } from './durable/disk-error.ts';
 import { acquireRunLock, type RunLock, RunLockError } from './durable/lock.ts';
-import { InputError, optionError } from './input-error.ts';
 import {
   prepareOutputDirectory,
   RUN_FILES,
@@ -21,6 +20,7 @@ import {
   writeRunRecord,
 } from './run-directory.ts';
 import { resolveShard, type ShardSource, shardIndices } from './shard.ts';
+import { InputError, inputErrorOf, optionError, subjectError } from './input-error.ts';
 
 /** What the run layer needs of a sweep: its space, its ranking and its identity. */
 export interface SweepProblem extends SpaceDefinition {
@@ -134,7 +134,7 @@ export function startSweepRun(directory: string, problem: SweepProblem, options:
   } catch (error) {
     throw error instanceof InputError
       ? error
-      : new InputError((error instanceof DiskError ? error : toDiskError(error, directory, 'write')).message);
+      : inputErrorOf(error instanceof DiskError ? error : toDiskError(error, directory, 'write'));
   }
   for (const name of STALE_OUTPUTS) rmSync(join(directory, name), { force: true });
   return record;
@@ -157,19 +157,22 @@ export function resumeSweepRun(
   const given = options.given;
   if (given !== undefined) {
     if (given.problem.seed !== record.seed) {
-      throw new InputError(
-        `--resume ${directory}: refused: the run used seed ${record.seed}, ${given.file} has seed ${given.problem.seed}`,
+      throw optionError(
+        `--resume ${directory}`,
+        `refused: the run used seed ${record.seed}, ${given.file} has seed ${given.problem.seed}`,
       );
     }
     if (given.problem.hash !== record.spec_hash) {
-      throw new InputError(
-        `--resume ${directory}: refused: ${given.file} is not the sweep file this run was started from (spec hash ${given.problem.hash.slice(0, 12)} ≠ ${record.spec_hash.slice(0, 12)})`,
+      throw optionError(
+        `--resume ${directory}`,
+        `refused: ${given.file} is not the sweep file this run was started from (spec hash ${given.problem.hash.slice(0, 12)} ≠ ${record.spec_hash.slice(0, 12)})`,
       );
     }
   }
   if (problem.hash !== record.spec_hash)
-    throw new InputError(
-      `--resume ${directory}: refused: spec.yaml was changed after the run started (spec hash differs)`,
+    throw optionError(
+      `--resume ${directory}`,
+      `refused: spec.yaml was changed after the run started (spec hash differs)`,
     );
   if (options.keep !== undefined && options.keep !== record.keep)
     throw optionError('--keep', `the run was started with --keep ${record.keep}`);
@@ -186,9 +189,9 @@ export function readCheckpoint(directory: string, specHash: string): CheckpointD
   try {
     checkpoint = JSON.parse(readFileSync(path, 'utf8')) as CheckpointData;
   } catch {
-    throw new InputError(`${path}: damaged checkpoint; the run cannot be resumed`);
+    throw subjectError(path, `damaged checkpoint; the run cannot be resumed`);
   }
-  if (checkpoint.spec_hash !== specHash) throw new InputError(`${path}: belongs to another sweep (spec hash differs)`);
+  if (checkpoint.spec_hash !== specHash) throw subjectError(path, `belongs to another sweep (spec hash differs)`);
   return checkpoint;
 }
 
@@ -197,8 +200,7 @@ export function lockRunOrRefuse(directory: string): RunLock {
   try {
     return acquireRunLock(directory);
   } catch (error) {
-    if (error instanceof RunLockError || error instanceof DiskError)
-      throw new InputError(`${directory}: ${error.message}`);
+    if (error instanceof RunLockError || error instanceof DiskError) throw subjectError(directory, `${error.message}`);
     throw error;
   }
 }

@@ -120,6 +120,29 @@ describe('coilfront sweep with sweep.stages', () => {
     expectSameRun(directory, byHand);
   }, 120_000);
 
+  it('on SIGINT in the evolve stage prints the sweep resume hint, exits 130, and resumes to the same files', async () => {
+    const directory = area.dir('interrupted');
+    const journal = join(directory, 'evolve-journal.log');
+    const running = startCli(['sweep', staged, '--out', directory, '--workers', '1', '--batch-size', '8', '--quiet']);
+    let ended = false;
+    void running.done.then(() => (ended = true));
+    while (!ended && !(existsSync(journal) && readJournal(journal).records.length >= 3)) await sleep(2);
+    running.child.kill('SIGINT');
+    const stopped = await running.done;
+    expect(stopped.code, stopped.stderr).toBe(130); // 128 + SIGINT (2), the shells' convention
+    const lines = stopped.stderr.trimEnd().split('\n');
+    expect(lines).toEqual([
+      `stopped: SIGINT was received in stage 1 of 2; the sweep's outputs are in ${directory}`,
+      `  resume with: npx coilfront sweep --resume ${directory}`,
+    ]);
+    expect(existsSync(join(directory, 'evolved.csv'))).toBe(false);
+    expect(existsSync(journal)).toBe(true);
+    const resumed = await cli(['sweep', '--resume', directory, '--workers', '1']);
+    expect(resumed.code, resumed.err).toBe(0);
+    expect(resumed.err).toMatch(/resuming evolve in .*: \d+ generations from the journal/);
+    expectSameRun(directory, byHand);
+  }, 120_000);
+
   it('refuses bad stages in one line naming the field, exit 2, before any directory is made', async () => {
     const cases: [string, string][] = [
       [
