@@ -251,7 +251,7 @@ export const METRICS: readonly MetricInfo[] = [
   metric(
     'line_length_for_ratios',
     'm',
-    'the line length (0.1 to 4 times the given one, same conductor and height) that, with its own best tap, brings the modes nearest 1:2:3',
+    'the line length (0.1 to 4 times the given one, same conductor and height) that, with its own best tap, comes nearest complete transfer (the largest three_coil_lossless_transfer)',
   ),
   metric('three_coil_ratio_error_at_that_length', '', 'three_coil_ratio_error with that line length and its tap'),
   metric(
@@ -309,6 +309,28 @@ export const METRICS: readonly MetricInfo[] = [
     '',
     "fraction of the sweep's tolerance draws (tolerances.sweep_draws) that would be feasible candidates; only in sweeps that ask for it",
   ),
+  // --- appended: three-coil tuning for complete transfer ---
+  metric(
+    'three_coil_lossless_transfer',
+    '',
+    "fraction of the tank's energy on the resonator's top at half a period of the lowest mode, lossless circuit (1 at complete transfer)",
+  ),
+  metric(
+    'three_coil_lossless_transfer_at_that_length',
+    '',
+    'three_coil_lossless_transfer with line_length_for_ratios and its tap',
+  ),
+  metric(
+    'three_coil_transfer_fraction',
+    '',
+    "fraction of the energy per shot on the resonator's top at resonator_transfer_time, with every loss (½C3 v3² / ½C1 V²)",
+  ),
+  metric(
+    'three_coil_capacitance_ratio',
+    '',
+    "the resonator's top capacitance over the junction's, C3/C2 (15/32 at complete transfer)",
+  ),
+  metric('three_coil_coupling_ratio', '', 'coupling over the complete-transfer coupling √(5/11) = 0.674'),
 ];
 
 export const METRIC_KEYS: readonly string[] = METRICS.map((m) => m.key);

@@ -75,39 +75,9 @@ export function loopModes(network: LoopNetwork, initial: ArrayLike<number>): Loo
   const lossless = losslessLoopFrequencies(network);
   if (!lossless) return null;
   const degree = 2 * n;
-  // det(s² L + s R + S) by the Leibniz formula on polynomials in s (coefficients, lowest first).
-  const entry = (a: number, b: number): number[] => [
-    network.elastance[a * n + b],
-    a === b ? network.resistance[a] : 0,
-    network.inductance[a * n + b],
-  ];
-  const polynomial = new Array<number>(degree + 1).fill(0);
-  for (const [permutation, sign] of permutations(n)) {
-    let product = [1];
-    for (let a = 0; a < n; a++) product = multiplyPolynomials(product, entry(a, permutation[a]));
-    for (let k = 0; k < product.length; k++) polynomial[k] += sign * product[k];
-  }
-  const leading = polynomial[degree];
-  const constant = polynomial[0];
-  if (!(leading > 0) || !(constant > 0)) return null;
-  // Scale s = σ·w so that the monic polynomial in w has coefficients of order 1.
-  const scale = (constant / leading) ** (1 / degree);
-  const monic = polynomial.map((value, k) => value / leading / scale ** (degree - k));
-  const re = new Float64Array(degree);
-  const im = new Float64Array(degree);
-  let decay = 0;
-  for (let a = 0; a < n; a++) decay += network.resistance[a] / network.inductance[a * n + a];
-  decay /= 2 * n * scale;
-  for (let j = 0; j < degree; j++) {
-    const omega = lossless[j >> 1] * (1 + 1e-4 * (j >> 1)) * (j % 2 === 0 ? 1 : -1);
-    re[j] = -decay * (1 + 0.01 * j) - 1e-4 * j;
-    im[j] = omega / scale + 1e-5 * (j - degree / 2 + 0.5);
-  }
-  if (!durandKerner(monic, re, im)) return null;
-  for (let j = 0; j < degree; j++) {
-    re[j] *= scale;
-    im[j] *= scale;
-  }
+  const roots = characteristicRoots(network, lossless);
+  if (roots === null) return null;
+  const [re, im] = roots;
   // Modal vectors φ_j = [x, s x], x the null vector of Z(s) = s² L + s R + S.
   const vecRe = new Float64Array(degree * degree);
   const vecIm = new Float64Array(degree * degree);
@@ -147,6 +117,65 @@ export function loopModes(network: LoopNetwork, initial: ArrayLike<number>): Loo
       ampIm[j * degree + c] = cRe * vecIm[j * degree + c] + cIm * vecRe[j * degree + c];
     }
   }
+  if (!reconstructionHolds(network, initial, ampRe, ampIm)) return null;
+  return { network, rateRe: re, rateIm: im, ampRe, ampIm };
+}
+
+/**
+ * The 2n roots s_j of det(s² L + s R + S) = 0 (real and imaginary parts), by the Durand–Kerner
+ * iteration started from the lossless modes; null when it fails.
+ */
+function characteristicRoots(network: LoopNetwork, lossless: Float64Array): [Float64Array, Float64Array] | null {
+  const n = network.size;
+  const degree = 2 * n;
+  // det(s² L + s R + S) by the Leibniz formula on polynomials in s (coefficients, lowest first).
+  const entry = (a: number, b: number): number[] => [
+    network.elastance[a * n + b],
+    a === b ? network.resistance[a] : 0,
+    network.inductance[a * n + b],
+  ];
+  const polynomial = new Array<number>(degree + 1).fill(0);
+  for (const [permutation, sign] of permutations(n)) {
+    let product = [1];
+    for (let a = 0; a < n; a++) product = multiplyPolynomials(product, entry(a, permutation[a]));
+    for (let k = 0; k < product.length; k++) polynomial[k] += sign * product[k];
+  }
+  const leading = polynomial[degree];
+  const constant = polynomial[0];
+  if (!(leading > 0) || !(constant > 0)) return null;
+  // Scale s = σ·w so that the monic polynomial in w has coefficients of order 1.
+  const scale = (constant / leading) ** (1 / degree);
+  const monic = polynomial.map((value, k) => value / leading / scale ** (degree - k));
+  const re = new Float64Array(degree);
+  const im = new Float64Array(degree);
+  let decay = 0;
+  for (let a = 0; a < n; a++) decay += network.resistance[a] / network.inductance[a * n + a];
+  decay /= 2 * n * scale;
+  for (let j = 0; j < degree; j++) {
+    const omega = lossless[j >> 1] * (1 + 1e-4 * (j >> 1)) * (j % 2 === 0 ? 1 : -1);
+    re[j] = -decay * (1 + 0.01 * j) - 1e-4 * j;
+    im[j] = omega / scale + 1e-5 * (j - degree / 2 + 0.5);
+  }
+  if (!durandKerner(monic, re, im)) return null;
+  for (let j = 0; j < degree; j++) {
+    re[j] *= scale;
+    im[j] *= scale;
+  }
+  return [re, im];
+}
+
+/**
+ * Whether the modal amplitudes rebuild y(0) on the scale of the state's charges and currents (an
+ * ill-conditioned, near-repeated mode set does not).
+ */
+function reconstructionHolds(
+  network: LoopNetwork,
+  initial: ArrayLike<number>,
+  ampRe: Float64Array,
+  ampIm: Float64Array,
+): boolean {
+  const n = network.size;
+  const degree = 2 * n;
   // The reconstruction of y(0) on the scale of the state's charges and currents: an
   // ill-conditioned (near-repeated) mode set is refused.
   let chargeScale = 0;
@@ -169,9 +198,9 @@ export function loopModes(network: LoopNetwork, initial: ArrayLike<number>): Loo
         ? energyScale / Math.sqrt(network.elastance[c * n + c])
         : energyScale / Math.sqrt(network.inductance[(c - n) * n + (c - n)]);
     const reference = Math.max(natural, c < n ? chargeScale : currentScale);
-    if (Math.abs(sum - initial[c]) > 1e-9 * reference || magnitude > 1e6 * reference) return null;
+    if (Math.abs(sum - initial[c]) > 1e-9 * reference || magnitude > 1e6 * reference) return false;
   }
-  return { network, rateRe: re, rateIm: im, ampRe, ampIm };
+  return true;
 }
 
 /** The state [Q, I] of the modal solution at time t, written into `out`. */

@@ -10,7 +10,7 @@
  * the charge through the tank, ∫ e i1 dt = e ΔQ1).
  */
 import type { BridgeDrive, BurstEnd } from './solid-state.ts';
-import { losslessLoopFrequencies, loopEnergy } from './loop-modes.ts';
+import { type LoopNetwork, losslessLoopFrequencies, loopEnergy } from './loop-modes.ts';
 import { type ThreeCoilCircuit, threeCoilNetwork } from './three-coil.ts';
 
 /** What one burst of the three-coil system does, SI. */
@@ -36,14 +36,13 @@ const STEPS_PER_CYCLE = 256;
 const MAX_STEPS = 1_000_000;
 
 /**
- * Simulates one burst from rest.
- * @returns null when the circuit has no modes (L or S not positive definite)
+ * One classical RK4 step (Butcher 2008, §23) of the three loop equations with the bridge voltage e
+ * in the tank loop: L y'' = e·[1, 0, 0] − R y' − S y, the 2 × 2 inductance block inverted exactly.
  */
-export function threeCoilBurst(circuit: ThreeCoilCircuit, drive: BridgeDrive): ThreeCoilBurst | null {
-  const network = threeCoilNetwork(circuit);
-  const omega = losslessLoopFrequencies(network);
-  if (!omega) return null;
-  const h = (2 * Math.PI) / omega[2] / STEPS_PER_CYCLE;
+function rk4Stepper(
+  circuit: ThreeCoilCircuit,
+  network: LoopNetwork,
+): (y: Float64Array, e: number, dt: number, out: Float64Array) => void {
   const { primaryInductance: l1, driverInductance: l2, mutualInductance: m, resonatorInductance: l3 } = circuit;
   const det = l1 * l2 - m * m;
   const s = network.elastance;
@@ -74,6 +73,20 @@ export function threeCoilBurst(circuit: ThreeCoilCircuit, drive: BridgeDrive): T
     derivative(work, e, k4);
     for (let c = 0; c < 6; c++) out[c] = y[c] + (dt / 6) * (k1[c] + 2 * k2[c] + 2 * k3[c] + k4[c]);
   };
+  return step;
+}
+
+/**
+ * Simulates one burst from rest.
+ * @returns null when the circuit has no modes (L or S not positive definite)
+ */
+export function threeCoilBurst(circuit: ThreeCoilCircuit, drive: BridgeDrive): ThreeCoilBurst | null {
+  const network = threeCoilNetwork(circuit);
+  const omega = losslessLoopFrequencies(network);
+  if (!omega) return null;
+  const h = (2 * Math.PI) / omega[2] / STEPS_PER_CYCLE;
+  const step = rk4Stepper(circuit, network);
+  const r = network.resistance;
   const dissipation = (y: Float64Array) => r[0] * y[3] ** 2 + r[1] * y[4] ** 2 + r[2] * y[5] ** 2;
 
   let y = new Float64Array(6);

@@ -130,68 +130,89 @@ export function threeCoilSparkGapShot(
   chargeVoltage: number,
   quench: boolean,
 ): ThreeCoilShot | null {
-  const network = threeCoilNetwork(circuit);
-  const modes = loopModes(network, chargedTankState(circuit, chargeVoltage));
+  const modes = loopModes(threeCoilNetwork(circuit), chargedTankState(circuit, chargeVoltage));
   if (modes === null) return null;
   const frequencies = ringingFrequencies(modes);
   if (frequencies === null) return null;
-  const [low, , high] = frequencies;
-  const step = 1 / (high * SAMPLES_PER_CYCLE);
+  const step = 1 / (frequencies[2] * SAMPLES_PER_CYCLE);
   const energyPerShot = 0.5 * circuit.primaryCapacitance * chargeVoltage * chargeVoltage;
-  const scratch = new Float64Array(6);
-  const tankEnergyAt = (time: number): number => {
-    loopStateAt(modes, time, scratch);
-    return tankEnergy(circuit, scratch);
-  };
-
-  // 1. The tank's first energy minimum, as in spark-gap.ts: per period of the upper mode, its
-  // minimum; the transfer is over when those minima rise again.
-  let primaryTransferTime: number | null = null;
-  {
-    const march = new LoopMarch(modes, 0, step);
-    const tolerance = 1e-6 * energyPerShot;
-    let bestIndex = 0;
-    let bestEnergy = Infinity;
-    let blockMinimum = Infinity;
-    let previous = Infinity;
-    let rose = false;
-    const beatLimit = 1.5 / (frequencies[1] - frequencies[0]) + 1.5 / (high - frequencies[1]);
-    const count = Math.min(MAX_SAMPLES, Math.ceil(Math.max(beatLimit, 8 / low) / step));
-    for (let n = 0; n <= count; n++) {
-      const energy = tankEnergy(circuit, march.state);
-      if (energy < bestEnergy) {
-        bestEnergy = energy;
-        bestIndex = n;
-      }
-      blockMinimum = Math.min(blockMinimum, energy);
-      if (n % SAMPLES_PER_CYCLE === SAMPLES_PER_CYCLE - 1) {
-        if (blockMinimum > previous + tolerance) {
-          rose = true;
-          break;
-        }
-        previous = blockMinimum;
-        blockMinimum = Infinity;
-      }
-      march.advance();
-    }
-    if (rose && bestIndex > 0) {
-      primaryTransferTime = goldenMinimum(tankEnergyAt, (bestIndex - 1) * step, (bestIndex + 1) * step);
-    }
-  }
-
-  // 2. Quench at the first tank-current zero after it (a zero up to ⅛ of a tank period before the
+  const primaryTransferTime = tankEnergyMinimum(circuit, modes, frequencies, step, energyPerShot);
+  // Quench at the first tank-current zero after it (a zero up to ⅛ of a tank period before the
   // minimum counts, as in spark-gap.ts), and the driver with the resonator ringing on from there.
   let quenchTime: number | null = null;
   let after: LoopModes | null = null;
   if (quench && primaryTransferTime !== null) {
     const tankPeriod = 2 * Math.PI * Math.sqrt(circuit.primaryInductance * circuit.primaryCapacitance);
-    quenchTime = firstCurrentZero(modes, Math.max(0, primaryTransferTime - tankPeriod / 8), step, 4 / low);
+    quenchTime = firstCurrentZero(modes, Math.max(0, primaryTransferTime - tankPeriod / 8), step, 4 / frequencies[0]);
     if (quenchTime !== null) {
       const at = loopStateAt(modes, quenchTime, new Float64Array(6));
       after = loopModes(driverResonatorNetwork(circuit), [at[1], at[2], at[4], at[5]]);
       if (after === null) quenchTime = null; // a degenerate two-loop remainder: keep the gap conducting
     }
   }
+  const peak = resonatorPeak(circuit, modes, frequencies, step, chargeVoltage, quenchTime, after);
+  return { modeFrequencies: frequencies, primaryTransferTime, quenchTime, ...peak, energyPerShot };
+}
+
+/**
+ * The tank's first energy minimum, as in spark-gap.ts: per period of the upper mode, its minimum;
+ * the transfer is over when those minima rise again. Null when they never rise (it only decays).
+ */
+function tankEnergyMinimum(
+  circuit: ThreeCoilCircuit,
+  modes: LoopModes,
+  frequencies: [number, number, number],
+  step: number,
+  energyPerShot: number,
+): number | null {
+  const [low, mid, high] = frequencies;
+  const march = new LoopMarch(modes, 0, step);
+  const tolerance = 1e-6 * energyPerShot;
+  let bestIndex = 0;
+  let bestEnergy = Infinity;
+  let blockMinimum = Infinity;
+  let previous = Infinity;
+  let rose = false;
+  const beatLimit = 1.5 / (mid - low) + 1.5 / (high - mid);
+  const count = Math.min(MAX_SAMPLES, Math.ceil(Math.max(beatLimit, 8 / low) / step));
+  for (let n = 0; n <= count; n++) {
+    const energy = tankEnergy(circuit, march.state);
+    if (energy < bestEnergy) {
+      bestEnergy = energy;
+      bestIndex = n;
+    }
+    blockMinimum = Math.min(blockMinimum, energy);
+    if (n % SAMPLES_PER_CYCLE === SAMPLES_PER_CYCLE - 1) {
+      if (blockMinimum > previous + tolerance) {
+        rose = true;
+        break;
+      }
+      previous = blockMinimum;
+      blockMinimum = Infinity;
+    }
+    march.advance();
+  }
+  if (!rose || bestIndex === 0) return null;
+  const scratch = new Float64Array(6);
+  const tankEnergyAt = (time: number): number => tankEnergy(circuit, loopStateAt(modes, time, scratch));
+  return goldenMinimum(tankEnergyAt, (bestIndex - 1) * step, (bestIndex + 1) * step);
+}
+
+/**
+ * The envelope of |v3|, sampled per period of the lowest mode: the first full transfer is its
+ * largest value before a period's maximum no longer rises (by 1e-9 of the lossless top voltage).
+ * After a quench the two-loop remainder `after` carries on from `quenchTime`.
+ */
+function resonatorPeak(
+  circuit: ThreeCoilCircuit,
+  modes: LoopModes,
+  [low, , high]: [number, number, number],
+  step: number,
+  chargeVoltage: number,
+  quenchTime: number | null,
+  after: LoopModes | null,
+): { transferTime: number; peakVoltage: number; junctionPeakVoltage: number } {
+  const scratch = new Float64Array(6);
   const afterState = new Float64Array(4);
   const resonatorTop = (time: number): [number, number] => {
     if (after !== null && quenchTime !== null && time > quenchTime) {
@@ -205,9 +226,6 @@ export function threeCoilSparkGapShot(
     const v = threeCoilVoltages(circuit, scratch);
     return [v[1], v[2]];
   };
-
-  // 3. The envelope of |v3|, sampled per period of the lowest mode: the first full transfer is its
-  // largest value before a period's maximum no longer rises (by 1e-9 of the lossless top voltage).
   const block = Math.max(SAMPLES_PER_CYCLE, Math.ceil(high / low) * SAMPLES_PER_CYCLE);
   const tolerance = 1e-9 * chargeVoltage * Math.sqrt(circuit.primaryCapacitance / circuit.resonatorCapacitance);
   let bestIndex = 0;
@@ -247,15 +265,7 @@ export function threeCoilSparkGapShot(
   const upper = (bestIndex + 1) * step;
   const transferTime = goldenMinimum((time) => -Math.abs(resonatorTop(time)[1]), lower, upper);
   const peakVoltage = Math.max(best, Math.abs(resonatorTop(transferTime)[1]));
-  return {
-    modeFrequencies: frequencies,
-    primaryTransferTime,
-    quenchTime,
-    transferTime,
-    peakVoltage,
-    junctionPeakVoltage: junctionPeak,
-    energyPerShot,
-  };
+  return { transferTime, peakVoltage, junctionPeakVoltage: junctionPeak };
 }
 
 /**

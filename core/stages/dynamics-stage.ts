@@ -8,7 +8,7 @@
  * capacitance, M = coupling·√(L1 L2), R2 = secondary_ac_resistance, L2 = effective_inductance,
  * C2 = total_capacitance; a spark-gap shot starts with v1 = charge_voltage and all else at rest.
  */
-import type { EvalContext } from '../context.ts';
+import type { EvalContext, ThreeCoilParts } from '../context.ts';
 import type { SolidStateDriver, SparkGapDriver } from '../design.ts';
 import { copperResistivity } from '../wire/copper.ts';
 import { roundConductorAcResistance, solenoidAcResistance } from '../losses/resistance.ts';
@@ -27,7 +27,7 @@ import {
   threeCoilNetwork,
   threeCoilSparkGapShot,
 } from '../dynamics/three-coil.ts';
-import { threeCoilRatioError } from '../three-coil/tuning.ts';
+import { COMPLETE_TRANSFER, losslessTransferFraction, threeCoilRatioError } from '../three-coil/tuning.ts';
 import { separationForCoupling } from '../three-coil/parallel-mutual.ts';
 import { toploadOuterRadius } from '../three-coil/clearance.ts';
 
@@ -123,25 +123,15 @@ export function dynamicsStage(context: EvalContext): void {
 }
 
 function runSparkGap(context: EvalContext, circuit: CoupledCircuit, driver: SparkGapDriver, coupling: number): void {
-  const { design, metrics, warnings } = context;
+  const { metrics, warnings } = context;
   if (coupling > SPARK_GAP_COUPLING_LIMIT) {
     warnings.push({
       key: 'gap_coupling_high',
       message: `coupling ${formatNumber(coupling)} is high for a spark gap (common practice ≤ ${SPARK_GAP_COUPLING_LIMIT}): poor quenching and racing arcs likely`,
     });
   }
-  const chargeVoltage = design.tank?.chargeVoltage;
-  if (chargeVoltage === undefined || !(chargeVoltage > 0)) {
-    warnings.push({
-      key: 'no_charge_voltage',
-      message: 'no tank charge_voltage given: energy per shot, transfer time and peak voltage not computed',
-    });
-    return;
-  }
-  const energy = 0.5 * circuit.primaryCapacitance * chargeVoltage * chargeVoltage;
-  metrics.energy_per_shot = energy;
-  metrics.input_power = driver.breakRate >= 0 ? energy * driver.breakRate : null;
-  tankRatingCheck(context, chargeVoltage, 'the charge voltage');
+  const chargeVoltage = chargeForShot(context, circuit.primaryCapacitance, driver);
+  if (chargeVoltage === null) return;
   const shot = sparkGapShot(circuit, chargeVoltage, driver.quench);
   if (shot === null) {
     warnings.push({
@@ -163,46 +153,25 @@ function runSparkGap(context: EvalContext, circuit: CoupledCircuit, driver: Spar
 
 function runSolidState(context: EvalContext, circuit: CoupledCircuit, driver: SolidStateDriver): void {
   const { metrics, warnings } = context;
-  if (driver.onTime === undefined && driver.cycles === undefined) {
-    warnings.push({
-      key: 'burst_not_simulated',
-      message: 'solid-state driver without on_time or cycles: the burst is not simulated',
-    });
-    return;
-  }
-  const driveVoltage = driver.bridge === 'full' ? driver.busVoltage : driver.busVoltage / 2;
   const upperPeriod =
     1 /
     (metrics.mode_frequency_high ??
       1 / (2 * Math.PI * Math.sqrt(circuit.primaryInductance * circuit.primaryCapacitance)));
-  let onTime = driver.onTime;
-  let cycles = driver.cycles;
-  if ((onTime ?? Infinity) > MAX_BURST_CYCLES * upperPeriod && (cycles ?? Infinity) > MAX_BURST_CYCLES) {
-    warnings.push({
-      key: 'burst_truncated',
-      message: `burst longer than ${MAX_BURST_CYCLES} cycles: simulated for the first ${MAX_BURST_CYCLES} only`,
-    });
-    onTime = MAX_BURST_CYCLES * upperPeriod;
-    cycles = undefined;
-  }
+  const window = burstWindow(context, driver, upperPeriod);
+  if (window === null) return;
+  const driveVoltage = driver.bridge === 'full' ? driver.busVoltage : driver.busVoltage / 2;
   const breakoutVoltage = context.electrostatics?.breakoutVoltage ?? undefined;
   const burst = solidStateBurst(circuit, {
     driveVoltage,
     currentLimit: driver.currentLimit,
-    onTime,
-    cycles,
+    ...window,
     breakoutVoltage: breakoutVoltage ?? undefined,
   });
   metrics.energy_per_shot = burst.energyFromSource;
   metrics.input_power = driver.repetitionRate >= 0 ? burst.energyFromSource * driver.repetitionRate : null;
   metrics.peak_voltage = burst.peakVoltage;
   metrics.transfer_time = null; // a driven burst has no single transfer
-  if (burst.endReason === 'current_limit') {
-    warnings.push({
-      key: 'current_limit_reached',
-      message: `primary current reached the ${formatQuantity(driver.currentLimit ?? 0, 'A')} limit after ${formatNumber(burst.cycles)} cycles (${formatQuantity(burst.endTime, 's')}): the burst ends there`,
-    });
-  }
+  currentLimitCheck(context, driver, burst);
   if (burst.breakoutTime !== null && breakoutVoltage) {
     warnings.push({
       key: 'breakout_during_burst',
@@ -219,62 +188,21 @@ function runSolidState(context: EvalContext, circuit: CoupledCircuit, driver: So
  * A three-coil system (resonator-stage.ts): the two-coil circuit's tank and driver with the junction
  * capacitance as C2, and the resonator (its effective L with the line's in series, its effective
  * C at the top, the AC resistance of its wire for its mode's current plus the line's conductor) as
- * the third loop. Sets the three mode frequencies, the ratio error, the separation the resonator
- * needs, and for a spark gap the shot (three-coil.ts); a solid-state driver is not simulated here.
+ * the third loop. Sets the three mode frequencies, the ratio error and the lossless transfer, the
+ * separation the resonator needs, and the shot (three-coil.ts) or burst (three-coil-burst.ts).
  */
 function runThreeCoil(context: EvalContext, two: CoupledCircuit, coupling: number): void {
-  const { design, metrics, warnings } = context;
+  const { design, metrics } = context;
   const parts = context.threeCoil;
   const spec = design.resonator;
-  if (!parts || !spec) return;
-  const winding = parts.winding;
-  // The resonator must stand clear of the primary as well as of the secondary.
-  const primary = context.primary;
-  const resonatorOuter = Math.max(
-    winding.radius + winding.overallDiameter / 2,
-    design.topload ? toploadOuterRadius(design.topload) : 0,
-  );
-  if (primary) {
-    let primaryOuter = 0;
-    for (const ring of primary.rings) primaryOuter = Math.max(primaryOuter, ring.r + primary.conductorRadius);
-    if (!(parts.axisSpacing > primaryOuter + resonatorOuter)) {
-      context.problems.push({
-        field: spec.axisSpacing !== undefined ? 'resonator.axis_spacing' : 'resonator.line_length',
-        reason: `the resonator (outer radius ${formatQuantity(resonatorOuter, 'm')}) at ${formatQuantity(parts.axisSpacing, 'm')} from the secondary's axis overlaps the primary (outer radius ${formatQuantity(primaryOuter, 'm')})`,
-      });
-      return;
-    }
-  }
-  const resistivity = copperResistivity(design.environment.temperature);
-  const r3 =
-    solenoidAcResistance(
-      winding.dcResistance,
-      winding.wireLength,
-      winding.bareDiameter,
-      winding.pitch,
-      parts.frequency,
-    ) *
-      (parts.distributed?.resistanceFactor ?? 1) +
-    roundConductorAcResistance(spec.line.length, spec.line.conductorDiameter / 2, resistivity, parts.frequency);
-  const circuit: ThreeCoilCircuit = {
-    primaryInductance: two.primaryInductance,
-    primaryCapacitance: two.primaryCapacitance,
-    primaryResistance: two.primaryResistance,
-    driverInductance: two.secondaryInductance,
-    driverResistance: two.secondaryResistance,
-    mutualInductance: two.mutualInductance,
-    junctionCapacitance: parts.junctionCapacitance,
-    resonatorInductance: parts.inductance + parts.lineInductance,
-    resonatorResistance: Number.isFinite(r3) ? r3 : 0,
-    resonatorCapacitance: parts.capacitance,
-  };
+  if (!parts || !spec || !resonatorClearsPrimary(context, parts, spec)) return;
+  const circuit = threeCoilCircuit(context, two, parts, spec);
+  const lossless = { ...circuit, primaryResistance: 0, driverResistance: 0, resonatorResistance: 0 };
   metrics.resonator_ac_resistance = circuit.resonatorResistance;
-  metrics.three_coil_ratio_error = threeCoilRatioError({
-    ...circuit,
-    primaryResistance: 0,
-    driverResistance: 0,
-    resonatorResistance: 0,
-  });
+  metrics.three_coil_ratio_error = threeCoilRatioError(lossless);
+  metrics.three_coil_lossless_transfer = losslessTransferFraction(lossless);
+  metrics.three_coil_capacitance_ratio = circuit.resonatorCapacitance / circuit.junctionCapacitance;
+  metrics.three_coil_coupling_ratio = coupling / Math.sqrt(COMPLETE_TRANSFER.couplingSquared);
   const modes = loopModes(threeCoilNetwork(circuit), chargedTankState(circuit, 1));
   const frequencies = modes ? ringingFrequencies(modes) : null;
   if (frequencies) {
@@ -286,42 +214,100 @@ function runThreeCoil(context: EvalContext, two: CoupledCircuit, coupling: numbe
     metrics.mode_frequency_low = frequencies[0];
     metrics.mode_frequency_high = frequencies[2];
   }
-  // The separation at which the driver–resonator coupling falls below 1 % of the primary's.
-  const secondary = context.secondary;
-  if (secondary) {
-    const needed = separationForCoupling({ x: 0, ...secondary }, { x: 0, ...winding }, 0.01 * coupling);
-    metrics.resonator_separation_needed = needed;
-    if (needed !== null && parts.axisSpacing < needed) {
-      warnings.push({
-        key: 'resonator_too_close',
-        message: `the resonator stands ${formatQuantity(parts.axisSpacing, 'm')} from the secondary's axis; its coupling to the secondary stays below 1 % of the primary coupling (${formatNumber(coupling)}) only beyond ${formatQuantity(needed, 'm')}: the separate-resonator model does not hold`,
-      });
-    }
-  }
+  resonatorSeparation(context, parts, coupling);
   const driver = design.driver;
   if (!driver) return;
-  if (driver.kind !== 'spark_gap') {
-    runThreeCoilBurst(context, circuit, driver, frequencies ? frequencies[2] : null);
-    return;
+  if (driver.kind !== 'spark_gap') runThreeCoilBurst(context, circuit, driver, frequencies ? frequencies[2] : null);
+  else runThreeCoilShot(context, circuit, driver, coupling);
+}
+
+/** The resonator must stand clear of the primary as well as of the secondary: a design problem if not. */
+function resonatorClearsPrimary(
+  context: EvalContext,
+  parts: ThreeCoilParts,
+  spec: NonNullable<EvalContext['design']['resonator']>,
+): boolean {
+  const primary = context.primary;
+  if (!primary) return true;
+  const winding = parts.winding;
+  const topload = context.design.topload;
+  const resonatorOuter = Math.max(
+    winding.radius + winding.overallDiameter / 2,
+    topload ? toploadOuterRadius(topload) : 0,
+  );
+  let primaryOuter = 0;
+  for (const ring of primary.rings) primaryOuter = Math.max(primaryOuter, ring.r + primary.conductorRadius);
+  if (parts.axisSpacing > primaryOuter + resonatorOuter) return true;
+  context.problems.push({
+    field: spec.axisSpacing !== undefined ? 'resonator.axis_spacing' : 'resonator.line_length',
+    reason: `the resonator (outer radius ${formatQuantity(resonatorOuter, 'm')}) at ${formatQuantity(parts.axisSpacing, 'm')} from the secondary's axis overlaps the primary (outer radius ${formatQuantity(primaryOuter, 'm')})`,
+  });
+  return false;
+}
+
+/** The lumped three-loop circuit of the design: the two-coil tank and driver, the junction, the resonator with the line. */
+function threeCoilCircuit(
+  context: EvalContext,
+  two: CoupledCircuit,
+  parts: ThreeCoilParts,
+  spec: NonNullable<EvalContext['design']['resonator']>,
+): ThreeCoilCircuit {
+  const winding = parts.winding;
+  const resistivity = copperResistivity(context.design.environment.temperature);
+  const r3 =
+    solenoidAcResistance(
+      winding.dcResistance,
+      winding.wireLength,
+      winding.bareDiameter,
+      winding.pitch,
+      parts.frequency,
+    ) *
+      (parts.distributed?.resistanceFactor ?? 1) +
+    roundConductorAcResistance(spec.line.length, spec.line.conductorDiameter / 2, resistivity, parts.frequency);
+  return {
+    primaryInductance: two.primaryInductance,
+    primaryCapacitance: two.primaryCapacitance,
+    primaryResistance: two.primaryResistance,
+    driverInductance: two.secondaryInductance,
+    driverResistance: two.secondaryResistance,
+    mutualInductance: two.mutualInductance,
+    junctionCapacitance: parts.junctionCapacitance,
+    resonatorInductance: parts.inductance + parts.lineInductance,
+    resonatorResistance: Number.isFinite(r3) ? r3 : 0,
+    resonatorCapacitance: parts.capacitance,
+  };
+}
+
+/** resonator_separation_needed: where the driver–resonator coupling falls below 1 % of the primary's; warns when nearer. */
+function resonatorSeparation(context: EvalContext, parts: ThreeCoilParts, coupling: number): void {
+  const secondary = context.secondary;
+  if (!secondary) return;
+  const needed = separationForCoupling({ x: 0, ...secondary }, { x: 0, ...parts.winding }, 0.01 * coupling);
+  context.metrics.resonator_separation_needed = needed;
+  if (needed !== null && parts.axisSpacing < needed) {
+    context.warnings.push({
+      key: 'resonator_too_close',
+      message: `the resonator stands ${formatQuantity(parts.axisSpacing, 'm')} from the secondary's axis; its coupling to the secondary stays below 1 % of the primary coupling (${formatNumber(coupling)}) only beyond ${formatQuantity(needed, 'm')}: the separate-resonator model does not hold`,
+    });
   }
+}
+
+/** A spark-gap shot of a three-coil system (three-coil.ts), with the two-coil shot's rules and warnings. */
+function runThreeCoilShot(
+  context: EvalContext,
+  circuit: ThreeCoilCircuit,
+  driver: SparkGapDriver,
+  coupling: number,
+): void {
+  const { metrics, warnings } = context;
   if (coupling > THREE_COIL_COUPLING_LIMIT) {
     warnings.push({
       key: 'gap_coupling_high',
       message: `coupling ${formatNumber(coupling)} is high even for the driver of a three-coil system (common practice 0.3–${THREE_COIL_COUPLING_LIMIT}): poor quenching and flashover to the primary likely`,
     });
   }
-  const chargeVoltage = design.tank?.chargeVoltage;
-  if (chargeVoltage === undefined || !(chargeVoltage > 0)) {
-    warnings.push({
-      key: 'no_charge_voltage',
-      message: 'no tank charge_voltage given: energy per shot, transfer time and peak voltage not computed',
-    });
-    return;
-  }
-  const energy = 0.5 * circuit.primaryCapacitance * chargeVoltage * chargeVoltage;
-  metrics.energy_per_shot = energy;
-  metrics.input_power = driver.breakRate >= 0 ? energy * driver.breakRate : null;
-  tankRatingCheck(context, chargeVoltage, 'the charge voltage');
+  const chargeVoltage = chargeForShot(context, circuit.primaryCapacitance, driver);
+  if (chargeVoltage === null) return;
   const shot = threeCoilSparkGapShot(circuit, chargeVoltage, driver.quench);
   if (shot === null) {
     warnings.push({
@@ -335,6 +321,8 @@ function runThreeCoil(context: EvalContext, two: CoupledCircuit, coupling: numbe
   metrics.resonator_peak_voltage = shot.peakVoltage;
   metrics.peak_voltage = shot.peakVoltage;
   metrics.junction_peak_voltage = shot.junctionPeakVoltage;
+  metrics.three_coil_transfer_fraction =
+    (0.5 * circuit.resonatorCapacitance * shot.peakVoltage * shot.peakVoltage) / shot.energyPerShot;
 }
 
 /** A solid-state burst of a three-coil system (three-coil-burst.ts), with the two-coil burst's rules and warnings. */
@@ -345,27 +333,12 @@ function runThreeCoilBurst(
   upperFrequency: number | null,
 ): void {
   const { metrics, warnings } = context;
-  if (driver.onTime === undefined && driver.cycles === undefined) {
-    warnings.push({
-      key: 'burst_not_simulated',
-      message: 'solid-state driver without on_time or cycles: the burst is not simulated',
-    });
-    return;
-  }
   const upperPeriod =
     1 / (upperFrequency ?? 1 / (2 * Math.PI * Math.sqrt(circuit.primaryInductance * circuit.primaryCapacitance)));
-  let onTime = driver.onTime;
-  let cycles = driver.cycles;
-  if ((onTime ?? Infinity) > MAX_BURST_CYCLES * upperPeriod && (cycles ?? Infinity) > MAX_BURST_CYCLES) {
-    warnings.push({
-      key: 'burst_truncated',
-      message: `burst longer than ${MAX_BURST_CYCLES} cycles: simulated for the first ${MAX_BURST_CYCLES} only`,
-    });
-    onTime = MAX_BURST_CYCLES * upperPeriod;
-    cycles = undefined;
-  }
+  const window = burstWindow(context, driver, upperPeriod);
+  if (window === null) return;
   const driveVoltage = driver.bridge === 'full' ? driver.busVoltage : driver.busVoltage / 2;
-  const burst = threeCoilBurst(circuit, { driveVoltage, currentLimit: driver.currentLimit, onTime, cycles });
+  const burst = threeCoilBurst(circuit, { driveVoltage, currentLimit: driver.currentLimit, ...window });
   if (!burst) return;
   if (burst.endReason === 'step_limit') {
     warnings.push({
@@ -379,13 +352,67 @@ function runThreeCoilBurst(
   metrics.resonator_peak_voltage = burst.peakVoltage;
   metrics.junction_peak_voltage = burst.peakJunctionVoltage;
   metrics.transfer_time = null; // a driven burst has no single transfer
-  if (burst.endReason === 'current_limit') {
-    warnings.push({
-      key: 'current_limit_reached',
-      message: `primary current reached the ${formatQuantity(driver.currentLimit ?? 0, 'A')} limit after ${formatNumber(burst.cycles)} cycles (${formatQuantity(burst.endTime, 's')}): the burst ends there`,
-    });
-  }
+  currentLimitCheck(context, driver, burst);
   tankRatingCheck(context, burst.peakTankVoltage, 'the peak tank voltage in the burst');
+}
+
+/**
+ * The charge voltage of a spark-gap shot with energy_per_shot, input_power and the tank rating set,
+ * or null (with the warning) when the design gives none.
+ */
+function chargeForShot(context: EvalContext, tankCapacitance: number, driver: SparkGapDriver): number | null {
+  const chargeVoltage = context.design.tank?.chargeVoltage;
+  if (chargeVoltage === undefined || !(chargeVoltage > 0)) {
+    context.warnings.push({
+      key: 'no_charge_voltage',
+      message: 'no tank charge_voltage given: energy per shot, transfer time and peak voltage not computed',
+    });
+    return null;
+  }
+  const energy = 0.5 * tankCapacitance * chargeVoltage * chargeVoltage;
+  context.metrics.energy_per_shot = energy;
+  context.metrics.input_power = driver.breakRate >= 0 ? energy * driver.breakRate : null;
+  tankRatingCheck(context, chargeVoltage, 'the charge voltage');
+  return chargeVoltage;
+}
+
+/**
+ * The burst's on time and cycle count, cut to MAX_BURST_CYCLES of the upper mode (with a warning),
+ * or null (with a warning) when the driver gives neither.
+ */
+function burstWindow(
+  context: EvalContext,
+  driver: SolidStateDriver,
+  upperPeriod: number,
+): { onTime: number | undefined; cycles: number | undefined } | null {
+  if (driver.onTime === undefined && driver.cycles === undefined) {
+    context.warnings.push({
+      key: 'burst_not_simulated',
+      message: 'solid-state driver without on_time or cycles: the burst is not simulated',
+    });
+    return null;
+  }
+  if ((driver.onTime ?? Infinity) > MAX_BURST_CYCLES * upperPeriod && (driver.cycles ?? Infinity) > MAX_BURST_CYCLES) {
+    context.warnings.push({
+      key: 'burst_truncated',
+      message: `burst longer than ${MAX_BURST_CYCLES} cycles: simulated for the first ${MAX_BURST_CYCLES} only`,
+    });
+    return { onTime: MAX_BURST_CYCLES * upperPeriod, cycles: undefined };
+  }
+  return { onTime: driver.onTime, cycles: driver.cycles };
+}
+
+/** The current_limit_reached warning of a burst that ended at the limit. */
+function currentLimitCheck(
+  context: EvalContext,
+  driver: SolidStateDriver,
+  burst: { endReason: string; cycles: number; endTime: number },
+): void {
+  if (burst.endReason !== 'current_limit') return;
+  context.warnings.push({
+    key: 'current_limit_reached',
+    message: `primary current reached the ${formatQuantity(driver.currentLimit ?? 0, 'A')} limit after ${formatNumber(burst.cycles)} cycles (${formatQuantity(burst.endTime, 's')}): the burst ends there`,
+  });
 }
 
 /** tank_voltage_margin and its warning. */

@@ -34,7 +34,7 @@ import { couplingCoefficient, ringMutualInductances, tappedMutualInductance } fr
 import { ringToSheetMutualInductance } from '../inductance/sheet-mutual.ts';
 import { segmentMutuals } from '../resonator/design-resonator.ts';
 import { effectiveMutualInductance } from '../resonator/resonator.ts';
-import { bestLineLength, threeCoilRatioError, threeCoilTap } from '../three-coil/tuning.ts';
+import { bestLineLength, losslessTransferFraction, threeCoilRatioError, threeCoilTap } from '../three-coil/tuning.ts';
 import type { Ring } from '../context.ts';
 
 /** A length in millimetres for messages. */
@@ -128,7 +128,7 @@ export function primaryStage(context: EvalContext): void {
       untunedRange = `needs ${microhenries(tuning.requiredInductance)}, has ${microhenries(lowest)}–${microhenries(fullInductance)}`;
     }
   }
-  // A three-coil system: the tap that brings the three modes nearest 1:2:3 (three-coil/tuning.ts).
+  // A three-coil system: the tap that comes nearest complete transfer (three-coil/tuning.ts).
   const threeCoil = context.threeCoil;
   const line = design.resonator?.line;
   if (threeCoil && line && secondary && tankCapacitance !== undefined) {
@@ -155,15 +155,20 @@ export function primaryStage(context: EvalContext): void {
         untunedRange = null;
       }
     }
-    // The line length (0.1 to 4 times the given one) that, with its own best tap, comes nearest.
+    // The line length (0.1 to 4 times the given one) that, with its own best tap, comes nearest
+    // complete transfer; its tap, ratio error and lossless transfer reported beside it.
     const fixedTap = spec.tapTurns;
-    const lineBest = bestLineLength(0.1 * line.length, 4 * line.length, (length) =>
-      fixedTap !== undefined
-        ? threeCoilRatioError(circuitAt(fixedTap, length))
-        : (threeCoilTap(lowest, spec.turns, (tap) => circuitAt(tap, length))?.ratioError ?? null),
-    );
+    const tapFor = (length: number): number | null =>
+      fixedTap ?? threeCoilTap(lowest, spec.turns, (tap) => circuitAt(tap, length))?.tapTurns ?? null;
+    const lineBest = bestLineLength(0.1 * line.length, 4 * line.length, (length) => {
+      const tap = tapFor(length);
+      return tap === null ? null : losslessTransferFraction(circuitAt(tap, length));
+    });
+    const bestTap = lineBest ? tapFor(lineBest.length) : null;
     metrics.line_length_for_ratios = lineBest?.length ?? null;
-    metrics.three_coil_ratio_error_at_that_length = lineBest?.ratioError ?? null;
+    metrics.three_coil_ratio_error_at_that_length =
+      lineBest && bestTap !== null ? threeCoilRatioError(circuitAt(bestTap, lineBest.length)) : null;
+    metrics.three_coil_lossless_transfer_at_that_length = lineBest?.transferFraction ?? null;
   }
   const inductance = primaryInductanceAtTap(table, tapTurns);
 

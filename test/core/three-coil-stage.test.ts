@@ -17,6 +17,10 @@ import {
   separationForCoupling,
 } from '../../core/three-coil/parallel-mutual.ts';
 
+function fail(): never {
+  throw new Error('a value expected');
+}
+
 const here = (path: string): string => fileURLToPath(new URL(`../../${path}`, import.meta.url));
 
 describe('designs without a resonator', () => {
@@ -153,8 +157,8 @@ describe('bad three-coil geometry is a design problem naming the field', () => {
   const resonator = design.resonator;
   if (!resonator) throw new Error('the example has a resonator');
 
-  test('a resonator overlapping the primary (axis spacing 0.7 m) names resonator.axis_spacing', () => {
-    const { problems } = evaluateDesign({ ...design, resonator: { ...resonator, axisSpacing: 0.7 } });
+  test('a resonator overlapping the primary (axis spacing 0.67 m) names resonator.axis_spacing', () => {
+    const { problems } = evaluateDesign({ ...design, resonator: { ...resonator, axisSpacing: 0.67 } });
     expect(problems.map((p) => p.field)).toEqual(['resonator.axis_spacing']);
     expect(problems[0].reason).toContain('overlaps the primary');
   });
@@ -178,19 +182,27 @@ describe('bad three-coil geometry is a design problem naming the field', () => {
     const { problems, warnings, metrics } = evaluateDesign({
       ...design,
       topload: { shape: 'sphere', diameter: 0.2, heightAboveWinding: 0.15 },
-      resonator: { ...resonator, axisSpacing: 0.6 },
+      resonator: { ...resonator, axisSpacing: 0.45 },
     });
     expect(problems).toEqual([]);
-    expect(metrics.resonator_separation_needed ?? 0).toBeGreaterThan(0.6);
+    expect(metrics.resonator_separation_needed ?? 0).toBeGreaterThan(0.45);
     expect(warnings.map((w) => w.key)).toContain('resonator_too_close');
   });
 
-  test('the tap chosen brings the example within 0.01 of 1:2:3, and the best line length does no worse', () => {
+  test('the tap chosen comes nearest complete transfer: no tap nearby does better, and the best line length does no worse', () => {
     const { metrics } = evaluateDesign(design);
-    expect(metrics.three_coil_ratio_error ?? 1).toBeLessThan(0.01);
-    expect(metrics.three_coil_ratio_error_at_that_length ?? 1).toBeLessThanOrEqual(
-      (metrics.three_coil_ratio_error ?? 0) * (1 + 1e-9) + 1e-12,
-    );
+    const best = metrics.three_coil_lossless_transfer ?? 0;
+    for (const shift of [-0.05, 0.05]) {
+      const tap = (metrics.primary_tap_turns ?? 0) + shift;
+      const other = evaluateDesign({ ...design, primary: { ...(design.primary ?? fail()), tapTurns: tap } }).metrics;
+      expect(other.three_coil_lossless_transfer ?? 1).toBeLessThanOrEqual(best * (1 + 1e-9));
+    }
+    expect(metrics.three_coil_lossless_transfer_at_that_length ?? 0).toBeGreaterThanOrEqual(best * (1 - 1e-9));
+    // the example is built near the closed-form targets (refs §8.5): within 1 % of complete
+    // transfer lossless; with losses the shot puts less, by its losses only, on the resonator's top
+    expect(best).toBeGreaterThan(0.99);
+    expect(metrics.three_coil_transfer_fraction ?? 1).toBeLessThan(best);
+    expect(metrics.three_coil_transfer_fraction ?? 0).toBeGreaterThan(0.8);
     expect(metrics.line_length_for_ratios ?? 0).toBeGreaterThan(0);
   });
 

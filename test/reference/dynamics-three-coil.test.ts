@@ -27,6 +27,7 @@ import {
   threeCoilSparkGapShot,
   threeCoilVoltages,
 } from '../../core/dynamics/three-coil.ts';
+import { COMPLETE_TRANSFER, losslessTransferFraction } from '../../core/three-coil/tuning.ts';
 
 function det3(m: number[]): number {
   return m[0] * (m[4] * m[8] - m[5] * m[7]) - m[1] * (m[3] * m[8] - m[5] * m[6]) + m[2] * (m[3] * m[7] - m[4] * m[6]);
@@ -256,6 +257,28 @@ describe('the triple-resonance circuit [bieniosek1990]', () => {
       expect(Math.abs((shot.primaryTransferTime ?? 0) * 2 * f1 - 1)).toBeLessThan(1e-5);
     },
   );
+
+  test('the derived tuning is the closed form of core/three-coil/tuning.ts: k² = 5/11, ω_b² = 33/32, ω_c² = 11/6, C3/C2 = 15/32', () => {
+    const [k, a, b, r] = tuning;
+    expect(Math.abs(k * k - COMPLETE_TRANSFER.couplingSquared)).toBeLessThan(1e-9);
+    expect(Math.abs(a * a - COMPLETE_TRANSFER.driverFrequencyRatioSquared)).toBeLessThan(1e-9);
+    expect(Math.abs(b * b - COMPLETE_TRANSFER.resonatorFrequencyRatioSquared)).toBeLessThan(1e-9);
+    expect(Math.abs(r - COMPLETE_TRANSFER.capacitanceRatio)).toBeLessThan(1e-9);
+  });
+
+  test('losslessTransferFraction is 1 (1e-9) at the derived tuning and below it off tune', () => {
+    expect(Math.abs((losslessTransferFraction(circuit) ?? 0) - 1)).toBeLessThan(1e-9);
+    for (const [j, factor] of [
+      [0, 0.95],
+      [1, 1.05],
+      [2, 0.97],
+      [3, 1.1],
+    ]) {
+      const off = tuning.slice();
+      off[j] *= factor;
+      expect(losslessTransferFraction(physical(normalised(off))) ?? 1).toBeLessThan(1 - 1e-4);
+    }
+  });
 
   test('at T the modal state has the tank and the junction empty and every current zero', () => {
     const modes = loopModes(threeCoilNetwork(circuit), chargedTankState(circuit, voltage));
