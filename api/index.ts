@@ -36,7 +36,7 @@ import { refineSweep } from '../optimize/refine-run.ts';
 import { SweepState } from '../optimize/sweep-state.ts';
 import { fieldError, InputError, optionError } from '../run/input-error.ts';
 import { DEFAULT_KEEP, measureBatchSize } from '../run/sweep-setup.ts';
-import { TASKS_IN_FLIGHT_PER_THREAD } from '../run/sweep-run.ts';
+import { scheduleBatches } from '../run/batch-scheduler.ts';
 import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
 import { designFromValue } from '../cli/load-design.ts';
 import { parseInputText } from '../cli/read-file.ts';
@@ -323,42 +323,29 @@ export async function sweep(spec: string | object, options: SweepOptions = {}): 
   const batchCount = Math.ceil(total / batchSize);
   const signal = options.signal;
 
-  // Batches in flight, a bounded number at a time; the state takes each as it finishes.
+  // Batches in flight, a bounded number at a time (the run layer's scheduler); the state takes each as it finishes.
   const evaluator = evaluatorOf(parsed, space, workers);
-  const maxInFlight = Math.max(2, Math.max(1, workers) * TASKS_IN_FLIGHT_PER_THREAD);
-  const inFlight = new Set<Promise<void>>();
-  let failure: { error: unknown } | null = null;
   let finished = 0;
-  const taskOf = (batch: number): BatchTask => {
-    const start = batch * batchSize;
-    return { kind: 'indices', start, count: Math.min(batchSize, total - start) };
-  };
+  let failure: { error: unknown } | null;
   try {
-    let next = 0;
-    while (failure === null) {
-      while (!signal?.aborted && inFlight.size < maxInFlight && next < batchCount) {
-        const promise: Promise<void> = evaluator
-          .evaluate(taskOf(next++))
-          .then((result: BatchResult) => {
-            state.offerBatch(result, space.dimensionCount);
-            finished++;
-          })
-          .catch((error: unknown) => {
-            failure ??= { error };
-          })
-          .finally(() => inFlight.delete(promise));
-        inFlight.add(promise);
-      }
-      if (inFlight.size === 0) break;
-      await Promise.race(inFlight);
-      // In this thread the batches resolve at once: let timers and abort handlers run between rounds.
-      if (workers === 0) await new Promise((resolve) => setImmediate(resolve));
-    }
-    await Promise.allSettled(inFlight);
+    failure = await scheduleBatches({
+      evaluator,
+      batchCount,
+      threads: workers,
+      taskOf: (batch: number): BatchTask => {
+        const start = batch * batchSize;
+        return { kind: 'indices', start, count: Math.min(batchSize, total - start) };
+      },
+      stopRequested: () => signal?.aborted === true,
+      take: (_batch: number, result: BatchResult) => {
+        state.offerBatch(result, space.dimensionCount);
+        finished++;
+      },
+    });
   } finally {
     await evaluator.close();
   }
-  if (failure !== null) throw (failure as { error: unknown }).error;
+  if (failure !== null) throw failure.error;
 
   const keep = state.keep;
   const { ranked, misses } = outputEntries(state, keep);

@@ -1,7 +1,7 @@
 /**
  * `npm run bench`: every benchmark, printed as figures. Nothing here fails on a slow machine.
  * `npm run bench -- quick` skips the sweep benchmarks; `npm run bench -- long` runs the Pareto
- * machinery at 10⁶ offers and the sweep memory benchmark up to 10⁶ samples (an hour or more).
+ * machinery at 10⁶ offers and the sweep memory benchmark at 2·10⁴, 2·10⁵ and 10⁶ samples (an hour or more; without it 2·10⁴ and 2·10⁵).
  */
 import { benchDynamics } from './dynamics.ts';
 import { benchElectrostatics } from './electrostatics.ts';

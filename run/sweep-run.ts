@@ -12,9 +12,10 @@
  */
 import { existsSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
-import type { BatchEvaluator, BatchResult, BatchTask } from '../optimize/evaluate-batch.ts';
+import type { BatchEvaluator, BatchResult } from '../optimize/evaluate-batch.ts';
 import { SweepState } from '../optimize/sweep-state.ts';
 import { decodeBatchRecord, encodeBatchRecord } from './batch-codec.ts';
+import { scheduleBatches, tasksInFlight } from './batch-scheduler.ts';
 import { writeChunksAtomicSync } from './durable/atomic-write.ts';
 import { openJournal, readJournal, type Journal } from './durable/journal.ts';
 import type { StopSignal } from './durable/stop-signal.ts';
@@ -26,8 +27,7 @@ import type { CheckpointData, SweepProblem } from './sweep-setup.ts';
 
 /** Journal syncs between two snapshots of the state (each snapshot starts a new journal generation). */
 export const SYNCS_PER_SNAPSHOT = 12;
-/** Batches in flight per worker thread (at least two in all), so no worker waits for the next task. */
-export const TASKS_IN_FLIGHT_PER_THREAD = 3;
+export { TASKS_IN_FLIGHT_PER_THREAD } from './batch-scheduler.ts';
 /** How far past the first unfinished batch the scheduler may run ahead, in multiples of the tasks in flight. */
 export const LOOKAHEAD_FACTOR = 4;
 
@@ -73,15 +73,18 @@ export type SweepRunResult =
   /** The loop stopped on an error (phase 'loop') or the outputs could not be written ('outputs'). */
   | { kind: 'failed'; phase: 'loop' | 'outputs'; error: unknown };
 
-/** Runs (or resumes) a sweep to the end of its range or to the stop signal. */
-export async function runSweep(options: SweepRunOptions): Promise<SweepRunResult> {
-  const { directory, problem, record, checkpoint, evaluator, stop } = options;
-  const range = record.range;
-  const batchSize = record.batch_size;
-  const batchCount = Math.ceil((range[1] - range[0]) / batchSize);
-  const dimensionCount = problem.dimensions.length;
+/** What a run holds while it goes: the state, the done set, the journal's generation, all.csv's writer. */
+interface RunHold {
+  state: SweepState;
+  done: DoneSet;
+  generation: number;
+  writer: OrderedCsvWriter | null;
+  take: (batch: number, result: BatchResult) => void;
+}
 
-  // ---- state: fresh, or the snapshot plus its journal
+/** The state of a new run, or of a resumed one: its snapshot plus the journal of its generation. */
+function openRunHold(options: SweepRunOptions): RunHold {
+  const { directory, problem, record, checkpoint } = options;
   const done = new DoneSet();
   let state = new SweepState(problem.objectives, problem.constraints, record.keep, problem.seed);
   let generation = 0;
@@ -106,33 +109,33 @@ export async function runSweep(options: SweepRunOptions): Promise<SweepRunResult
     while (done.has(next) && !pendingBatches.includes(next)) next++;
     writer.setNext(next);
   }
-  const takeResult = (batch: number, result: BatchResult) => {
-    state.offerBatch(result, dimensionCount);
+  const dimensionCount = problem.dimensions.length;
+  const hold: RunHold = { state, done, generation, writer, take: () => {} };
+  hold.take = (batch, result) => {
+    hold.state.offerBatch(result, dimensionCount);
     done.add(batch);
-    if (writer && options.allCsv) writer.add(batch, options.allCsv.rows(state, result));
+    if (writer && options.allCsv) writer.add(batch, options.allCsv.rows(hold.state, result));
   };
+  return hold;
+}
 
-  const journalPath = join(directory, journalName(generation));
-  const replayed = replayJournal(journalPath, generation, done, takeResult, options.log);
-  if (options.resumed)
-    options.log(
-      `resuming ${directory}: ${done.size} of ${batchCount} batches done${replayed ? ` (${replayed} from the journal)` : ''}`,
-    );
-
-  let journal: Journal = openJournal(journalPath);
-  const writeCheckpoint = (complete: boolean) => {
-    writer?.sync();
-    const nextGeneration = generation + 1;
+/** The journal of the hold's generation, and the snapshot that starts the next generation. */
+function journalKeeper(options: SweepRunOptions, hold: RunHold) {
+  const { directory, problem } = options;
+  let journal: Journal = openJournal(join(directory, journalName(hold.generation)));
+  const snapshot = (complete: boolean) => {
+    hold.writer?.sync();
+    const nextGeneration = hold.generation + 1;
     const data: CheckpointData = {
       format: 'coilfront-checkpoint',
       version: 1,
       spec_hash: problem.hash,
       generation: nextGeneration,
-      done_prefix: done.prefix,
-      done_extra: done.extras(),
-      state: state.toJSON(),
-      all_bytes: writer ? writer.bytes : 0,
-      all_pending: writer ? writer.pendingTexts() : {},
+      done_prefix: hold.done.prefix,
+      done_extra: hold.done.extras(),
+      state: hold.state.toJSON(),
+      all_bytes: hold.writer ? hold.writer.bytes : 0,
+      all_pending: hold.writer ? hold.writer.pendingTexts() : {},
       complete,
     };
     const nextJournal = openJournal(join(directory, journalName(nextGeneration)));
@@ -140,10 +143,45 @@ export async function runSweep(options: SweepRunOptions): Promise<SweepRunResult
     journal.close();
     rmSync(journal.path, { force: true });
     journal = nextJournal;
-    generation = nextGeneration;
+    hold.generation = nextGeneration;
   };
+  let lastSync = performance.now();
+  let syncsSinceSnapshot = 0;
+  /** Syncs the journal (and all.csv) when it is due, and snapshots every SYNCS_PER_SNAPSHOT syncs. */
+  const syncWhenDue = () => {
+    const now = performance.now();
+    if (now - lastSync < options.journalSyncSeconds * 1000) return;
+    journal.sync();
+    hold.writer?.sync();
+    lastSync = now;
+    if (++syncsSinceSnapshot >= SYNCS_PER_SNAPSHOT) {
+      snapshot(false);
+      syncsSinceSnapshot = 0;
+    }
+  };
+  return {
+    append: (batch: number, result: BatchResult) => journal.append(encodeBatchRecord(hold.generation, batch, result)),
+    syncWhenDue,
+    snapshot,
+    close: () => journal.close(),
+  };
+}
 
-  // ---- the loop
+/** Runs (or resumes) a sweep to the end of its range or to the stop signal. */
+export async function runSweep(options: SweepRunOptions): Promise<SweepRunResult> {
+  const { directory, record, evaluator, stop } = options;
+  const range = record.range;
+  const batchSize = record.batch_size;
+  const batchCount = Math.ceil((range[1] - range[0]) / batchSize);
+  const hold = openRunHold(options);
+  const { done } = hold;
+  const replayed = replayJournal(join(directory, journalName(hold.generation)), hold, options.log);
+  if (options.resumed)
+    options.log(
+      `resuming ${directory}: ${done.size} of ${batchCount} batches done${replayed ? ` (${replayed} from the journal)` : ''}`,
+    );
+  const journal = journalKeeper(options, hold);
+
   const startedAt = performance.now();
   const startedDone = done.size;
   const total = range[1] - range[0];
@@ -151,57 +189,36 @@ export async function runSweep(options: SweepRunOptions): Promise<SweepRunResult
     if (!options.onProgress) return;
     const designs = Math.min(total, done.size * batchSize);
     const rate = ((done.size - startedDone) * batchSize) / Math.max(1e-3, (performance.now() - startedAt) / 1000);
-    options.onProgress({ designs, total, rate, feasible: state.counts.feasible }, final);
+    options.onProgress({ designs, total, rate, feasible: hold.state.counts.feasible }, final);
   };
-  const maxInFlight = Math.max(2, (options.threads || 1) * TASKS_IN_FLIGHT_PER_THREAD);
-  const window = maxInFlight * LOOKAHEAD_FACTOR;
-  const inFlight = new Map<number, Promise<void>>();
-  let failure: unknown = null;
-  let next = 0;
-  let lastSync = performance.now();
-  let syncsSinceSnapshot = 0;
-  const taskOf = (batch: number): BatchTask => {
-    const start = range[0] + batch * batchSize;
-    return { kind: 'indices', start, count: Math.min(batchSize, range[1] - start) };
-  };
+  const window = tasksInFlight(options.threads) * LOOKAHEAD_FACTOR;
+  let failure: { error: unknown } | null;
   try {
-    while (failure === null) {
-      while (!stop.stopRequested && inFlight.size < maxInFlight && next < batchCount && next < done.prefix + window) {
-        const batch = next++;
-        if (done.has(batch)) continue;
-        const promise = evaluator
-          .evaluate(taskOf(batch))
-          .then((result) => {
-            takeResult(batch, result);
-            journal.append(encodeBatchRecord(generation, batch, result));
-          })
-          .catch((error) => {
-            failure ??= error;
-          })
-          .finally(() => inFlight.delete(batch));
-        inFlight.set(batch, promise);
-      }
-      if (inFlight.size === 0) break;
-      await Promise.race(inFlight.values());
-      if (failure !== null) break;
-      const now = performance.now();
-      if (now - lastSync >= options.journalSyncSeconds * 1000) {
-        journal.sync();
-        writer?.sync();
-        lastSync = now;
-        if (++syncsSinceSnapshot >= SYNCS_PER_SNAPSHOT) {
-          writeCheckpoint(false);
-          syncsSinceSnapshot = 0;
-        }
-      }
-      progress(false);
-    }
-    await Promise.allSettled(inFlight.values());
+    failure = await scheduleBatches({
+      evaluator,
+      batchCount,
+      threads: options.threads,
+      taskOf: (batch) => {
+        const start = range[0] + batch * batchSize;
+        return { kind: 'indices', start, count: Math.min(batchSize, range[1] - start) };
+      },
+      isDone: (batch) => done.has(batch),
+      stopRequested: () => stop.stopRequested,
+      startLimit: () => done.prefix + window,
+      take: (batch, result) => {
+        hold.take(batch, result);
+        journal.append(batch, result);
+      },
+      afterRound: () => {
+        journal.syncWhenDue();
+        progress(false);
+      },
+    });
   } finally {
     await evaluator.close();
     stop.dispose();
   }
-  if (failure !== null) return { kind: 'failed', phase: 'loop', error: failure };
+  if (failure !== null) return { kind: 'failed', phase: 'loop', error: failure.error };
   const complete = done.size >= batchCount;
   const wallSeconds = (performance.now() - startedAt) / 1000;
   const timing: SweepTiming = {
@@ -210,25 +227,20 @@ export async function runSweep(options: SweepRunOptions): Promise<SweepRunResult
     workers: options.threads,
   };
   try {
-    writeCheckpoint(complete);
-    writer?.close();
-    await options.writeOutputs(state, timing, complete);
+    journal.snapshot(complete);
+    hold.writer?.close();
+    await options.writeOutputs(hold.state, timing, complete);
     journal.close();
   } catch (error) {
     return { kind: 'failed', phase: 'outputs', error };
   }
   progress(true);
-  return { kind: 'finished', state, complete, timing };
+  return { kind: 'finished', state: hold.state, complete, timing };
 }
 
 /** Replays the finished batches of the journal of `generation` that the snapshot does not hold. */
-function replayJournal(
-  path: string,
-  generation: number,
-  done: DoneSet,
-  take: (batch: number, result: BatchResult) => void,
-  log: (line: string) => void,
-): number {
+function replayJournal(path: string, hold: RunHold, log: (line: string) => void): number {
+  const { generation, done, take } = hold;
   if (!existsSync(path)) return 0;
   let replayed = 0;
   const contents = readJournal(path);
