@@ -5,6 +5,7 @@
  */
 import { benchDynamics } from './dynamics.ts';
 import { benchElectrostatics } from './electrostatics.ts';
+import { benchEvaluation } from './evaluation.ts';
 import { benchEvolve } from './evolve.ts';
 import { benchPareto } from './pareto.ts';
 import { benchRefine } from './refine.ts';
@@ -16,6 +17,7 @@ const long = process.argv.includes('long');
 const sections: Array<[string, () => Promise<string[]>]> = [
   ['electrostatics', () => benchElectrostatics()],
   ['dynamics', () => benchDynamics()],
+  ['full evaluation, one thread (per-stage profile)', () => benchEvaluation()],
   ['pareto machinery', () => benchPareto(long ? {} : { offers: 200_000 })],
   ['refinement engine (ZDT)', () => benchRefine()],
   // Quick: one budget and seed; otherwise two of each (a few minutes on one thread).

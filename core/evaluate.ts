@@ -52,15 +52,22 @@ function profileTable(resonator: NonNullable<EvalContext['resonator']>): Winding
   return { fraction, voltage: fraction.map((x) => resonator.shape(x)), current: fraction.map(currentAt) };
 }
 
-const STAGES: ReadonlyArray<(context: EvalContext) => void> = [
-  secondaryStage,
-  electrostaticsStage,
-  resonatorStage,
-  primaryStage,
-  dynamicsStage,
-  outcomeStage,
-  tankStage,
+/** The stages in pipeline order, by name (the names the benchmark's per-stage profile prints). */
+export const EVALUATION_STAGES: ReadonlyArray<{ name: string; run: (context: EvalContext) => void }> = [
+  { name: 'secondary', run: secondaryStage },
+  { name: 'electrostatics', run: electrostaticsStage },
+  { name: 'resonator', run: resonatorStage },
+  { name: 'primary', run: primaryStage },
+  { name: 'dynamics', run: dynamicsStage },
+  { name: 'outcome', run: outcomeStage },
+  { name: 'tank', run: tankStage },
 ];
+
+/**
+ * Told the name of each step as it begins ('prepare' for the tank as built, then each stage of
+ * EVALUATION_STAGES that runs, then 'profile' and 'done'): a profiler's hook; the evaluation ignores it.
+ */
+export type StageObserver = (step: string) => void;
 
 /** Evaluates one design through every stage of the physics core. */
 export function evaluateDesign(design: Design): Evaluation {
@@ -71,19 +78,26 @@ export function evaluateDesign(design: Design): Evaluation {
  * The same evaluation with its working record (the stages' geometry: winding, primary rings and
  * tap, the distributed model), for pictures of the design.
  */
-export function evaluateDesignInDetail(design: Design): { evaluation: Evaluation; context: EvalContext } {
+export function evaluateDesignInDetail(
+  design: Design,
+  observe?: StageObserver,
+): { evaluation: Evaluation; context: EvalContext } {
+  observe?.('prepare');
   const metrics = emptyMetrics();
   const warnings: DesignWarning[] = [];
   const problems: DesignProblem[] = [];
   // The tank as built (a bank of parts, the charge the supply reaches) is what every stage sees.
   const prepared = prepareTank(design, metrics, warnings, problems);
   const context: EvalContext = { design: prepared.design, metrics, warnings, problems, tankBank: prepared.layout };
-  for (const stage of STAGES) {
+  for (const stage of EVALUATION_STAGES) {
     if (context.problems.length > 0) break;
-    stage(context);
+    observe?.(stage.name);
+    stage.run(context);
   }
+  observe?.('profile');
   context.metrics.warning_count = context.warnings.length;
   const profile = context.resonator && context.problems.length === 0 ? profileTable(context.resonator) : null;
+  observe?.('done');
   return {
     evaluation: { metrics: context.metrics, warnings: context.warnings, problems: context.problems, profile },
     context,

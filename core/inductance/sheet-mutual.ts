@@ -108,3 +108,47 @@ export function ringToSheetMutualInductance(ringRadius: number, ringZ: number, w
   }
   return (winding.turns / length) * integral;
 }
+
+/**
+ * Mutual inductance of a ring to each axial segment of a winding seen as a uniform current sheet,
+ * H: segment k spans the fractions [f_k, f_(k+1)] of the length and carries its share of the turns,
+ * M_k = (N/ℓ) ∫ M_Maxwell(r, a, z − z_ring) dz over the segment. One pass over the sheet: the
+ * interval is cut at every node and at the ring's height, and each piece is integrated in the same
+ * sinh variable with the same 12-point Gauss–Legendre panels (at most 1.5 wide in u) as
+ * `ringToSheetMutualInductance`, so each Maxwell evaluation serves one segment only and the pieces
+ * are never wider than that function's panels (its quadrature bound, 2·10⁻⁷, holds for each). The
+ * sum over the segments is the whole sheet's mutual to the same accuracy (tests).
+ * @param ringRadius m (> 0)
+ * @param ringZ height of the ring, m
+ * @param winding the winding
+ * @param fractions n + 1 increasing node fractions, 0 first and 1 last
+ * @param out n values, written (a new array when not given)
+ * Source: Maxwell (1873) §701 integrated over the current sheet; Gauss–Legendre per A&S §25.4.29.
+ */
+export function ringToSheetSegmentMutuals(
+  ringRadius: number,
+  ringZ: number,
+  winding: WindingSheet,
+  fractions: ArrayLike<number>,
+  out = new Float64Array(fractions.length - 1),
+): Float64Array {
+  const n = fractions.length - 1;
+  const length = winding.topZ - winding.bottomZ;
+  if (!(length > 0) || !(winding.turns > 0)) return out.fill(Number.NaN);
+  const scale = Math.max(Math.abs(ringRadius - winding.radius), 1e-3 * (ringRadius + winding.radius));
+  const density = winding.turns / length;
+  const uAt = (fraction: number) => Math.asinh((winding.bottomZ + fraction * length - ringZ) / scale);
+  let lower = uAt(fractions[0]);
+  for (let k = 0; k < n; k++) {
+    const upper = uAt(fractions[k + 1]);
+    // Split at the ring's height (u = 0), where the integrand peaks.
+    const integral =
+      lower < 0 && upper > 0
+        ? integrateInSinhVariable(ringRadius, winding.radius, scale, lower, 0) +
+          integrateInSinhVariable(ringRadius, winding.radius, scale, 0, upper)
+        : integrateInSinhVariable(ringRadius, winding.radius, scale, lower, upper);
+    out[k] = density * integral;
+    lower = upper;
+  }
+  return out;
+}

@@ -31,11 +31,13 @@ import { tuneTap } from '../primary/tuning.ts';
 import { formatNumber, formatQuantity, TUNING_TOLERANCE } from '../outcome/warnings.ts';
 import { lcResonantFrequency } from '../capacitance/resonance.ts';
 import { couplingCoefficient, ringMutualInductances, tappedMutualInductance } from '../coupling.ts';
-import { ringToSheetMutualInductance } from '../inductance/sheet-mutual.ts';
-import { segmentMutuals } from '../resonator/design-resonator.ts';
+import { ringToSheetSegmentMutuals, type WindingSheet } from '../inductance/sheet-mutual.ts';
 import { effectiveMutualInductance } from '../resonator/resonator.ts';
 import { bestLineLength, losslessTransferFraction, threeCoilRatioError, threeCoilTap } from '../three-coil/tuning.ts';
-import type { Ring } from '../context.ts';
+import type { DesignProblem, Ring } from '../context.ts';
+import type { PrimarySpec } from '../design.ts';
+import type { PrimaryInductanceTable } from '../primary/inductance.ts';
+import { must } from '../must.ts';
 
 /** A length in millimetres for messages. */
 function mm(metres: number): string {
@@ -47,150 +49,174 @@ function microhenries(henries: number): string {
   return `${Number((henries * 1e6).toPrecision(4))} µH`;
 }
 
-export function primaryStage(context: EvalContext): void {
-  const spec = context.design.primary;
-  if (!spec) return;
-  const { metrics, problems, design } = context;
+/** The first thing wrong with the primary as given (its turns, conductor, clearance, tap), or null. */
+function primaryInputProblem(context: EvalContext, spec: PrimarySpec): DesignProblem | null {
   const secondary = context.secondary;
   const conductorRadius = spec.conductorDiameter / 2;
   if (!(spec.turns >= 1)) {
-    problems.push({ field: 'primary.turns', reason: `the primary needs at least one turn, got ${spec.turns}` });
-    return;
+    return { field: 'primary.turns', reason: `the primary needs at least one turn, got ${spec.turns}` };
   }
   if (spec.turns > MAX_PRIMARY_TURNS) {
-    problems.push({
+    return {
       field: 'primary.turns',
       reason: `${Number(spec.turns.toPrecision(4))} turns is beyond the ${MAX_PRIMARY_TURNS} rings this model handles`,
-    });
-    return;
+    };
   }
   if (!(spec.conductorDiameter > 0)) {
-    problems.push({
+    return {
       field: 'primary.conductor_diameter',
       reason: `the conductor diameter must be positive, got ${mm(spec.conductorDiameter)}`,
-    });
-    return;
+    };
   }
   if (!(spec.turnSpacing >= 0)) {
-    problems.push({
+    return {
       field: 'primary.turn_spacing',
       reason: `neighbouring turns would overlap: turn spacing ${mm(spec.turnSpacing)}`,
-    });
-    return;
+    };
   }
   if (!(spec.innerDiameter / 2 > conductorRadius)) {
-    problems.push({
+    return {
       field: 'primary.inner_diameter',
       reason: `the innermost ring (${mm(spec.innerDiameter)}) is no wider than its conductor (${mm(spec.conductorDiameter)})`,
-    });
-    return;
+    };
   }
   if (secondary) {
     const windingOuterRadius = secondary.radius + secondary.overallDiameter / 2;
     const innerEdge = spec.innerDiameter / 2 - conductorRadius;
     if (innerEdge <= windingOuterRadius) {
-      problems.push({
+      return {
         field: 'primary.inner_diameter',
         reason: `the innermost ring's inner edge (radius ${mm(innerEdge)}) touches or lies inside the secondary winding (outer radius ${mm(windingOuterRadius)})`,
-      });
-      return;
+      };
     }
   }
   if (spec.tapTurns !== undefined && !(spec.tapTurns > 0 && spec.tapTurns <= spec.turns)) {
-    problems.push({
+    return {
       field: 'primary.tap_turns',
       reason: `the tap (${spec.tapTurns} turns) must lie within the primary's ${spec.turns} turns`,
-    });
+    };
+  }
+  return null;
+}
+
+/** Where the tap landed: the turns, the tap reported (null for the whole primary), why it is untuned. */
+interface TapChoice {
+  tapTurns: number;
+  reportedTap: number | null;
+  untunedRange: string | null;
+}
+
+/** The fixed tap, or the tap that tunes the tank to the secondary (see the header). */
+function twoCoilTap(
+  context: EvalContext,
+  spec: PrimarySpec,
+  table: PrimaryInductanceTable,
+  secondaryInductance: number,
+): TapChoice {
+  if (spec.tapTurns !== undefined) return { tapTurns: spec.tapTurns, reportedTap: spec.tapTurns, untunedRange: null };
+  const tankCapacitance = context.design.tank?.capacitance;
+  const totalCapacitance = context.electrostatics?.totalCapacitance;
+  if (!context.secondary || tankCapacitance === undefined || totalCapacitance === undefined || !(totalCapacitance > 0))
+    return { tapTurns: spec.turns, reportedTap: null, untunedRange: null };
+  const tuning = tuneTap(table, secondaryInductance, totalCapacitance, tankCapacitance, spec.turns);
+  let untunedRange: string | null = null;
+  if (tuning.status !== 'tuned') {
+    const lowest = primaryInductanceAtTap(table, Math.min(1, spec.turns));
+    const full = primaryInductanceAtTap(table, spec.turns);
+    untunedRange = `needs ${microhenries(tuning.requiredInductance)}, has ${microhenries(lowest)}–${microhenries(full)}`;
+  }
+  return { tapTurns: tuning.tapTurns, reportedTap: tuning.tapTurns, untunedRange };
+}
+
+/**
+ * A three-coil system: the tap that brings the three modes nearest 1:2:3 (three-coil/tuning.ts),
+ * and the line length (0.1 to 4 times the given one) that, with its own best tap, comes nearest.
+ * Returns the tap chosen (the given choice when the tap is fixed or no tap is found).
+ */
+function threeCoilTapAndLine(
+  context: EvalContext,
+  spec: PrimarySpec,
+  table: PrimaryInductanceTable,
+  secondaryInductance: number,
+  perRing: readonly number[],
+  choice: TapChoice,
+): TapChoice {
+  const threeCoil = context.threeCoil;
+  const line = context.design.resonator?.line;
+  const tankCapacitance = context.design.tank?.capacitance;
+  if (!threeCoil || !line || !context.secondary || tankCapacitance === undefined) return choice;
+  const lowest = Math.min(1, spec.turns);
+  // The lossless circuit at a tap, with the line scaled to a length (per-length values fixed).
+  const circuitAt = (tap: number, length: number) => ({
+    primaryInductance: primaryInductanceAtTap(table, tap),
+    primaryCapacitance: tankCapacitance,
+    primaryResistance: 0,
+    driverInductance: secondaryInductance,
+    driverResistance: 0,
+    mutualInductance: perRing.reduce((sum, m, i) => sum + Math.min(1, Math.max(0, tap - i)) * m, 0),
+    junctionCapacitance: threeCoil.driverCapacitance + (threeCoil.lineCapacitance * length) / line.length,
+    resonatorInductance: threeCoil.inductance + (threeCoil.lineInductance * length) / line.length,
+    resonatorResistance: 0,
+    resonatorCapacitance: threeCoil.capacitance,
+  });
+  let chosen = choice;
+  if (spec.tapTurns === undefined) {
+    const best = threeCoilTap(lowest, spec.turns, (tap) => circuitAt(tap, line.length));
+    if (best) chosen = { tapTurns: best.tapTurns, reportedTap: best.tapTurns, untunedRange: null };
+  }
+  // The line length (0.1 to 4 times the given one) that, with its own best tap, comes nearest
+  // complete transfer; its tap, ratio error and lossless transfer reported beside it.
+  const fixedTap = spec.tapTurns;
+  const tapFor = (length: number): number | null =>
+    fixedTap ?? threeCoilTap(lowest, spec.turns, (tap) => circuitAt(tap, length))?.tapTurns ?? null;
+  const lineBest = bestLineLength(0.1 * line.length, 4 * line.length, (length) => {
+    const tap = tapFor(length);
+    return tap === null ? null : losslessTransferFraction(circuitAt(tap, length));
+  });
+  const bestTap = lineBest ? tapFor(lineBest.length) : null;
+  context.metrics.line_length_for_ratios = lineBest?.length ?? null;
+  context.metrics.three_coil_ratio_error_at_that_length =
+    lineBest && bestTap !== null ? threeCoilRatioError(circuitAt(bestTap, lineBest.length)) : null;
+  context.metrics.three_coil_lossless_transfer_at_that_length = lineBest?.transferFraction ?? null;
+  return chosen;
+}
+
+export function primaryStage(context: EvalContext): void {
+  const spec = context.design.primary;
+  if (!spec) return;
+  const { metrics, problems, design } = context;
+  const secondary = context.secondary;
+  const problem = primaryInputProblem(context, spec);
+  if (problem) {
+    problems.push(problem);
     return;
   }
-
+  const conductorRadius = spec.conductorDiameter / 2;
   const rings = primaryRings(spec, secondary?.bottomZ ?? 0);
   const table = primaryInductanceTable(rings, conductorRadius);
-  const fullInductance = primaryInductanceAtTap(table, spec.turns);
   const tankCapacitance = design.tank?.capacitance;
   const totalCapacitance = context.electrostatics?.totalCapacitance;
 
   // The secondary as the tank sees it: the distributed model's effective inductance at the top when
   // computed (with the effective capacitance it gives the fundamental), else the winding's own.
   const secondaryInductance = context.resonator?.effectiveInductance ?? secondary?.inductance ?? 0;
-  let tapTurns = spec.turns;
-  let reportedTap: number | null = null;
-  let untunedRange: string | null = null;
-  if (spec.tapTurns !== undefined) {
-    tapTurns = spec.tapTurns;
-    reportedTap = tapTurns;
-  } else if (secondary && tankCapacitance !== undefined && totalCapacitance !== undefined && totalCapacitance > 0) {
-    const tuning = tuneTap(table, secondaryInductance, totalCapacitance, tankCapacitance, spec.turns);
-    tapTurns = tuning.tapTurns;
-    reportedTap = tapTurns;
-    if (tuning.status !== 'tuned') {
-      const lowest = primaryInductanceAtTap(table, Math.min(1, spec.turns));
-      untunedRange = `needs ${microhenries(tuning.requiredInductance)}, has ${microhenries(lowest)}–${microhenries(fullInductance)}`;
-    }
+  // Each ring's mutuals to the winding: per segment of the distributed model, or to the whole sheet.
+  const mutuals = secondary ? ringMutuals(context, rings, secondary) : null;
+  let tap = twoCoilTap(context, spec, table, secondaryInductance);
+  if (context.threeCoil && mutuals) {
+    const perRing = mutuals.perSegment
+      ? mutuals.perSegment.map((m) => effectiveMutualOf(context, m))
+      : Array.from(mutuals.whole);
+    tap = threeCoilTapAndLine(context, spec, table, secondaryInductance, perRing, tap);
   }
-  // A three-coil system: the tap that comes nearest complete transfer (three-coil/tuning.ts).
-  const threeCoil = context.threeCoil;
-  const line = design.resonator?.line;
-  if (threeCoil && line && secondary && tankCapacitance !== undefined) {
-    const perRing = ringEffectiveMutuals(context, rings);
-    const lowest = Math.min(1, spec.turns);
-    // The lossless circuit at a tap, with the line scaled to a length (per-length values fixed).
-    const circuitAt = (tap: number, length: number) => ({
-      primaryInductance: primaryInductanceAtTap(table, tap),
-      primaryCapacitance: tankCapacitance,
-      primaryResistance: 0,
-      driverInductance: secondaryInductance,
-      driverResistance: 0,
-      mutualInductance: perRing.reduce((sum, m, i) => sum + Math.min(1, Math.max(0, tap - i)) * m, 0),
-      junctionCapacitance: threeCoil.driverCapacitance + (threeCoil.lineCapacitance * length) / line.length,
-      resonatorInductance: threeCoil.inductance + (threeCoil.lineInductance * length) / line.length,
-      resonatorResistance: 0,
-      resonatorCapacitance: threeCoil.capacitance,
-    });
-    if (spec.tapTurns === undefined) {
-      const best = threeCoilTap(lowest, spec.turns, (tap) => circuitAt(tap, line.length));
-      if (best) {
-        tapTurns = best.tapTurns;
-        reportedTap = tapTurns;
-        untunedRange = null;
-      }
-    }
-    // The line length (0.1 to 4 times the given one) that, with its own best tap, comes nearest
-    // complete transfer; its tap, ratio error and lossless transfer reported beside it.
-    const fixedTap = spec.tapTurns;
-    const tapFor = (length: number): number | null =>
-      fixedTap ?? threeCoilTap(lowest, spec.turns, (tap) => circuitAt(tap, length))?.tapTurns ?? null;
-    const lineBest = bestLineLength(0.1 * line.length, 4 * line.length, (length) => {
-      const tap = tapFor(length);
-      return tap === null ? null : losslessTransferFraction(circuitAt(tap, length));
-    });
-    const bestTap = lineBest ? tapFor(lineBest.length) : null;
-    metrics.line_length_for_ratios = lineBest?.length ?? null;
-    metrics.three_coil_ratio_error_at_that_length =
-      lineBest && bestTap !== null ? threeCoilRatioError(circuitAt(bestTap, lineBest.length)) : null;
-    metrics.three_coil_lossless_transfer_at_that_length = lineBest?.transferFraction ?? null;
-  }
+  const { tapTurns, reportedTap, untunedRange } = tap;
   const inductance = primaryInductanceAtTap(table, tapTurns);
 
   let mutual: number | null = null;
-  if (secondary) {
-    const ringMutuals = ringMutualInductances(rings, {
-      radius: secondary.radius,
-      bottomZ: secondary.bottomZ,
-      topZ: secondary.topZ,
-      turns: secondary.turns,
-    });
-    mutual = tappedMutualInductance(ringMutuals, tapTurns);
-    const resonator = context.resonator;
-    if (resonator) {
-      // The mode's own current distribution links the primary: M_eff = |Σ m_k i_k| / I_eff.
-      const weights = rings.map((ring, i) => ({
-        weight: Math.min(1, Math.max(0, tapTurns - i)),
-        mutual: (bottomZ: number, topZ: number, turns: number) =>
-          ringToSheetMutualInductance(ring.r, ring.z, { radius: secondary.radius, bottomZ, topZ, turns }),
-      }));
-      mutual = effectiveMutualInductance(resonator.solution, segmentMutuals(resonator.fractions, secondary, weights));
-    }
+  if (secondary && mutuals) {
+    mutual = mutuals.perSegment
+      ? effectiveMutualOf(context, tappedSegmentMutuals(mutuals.perSegment, tapTurns))
+      : tappedMutualInductance(mutuals.whole, tapTurns);
     metrics.mutual_inductance = mutual;
     metrics.coupling = couplingCoefficient(mutual, inductance, secondaryInductance);
   }
@@ -208,7 +234,7 @@ export function primaryStage(context: EvalContext): void {
   context.primary = geometry;
   metrics.primary_inductance = inductance;
   metrics.primary_tap_turns = reportedTap;
-  metrics.primary_full_inductance = fullInductance;
+  metrics.primary_full_inductance = primaryInductanceAtTap(table, spec.turns);
   metrics.primary_frequency = tankCapacitance !== undefined ? lcResonantFrequency(inductance, tankCapacitance) : null;
   metrics.primary_outer_diameter = 2 * outerRadius;
   if (reportedTap !== null) {
@@ -256,25 +282,58 @@ function tuningRequirement(context: EvalContext, secondaryFrequency: number | nu
 }
 
 /**
- * Each whole ring's mutual inductance to the secondary, H: the mode's (M_eff of one ring) with the
- * computed profile, else the ring against the current sheet; a tap's mutual is Σ w_i M_i.
+ * Each ring's mutual inductance to the winding's segments, H, one array per ring (row i: ring i,
+ * unit weight): the current-sheet integral cut at the nodes (inductance/sheet-mutual.ts). A tap's
+ * segment mutuals are Σ w_i m_i (linear in the rings), and each ring's mutual to the whole winding
+ * is the sum over its segments.
+ * @param rings the primary's rings, m
+ * @param winding the winding as a sheet over [bottomZ, topZ]
+ * @param fractions the distributed model's node fractions
  */
-function ringEffectiveMutuals(context: EvalContext, rings: readonly Ring[]): number[] {
-  const secondary = context.secondary;
-  if (!secondary) return rings.map(() => 0);
-  const sheet = { radius: secondary.radius, bottomZ: secondary.bottomZ, topZ: secondary.topZ, turns: secondary.turns };
+export function ringSegmentMutuals(
+  rings: readonly Ring[],
+  winding: WindingSheet,
+  fractions: ArrayLike<number>,
+): Float64Array[] {
+  const sheet = { radius: winding.radius, bottomZ: winding.bottomZ, topZ: winding.topZ, turns: winding.turns };
+  return rings.map((ring) => ringToSheetSegmentMutuals(ring.r, ring.z, sheet, fractions));
+}
+
+/** The rings' mutuals: per segment with the computed profile, else each to the whole sheet. */
+function ringMutuals(
+  context: EvalContext,
+  rings: readonly Ring[],
+  secondary: WindingSheet,
+): { perSegment: Float64Array[] | null; whole: Float64Array } {
   const resonator = context.resonator;
-  if (!resonator) return Array.from(ringMutualInductances(rings, sheet));
-  return rings.map((ring) =>
-    effectiveMutualInductance(
-      resonator.solution,
-      segmentMutuals(resonator.fractions, secondary, [
-        {
-          weight: 1,
-          mutual: (bottomZ: number, topZ: number, turns: number) =>
-            ringToSheetMutualInductance(ring.r, ring.z, { radius: secondary.radius, bottomZ, topZ, turns }),
-        },
-      ]),
-    ),
-  );
+  if (!resonator) {
+    const sheet = {
+      radius: secondary.radius,
+      bottomZ: secondary.bottomZ,
+      topZ: secondary.topZ,
+      turns: secondary.turns,
+    };
+    return { perSegment: null, whole: ringMutualInductances(rings, sheet) };
+  }
+  const perSegment = ringSegmentMutuals(rings, secondary, resonator.fractions);
+  const whole = new Float64Array(rings.length);
+  for (let i = 0; i < rings.length; i++) for (const value of perSegment[i]) whole[i] += value;
+  return { perSegment, whole };
+}
+
+/** The segment mutuals of the primary tapped at `tapTurns`: Σ w_i m_i with the tap weights of primary/rings.ts. */
+function tappedSegmentMutuals(perSegment: readonly Float64Array[], tapTurns: number): Float64Array {
+  const tapped = new Float64Array(perSegment[0]?.length ?? 0);
+  for (let i = 0; i < perSegment.length; i++) {
+    const weight = Math.min(1, Math.max(0, tapTurns - i));
+    if (weight === 0) continue;
+    const row = perSegment[i];
+    for (let k = 0; k < tapped.length; k++) tapped[k] += weight * row[k];
+  }
+  return tapped;
+}
+
+/** The mode's mutual M_eff = |Σ m_k i_k| / I_eff for segment mutuals m_k (core/resonator/resonator.ts). */
+function effectiveMutualOf(context: EvalContext, segmentMutuals: Float64Array): number {
+  return effectiveMutualInductance(must(context.resonator, 'the distributed winding').solution, segmentMutuals);
 }
