@@ -16,7 +16,8 @@ import { metricKind } from './metric-kinds.ts';
 import { parseInputText, readInputFile } from './read-file.ts';
 import { RUN_FILES } from '../run/run-directory.ts';
 import { suggest } from './suggest.ts';
-import type { RobustDefinition } from '../optimize/tolerance/robust-yield.ts';
+import { isRobustMetric, type RobustDefinition } from '../optimize/tolerance/robust-yield.ts';
+import { readQuantileMerits } from './quantile-merits.ts';
 import { ToleranceSetupError, toleranceSpace } from '../optimize/tolerance/tolerance-space.ts';
 import { readTolerances, type ToleranceSection } from './tolerance-spec.ts';
 import { describeValue, readQuantity } from './units.ts';
@@ -298,9 +299,12 @@ export function sweepFromValue(value: unknown, file: string, options: SweepReadO
     issues.push(reading.issues[0]);
     fail();
   }
-  const constraints = readConstraints(value.constraints, issues);
+  // Quantile merits ({ p05: metric }) become their build_quantile_k slots before the usual reading.
+  const merits = readQuantileMerits(value.objectives, value.constraints, issues);
   if (issues.length) fail();
-  const objectives = readObjectives(value.objectives, issues);
+  const constraints = readConstraints(merits.constraints, issues);
+  if (issues.length) fail();
+  const objectives = readObjectives(merits.objectives, issues);
   if (issues.length) fail();
   const tolerances = value.tolerances === undefined ? null : readTolerances(value.tolerances, ['tolerances'], issues);
   if (issues.length) fail();
@@ -438,31 +442,36 @@ export function sweepFromValue(value: unknown, file: string, options: SweepReadO
       issues.push({ path: ['tolerances', ...error.path], message: error.message });
     }
     if (issues.length || space === null) fail();
-    const usesYield =
-      objectives.some((o) => o.metric === 'build_yield') || constraints.some((c) => c.metric === 'build_yield');
-    if (usesYield && tolerances.sweepDraws === null) {
+    const usesRobust =
+      merits.quantiles.length > 0 ||
+      objectives.some((o) => o.metric === 'build_yield') ||
+      constraints.some((c) => c.metric === 'build_yield');
+    if (usesRobust && tolerances.sweepDraws === null) {
       issues.push({
         path: ['tolerances', 'sweep_draws'],
-        message: 'required for build_yield: the tolerance draws per design (each costs one more evaluation)',
+        message:
+          'required for build_yield or a quantile merit: the tolerance draws per design (each costs one more evaluation)',
       });
       fail();
     }
-    if (usesYield) {
+    if (usesRobust) {
       robust = {
         tolerance: space as ReturnType<typeof toleranceSpace>,
         draws: tolerances.sweepDraws as number,
         seed: tolerances.seed ?? seed,
-        constraints: constraints.filter((c) => c.metric !== 'build_yield'),
-        required: objectives.map((o) => o.metric).filter((m) => m !== 'build_yield'),
+        constraints: constraints.filter((c) => !isRobustMetric(c.metric)),
+        required: objectives.map((o) => o.metric).filter((m) => !isRobustMetric(m)),
+        ...(merits.quantiles.length > 0 ? { quantiles: merits.quantiles } : {}),
       };
     }
   } else if (
+    merits.quantiles.length > 0 ||
     objectives.some((o) => o.metric === 'build_yield') ||
     constraints.some((c) => c.metric === 'build_yield')
   ) {
     issues.push({
       path: ['tolerances'],
-      message: 'required for build_yield: a tolerances section with sweep_draws',
+      message: 'required for build_yield or a quantile merit: a tolerances section with sweep_draws',
     });
     fail();
   }

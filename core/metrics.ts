@@ -309,6 +309,13 @@ export const METRICS: readonly MetricInfo[] = [
     '',
     "fraction of the sweep's tolerance draws (tolerances.sweep_draws) that would be feasible candidates; only in sweeps that ask for it",
   ),
+  ...[1, 2, 3, 4].map((k) =>
+    metric(
+      `build_quantile_${k}`,
+      '',
+      `quantile merit ${k} of the sweep file (objectives first, then constraints, in the file's order): that quantile of its metric over the sweep's tolerance draws, in SI; only in sweeps that ask for it`,
+    ),
+  ),
 ];
 
 export const METRIC_KEYS: readonly string[] = METRICS.map((m) => m.key);
