@@ -16,7 +16,8 @@ import { metricKind } from './metric-kinds.ts';
 import { parseInputText, readInputFile } from './read-file.ts';
 import { RUN_FILES } from '../run/run-directory.ts';
 import { suggest } from './suggest.ts';
-import type { RobustDefinition } from '../optimize/tolerance/robust-yield.ts';
+import { isRobustMetric, type RobustDefinition } from '../optimize/tolerance/robust-yield.ts';
+import { readQuantileMerits } from './quantile-merits.ts';
 import { ToleranceSetupError, toleranceSpace } from '../optimize/tolerance/tolerance-space.ts';
 import { readTolerances, type ToleranceSection } from './tolerance-spec.ts';
 import { describeValue, readQuantity } from './units.ts';
@@ -297,13 +298,16 @@ function readProblem(value: Record<string, unknown>, file: string) {
     fail(file, { path: ['design'], message: 'required: the design tree, where leaves may be ranges or sets' });
   const reading = readDesignTree(value.design, 'sweep', ['design']);
   failOnFirst(file, reading.issues);
-  const constraints = readConstraints(value.constraints, issues);
+  // Quantile merits ({ p05: metric }) become their build_quantile_k slots before the usual reading.
+  const merits = readQuantileMerits(value.objectives, value.constraints, issues);
   failOnFirst(file, issues);
-  const objectives = readObjectives(value.objectives, issues);
+  const constraints = readConstraints(merits.constraints, issues);
+  failOnFirst(file, issues);
+  const objectives = readObjectives(merits.objectives, issues);
   failOnFirst(file, issues);
   const tolerances = value.tolerances === undefined ? null : readTolerances(value.tolerances, ['tolerances'], issues);
   failOnFirst(file, issues);
-  return { reading, constraints, objectives, tolerances };
+  return { reading, constraints, objectives, tolerances, quantiles: merits.quantiles };
 }
 
 /** `sweep:`'s settings (method, seed, levels, shard count, stages) and the sample count they give. */
@@ -410,19 +414,28 @@ function checkStructure(tree: NormalTree, dimensions: Dimension[], file: string)
   if (structural) fail(file, structural);
 }
 
-/** Tolerances: every field must find its nominal in this space; build_yield needs tolerances.sweep_draws. */
+/**
+ * Tolerances: every field must find its nominal in this space; build_yield and the quantile merits
+ * need tolerances.sweep_draws.
+ */
 function readRobust(
   tolerances: ToleranceSection | null,
   space: Parameters<typeof toleranceSpace>[0],
   constraints: ConstraintDefinition[],
   objectives: ObjectiveDefinition[],
+  quantiles: NonNullable<RobustDefinition['quantiles']>,
   file: string,
 ): RobustDefinition | undefined {
   const usesYield =
-    objectives.some((o) => o.metric === 'build_yield') || constraints.some((c) => c.metric === 'build_yield');
+    quantiles.length > 0 ||
+    objectives.some((o) => o.metric === 'build_yield') ||
+    constraints.some((c) => c.metric === 'build_yield');
   if (!tolerances) {
     if (usesYield)
-      fail(file, { path: ['tolerances'], message: 'required for build_yield: a tolerances section with sweep_draws' });
+      fail(file, {
+        path: ['tolerances'],
+        message: 'required for build_yield or a quantile merit: a tolerances section with sweep_draws',
+      });
     return undefined;
   }
   let tolerance: ReturnType<typeof toleranceSpace>;
@@ -436,14 +449,16 @@ function readRobust(
   if (tolerances.sweepDraws === null)
     fail(file, {
       path: ['tolerances', 'sweep_draws'],
-      message: 'required for build_yield: the tolerance draws per design (each costs one more evaluation)',
+      message:
+        'required for build_yield or a quantile merit: the tolerance draws per design (each costs one more evaluation)',
     });
   return {
     tolerance,
     draws: tolerances.sweepDraws,
     seed: tolerances.seed ?? space.seed,
-    constraints: constraints.filter((c) => c.metric !== 'build_yield'),
-    required: objectives.map((o) => o.metric).filter((m) => m !== 'build_yield'),
+    constraints: constraints.filter((c) => !isRobustMetric(c.metric)),
+    required: objectives.map((o) => o.metric).filter((m) => !isRobustMetric(m)),
+    ...(quantiles.length > 0 ? { quantiles } : {}),
   };
 }
 
@@ -455,7 +470,7 @@ export function sweepFromValue(value: unknown, file: string, options: SweepReadO
       `expected a mapping with design, constraints, objectives and sweep, got ${describeValue(value)}`,
     );
   }
-  const { reading, constraints, objectives, tolerances } = readProblem(value, file);
+  const { reading, constraints, objectives, tolerances, quantiles } = readProblem(value, file);
   const { tree, dimensions } = reading;
   const { settings, method, seed, shardCount, stages, samples, gridLevels } = readSettings(
     value.sweep,
@@ -467,7 +482,7 @@ export function sweepFromValue(value: unknown, file: string, options: SweepReadO
   const referencePoint = readReferencePoint(settings.reference_point, objectives, file);
   checkStructure(tree, dimensions, file);
   const space = { tree, dimensions, method, samples, seed, gridLevels };
-  const robust = readRobust(tolerances, space, constraints, objectives, file);
+  const robust = readRobust(tolerances, space, constraints, objectives, quantiles, file);
   return {
     ...(robust ? { robust } : {}),
     tree,

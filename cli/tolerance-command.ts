@@ -38,6 +38,7 @@ import { RUN_FILES } from '../run/run-directory.ts';
 import { SAFETY_LINE, safetyBlock } from './safety.ts';
 import { readConstraints, readObjectives, loadRunSpec } from './sweep-spec.ts';
 import type { ConstraintDefinition, ObjectiveDefinition } from '../optimize/sweep-state.ts';
+import { isRobustMetric } from '../optimize/tolerance/robust-yield.ts';
 import { suggest } from './suggest.ts';
 import { readTolerances, type ToleranceSection } from './tolerance-spec.ts';
 import { describeValue } from './units.ts';
@@ -185,8 +186,8 @@ export async function toleranceCommand(target: string, options: ToleranceCommand
       throw new InputError(`${target}: the sweep file has no tolerances: section; add one, or give --tolerances FILE`);
     section = given;
     // build_yield is the sweep's own robust merit (a few draws per design): the study measures it afresh.
-    constraints = [...spec.constraints, ...(file?.constraints ?? [])].filter((c) => c.metric !== 'build_yield');
-    objectives = [...spec.objectives, ...(file?.objectives ?? [])].filter((o) => o.metric !== 'build_yield');
+    constraints = [...spec.constraints, ...(file?.constraints ?? [])].filter((c) => !isRobustMetric(c.metric));
+    objectives = [...spec.objectives, ...(file?.objectives ?? [])].filter((o) => !isRobustMetric(o.metric));
     base = spaceDefinitionOf(spec);
     const space = new DesignSpace(base);
     candidates = runCandidates(target, top).map((c) => {

@@ -331,6 +331,13 @@ export const METRICS: readonly MetricInfo[] = [
     "the resonator's top capacitance over the junction's, C3/C2 (15/32 at complete transfer)",
   ),
   metric('three_coil_coupling_ratio', '', 'coupling over the complete-transfer coupling √(5/11) = 0.674'),
+  ...[1, 2, 3, 4].map((k) =>
+    metric(
+      `build_quantile_${k}`,
+      '',
+      `quantile merit ${k} of the sweep file (objectives first, then constraints, in the file's order): that quantile of its metric over the sweep's tolerance draws, in SI; only in sweeps that ask for it`,
+    ),
+  ),
 ];
 
 export const METRIC_KEYS: readonly string[] = METRICS.map((m) => m.key);

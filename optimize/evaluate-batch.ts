@@ -12,7 +12,7 @@ import { warningMask } from '../core/outcome/warnings.ts';
 import { evaluateDesign } from '../core/evaluate.ts';
 import { METRIC_KEYS } from '../core/metrics.ts';
 import type { DesignSpace } from './design-space.ts';
-import { robustYield } from './tolerance/robust-yield.ts';
+import { QUANTILE_SLOTS, robustMerits } from './tolerance/robust-yield.ts';
 import { must } from '../core/must.ts';
 
 export const STATUS_OK = 0;
@@ -38,6 +38,7 @@ export interface BatchResult {
 
 const METRIC_COUNT = METRIC_KEYS.length;
 const BUILD_YIELD = METRIC_KEYS.indexOf('build_yield');
+const QUANTILE_COLUMNS = QUANTILE_SLOTS.map((key) => METRIC_KEYS.indexOf(key));
 
 /** Evaluates one batch in this thread. Never throws for a design: failures become status rows. */
 export function evaluateBatchTask(
@@ -91,9 +92,14 @@ export function evaluateBatchTask(
         result.metrics[row * METRIC_COUNT + m] = value;
       }
       result.warningMasks[row] = warningMask(evaluation.warnings);
-      // A robust merit: the design's yield over the sweep's tolerance draws (optimize/tolerance/robust-yield.ts).
+      // Robust merits: the design's yield and quantiles over the sweep's tolerance draws (optimize/tolerance/robust-yield.ts).
       const robust = space.definition.robust;
-      if (robust && failure === null) result.metrics[row * METRIC_COUNT + BUILD_YIELD] = robustYield(robust, values);
+      if (robust && failure === null) {
+        const merits = robustMerits(robust, values);
+        result.metrics[row * METRIC_COUNT + BUILD_YIELD] = merits.buildYield;
+        for (let q = 0; q < merits.quantiles.length; q++)
+          result.metrics[row * METRIC_COUNT + QUANTILE_COLUMNS[q]] = merits.quantiles[q];
+      }
       if (failure) {
         result.metrics.fill(Number.NaN, row * METRIC_COUNT, (row + 1) * METRIC_COUNT);
         result.status[row] = STATUS_FAILED;

@@ -1,25 +1,58 @@
 /**
- * A robust merit inside a sweep: the `build_yield` metric of a design, the fraction of a few tolerance
- * draws (the same common random numbers as `coilfront tolerance`, draws 0 … n − 1) that would be feasible
- * candidates: built, evaluated, every constraint met, every required metric available. Evaluated in the
- * worker with the design, so it costs n more evaluations per design, and refine and evolve see the same
- * merit. A pure function of the design's values, the tolerances and the seed.
+ * Robust merits inside a sweep, over a few tolerance draws (the same common random numbers as
+ * `coilfront tolerance`, draws 0 … n − 1):
+ * - `build_yield`: the fraction of the draws that would be feasible candidates: built, evaluated, every
+ *   constraint met, every required metric available;
+ * - `build_quantile_k`: quantile p of a metric over the draws that have it (linear interpolation between
+ *   order statistics, Hyndman & Fan 1996 definition 7 [hyndman1996], as the tolerance study computes it).
+ * Evaluated in the worker with the design, so they cost n more evaluations per design, and refine and
+ * evolve see the same merits. A pure function of the design's values, the tolerances and the seed.
  */
 import { evaluateDesign } from '../../core/evaluate.ts';
 import { DesignSpace } from '../design-space.ts';
 import { totalViolation } from '../pareto/constraint-violation.ts';
 import { ToleranceDraws } from './tolerance-draws.ts';
+import { sortedQuantile } from './quantile.ts';
 import type { ToleranceConstraint } from './tolerance-run.ts';
 import { drawRow, type ToleranceSpace } from './tolerance-space.ts';
+
+/** The metric columns of the quantile merits, in slot order (core/metrics.ts). */
+export const QUANTILE_SLOTS: readonly string[] = [
+  'build_quantile_1',
+  'build_quantile_2',
+  'build_quantile_3',
+  'build_quantile_4',
+];
+
+/** Whether a metric is a robust merit (computed over the draws, never a build's own metric). */
+export function isRobustMetric(metric: string): boolean {
+  return metric === 'build_yield' || QUANTILE_SLOTS.includes(metric);
+}
+
+/** Quantile merit k: the p quantile of `metric` over the draws, written into QUANTILE_SLOTS[k]. */
+export interface RobustQuantile {
+  metric: string;
+  /** 0 < p < 1. */
+  p: number;
+}
 
 export interface RobustDefinition {
   tolerance: ToleranceSpace;
   draws: number;
   seed: number;
-  /** The sweep's constraints (build_yield's own left out). */
+  /** The sweep's constraints (the robust merits' own left out). */
   constraints: ToleranceConstraint[];
-  /** Metrics a build must have (the sweep's objectives, build_yield left out). */
+  /** Metrics a build must have (the sweep's objectives, the robust merits left out). */
   required: string[];
+  /** The quantile merits, in slot order (none: build_yield alone). */
+  quantiles?: RobustQuantile[];
+}
+
+/** The robust merits of one design. */
+export interface RobustMerits {
+  buildYield: number;
+  /** One per quantile merit; NaN where no draw has the metric. */
+  quantiles: number[];
 }
 
 interface Prepared {
@@ -46,31 +79,54 @@ function prepare(robust: RobustDefinition): Prepared {
   return ready;
 }
 
-/** Whether one build passes: evaluated without problems, constraints met, required metrics finite. */
-function buildPasses(robust: RobustDefinition, space: DesignSpace, row: Float64Array): boolean {
+/** The metrics of one build, or null where it cannot be built or evaluated (a problem, a throw, a non-finite metric). */
+function buildMetrics(space: DesignSpace, row: Float64Array): Record<string, number | null> | null {
   const sampled = space.designOf(row);
-  if (!sampled.design) return false;
+  if (!sampled.design) return null;
   let evaluation: ReturnType<typeof evaluateDesign>;
   try {
     evaluation = evaluateDesign(sampled.design);
   } catch {
-    return false;
+    return null;
   }
-  if (evaluation.problems.length > 0) return false;
-  const metrics = evaluation.metrics;
-  for (const value of Object.values(metrics)) if (value !== null && !Number.isFinite(value)) return false;
+  if (evaluation.problems.length > 0) return null;
+  for (const value of Object.values(evaluation.metrics)) if (value !== null && !Number.isFinite(value)) return null;
+  return evaluation.metrics;
+}
+
+/** Whether an evaluated build passes: constraints met, required metrics available. */
+function buildPasses(robust: RobustDefinition, metrics: Record<string, number | null>): boolean {
   const values = robust.constraints.map((c) => metrics[c.metric] ?? null);
   if (totalViolation(values, robust.constraints) > 0) return false;
   return robust.required.every((key) => metrics[key] !== null && metrics[key] !== undefined);
 }
 
-/** The build_yield of a design with these sweep values. */
-export function robustYield(robust: RobustDefinition, values: ArrayLike<number>): number {
+/** The robust merits of a design with these sweep values. */
+export function robustMerits(robust: RobustDefinition, values: ArrayLike<number>): RobustMerits {
   const { space, deviates, row } = prepare(robust);
+  const quantiles = robust.quantiles ?? [];
+  const samples = quantiles.map(() => [] as number[]);
   let passing = 0;
   for (const z of deviates) {
     drawRow(robust.tolerance, values, z, row);
-    if (buildPasses(robust, space, row)) passing++;
+    const metrics = buildMetrics(space, row);
+    if (metrics === null) continue;
+    if (buildPasses(robust, metrics)) passing++;
+    for (let q = 0; q < quantiles.length; q++) {
+      const value = metrics[quantiles[q].metric];
+      if (value !== null && value !== undefined) samples[q].push(value);
+    }
   }
-  return passing / robust.draws;
+  return {
+    buildYield: passing / robust.draws,
+    quantiles: quantiles.map((q, k) => {
+      const kept = samples[k].sort((a, b) => a - b);
+      return kept.length === 0 ? Number.NaN : sortedQuantile(kept, q.p);
+    }),
+  };
+}
+
+/** The build_yield of a design with these sweep values. */
+export function robustYield(robust: RobustDefinition, values: ArrayLike<number>): number {
+  return robustMerits(robust, values).buildYield;
 }

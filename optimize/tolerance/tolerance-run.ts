@@ -10,8 +10,11 @@ import { METRIC_KEYS, metricIndex } from '../../core/metrics.ts';
 import { STATUS_OK, type BatchEvaluator, type BatchResult } from '../evaluate-batch.ts';
 import { type MetricBounds, totalViolation } from '../pareto/constraint-violation.ts';
 import { type ProportionInterval, wilsonInterval } from '../sensitivity/wilson.ts';
+import { sortedQuantile } from './quantile.ts';
 import { ToleranceDraws } from './tolerance-draws.ts';
 import { drawRow, type ToleranceSpace } from './tolerance-space.ts';
+
+export { sortedQuantile };
 
 export interface ToleranceConstraint extends MetricBounds {
   metric: string;
@@ -48,17 +51,6 @@ export interface CandidateTolerance {
   impossibleBy: Record<string, number>;
   yield: ProportionInterval;
   quantiles: MetricQuantiles[];
-}
-
-/** Quantile p of ascending `sorted` values, definition 7 of Hyndman & Fan (1996): x[h] with h = (n − 1)p. */
-export function sortedQuantile(sorted: ArrayLike<number>, p: number): number {
-  const n = sorted.length;
-  if (n === 0) throw new RangeError('sortedQuantile: no values');
-  if (!(p >= 0 && p <= 1)) throw new RangeError(`sortedQuantile: p must be in [0, 1], got ${p}`);
-  const h = (n - 1) * p;
-  const lower = Math.floor(h);
-  const upper = Math.min(n - 1, lower + 1);
-  return sorted[lower] + (h - lower) * (sorted[upper] - sorted[lower]);
 }
 
 /** Evaluates the draws of one candidate (its base values) and summarises them. */
