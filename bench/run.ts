@@ -40,6 +40,10 @@ if (!quick)
 for (const [title, run] of sections) {
   console.log(`\n== ${title}`);
   const started = performance.now();
-  for (const line of await run()) console.log(line);
+  for (const line of await run()) {
+    console.log(line);
+    // A non-finite figure is a broken physics path, not a slow machine: the bench run fails on it.
+    if (line.includes('non-finite')) process.exitCode = 1;
+  }
   console.log(`(${((performance.now() - started) / 1000).toFixed(1)} s)`);
 }

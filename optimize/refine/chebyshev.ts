@@ -132,7 +132,7 @@ export function frontExtent(front: ReadonlyArray<ArrayLike<number>>): FrontExten
  * well above the true front, and once a refined point passes below the reference point in some
  * objective the Chebyshev merit stops seeing that objective (only the augmentation term does); on
  * ZDT1 from a coarse sample, margin 1 gave more hypervolume than the customary small margin
- * 0.05 (test/optimize/refine-chebyshev.test.ts pins both).
+ * 0.05 (test/optimize/refine/refine-chebyshev.test.ts pins both).
  */
 export function utopianPoint(extent: FrontExtent, margin = 1): Float64Array {
   const count = extent.ideal.length;
