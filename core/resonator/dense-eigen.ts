@@ -144,3 +144,199 @@ export function generalizedSymmetricEigen(k: Float64Array, m: Float64Array, n: n
   }
   return { values: standard.values, vectors };
 }
+
+/**
+ * A symmetric matrix reduced to tridiagonal form by Householder reflections, A = Q T Qᵀ
+ * [golubvanloan2013] Algorithm 8.3.1: the diagonal and subdiagonal of T and the reflections
+ * (Q = H_0 H_1 ⋯ H_(n−3), H_k = I − β_k v_k v_kᵀ acting on indices k + 1 … n − 1).
+ */
+export interface Tridiagonal {
+  n: number;
+  diagonal: Float64Array;
+  /** offDiagonal[k] = T(k + 1, k), n − 1 entries. */
+  offDiagonal: Float64Array;
+  /** Reflection k: its vector in reflectors[k·n + k + 1 …], its β in betas[k]. */
+  reflectors: Float64Array;
+  betas: Float64Array;
+}
+
+/** Householder tridiagonalisation of a symmetric n × n matrix (row-major; the input is not changed). */
+export function tridiagonalize(matrix: Float64Array, n: number): Tridiagonal {
+  const a = Float64Array.from(matrix.subarray(0, n * n));
+  const reflectors = new Float64Array(n * n);
+  const betas = new Float64Array(Math.max(0, n - 2));
+  const offDiagonal = new Float64Array(Math.max(0, n - 1));
+  const p = new Float64Array(n);
+  for (let k = 0; k < n - 2; k++) {
+    let norm = 0;
+    for (let i = k + 1; i < n; i++) norm += a[i * n + k] * a[i * n + k];
+    norm = Math.sqrt(norm);
+    if (norm === 0) continue; // already reduced in this column: H_k = I
+    const first = a[(k + 1) * n + k];
+    const alpha = first > 0 ? -norm : norm;
+    const v = reflectors.subarray(k * n, k * n + n);
+    for (let i = k + 1; i < n; i++) v[i] = a[i * n + k];
+    v[k + 1] -= alpha;
+    let vv = 0;
+    for (let i = k + 1; i < n; i++) vv += v[i] * v[i];
+    const beta = 2 / vv;
+    betas[k] = beta;
+    // The trailing block S ← H S H = S − v wᵀ − w vᵀ, p = β S v, w = p − (β/2)(pᵀv) v.
+    let pv = 0;
+    for (let i = k + 1; i < n; i++) {
+      let sum = 0;
+      for (let j = k + 1; j < n; j++) sum += a[i * n + j] * v[j];
+      p[i] = beta * sum;
+      pv += p[i] * v[i];
+    }
+    const half = 0.5 * beta * pv;
+    for (let i = k + 1; i < n; i++) p[i] -= half * v[i];
+    for (let i = k + 1; i < n; i++) for (let j = k + 1; j < n; j++) a[i * n + j] -= v[i] * p[j] + p[i] * v[j];
+    a[(k + 1) * n + k] = alpha;
+  }
+  const diagonal = new Float64Array(n);
+  for (let i = 0; i < n; i++) diagonal[i] = a[i * n + i];
+  for (let i = 0; i + 1 < n; i++) offDiagonal[i] = a[(i + 1) * n + i];
+  return { n, diagonal, offDiagonal, reflectors, betas };
+}
+
+/** y = Q z in place: the reflections applied from the last to the first. */
+export function applyReflections(t: Tridiagonal, z: Float64Array): void {
+  const n = t.n;
+  for (let k = n - 3; k >= 0; k--) {
+    const beta = t.betas[k];
+    if (beta === 0) continue;
+    let dot = 0;
+    for (let i = k + 1; i < n; i++) dot += t.reflectors[k * n + i] * z[i];
+    const scale = beta * dot;
+    for (let i = k + 1; i < n; i++) z[i] -= scale * t.reflectors[k * n + i];
+  }
+}
+
+const MAX_QR_STEPS_PER_VALUE = 30;
+
+/**
+ * All eigenvalues of a symmetric tridiagonal matrix, ascending, by the implicit symmetric QR
+ * iteration with the Wilkinson shift ([golubvanloan2013] Algorithms 8.3.2 and 8.3.3): a Givens
+ * rotation chases the bulge down each unreduced block; an off-diagonal entry below
+ * ε (|d_i| + |d_(i+1)|) is set to zero. Null if the iteration does not settle (never seen).
+ */
+export function tridiagonalEigenvalues(
+  diagonal: ArrayLike<number>,
+  offDiagonal: ArrayLike<number>,
+): Float64Array | null {
+  const n = diagonal.length;
+  const d = Float64Array.from(diagonal);
+  const e = Float64Array.from(offDiagonal);
+  let m = n - 1;
+  let steps = 0;
+  while (m > 0) {
+    if (Math.abs(e[m - 1]) <= Number.EPSILON * (Math.abs(d[m - 1]) + Math.abs(d[m]))) {
+      e[m - 1] = 0;
+      m--;
+      continue;
+    }
+    if (++steps > MAX_QR_STEPS_PER_VALUE * n) return null;
+    let l = m - 1;
+    while (l > 0 && Math.abs(e[l - 1]) > Number.EPSILON * (Math.abs(d[l - 1]) + Math.abs(d[l]))) l--;
+    // Wilkinson shift: the eigenvalue of the trailing 2 × 2 block nearer d_m.
+    const half = 0.5 * (d[m - 1] - d[m]);
+    const last = e[m - 1];
+    const shift = d[m] - (last * last) / (half + (half >= 0 ? 1 : -1) * Math.hypot(half, last));
+    let x = d[l] - shift;
+    let z = e[l];
+    for (let k = l; k < m; k++) {
+      const r = Math.hypot(x, z);
+      const c = r === 0 ? 1 : x / r;
+      const s = r === 0 ? 0 : z / r;
+      if (k > l) e[k - 1] = r;
+      const a = d[k];
+      const b = e[k];
+      const cc = d[k + 1];
+      d[k] = c * c * a + 2 * c * s * b + s * s * cc;
+      d[k + 1] = s * s * a - 2 * c * s * b + c * c * cc;
+      e[k] = c * s * (cc - a) + (c * c - s * s) * b;
+      if (k + 1 < m) {
+        x = e[k];
+        z = s * e[k + 1];
+        e[k + 1] *= c;
+      }
+    }
+  }
+  return d.sort();
+}
+
+/**
+ * The unit eigenvector of a symmetric tridiagonal matrix for a computed eigenvalue, by inverse
+ * iteration ([golubvanloan2013] §8.2.2, §7.6.1): (T − σ I) x_(k+1) = x_k with σ the eigenvalue,
+ * solved by Gaussian elimination with partial pivoting in banded form (§4.3.5; a zero pivot
+ * becomes ε‖T‖). Three steps from a start that no eigenvector is orthogonal to in practice.
+ */
+export function tridiagonalEigenvector(
+  diagonal: ArrayLike<number>,
+  offDiagonal: ArrayLike<number>,
+  eigenvalue: number,
+): Float64Array {
+  const n = diagonal.length;
+  let norm = 0;
+  for (let i = 0; i < n; i++)
+    norm = Math.max(
+      norm,
+      Math.abs(diagonal[i]) + (i > 0 ? Math.abs(offDiagonal[i - 1]) : 0) + (i + 1 < n ? Math.abs(offDiagonal[i]) : 0),
+    );
+  const tiny = Number.EPSILON * (norm > 0 ? norm : 1);
+  // Factor P (T − σ I) = L U: U has two superdiagonals (u1, u2), L unit lower bidiagonal (lower).
+  const u0 = new Float64Array(n);
+  const u1 = new Float64Array(n);
+  const u2 = new Float64Array(n);
+  const lower = new Float64Array(n);
+  const swapped = new Uint8Array(n);
+  for (let i = 0; i < n; i++) u0[i] = diagonal[i] - eigenvalue;
+  for (let i = 0; i + 1 < n; i++) u1[i] = offDiagonal[i];
+  for (let i = 0; i + 1 < n; i++) {
+    const below = offDiagonal[i]; // T(i + 1, i)
+    if (Math.abs(u0[i]) >= Math.abs(below)) {
+      if (u0[i] === 0) u0[i] = tiny;
+      const factor = below / u0[i];
+      lower[i] = factor;
+      u0[i + 1] -= factor * u1[i];
+    } else {
+      swapped[i] = 1;
+      const factor = u0[i] / below;
+      lower[i] = factor;
+      u0[i] = below;
+      const above = u1[i];
+      u1[i] = u0[i + 1];
+      u0[i + 1] = above - factor * u0[i + 1];
+      if (i + 2 < n) {
+        u2[i] = u1[i + 1];
+        u1[i + 1] = -factor * u1[i + 1];
+      }
+    }
+  }
+  if (u0[n - 1] === 0) u0[n - 1] = tiny;
+  const x = new Float64Array(n);
+  for (let i = 0; i < n; i++) x[i] = 1 + i / (3 * n);
+  for (let step = 0; step < 3; step++) {
+    for (let i = 0; i + 1 < n; i++) {
+      if (swapped[i]) {
+        const top = x[i];
+        x[i] = x[i + 1];
+        x[i + 1] = top - lower[i] * x[i + 1];
+      } else {
+        x[i + 1] -= lower[i] * x[i];
+      }
+    }
+    for (let i = n - 1; i >= 0; i--) {
+      let sum = x[i];
+      if (i + 1 < n) sum -= u1[i] * x[i + 1];
+      if (i + 2 < n) sum -= u2[i] * x[i + 2];
+      x[i] = sum / u0[i];
+    }
+    let length = 0;
+    for (let i = 0; i < n; i++) length += x[i] * x[i];
+    length = Math.sqrt(length);
+    for (let i = 0; i < n; i++) x[i] /= length;
+  }
+  return x;
+}

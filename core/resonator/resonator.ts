@@ -8,7 +8,7 @@
  *   L di/dt = −Dᵀ v  (the drop across each segment),   C dv/dt = D i  (charge conservation),
  * D the n × n incidence matrix (D_kk = 1, D_k,k+1 = −1: current in from below, out above). So
  *   ω² C v = K v,  K = D L⁻¹ Dᵀ,
- * a symmetric-definite generalised eigenproblem (dense-eigen.ts). It is the lumped-element
+ * a symmetric-definite generalised eigenproblem (solved in standard form, see solveResonator). It is the lumped-element
  * (Kirchhoff) discretisation of the multiconductor-line model of a coil with the full mutual
  * inductance and capacitance of every part to every other [paul2008] ch. 4–5; a uniform line gives
  * the quarter-wave ladder, a dominant top capacitance gives Thomson's 1/(2π√(L C)).
@@ -21,10 +21,12 @@
  * segments are m_k is M_eff = |m · i| / I_eff (same flux linkage for the same energy).
  */
 import {
+  applyReflections,
   backSubstituteTransposed,
   choleskyFactor,
-  forwardSubstitute,
-  generalizedSymmetricEigen,
+  tridiagonalEigenvalues,
+  tridiagonalEigenvector,
+  tridiagonalize,
 } from './dense-eigen.ts';
 
 /** The ladder's inputs, SI, row-major matrices. */
@@ -51,8 +53,10 @@ export interface ResonatorMode {
 
 /** What solveResonator returns. */
 export interface ResonatorSolution {
-  /** Modes by ascending frequency (all n). */
+  /** The lowest modes with their profiles, by ascending frequency (PROFILED_MODES of them, at most n). */
   modes: ResonatorMode[];
+  /** The frequencies of all n modes, ascending, Hz. */
+  frequencies: Float64Array;
   /** The fundamental (modes[0]). */
   fundamental: ResonatorMode;
   /** First overtone frequency / fundamental; null for n = 1. */
@@ -90,59 +94,84 @@ function quadratic(matrix: Float64Array, n: number, x: ArrayLike<number>): numbe
   return sum;
 }
 
-/** Dᵀ v: the rise v_k − v_(k−1) across each segment (v_0 = 0). */
-function segmentRise(v: ArrayLike<number>, n: number): Float64Array {
-  const rise = new Float64Array(n);
-  for (let k = 0; k < n; k++) rise[k] = v[k] - (k > 0 ? v[k - 1] : 0);
-  return rise;
+/** How many modes carry their profiles: the fundamental and the first overtone. */
+export const PROFILED_MODES = 2;
+
+/**
+ * P = K⁻¹ = D⁻ᵀ L D⁻¹: (D⁻¹)_ij = 1 for j ≥ i, so P_ij = Σ_(k≤i) Σ_(l≤j) L_kl, the mutual
+ * inductance of the paths from the base to nodes i and j; O(n²) by running sums.
+ */
+function pathInductance(inductance: Float64Array, n: number): Float64Array {
+  const p = new Float64Array(n * n);
+  for (let i = 0; i < n; i++) {
+    let row = 0;
+    for (let j = 0; j < n; j++) {
+      row += inductance[i * n + j];
+      p[i * n + j] = row + (i > 0 ? p[(i - 1) * n + j] : 0);
+    }
+  }
+  return p;
 }
 
 /**
  * Solves the ladder. Null when a matrix is not positive definite (an impossible input).
+ *
+ * With P = K⁻¹ (pathInductance) the problem K v = ω² C v is P C v = v / ω²; with C = G Gᵀ and
+ * y = Gᵀ v it is the standard symmetric problem Gᵀ P G y = y / ω², whose largest eigenvalues are
+ * the lowest modes. Its eigenvalues come from the tridiagonal form (dense-eigen.ts), the profiles of
+ * the fundamental and the first overtone by inverse iteration, v = G⁻ᵀ Q z. The segment currents
+ * follow from charge conservation, D i = ω C v: i_k = ω Σ_(j≥k) (C v)_j, the current that charges
+ * every node above the segment (the same as L⁻¹ Dᵀ v / ω, without inverting L).
  */
 export function solveResonator(ladder: LadderMatrices): ResonatorSolution | null {
   const n = ladder.fractions.length - 1;
   if (!(n >= 1) || ladder.inductance.length < n * n || ladder.capacitance.length < n * n) return null;
-  const g = choleskyFactor(ladder.inductance, n);
+  const g = choleskyFactor(ladder.capacitance, n);
   if (!g) return null;
-  // K = D L⁻¹ Dᵀ: column j of L⁻¹ Dᵀ is L⁻¹ (Dᵀ e_j), Dᵀ e_j = e_j − e_(j+1).
-  const inverseRise = (rise: Float64Array) => {
-    const x = Float64Array.from(rise);
-    forwardSubstitute(g, n, x);
-    backSubstituteTransposed(g, n, x);
-    return x;
-  };
-  const stiffness = new Float64Array(n * n);
-  for (let j = 0; j < n; j++) {
-    const unit = new Float64Array(n);
-    unit[j] = 1;
-    const column = inverseRise(segmentRise(unit, n)); // L⁻¹ Dᵀ e_j
-    // D column: (D x)_k = x_k − x_(k+1)
-    for (let k = 0; k < n; k++) stiffness[k * n + j] = column[k] - (k + 1 < n ? column[k + 1] : 0);
-  }
-  for (let i = 0; i < n; i++) {
-    for (let j = i + 1; j < n; j++) {
-      const mean = 0.5 * (stiffness[i * n + j] + stiffness[j * n + i]);
-      stiffness[i * n + j] = mean;
-      stiffness[j * n + i] = mean;
+  const p = pathInductance(ladder.inductance, n);
+  // A = Gᵀ P G (G lower triangular): X = P G, then A = Gᵀ X, upper half mirrored.
+  const x = new Float64Array(n * n);
+  for (let i = 0; i < n; i++)
+    for (let j = 0; j < n; j++) {
+      let sum = 0;
+      for (let k = j; k < n; k++) sum += p[i * n + k] * g[k * n + j];
+      x[i * n + j] = sum;
     }
-  }
-  const eigen = generalizedSymmetricEigen(stiffness, ladder.capacitance, n);
-  if (!eigen) return null;
+  const a = new Float64Array(n * n);
+  for (let i = 0; i < n; i++)
+    for (let j = i; j < n; j++) {
+      let sum = 0;
+      for (let k = i; k < n; k++) sum += g[k * n + i] * x[k * n + j];
+      a[i * n + j] = sum;
+      a[j * n + i] = sum;
+    }
+  const tridiagonal = tridiagonalize(a, n);
+  const values = tridiagonalEigenvalues(tridiagonal.diagonal, tridiagonal.offDiagonal);
+  if (!values) return null;
+  const largest = values[n - 1];
+  // Every 1/ω² positive (P and C definite), and none lost in the rounding of the largest.
+  if (!(largest > 0) || !(values[0] > 1e-13 * largest)) return null;
+  const frequencies = new Float64Array(n);
+  for (let m = 0; m < n; m++) frequencies[m] = 1 / (2 * Math.PI * Math.sqrt(values[n - 1 - m]));
   const modes: ResonatorMode[] = [];
-  for (let m = 0; m < n; m++) {
-    const lambda = eigen.values[m];
-    if (!(lambda > 0)) return null;
-    const omega = Math.sqrt(lambda);
-    const raw = new Float64Array(n);
-    for (let k = 0; k < n; k++) raw[k] = eigen.vectors[k * n + m];
+  for (let m = 0; m < Math.min(n, PROFILED_MODES); m++) {
+    const mu = values[n - 1 - m];
+    const raw = tridiagonalEigenvector(tridiagonal.diagonal, tridiagonal.offDiagonal, mu);
+    applyReflections(tridiagonal, raw);
+    backSubstituteTransposed(g, n, raw); // v = G⁻ᵀ y
     const top = raw[n - 1];
     const scale = top !== 0 ? 1 / top : 1;
     const voltage = new Float64Array(n + 1);
     for (let k = 0; k < n; k++) voltage[k + 1] = raw[k] * scale;
-    const current = inverseRise(segmentRise(voltage.subarray(1), n));
-    for (let k = 0; k < n; k++) current[k] /= omega;
-    modes.push({ frequency: omega / (2 * Math.PI), voltage, current });
+    const omega = 1 / Math.sqrt(mu);
+    const charge = multiply(ladder.capacitance, n, voltage.subarray(1));
+    const current = new Float64Array(n);
+    let above = 0;
+    for (let k = n - 1; k >= 0; k--) {
+      above += charge[k];
+      current[k] = omega * above;
+    }
+    modes.push({ frequency: frequencies[m], voltage, current });
   }
   const fundamental = modes[0];
   const v = fundamental.voltage.subarray(1);
@@ -163,8 +192,9 @@ export function solveResonator(ladder: LadderMatrices): ResonatorSolution | null
   }
   return {
     modes,
+    frequencies,
     fundamental,
-    overtoneRatio: n > 1 ? modes[1].frequency / fundamental.frequency : null,
+    overtoneRatio: n > 1 ? frequencies[1] / fundamental.frequency : null,
     effectiveCapacitance,
     effectiveInductance,
     effectiveCurrent: Math.sqrt((2 * magnetic) / effectiveInductance),
