@@ -186,11 +186,12 @@ function registerStudyCommands(program: Command, io: CliIo, setExit: (code: numb
     .command('tolerance')
     .description('yield and metric quantiles of candidates built with tolerances (same draws for every candidate)')
     .argument('<target>', 'run directory of a sweep, or a design file (with --tolerances)')
-    .option('--top <n>', 'candidates of candidates.csv to study', integer('--top'), 20)
+    .option('--top <n>', 'first ranks of the list (--from) to study', integer('--top'), 20)
     .option('--draws <n>', "builds per candidate (default: the tolerances' draws, or 256)", integer('--draws'))
     .option('--tolerances <file>', 'file with a tolerances: section (and constraints, objectives, metrics)')
     .option('--workers <n>', 'worker threads (default: available parallelism)', integer('--workers'))
     .option('--out <dir>', 'directory for tolerance.csv and tolerance.json of a design file', '.')
+    .option('--from <list>', 'designs of the run to study: candidates, refined (r1 …) or evolved (e1 …)', 'candidates')
     .action(async (target: string, options: ToleranceCommandOptions) => {
       setExit(await toleranceCommand(target, options, io));
     });
