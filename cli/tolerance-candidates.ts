@@ -3,12 +3,13 @@
  * ranks of candidates.csv (`3`, rebuilt from its sample index), or of refined.json (`r3`) or evolved.json
  * (`e3`), rebuilt from their full-precision values, never from the rounded CSV cells.
  */
+import { fileError } from './input-errors.ts';
 import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { parse as parseCsv } from 'csv-parse/sync';
 import { DesignSpace, spaceDefinitionOf } from '../optimize/design-space.ts';
 import { isRobustMetric } from '../optimize/tolerance/robust-yield.ts';
-import { InputError, optionError } from '../run/input-error.ts';
+import { optionError } from '../run/input-error.ts';
 import { RUN_FILES } from '../run/run-directory.ts';
 import type { StudyCandidate } from '../run/tolerance-run.ts';
 import { loadRunSpec } from './sweep-spec.ts';
@@ -21,12 +22,12 @@ const SOURCES: readonly StudySource[] = ['candidates', 'refined', 'evolved'];
 function rankedCandidates(directory: string, space: DesignSpace, top: number): StudyCandidate[] {
   const path = join(directory, RUN_FILES.candidates);
   if (!existsSync(path))
-    throw new InputError(`${directory}: no ${RUN_FILES.candidates} (has the sweep finished or been stopped cleanly?)`);
+    throw fileError(directory, `no ${RUN_FILES.candidates} (has the sweep finished or been stopped cleanly?)`);
   const rows = parseCsv(readFileSync(path, 'utf8'), { columns: true, skip_empty_lines: true }) as Record<
     string,
     string
   >[];
-  if (rows.length === 0) throw new InputError(`${directory}: the sweep has no feasible candidates to study`);
+  if (rows.length === 0) throw fileError(directory, `the sweep has no feasible candidates to study`);
   const values = new Float64Array(space.dimensionCount);
   return rows.slice(0, top).map((row) => {
     const sampleIndex = Number(row.sample_index);
@@ -42,12 +43,12 @@ function stageCandidates(directory: string, source: 'refined' | 'evolved', top: 
       : { file: RUN_FILES.evolvedDesigns, prefix: 'e', command: 'evolve' };
   const path = join(directory, stage.file);
   if (!existsSync(path))
-    throw new InputError(`${directory}: no ${source} designs yet (run npx coilfront ${stage.command} ${directory})`);
+    throw fileError(directory, `no ${source} designs yet (run npx coilfront ${stage.command} ${directory})`);
   const designs = JSON.parse(readFileSync(path, 'utf8')) as { rank: number | null; values: number[] }[];
   // Designs without a rank (evolved ones near an improved one) are there for later stages only.
   const ranked = designs.filter((d): d is { rank: number; values: number[] } => d.rank !== null);
   ranked.sort((a, b) => a.rank - b.rank);
-  if (ranked.length === 0) throw new InputError(`${path}: no ranked ${source} designs to study`);
+  if (ranked.length === 0) throw fileError(path, `no ranked ${source} designs to study`);
   return ranked.slice(0, top).map((d) => ({ id: `${stage.prefix}${d.rank}`, sampleIndex: null, values: d.values }));
 }
 
@@ -63,7 +64,7 @@ export function runStudySetup(
   const spec = loadRunSpec(target);
   const section = file?.tolerances ?? spec.tolerances ?? null;
   if (!section)
-    throw new InputError(`${target}: the sweep file has no tolerances: section; add one, or give --tolerances FILE`);
+    throw fileError(target, `the sweep file has no tolerances: section; add one, or give --tolerances FILE`);
   const definition = spaceDefinitionOf(spec);
   const space = new DesignSpace(definition);
   return {

@@ -2,9 +2,10 @@
  * A `--tolerances FILE`: the tolerances: section, and for a lone design the constraints to meet, the
  * objectives (metrics a build must have) and further metrics to report.
  */
+import { fileError } from './input-errors.ts';
 import { METRIC_KEYS } from '../core/metrics.ts';
 import type { ConstraintDefinition, ObjectiveDefinition } from '../optimize/sweep-state.ts';
-import { fieldError, InputError, type InputIssue } from '../run/input-error.ts';
+import { fieldError, type InputIssue } from '../run/input-error.ts';
 import { readInputFile } from './read-file.ts';
 import { suggest } from './suggest.ts';
 import { readConstraints, readObjectives } from './sweep-spec.ts';
@@ -63,8 +64,9 @@ export function readToleranceFile(file: string): ToleranceFile {
     throw fieldError(file, issues[0]);
   };
   if (typeof value !== 'object' || value === null || Array.isArray(value))
-    throw new InputError(
-      `${file}: expected a mapping with tolerances (and constraints, objectives, metrics), got ${describeValue(value)}`,
+    throw fileError(
+      file,
+      `expected a mapping with tolerances (and constraints, objectives, metrics), got ${describeValue(value)}`,
     );
   const input = value as Record<string, unknown>;
   const unknown = Object.keys(input).find((key) => !FILE_KEYS.includes(key));
