@@ -260,6 +260,17 @@ const REPORT_SCRIPT = `
 /** The whole page. */
 export function reportHtml(data: ReportData): string {
   const parts: string[] = [];
+  headPart(parts, data);
+  countsPart(parts, data);
+  frontPart(parts, data);
+  sensitivitiesPart(parts, data);
+  studiesPart(parts, data);
+  notesAndScripts(parts, data);
+  return `${parts.join('\n')}\n`;
+}
+
+/** The page head (title, the content policy that forbids every fetch, the style) and the cautions first. */
+function headPart(parts: string[], data: ReportData): void {
   parts.push('<!DOCTYPE html>', '<html lang="en"><head><meta charset="utf-8">');
   parts.push(`<title>${escapeHtml(data.title)}</title>`);
   // Nothing may be fetched: a policy that forbids every network source but inline code and data URLs.
@@ -271,7 +282,10 @@ export function reportHtml(data: ReportData): string {
   parts.push('<div class="cautions" id="cautions"><h2>Safety: read this first</h2><ul>');
   for (const caution of joinedCautions()) parts.push(`<li>${escapeHtml(caution)}</li>`);
   parts.push('</ul></div></header>');
+}
 
+/** The run's counts and a bar per rejection reason. */
+function countsPart(parts: string[], data: ReportData): void {
   parts.push('<section id="counts"><h2>What the run evaluated</h2><div class="counts">');
   for (const [key, value] of Object.entries(data.counts)) {
     parts.push(`<div class="count" data-count="${escapeHtml(key)}"><b>${value}</b>${escapeHtml(key)}</div>`);
@@ -291,7 +305,10 @@ export function reportHtml(data: ReportData): string {
     );
   }
   parts.push('</section>');
+}
 
+/** The interactive front, the top-candidates table and the top three drawn to scale. */
+function frontPart(parts: string[], data: ReportData): void {
   parts.push('<section id="front"><h2>The front</h2>');
   parts.push(
     '<p class="axes"><label>across <select id="axis-x"></select></label><label>up <select id="axis-y"></select></label><span class="note">Hover a mark for its values; click a front mark (teal) for its drawing and key figures.</span></p>',
@@ -312,7 +329,10 @@ export function reportHtml(data: ReportData): string {
     if (svg) parts.push(`<figure data-rank="${escapeHtml(id)}">${svg}</figure>`);
   }
   parts.push('</div></section>');
+}
 
+/** The rank correlations of summary.json, coloured by sign. */
+function sensitivitiesPart(parts: string[], data: ReportData): void {
   if (data.sensitivities) {
     parts.push('<section id="sensitivities"><h2>Sensitivities</h2>');
     parts.push(
@@ -338,44 +358,48 @@ export function reportHtml(data: ReportData): string {
     });
     parts.push('</table></section>');
   }
+}
+
+/** The Sobol indices and the tolerance study, when the run holds them. */
+function studiesPart(parts: string[], data: ReportData): void {
   if (data.globalIndices) {
     parts.push('<section id="global-indices"><h2>Global sensitivity (Sobol indices)</h2>');
     parts.push(
       '<p class="note">From sensitivity.csv in the run (npx coilfront sensitivity … --out RUN): S1 the share of a metric\'s variance a field explains alone, ST with its interactions, 95 % bootstrap intervals.</p>',
     );
-    parts.push('<table><tr>');
-    for (const h of data.globalIndices.header) parts.push(`<th>${escapeHtml(h)}</th>`);
-    parts.push('</tr>');
-    for (const row of data.globalIndices.rows) {
-      parts.push('<tr>');
-      for (const cell of row) {
-        const text =
-          typeof cell === 'number' ? (Number.isInteger(cell) ? String(cell) : cell.toFixed(3)) : (cell ?? '—');
-        parts.push(`<td${typeof cell === 'number' ? '' : ' class="text"'}>${escapeHtml(String(text))}</td>`);
-      }
-      parts.push('</tr>');
-    }
-    parts.push('</table></section>');
+    studyTable(parts, data.globalIndices, (value) => value.toFixed(3));
   }
   if (data.buildTolerances) {
     parts.push('<section id="build-tolerances"><h2>Tolerances and yield</h2>');
     parts.push(
       '<p class="note">From tolerance.csv in the run (npx coilfront tolerance RUN): the fraction of builds within the tolerances that would be feasible candidates, with its 95 % Wilson interval, and the 5/50/95 % quantiles of each objective and constrained metric over the same builds for every candidate.</p>',
     );
-    parts.push('<table><tr>');
-    for (const h of data.buildTolerances.header) parts.push(`<th>${escapeHtml(h)}</th>`);
-    parts.push('</tr>');
-    for (const row of data.buildTolerances.rows) {
-      parts.push('<tr>');
-      for (const cell of row) {
-        const text =
-          typeof cell === 'number' ? (Number.isInteger(cell) ? String(cell) : cell.toPrecision(4)) : (cell ?? '—');
-        parts.push(`<td${typeof cell === 'number' ? '' : ' class="text"'}>${escapeHtml(String(text))}</td>`);
-      }
-      parts.push('</tr>');
-    }
-    parts.push('</table></section>');
+    studyTable(parts, data.buildTolerances, (value) => value.toPrecision(4));
   }
+}
+
+/** A study's table from its CSV (Sobol indices, tolerances): text cells left, numbers in their format. */
+function studyTable(
+  parts: string[],
+  table: { header: string[]; rows: Array<Array<string | number | null>> },
+  format: (value: number) => string,
+): void {
+  parts.push('<table><tr>');
+  for (const h of table.header) parts.push(`<th>${escapeHtml(h)}</th>`);
+  parts.push('</tr>');
+  for (const row of table.rows) {
+    parts.push('<tr>');
+    for (const cell of row) {
+      const text = typeof cell === 'number' ? (Number.isInteger(cell) ? String(cell) : format(cell)) : (cell ?? '—');
+      parts.push(`<td${typeof cell === 'number' ? '' : ' class="text"'}>${escapeHtml(String(text))}</td>`);
+    }
+    parts.push('</tr>');
+  }
+  parts.push('</table></section>');
+}
+
+/** The notes, the report data and the inlined libraries and page script. */
+function notesAndScripts(parts: string[], data: ReportData): void {
   if (data.notes.length > 0) {
     parts.push('<section id="notes"><h2>Notes</h2><ul>');
     for (const note of data.notes) parts.push(`<li class="note">${escapeHtml(note)}</li>`);
@@ -393,7 +417,6 @@ export function reportHtml(data: ReportData): string {
   }
   parts.push(`<script>${scriptSafe(REPORT_SCRIPT)}</script>`);
   parts.push('</body></html>');
-  return `${parts.join('\n')}\n`;
 }
 
 /** The cautions of cli/safety.ts, one item per caution (the indented lines continue the one before). */
