@@ -42,26 +42,10 @@ export function electrostaticsStage(context: EvalContext): void {
   const secondary = context.secondary;
   const environment = design.environment;
 
-  if (!(environment.altitude >= -500 && environment.altitude <= TROPOPAUSE_ALTITUDE)) {
-    problems.push({
-      field: 'environment.altitude',
-      reason: `the altitude (${environment.altitude} m) is outside the standard troposphere (−500 m to 11 000 m)`,
-    });
-    return;
-  }
-  if (!(environment.temperature > 0)) {
-    problems.push({
-      field: 'environment.temperature',
-      reason: `the temperature (${environment.temperature} K) must be above absolute zero`,
-    });
-    return;
-  }
   const surfaceFactor = environment.surfaceFactor ?? DEFAULT_SURFACE_FACTOR;
-  if (!(surfaceFactor > 0 && surfaceFactor <= 1)) {
-    problems.push({
-      field: 'environment.surface_factor',
-      reason: `the surface factor (${surfaceFactor}) must be in (0, 1]`,
-    });
+  const environmentProblem = environmentProblemOf(environment, surfaceFactor);
+  if (environmentProblem) {
+    problems.push(environmentProblem);
     return;
   }
 
@@ -119,29 +103,7 @@ export function electrostaticsStage(context: EvalContext): void {
       secondary.topZ - secondary.bottomZ,
     );
     metrics.winding_top_field_per_volt = surface.windingTopFieldPerVolt;
-    if (secondary.inductance > 0) {
-      metrics.resonant_frequency_lumped = lcResonantFrequency(secondary.inductance, lumped.totalCapacitance);
-      const streamerLength = environment.streamerLength ?? 0;
-      const streamer = streamerLength > 0 ? streamerCapacitance(streamerLength) : 0;
-      if (resonator) {
-        metrics.resonant_frequency = resonator.fundamental;
-        metrics.overtone_frequency = resonator.overtone;
-        metrics.overtone_ratio = resonator.overtone !== null ? resonator.overtone / resonator.fundamental : null;
-        metrics.effective_inductance = resonator.effectiveInductance;
-        metrics.effective_capacitance = resonator.effectiveCapacitance;
-        metrics.axial_gradient_position = resonator.peakGradientFraction;
-        metrics.resonator_segments = resonator.solution.segments;
-        if (streamer > 0) metrics.loaded_resonant_frequency = resonator.loadedFundamental(streamer);
-      } else {
-        metrics.resonant_frequency = lcResonantFrequency(secondary.inductance, totalCapacitance);
-        metrics.effective_inductance = secondary.inductance;
-        metrics.effective_capacitance = totalCapacitance;
-        metrics.axial_gradient_position = design.secondary?.voltageProfile === 'quarter_wave' ? 0 : null;
-        if (streamer > 0) {
-          metrics.loaded_resonant_frequency = lcResonantFrequency(secondary.inductance, totalCapacitance + streamer);
-        }
-      }
-    }
+    if (secondary.inductance > 0) frequencyMetrics(context, secondary, lumped.totalCapacitance, totalCapacitance);
   }
 
   context.electrostatics = {
@@ -206,4 +168,63 @@ function distributedSolve(
     surface: shapedSurfaceFields(arrangement, matrix, resonator.shape),
     lumped: { totalCapacitance: linear, selfCapacitance: arrangement.topload ? matrix.selfCapacitance : linear },
   };
+}
+
+/** The environment a field solve needs: inside the standard troposphere, above absolute zero, a surface factor in (0, 1]. */
+function environmentProblemOf(
+  environment: EvalContext['design']['environment'],
+  surfaceFactor: number,
+): { field: string; reason: string } | null {
+  if (!(environment.altitude >= -500 && environment.altitude <= TROPOPAUSE_ALTITUDE)) {
+    return {
+      field: 'environment.altitude',
+      reason: `the altitude (${environment.altitude} m) is outside the standard troposphere (−500 m to 11 000 m)`,
+    };
+  }
+  if (!(environment.temperature > 0)) {
+    return {
+      field: 'environment.temperature',
+      reason: `the temperature (${environment.temperature} K) must be above absolute zero`,
+    };
+  }
+  if (!(surfaceFactor > 0 && surfaceFactor <= 1)) {
+    return {
+      field: 'environment.surface_factor',
+      reason: `the surface factor (${surfaceFactor}) must be in (0, 1]`,
+    };
+  }
+  return null;
+}
+
+/** The winding's frequencies and effective values: from the distributed resonator when computed, else Thomson's. */
+function frequencyMetrics(
+  context: EvalContext,
+  secondary: NonNullable<EvalContext['secondary']>,
+  lumpedCapacitance: number,
+  totalCapacitance: number,
+): void {
+  const { design, metrics } = context;
+  const resonator = context.resonator;
+  const environment = design.environment;
+  metrics.resonant_frequency_lumped = lcResonantFrequency(secondary.inductance, lumpedCapacitance);
+  const streamerLength = environment.streamerLength ?? 0;
+  const streamer = streamerLength > 0 ? streamerCapacitance(streamerLength) : 0;
+  if (resonator) {
+    metrics.resonant_frequency = resonator.fundamental;
+    metrics.overtone_frequency = resonator.overtone;
+    metrics.overtone_ratio = resonator.overtone !== null ? resonator.overtone / resonator.fundamental : null;
+    metrics.effective_inductance = resonator.effectiveInductance;
+    metrics.effective_capacitance = resonator.effectiveCapacitance;
+    metrics.axial_gradient_position = resonator.peakGradientFraction;
+    metrics.resonator_segments = resonator.solution.segments;
+    if (streamer > 0) metrics.loaded_resonant_frequency = resonator.loadedFundamental(streamer);
+  } else {
+    metrics.resonant_frequency = lcResonantFrequency(secondary.inductance, totalCapacitance);
+    metrics.effective_inductance = secondary.inductance;
+    metrics.effective_capacitance = totalCapacitance;
+    metrics.axial_gradient_position = design.secondary?.voltageProfile === 'quarter_wave' ? 0 : null;
+    if (streamer > 0) {
+      metrics.loaded_resonant_frequency = lcResonantFrequency(secondary.inductance, totalCapacitance + streamer);
+    }
+  }
 }
