@@ -122,18 +122,18 @@ describe('a bank that cannot meet its ratings is infeasible with its reason', ()
 
   test('parts rated 1 A rms', () => {
     const result = evaluateDesign({ ...example, tankBank: { ...bank, partRmsCurrentRating: 1 } });
-    expect(result.problems[0]?.field).toBe('tank_bank.part_rms_current_rating');
+    expect(result.problems[0]?.field).toBe('tank.bank.part.rms_current_rating');
     expect(result.problems[0]?.reason).toMatch(/rms/);
   });
 
   test('parts rated 20 A peak', () => {
     const result = evaluateDesign({ ...example, tankBank: { ...bank, partPeakCurrentRating: 20 } });
-    expect(result.problems[0]?.field).toBe('tank_bank.part_peak_current_rating');
+    expect(result.problems[0]?.field).toBe('tank.bank.part.peak_current_rating');
   });
 
   test('a fixed series count too small for the charge', () => {
     const result = evaluateDesign({ ...example, tankBank: { ...bank, series: 4 } });
-    expect(result.problems[0]?.field).toBe('tank_bank.series');
+    expect(result.problems[0]?.field).toBe('tank.bank.series');
   });
 
   test('a static gap set above what the supply can reach never fires', () => {
@@ -313,11 +313,11 @@ describe('a solid-state bank with automatic counts (examples/solid-state-bench-c
   test('parts rated below the rms current make the design infeasible, naming the rating', () => {
     const rms = b.tank_bank_part_rms_current ?? 0;
     const weak = evaluateDesign({ ...withBank, tankBank: { ...bank, partRmsCurrentRating: rms / 2 } });
-    expect(weak.problems[0]?.field).toBe('tank_bank.part_rms_current_rating');
+    expect(weak.problems[0]?.field).toBe('tank.bank.part.rms_current_rating');
   });
 
   test('a fixed parallel count with an automatic series count is refused with its reason', () => {
     const fixed = evaluateDesign({ ...withBank, tankBank: { ...bank, parallel: 3 } });
-    expect(fixed.problems[0]?.field).toBe('tank_bank.parallel');
+    expect(fixed.problems[0]?.field).toBe('tank.bank.parallel');
   });
 });
