@@ -178,6 +178,8 @@ function registerStudyCommands(program: Command, io: CliIo, setExit: (code: numb
     .option('--samples <n>', 'base samples N (N·(fields + 2) evaluations)', integer('--samples'), 512)
     .option('--workers <n>', 'worker threads (default: available parallelism)', integer('--workers'))
     .option('--out <dir>', 'directory for sensitivity.csv and sensitivity.json', '.')
+    .option('--shard <k/N>', 'evaluate only the k-th of N blocks of the rows, into OUT/sensitivity-shards/k-of-N')
+    .option('--merge [dirs...]', 'merge finished shards (default: every directory under OUT/sensitivity-shards)')
     .action(async (file: string, options: SensitivityOptions) => {
       setExit(await sensitivityCommand(file, options, io));
     });
