@@ -1,7 +1,7 @@
 /**
  * Sobol indices where part of the space is infeasible or cannot be built: the feasibility indicator's indices
  * and a metric's indices over complete blocks, against exact solutions derived from the definition of the
- * indices (Sobol 1993 [sobol1993]; Saltelli et al. 2008 [saltelli2008], §1.2.11) for functions whose
+ * indices (the variance decomposition of Sobol 1993 [sobol1993]; derived here by hand) for functions whose
  * variance decomposition is found in closed form. The evaluator is a stand-in with known functions, so
  * the checks are of the estimators and the handling of null rows, not of the coil model.
  */
