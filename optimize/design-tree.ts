@@ -15,7 +15,10 @@ export interface DimensionSlot {
   slot: number;
 }
 
-/** A section of the normal tree: field name → value (or a slot in a sweep). */
+/**
+ * A section of the normal tree: field name → value (or a slot in a sweep). A section nested in it
+ * (`tank: { bank: { part: … } }`) has its fields here under dotted keys ('bank.part.capacitance').
+ */
 export type NormalSection = Record<string, LeafValue | DimensionSlot>;
 
 /** The normal tree: section name → section (or a slot when a sweep chooses whole sections). */
