@@ -109,10 +109,44 @@ export class DominanceIndex {
     return inside && strictly ? ALL_MATCH : SOME_MATCH;
   }
 
-  /** Is `slot` live and, seeking dominators, dominating p, or otherwise dominated by p? */
-  private matches(slot: number, point: ArrayLike<number>, seekDominators: boolean): boolean {
-    if (this.live[slot] !== 1) return false;
-    return seekDominators ? this.slotDominates(slot, point) : this.dominatesSlot(point, slot);
+  /**
+   * Counts, from `count` up to `limit`, the live points in slots [start, end) and on the overflow list from
+   * `overflow` that dominate p (seekDominators) or that p dominates, passing the latter to `visit`. The mode
+   * is chosen once per leaf: the slot loops stay as tight as two separate walks would have them.
+   */
+  private scanSlots(
+    point: ArrayLike<number>,
+    seekDominators: boolean,
+    start: number,
+    end: number,
+    overflow: number,
+    count: number,
+    limit: number,
+    visit: ((slot: number) => void) | undefined,
+  ): number {
+    const live = this.live;
+    if (seekDominators) {
+      for (let slot = start; slot < end; slot++) {
+        if (live[slot] === 1 && this.slotDominates(slot, point) && ++count >= limit) return count;
+      }
+      for (let slot = overflow; slot >= 0; slot = this.nextOverflow[slot]) {
+        if (live[slot] === 1 && this.slotDominates(slot, point) && ++count >= limit) return count;
+      }
+      return count;
+    }
+    for (let slot = start; slot < end; slot++) {
+      if (live[slot] === 1 && this.dominatesSlot(point, slot)) {
+        visit?.(slot);
+        if (++count >= limit) return count;
+      }
+    }
+    for (let slot = overflow; slot >= 0; slot = this.nextOverflow[slot]) {
+      if (live[slot] === 1 && this.dominatesSlot(point, slot)) {
+        visit?.(slot);
+        if (++count >= limit) return count;
+      }
+    }
+    return count;
   }
 
   /**
@@ -148,25 +182,24 @@ export class DominanceIndex {
           stack[top++] = seekDominators ? left : left + 1;
           continue;
         }
-        for (let slot = this.nodeStart[node], end = this.nodeEnd[node]; slot < end; slot++) {
-          if (!this.matches(slot, point, seekDominators)) continue;
-          visit?.(slot);
-          if (++count >= limit) return count;
-        }
-        for (let slot = this.leafOverflow[node]; slot >= 0; slot = this.nextOverflow[slot]) {
-          if (!this.matches(slot, point, seekDominators)) continue;
-          visit?.(slot);
-          if (++count >= limit) return count;
-        }
+        // A leaf: it ends the walk only when one of its points took the count to the limit.
+        const before = count;
+        count = this.scanSlots(
+          point,
+          seekDominators,
+          this.nodeStart[node],
+          this.nodeEnd[node],
+          this.leafOverflow[node],
+          count,
+          limit,
+          visit,
+        );
+        if (count !== before && count >= limit) return count;
       }
     }
     // Before the first tree: a plain scan.
-    for (let slot = this.nodeCount > 0 ? this.slotCount : 0; slot < this.slotCount; slot++) {
-      if (!this.matches(slot, point, seekDominators)) continue;
-      visit?.(slot);
-      if (++count >= limit) return count;
-    }
-    return count;
+    const from = this.nodeCount > 0 ? this.slotCount : 0;
+    return this.scanSlots(point, seekDominators, from, this.slotCount, -1, count, limit, visit);
   }
 
   /** Stores a point; may rebuild the tree (slots move: callers must not hold slot numbers across it). */
