@@ -9,7 +9,8 @@ import { join } from 'node:path';
 import { METRIC_DISPLAY } from './display-units.ts';
 import { drawingOf } from './draw-command.ts';
 import { writeFileAtomicSync } from '../run/durable/atomic-write.ts';
-import { InputError, optionError } from '../run/input-error.ts';
+import { optionError } from '../run/input-error.ts';
+import { fileError } from './input-errors.ts';
 import type { CliIo } from './io.ts';
 import { RUN_FILES } from '../run/run-directory.ts';
 import { runDesign, runSpace } from './run-design.ts';
@@ -59,7 +60,7 @@ function constraintLabel(constraint: { metric: string; min?: number; max?: numbe
 
 export async function reportCommand(directory: string, options: ReportOptions, io: CliIo): Promise<number> {
   if (!existsSync(join(directory, RUN_FILES.summary)))
-    throw new InputError(`${directory}: not a finished run (no ${RUN_FILES.summary})`);
+    throw fileError(directory, `not a finished run (no ${RUN_FILES.summary})`);
   let drawingLimit = DEFAULT_DRAWINGS;
   if (options.drawings !== undefined) {
     if (!/^\d+$/.test(options.drawings))
