@@ -43,7 +43,7 @@ export function formatTopCandidates(directory: string, spec: SweepSpec, state: S
     `${c.evaluated} designs: ${c.feasible} feasible, ${c.infeasible} outside the constraints, ${c.impossible} impossible, ${c.failed} failed`,
   );
   if (c.feasible === 0) lines.push(...nothingFeasible(directory, spec, state));
-  else lines.push(...frontLines(spec, state, count));
+  else lines.push(...impossibleLines(directory, state), ...frontLines(spec, state, count));
   lines.push('');
   lines.push(`files: ${outputFiles(directory).join(', ')}`);
   lines.push(
@@ -99,6 +99,17 @@ function parameterText(spec: SweepSpec, values: readonly number[]): string {
       return `${name}=${formatNumber(cell)}${unit?.label ? ` ${humanUnit(unit.label)}` : ''}`;
     })
     .join(' ');
+}
+
+/** Why designs could not be built, the three most common reasons first (none when every design could be). */
+function impossibleLines(directory: string, state: SweepState): string[] {
+  const reasons = Object.entries(sortedCounts(state.impossibleBy));
+  if (reasons.length === 0) return [];
+  const lines = ['the impossible designs could not be built because (most common first):'];
+  for (const [kind, n] of reasons.slice(0, 3)) lines.push(`  ${n} ${kind}`);
+  const more = reasons.length > 3 ? `, ${reasons.length - 3} other reason${reasons.length > 4 ? 's' : ''}` : '';
+  lines.push(`  (each design's reason in ${join(directory, 'infeasible.csv')}${more})`);
+  return lines;
 }
 
 /** What rejected the designs when none was feasible, largest counts first. */
