@@ -14,6 +14,7 @@ import { parameterCells } from './sweep-columns.ts';
 import { SAFETY_CAUTIONS } from './safety.ts';
 import type { SweepSpec } from './sweep-spec.ts';
 import type { QuantityKind } from './units.ts';
+import { quantileSlotEntries } from './quantile-merits.ts';
 
 /** Exit status of a finished sweep in which no design met every constraint (documented in the README). */
 export const NO_FEASIBLE_EXIT_CODE = 3;
@@ -75,6 +76,10 @@ function frontLines(spec: SweepSpec, state: SweepState, count: number): string[]
   const lines = [
     `the front: ${front.length} designs; ${shown.length === front.length ? 'all' : `the first ${shown.length}`} by ${first ? `${first.metric} (${first.sense === 'maximize' ? 'highest' : 'lowest'} first)` : 'rank'}, each with its rank in candidates.csv:`,
   ];
+  // The quantile merits' columns by what they hold (summary.json's build_quantiles).
+  const slots = quantileSlotEntries(spec.robust?.quantiles);
+  if (slots.length > 0)
+    lines.push(`  (${slots.map((q) => `${q.column} = ${q.label} over the tolerance draws`).join('; ')})`);
   for (const { row, rank } of shown) {
     const objectives = spec.objectives.map(
       (o) => `${o.metric} ${metricText(o.metric, row.metrics[metricIndex(o.metric)])}`,
