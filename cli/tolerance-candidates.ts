@@ -13,7 +13,7 @@ import { optionError } from '../run/input-error.ts';
 import { RUN_FILES } from '../run/run-directory.ts';
 import type { StudyCandidate } from '../run/tolerance-run.ts';
 import { loadRunSpec } from './sweep-spec.ts';
-import type { StudySetup } from './tolerance-command.ts';
+import type { StudySetup } from './tolerance-setup.ts';
 import type { ToleranceFile } from './tolerance-file.ts';
 import type { StudySource } from './tolerance-outputs.ts';
 
