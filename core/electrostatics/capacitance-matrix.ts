@@ -102,12 +102,12 @@ export function nodeCapacitanceMatrix(
   const layout = buildPanelLayout(shapes);
   const n = layout.count;
   const matrixA = assembleCollocationMatrix(layout, arrangement.floor, true);
-  const selfCapacitance = windingAloneCapacitance(matrixA, n, layout, windingCount, leadingCount, {
+  const pivots = luFactor(matrixA, n, leadingCount);
+  if (!pivots) return null;
+  const selfCapacitance = windingAloneCapacitance(matrixA, n, pivots, layout, windingCount, leadingCount, {
     ...winding,
     profile: 'linear',
   });
-  const pivots = luFactor(matrixA, n);
-  if (!pivots) return null;
   const p = segments;
   const size = p + (toploadCount > 0 ? 1 : 0);
   // w_kj for the hats of nodes 1 … S on the winding panels j (each hat touches few panels).

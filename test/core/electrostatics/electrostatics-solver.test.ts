@@ -38,6 +38,59 @@ describe('luFactor / luSolve (Golub & Van Loan Alg. 3.4.1)', () => {
   test('returns null for a singular matrix', () => {
     expect(luFactor(Float64Array.from([1, 2, 2, 4]), 2)).toBeNull();
   });
+  /** A random 7 × 7 system with a leading 4 × 4 block whose first column is largest below the block. */
+  function blockSystem(): { a: Float64Array; n: number; p: number } {
+    const n = 7;
+    const p = 4;
+    let seed = 11;
+    const a = Float64Array.from({ length: n * n }, () => {
+      seed = (seed * 16807) % 2147483647;
+      return seed / 2147483647 - 0.5;
+    });
+    // Plain partial pivoting would take row 5 first; the leading-block factorisation may not.
+    a[5 * n] = 10;
+    return { a, n, p };
+  }
+  test('a leading-block factorisation solves the whole system, checked by the residual A x − b (block LU, Golub & Van Loan §3.2.9)', () => {
+    const { a, n, p } = blockSystem();
+    const factors = a.slice();
+    const pivots = must(luFactor(factors, n, p));
+    for (let k = 0; k < p; k++) expect(pivots[k]).toBeLessThan(p);
+    const b = Float64Array.from({ length: n }, (_, i) => 1 + i);
+    const x = b.slice();
+    luSolve(factors, n, pivots, x);
+    for (let i = 0; i < n; i++) {
+      let sum = 0;
+      for (let j = 0; j < n; j++) sum += a[i * n + j] * x[j];
+      expect(sum).toBeCloseTo(b[i], 12);
+    }
+  });
+  test('the leading block of that factorisation is the factorisation of the block alone, bit for bit', () => {
+    const { a, n, p } = blockSystem();
+    const factors = a.slice();
+    const pivots = must(luFactor(factors, n, p));
+    const block = new Float64Array(p * p);
+    for (let i = 0; i < p; i++) block.set(a.subarray(i * n, i * n + p), i * p);
+    const blockFactors = block.slice();
+    const blockPivots = must(luFactor(blockFactors, p));
+    const b = Float64Array.from({ length: p }, (_, i) => 2 - i);
+    const fromWhole = b.slice();
+    luSolve(factors, n, pivots, fromWhole, p);
+    const fromBlock = b.slice();
+    luSolve(blockFactors, p, blockPivots, fromBlock);
+    expect(Array.from(fromWhole)).toEqual(Array.from(fromBlock));
+    // And it solves the block's own system (residual).
+    for (let i = 0; i < p; i++) {
+      let sum = 0;
+      for (let j = 0; j < p; j++) sum += block[i * p + j] * fromWhole[j];
+      expect(sum).toBeCloseTo(b[i], 12);
+    }
+  });
+  test('a singular leading block is refused even where the whole matrix is regular', () => {
+    // [[0, 1], [1, 0]]: regular, but its leading 1 × 1 block is 0.
+    expect(luFactor(Float64Array.from([0, 1, 1, 0]), 2)).not.toBeNull();
+    expect(luFactor(Float64Array.from([0, 1, 1, 0]), 2, 1)).toBeNull();
+  });
 });
 
 describe('panelSelfIntegral (log singularity subtracted in closed form)', () => {
