@@ -8,8 +8,11 @@
  * Quadrature (documented rule, checked in the tests by the convergence rule and brute force):
  *   distance to the panel midpoint ≥ 16 × panel length: one ring at the midpoint carrying the
  *   panel's charge (relative error of the entry ≈ (length/distance)²/24 ≤ 2·10⁻⁴);
- *   ≥ 4 ×: 2-point Gauss–Legendre;
- *   ≥ 1.5 ×: 4-point; nearer: the panel is bisected recursively (near-singular neighbours);
+ *   ≥ 3 ×: 2-point Gauss–Legendre (error ≈ ρ⁻⁴ ≤ 5·10⁻⁵, ρ = t + √(t² − 1) ≥ 11.9 the Bernstein
+ *   ellipse through the kernel's nearest singularity at t ≥ 6 half-lengths; Trefethen 2013
+ *   [trefethen2013] Thm 19.3; below the midpoint tier's bound);
+ *   ≥ 1.5 ×: 4-point (ρ⁻⁸ ≤ 8·10⁻⁷); ≥ 0.75 ×: 8-point (ρ⁻¹⁶ ≤ 2·10⁻⁷, ρ ≥ 2.6);
+ *   nearer: the piece is bisected recursively (near-singular neighbours), each part by these rules;
  *   the panel's own collocation point: the logarithmic singularity of K is subtracted in closed
  *   form, K = P(m1) + Q(m1) ln(1/m1) with Q(0) = ½ (A&S 17.3.34), and the smooth remainder
  *   integrated by 8-point Gauss–Legendre on each half of the panel.
@@ -24,9 +27,11 @@ import { VACUUM_PERMITTIVITY } from './ring-kernel.ts';
 /** Distance/length ratio at and beyond which a panel is a single ring at its midpoint. */
 export const DISTANT_RATIO = 16;
 /** Distance/length ratio at and beyond which a panel is integrated with 2 points. */
-export const FAR_RATIO = 4;
-/** Distance/length ratio at and beyond which 4 points suffice; nearer panels are bisected. */
+export const FAR_RATIO = 3;
+/** Distance/length ratio at and beyond which 4 points suffice. */
 export const NEAR_RATIO = 1.5;
+/** Distance/length ratio at and beyond which a piece takes 8 points; nearer pieces are bisected. */
+export const CLOSE_RATIO = 0.75;
 const MAX_BISECTION_DEPTH = 14;
 
 /**
@@ -72,6 +77,16 @@ function integrateAdaptive(
     for (let q = 0; q < 4; q++) {
       panelPoint(layout, j, centre + halfSpan * GAUSS4_NODES[q], scratchPoint);
       sum += GAUSS4_WEIGHTS[q] * jacobian * scratchPoint[0] * ringKernel(r, z, scratchPoint[0], scratchPoint[1]);
+    }
+    return sum;
+  }
+  if (distance2 >= CLOSE_RATIO * CLOSE_RATIO * pieceLength * pieceLength) {
+    // 8-point Gauss: a neighbour's piece in one step, where bisection took four to six pieces.
+    let sum = 0;
+    const jacobian = 0.5 * layout.length[j] * halfSpan;
+    for (let q = 0; q < 8; q++) {
+      panelPoint(layout, j, centre + halfSpan * GAUSS8_NODES[q], scratchPoint);
+      sum += GAUSS8_WEIGHTS[q] * jacobian * scratchPoint[0] * ringKernel(r, z, scratchPoint[0], scratchPoint[1]);
     }
     return sum;
   }
