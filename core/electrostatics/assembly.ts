@@ -124,10 +124,15 @@ export function panelIntegral(layout: PanelLayout, j: number, r: number, z: numb
   return integrateAdaptive(layout, j, -1, 1, r, z, 0);
 }
 
+/** ln t² at the self integral's nodes t = ½(1 + x_q) of each half (the same for both halves). */
+const SELF_LOG_T2 = GAUSS8_NODES.map((x) => Math.log((0.5 * (1 + x)) ** 2));
+
 /**
  * ∫ r′K/d₊ ds′ over panel j seen from its own midpoint, with the log singularity subtracted:
- * K/d₊·r′ = r′/d₊ [P + Q ln(s²/m1)] − g(s) ln s², g = Q r′/d₊, g(0) = ¼, and
- * ∫ ln s² ds over [−h/2, h/2] = 2h(ln(h/2) − 1) in closed form.
+ * K/d₊·r′ = r′/d₊ [P + Q ln(1/m1)] and its logarithmic part ≈ −g0 ln s² near s = 0 (g0 = ¼,
+ * Q(0) = ½, A&S 17.3.34); the nodes integrate r′K/d₊ + g0 ln s², which is bounded, and
+ * −g0 ∫ ln s² ds over [−h/2, h/2] = −2h g0 (ln(h/2) − 1) is added in closed form. With s = t·h/2 the
+ * ln(h/2) parts cancel between the two, leaving the nodes' g0 ln t² and the constant 2h·g0.
  */
 export function panelSelfIntegral(layout: PanelLayout, j: number): number {
   if (layout.kind[j] === PANEL_THIN_RING) {
@@ -149,19 +154,12 @@ export function panelSelfIntegral(layout: PanelLayout, j: number): number {
       const sum2 = (r0 + sourceR) ** 2 + dz * dz;
       const minus2 = (r0 - sourceR) ** 2 + dz * dz;
       const m1 = minus2 / sum2;
-      const plus = Math.sqrt(sum2);
-      const s = t * half;
-      const s2 = s * s;
-      const logPart = ellipticKLogPart(m1);
-      const regular = (sourceR / plus) * (ellipticKSmoothPart(m1) + logPart * Math.log((s2 * sum2) / minus2));
-      const g = (logPart * sourceR) / plus;
-      const remainder = -(g - g0) * Math.log(s2);
+      const kernel = (sourceR / Math.sqrt(sum2)) * (ellipticKSmoothPart(m1) - ellipticKLogPart(m1) * Math.log(m1));
       // Each half spans t ∈ [0, 1] with weight ½·w; ds = half·dt.
-      sum += 0.5 * GAUSS8_WEIGHTS[q] * half * (regular + remainder);
+      sum += 0.5 * GAUSS8_WEIGHTS[q] * half * (kernel + g0 * SELF_LOG_T2[q]);
     }
   }
-  sum += -g0 * 2 * length * (Math.log(half) - 1);
-  return sum;
+  return sum + 2 * g0 * length;
 }
 
 /**
