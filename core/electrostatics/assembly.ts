@@ -8,8 +8,11 @@
  * Quadrature (documented rule, checked in the tests by the convergence rule and brute force):
  *   distance to the panel midpoint ≥ 16 × panel length: one ring at the midpoint carrying the
  *   panel's charge (relative error of the entry ≈ (length/distance)²/24 ≤ 2·10⁻⁴);
- *   ≥ 4 ×: 2-point Gauss–Legendre;
- *   ≥ 1.5 ×: 4-point; nearer: the panel is bisected recursively (near-singular neighbours);
+ *   ≥ 3 ×: 2-point Gauss–Legendre (error ≈ ρ⁻⁴ ≤ 5·10⁻⁵, ρ = t + √(t² − 1) ≥ 11.9 the Bernstein
+ *   ellipse through the kernel's nearest singularity at t ≥ 6 half-lengths; Trefethen 2013
+ *   [trefethen2013] Thm 19.3; below the midpoint tier's bound);
+ *   ≥ 1.5 ×: 4-point (ρ⁻⁸ ≤ 8·10⁻⁷); ≥ 0.75 ×: 8-point (ρ⁻¹⁶ ≤ 2·10⁻⁷, ρ ≥ 2.6);
+ *   nearer: the piece is bisected recursively (near-singular neighbours), each part by these rules;
  *   the panel's own collocation point: the logarithmic singularity of K is subtracted in closed
  *   form, K = P(m1) + Q(m1) ln(1/m1) with Q(0) = ½ (A&S 17.3.34), and the smooth remainder
  *   integrated by 8-point Gauss–Legendre on each half of the panel.
@@ -24,9 +27,11 @@ import { VACUUM_PERMITTIVITY } from './ring-kernel.ts';
 /** Distance/length ratio at and beyond which a panel is a single ring at its midpoint. */
 export const DISTANT_RATIO = 16;
 /** Distance/length ratio at and beyond which a panel is integrated with 2 points. */
-export const FAR_RATIO = 4;
-/** Distance/length ratio at and beyond which 4 points suffice; nearer panels are bisected. */
+export const FAR_RATIO = 3;
+/** Distance/length ratio at and beyond which 4 points suffice. */
 export const NEAR_RATIO = 1.5;
+/** Distance/length ratio at and beyond which a piece takes 8 points; nearer pieces are bisected. */
+export const CLOSE_RATIO = 0.75;
 const MAX_BISECTION_DEPTH = 14;
 
 /**
@@ -75,6 +80,16 @@ function integrateAdaptive(
     }
     return sum;
   }
+  if (distance2 >= CLOSE_RATIO * CLOSE_RATIO * pieceLength * pieceLength) {
+    // 8-point Gauss: a neighbour's piece in one step, where bisection took four to six pieces.
+    let sum = 0;
+    const jacobian = 0.5 * layout.length[j] * halfSpan;
+    for (let q = 0; q < 8; q++) {
+      panelPoint(layout, j, centre + halfSpan * GAUSS8_NODES[q], scratchPoint);
+      sum += GAUSS8_WEIGHTS[q] * jacobian * scratchPoint[0] * ringKernel(r, z, scratchPoint[0], scratchPoint[1]);
+    }
+    return sum;
+  }
   return (
     integrateAdaptive(layout, j, ta, centre, r, z, depth + 1) +
     integrateAdaptive(layout, j, centre, tb, r, z, depth + 1)
@@ -109,10 +124,15 @@ export function panelIntegral(layout: PanelLayout, j: number, r: number, z: numb
   return integrateAdaptive(layout, j, -1, 1, r, z, 0);
 }
 
+/** ln t² at the self integral's nodes t = ½(1 + x_q) of each half (the same for both halves). */
+const SELF_LOG_T2 = GAUSS8_NODES.map((x) => Math.log((0.5 * (1 + x)) ** 2));
+
 /**
  * ∫ r′K/d₊ ds′ over panel j seen from its own midpoint, with the log singularity subtracted:
- * K/d₊·r′ = r′/d₊ [P + Q ln(s²/m1)] − g(s) ln s², g = Q r′/d₊, g(0) = ¼, and
- * ∫ ln s² ds over [−h/2, h/2] = 2h(ln(h/2) − 1) in closed form.
+ * K/d₊·r′ = r′/d₊ [P + Q ln(1/m1)] and its logarithmic part ≈ −g0 ln s² near s = 0 (g0 = ¼,
+ * Q(0) = ½, A&S 17.3.34); the nodes integrate r′K/d₊ + g0 ln s², which is bounded, and
+ * −g0 ∫ ln s² ds over [−h/2, h/2] = −2h g0 (ln(h/2) − 1) is added in closed form. With s = t·h/2 the
+ * ln(h/2) parts cancel between the two, leaving the nodes' g0 ln t² and the constant 2h·g0.
  */
 export function panelSelfIntegral(layout: PanelLayout, j: number): number {
   if (layout.kind[j] === PANEL_THIN_RING) {
@@ -134,19 +154,12 @@ export function panelSelfIntegral(layout: PanelLayout, j: number): number {
       const sum2 = (r0 + sourceR) ** 2 + dz * dz;
       const minus2 = (r0 - sourceR) ** 2 + dz * dz;
       const m1 = minus2 / sum2;
-      const plus = Math.sqrt(sum2);
-      const s = t * half;
-      const s2 = s * s;
-      const logPart = ellipticKLogPart(m1);
-      const regular = (sourceR / plus) * (ellipticKSmoothPart(m1) + logPart * Math.log((s2 * sum2) / minus2));
-      const g = (logPart * sourceR) / plus;
-      const remainder = -(g - g0) * Math.log(s2);
+      const kernel = (sourceR / Math.sqrt(sum2)) * (ellipticKSmoothPart(m1) - ellipticKLogPart(m1) * Math.log(m1));
       // Each half spans t ∈ [0, 1] with weight ½·w; ds = half·dt.
-      sum += 0.5 * GAUSS8_WEIGHTS[q] * half * (regular + remainder);
+      sum += 0.5 * GAUSS8_WEIGHTS[q] * half * (kernel + g0 * SELF_LOG_T2[q]);
     }
   }
-  sum += -g0 * 2 * length * (Math.log(half) - 1);
-  return sum;
+  return sum + 2 * g0 * length;
 }
 
 /**

@@ -102,27 +102,15 @@ export function nodeCapacitanceMatrix(
   const layout = buildPanelLayout(shapes);
   const n = layout.count;
   const matrixA = assembleCollocationMatrix(layout, arrangement.floor, true);
-  const selfCapacitance = windingAloneCapacitance(matrixA, n, layout, windingCount, leadingCount, {
+  const pivots = luFactor(matrixA, n, leadingCount);
+  if (!pivots) return null;
+  const selfCapacitance = windingAloneCapacitance(matrixA, n, pivots, layout, windingCount, leadingCount, {
     ...winding,
     profile: 'linear',
   });
-  const pivots = luFactor(matrixA, n);
-  if (!pivots) return null;
   const p = segments;
   const size = p + (toploadCount > 0 ? 1 : 0);
-  // w_kj for the hats of nodes 1 … S on the winding panels j (each hat touches few panels).
-  const edges = new Float64Array(windingCount + 1);
-  for (let j = 0; j <= windingCount; j++) edges[j] = windingNodeFraction(j / windingCount);
-  const weights: { panel: number; weight: number }[][] = [];
-  for (let k = 1; k <= p; k++) {
-    const row: { panel: number; weight: number }[] = [];
-    for (let j = 0; j < windingCount; j++) {
-      if (edges[j + 1] <= (k - 1) / p || edges[j] >= (k + 1) / p) continue;
-      const weight = hatPanelMean(k, p, edges[j], edges[j + 1]);
-      if (weight > 0) row.push({ panel: j, weight });
-    }
-    weights.push(row);
-  }
+  const weights = hatWeights(windingCount, p);
   const densities: Float64Array[] = [];
   for (let l = 0; l < size; l++) {
     const rhs = new Float64Array(n);
@@ -132,30 +120,8 @@ export function nodeCapacitanceMatrix(
     if (!rhs.every(Number.isFinite)) return null;
     densities.push(rhs);
   }
-  const raw = new Float64Array(size * size);
-  for (let l = 0; l < size; l++) {
-    const sigma = densities[l];
-    for (let k = 0; k < p; k++) {
-      // ∫ φ_(k+1) σ dA: σ constant on each panel, r constant on the sheet
-      let value = 0;
-      for (const { panel, weight } of weights[k]) value += weight * sigma[panel] * layout.area[panel];
-      raw[k * size + l] = value;
-    }
-    if (toploadCount > 0) {
-      let charge = 0;
-      for (let j = leadingCount; j < n; j++) charge += sigma[j] * layout.area[j];
-      raw[p * size + l] = charge;
-    }
-  }
-  const matrix = new Float64Array(size * size);
-  let asymmetry = 0;
-  for (let k = 0; k < size; k++) {
-    for (let l = 0; l < size; l++) {
-      matrix[k * size + l] = 0.5 * (raw[k * size + l] + raw[l * size + k]);
-      const scale = Math.sqrt(raw[k * size + k] * raw[l * size + l]);
-      asymmetry = Math.max(asymmetry, Math.abs(raw[k * size + l] - raw[l * size + k]) / scale);
-    }
-  }
+  const raw = projectedCharges(layout, densities, weights, size, leadingCount);
+  const { matrix, asymmetry } = symmetrised(raw, size);
   const fractions = new Float64Array(p + 1);
   for (let k = 0; k <= p; k++) fractions[k] = k / p;
   return {
@@ -171,6 +137,68 @@ export function nodeCapacitanceMatrix(
     unknowns: n,
     selfCapacitance,
   };
+}
+
+/** The hat weights w_kj of nodes 1 … p on the winding panels j (each hat touches few panels). */
+function hatWeights(windingCount: number, p: number): { panel: number; weight: number }[][] {
+  const edges = new Float64Array(windingCount + 1);
+  for (let j = 0; j <= windingCount; j++) edges[j] = windingNodeFraction(j / windingCount);
+  const weights: { panel: number; weight: number }[][] = [];
+  for (let k = 1; k <= p; k++) {
+    const row: { panel: number; weight: number }[] = [];
+    for (let j = 0; j < windingCount; j++) {
+      if (edges[j + 1] <= (k - 1) / p || edges[j] >= (k + 1) / p) continue;
+      const weight = hatPanelMean(k, p, edges[j], edges[j + 1]);
+      if (weight > 0) row.push({ panel: j, weight });
+    }
+    weights.push(row);
+  }
+  return weights;
+}
+
+/**
+ * raw[k][l] = ∫ φ_(k+1) σ_l dA for the hats k < p, and the topload's charge of σ_l in the last row
+ * when there is a topload (size > p).
+ */
+function projectedCharges(
+  layout: PanelLayout,
+  densities: readonly Float64Array[],
+  weights: readonly { panel: number; weight: number }[][],
+  size: number,
+  leadingCount: number,
+): Float64Array {
+  const p = weights.length;
+  const n = layout.count;
+  const raw = new Float64Array(size * size);
+  for (let l = 0; l < size; l++) {
+    const sigma = densities[l];
+    for (let k = 0; k < p; k++) {
+      // ∫ φ_(k+1) σ dA: σ constant on each panel, r constant on the sheet
+      let value = 0;
+      for (const { panel, weight } of weights[k]) value += weight * sigma[panel] * layout.area[panel];
+      raw[k * size + l] = value;
+    }
+    if (size > p) {
+      let charge = 0;
+      for (let j = leadingCount; j < n; j++) charge += sigma[j] * layout.area[j];
+      raw[p * size + l] = charge;
+    }
+  }
+  return raw;
+}
+
+/** The symmetric part of `raw` and its largest relative asymmetry |raw_kl − raw_lk|/√(raw_kk raw_ll). */
+function symmetrised(raw: Float64Array, size: number): { matrix: Float64Array; asymmetry: number } {
+  const matrix = new Float64Array(size * size);
+  let asymmetry = 0;
+  for (let k = 0; k < size; k++) {
+    for (let l = 0; l < size; l++) {
+      matrix[k * size + l] = 0.5 * (raw[k * size + l] + raw[l * size + k]);
+      const scale = Math.sqrt(raw[k * size + k] * raw[l * size + l]);
+      asymmetry = Math.max(asymmetry, Math.abs(raw[k * size + l] - raw[l * size + k]) / scale);
+    }
+  }
+  return { matrix, asymmetry };
 }
 
 /** Vᵀ C V for the linear profile V_k = z_k/ℓ with the topload at the top's potential, F. */

@@ -3,18 +3,27 @@
  * row-major Float64Array (Doolittle form, G. H. Golub & C. F. Van Loan, *Matrix Computations*,
  * 4th ed., 2013, Algorithm 3.4.1). O(n³/3) flops; meant for the few hundred unknowns of a field
  * solve.
+ *
+ * Leading block: with `leading` = p, the pivot of each of the first p columns is searched among the
+ * first p rows only. The first p steps are then exactly the factorisation of the leading p × p block
+ * A11 = L11 U11 (the same operations on the same numbers), and the remaining steps factor the Schur
+ * complement A22 − L21 U12 with ordinary partial pivoting (block LU, Golub & Van Loan §3.2.9). One
+ * factorisation then answers both the leading block's system (`luSolve` with `size` = p) and the
+ * whole one, where two factorisations were needed before.
  */
 
 /**
  * Factors the n × n matrix in place (L unit lower, U upper) and returns the pivot rows, or null
- * when a pivot is exactly zero or not finite (singular matrix).
+ * when a pivot is exactly zero or not finite (singular matrix, or a singular leading block).
+ * @param leading the size p of a leading block whose pivots stay inside it (0: plain partial pivoting)
  */
-export function luFactor(matrix: Float64Array, n: number): Int32Array | null {
+export function luFactor(matrix: Float64Array, n: number, leading = 0): Int32Array | null {
   const pivots = new Int32Array(n);
   for (let k = 0; k < n; k++) {
+    const searchEnd = k < leading ? leading : n;
     let pivotRow = k;
     let pivotSize = Math.abs(matrix[k * n + k]);
-    for (let i = k + 1; i < n; i++) {
+    for (let i = k + 1; i < searchEnd; i++) {
       const size = Math.abs(matrix[i * n + k]);
       if (size > pivotSize) {
         pivotSize = size;
@@ -32,22 +41,47 @@ export function luFactor(matrix: Float64Array, n: number): Int32Array | null {
         matrix[b + c] = swap;
       }
     }
-    const pivot = matrix[k * n + k];
-    const pivotRowStart = k * n;
-    for (let i = k + 1; i < n; i++) {
-      const rowStart = i * n;
-      const factor = matrix[rowStart + k] / pivot;
-      matrix[rowStart + k] = factor;
-      if (factor === 0) continue;
-      for (let c = k + 1; c < n; c++) matrix[rowStart + c] -= factor * matrix[pivotRowStart + c];
-    }
+    eliminateBelow(matrix, n, k);
   }
   return pivots;
 }
 
-/** Solves A x = b in place in `rhs` with the factors and pivots from `luFactor`. */
-export function luSolve(factors: Float64Array, n: number, pivots: Int32Array, rhs: Float64Array): void {
-  for (let k = 0; k < n; k++) {
+/**
+ * Step k of the elimination: the multipliers of column k below the pivot and the update of the
+ * trailing rows. Two rows at a time, so that each entry of the pivot row is read once per pair (the
+ * same operations on each row as one at a time, in the same order: the results are the same bits).
+ */
+function eliminateBelow(matrix: Float64Array, n: number, k: number): void {
+  const pivotRowStart = k * n;
+  const pivot = matrix[pivotRowStart + k];
+  let i = k + 1;
+  for (; i + 1 < n; i += 2) {
+    const rowA = i * n;
+    const rowB = rowA + n;
+    const factorA = matrix[rowA + k] / pivot;
+    const factorB = matrix[rowB + k] / pivot;
+    matrix[rowA + k] = factorA;
+    matrix[rowB + k] = factorB;
+    for (let c = k + 1; c < n; c++) {
+      const u = matrix[pivotRowStart + c];
+      matrix[rowA + c] -= factorA * u;
+      matrix[rowB + c] -= factorB * u;
+    }
+  }
+  if (i < n) {
+    const rowStart = i * n;
+    const factor = matrix[rowStart + k] / pivot;
+    matrix[rowStart + k] = factor;
+    for (let c = k + 1; c < n; c++) matrix[rowStart + c] -= factor * matrix[pivotRowStart + c];
+  }
+}
+
+/**
+ * Solves A x = b in place in `rhs` with the factors and pivots from `luFactor`.
+ * @param size solve the leading size × size block only (the `leading` of `luFactor`; default n)
+ */
+export function luSolve(factors: Float64Array, n: number, pivots: Int32Array, rhs: Float64Array, size = n): void {
+  for (let k = 0; k < size; k++) {
     const p = pivots[k];
     if (p !== k) {
       const swap = rhs[k];
@@ -55,16 +89,16 @@ export function luSolve(factors: Float64Array, n: number, pivots: Int32Array, rh
       rhs[p] = swap;
     }
   }
-  for (let i = 0; i < n; i++) {
+  for (let i = 0; i < size; i++) {
     let sum = rhs[i];
     const rowStart = i * n;
     for (let c = 0; c < i; c++) sum -= factors[rowStart + c] * rhs[c];
     rhs[i] = sum;
   }
-  for (let i = n - 1; i >= 0; i--) {
+  for (let i = size - 1; i >= 0; i--) {
     let sum = rhs[i];
     const rowStart = i * n;
-    for (let c = i + 1; c < n; c++) sum -= factors[rowStart + c] * rhs[c];
+    for (let c = i + 1; c < size; c++) sum -= factors[rowStart + c] * rhs[c];
     rhs[i] = sum / factors[rowStart + i];
   }
 }

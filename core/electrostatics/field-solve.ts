@@ -312,19 +312,14 @@ function toploadFields(
 }
 
 let matrixBuffer = new Float64Array(0);
-let blockBuffer = new Float64Array(0);
 /**
- * Scratch memory for the collocation matrix and the winding block, reused from one solve to the
- * next (a solve is synchronous and nothing it returns refers to them), so that a sweep does not
- * allocate and zero a fresh n² array per design.
+ * Scratch memory for the collocation matrix, reused from one solve to the next (a solve is
+ * synchronous and nothing it returns refers to it), so that a sweep does not allocate and zero a
+ * fresh n² array per design.
  */
 function matrixScratch(size: number): Float64Array {
   if (matrixBuffer.length < size) matrixBuffer = new Float64Array(Math.max(size, 2 * matrixBuffer.length));
   return matrixBuffer;
-}
-function blockScratch(size: number): Float64Array {
-  if (blockBuffer.length < size) blockBuffer = new Float64Array(Math.max(size, 2 * blockBuffer.length));
-  return blockBuffer.subarray(0, size);
 }
 
 /** Solves the arrangement for V = 1 at the top; null when the system is singular. */
@@ -347,14 +342,12 @@ export function solveField(arrangement: FieldArrangement, options: FieldSolveOpt
   for (let j = leadingCount; j < n; j++) potential[j] = 1;
 
   const matrix = assembleCollocationMatrix(layout, arrangement.floor, true, matrixScratch(n * n));
-  // The winding-alone system (leading block) before the full matrix is factored in place.
-  let selfCapacitance: number | null = null;
-  if (winding && toploadCount > 0) {
-    selfCapacitance = windingAloneCapacitance(matrix, n, layout, windingCount, leadingCount, winding);
-    if (selfCapacitance === null) return null;
-  }
-  const pivots = luFactor(matrix, n);
+  // One factorisation whose leading block (winding and rings) is the winding-alone system's.
+  const pivots = luFactor(matrix, n, leadingCount);
   if (!pivots) return null;
+  let selfCapacitance: number | null = null;
+  if (winding && toploadCount > 0)
+    selfCapacitance = windingAloneCapacitance(matrix, n, pivots, layout, windingCount, leadingCount, winding);
   const density = potential.slice();
   luSolve(matrix, n, pivots, density);
   if (!density.every(Number.isFinite)) return null;
@@ -405,24 +398,22 @@ export function arrangementPanels(
 
 /**
  * The energy capacitance of the winding alone (the topload absent): the leading block (winding and
- * rings) of a collocation matrix, copied before the full matrix is factored in place, solved for the
- * winding's potentials at its panel midpoints. Null when the block is singular.
+ * rings) of a collocation matrix factored by `luFactor(matrix, n, leadingCount)`, whose first
+ * `leadingCount` steps are the factorisation of that block alone (dense-lu.ts), solved for the
+ * winding's potentials at its panel midpoints.
  */
 export function windingAloneCapacitance(
-  matrix: Float64Array,
+  factors: Float64Array,
   n: number,
+  pivots: Int32Array,
   layout: PanelLayout,
   windingCount: number,
   leadingCount: number,
   winding: NonNullable<FieldArrangement['winding']>,
-): number | null {
-  const block = blockScratch(leadingCount * leadingCount);
-  for (let i = 0; i < leadingCount; i++) block.set(matrix.subarray(i * n, i * n + leadingCount), i * leadingCount);
-  const pivots = luFactor(block, leadingCount);
-  if (!pivots) return null;
+): number {
   const alone = new Float64Array(leadingCount);
   for (let j = 0; j < windingCount; j++) alone[j] = windingPotential(winding, layout.midZ[j]);
-  luSolve(block, leadingCount, pivots, alone);
+  luSolve(factors, n, pivots, alone, leadingCount);
   return windingEnergyCapacitance(layout, alone, windingCount, winding);
 }
 

@@ -74,8 +74,19 @@ export function panelPoint(layout: PanelLayout, j: number, t: number, out: Float
 
 /** Builds the structure-of-arrays layout from panel shapes. */
 export function buildPanelLayout(shapes: readonly PanelShape[]): PanelLayout {
-  const count = shapes.length;
-  const layout: PanelLayout = {
+  const layout = emptyLayout(shapes.length);
+  const point = new Float64Array(2);
+  for (let j = 0; j < shapes.length; j++) {
+    const shape = shapes[j];
+    if (shape.kind === 'thin_ring') addThinRing(layout, j, shape);
+    else addCurvePanel(layout, j, shape, point);
+  }
+  return layout;
+}
+
+/** A layout of `count` panels, every array zero. */
+function emptyLayout(count: number): PanelLayout {
+  return {
     count,
     kind: new Uint8Array(count),
     geometry: new Float64Array(5 * count),
@@ -93,71 +104,76 @@ export function buildPanelLayout(shapes: readonly PanelShape[]): PanelLayout {
     gauss4Z: new Float64Array(4 * count),
     gauss4W: new Float64Array(4 * count),
   };
-  const point = new Float64Array(2);
-  for (let j = 0; j < count; j++) {
-    const shape = shapes[j];
-    const o = 5 * j;
-    if (shape.kind === 'thin_ring') {
-      layout.kind[j] = PANEL_THIN_RING;
-      layout.geometry[o] = shape.r;
-      layout.geometry[o + 1] = shape.z;
-      layout.geometry[o + 2] = shape.wireRadius;
-      layout.midR[j] = shape.r;
-      layout.midZ[j] = shape.z;
-      layout.length[j] = 2 * Math.PI * shape.r;
-      layout.area[j] = 2 * Math.PI * shape.r;
-      // A thin ring is one node of weight r (line charge λ: dq = λ·r·dφ).
-      for (let q = 0; q < 2; q++) {
-        layout.gauss2R[2 * j + q] = shape.r;
-        layout.gauss2Z[2 * j + q] = shape.z;
-        layout.gauss2W[2 * j + q] = 0.5 * shape.r;
-      }
-      for (let q = 0; q < 4; q++) {
-        layout.gauss4R[4 * j + q] = shape.r;
-        layout.gauss4Z[4 * j + q] = shape.z;
-        layout.gauss4W[4 * j + q] = 0.25 * shape.r;
-      }
-      continue;
-    }
-    let halfLength: number;
-    if (shape.kind === 'arc') {
-      layout.kind[j] = PANEL_ARC;
-      layout.geometry.set([shape.centerR, shape.centerZ, shape.radius, shape.angle0, shape.angle1], o);
-      halfLength = 0.5 * shape.radius * Math.abs(shape.angle1 - shape.angle0);
-      const mid = 0.5 * (shape.angle0 + shape.angle1);
-      layout.normalR[j] = Math.cos(mid);
-      layout.normalZ[j] = Math.sin(mid);
-    } else {
-      layout.kind[j] = PANEL_LINE;
-      layout.geometry.set([shape.r0, shape.z0, shape.r1, shape.z1, 0], o);
-      const dr = shape.r1 - shape.r0;
-      const dz = shape.z1 - shape.z0;
-      halfLength = 0.5 * Math.hypot(dr, dz);
-      // Normal: the tangent (dr, dz) turned clockwise, (dz, −dr)/length; for the winding, drawn
-      // from the base up, that is +r (outward).
-      layout.normalR[j] = dz / (2 * halfLength);
-      layout.normalZ[j] = -dr / (2 * halfLength);
-    }
-    layout.position[j] = shape.position;
-    panelPoint(layout, j, 0, point);
-    layout.midR[j] = point[0];
-    layout.midZ[j] = point[1];
-    layout.length[j] = 2 * halfLength;
-    let area = 0;
-    for (let q = 0; q < 4; q++) {
-      panelPoint(layout, j, GAUSS4_NODES[q], point);
-      layout.gauss4R[4 * j + q] = point[0];
-      layout.gauss4Z[4 * j + q] = point[1];
-      layout.gauss4W[4 * j + q] = GAUSS4_WEIGHTS[q] * halfLength * point[0];
-      area += 2 * Math.PI * GAUSS4_WEIGHTS[q] * halfLength * point[0];
-    }
-    for (let q = 0; q < 2; q++) {
-      panelPoint(layout, j, GAUSS2_NODES[q], point);
-      layout.gauss2R[2 * j + q] = point[0];
-      layout.gauss2Z[2 * j + q] = point[1];
-      layout.gauss2W[2 * j + q] = GAUSS2_WEIGHTS[q] * halfLength * point[0];
-    }
-    layout.area[j] = area;
+}
+
+/** Element j as a thin ring: one node of weight r (line charge λ: dq = λ·r·dφ). */
+function addThinRing(layout: PanelLayout, j: number, shape: Extract<PanelShape, { kind: 'thin_ring' }>): void {
+  const o = 5 * j;
+  layout.kind[j] = PANEL_THIN_RING;
+  layout.geometry[o] = shape.r;
+  layout.geometry[o + 1] = shape.z;
+  layout.geometry[o + 2] = shape.wireRadius;
+  layout.midR[j] = shape.r;
+  layout.midZ[j] = shape.z;
+  layout.length[j] = 2 * Math.PI * shape.r;
+  layout.area[j] = 2 * Math.PI * shape.r;
+  for (let q = 0; q < 2; q++) {
+    layout.gauss2R[2 * j + q] = shape.r;
+    layout.gauss2Z[2 * j + q] = shape.z;
+    layout.gauss2W[2 * j + q] = 0.5 * shape.r;
   }
-  return layout;
+  for (let q = 0; q < 4; q++) {
+    layout.gauss4R[4 * j + q] = shape.r;
+    layout.gauss4Z[4 * j + q] = shape.z;
+    layout.gauss4W[4 * j + q] = 0.25 * shape.r;
+  }
+}
+
+/** Panel j as a piece of a line or an arc: geometry, normal, midpoint, area and Gauss nodes. */
+function addCurvePanel(
+  layout: PanelLayout,
+  j: number,
+  shape: Exclude<PanelShape, { kind: 'thin_ring' }>,
+  point: Float64Array,
+): void {
+  const o = 5 * j;
+  let halfLength: number;
+  if (shape.kind === 'arc') {
+    layout.kind[j] = PANEL_ARC;
+    layout.geometry.set([shape.centerR, shape.centerZ, shape.radius, shape.angle0, shape.angle1], o);
+    halfLength = 0.5 * shape.radius * Math.abs(shape.angle1 - shape.angle0);
+    const mid = 0.5 * (shape.angle0 + shape.angle1);
+    layout.normalR[j] = Math.cos(mid);
+    layout.normalZ[j] = Math.sin(mid);
+  } else {
+    layout.kind[j] = PANEL_LINE;
+    layout.geometry.set([shape.r0, shape.z0, shape.r1, shape.z1, 0], o);
+    const dr = shape.r1 - shape.r0;
+    const dz = shape.z1 - shape.z0;
+    halfLength = 0.5 * Math.hypot(dr, dz);
+    // Normal: the tangent (dr, dz) turned clockwise, (dz, −dr)/length; for the winding, drawn
+    // from the base up, that is +r (outward).
+    layout.normalR[j] = dz / (2 * halfLength);
+    layout.normalZ[j] = -dr / (2 * halfLength);
+  }
+  layout.position[j] = shape.position;
+  panelPoint(layout, j, 0, point);
+  layout.midR[j] = point[0];
+  layout.midZ[j] = point[1];
+  layout.length[j] = 2 * halfLength;
+  let area = 0;
+  for (let q = 0; q < 4; q++) {
+    panelPoint(layout, j, GAUSS4_NODES[q], point);
+    layout.gauss4R[4 * j + q] = point[0];
+    layout.gauss4Z[4 * j + q] = point[1];
+    layout.gauss4W[4 * j + q] = GAUSS4_WEIGHTS[q] * halfLength * point[0];
+    area += 2 * Math.PI * GAUSS4_WEIGHTS[q] * halfLength * point[0];
+  }
+  for (let q = 0; q < 2; q++) {
+    panelPoint(layout, j, GAUSS2_NODES[q], point);
+    layout.gauss2R[2 * j + q] = point[0];
+    layout.gauss2Z[2 * j + q] = point[1];
+    layout.gauss2W[2 * j + q] = GAUSS2_WEIGHTS[q] * halfLength * point[0];
+  }
+  layout.area[j] = area;
 }

@@ -6,7 +6,14 @@ import { describe, expect, test } from 'vitest';
 import fc from 'fast-check';
 import { ellipticKEComplement } from '../../../core/elliptic.ts';
 import { luFactor, luSolve } from '../../../core/electrostatics/dense-lu.ts';
-import { assembleCollocationMatrix, panelIntegral, panelSelfIntegral } from '../../../core/electrostatics/assembly.ts';
+import {
+  assembleCollocationMatrix,
+  CLOSE_RATIO,
+  FAR_RATIO,
+  NEAR_RATIO,
+  panelIntegral,
+  panelSelfIntegral,
+} from '../../../core/electrostatics/assembly.ts';
 import { buildPanelLayout, panelPoint, type PanelShape } from '../../../core/electrostatics/panels.ts';
 import { toroidPanels, windingPanels } from '../../../core/electrostatics/bodies.ts';
 import { defaultPanelCounts, solveField, type FieldArrangement } from '../../../core/electrostatics/field-solve.ts';
@@ -37,6 +44,59 @@ describe('luFactor / luSolve (Golub & Van Loan Alg. 3.4.1)', () => {
   });
   test('returns null for a singular matrix', () => {
     expect(luFactor(Float64Array.from([1, 2, 2, 4]), 2)).toBeNull();
+  });
+  /** A random 7 × 7 system with a leading 4 × 4 block whose first column is largest below the block. */
+  function blockSystem(): { a: Float64Array; n: number; p: number } {
+    const n = 7;
+    const p = 4;
+    let seed = 11;
+    const a = Float64Array.from({ length: n * n }, () => {
+      seed = (seed * 16807) % 2147483647;
+      return seed / 2147483647 - 0.5;
+    });
+    // Plain partial pivoting would take row 5 first; the leading-block factorisation may not.
+    a[5 * n] = 10;
+    return { a, n, p };
+  }
+  test('a leading-block factorisation solves the whole system, checked by the residual A x − b (block LU, Golub & Van Loan §3.2.9)', () => {
+    const { a, n, p } = blockSystem();
+    const factors = a.slice();
+    const pivots = must(luFactor(factors, n, p));
+    for (let k = 0; k < p; k++) expect(pivots[k]).toBeLessThan(p);
+    const b = Float64Array.from({ length: n }, (_, i) => 1 + i);
+    const x = b.slice();
+    luSolve(factors, n, pivots, x);
+    for (let i = 0; i < n; i++) {
+      let sum = 0;
+      for (let j = 0; j < n; j++) sum += a[i * n + j] * x[j];
+      expect(sum).toBeCloseTo(b[i], 12);
+    }
+  });
+  test('the leading block of that factorisation is the factorisation of the block alone, bit for bit', () => {
+    const { a, n, p } = blockSystem();
+    const factors = a.slice();
+    const pivots = must(luFactor(factors, n, p));
+    const block = new Float64Array(p * p);
+    for (let i = 0; i < p; i++) block.set(a.subarray(i * n, i * n + p), i * p);
+    const blockFactors = block.slice();
+    const blockPivots = must(luFactor(blockFactors, p));
+    const b = Float64Array.from({ length: p }, (_, i) => 2 - i);
+    const fromWhole = b.slice();
+    luSolve(factors, n, pivots, fromWhole, p);
+    const fromBlock = b.slice();
+    luSolve(blockFactors, p, blockPivots, fromBlock);
+    expect(Array.from(fromWhole)).toEqual(Array.from(fromBlock));
+    // And it solves the block's own system (residual).
+    for (let i = 0; i < p; i++) {
+      let sum = 0;
+      for (let j = 0; j < p; j++) sum += block[i * p + j] * fromWhole[j];
+      expect(sum).toBeCloseTo(b[i], 12);
+    }
+  });
+  test('a singular leading block is refused even where the whole matrix is regular', () => {
+    // [[0, 1], [1, 0]]: regular, but its leading 1 × 1 block is 0.
+    expect(luFactor(Float64Array.from([0, 1, 1, 0]), 2)).not.toBeNull();
+    expect(luFactor(Float64Array.from([0, 1, 1, 0]), 2, 1)).toBeNull();
   });
 });
 
@@ -104,6 +164,60 @@ describe('panelSelfIntegral (log singularity subtracted in closed form)', () => 
       }
     }
     expect(Math.abs(panelIntegral(layout, 0, 0.08, 0.515) / reference - 1)).toBeLessThan(1e-6);
+  });
+});
+
+describe('panelIntegral quadrature tiers (Gauss–Legendre error bounds, Trefethen 2013 Thm 19.3 [trefethen2013])', () => {
+  /** Brute force: 2000 equal pieces, 8-point Gauss on each, AGM elliptic integral (A&S 17.6). */
+  function bruteForce(shape: PanelShape, r: number, z: number): number {
+    const layout = buildPanelLayout([shape]);
+    const point = new Float64Array(2);
+    const pieces = 2000;
+    let sum = 0;
+    for (let piece = 0; piece < pieces; piece++) {
+      const ta = -1 + (2 * piece) / pieces;
+      for (let q = 0; q < 8; q++) {
+        panelPoint(layout, 0, ta + (1 / pieces) * (1 + GAUSS8_NODES[q]), point);
+        const dz = z - point[1];
+        const plus2 = (r + point[0]) ** 2 + dz * dz;
+        const minus2 = (r - point[0]) ** 2 + dz * dz;
+        sum +=
+          ((1 / pieces) *
+            GAUSS8_WEIGHTS[q] *
+            0.5 *
+            layout.length[0] *
+            point[0] *
+            ellipticKEComplement(minus2 / plus2).k) /
+          Math.sqrt(plus2);
+      }
+    }
+    return sum;
+  }
+  // Field points on a circle of radius ratio × length around the panel's midpoint, just outside each
+  // tier's boundary; the bound is ρ^(−2n) with ρ the Bernstein ellipse through the nearest singularity
+  // (the field point on the panel's own line, the worst direction): 2 points at 3× (5·10⁻⁵), 4 at
+  // 1.5× (8·10⁻⁷), 8 at 0.75× (2·10⁻⁷).
+  test.each<[string, PanelShape]>([
+    ['a winding panel', { kind: 'line', r0: 0.2, z0: 0.53, r1: 0.2, z1: 0.56, position: 0 }],
+    [
+      'a toroid panel',
+      { kind: 'arc', centerR: 0.25, centerZ: 1, radius: 0.07, angle0: -0.2, angle1: 0.2, position: 0 },
+    ],
+  ])('each tier of %s stays within its error bound', (_, shape) => {
+    const layout = buildPanelLayout([shape]);
+    const length = layout.length[0];
+    for (const [ratio, bound] of [
+      [FAR_RATIO * 1.0003, 5e-5],
+      [NEAR_RATIO * 1.0003, 8e-7],
+      [CLOSE_RATIO * 1.0003, 2e-7],
+    ]) {
+      for (let a = 0; a < 12; a++) {
+        const angle = (2 * Math.PI * (a + 0.5)) / 12;
+        const r = layout.midR[0] + ratio * length * Math.cos(angle);
+        const z = layout.midZ[0] + ratio * length * Math.sin(angle);
+        expect(Math.abs(panelIntegral(layout, 0, r, z) / bruteForce(shape, r, z) - 1)).toBeLessThan(bound);
+      }
+    }
   });
 });
 
