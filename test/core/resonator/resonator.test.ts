@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { windingNodeFraction } from '../../../core/electrostatics/bodies.ts';
 import { nodeCapacitanceMatrix } from '../../../core/electrostatics/capacitance-matrix.ts';
 import { type FieldArrangement, solveField } from '../../../core/electrostatics/field-solve.ts';
+import { coaxialLoopMutualInductance } from '../../../core/inductance/coaxial-loops.ts';
 import { loopSumSolenoidInductance } from '../../../core/inductance/filament-sum.ts';
 import { choleskyFactor, generalizedSymmetricEigen, symmetricEigen } from '../../../core/resonator/dense-eigen.ts';
 import { foldTopload, solveResonator } from '../../../core/resonator/resonator.ts';
@@ -78,6 +79,44 @@ describe('segment inductance matrix', () => {
       // symmetric (reciprocity of mutual inductance) and positive definite (stored energy > 0)
       for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) expect(matrix[i * n + j]).toBe(matrix[j * n + i]);
       expect(choleskyFactor(matrix, n)).not.toBeNull();
+    }
+  });
+
+  it('every entry equals the double sum over the turns it links, Σ_t Σ_t′ w_kt w_lt′ F(|t − t′|) (the definition, summed term by term; Maxwell [maxwell1873] §701)', () => {
+    // Uniform and graded segments, whole and fractional turn counts, segments of less than one turn
+    // and of many: the O(1) block formula of the matrix against the plain quadruple loop.
+    const cases = [
+      { winding: { radius: 0.08, turns: 400.4, pitch: 0.0015, wireRadius: 0.0004 }, n: 16, graded: true },
+      { winding: { radius: 0.05, turns: 37, pitch: 0.002, wireRadius: 0.0005 }, n: 8, graded: false },
+      { winding: { radius: 0.11, turns: 9.3, pitch: 0.004, wireRadius: 0.001 }, n: 13, graded: true },
+      { winding: { radius: 0.07, turns: 1203.75, pitch: 0.0006, wireRadius: 0.00025 }, n: 32, graded: false },
+    ];
+    for (const { winding: w, n, graded } of cases) {
+      const fractions = Array.from({ length: n + 1 }, (_, k) => (graded ? windingNodeFraction(k / n) : k / n));
+      const matrix = segmentInductanceMatrix(w, fractions);
+      const count = Math.ceil(w.turns);
+      const f = (s: number) =>
+        s === 0
+          ? loopSumSolenoidInductance(w.radius, 1, w.pitch, w.wireRadius, 'surface')
+          : coaxialLoopMutualInductance(w.radius, w.radius, s * w.pitch);
+      const table = Array.from({ length: count }, (_, s) => f(s));
+      const weight = (k: number, t: number) =>
+        Math.max(0, Math.min(t + 1, w.turns, fractions[k + 1] * w.turns) - Math.max(t, fractions[k] * w.turns));
+      let worst = 0;
+      for (let k = 0; k < n; k++)
+        for (let l = 0; l < n; l++) {
+          let direct = 0;
+          for (let t = 0; t < count; t++) {
+            const wk = weight(k, t);
+            if (wk === 0) continue;
+            for (let u = 0; u < count; u++) {
+              const wl = weight(l, u);
+              if (wl !== 0) direct += wk * wl * table[Math.abs(t - u)];
+            }
+          }
+          worst = Math.max(worst, Math.abs(matrix[k * n + l] - direct) / Math.abs(direct));
+        }
+      expect(worst).toBeLessThan(1e-13);
     }
   });
 });
