@@ -116,7 +116,7 @@ function onceDifference(tables: LoopTables, x1: number, x2: number): number {
  *   whole turns [a₁, a₂) × turn p:    S(a₂−1−p) − S(a₁−1−p),
  *   turn p × turn p′:                 F(|p − p′|).
  * The second difference of T for two segments far apart is small beside T itself, so S and T are
- * kept in double length (see RunningSum): the entries keep the precision of a term-by-term sum.
+ * kept in double length (see sumError): the entries keep the precision of a term-by-term sum.
  */
 function blockLinkage(tables: LoopTables, segments: SegmentTurns, a: number, b: number): number {
   const { loop, twice, twiceLow, count } = tables;
@@ -167,18 +167,13 @@ interface LoopTables {
 }
 
 /**
- * A running sum in double length: high + low carries the exact sum of the terms to about ε² of
- * its size (Knuth's error-free sum of two numbers; compensated summation [higham2002] §4.3, refs §11.8).
+ * The rounding error of sum = fl(a + b): a + b = sum + error exactly (Knuth's error-free sum of two
+ * numbers; compensated summation [higham2002] §4.3, refs §11.8). Running sums kept as high + low
+ * with it carry the exact sum of their terms to about ε² of its size.
  */
-class RunningSum {
-  high = 0;
-  low = 0;
-  add(value: number, valueLow = 0): void {
-    const sum = this.high + value;
-    const back = sum - this.high;
-    this.low += this.high - (sum - back) + (value - back) + valueLow;
-    this.high = sum;
-  }
+function sumError(a: number, b: number, sum: number): number {
+  const back = sum - a;
+  return a - (sum - back) + (b - back);
 }
 
 /** The last winding's loop tables: one design asks for several segment counts of the same winding. */
@@ -204,33 +199,49 @@ function loopTables(winding: SegmentedWinding, count: number, distribution: Curr
   // −Σ_(s=1)^(−x−1) F(s) for x < 0 (S is flat below −(count − 1): no loops that far apart).
   const once = new Float64Array(2 * count);
   const onceLow = new Float64Array(2 * count);
-  let sum = new RunningSum();
+  let high = 0;
+  let low = 0;
   for (let x = 0; x < count; x++) {
-    sum.add(loop[x]);
-    once[x + count] = sum.high;
-    onceLow[x + count] = sum.low;
+    const sum = high + loop[x];
+    low += sumError(high, loop[x], sum);
+    high = sum;
+    once[x + count] = high;
+    onceLow[x + count] = low;
   }
-  sum = new RunningSum();
+  high = 0;
+  low = 0;
   for (let x = -1; x >= -count; x--) {
-    once[x + count] = -sum.high;
-    onceLow[x + count] = -sum.low;
-    if (-x < count) sum.add(loop[-x]);
+    once[x + count] = -high;
+    onceLow[x + count] = -low;
+    if (-x < count) {
+      const sum = high + loop[-x];
+      low += sumError(high, loop[-x], sum);
+      high = sum;
+    }
   }
   // twice(x) = Σ_(y=0)^x once(y) for x ≥ 0, −Σ_(y=x+1)^(−1) once(y) for x < 0, x = −count − 1 … count − 1,
   // stored at x + count + 1.
   const twice = new Float64Array(2 * count + 1);
   const twiceLow = new Float64Array(2 * count + 1);
-  sum = new RunningSum();
+  high = 0;
+  low = 0;
   for (let x = 0; x < count; x++) {
-    sum.add(once[x + count], onceLow[x + count]);
-    twice[x + count + 1] = sum.high;
-    twiceLow[x + count + 1] = sum.low;
+    const sum = high + once[x + count];
+    low += sumError(high, once[x + count], sum) + onceLow[x + count];
+    high = sum;
+    twice[x + count + 1] = high;
+    twiceLow[x + count + 1] = low;
   }
-  sum = new RunningSum();
+  high = 0;
+  low = 0;
   for (let x = -1; x >= -count - 1; x--) {
-    twice[x + count + 1] = -sum.high;
-    twiceLow[x + count + 1] = -sum.low;
-    if (x >= -count) sum.add(once[x + count], onceLow[x + count]);
+    twice[x + count + 1] = -high;
+    twiceLow[x + count + 1] = -low;
+    if (x >= -count) {
+      const sum = high + once[x + count];
+      low += sumError(high, once[x + count], sum) + onceLow[x + count];
+      high = sum;
+    }
   }
   lastTables = {
     radius: winding.radius,
