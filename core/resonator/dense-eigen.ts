@@ -174,24 +174,36 @@ export function tridiagonalize(matrix: Float64Array, n: number): Tridiagonal {
     if (norm === 0) continue; // already reduced in this column: H_k = I
     const first = a[(k + 1) * n + k];
     const alpha = first > 0 ? -norm : norm;
-    const v = reflectors.subarray(k * n, k * n + n);
-    for (let i = k + 1; i < n; i++) v[i] = a[i * n + k];
-    v[k + 1] -= alpha;
+    const base = k * n; // reflection k's vector v: reflectors[base + i], i = k + 1 … n − 1
+    for (let i = k + 1; i < n; i++) reflectors[base + i] = a[i * n + k];
+    reflectors[base + k + 1] -= alpha;
     let vv = 0;
-    for (let i = k + 1; i < n; i++) vv += v[i] * v[i];
+    for (let i = k + 1; i < n; i++) vv += reflectors[base + i] * reflectors[base + i];
     const beta = 2 / vv;
     betas[k] = beta;
     // The trailing block S ← H S H = S − v wᵀ − w vᵀ, p = β S v, w = p − (β/2)(pᵀv) v.
     let pv = 0;
     for (let i = k + 1; i < n; i++) {
+      const row = i * n;
       let sum = 0;
-      for (let j = k + 1; j < n; j++) sum += a[i * n + j] * v[j];
+      for (let j = k + 1; j < n; j++) sum += a[row + j] * reflectors[base + j];
       p[i] = beta * sum;
-      pv += p[i] * v[i];
+      pv += p[i] * reflectors[base + i];
     }
     const half = 0.5 * beta * pv;
-    for (let i = k + 1; i < n; i++) p[i] -= half * v[i];
-    for (let i = k + 1; i < n; i++) for (let j = k + 1; j < n; j++) a[i * n + j] -= v[i] * p[j] + p[i] * v[j];
+    for (let i = k + 1; i < n; i++) p[i] -= half * reflectors[base + i];
+    // The block stays exactly symmetric (the two products of (i, j) and (j, i) are the same, added
+    // in the other order): the upper half is updated and mirrored.
+    for (let i = k + 1; i < n; i++) {
+      const row = i * n;
+      const vi = reflectors[base + i];
+      const pi = p[i];
+      for (let j = i; j < n; j++) {
+        const value = a[row + j] - (vi * p[j] + pi * reflectors[base + j]);
+        a[row + j] = value;
+        a[j * n + i] = value;
+      }
+    }
     a[(k + 1) * n + k] = alpha;
   }
   const diagonal = new Float64Array(n);
@@ -226,8 +238,17 @@ export function tridiagonalEigenvalues(
   offDiagonal: ArrayLike<number>,
 ): Float64Array | null {
   const n = diagonal.length;
-  const d = Float64Array.from(diagonal);
-  const e = Float64Array.from(offDiagonal);
+  // Scaled by a power of two (exact) to a largest entry near 1, so that √(x² + z²) below can
+  // neither overflow nor lose the rotation to underflow; Math.hypot does the same at several times the cost.
+  let largest = 0;
+  for (let i = 0; i < n; i++) largest = Math.max(largest, Math.abs(diagonal[i]));
+  for (let i = 0; i + 1 < n; i++) largest = Math.max(largest, Math.abs(offDiagonal[i]));
+  if (!Number.isFinite(largest)) return null;
+  const scale = largest > 0 ? 2 ** -Math.round(Math.log2(largest)) : 1;
+  const d = new Float64Array(n);
+  const e = new Float64Array(Math.max(0, n - 1));
+  for (let i = 0; i < n; i++) d[i] = diagonal[i] * scale;
+  for (let i = 0; i + 1 < n; i++) e[i] = offDiagonal[i] * scale;
   let m = n - 1;
   let steps = 0;
   while (m > 0) {
@@ -242,11 +263,11 @@ export function tridiagonalEigenvalues(
     // Wilkinson shift: the eigenvalue of the trailing 2 × 2 block nearer d_m.
     const half = 0.5 * (d[m - 1] - d[m]);
     const last = e[m - 1];
-    const shift = d[m] - (last * last) / (half + (half >= 0 ? 1 : -1) * Math.hypot(half, last));
+    const shift = d[m] - (last * last) / (half + (half >= 0 ? 1 : -1) * Math.sqrt(half * half + last * last));
     let x = d[l] - shift;
     let z = e[l];
     for (let k = l; k < m; k++) {
-      const r = Math.hypot(x, z);
+      const r = Math.sqrt(x * x + z * z);
       const c = r === 0 ? 1 : x / r;
       const s = r === 0 ? 0 : z / r;
       if (k > l) e[k - 1] = r;
@@ -263,7 +284,9 @@ export function tridiagonalEigenvalues(
       }
     }
   }
-  return d.sort();
+  d.sort();
+  for (let i = 0; i < n; i++) d[i] /= scale;
+  return d;
 }
 
 /**

@@ -114,6 +114,34 @@ function pathInductance(inductance: Float64Array, n: number): Float64Array {
 }
 
 /**
+ * A = Gᵀ P G for a lower-triangular G: X = P G, then A = Gᵀ X, upper half mirrored. Both products
+ * run along rows (x_i += p_ik g_k and a_i += g_ki x_k for ascending k), the same sums in the same
+ * order as the dot products of rows with columns, with the inner loops on contiguous entries.
+ */
+function congruence(p: Float64Array, g: Float64Array, n: number): Float64Array {
+  const x = new Float64Array(n * n);
+  for (let i = 0; i < n; i++) {
+    const row = i * n;
+    for (let k = 0; k < n; k++) {
+      const pik = p[row + k];
+      const gRow = k * n;
+      for (let j = 0; j <= k; j++) x[row + j] += pik * g[gRow + j];
+    }
+  }
+  const a = new Float64Array(n * n);
+  for (let k = 0; k < n; k++) {
+    const kRow = k * n;
+    for (let i = 0; i <= k; i++) {
+      const gki = g[kRow + i];
+      const row = i * n;
+      for (let j = i; j < n; j++) a[row + j] += gki * x[kRow + j];
+    }
+  }
+  for (let i = 0; i < n; i++) for (let j = i + 1; j < n; j++) a[j * n + i] = a[i * n + j];
+  return a;
+}
+
+/**
  * Solves the ladder. Null when a matrix is not positive definite (an impossible input).
  *
  * With P = K⁻¹ (pathInductance) the problem K v = ω² C v is P C v = v / ω²; with C = G Gᵀ and
@@ -129,22 +157,7 @@ export function solveResonator(ladder: LadderMatrices): ResonatorSolution | null
   const g = choleskyFactor(ladder.capacitance, n);
   if (!g) return null;
   const p = pathInductance(ladder.inductance, n);
-  // A = Gᵀ P G (G lower triangular): X = P G, then A = Gᵀ X, upper half mirrored.
-  const x = new Float64Array(n * n);
-  for (let i = 0; i < n; i++)
-    for (let j = 0; j < n; j++) {
-      let sum = 0;
-      for (let k = j; k < n; k++) sum += p[i * n + k] * g[k * n + j];
-      x[i * n + j] = sum;
-    }
-  const a = new Float64Array(n * n);
-  for (let i = 0; i < n; i++)
-    for (let j = i; j < n; j++) {
-      let sum = 0;
-      for (let k = i; k < n; k++) sum += g[k * n + i] * x[k * n + j];
-      a[i * n + j] = sum;
-      a[j * n + i] = sum;
-    }
+  const a = congruence(p, g, n);
   const tridiagonal = tridiagonalize(a, n);
   const values = tridiagonalEigenvalues(tridiagonal.diagonal, tridiagonal.offDiagonal);
   if (!values) return null;
@@ -252,6 +265,7 @@ export function foldTopload(matrix: Float64Array, size: number, nodes: number, e
  * The capacitance matrix of a coarser ladder whose nodes are every `stride`-th fine node: the
  * coarse hats are combinations of the fine ones (piecewise-linear interpolation in height), so
  * C_coarse = R C Rᵀ exactly (Galerkin restriction). Returns the matrix and the coarse fractions.
+ * Cost: R is banded (2·stride − 1 weights a row), so O(n · fine · stride); stride 1 is a copy.
  */
 export function coarsenCapacitance(
   matrix: Float64Array,
@@ -263,8 +277,11 @@ export function coarsenCapacitance(
   const n = fine / stride;
   const fractions = new Float64Array(n + 1);
   for (let c = 0; c <= n; c++) fractions[c] = fineFractions[c * stride];
-  // R (n × fine): coarse hat c at fine node f (1-based both; stored 0-based as c − 1, f − 1).
-  const r = new Float64Array(n * fine);
+  if (stride === 1) return { matrix: Float64Array.from(matrix.subarray(0, fine * fine)), fractions };
+  // R (n × fine): coarse hat c (1-based) spans fine nodes (c − 1)·stride + 1 … (c + 1)·stride − 1;
+  // row c − 1 keeps its 2·stride − 1 weights from fine node (c − 1)·stride + 1 (0-based: (c − 1)·stride).
+  const band = 2 * stride - 1;
+  const r = new Float64Array(n * band);
   for (let c = 1; c <= n; c++) {
     for (let f = (c - 1) * stride + 1; f <= Math.min(fine, (c + 1) * stride - 1); f++) {
       const z = fineFractions[f];
@@ -273,13 +290,17 @@ export function coarsenCapacitance(
         f <= c * stride
           ? (z - fractions[c - 1]) / (centre - fractions[c - 1])
           : (fractions[c + 1] - z) / (fractions[c + 1] - centre);
-      r[(c - 1) * fine + (f - 1)] = value;
+      r[(c - 1) * band + (f - 1 - (c - 1) * stride)] = value;
     }
   }
-  const temp = new Float64Array(n * fine); // R C
+  const weight = (c: number, f: number) => {
+    const offset = f - c * stride; // c, f 0-based
+    return offset >= 0 && offset < band ? r[c * band + offset] : 0;
+  };
+  const temp = new Float64Array(n * fine); // R C, summed over the band in ascending f
   for (let i = 0; i < n; i++)
-    for (let f = 0; f < fine; f++) {
-      const w = r[i * fine + f];
+    for (let f = i * stride; f < Math.min(fine, i * stride + band); f++) {
+      const w = weight(i, f);
       if (w === 0) continue;
       for (let j = 0; j < fine; j++) temp[i * fine + j] += w * matrix[f * fine + j];
     }
@@ -287,7 +308,7 @@ export function coarsenCapacitance(
   for (let i = 0; i < n; i++)
     for (let j = 0; j < n; j++) {
       let sum = 0;
-      for (let f = 0; f < fine; f++) sum += temp[i * fine + f] * r[j * fine + f];
+      for (let f = j * stride; f < Math.min(fine, j * stride + band); f++) sum += temp[i * fine + f] * weight(j, f);
       coarse[i * n + j] = sum;
     }
   return { matrix: coarse, fractions };

@@ -17,9 +17,10 @@
  * - The topload's metrics (capacitance, field per volt, onset field, breakout voltage) are those
  *   of the resonator's solve, so every margin and warning of the outcome applies to it.
  */
-import type { EvalContext, ThreeCoilParts } from '../context.ts';
+import type { DesignProblem, EvalContext, ThreeCoilParts } from '../context.ts';
 import type { Design } from '../design.ts';
 import { emptyMetrics } from '../metrics.ts';
+import { must } from '../must.ts';
 import { lineCapacitance, lineInductance } from '../three-coil/line.ts';
 import { toploadOuterRadius } from '../three-coil/clearance.ts';
 import { electrostaticsStage } from './electrostatics-stage.ts';
@@ -39,13 +40,12 @@ function mm(metres: number): string {
   return `${Number((metres * 1e3).toPrecision(4))} mm`;
 }
 
-export function resonatorStage(context: EvalContext): void {
-  const { design, metrics, problems } = context;
-  const spec = design.resonator;
-  const driver = context.secondary;
-  const electrostatics = context.electrostatics;
-  if (!spec || !driver || !electrostatics) return;
-
+/**
+ * The resonator's winding and topload evaluated alone (secondary and electrostatics stages on a
+ * design of their own); its problems and warnings are the design's, named for the resonator.
+ */
+function resonatorAlone(context: EvalContext, spec: NonNullable<Design['resonator']>): EvalContext {
+  const { design, problems } = context;
   const subDesign: Design = { secondary: spec.winding, environment: design.environment };
   if (design.topload) subDesign.topload = design.topload;
   const sub: EvalContext = { design: subDesign, metrics: emptyMetrics(), warnings: [], problems: [] };
@@ -56,22 +56,72 @@ export function resonatorStage(context: EvalContext): void {
   }
   for (const warning of sub.warnings)
     context.warnings.push({ ...warning, message: `the resonator: ${warning.message}` });
-  const winding = sub.secondary;
-  const solved = sub.electrostatics;
-  if (problems.length > 0 || !winding || !solved) return;
+  return sub;
+}
 
-  // The resonator stands beside the driver: their outlines (winding, topload) must not overlap.
+/** The resonator stands beside the driver: their outlines (winding, topload) must not overlap. */
+function overlapProblem(
+  design: Design,
+  spec: NonNullable<Design['resonator']>,
+  driver: NonNullable<EvalContext['secondary']>,
+  winding: NonNullable<EvalContext['secondary']>,
+): { spacing: number; problem: DesignProblem | null } {
   const spacing = spec.axisSpacing ?? spec.line.length;
   const driverOuter = driver.radius + driver.overallDiameter / 2;
   const resonatorOuter = Math.max(
     winding.radius + winding.overallDiameter / 2,
     design.topload ? toploadOuterRadius(design.topload) : 0,
   );
-  if (!(spacing > driverOuter + resonatorOuter)) {
-    problems.push({
+  if (spacing > driverOuter + resonatorOuter) return { spacing, problem: null };
+  return {
+    spacing,
+    problem: {
       field: spec.axisSpacing !== undefined ? 'resonator.axis_spacing' : 'resonator.line_length',
       reason: `the resonator (outer radius ${mm(resonatorOuter)}) at ${mm(spacing)} from the secondary's axis overlaps the secondary (outer radius ${mm(driverOuter)})`,
-    });
+    },
+  };
+}
+
+/** The three-coil metrics, and the driver's electrostatics as the primary stage sees them (see the header). */
+function recordThreeCoil(context: EvalContext, sub: EvalContext, parts: ThreeCoilParts): void {
+  const { metrics } = context;
+  const solved = must(sub.electrostatics, "the resonator's electrostatics");
+  for (const key of TOPLOAD_METRICS) metrics[key] = sub.metrics[key];
+  // streamer loading (a given streamer length) acts on the resonator's top
+  metrics.loaded_resonant_frequency = sub.metrics.loaded_resonant_frequency;
+  metrics.line_capacitance = parts.lineCapacitance;
+  metrics.line_inductance = parts.lineInductance;
+  metrics.junction_capacitance = parts.junctionCapacitance;
+  metrics.resonator_turns = parts.winding.turns;
+  metrics.resonator_effective_inductance = parts.inductance;
+  metrics.resonator_effective_capacitance = parts.capacitance;
+  metrics.resonator_frequency = parts.frequency;
+  // The primary tunes to the driver loaded with the junction (the two-coil rule, refined to the
+  // three-coil ratios by the primary stage); the breakout is the resonator's topload's.
+  context.electrostatics = {
+    totalCapacitance: parts.junctionCapacitance,
+    toploadCapacitance: solved.toploadCapacitance,
+    toploadFieldPerVolt: solved.toploadFieldPerVolt,
+    onsetField: solved.onsetField,
+    breakoutVoltage: solved.breakoutVoltage,
+  };
+}
+
+export function resonatorStage(context: EvalContext): void {
+  const { design, problems } = context;
+  const spec = design.resonator;
+  const driver = context.secondary;
+  const electrostatics = context.electrostatics;
+  if (!spec || !driver || !electrostatics) return;
+
+  const sub = resonatorAlone(context, spec);
+  const winding = sub.secondary;
+  const solved = sub.electrostatics;
+  if (problems.length > 0 || !winding || !solved) return;
+
+  const { spacing, problem } = overlapProblem(design, spec, driver, winding);
+  if (problem) {
+    problems.push(problem);
     return;
   }
   const radius = spec.line.conductorDiameter / 2;
@@ -102,23 +152,5 @@ export function resonatorStage(context: EvalContext): void {
     axisSpacing: spacing,
   };
   context.threeCoil = parts;
-  for (const key of TOPLOAD_METRICS) metrics[key] = sub.metrics[key];
-  // streamer loading (a given streamer length) acts on the resonator's top
-  metrics.loaded_resonant_frequency = sub.metrics.loaded_resonant_frequency;
-  metrics.line_capacitance = cLine;
-  metrics.line_inductance = lLine;
-  metrics.junction_capacitance = parts.junctionCapacitance;
-  metrics.resonator_turns = winding.turns;
-  metrics.resonator_effective_inductance = inductance;
-  metrics.resonator_effective_capacitance = capacitance;
-  metrics.resonator_frequency = frequency;
-  // The primary tunes to the driver loaded with the junction (the two-coil rule, refined to the
-  // three-coil ratios by the primary stage); the breakout is the resonator's topload's.
-  context.electrostatics = {
-    totalCapacitance: parts.junctionCapacitance,
-    toploadCapacitance: solved.toploadCapacitance,
-    toploadFieldPerVolt: solved.toploadFieldPerVolt,
-    onsetField: solved.onsetField,
-    breakoutVoltage: solved.breakoutVoltage,
-  };
+  recordThreeCoil(context, sub, parts);
 }
