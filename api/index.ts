@@ -33,7 +33,7 @@ import {
 import type { CandidatePool, PoolEntry, RankedEntry } from '../optimize/pareto/candidate-pool.ts';
 import type { PackedRow } from '../optimize/packed-row.ts';
 import { refineSweep } from '../optimize/refine-run.ts';
-import { SweepState } from '../optimize/sweep-state.ts';
+import { type ObjectiveDefinition as Objective, SweepState, type SweepCounts } from '../optimize/sweep-state.ts';
 import { fieldError, InputError, optionError } from '../run/input-error.ts';
 import { DEFAULT_KEEP, measureBatchSize } from '../run/sweep-setup.ts';
 import { scheduleBatches } from '../run/batch-scheduler.ts';
@@ -64,13 +64,8 @@ export interface WindingProfile {
   current: number[];
 }
 
-/** One objective of a sweep. */
-export interface Objective {
-  /** The metric's key. */
-  metric: string;
-  /** Whether smaller or larger is better. */
-  sense: 'minimize' | 'maximize';
-}
+/** One objective of a sweep: the sweep state's own definition (optimize/sweep-state.ts). */
+export type { Objective };
 
 /** The keys of the metric contract in their stable order (README, Metrics); every result carries them all. */
 export const METRIC_NAMES: readonly string[] = METRIC_KEYS;
@@ -175,19 +170,8 @@ export interface Candidate {
   design: Design | null;
 }
 
-/** How many designs a sweep evaluated, by outcome. */
-export interface SweepCounts {
-  /** Every design evaluated. */
-  evaluated: number;
-  /** Meeting every constraint. */
-  feasible: number;
-  /** Evaluated, but violating a constraint or lacking an objective. */
-  infeasible: number;
-  /** Impossible as given (a geometry that cannot be built): infeasible, with a reason. */
-  impossible: number;
-  /** Whose evaluation failed (a bug or a worker that died twice): infeasible, with a reason. */
-  failed: number;
-}
+/** How many designs a sweep evaluated, by outcome: the sweep state's counts (optimize/sweep-state.ts). */
+export type { SweepCounts };
 
 /** Options of {@link sweep}. */
 export interface SweepOptions {

@@ -15,8 +15,11 @@ import { IndexSample, type IndexSampleData } from './sampling/index-sample.ts';
 import { PackedRow, packRow, type PackedRowData } from './packed-row.ts';
 import { must } from '../core/must.ts';
 
+/** One objective of a sweep. */
 export interface ObjectiveDefinition {
+  /** The metric's key. */
   metric: string;
+  /** Whether smaller or larger is better. */
   sense: 'minimize' | 'maximize';
 }
 
@@ -41,14 +44,17 @@ export const PROBLEM_VIOLATION = 1e9;
 /** Violation given to designs whose evaluation failed (last of all). */
 export const FAILED_VIOLATION = 2e9;
 
+/** How many designs a sweep evaluated, by outcome. */
 export interface SweepCounts {
+  /** Every design evaluated. */
   evaluated: number;
+  /** Meeting every constraint. */
   feasible: number;
   /** Evaluated, but violating at least one constraint (or lacking an objective). */
   infeasible: number;
   /** Could not be built as given (impossible geometry): infeasible with a reason. */
   impossible: number;
-  /** The evaluation threw, gave a non-finite metric, or its worker died twice. */
+  /** The evaluation threw, gave a non-finite metric, or its worker died twice: infeasible with a reason. */
   failed: number;
 }
 

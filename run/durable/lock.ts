@@ -142,13 +142,7 @@ export function acquireRunLock(directory: string, options: RunLockOptions = {}):
   const fileSystem = options.fileSystem ?? nodeFileSystem;
   const alive = options.isProcessAlive ?? isProcessAlive;
   const path = join(directory, RUN_LOCK_FILE);
-  const holder: RunLockHolder = {
-    pid: options.pid ?? process.pid,
-    hostname: options.hostname ?? osHostname(),
-    bootId: options.bootId === undefined ? currentBootId() : options.bootId,
-    startedAt: (options.now ?? (() => new Date()))().toISOString(),
-    token: randomUUID(),
-  };
+  const holder = holderOfThisProcess(options);
   const text = `${JSON.stringify(holder)}\n`;
   const temporary = join(directory, `.${RUN_LOCK_FILE}.${holder.token}.tmp`);
   try {
@@ -168,51 +162,8 @@ export function acquireRunLock(directory: string, options: RunLockOptions = {}):
       }
       const existingText = readText(fileSystem, path);
       if (existingText === null) continue; // released meanwhile: try again
-      const existing = parseHolder(existingText);
-      if (existing === null) {
-        throw new RunLockError(
-          `'${directory}' holds a lock file that cannot be read; if no sweep runs there, delete '${path}'`,
-          path,
-          null,
-        );
-      }
-      const stale =
-        existing.hostname === holder.hostname &&
-        ((existing.bootId !== null && holder.bootId !== null && existing.bootId !== holder.bootId) ||
-          !alive(existing.pid));
-      if (!stale) {
-        const where = existing.hostname === holder.hostname ? '' : ` on host ${existing.hostname}`;
-        throw new RunLockError(
-          `'${directory}' is in use by process ${existing.pid}${where} since ${existing.startedAt}; wait for it to finish, or if that run is gone, delete '${path}'`,
-          path,
-          existing,
-        );
-      }
-      // Move the stale lock aside; only one process can move a given file.
-      const aside = join(directory, `.${RUN_LOCK_FILE}.${holder.token}.stale`);
-      try {
-        fileSystem.renameSync(path, aside);
-      } catch (error) {
-        if ((error as { code?: string }).code === 'ENOENT') continue; // another process moved it first
-        throw toDiskError(error, path, 'lock');
-      }
-      const movedText = readText(fileSystem, aside);
-      if (movedText !== existingText) {
-        // A fresh lock replaced the stale one before our rename: put it back and report it.
-        try {
-          fileSystem.linkSync(aside, path);
-        } catch {
-          // a third lock is in place; ours stays out either way
-        }
-        fileSystem.unlinkSync(aside);
-        const fresh = movedText === null ? null : parseHolder(movedText);
-        throw new RunLockError(
-          `'${directory}' is in use by process ${fresh?.pid ?? '?'} since ${fresh?.startedAt ?? '?'}; wait for it to finish`,
-          path,
-          fresh,
-        );
-      }
-      fileSystem.unlinkSync(aside);
+      const existing = takeOverStale(fileSystem, directory, path, holder, existingText, alive);
+      if (existing === null) continue; // another process moved it first
       tookOverFrom = existing;
     }
     throw new RunLockError(
@@ -227,6 +178,77 @@ export function acquireRunLock(directory: string, options: RunLockOptions = {}):
       // already gone
     }
   }
+}
+
+/** This process as the lock's holder (the options stand in for the process in tests). */
+function holderOfThisProcess(options: RunLockOptions): RunLockHolder {
+  return {
+    pid: options.pid ?? process.pid,
+    hostname: options.hostname ?? osHostname(),
+    bootId: options.bootId === undefined ? currentBootId() : options.bootId,
+    startedAt: (options.now ?? (() => new Date()))().toISOString(),
+    token: randomUUID(),
+  };
+}
+
+/**
+ * Moves the lock file holding `existingText` out of the way when its holder is stale, and returns that
+ * holder; null when another process moved it first (try again). Throws a RunLockError when the file cannot
+ * be read, its holder is alive (or on another host), or a fresh lock replaced it meanwhile.
+ */
+function takeOverStale(
+  fileSystem: DurableFileSystem,
+  directory: string,
+  path: string,
+  holder: RunLockHolder,
+  existingText: string,
+  alive: (pid: number) => boolean,
+): RunLockHolder | null {
+  const existing = parseHolder(existingText);
+  if (existing === null) {
+    throw new RunLockError(
+      `'${directory}' holds a lock file that cannot be read; if no sweep runs there, delete '${path}'`,
+      path,
+      null,
+    );
+  }
+  const stale =
+    existing.hostname === holder.hostname &&
+    ((existing.bootId !== null && holder.bootId !== null && existing.bootId !== holder.bootId) || !alive(existing.pid));
+  if (!stale) {
+    const where = existing.hostname === holder.hostname ? '' : ` on host ${existing.hostname}`;
+    throw new RunLockError(
+      `'${directory}' is in use by process ${existing.pid}${where} since ${existing.startedAt}; wait for it to finish, or if that run is gone, delete '${path}'`,
+      path,
+      existing,
+    );
+  }
+  // Move the stale lock aside; only one process can move a given file.
+  const aside = join(directory, `.${RUN_LOCK_FILE}.${holder.token}.stale`);
+  try {
+    fileSystem.renameSync(path, aside);
+  } catch (error) {
+    if ((error as { code?: string }).code === 'ENOENT') return null;
+    throw toDiskError(error, path, 'lock');
+  }
+  const movedText = readText(fileSystem, aside);
+  if (movedText !== existingText) {
+    // A fresh lock replaced the stale one before our rename: put it back and report it.
+    try {
+      fileSystem.linkSync(aside, path);
+    } catch {
+      // a third lock is in place; ours stays out either way
+    }
+    fileSystem.unlinkSync(aside);
+    const fresh = movedText === null ? null : parseHolder(movedText);
+    throw new RunLockError(
+      `'${directory}' is in use by process ${fresh?.pid ?? '?'} since ${fresh?.startedAt ?? '?'}; wait for it to finish`,
+      path,
+      fresh,
+    );
+  }
+  fileSystem.unlinkSync(aside);
+  return existing;
 }
 
 /**

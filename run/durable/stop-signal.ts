@@ -89,35 +89,55 @@ export function installStopSignal(options: StopSignalOptions = {}): StopSignal {
     throw new RangeError(`the time limit must be a finite number of seconds >= 0, got ${options.timeLimitSeconds}`);
   }
   const deadline = options.timeLimitSeconds === undefined ? null : now() + options.timeLimitSeconds * 1000;
-  let reason: StopReason | null = null;
-  let firstSignal: NodeJS.Signals | null = null;
-  let listeners: Array<(reason: StopReason) => void> = [];
-  let timer: NodeJS.Timeout | undefined;
-
-  const requestStop = (why: StopReason): void => {
-    if (reason !== null) return;
-    reason = why;
-    if (timer !== undefined) clearInterval(timer);
-    const waiting = listeners;
-    listeners = [];
-    for (const listener of waiting) listener(why);
-  };
+  const state: StopState = { reason: null, firstSignal: null, listeners: [], timer: undefined };
 
   const checkDeadline = (): void => {
-    if (reason === null && deadline !== null && now() >= deadline) {
+    if (state.reason === null && deadline !== null && now() >= deadline) {
       log('time limit reached: finishing the batches in flight, then writing outputs and the checkpoint');
-      requestStop('time-limit');
+      requestStop(state, 'time-limit');
     }
   };
+  const handlers = installHandlers(state, signals, log, exit);
+  if (deadline !== null) {
+    state.timer = setInterval(checkDeadline, Math.max(1, options.checkIntervalMs ?? 1000));
+    state.timer.unref();
+  }
+  return stopHandle(state, deadline, checkDeadline, handlers);
+}
 
+/** What a stop request being watched for holds: why and by which signal it was asked, who waits, the timer. */
+interface StopState {
+  reason: StopReason | null;
+  firstSignal: NodeJS.Signals | null;
+  listeners: Array<(reason: StopReason) => void>;
+  timer: NodeJS.Timeout | undefined;
+}
+
+/** Records the first stop request, stops the timer and calls the waiting listeners once; later ones do nothing. */
+function requestStop(state: StopState, why: StopReason): void {
+  if (state.reason !== null) return;
+  state.reason = why;
+  if (state.timer !== undefined) clearInterval(state.timer);
+  const waiting = state.listeners;
+  state.listeners = [];
+  for (const listener of waiting) listener(why);
+}
+
+/** Installs one handler per signal: the first requests the stop, a later SIGINT exits at once. */
+function installHandlers(
+  state: StopState,
+  signals: readonly NodeJS.Signals[],
+  log: (line: string) => void,
+  exit: (code: number) => void,
+): Map<NodeJS.Signals, () => void> {
   const handlers = new Map<NodeJS.Signals, () => void>();
   for (const signal of signals) {
     const handler = (): void => {
-      if (reason === null) {
-        firstSignal = signal;
+      if (state.reason === null) {
+        state.firstSignal = signal;
         const again = signal === 'SIGINT' ? ' (press Ctrl-C again to stop at once, without the checkpoint)' : '';
         log(`received ${signal}: finishing the batches in flight, then writing outputs and the checkpoint${again}`);
-        requestStop('signal');
+        requestStop(state, 'signal');
       } else if (signal === 'SIGINT') {
         log('received SIGINT again: stopping at once; the last checkpoint written stays resumable');
         exit(128 + signalNumber('SIGINT'));
@@ -126,46 +146,51 @@ export function installStopSignal(options: StopSignalOptions = {}): StopSignal {
     handlers.set(signal, handler);
     process.on(signal, handler);
   }
+  return handlers;
+}
 
-  if (deadline !== null) {
-    timer = setInterval(checkDeadline, Math.max(1, options.checkIntervalMs ?? 1000));
-    timer.unref();
-  }
-
+/** The stop request handed to the run: every read checks the deadline first. */
+function stopHandle(
+  state: StopState,
+  deadline: number | null,
+  checkDeadline: () => void,
+  handlers: Map<NodeJS.Signals, () => void>,
+): StopSignal {
   return {
     get stopRequested() {
       checkDeadline();
-      return reason !== null;
+      return state.reason !== null;
     },
     get signal() {
-      return firstSignal;
+      return state.firstSignal;
     },
     get reason() {
       checkDeadline();
-      return reason;
+      return state.reason;
     },
     deadline,
     exitCode() {
       checkDeadline();
-      if (reason === 'signal' && firstSignal !== null) return 128 + signalNumber(firstSignal);
-      if (reason === 'time-limit') return TIME_LIMIT_EXIT_CODE;
+      if (state.reason === 'signal' && state.firstSignal !== null) return 128 + signalNumber(state.firstSignal);
+      if (state.reason === 'time-limit') return TIME_LIMIT_EXIT_CODE;
       return 0;
     },
     onStop(listener) {
+      const reason = state.reason;
       if (reason !== null) {
         listener(reason);
         return () => undefined;
       }
-      listeners.push(listener);
+      state.listeners.push(listener);
       return () => {
-        listeners = listeners.filter((entry) => entry !== listener);
+        state.listeners = state.listeners.filter((entry) => entry !== listener);
       };
     },
     dispose() {
       for (const [signal, handler] of handlers) process.off(signal, handler);
       handlers.clear();
-      if (timer !== undefined) clearInterval(timer);
-      timer = undefined;
+      if (state.timer !== undefined) clearInterval(state.timer);
+      state.timer = undefined;
     },
   };
 }
