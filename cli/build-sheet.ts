@@ -145,7 +145,7 @@ export function buildSheet(
 
 /** The sheet's secondary section. */
 function secondarySection(ctx: SheetContext): void {
-  const { design, evaluation, m, sections, parts, reelMass } = ctx;
+  const { design, evaluation, m, sections, parts } = ctx;
   const secondary = design.secondary;
   if (secondary) {
     const figures: SheetFigure[] = [];
@@ -185,40 +185,7 @@ function secondarySection(ctx: SheetContext): void {
       source: 'computed: base_height + winding_length',
     });
     push(figures, metricFigure(evaluation, 'secondary_turns', 'turns'));
-    const wire =
-      secondary.wire.awg !== undefined ? `AWG ${secondary.wire.awg}` : lengthText(secondary.wire.bareDiameter);
-    const overall =
-      secondary.wire.overallDiameter ?? insulatedDiameter(secondary.wire.bareDiameter, secondary.wire.insulation);
-    figures.push({
-      label: 'wire',
-      text: `${wire} (bare ${lengthText(secondary.wire.bareDiameter)}, insulated about ${lengthText(overall)})`,
-      value: secondary.wire.bareDiameter,
-      source: 'design secondary.wire, IEC 60317-0-1 grade for the insulation',
-    });
-    push(figures, metricFigure(evaluation, 'wire_length', 'wire on the winding'));
-    const wireLength = m.wire_length ?? 0;
-    const buy = wireLength * (1 + SPARE_FRACTION) + 2 * LEAD_LENGTH;
-    figures.push({
-      label: 'wire to buy',
-      text: metres(buy),
-      value: buy,
-      source: `rule: wire_length × ${1 + SPARE_FRACTION} + 2 leads of ${metres(LEAD_LENGTH)} (common practice, our numbers)`,
-    });
-    push(figures, metricFigure(evaluation, 'wire_mass', 'copper on the winding'));
-    const buyMass = copperMass(buy, secondary.wire.bareDiameter);
-    figures.push({
-      label: 'copper to buy',
-      text: `${formatNumber(buyMass)} kg`,
-      value: buyMass,
-      source: `computed: the length to buy × π d²/4 × ${COPPER_DENSITY} kg/m³ (copper; the enamel adds a little)`,
-    });
-    const reels = Math.max(1, Math.ceil(buyMass / reelMass - 1e-9));
-    figures.push({
-      label: `reels of ${formatNumber(reelMass)} kg`,
-      text: String(reels),
-      value: reels,
-      source: 'computed: copper to buy over the reel mass, rounded up (--reel-mass)',
-    });
+    const { wire, buy } = secondaryWireFigures(ctx, secondary, figures);
     notes.push('Wind close and even; lacquer the winding; keep the first and last turns clear of the form ends.');
     sections.push({ title: 'Secondary', figures, notes });
     parts.push({
@@ -238,9 +205,52 @@ function secondarySection(ctx: SheetContext): void {
   }
 }
 
+/** The secondary's wire: its size, the length and copper on the winding, and what to buy. */
+function secondaryWireFigures(
+  ctx: SheetContext,
+  secondary: NonNullable<Design['secondary']>,
+  figures: SheetFigure[],
+): { wire: string; buy: number } {
+  const { evaluation, m, reelMass } = ctx;
+  const wire = secondary.wire.awg !== undefined ? `AWG ${secondary.wire.awg}` : lengthText(secondary.wire.bareDiameter);
+  const overall =
+    secondary.wire.overallDiameter ?? insulatedDiameter(secondary.wire.bareDiameter, secondary.wire.insulation);
+  figures.push({
+    label: 'wire',
+    text: `${wire} (bare ${lengthText(secondary.wire.bareDiameter)}, insulated about ${lengthText(overall)})`,
+    value: secondary.wire.bareDiameter,
+    source: 'design secondary.wire, IEC 60317-0-1 grade for the insulation',
+  });
+  push(figures, metricFigure(evaluation, 'wire_length', 'wire on the winding'));
+  const wireLength = m.wire_length ?? 0;
+  const buy = wireLength * (1 + SPARE_FRACTION) + 2 * LEAD_LENGTH;
+  figures.push({
+    label: 'wire to buy',
+    text: metres(buy),
+    value: buy,
+    source: `rule: wire_length × ${1 + SPARE_FRACTION} + 2 leads of ${metres(LEAD_LENGTH)} (common practice, our numbers)`,
+  });
+  push(figures, metricFigure(evaluation, 'wire_mass', 'copper on the winding'));
+  const buyMass = copperMass(buy, secondary.wire.bareDiameter);
+  figures.push({
+    label: 'copper to buy',
+    text: `${formatNumber(buyMass)} kg`,
+    value: buyMass,
+    source: `computed: the length to buy × π d²/4 × ${COPPER_DENSITY} kg/m³ (copper; the enamel adds a little)`,
+  });
+  const reels = Math.max(1, Math.ceil(buyMass / reelMass - 1e-9));
+  figures.push({
+    label: `reels of ${formatNumber(reelMass)} kg`,
+    text: String(reels),
+    value: reels,
+    source: 'computed: copper to buy over the reel mass, rounded up (--reel-mass)',
+  });
+  return { wire, buy };
+}
+
 /** The sheet's primary section. */
 function primarySection(ctx: SheetContext): void {
-  const { design, evaluation, m, sections, parts, tuning } = ctx;
+  const { design, evaluation, m, sections, parts } = ctx;
   const secondary = design.secondary;
   const primary = design.primary;
   if (primary && secondary) {
@@ -300,17 +310,7 @@ function primarySection(ctx: SheetContext): void {
     push(figures, metricFigure(evaluation, 'primary_outer_diameter', 'outermost ring diameter'));
     push(figures, metricFigure(evaluation, 'primary_tap_margin', 'turns left beyond the tap'));
     sections.push({ title: 'Primary', figures, notes });
-    const ringTable: string[] = ['| ring | centre-line diameter | height above the floor |', '| ---: | ---: | ---: |'];
-    rings.forEach((r, i) => {
-      ringTable.push(
-        `| ${i + 1}${i + 1 === rings.length && primary.turns % 1 > 1e-9 ? ` (${formatNumber(primary.turns % 1)} of a turn)` : ''} | ${lengthText(2 * r.r)} | ${lengthText(r.z)} |`,
-      );
-    });
-    notes.push(
-      'Ring diameters and heights (design primary.*, computed by the core’s ring layout; the floor is z = 0):',
-      '',
-      ...ringTable,
-    );
+    notes.push(...ringNotes(primary, rings));
     parts.push({
       item: 'primary conductor',
       specification: `diameter ${lengthText(primary.conductorDiameter)}`,
@@ -319,19 +319,46 @@ function primarySection(ctx: SheetContext): void {
       source: 'rule: conductor to buy',
     });
 
-    // the tap with streamer loading: the same inductance table, tuned to the loaded frequency
-    // the tank as built: the bank's capacitance when the design has one
-    const tankCapacitance = m.tank_bank_capacitance ?? design.tank?.capacitance;
-    // (three coils: the tap is set for the 1:2:3 modes, not to one frequency, so no single loaded tap)
-    const loaded = design.resonator ? null : ctx.loaded;
-    if (tankCapacitance !== undefined && loaded !== null) {
-      const table = primaryInductanceTable(rings, primary.conductorDiameter / 2);
-      const required = 1 / ((2 * Math.PI * loaded.frequency) ** 2 * tankCapacitance);
-      const tuned = tapForInductance(table, required, Math.min(1, primary.turns), primary.turns);
-      tuning.loadedTap = tuned.status === 'tuned' ? tuned.tapTurns : null;
-      if (tuned.status === 'above_range') {
-        tuning.beyondPrimary = `the streamer-loaded frequency ${formatNumber(loaded.frequency / 1e3)} kHz needs ${formatNumber(required * 1e6)} µH, more than the whole primary's ${formatNumber(primaryInductanceAtTap(table, primary.turns) * 1e6)} µH: the tap would run off the outer end, so add a turn or two (or a larger tank) before the sparks grow`;
-      }
+    setLoadedTap(ctx, primary, rings);
+  }
+}
+
+/** The note of the primary's rings: a table of their diameters and heights. */
+function ringNotes(primary: NonNullable<Design['primary']>, rings: ReturnType<typeof primaryRings>): string[] {
+  const ringTable: string[] = ['| ring | centre-line diameter | height above the floor |', '| ---: | ---: | ---: |'];
+  rings.forEach((r, i) => {
+    ringTable.push(
+      `| ${i + 1}${i + 1 === rings.length && primary.turns % 1 > 1e-9 ? ` (${formatNumber(primary.turns % 1)} of a turn)` : ''} | ${lengthText(2 * r.r)} | ${lengthText(r.z)} |`,
+    );
+  });
+  return [
+    'Ring diameters and heights (design primary.*, computed by the core’s ring layout; the floor is z = 0):',
+    '',
+    ...ringTable,
+  ];
+}
+
+/**
+ * The tap with streamer loading (the same inductance table, tuned to the loaded frequency), or why
+ * there is none, into ctx.tuning for the tuning section.
+ */
+function setLoadedTap(
+  ctx: SheetContext,
+  primary: NonNullable<Design['primary']>,
+  rings: ReturnType<typeof primaryRings>,
+): void {
+  const { design, m, tuning } = ctx;
+  // the tank as built: the bank's capacitance when the design has one
+  const tankCapacitance = m.tank_bank_capacitance ?? design.tank?.capacitance;
+  // (three coils: the tap is set for the 1:2:3 modes, not to one frequency, so no single loaded tap)
+  const loaded = design.resonator ? null : ctx.loaded;
+  if (tankCapacitance !== undefined && loaded !== null) {
+    const table = primaryInductanceTable(rings, primary.conductorDiameter / 2);
+    const required = 1 / ((2 * Math.PI * loaded.frequency) ** 2 * tankCapacitance);
+    const tuned = tapForInductance(table, required, Math.min(1, primary.turns), primary.turns);
+    tuning.loadedTap = tuned.status === 'tuned' ? tuned.tapTurns : null;
+    if (tuned.status === 'above_range') {
+      tuning.beyondPrimary = `the streamer-loaded frequency ${formatNumber(loaded.frequency / 1e3)} kHz needs ${formatNumber(required * 1e6)} µH, more than the whole primary's ${formatNumber(primaryInductanceAtTap(table, primary.turns) * 1e6)} µH: the tap would run off the outer end, so add a turn or two (or a larger tank) before the sparks grow`;
     }
   }
 }
@@ -457,57 +484,8 @@ function tankSection(ctx: SheetContext): void {
     const notes: string[] = [];
     const bank = design.tankBank;
     if (bank && m.tank_bank_series !== null && m.tank_bank_parallel !== null) {
-      figures.push({
-        label: 'part',
-        text: `${formatNumber(bank.partCapacitance * 1e9)} nF, ${formatNumber(bank.partVoltageRating / 1e3)} kV DC, ${formatNumber(bank.partRmsCurrentRating)} A rms${bank.partPeakCurrentRating !== undefined ? `, ${formatNumber(bank.partPeakCurrentRating)} A peak` : ''}`,
-        source: 'design tank.bank.part',
-      });
-      figures.push({
-        label: 'layout',
-        text: `${m.tank_bank_series} in series × ${m.tank_bank_parallel} strings in parallel`,
-        value: m.tank_bank_series,
-        source: 'metric tank_bank_series, tank_bank_parallel',
-      });
-      push(figures, metricFigure(evaluation, 'tank_bank_part_count', 'parts'));
-      push(figures, metricFigure(evaluation, 'tank_bank_capacitance', 'bank capacitance (the tank)'));
-      figures.push({
-        label: 'target capacitance',
-        text: `${formatNumber(tank.capacitance * 1e9)} nF`,
-        value: tank.capacitance,
-        source: 'design tank.capacitance',
-      });
-      push(figures, metricFigure(evaluation, 'tank_bank_part_voltage', 'largest voltage across one part'));
-      push(figures, metricFigure(evaluation, 'tank_bank_part_rms_current', 'rms current of one part'));
-      push(figures, metricFigure(evaluation, 'tank_bank_part_peak_current', 'peak current of one part'));
-      push(figures, metricFigure(evaluation, 'tank_bank_stored_energy', 'energy stored in the bank'));
-      push(
-        figures,
-        metricFigure(
-          evaluation,
-          'tank_bank_bleeder_resistance',
-          `bleeder per part, at most (below ${BLEED_SAFE_VOLTAGE} V in ${formatNumber(bank.bleedTime)} s)`,
-        ),
-      );
-      push(figures, metricFigure(evaluation, 'tank_bank_bleeder_power', 'bleeder dissipation at the working voltage'));
-      notes.push(
-        'One bleeder across every part; rate each for the part’s voltage (or use several in series) and at least twice its dissipation (common practice).',
-      );
-      parts.push({
-        item: 'tank capacitor part',
-        specification: `${formatNumber(bank.partCapacitance * 1e9)} nF ${formatNumber(bank.partVoltageRating / 1e3)} kV`,
-        quantity: m.tank_bank_part_count ?? 0,
-        unit: 'piece',
-        source: 'metric tank_bank_part_count',
-      });
-      if (m.tank_bank_bleeder_resistance !== null) {
-        parts.push({
-          item: 'bleeder resistor',
-          specification: `≤ ${formatNumber(m.tank_bank_bleeder_resistance / 1e6)} MΩ, ≥ ${formatNumber(2 * (m.tank_bank_bleeder_power ?? 0))} W`,
-          quantity: m.tank_bank_part_count ?? 0,
-          unit: 'piece',
-          source: 'metric tank_bank_bleeder_resistance, tank_bank_bleeder_power',
-        });
-      }
+      const layout = { series: m.tank_bank_series, parallel: m.tank_bank_parallel };
+      tankBankFigures(ctx, { tank, bank, layout }, figures, notes);
     } else {
       figures.push({
         label: 'tank capacitance',
@@ -538,6 +516,73 @@ function tankSection(ctx: SheetContext): void {
     push(figures, metricFigure(evaluation, 'energy_per_shot'));
     push(figures, metricFigure(evaluation, 'input_power'));
     sections.push({ title: 'Tank capacitor', figures, notes });
+  }
+}
+
+/** The sheet's figures, note and parts of a tank built as a bank of capacitor parts. */
+function tankBankFigures(
+  ctx: SheetContext,
+  built: {
+    tank: NonNullable<Design['tank']>;
+    bank: NonNullable<Design['tankBank']>;
+    /** The metrics tank_bank_series and tank_bank_parallel (known for a bank). */
+    layout: { series: number; parallel: number };
+  },
+  figures: SheetFigure[],
+  notes: string[],
+): void {
+  const { evaluation, m, parts } = ctx;
+  const { tank, bank, layout } = built;
+  figures.push({
+    label: 'part',
+    text: `${formatNumber(bank.partCapacitance * 1e9)} nF, ${formatNumber(bank.partVoltageRating / 1e3)} kV DC, ${formatNumber(bank.partRmsCurrentRating)} A rms${bank.partPeakCurrentRating !== undefined ? `, ${formatNumber(bank.partPeakCurrentRating)} A peak` : ''}`,
+    source: 'design tank.bank.part',
+  });
+  figures.push({
+    label: 'layout',
+    text: `${layout.series} in series × ${layout.parallel} strings in parallel`,
+    value: layout.series,
+    source: 'metric tank_bank_series, tank_bank_parallel',
+  });
+  push(figures, metricFigure(evaluation, 'tank_bank_part_count', 'parts'));
+  push(figures, metricFigure(evaluation, 'tank_bank_capacitance', 'bank capacitance (the tank)'));
+  figures.push({
+    label: 'target capacitance',
+    text: `${formatNumber(tank.capacitance * 1e9)} nF`,
+    value: tank.capacitance,
+    source: 'design tank.capacitance',
+  });
+  push(figures, metricFigure(evaluation, 'tank_bank_part_voltage', 'largest voltage across one part'));
+  push(figures, metricFigure(evaluation, 'tank_bank_part_rms_current', 'rms current of one part'));
+  push(figures, metricFigure(evaluation, 'tank_bank_part_peak_current', 'peak current of one part'));
+  push(figures, metricFigure(evaluation, 'tank_bank_stored_energy', 'energy stored in the bank'));
+  push(
+    figures,
+    metricFigure(
+      evaluation,
+      'tank_bank_bleeder_resistance',
+      `bleeder per part, at most (below ${BLEED_SAFE_VOLTAGE} V in ${formatNumber(bank.bleedTime)} s)`,
+    ),
+  );
+  push(figures, metricFigure(evaluation, 'tank_bank_bleeder_power', 'bleeder dissipation at the working voltage'));
+  notes.push(
+    'One bleeder across every part; rate each for the part’s voltage (or use several in series) and at least twice its dissipation (common practice).',
+  );
+  parts.push({
+    item: 'tank capacitor part',
+    specification: `${formatNumber(bank.partCapacitance * 1e9)} nF ${formatNumber(bank.partVoltageRating / 1e3)} kV`,
+    quantity: m.tank_bank_part_count ?? 0,
+    unit: 'piece',
+    source: 'metric tank_bank_part_count',
+  });
+  if (m.tank_bank_bleeder_resistance !== null) {
+    parts.push({
+      item: 'bleeder resistor',
+      specification: `≤ ${formatNumber(m.tank_bank_bleeder_resistance / 1e6)} MΩ, ≥ ${formatNumber(2 * (m.tank_bank_bleeder_power ?? 0))} W`,
+      quantity: m.tank_bank_part_count ?? 0,
+      unit: 'piece',
+      source: 'metric tank_bank_bleeder_resistance, tank_bank_bleeder_power',
+    });
   }
 }
 

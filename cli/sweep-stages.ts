@@ -80,79 +80,99 @@ export function readStages(input: unknown, issues: InputIssue[], size?: ProblemS
   }
   const stages: StageSpec[] = [];
   for (let i = 0; i < input.length; i++) {
-    const item: unknown = input[i];
-    const path = [...base, i];
-    let name: string;
-    let settings: unknown;
-    if (typeof item === 'string') {
-      name = item;
-      settings = {};
-    } else if (isMapping(item) && Object.keys(item).length === 1) {
-      name = Object.keys(item)[0] as string;
-      settings = item[name] ?? {};
-    } else {
-      issues.push({
-        path,
-        message: `expected one stage, { evolve: { ... } } or { refine: { ... } }, got ${describeValue(item)}`,
-      });
-      return [];
-    }
-    if (!(STAGE_NAMES as string[]).includes(name)) {
-      const guess = suggest(name, STAGE_NAMES);
-      issues.push({
-        path,
-        message: `unknown stage '${name}'${guess ? ` (did you mean '${guess}'?)` : `; expected one of ${STAGE_NAMES.join(', ')}`}`,
-      });
-      return [];
-    }
-    const stage = name as StageName;
-    if (!isMapping(settings)) {
-      issues.push({
-        path: [...path, stage],
-        message: `expected a mapping of settings (${Object.keys(STAGE_SETTINGS[stage]).join(', ')}), got ${describeValue(settings)}`,
-      });
-      return [];
-    }
-    const known = STAGE_SETTINGS[stage];
-    const values: Record<string, number> = {};
-    for (const [key, value] of Object.entries(settings)) {
-      const bounds = Object.hasOwn(known, key) ? known[key] : undefined;
-      if (bounds === undefined) {
-        const guess = suggest(key, Object.keys(known));
-        issues.push({
-          path: [...path, stage, key],
-          message: guess
-            ? `unknown key '${key}' (did you mean '${guess}'?)`
-            : `unknown key '${key}'; expected one of ${Object.keys(known).join(', ')}`,
-        });
-        return [];
-      }
-      const [least, most] = bounds;
-      if (typeof value !== 'number' || !Number.isInteger(value) || value < least || value > most) {
-        issues.push({
-          path: [...path, stage, key],
-          message: `expected a whole number of at least ${least}${most < Number.MAX_SAFE_INTEGER ? ` and at most ${most}` : ''}, got ${describeValue(value)}`,
-        });
-        return [];
-      }
-      values[key] = value;
-    }
-    if (stage === 'evolve') {
-      stages.push({
-        stage,
-        evaluations: values.evaluations ?? defaults.evolve.evaluations,
-        population: values.population ?? defaults.evolve.population,
-        ...(values.seed !== undefined ? { seed: values.seed } : {}),
-      });
-    } else {
-      stages.push({
-        stage,
-        starts: values.starts ?? defaults.refine.starts,
-        evaluations: values.evaluations ?? defaults.refine.evaluations,
-      });
-    }
+    const stage = readStage(input[i], [...base, i], issues, defaults);
+    if (stage === null) return [];
+    stages.push(stage);
   }
   return stages;
+}
+
+/** One item of `sweep.stages` at `path`, its settings defaulted; null after pushing its problem. */
+function readStage(
+  item: unknown,
+  path: (string | number)[],
+  issues: InputIssue[],
+  defaults: ReturnType<typeof stageDefaults>,
+): StageSpec | null {
+  let name: string;
+  let settings: unknown;
+  if (typeof item === 'string') {
+    name = item;
+    settings = {};
+  } else if (isMapping(item) && Object.keys(item).length === 1) {
+    name = Object.keys(item)[0] as string;
+    settings = item[name] ?? {};
+  } else {
+    issues.push({
+      path,
+      message: `expected one stage, { evolve: { ... } } or { refine: { ... } }, got ${describeValue(item)}`,
+    });
+    return null;
+  }
+  if (!(STAGE_NAMES as string[]).includes(name)) {
+    const guess = suggest(name, STAGE_NAMES);
+    issues.push({
+      path,
+      message: `unknown stage '${name}'${guess ? ` (did you mean '${guess}'?)` : `; expected one of ${STAGE_NAMES.join(', ')}`}`,
+    });
+    return null;
+  }
+  const stage = name as StageName;
+  const values = readStageSettings(settings, [...path, stage], stage, issues);
+  if (values === null) return null;
+  if (stage === 'evolve')
+    return {
+      stage,
+      evaluations: values.evaluations ?? defaults.evolve.evaluations,
+      population: values.population ?? defaults.evolve.population,
+      ...(values.seed !== undefined ? { seed: values.seed } : {}),
+    };
+  return {
+    stage,
+    starts: values.starts ?? defaults.refine.starts,
+    evaluations: values.evaluations ?? defaults.refine.evaluations,
+  };
+}
+
+/** The settings of one stage at `path` (whole numbers within their bounds); null after pushing a problem. */
+function readStageSettings(
+  settings: unknown,
+  path: (string | number)[],
+  stage: StageName,
+  issues: InputIssue[],
+): Record<string, number> | null {
+  if (!isMapping(settings)) {
+    issues.push({
+      path,
+      message: `expected a mapping of settings (${Object.keys(STAGE_SETTINGS[stage]).join(', ')}), got ${describeValue(settings)}`,
+    });
+    return null;
+  }
+  const known = STAGE_SETTINGS[stage];
+  const values: Record<string, number> = {};
+  for (const [key, value] of Object.entries(settings)) {
+    const bounds = Object.hasOwn(known, key) ? known[key] : undefined;
+    if (bounds === undefined) {
+      const guess = suggest(key, Object.keys(known));
+      issues.push({
+        path: [...path, key],
+        message: guess
+          ? `unknown key '${key}' (did you mean '${guess}'?)`
+          : `unknown key '${key}'; expected one of ${Object.keys(known).join(', ')}`,
+      });
+      return null;
+    }
+    const [least, most] = bounds;
+    if (typeof value !== 'number' || !Number.isInteger(value) || value < least || value > most) {
+      issues.push({
+        path: [...path, key],
+        message: `expected a whole number of at least ${least}${most < Number.MAX_SAFE_INTEGER ? ` and at most ${most}` : ''}, got ${describeValue(value)}`,
+      });
+      return null;
+    }
+    values[key] = value;
+  }
+  return values;
 }
 
 /** The command a stage stands for, as a user would type it after the sweep. */
