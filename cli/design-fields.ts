@@ -103,6 +103,13 @@ export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
         toroid: {
           outer_diameter: length('overall outside diameter of the toroid'),
           tube_diameter: length('diameter of the tube (minor diameter)'),
+          center_disc: {
+            type: 'boolean',
+            optional: true,
+            default: false,
+            description:
+              "a flat metal disc filling the hole in the mid-plane, at the toroid's potential; a breakout point at the top then stands on its centre, on the axis",
+          },
         },
         sphere: { diameter: length('diameter of the sphere') },
       },
