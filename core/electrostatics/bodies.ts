@@ -168,10 +168,13 @@ export function groundedRingPanels(rings: readonly GroundedRing[]): PanelShape[]
 
 // ---- Attachments of a topload: a toroid's centre disc and a rod on the axis -------------------
 
-/** Panels of a toroid's centre disc outside the rod's foot (uniform: no edge singularity, see below). */
-const CENTER_DISC_PANELS = 24;
+/** Panels of a toroid's centre disc outside the rod's foot (uniform: no edge singularity, see below); its capacitance
+ * and the field at its centre move < 0.04 % from 12 to 48 panels on the example gallery coil. */
+const CENTER_DISC_PANELS = 12;
 /** Panels of the disc under the rod's foot (its underside is exposed; the top is inside the rod). */
 const CENTER_DISC_FOOT_PANELS = 3;
+/** Growth of the disc's panels away from a rod's foot. */
+const DISC_GROWTH = 1.3;
 /** Panels on a rod's hemispherical cap (as breakout-rod.ts). */
 const ROD_CAP_PANELS = 14;
 /** Growth of the rod's cylinder panels from the cap down (as breakout-rod.ts). */
@@ -282,7 +285,19 @@ export function attachmentPanels(body: ToploadBody): PanelShape[] {
     const discPanels = Math.max(2, Math.round(CENTER_DISC_PANELS * scale));
     const edges: number[] = [0];
     for (let k = 1; k <= footPanels; k++) edges.push((foot * k) / footPanels);
-    for (let k = 1; k <= discPanels; k++) edges.push(foot + ((outer - foot) * k) / discPanels);
+    if (rod) {
+      // From the rod's foot outward the panels grow geometrically from half the tip radius up to
+      // the uniform size (the rod draws the charge near its foot on a scale of its radius).
+      const uniform = (outer - foot) / discPanels;
+      let size = Math.min(uniform, 0.5 * foot);
+      let r = foot;
+      while (r + size < outer - 0.5 * size) {
+        r += size;
+        edges.push(r);
+        size = Math.min(uniform, size * (1 + (DISC_GROWTH - 1) / scale));
+      }
+      edges.push(outer);
+    } else for (let k = 1; k <= discPanels; k++) edges.push(foot + ((outer - foot) * k) / discPanels);
     for (let k = 0; k + 1 < edges.length; k++) {
       const r0 = edges[k];
       const r1 = edges[k + 1];

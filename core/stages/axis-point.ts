@@ -21,7 +21,6 @@ import { centerDiscRadius, type ToroidBody } from '../electrostatics/bodies.ts';
 import { apexField, MAX_ROD_ASPECT } from '../electrostatics/breakout-rod.ts';
 import { type FieldArrangement, solveField, type SurfaceFields } from '../electrostatics/field-solve.ts';
 import { fieldAtPoint } from '../electrostatics/point-field.ts';
-import { must } from '../must.ts';
 import { formatQuantity } from '../outcome/warnings.ts';
 
 /** Height above the disc's centre, as a share of its radius, at which the base field is read. */
@@ -137,7 +136,12 @@ function singular(context: EvalContext): null {
   return null;
 }
 
-/** Sizes the rod on the disc for the target voltage (see `axisPoint`). */
+/**
+ * Sizes the rod on the disc for the target voltage: the secant method on ln V over ln l (nearly
+ * straight), from the flat-plane model's length and a second point 5 % longer, each step kept inside
+ * [a, MAX_ROD_ASPECT·a]; a step that reaches an end evaluates that end, and a target beyond what the
+ * end can do is a problem naming the field. Usually three or four solves.
+ */
 function sizeOnDisc(
   context: EvalContext,
   target: { field: string; voltage: number },
@@ -146,57 +150,51 @@ function sizeOnDisc(
   onset: number,
   tipAt: (length: number) => number,
 ): AxisPoint | null {
+  const low = Math.log(tipRadius);
+  const high = Math.log(tipRadius * MAX_ROD_ASPECT);
   const lengthOf = (u: number) => Math.min(tipRadius * MAX_ROD_ASPECT, Math.max(tipRadius, Math.exp(u)));
   const goal = Math.log(target.voltage);
-  const tips = new Map<number, number>();
+  let tip = Number.NaN;
   const residual = (u: number) => {
-    const tip = tipAt(lengthOf(u));
-    tips.set(u, tip);
+    tip = tipAt(lengthOf(u));
     return Math.log(onset / tip) - goal;
   };
-  let low = Math.log(tipRadius);
-  let high = Math.log(tipRadius * MAX_ROD_ASPECT);
-  let fLow = residual(low);
-  let fHigh = residual(high);
-  if (!Number.isFinite(fLow) || !Number.isFinite(fHigh)) return singular(context);
-  if (fLow < 0) {
-    context.problems.push({
-      field: target.field,
-      reason: `no rod on the centre disc fires as late as ${formatQuantity(target.voltage, 'V')}: even a bare hemisphere of ${mm(tipRadius)} radius fires at ${formatQuantity(onset / must(tips.get(low)), 'V')} (a smaller tip radius raises its onset field)`,
-    });
-    return null;
-  }
-  if (fHigh > 0) {
-    context.problems.push({
-      field: target.field,
-      reason: `no rod on the centre disc fires as early as ${formatQuantity(target.voltage, 'V')}: even one ${MAX_ROD_ASPECT} tip radii long fires at ${formatQuantity(onset / must(tips.get(high)), 'V')} (a larger tip radius allows a longer rod)`,
-    });
-    return null;
-  }
-  // First trial: the flat-plane model's length (rod on a plane in the disc's base field).
   const model = sizePointLength(target.voltage, tipRadius, base, onset);
-  let u = model.ok ? Math.log(model.length) : 0.5 * (low + high);
-  let side = 0;
-  let evaluated = low;
-  for (let iteration = 0; iteration < SIZING_ITERATIONS; iteration++) {
-    if (!(u > low && u < high)) u = fLow === fHigh ? 0.5 * (low + high) : (low * fHigh - high * fLow) / (fHigh - fLow);
-    const f = residual(u);
-    evaluated = u;
-    if (!Number.isFinite(f)) return singular(context);
-    if (Math.abs(f) < SIZING_TOLERANCE || high - low < 1e-12) break;
-    if (f > 0) {
-      low = u;
-      fLow = f;
-      if (side === 1) fHigh /= 2;
-      side = 1;
-    } else {
-      high = u;
-      fHigh = f;
-      if (side === -1) fLow /= 2;
-      side = -1;
-    }
-    u = fLow === fHigh ? 0.5 * (low + high) : (low * fHigh - high * fLow) / (fHigh - fLow);
+  const clamp = (u: number) => Math.min(high, Math.max(low, u));
+  let u0 = clamp(model.ok ? Math.log(model.length) : 0.5 * (low + high));
+  let f0 = residual(u0);
+  let u1 = clamp(u0 + (f0 > 0 ? 0.05 : -0.05));
+  let f1 = Math.abs(f0) < SIZING_TOLERANCE ? f0 : residual(u1);
+  if (Math.abs(f0) < SIZING_TOLERANCE) u1 = u0;
+  for (let iteration = 0; iteration < SIZING_ITERATIONS && Math.abs(f1) >= SIZING_TOLERANCE; iteration++) {
+    if (!Number.isFinite(f1)) return singular(context);
+    // At an end that cannot reach the target: no rod in the model's range fires there.
+    if ((u1 === low && f1 < 0) || (u1 === high && f1 > 0))
+      return outOfReach(context, target, tipRadius, onset / tip, u1 === low);
+    const slope = (f1 - f0) / (u1 - u0);
+    const next = clamp(Number.isFinite(slope) && slope < 0 ? u1 - f1 / slope : u1 + (f1 > 0 ? 0.5 : -0.5));
+    u0 = u1;
+    f0 = f1;
+    u1 = next;
+    f1 = residual(u1);
   }
-  const tip = must(tips.get(evaluated));
-  return { length: lengthOf(evaluated), baseFieldPerVolt: base, tipFieldPerVolt: tip, firingVoltage: onset / tip };
+  if (!Number.isFinite(f1) || !(Math.abs(f1) < SIZING_TOLERANCE)) return singular(context);
+  return { length: lengthOf(u1), baseFieldPerVolt: base, tipFieldPerVolt: tip, firingVoltage: onset / tip };
+}
+
+/** The problem of a firing target no rod of 1 to MAX_ROD_ASPECT tip radii reaches. */
+function outOfReach(
+  context: EvalContext,
+  target: { field: string; voltage: number },
+  tipRadius: number,
+  limitVoltage: number,
+  shortest: boolean,
+): null {
+  context.problems.push({
+    field: target.field,
+    reason: shortest
+      ? `no rod on the centre disc fires as late as ${formatQuantity(target.voltage, 'V')}: even a bare hemisphere of ${mm(tipRadius)} radius fires at ${formatQuantity(limitVoltage, 'V')} (a smaller tip radius raises its onset field)`
+      : `no rod on the centre disc fires as early as ${formatQuantity(target.voltage, 'V')}: even one ${MAX_ROD_ASPECT} tip radii long fires at ${formatQuantity(limitVoltage, 'V')} (a larger tip radius allows a longer rod)`,
+  });
+  return null;
 }
