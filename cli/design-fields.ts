@@ -479,7 +479,7 @@ export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
         optional: true,
         default: 'top',
         description:
-          "where it stands: top (a sphere's pole, on the axis; a toroid's crown), pointing up, or rim (the outer equator), pointing outward",
+          "where it stands: top (a sphere's pole, on the axis; a toroid's crown, or with center_disc the disc's centre, on the axis), pointing up, or rim (the outer equator), pointing outward",
       },
       tip_radius: length('radius of the hemispherical tip (and of the rod)', { plausible: [1e-4, 0.1] }),
       length: length("height of the rod from the topload's surface to the tip's apex (at least the tip radius)", {
