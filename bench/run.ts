@@ -1,8 +1,9 @@
 /**
  * `npm run bench`: every benchmark, printed as figures. Nothing here fails on a slow machine.
  * `npm run bench -- quick` skips the sweep benchmarks; `npm run bench -- long` runs the Pareto
- * machinery at 10⁶ offers and the sweep memory benchmark at 2·10⁴, 2·10⁵ and 10⁶ samples (an hour or more; without it 2·10⁴ and 2·10⁵).
+ * machinery at 10⁶ offers, `evaluate --batch` at 3·10⁴ designs, and the sweep memory benchmark at 2·10⁴, 2·10⁵ and 10⁶ samples (an hour or more; without it 2·10⁴ and 2·10⁵).
  */
+import { benchBatch } from './batch.ts';
 import { benchDynamics } from './dynamics.ts';
 import { benchElectrostatics } from './electrostatics.ts';
 import { benchEvaluation } from './evaluation.ts';
@@ -31,6 +32,11 @@ const sections: Array<[string, () => Promise<string[]>]> = [
     () => benchStageSplit(quick ? { budgets: [1000], seeds: [1] } : {}),
   ],
 ];
+if (!quick)
+  sections.push([
+    'evaluate --batch: memory and streaming against the input size (real process)',
+    () => benchBatch(long ? { sizes: [300, 3000, 30_000] } : {}),
+  ]);
 if (!quick)
   sections.push([
     'sweeps (real processes)',

@@ -1,7 +1,10 @@
 /**
  * `coilfront evaluate --batch FILE.jsonl` (or `-` for stdin): one design (JSON) per line in, one JSON
  * result per line out, in input order, evaluated in the worker pool in chunks. A bad line gives
- * `{ "line": n, "error": "..." }` and the rest go on; the exit code is 2 if any line was bad.
+ * `{ "line": n, "error": "..." }` and the rest go on; the exit code is 2 if any line was bad. A design
+ * that reads well but cannot be built (a winding inside the topload, a primary that cannot tune) is
+ * not bad input but an answer an optimiser needs: `{ "line", "error", "impossible": { "field",
+ * "reason" }, "design" }`, with the same error text as before, and it does not set exit code 2.
  * Answers stream: each chunk's lines are written as soon as it and the chunks before it are done, and
  * a partial chunk is sent when the input pauses, so a client can keep one process and exchange batches.
  */
@@ -103,7 +106,7 @@ export async function batchEvaluate(file: string, io: CliIo, options: { workers?
   return bad > 0 ? 2 : 0;
 }
 
-/** The answer lines of one chunk, in input order: a result, or the line's error (counted by `onBad`). */
+/** The answer lines of one chunk, in input order: a result, an impossible design, or the line's error (counted by `onBad`). */
 function answerLines(sent: readonly Line[], evaluations: readonly Evaluation[], onBad: () => void): string {
   let next = 0;
   return sent
@@ -115,13 +118,13 @@ function answerLines(sent: readonly Line[], evaluations: readonly Evaluation[], 
       const evaluation = evaluations[next++];
       if (!evaluation) throw new Error(`the pool returned ${evaluations.length} evaluations for a longer chunk`);
       const problem = evaluation.problems[0];
-      if (problem) {
-        onBad();
+      if (problem)
         return JSON.stringify({
           line: l.line,
           error: fieldError(l.where, { path: problem.field.split('.'), message: problem.reason }).message,
+          impossible: { field: problem.field, reason: problem.reason },
+          design: evaluationJson(l.loaded.tree, evaluation).design,
         });
-      }
       return JSON.stringify({ line: l.line, ...evaluationJson(l.loaded.tree, evaluation) });
     })
     .map((text) => `${text}\n`)

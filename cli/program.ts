@@ -178,6 +178,8 @@ function registerStudyCommands(program: Command, io: CliIo, setExit: (code: numb
     .option('--samples <n>', 'base samples N (N·(fields + 2) evaluations)', integer('--samples'), 512)
     .option('--workers <n>', 'worker threads (default: available parallelism)', integer('--workers'))
     .option('--out <dir>', 'directory for sensitivity.csv and sensitivity.json', '.')
+    .option('--shard <k/N>', 'evaluate only the k-th of N blocks of the rows, into OUT/sensitivity-shards/k-of-N')
+    .option('--merge [dirs...]', 'merge finished shards (default: every directory under OUT/sensitivity-shards)')
     .action(async (file: string, options: SensitivityOptions) => {
       setExit(await sensitivityCommand(file, options, io));
     });
@@ -192,6 +194,8 @@ function registerStudyCommands(program: Command, io: CliIo, setExit: (code: numb
     .option('--workers <n>', 'worker threads (default: available parallelism)', integer('--workers'))
     .option('--out <dir>', 'directory for tolerance.csv and tolerance.json of a design file', '.')
     .option('--from <list>', 'designs of the run to study: candidates, refined (r1 …) or evolved (e1 …)', 'candidates')
+    .option('--shard <k/N>', 'study only the k-th of N blocks of the candidates, into tolerance-shards/k-of-N')
+    .option('--merge [dirs...]', "merge finished shards (default: every directory under the study's shards folder)")
     .action(async (target: string, options: ToleranceCommandOptions) => {
       setExit(await toleranceCommand(target, options, io));
     });

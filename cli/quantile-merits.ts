@@ -43,6 +43,35 @@ export function quantileLabel(quantile: RobustQuantile): string {
   return `${quantile.metric} p${String(Math.round(quantile.p * 100)).padStart(2, '0')}`;
 }
 
+/** What one build_quantile_k column holds, as summary.json (version 2) records it. */
+export interface QuantileSlotEntry {
+  column: string;
+  metric: string;
+  /** The quantile as a fraction (0.05). */
+  quantile: number;
+  /** `breakout_margin p05`. */
+  label: string;
+}
+
+/** The build_quantile_k columns of a sweep's quantile merits (slot order), with what each holds. */
+export function quantileSlotEntries(quantiles: readonly RobustQuantile[] | undefined): QuantileSlotEntry[] {
+  return (quantiles ?? []).map((q, k) => ({
+    column: QUANTILE_SLOTS[k],
+    metric: q.metric,
+    quantile: q.p,
+    label: quantileLabel(q),
+  }));
+}
+
+/**
+ * The build_quantile_k columns a summary.json records: version 2 and later under `build_quantiles`; a
+ * version 1 summary recorded none, so the mapping is unknown there (an empty list).
+ */
+export function summaryQuantileSlots(summary: { version?: unknown; build_quantiles?: unknown }): QuantileSlotEntry[] {
+  if (typeof summary.version !== 'number' || summary.version < 2 || !Array.isArray(summary.build_quantiles)) return [];
+  return summary.build_quantiles as QuantileSlotEntry[];
+}
+
 class Slots {
   readonly quantiles: RobustQuantile[] = [];
 

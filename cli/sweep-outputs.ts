@@ -19,6 +19,7 @@ import { candidateCells, columnSet } from './sweep-columns.ts';
 import { frontPlotSvg } from './plots.ts';
 import { SAFETY_LINE } from './safety.ts';
 import type { SweepSpec } from './sweep-spec.ts';
+import { quantileSlotEntries } from './quantile-merits.ts';
 
 export interface RunIdentity {
   specHash: string;
@@ -158,7 +159,8 @@ export function summaryObject(
   const { quantiles, sensitivities } = summaryStatistics(spec, state);
   return {
     format: 'coilfront-summary',
-    version: 1,
+    // Version 2 adds build_quantiles (what each build_quantile_k column holds); nothing else changed.
+    version: 2,
     complete,
     spec_hash: identity.specHash,
     seed: identity.seed,
@@ -176,6 +178,7 @@ export function summaryObject(
     sample_size: state.sample.size,
     quantiles,
     sensitivities,
+    build_quantiles: quantileSlotEntries(spec.robust?.quantiles),
     timing: { wall_seconds: timing.wallSeconds, designs_per_second: timing.designsPerSecond, workers: timing.workers },
     units:
       'SI base units (H, F, Hz, V, m, kg, ohm, V/m); hypervolume in the minimisation convention, maximised objectives negated',

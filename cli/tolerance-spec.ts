@@ -86,6 +86,80 @@ function readSpread(
   return { ok: true, relative: false, value: read.value };
 }
 
+/** A problem found while reading, or the value read. */
+type Reading<T> = { issue: InputIssue } | { value: T };
+
+const problem = (path: Array<string | number>, message: string): { issue: InputIssue } => ({
+  issue: { path, message },
+});
+
+/** An unknown key of a tolerance entry, or null when every key is known. */
+function unknownEntryKey(entry: Record<string, unknown>, path: Array<string | number>): InputIssue | null {
+  const name = Object.keys(entry).find((key) => !ENTRY_KEYS.includes(key));
+  if (name === undefined) return null;
+  const guess = suggest(name, ENTRY_KEYS);
+  return {
+    path: [...path, name],
+    message: guess
+      ? `unknown key '${name}' (did you mean '${guess}'?)`
+      : `unknown key '${name}'; expected one of ${ENTRY_KEYS.join(', ')}`,
+  };
+}
+
+/** The entry's distribution and its sigmas (1 for uniform). */
+function readDistribution(
+  entry: Record<string, unknown>,
+  path: Array<string | number>,
+): Reading<{ distribution: ToleranceDistribution; sigmas: number }> {
+  const input = entry.distribution ?? 'uniform';
+  if (typeof input !== 'string' || !(DISTRIBUTIONS as readonly string[]).includes(input)) {
+    const guess = typeof input === 'string' ? suggest(input, [...DISTRIBUTIONS]) : null;
+    return problem(
+      [...path, 'distribution'],
+      `expected one of ${DISTRIBUTIONS.join(', ')}, got ${describeValue(input)}${guess ? ` (did you mean '${guess}'?)` : ''}`,
+    );
+  }
+  const distribution = input as ToleranceDistribution;
+  const given = entry.sigmas;
+  if (distribution === 'uniform') {
+    if (given !== undefined)
+      return problem([...path, 'sigmas'], 'only a normal or truncated_normal distribution takes sigmas');
+    return { value: { distribution, sigmas: 1 } };
+  }
+  if (typeof given !== 'number' || !Number.isFinite(given) || given <= 0 || given > 8) {
+    return problem(
+      [...path, 'sigmas'],
+      given === undefined
+        ? `required for ${distribution}: how many standard deviations the spread is (e.g. 2 or 3)`
+        : `expected a number of standard deviations above 0 and at most 8, got ${describeValue(given)}`,
+    );
+  }
+  return { value: { distribution, sigmas: given } };
+}
+
+/** A range `{ from, to }` of an entry as its centre and half-width. */
+function readRange(
+  entry: Record<string, unknown>,
+  kind: QuantityKind,
+  path: Array<string | number>,
+): Reading<{ centre: number; spread: number }> {
+  if (entry.spread !== undefined) return problem([...path, 'spread'], 'give a spread or a range (from, to), not both');
+  const ends: number[] = [];
+  for (const end of ['from', 'to'] as const) {
+    if (entry[end] === undefined) return problem([...path, end], 'required with a range: give from and to');
+    const read = readQuantity(entry[end], kind);
+    if (!read.ok) return problem([...path, end], read.reason);
+    ends.push(read.value);
+  }
+  if (ends[0] > ends[1]) {
+    return problem(
+      [...path, 'to'],
+      `the range ends below its start (${describeValue(entry.to)} < ${describeValue(entry.from)})`,
+    );
+  }
+  return { value: { centre: (ends[0] + ends[1]) / 2, spread: (ends[1] - ends[0]) / 2 } };
+}
+
 function readEntry(
   sectionName: string,
   key: string,
@@ -93,99 +167,94 @@ function readEntry(
   createSection: boolean,
   input: unknown,
   path: Array<string | number>,
-  issues: InputIssue[],
-): ToleranceField | null {
+): Reading<ToleranceField> {
   const entry: Record<string, unknown> = isMapping(input) ? input : { spread: input };
-  for (const name of Object.keys(entry)) {
-    if (!ENTRY_KEYS.includes(name)) {
-      const guess = suggest(name, ENTRY_KEYS);
-      issues.push({
-        path: [...path, name],
-        message: guess
-          ? `unknown key '${name}' (did you mean '${guess}'?)`
-          : `unknown key '${name}'; expected one of ${ENTRY_KEYS.join(', ')}`,
-      });
-      return null;
-    }
-  }
-  const distributionInput = entry.distribution ?? 'uniform';
-  if (typeof distributionInput !== 'string' || !(DISTRIBUTIONS as readonly string[]).includes(distributionInput)) {
-    const guess = typeof distributionInput === 'string' ? suggest(distributionInput, [...DISTRIBUTIONS]) : null;
-    issues.push({
-      path: [...path, 'distribution'],
-      message: `expected one of ${DISTRIBUTIONS.join(', ')}, got ${describeValue(distributionInput)}${guess ? ` (did you mean '${guess}'?)` : ''}`,
-    });
-    return null;
-  }
-  const distribution = distributionInput as ToleranceDistribution;
-  let sigmas = 1;
-  if (distribution === 'uniform') {
-    if (entry.sigmas !== undefined) {
-      issues.push({
-        path: [...path, 'sigmas'],
-        message: 'only a normal or truncated_normal distribution takes sigmas',
-      });
-      return null;
-    }
-  } else {
-    const given = entry.sigmas;
-    if (typeof given !== 'number' || !Number.isFinite(given) || given <= 0 || given > 8) {
-      issues.push({
-        path: [...path, 'sigmas'],
-        message:
-          given === undefined
-            ? `required for ${distribution}: how many standard deviations the spread is (e.g. 2 or 3)`
-            : `expected a number of standard deviations above 0 and at most 8, got ${describeValue(given)}`,
-      });
-      return null;
-    }
-    sigmas = given;
-  }
+  const unknown = unknownEntryKey(entry, path);
+  if (unknown) return { issue: unknown };
+  const law = readDistribution(entry, path);
+  if ('issue' in law) return law;
   const base = {
     path: [sectionName, key] as [string, string],
-    distribution,
-    sigmas,
+    ...law.value,
     fallback: field.default ?? null,
     createSection,
   };
-  const hasRange = entry.from !== undefined || entry.to !== undefined;
-  if (hasRange) {
-    if (entry.spread !== undefined) {
-      issues.push({ path: [...path, 'spread'], message: 'give a spread or a range (from, to), not both' });
-      return null;
-    }
-    const ends: number[] = [];
-    for (const end of ['from', 'to'] as const) {
-      if (entry[end] === undefined) {
-        issues.push({ path: [...path, end], message: 'required with a range: give from and to' });
-        return null;
-      }
-      const read = readQuantity(entry[end], field.kind);
-      if (!read.ok) {
-        issues.push({ path: [...path, end], message: read.reason });
-        return null;
-      }
-      ends.push(read.value);
-    }
-    if (ends[0] > ends[1]) {
-      issues.push({
-        path: [...path, 'to'],
-        message: `the range ends below its start (${describeValue(entry.to)} < ${describeValue(entry.from)})`,
-      });
-      return null;
-    }
-    return { ...base, mode: 'interval', centre: (ends[0] + ends[1]) / 2, spread: (ends[1] - ends[0]) / 2 };
+  if (entry.from !== undefined || entry.to !== undefined) {
+    const range = readRange(entry, field.kind, path);
+    if ('issue' in range) return range;
+    return { value: { ...base, mode: 'interval', ...range.value } };
   }
-  if (entry.spread === undefined) {
-    issues.push({ path: [...path, 'spread'], message: "required: a spread such as '±2 %', or a range { from, to }" });
-    return null;
-  }
+  if (entry.spread === undefined)
+    return problem([...path, 'spread'], "required: a spread such as '±2 %', or a range { from, to }");
   const spread = readSpread(entry.spread, field.kind);
-  if (!spread.ok) {
-    issues.push({ path: isMapping(input) ? [...path, 'spread'] : path, message: spread.reason });
-    return null;
+  if (!spread.ok) return problem(isMapping(input) ? [...path, 'spread'] : path, spread.reason);
+  return { value: { ...base, mode: spread.relative ? 'relative' : 'absolute', centre: 0, spread: spread.value } };
+}
+
+/** Reads one of draws, seed or sweep_draws into the section. */
+function readSetting(section: ToleranceSection, name: string, value: unknown, path: Array<string | number>) {
+  const [min, max] =
+    name === 'draws' ? [1, MAX_TOLERANCE_DRAWS] : name === 'sweep_draws' ? [1, MAX_SWEEP_DRAWS] : [0, 2 ** 32 - 1];
+  if (typeof value !== 'number' || !Number.isInteger(value) || value < min || value > max)
+    return problem([...path, name], `expected a whole number from ${min} to ${max}, got ${describeValue(value)}`).issue;
+  if (name === 'sweep_draws') section.sweepDraws = value;
+  else section[name as 'draws' | 'seed'] = value;
+  return null;
+}
+
+/** The toleranced field `key` of a design section, or why it cannot take a spread. */
+function readField(
+  name: string,
+  fields: ReturnType<typeof allFields>,
+  createSection: boolean,
+  key: string,
+  entry: unknown,
+  at: Array<string | number>,
+): Reading<ToleranceField> {
+  const field = fields[key];
+  if (!field) {
+    const guess = suggest(key, Object.keys(fields));
+    return problem(
+      at,
+      guess ? `unknown field '${key}' (did you mean '${guess}'?)` : `unknown field '${key}' of ${name}`,
+    );
   }
-  return { ...base, mode: spread.relative ? 'relative' : 'absolute', centre: 0, spread: spread.value };
+  if (field.type !== 'quantity') {
+    const what = field.type === 'wire' ? 'a wire size' : `a ${field.type === 'enum' ? 'choice' : 'yes/no'} field`;
+    return problem(at, `${what} takes no spread; only numeric fields do`);
+  }
+  if (field.integer) return problem(at, 'a whole-number field takes no spread');
+  return readEntry(name, key, field, createSection, entry, at);
+}
+
+/** Reads the fields of design section `name` of a tolerances value into the section. */
+function readDesignSection(
+  section: ToleranceSection,
+  name: string,
+  value: unknown,
+  path: Array<string | number>,
+): InputIssue | null {
+  const spec = DESIGN_SECTIONS[name];
+  if (!spec) {
+    const known = [...Object.keys(DESIGN_SECTIONS), ...SETTING_KEYS];
+    const guess = suggest(name, known);
+    return problem(
+      [...path, name],
+      guess
+        ? `unknown key '${name}' (did you mean '${guess}'?)`
+        : `unknown key '${name}'; expected one of ${known.join(', ')}`,
+    ).issue;
+  }
+  if (!isMapping(value))
+    return problem([...path, name], `expected a mapping of field: spread, got ${describeValue(value)}`).issue;
+  const fields = allFields(spec);
+  const createSection = spec.optional && !spec.variants && Object.values(spec.fields).every((f) => f.optional);
+  for (const [key, entry] of Object.entries(value)) {
+    const read = readField(name, fields, createSection, key, entry, [...path, name, key]);
+    if ('issue' in read) return read.issue;
+    section.fields.push(read.value);
+  }
+  return null;
 }
 
 /**
@@ -202,68 +271,13 @@ export function readTolerances(
     return null;
   }
   const section: ToleranceSection = { fields: [], draws: null, seed: null, sweepDraws: null };
-  const names = Object.keys(DESIGN_SECTIONS);
   for (const [name, value] of Object.entries(input)) {
-    if (SETTING_KEYS.includes(name)) {
-      const [min, max] =
-        name === 'draws' ? [1, MAX_TOLERANCE_DRAWS] : name === 'sweep_draws' ? [1, MAX_SWEEP_DRAWS] : [0, 2 ** 32 - 1];
-      if (typeof value !== 'number' || !Number.isInteger(value) || value < min || value > max) {
-        issues.push({
-          path: [...path, name],
-          message: `expected a whole number from ${min} to ${max}, got ${describeValue(value)}`,
-        });
-        return null;
-      }
-      if (name === 'sweep_draws') section.sweepDraws = value;
-      else section[name as 'draws' | 'seed'] = value;
-      continue;
-    }
-    const spec = DESIGN_SECTIONS[name];
-    if (!spec) {
-      const known = [...names, ...SETTING_KEYS];
-      const guess = suggest(name, known);
-      issues.push({
-        path: [...path, name],
-        message: guess
-          ? `unknown key '${name}' (did you mean '${guess}'?)`
-          : `unknown key '${name}'; expected one of ${known.join(', ')}`,
-      });
+    const issue = SETTING_KEYS.includes(name)
+      ? readSetting(section, name, value, path)
+      : readDesignSection(section, name, value, path);
+    if (issue) {
+      issues.push(issue);
       return null;
-    }
-    if (!isMapping(value)) {
-      issues.push({
-        path: [...path, name],
-        message: `expected a mapping of field: spread, got ${describeValue(value)}`,
-      });
-      return null;
-    }
-    const fields = allFields(spec);
-    const createSection = spec.optional && !spec.variants && Object.values(spec.fields).every((f) => f.optional);
-    for (const [key, entry] of Object.entries(value)) {
-      const field = fields[key];
-      const at = [...path, name, key];
-      if (!field) {
-        const guess = suggest(key, Object.keys(fields));
-        issues.push({
-          path: at,
-          message: guess ? `unknown field '${key}' (did you mean '${guess}'?)` : `unknown field '${key}' of ${name}`,
-        });
-        return null;
-      }
-      if (field.type !== 'quantity') {
-        issues.push({
-          path: at,
-          message: `${field.type === 'wire' ? 'a wire size' : `a ${field.type === 'enum' ? 'choice' : 'yes/no'} field`} takes no spread; only numeric fields do`,
-        });
-        return null;
-      }
-      if (field.integer) {
-        issues.push({ path: at, message: 'a whole-number field takes no spread' });
-        return null;
-      }
-      const read = readEntry(name, key, field, createSection, entry, at, issues);
-      if (!read) return null;
-      section.fields.push(read);
     }
   }
   if (section.fields.length === 0) {

@@ -14,6 +14,7 @@ import { parameterCells } from './sweep-columns.ts';
 import { SAFETY_CAUTIONS } from './safety.ts';
 import type { SweepSpec } from './sweep-spec.ts';
 import type { QuantityKind } from './units.ts';
+import { quantileSlotEntries } from './quantile-merits.ts';
 
 /** Exit status of a finished sweep in which no design met every constraint (documented in the README). */
 export const NO_FEASIBLE_EXIT_CODE = 3;
@@ -43,7 +44,7 @@ export function formatTopCandidates(directory: string, spec: SweepSpec, state: S
     `${c.evaluated} designs: ${c.feasible} feasible, ${c.infeasible} outside the constraints, ${c.impossible} impossible, ${c.failed} failed`,
   );
   if (c.feasible === 0) lines.push(...nothingFeasible(directory, spec, state));
-  else lines.push(...frontLines(spec, state, count));
+  else lines.push(...impossibleLines(directory, state), ...frontLines(spec, state, count));
   lines.push('');
   lines.push(`files: ${outputFiles(directory).join(', ')}`);
   lines.push(
@@ -75,6 +76,10 @@ function frontLines(spec: SweepSpec, state: SweepState, count: number): string[]
   const lines = [
     `the front: ${front.length} designs; ${shown.length === front.length ? 'all' : `the first ${shown.length}`} by ${first ? `${first.metric} (${first.sense === 'maximize' ? 'highest' : 'lowest'} first)` : 'rank'}, each with its rank in candidates.csv:`,
   ];
+  // The quantile merits' columns by what they hold (summary.json's build_quantiles).
+  const slots = quantileSlotEntries(spec.robust?.quantiles);
+  if (slots.length > 0)
+    lines.push(`  (${slots.map((q) => `${q.column} = ${q.label} over the tolerance draws`).join('; ')})`);
   for (const { row, rank } of shown) {
     const objectives = spec.objectives.map(
       (o) => `${o.metric} ${metricText(o.metric, row.metrics[metricIndex(o.metric)])}`,
@@ -99,6 +104,17 @@ function parameterText(spec: SweepSpec, values: readonly number[]): string {
       return `${name}=${formatNumber(cell)}${unit?.label ? ` ${humanUnit(unit.label)}` : ''}`;
     })
     .join(' ');
+}
+
+/** Why designs could not be built, the three most common reasons first (none when every design could be). */
+function impossibleLines(directory: string, state: SweepState): string[] {
+  const reasons = Object.entries(sortedCounts(state.impossibleBy));
+  if (reasons.length === 0) return [];
+  const lines = ['the impossible designs could not be built because (most common first):'];
+  for (const [kind, n] of reasons.slice(0, 3)) lines.push(`  ${n} ${kind}`);
+  const more = reasons.length > 3 ? `, ${reasons.length - 3} other reason${reasons.length > 4 ? 's' : ''}` : '';
+  lines.push(`  (each design's reason in ${join(directory, 'infeasible.csv')}${more})`);
+  return lines;
 }
 
 /** What rejected the designs when none was feasible, largest counts first. */

@@ -8,6 +8,13 @@
  * - a value that is not a finite number (an infinite crowding distance, a metric that does not
  *   apply, NaN) is an empty cell;
  * - booleans are 1 (true) and 0 (false).
+ *
+ * Text cells are ASCII: a spreadsheet that opens a CSV by double click guesses its character set
+ * (LibreOffice Calc's headless import and Excel's default both read it as a Western 8-bit set, not
+ * UTF-8, with or without a byte-order mark), so `toroid 400×100 mm` would arrive as `400Ã—100`.
+ * The symbols our labels, reasons and warnings use are written in ASCII (× as x, µ as u, ± as +/-,
+ * en and em dashes as -, ° as deg, ≤ ≥ ≈ as <= >= ~, Ω as ohm), accented letters lose their accents,
+ * and only a character with no ASCII form (one a user wrote in a label) is left as it is.
  */
 import { stringify } from 'csv-stringify/sync';
 
@@ -19,9 +26,48 @@ export const DEFAULT_DIGITS = 7;
 /** The largest digit count a double carries meaningfully (17 round-trips every double). */
 export const MAX_DIGITS = 17;
 
-/** A text cell safe from formula injection. */
+const ASCII_FORMS: Readonly<Record<string, string>> = {
+  '×': 'x',
+  µ: 'u',
+  μ: 'u',
+  '±': '+/-',
+  '–': '-',
+  '—': '-',
+  '−': '-',
+  '°': 'deg',
+  '≤': '<=',
+  '≥': '>=',
+  '≈': '~',
+  Ω: 'ohm',
+  '·': '*',
+  '…': '...',
+  '‘': "'",
+  '’': "'",
+  '“': '"',
+  '”': '"',
+  '²': '2',
+  '³': '3',
+  π: 'pi',
+  ß: 'ss',
+  '\u00a0': ' ',
+  '\u202f': ' ',
+};
+
+/** Text in ASCII where it has an ASCII form (see the module comment); ASCII text is returned as it is. */
+export function asciiText(text: string): string {
+  if (/^[\t\n\r\x20-\x7e]*$/.test(text)) return text;
+  let out = '';
+  for (const char of text) {
+    const form = ASCII_FORMS[char];
+    out += form ?? char.normalize('NFKD').replace(/[\u0300-\u036f]/g, '');
+  }
+  return out;
+}
+
+/** A text cell in ASCII where it can be, and safe from formula injection. */
 export function guardText(text: string): string {
-  return /^[=+\-@\t\r]/.test(text) ? `'${text}` : text;
+  const ascii = asciiText(text);
+  return /^[=+\-@\t\r]/.test(ascii) ? `'${ascii}` : ascii;
 }
 
 /** A finite number to `digits` significant digits, in the shortest form that reads back the same. */

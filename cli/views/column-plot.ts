@@ -93,15 +93,23 @@ function plotData(tables: RunTables, options: ColumnPlotOptions): Datum[] {
   return data;
 }
 
+/** A numeric colour column with at most this many distinct values (a set: 15, 22, 33 nF) gets one swatch per value. */
+const DISCRETE_COLOUR_LEVELS = 8;
+/** Legend titles are long column names with units: wide enough not to be cut. */
+const LEGEND_TITLE_LIMIT = 360;
+
 /** The colour channel: the --color column (a scale of its own), else the set a point belongs to. */
 function colorEncoding(candidates: RunTable, options: ColumnPlotOptions) {
   const cc = options.color !== undefined ? columnIndex(candidates, options.color, '--color') : -1;
   const colorNumeric = cc >= 0 && candidates.numeric[cc];
+  const levels = new Set(candidates.rows.map((row) => row[cc]).filter((v) => typeof v === 'number'));
+  const colorType = !colorNumeric ? 'nominal' : levels.size <= DISCRETE_COLOUR_LEVELS ? 'ordinal' : 'quantitative';
   return cc >= 0
     ? {
         field: 'c',
-        type: colorNumeric ? ('quantitative' as const) : ('nominal' as const),
+        type: colorType,
         title: columnTitle(options.color ?? ''),
+        legend: { titleLimit: LEGEND_TITLE_LIMIT },
         ...(colorNumeric ? { scale: { scheme: 'viridis' } } : {}),
       }
     : {

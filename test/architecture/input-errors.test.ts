@@ -17,7 +17,6 @@ const FACTORIES = ['run/input-error.ts', 'cli/input-errors.ts'];
 const NOT_YET_MOVED = [
   'cli/compare-command.ts',
   'cli/report-command.ts',
-  'cli/tolerance-command.ts',
   'cli/views/column-plot.ts',
   'cli/views/run-table.ts',
 ];

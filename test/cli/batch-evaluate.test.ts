@@ -42,6 +42,26 @@ describe('coilfront evaluate --batch FILE.jsonl', () => {
     expect(good.map((a) => a.metrics.secondary_turns)).toEqual(Array.from({ length: 40 }, (_, i) => 600 + 10 * i));
   });
 
+  it('answers a design that cannot be built with its field and reason, not as bad input (exit 0)', async () => {
+    // A toroid whose tube reaches below the top of the winding: a design problem, not a malformed line.
+    const inside = { ...base, topload: { ...base.topload, outer_diameter: '300 mm', height_above_winding: '10 mm' } };
+    const path = join(mkdtempSync(join(tmpdir(), 'coilfront-batch-')), 'impossible.jsonl');
+    writeFileSync(path, `${JSON.stringify(base)}\n${JSON.stringify(inside)}\n`);
+    const result = await run(['evaluate', '--batch', path, '--workers', '1']);
+    expect(result.code).toBe(0);
+    const [first, second] = result.out
+      .trimEnd()
+      .split('\n')
+      .map((line) => JSON.parse(line));
+    expect(first.metrics).toBeDefined();
+    expect(second.line).toBe(2);
+    expect(second.impossible.field).toBe('topload.height_above_winding');
+    expect(second.impossible.reason).toMatch(/intersects the winding/);
+    expect(second.error).toContain(`line 2: topload.height_above_winding: ${second.impossible.reason}`);
+    expect(second.design.topload.height_above_winding).toBeCloseTo(0.01, 12);
+    expect(second.metrics).toBeUndefined();
+  });
+
   it('gives the same metrics as evaluating each design alone', async () => {
     const single = join(mkdtempSync(join(tmpdir(), 'coilfront-batch-')), 'one.json');
     writeFileSync(single, lines[0]);

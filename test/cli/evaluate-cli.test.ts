@@ -55,6 +55,25 @@ describe('coilfront evaluate on the example designs', () => {
     });
   }
 
+  it('a tuning error of rounding size (the tap is solved exactly) reads 0, not 2e-16', async () => {
+    // An invented workshop design whose exact tap leaves tuning_error = -2.2e-16 in the JSON.
+    const file = designFile(
+      'exact-tap.yaml',
+      `secondary: { form_diameter: 160 mm, wire: AWG 28, turns: 1234, base_height: 400 mm }
+topload: { shape: toroid, outer_diameter: 400 mm, tube_diameter: 100 mm, height_above_winding: 40 mm }
+primary: { shape: flat_spiral, inner_diameter: 188.08460695669055 mm, turns: 12, conductor_diameter: 6.35 mm, turn_spacing: 6 mm, elevation: 0 mm }
+tank: { capacitance: 33 nF, charge_voltage: 14 kV, voltage_rating: 30 kV }
+driver: { kind: spark_gap, gap: static, break_rate: 120 Hz }
+environment: { altitude: 300 m, temperature: 18 degC }
+`,
+    );
+    const json = await run(['evaluate', file, '--json']);
+    const error = JSON.parse(json.out).metrics.tuning_error as number;
+    expect(Math.abs(error)).toBeLessThan(1e-12);
+    const text = await run(['evaluate', file]);
+    expect(text.out).toMatch(/\(tuning error\) +0\n/);
+  });
+
   it('the readable report ends with the safety cautions', async () => {
     const result = await run(['evaluate', 'examples/tabletop-teaching-coil.yaml']);
     expect(result.code).toBe(0);

@@ -117,6 +117,27 @@ describe('coilfront plot: any column against any other', () => {
     expect([...png.subarray(0, 8)]).toEqual([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]); // PNG signature
   });
 
+  it('colours by a set of quantities with one swatch per value, and by a range with a scale; the legend title is whole', async () => {
+    const bySet = columnPlotSpec(tables, { x: 'wire_mass_kg', y: 'wire_mass_kg', color: 'tank.capacitance_nF' });
+    const encoding = JSON.stringify(bySet);
+    expect(encoding).toContain('"type":"ordinal"');
+    const svg = await vegaLiteSvg(bySet);
+    // 20, 30 and 40 nF are the levels: each a legend entry, no in-between ticks such as 25
+    for (const level of ['>20<', '>30<', '>40<']) expect(svg).toContain(level);
+    expect(svg).not.toContain('>25<');
+    expect(svg).toContain('tank capacitance (nF)');
+    expect(svg).not.toContain('…');
+    const many = csv([
+      header,
+      ...Array.from({ length: 12 }, (_, i) => `${i + 1},1,,1,${i},AWG 24,${10 + i},${0.1 * (i + 1)}`),
+    ]);
+    const byRange = columnPlotSpec(
+      { ...tables, candidates: many },
+      { x: 'wire_mass_kg', y: 'wire_mass_kg', color: 'tank.capacitance_nF' },
+    );
+    expect(JSON.stringify(byRange)).toContain('"type":"quantitative"');
+  });
+
   it('refuses a text column as an axis and an unknown column, naming the option', () => {
     expect(() => columnPlotSpec(tables, { x: 'secondary.wire', y: 'wire_mass_kg' })).toThrow(/--x: .*holds text/);
     expect(() => columnPlotSpec(tables, { x: 'tank.capacitance', y: 'wire_mass_kg' })).toThrow(

@@ -1,5 +1,10 @@
-import { readFileSync } from 'node:fs';
-import { parse as parseYaml } from 'yaml';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { parse as parseYaml, stringify as stringifyYaml } from 'yaml';
+import type { CliIo } from '../../cli/io.ts';
+import { runCli } from '../../cli/program.ts';
+import { summaryQuantileSlots } from '../../cli/quantile-merits.ts';
 import { describe, expect, it } from 'vitest';
 import { sweepFromValue } from '../../cli/sweep-spec.ts';
 import { metricIndex, METRIC_KEYS } from '../../core/metrics.ts';
@@ -178,4 +183,26 @@ describe('quantile merits in a sweep', () => {
       { metric: 'build_quantile_3', max: 2.3 },
     ]);
   });
+});
+
+describe('the build_quantile columns in summary.json and on the console', () => {
+  it('records what each column holds (summary.json version 2) and names it where the front is listed', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'coilfront-qslots-'));
+    writeFileSync(join(dir, 'q.yaml'), stringifyYaml(linearSweep(4)));
+    const out: string[] = [];
+    const io: CliIo = { out: (t) => out.push(t), err: () => undefined, isTty: false };
+    const run = join(dir, 'run');
+    expect(await runCli(['sweep', join(dir, 'q.yaml'), '--out', run, '--workers', '0'], io)).toBe(0);
+    const summary = JSON.parse(readFileSync(join(run, 'summary.json'), 'utf8'));
+    expect(summary.version).toBe(2);
+    expect(summary.build_quantiles).toEqual([
+      { column: 'build_quantile_1', metric: 'secondary_turns', quantile: 0.05, label: 'secondary_turns p05' },
+      { column: 'build_quantile_2', metric: 'secondary_turns', quantile: 0.5, label: 'secondary_turns p50' },
+      { column: 'build_quantile_3', metric: 'secondary_turns', quantile: 0.95, label: 'secondary_turns p95' },
+    ]);
+    expect(summaryQuantileSlots(summary)).toEqual(summary.build_quantiles);
+    expect(out.join('')).toContain('build_quantile_1 = secondary_turns p05 over the tolerance draws');
+    // A version 1 summary (written before the mapping was recorded) reads as no known mapping.
+    expect(summaryQuantileSlots({ ...summary, version: 1 })).toEqual([]);
+  }, 60_000);
 });

@@ -44,6 +44,9 @@ describe('labels of whole sections chosen from a set', () => {
     expect(big?.['topload.outer_diameter_mm']).toBe('700');
     expect(big?.['topload.tube_diameter_mm']).toBe('200');
     expect(big?.['topload.diameter_mm']).toBe('');
+    // Text cells are ASCII, so a spreadsheet that guesses a Western character set reads the label as written.
+    expect(rows.some((row) => row.topload === 'toroid 450x110 mm')).toBe(true);
+    expect(/^[\t\n\r\x20-\x7e]*$/.test(readFileSync(`${out}/all.csv`, 'latin1'))).toBe(true);
     const sphere = rows.find((row) => row.topload === 'sphere 300 mm');
     expect(sphere?.['topload.diameter_mm']).toBe('300');
     expect(sphere?.['topload.outer_diameter_mm']).toBe('');

@@ -5,7 +5,8 @@ import { join } from 'node:path';
 import ExcelJS from 'exceljs';
 import { parse as parseCsv } from 'csv-parse/sync';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { formatCsvNumber } from '../../run/csv.ts';
+import { writeFileSync } from 'node:fs';
+import { formatCsvNumber, toCsv } from '../../run/csv.ts';
 import type { CliIo } from '../../cli/io.ts';
 import { runCli } from '../../cli/program.ts';
 
@@ -131,6 +132,47 @@ describe('candidates.csv as a spreadsheet reads it', () => {
         });
       }
       expect(numbers).toBeGreaterThan(100);
+    },
+    60_000,
+  );
+
+  it.skipIf(!existsSync('/usr/bin/soffice'))(
+    'LibreOffice Calc reads the text of labels and reasons as written (ASCII, whatever character set it guesses)',
+    async () => {
+      // Without the ASCII forms, Calc's default import turned `400×100` into `400Ã—100` (observed here).
+      const file = join(root, 'labels.csv');
+      writeFileSync(
+        file,
+        toCsv(
+          ['topload', 'reason'],
+          [
+            ['toroid 400×100 mm', 'primary.turns: primary cannot tune: needs 53.76 µH, has 0.47 µH–37.1 µH'],
+            ['sphere 300 mm', 'winding 20 °C ± 2 °C'],
+          ],
+        ),
+      );
+      const out = join(root, 'lo-labels');
+      execFileSync(
+        '/usr/bin/soffice',
+        [
+          '--headless',
+          `-env:UserInstallation=file://${join(root, 'lo-profile')}`,
+          '--convert-to',
+          'xlsx',
+          '--outdir',
+          out,
+          file,
+        ],
+        { stdio: 'ignore', timeout: 60_000 },
+      );
+      const workbook = new ExcelJS.Workbook();
+      await workbook.xlsx.readFile(join(out, 'labels.xlsx'));
+      const sheet = workbook.worksheets[0];
+      const cells = parseCsv(readFileSync(file, 'utf8')) as string[][];
+      for (const [r, row] of cells.entries()) {
+        for (const [c, text] of row.entries()) expect(sheet.getRow(r + 1).getCell(c + 1).value).toBe(text);
+      }
+      expect(sheet.getRow(2).getCell(1).value).toBe('toroid 400x100 mm');
     },
     60_000,
   );

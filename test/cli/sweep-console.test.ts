@@ -48,6 +48,14 @@ describe('the console after a sweep', () => {
     }
     for (const file of ['candidates.csv', 'front.csv', 'infeasible.csv', 'summary.json']) expect(text).toContain(file);
     expect(text).not.toContain('journal-');
+    // The reasons designs could not be built: the three largest counts of summary.json's impossible_by.
+    const summary = JSON.parse(readFileSync(`${out}/summary.json`, 'utf8')) as {
+      counts: { impossible: number };
+      impossible_by: Record<string, number>;
+    };
+    const reasons = Object.entries(summary.impossible_by).slice(0, 3);
+    expect(text.includes('could not be built because')).toBe(summary.counts.impossible > 0);
+    for (const [reason, count] of reasons) expect(text).toContain(`\n  ${count} ${reason}\n`);
   });
 
   it('with nothing feasible: the constraints that rejected the most, a pointer to infeasible.csv, exit 3', () => {

@@ -18,15 +18,9 @@ describe('spaceSensitivity on the example sweep', () => {
       seed: spec.seed,
       gridLevels: spec.gridLevels,
     };
-    const result = await spaceSensitivity(
-      definition,
-      inProcessEvaluator(new DesignSpace(definition)),
-      ['secondary_turns'],
-      16,
-      {
-        resamples: 50,
-      },
-    );
+    const plan = { definition, samples: 16, metrics: ['secondary_turns'], constraints: [], required: [] };
+    const result = (await spaceSensitivity(plan, inProcessEvaluator(new DesignSpace(definition)), { resamples: 50 }))
+      .metrics;
     const turns = spec.dimensions.findIndex((d) => d.path.join('.') === 'secondary.turns');
     const indices = result[0].indices;
     expect(result[0].kept).toBeGreaterThan(1);
