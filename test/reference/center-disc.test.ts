@@ -171,6 +171,23 @@ describe('a breakout point on the centre disc in an evaluation', () => {
       expect(problems[0]?.reason).toContain(voltage > 1e5 ? 'as late as' : 'as early as');
     }
   });
+  test('a support rod through the centre disc is a design problem naming the field', () => {
+    const design = gallery();
+    design.breakoutPoint = undefined;
+    const top = 0.4 + 1100 * 0.0005 + 0.3;
+    design.support = {
+      kind: 'rods',
+      count: 3,
+      diameter: 0.02,
+      fromRadius: 0.05,
+      fromHeight: 0.5,
+      toRadius: 0.05,
+      toHeight: top,
+    };
+    const { problems } = evaluateDesign(design);
+    expect(problems[0]?.field).toBe('supports.to_height');
+    expect(problems[0]?.reason).toContain('centre disc');
+  });
   test('a rim point on a toroid with a disc keeps the curvature model', () => {
     const design = gallery();
     design.breakoutPoint = { position: 'rim', tipRadius: 0.002, length: 0.01 };
