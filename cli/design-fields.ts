@@ -182,6 +182,13 @@ export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
         toroid: {
           outer_diameter: length('overall outside diameter of the toroid'),
           tube_diameter: length('diameter of the tube (minor diameter)'),
+          center_disc: {
+            type: 'boolean',
+            optional: true,
+            default: false,
+            description:
+              "a flat metal disc filling the hole in the mid-plane, at the toroid's potential; a breakout point at the top then stands on its centre, on the axis",
+          },
         },
         sphere: { diameter: length('diameter of the sphere') },
       },
@@ -494,7 +501,7 @@ export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
         optional: true,
         default: 'top',
         description:
-          "where it stands: top (a sphere's pole, on the axis; a toroid's crown), pointing up, or rim (the outer equator), pointing outward",
+          "where it stands: top (a sphere's pole, on the axis; a toroid's crown, or with center_disc the disc's centre, on the axis), pointing up, or rim (the outer equator), pointing outward",
       },
       tip_radius: length('radius of the hemispherical tip (and of the rod)', { plausible: [1e-4, 0.1] }),
       length: length("height of the rod from the topload's surface to the tip's apex (at least the tip radius)", {

@@ -50,6 +50,8 @@ export interface ToroidSpec {
   heightAboveWinding?: number;
   /** Mid-plane above the floor, m (topload alone). */
   centerHeight?: number;
+  /** A flat conducting disc filling the hole at the toroid's potential (a breakout point on top stands on it, on the axis). */
+  centerDisc?: boolean;
 }
 
 export interface SphereSpec {

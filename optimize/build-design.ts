@@ -150,6 +150,7 @@ function buildTopload(s: NormalSection, b: SectionBuild): void {
       outerDiameter: must(num(s, 'outer_diameter')),
       tubeDiameter: must(num(s, 'tube_diameter')),
     };
+    if (s.center_disc === true) spec.centerDisc = true;
     if (spec.tubeDiameter >= spec.outerDiameter) {
       issues.push({
         path: at('topload', 'tube_diameter'),

@@ -75,6 +75,7 @@ export function toploadBody(
       minorRadius: topload.tubeDiameter / 2,
       centerZ,
     };
+    if (topload.centerDisc) body.centerDisc = true;
     lowest = centerZ - body.minorRadius;
     name = 'toroid';
   } else {

@@ -16,6 +16,22 @@ export interface ToroidBody {
   majorRadius: number;
   minorRadius: number;
   centerZ: number;
+  /** A flat conducting disc filling the hole (radius R − r, in the mid-plane) at the toroid's potential. */
+  centerDisc?: boolean;
+  /** A breakout rod standing up on the axis from the centre disc (only with `centerDisc`). */
+  axisRod?: AxisRod;
+  /** Multiplies the attachments' panel counts (convergence checks; default 1). */
+  attachmentResolution?: number;
+}
+
+/**
+ * A round rod of radius `tipRadius` ending in a hemispherical cap, standing up on the axis from the
+ * top of a topload (a sphere's north pole, a toroid's centre disc), at the topload's potential, SI.
+ * `height` runs from the surface it stands on to the apex (cap included), as in breakout-rod.ts.
+ */
+export interface AxisRod {
+  height: number;
+  tipRadius: number;
 }
 
 /** Sphere of radius `radius` centred on the axis at `centerZ`, SI. */
@@ -23,6 +39,10 @@ export interface SphereBody {
   shape: 'sphere';
   radius: number;
   centerZ: number;
+  /** A breakout rod standing up on the north pole. */
+  axisRod?: AxisRod;
+  /** Multiplies the rod's panel counts (convergence checks; default 1). */
+  attachmentResolution?: number;
 }
 
 /** Thin flat disc (zero thickness) of radius `radius` at height `centerZ`, SI (reference checks). */
@@ -144,4 +164,152 @@ export function windingPanels(body: WindingBody, panelCount: number): PanelShape
 /** One element per grounded ring. */
 export function groundedRingPanels(rings: readonly GroundedRing[]): PanelShape[] {
   return rings.map((ring) => ({ kind: 'thin_ring', r: ring.r, z: ring.z, wireRadius: ring.wireRadius }));
+}
+
+// ---- Attachments of a topload: a toroid's centre disc and a rod on the axis -------------------
+
+/** Panels of a toroid's centre disc outside the rod's foot (uniform: no edge singularity, see below); its capacitance
+ * and the field at its centre move < 0.04 % from 12 to 48 panels on the example gallery coil. */
+const CENTER_DISC_PANELS = 12;
+/** Panels of the disc under the rod's foot (its underside is exposed; the top is inside the rod). */
+const CENTER_DISC_FOOT_PANELS = 3;
+/** Growth of the disc's panels away from a rod's foot. */
+const DISC_GROWTH = 1.3;
+/** Panels on a rod's hemispherical cap (as breakout-rod.ts). */
+const ROD_CAP_PANELS = 14;
+/** Growth of the rod's cylinder panels from the cap down (as breakout-rod.ts). */
+const ROD_GROWTH = 1.15;
+/** Growth of a sphere's panels away from a rod on its pole, and the largest as an angle (as breakout-rod.ts). */
+const SPHERE_ROD_GROWTH = 1.2;
+const SPHERE_ROD_LARGEST_PANEL = Math.PI / 24;
+
+/** Radius of a toroid's centre disc: it fills the hole to the tube's inner equator, m. */
+export function centerDiscRadius(body: ToroidBody): number {
+  return body.majorRadius - body.minorRadius;
+}
+
+/**
+ * The meridian panels of a rod on the axis whose foot is at height `footZ` on a surface it meets at
+ * the rod's radius: the cylinder from `footZ` up (panels growing geometrically from the cap down, the
+ * first as long as a cap panel), then the cap, ending at the apex (the last panel of the list).
+ * `cylinder` is the length of the straight part (0 for a bare hemisphere on a plane).
+ */
+function rodOnAxisPanels(footZ: number, cylinder: number, tipRadius: number, scale: number): PanelShape[] {
+  const capPanels = Math.max(2, Math.round(ROD_CAP_PANELS * scale));
+  const growth = 1 + (ROD_GROWTH - 1) / scale;
+  const shapes: PanelShape[] = [];
+  // A straight part shorter than a millionth of the tip radius (rounding of l = a) is none.
+  const straight = cylinder > 1e-6 * tipRadius ? cylinder : 0;
+  if (straight > 0) {
+    const edges: number[] = [straight];
+    let size = (0.5 * Math.PI * tipRadius) / capPanels;
+    let z = straight;
+    while (z - size > 0.5 * size) {
+      z -= size;
+      edges.push(z);
+      size *= growth;
+    }
+    edges.push(0);
+    for (let k = edges.length - 1; k > 0; k--) {
+      const z0 = footZ + edges[k];
+      const z1 = footZ + edges[k - 1];
+      shapes.push({ kind: 'line', r0: tipRadius, z0, r1: tipRadius, z1, position: 0.5 * (edges[k] + edges[k - 1]) });
+    }
+  }
+  const centreZ = footZ + straight;
+  for (let k = 0; k < capPanels; k++) {
+    const angle0 = (0.5 * Math.PI * k) / capPanels;
+    const angle1 = (0.5 * Math.PI * (k + 1)) / capPanels;
+    shapes.push({
+      kind: 'arc',
+      centerR: 0,
+      centerZ: centreZ,
+      radius: tipRadius,
+      angle0,
+      angle1,
+      position: straight + tipRadius * 0.5 * (angle0 + angle1),
+    });
+  }
+  return shapes;
+}
+
+/**
+ * A sphere's meridian from the south pole up to where a rod of radius a on its north pole meets it
+ * (angle arccos(a/R)), the panels growing geometrically away from the rod (the first as long as a
+ * cap panel) up to the smaller of π/24 and the sphere's uniform panel π/count.
+ */
+export function sphereUnderRodPanels(body: SphereBody, panelCount: number): PanelShape[] {
+  const rod = body.axisRod;
+  if (!rod) return spherePanels(body, panelCount);
+  const scale = body.attachmentResolution ?? 1;
+  const capPanels = Math.max(2, Math.round(ROD_CAP_PANELS * scale));
+  const largest = Math.min(SPHERE_ROD_LARGEST_PANEL / scale, Math.PI / panelCount);
+  const meet = Math.acos(rod.tipRadius / body.radius);
+  const edges: number[] = [meet];
+  let size = (0.5 * Math.PI * rod.tipRadius) / capPanels / body.radius;
+  let angle = meet;
+  while (angle - size > -Math.PI / 2 + 0.5 * size) {
+    angle -= size;
+    edges.push(angle);
+    size = Math.min(size * (1 + (SPHERE_ROD_GROWTH - 1) / scale), largest);
+  }
+  edges.push(-Math.PI / 2);
+  const shapes: PanelShape[] = [];
+  for (let k = edges.length - 1; k > 0; k--) {
+    const angle0 = edges[k];
+    const angle1 = edges[k - 1];
+    const position = body.radius * 0.5 * (angle0 + angle1);
+    shapes.push({ kind: 'arc', centerR: 0, centerZ: body.centerZ, radius: body.radius, angle0, angle1, position });
+  }
+  return shapes;
+}
+
+/**
+ * The panels of what is joined to a topload at its potential, after the body's own panels: a
+ * toroid's centre disc (a thin sheet from the axis to the tube's inner equator, where the tube's
+ * panels have an edge; an edge of it at the rod's radius when a rod stands on it), then a rod on the
+ * axis (its apex panel last of all). The disc meets the tube and the rod at right angles, so its
+ * charge density has no edge singularity there (the field vanishes in a 90° corner of air): uniform
+ * panels. Empty for a body with neither (every arrangement without them is solved as before).
+ */
+export function attachmentPanels(body: ToploadBody): PanelShape[] {
+  if (body.shape === 'disc') return [];
+  const scale = body.attachmentResolution ?? 1;
+  const rod = body.axisRod;
+  const shapes: PanelShape[] = [];
+  if (body.shape === 'toroid') {
+    if (!body.centerDisc) return [];
+    const outer = centerDiscRadius(body);
+    const foot = rod ? rod.tipRadius : 0;
+    const footPanels = rod ? Math.max(1, Math.round(CENTER_DISC_FOOT_PANELS * scale)) : 0;
+    const discPanels = Math.max(2, Math.round(CENTER_DISC_PANELS * scale));
+    const edges: number[] = [0];
+    for (let k = 1; k <= footPanels; k++) edges.push((foot * k) / footPanels);
+    if (rod) {
+      // From the rod's foot outward the panels grow geometrically from half the tip radius up to
+      // the uniform size (the rod draws the charge near its foot on a scale of its radius).
+      const uniform = (outer - foot) / discPanels;
+      let size = Math.min(uniform, 0.5 * foot);
+      let r = foot;
+      while (r + size < outer - 0.5 * size) {
+        r += size;
+        edges.push(r);
+        size = Math.min(uniform, size * (1 + (DISC_GROWTH - 1) / scale));
+      }
+      edges.push(outer);
+    } else for (let k = 1; k <= discPanels; k++) edges.push(foot + ((outer - foot) * k) / discPanels);
+    for (let k = 0; k + 1 < edges.length; k++) {
+      const r0 = edges[k];
+      const r1 = edges[k + 1];
+      shapes.push({ kind: 'line', r0, z0: body.centerZ, r1, z1: body.centerZ, position: 0.5 * (r0 + r1) });
+    }
+    if (rod) shapes.push(...rodOnAxisPanels(body.centerZ, rod.height - rod.tipRadius, rod.tipRadius, scale));
+    return shapes;
+  }
+  if (!rod) return [];
+  // On a sphere the rod's side meets the surface at height √(R² − a²) above the centre.
+  const base = Math.sqrt(body.radius ** 2 - rod.tipRadius ** 2);
+  const cylinder = body.radius + rod.height - base - rod.tipRadius;
+  shapes.push(...rodOnAxisPanels(body.centerZ + base, cylinder, rod.tipRadius, scale));
+  return shapes;
 }

@@ -15,7 +15,7 @@
  */
 import { assembleCollocationMatrix } from './assembly.ts';
 import { luFactor, luSolve } from './dense-lu.ts';
-import { buildPanelLayout, type PanelShape } from './panels.ts';
+import { buildPanelLayout, type PanelLayout, type PanelShape } from './panels.ts';
 import { VACUUM_PERMITTIVITY } from './ring-kernel.ts';
 
 /** Panels on the hemispherical cap (uniform in angle). */
@@ -228,4 +228,18 @@ export function rodOnSphereEnhancement(height: number, tipRadius: number, sphere
   const s1 = layout.midR[last - 1];
   const c2 = (field(last - 1) - field(last)) / (s1 * s1 - s0 * s0);
   return (field(last) - c2 * s0 * s0) * sphereRadius;
+}
+
+/**
+ * The apex field of a solved rod whose cap ends with panel `last` (the apex panel, its neighbour
+ * before it), V/m per unit density scale: σ is even in the distance s from the axis, so
+ * c0 + c2·s² is fitted through the two panels nearest the apex (as in the solves above) and c0
+ * returned, σ/ε0 with the sign of the density.
+ */
+export function apexField(layout: PanelLayout, density: ArrayLike<number>, last: number): number {
+  const field = (j: number) => density[j] / VACUUM_PERMITTIVITY;
+  const s0 = layout.midR[last];
+  const s1 = layout.midR[last - 1];
+  const c2 = (field(last - 1) - field(last)) / (s1 * s1 - s0 * s0);
+  return field(last) - c2 * s0 * s0;
 }

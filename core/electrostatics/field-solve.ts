@@ -32,7 +32,9 @@
  * the counts.
  */
 import {
+  attachmentPanels,
   discPanels,
+  sphereUnderRodPanels,
   groundedRingPanels,
   spherePanels,
   toroidPanels,
@@ -371,8 +373,14 @@ export function solveField(arrangement: FieldArrangement, options: FieldSolveOpt
     windingTopFieldPerVolt,
     layout,
     density,
-    toploadPanels: { first: leadingCount, count: toploadCount },
+    toploadPanels: { first: leadingCount, count: ownToploadCount(arrangement, toploadCount) },
   };
+}
+
+/** The topload body's own panels among its `toploadCount` (the attachments' panels follow them). */
+export function ownToploadCount(arrangement: FieldArrangement, toploadCount: number): number {
+  const topload = arrangement.topload;
+  return topload && toploadCount > 0 ? toploadCount - attachmentPanels(topload).length : toploadCount;
 }
 
 /**
@@ -391,8 +399,13 @@ export function arrangementPanels(
   const topload = arrangement.topload;
   if (topload?.shape === 'toroid')
     shapes.push(...toroidPanels(topload, counts.topload, toroidGradedInward(arrangement)));
-  else if (topload?.shape === 'sphere') shapes.push(...spherePanels(topload, counts.topload));
+  else if (topload?.shape === 'sphere')
+    shapes.push(
+      ...(topload.axisRod ? sphereUnderRodPanels(topload, counts.topload) : spherePanels(topload, counts.topload)),
+    );
   else if (topload?.shape === 'disc') shapes.push(...discPanels(topload, counts.topload));
+  // What is joined to the topload (a toroid's centre disc, a rod on the axis) follows its own panels.
+  if (topload) shapes.push(...attachmentPanels(topload));
   return { shapes, windingCount, leadingCount };
 }
 
@@ -455,7 +468,8 @@ export function densityFields(
     toploadCapacitance = charge;
   }
   let fields: { peak: number; angle: number | null; underside: number } | null = null;
-  if (topload && toploadCount > 0) fields = toploadFields(topload, layout, density, leadingCount, toploadCount);
+  const ownCount = ownToploadCount(arrangement, toploadCount);
+  if (topload && toploadCount > 0) fields = toploadFields(topload, layout, density, leadingCount, ownCount);
 
   let windingTopFieldPerVolt: number | null = null;
   if (winding && windingCount > 0) {
@@ -482,7 +496,7 @@ export function densityFields(
     windingTopFieldPerVolt,
     layout,
     density,
-    toploadPanels: { first: leadingCount, count: toploadCount },
+    toploadPanels: { first: leadingCount, count: ownCount },
   };
 }
 

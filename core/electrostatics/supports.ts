@@ -59,41 +59,59 @@ export function supportMember(
     problems.push({ field: 'supports.diameter', reason: `the diameter (${mm(support.diameter)}) must be positive` });
     return null;
   }
-  if (support.kind === 'column') {
-    const rho = support.diameter / 2;
-    if (secondary) {
-      const formRadius = secondary.radius - secondary.overallDiameter / 2;
-      if (!(rho < formRadius)) {
-        problems.push({
-          field: 'supports.diameter',
-          reason: `the column (diameter ${mm(support.diameter)}) is not narrower than the coil form (diameter ${mm(2 * formRadius)}): it passes through the winding`,
-        });
-        return null;
-      }
-    }
-    const bottom = support.from === 'floor' ? 0 : (secondary?.topZ ?? 0);
-    let top: number;
-    if (topload.shape === 'sphere') {
-      if (!(rho < topload.radius)) {
-        problems.push({
-          field: 'supports.diameter',
-          reason: `the column (diameter ${mm(support.diameter)}) is wider than the sphere`,
-        });
-        return null;
-      }
-      top = topload.centerZ - Math.sqrt(topload.radius ** 2 - rho ** 2);
-    } else if (topload.shape === 'toroid' && Math.abs(rho - topload.majorRadius) < topload.minorRadius) {
-      top = topload.centerZ - Math.sqrt(topload.minorRadius ** 2 - (rho - topload.majorRadius) ** 2);
-    } else top = topload.centerZ;
-    if (!(top > bottom)) {
+  if (support.kind === 'column') return columnMember(support, topload, secondary, problems);
+  return rodMember(support, topload, secondary, problems);
+}
+
+/** A central column from the floor or the winding top up to the topload (see `supportMember`). */
+function columnMember(
+  support: Extract<SupportSpec, { kind: 'column' }>,
+  topload: ToploadBody,
+  secondary: SecondaryGeometry | undefined,
+  problems: DesignProblem[],
+): SupportMember | null {
+  const rho = support.diameter / 2;
+  if (secondary) {
+    const formRadius = secondary.radius - secondary.overallDiameter / 2;
+    if (!(rho < formRadius)) {
       problems.push({
-        field: 'supports.from',
-        reason: `the topload comes down to ${mm(top)} on the column's line, not above its foot at ${mm(bottom)}`,
+        field: 'supports.diameter',
+        reason: `the column (diameter ${mm(support.diameter)}) is not narrower than the coil form (diameter ${mm(2 * formRadius)}): it passes through the winding`,
       });
       return null;
     }
-    return { r0: rho, z0: bottom, r1: rho, z1: top };
   }
+  const bottom = support.from === 'floor' ? 0 : (secondary?.topZ ?? 0);
+  let top: number;
+  if (topload.shape === 'sphere') {
+    if (!(rho < topload.radius)) {
+      problems.push({
+        field: 'supports.diameter',
+        reason: `the column (diameter ${mm(support.diameter)}) is wider than the sphere`,
+      });
+      return null;
+    }
+    top = topload.centerZ - Math.sqrt(topload.radius ** 2 - rho ** 2);
+  } else if (topload.shape === 'toroid' && Math.abs(rho - topload.majorRadius) < topload.minorRadius) {
+    top = topload.centerZ - Math.sqrt(topload.minorRadius ** 2 - (rho - topload.majorRadius) ** 2);
+  } else top = topload.centerZ;
+  if (!(top > bottom)) {
+    problems.push({
+      field: 'supports.from',
+      reason: `the topload comes down to ${mm(top)} on the column's line, not above its foot at ${mm(bottom)}`,
+    });
+    return null;
+  }
+  return { r0: rho, z0: bottom, r1: rho, z1: top };
+}
+
+/** A rod between two given points in a meridian plane (see `supportMember`). */
+function rodMember(
+  support: Extract<SupportSpec, { kind: 'rods' }>,
+  topload: ToploadBody,
+  secondary: SecondaryGeometry | undefined,
+  problems: DesignProblem[],
+): SupportMember | null {
   if (!(support.count >= 1) || !Number.isInteger(support.count)) {
     problems.push({ field: 'supports.count', reason: `${support.count} is not a whole number of rods` });
     return null;
@@ -125,6 +143,17 @@ export function supportMember(
         field: 'supports.to_radius',
         reason: `the rod crosses the winding (radius ${mm(secondary.radius)}) at ${mm(z)} above the floor`,
       });
+      return null;
+    }
+  }
+  if (
+    topload.shape === 'toroid' &&
+    topload.centerDisc &&
+    (member.z0 - topload.centerZ) * (member.z1 - topload.centerZ) < 0
+  ) {
+    const t = (topload.centerZ - member.z0) / (member.z1 - member.z0);
+    if (member.r0 + t * (member.r1 - member.r0) < topload.majorRadius - topload.minorRadius) {
+      problems.push({ field: 'supports.to_height', reason: "the rod passes through the toroid's centre disc" });
       return null;
     }
   }
