@@ -1,9 +1,11 @@
 /**
- * The pipeline shorthand of sweep files: `sweep.stages`, a list of later stages (`evolve`, `refine`)
- * that `coilfront sweep` runs on the run directory once the sweep is finished, each exactly as the
- * command of the same name would (cli/stage-runner.ts). Here: reading and describing the list.
+ * The pipeline shorthand of sweep files: `sweep.stages`, a list of later stages (`evolve`, `refine`,
+ * `sensitivity`) that `coilfront sweep` runs on the run directory once the sweep is finished, each exactly
+ * as the command of the same name would (cli/stage-runner.ts). Here: reading and describing the list.
  */
+import { join } from 'node:path';
 import type { InputIssue } from '../run/input-error.ts';
+import { RUN_FILES } from '../run/run-directory.ts';
 import { suggest } from './suggest.ts';
 import { describeValue } from './units.ts';
 
@@ -11,6 +13,7 @@ import { describeValue } from './units.ts';
 export const STAGE_DEFAULTS = {
   evolve: { evaluations: 2000, population: 100 },
   refine: { starts: 8, evaluations: 2000 },
+  sensitivity: { samples: 512 },
 } as const;
 
 /** The size of a sweep problem, from which a stage's unset settings are chosen. */
@@ -33,21 +36,24 @@ export interface ProblemSize {
 export function stageDefaults(size: ProblemSize): {
   evolve: { evaluations: number; population: number };
   refine: { starts: number; evaluations: number };
+  sensitivity: { samples: number };
 } {
   const population = STAGE_DEFAULTS.evolve.population;
   const starts = 4 * Math.max(1, size.objectives);
   return {
     evolve: { evaluations: Math.max(2 * size.samples, 10 * population), population },
     refine: { starts, evaluations: Math.max(size.samples, starts * (size.dimensions + 2)) },
+    sensitivity: { samples: STAGE_DEFAULTS.sensitivity.samples },
   };
 }
 
 export type StageSpec =
   | { stage: 'evolve'; evaluations: number; population: number; seed?: number }
-  | { stage: 'refine'; starts: number; evaluations: number };
+  | { stage: 'refine'; starts: number; evaluations: number }
+  | { stage: 'sensitivity'; samples: number };
 
 type StageName = StageSpec['stage'];
-const STAGE_NAMES: StageName[] = ['evolve', 'refine'];
+const STAGE_NAMES: StageName[] = ['evolve', 'refine', 'sensitivity'];
 /** Each stage's settings: the least value, and the greatest (seeds are below 2^32). */
 const STAGE_SETTINGS: Record<StageName, Record<string, [number, number]>> = {
   evolve: {
@@ -56,7 +62,11 @@ const STAGE_SETTINGS: Record<StageName, Record<string, [number, number]>> = {
     seed: [0, 2 ** 32 - 1],
   },
   refine: { starts: [1, Number.MAX_SAFE_INTEGER], evaluations: [1, Number.MAX_SAFE_INTEGER] },
+  sensitivity: { samples: [2, Number.MAX_SAFE_INTEGER] },
 };
+
+/** The most swept fields a sensitivity study takes (the Saltelli design's 2k Sobol dimensions). */
+export const SENSITIVITY_MAX_FIELDS = 32;
 
 function isMapping(value: unknown): value is Record<string, unknown> {
   return typeof value === 'object' && value !== null && !Array.isArray(value);
@@ -93,7 +103,7 @@ export function readStages(input: unknown, issues: InputIssue[], size?: ProblemS
     } else {
       issues.push({
         path,
-        message: `expected one stage, { evolve: { ... } } or { refine: { ... } }, got ${describeValue(item)}`,
+        message: `expected one stage, { evolve: { ... } }, { refine: { ... } } or { sensitivity: { ... } }, got ${describeValue(item)}`,
       });
       return [];
     }
@@ -144,19 +154,33 @@ export function readStages(input: unknown, issues: InputIssue[], size?: ProblemS
         population: values.population ?? defaults.evolve.population,
         ...(values.seed !== undefined ? { seed: values.seed } : {}),
       });
-    } else {
+    } else if (stage === 'refine') {
       stages.push({
         stage,
         starts: values.starts ?? defaults.refine.starts,
         evaluations: values.evaluations ?? defaults.refine.evaluations,
       });
+    } else {
+      if (size && (size.dimensions < 1 || size.dimensions > SENSITIVITY_MAX_FIELDS)) {
+        issues.push({
+          path,
+          message: `sensitivity needs 1 to ${SENSITIVITY_MAX_FIELDS} swept fields, the file has ${size.dimensions}`,
+        });
+        return [];
+      }
+      stages.push({ stage, samples: values.samples ?? defaults.sensitivity.samples });
     }
   }
   return stages;
 }
 
-/** The command a stage stands for, as a user would type it after the sweep. */
+/**
+ * The command a stage stands for, as a user would type it after the sweep (a sensitivity stage writes, besides
+ * that command's files, the `sobol` section of summary.json).
+ */
 export function stageCommand(stage: StageSpec, directory: string): string {
+  if (stage.stage === 'sensitivity')
+    return `npx coilfront sensitivity ${join(directory, RUN_FILES.spec)} --samples ${stage.samples} --out ${directory}`;
   if (stage.stage === 'evolve')
     return `npx coilfront evolve ${directory} --evaluations ${stage.evaluations} --population ${stage.population}${stage.seed !== undefined ? ` --seed ${stage.seed}` : ''}`;
   return `npx coilfront refine ${directory} --starts ${stage.starts} --evaluations ${stage.evaluations}`;
@@ -164,6 +188,7 @@ export function stageCommand(stage: StageSpec, directory: string): string {
 
 /** A stage in words, for `check`: `evolve (2000 evaluations, population 100)`. */
 export function describeStage(stage: StageSpec): string {
+  if (stage.stage === 'sensitivity') return `sensitivity (${stage.samples} base samples)`;
   if (stage.stage === 'evolve')
     return `evolve (${stage.evaluations} evaluations, population ${stage.population}${stage.seed !== undefined ? `, seed ${stage.seed}` : ''})`;
   return `refine (${stage.starts} starts, ${stage.evaluations} evaluations)`;
@@ -186,12 +211,14 @@ export function stagesSchema(): Record<string, unknown> {
   });
   return {
     type: 'array',
-    description: 'stages run in order on the run directory after the sweep, as the evolve and refine commands',
+    description:
+      'stages run in order on the run directory after the sweep, as the evolve, refine and sensitivity commands',
     items: {
       oneOf: [
         { enum: [...STAGE_NAMES] },
         form('evolve', { evaluations: whole(1), population: whole(4), seed: whole(0, 4294967295) }),
         form('refine', { starts: whole(1), evaluations: whole(1) }),
+        form('sensitivity', { samples: whole(2) }),
       ],
     },
   };
