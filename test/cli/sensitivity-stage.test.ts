@@ -23,7 +23,10 @@ async function cli(args: string[]): Promise<{ code: number; out: string; err: st
 
 const area = scratchArea('sens-stage');
 const SAMPLES = 32;
-const fixture = readFileSync(SMALL_SWEEP, 'utf8');
+// The fixture cut to 64 samples (the stage's study, not the sweep, is under test here): the sweep file of every run.
+const fixture = readFileSync(SMALL_SWEEP, 'utf8').replace(/^(sweep: \{ .*)samples: 256(.*\})$/m, '$1samples: 64$2');
+const base = area.dir('base.yaml');
+writeFileSync(base, fixture);
 /** The fixture with `sweep.stages` set to `stages` (YAML flow text). */
 function withStages(name: string, stages: string): string {
   const file = area.dir(`${name}.yaml`);
@@ -57,9 +60,10 @@ const whole = area.dir('whole');
 beforeAll(async () => {
   requireBuiltCli();
   // The references: the study by the command a user would type, a sweep without stages, and the staged sweep.
-  const study = await cli(['sensitivity', SMALL_SWEEP, '--samples', `${SAMPLES}`, '--workers', '0', '--out', byHand]);
+  expect(fixture).toContain('samples: 64');
+  const study = await cli(['sensitivity', base, '--samples', `${SAMPLES}`, '--workers', '0', '--out', byHand]);
   expect(study.code, study.err).toBe(0);
-  const sweep = await cli(['sweep', SMALL_SWEEP, '--out', plain, '--workers', '0', '--batch-size', '8', '--quiet']);
+  const sweep = await cli(['sweep', base, '--out', plain, '--workers', '0', '--batch-size', '8', '--quiet']);
   expect(sweep.code, sweep.err).toBe(0);
   const run = await cli(['sweep', staged, '--out', whole, '--workers', '0', '--batch-size', '8']);
   expect(run.code, run.err).toBe(0);
