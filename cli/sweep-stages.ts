@@ -9,7 +9,7 @@ import { RUN_FILES } from '../run/run-directory.ts';
 import { suggest } from './suggest.ts';
 import { describeValue } from './units.ts';
 
-/** The defaults of the stages: those of the `evolve` and `refine` commands. */
+/** The defaults of the stages: those of the `evolve`, `refine` and `sensitivity` commands. */
 export const STAGE_DEFAULTS = {
   evolve: { evaluations: 2000, population: 100 },
   refine: { starts: 8, evaluations: 2000 },
@@ -36,14 +36,12 @@ export interface ProblemSize {
 export function stageDefaults(size: ProblemSize): {
   evolve: { evaluations: number; population: number };
   refine: { starts: number; evaluations: number };
-  sensitivity: { samples: number };
 } {
   const population = STAGE_DEFAULTS.evolve.population;
   const starts = 4 * Math.max(1, size.objectives);
   return {
     evolve: { evaluations: Math.max(2 * size.samples, 10 * population), population },
     refine: { starts, evaluations: Math.max(size.samples, starts * (size.dimensions + 2)) },
-    sensitivity: { samples: STAGE_DEFAULTS.sensitivity.samples },
   };
 }
 
@@ -168,7 +166,7 @@ export function readStages(input: unknown, issues: InputIssue[], size?: ProblemS
         });
         return [];
       }
-      stages.push({ stage, samples: values.samples ?? defaults.sensitivity.samples });
+      stages.push({ stage, samples: values.samples ?? STAGE_DEFAULTS.sensitivity.samples });
     }
   }
   return stages;
