@@ -460,7 +460,7 @@ function tankSection(ctx: SheetContext): void {
       figures.push({
         label: 'part',
         text: `${formatNumber(bank.partCapacitance * 1e9)} nF, ${formatNumber(bank.partVoltageRating / 1e3)} kV DC, ${formatNumber(bank.partRmsCurrentRating)} A rms${bank.partPeakCurrentRating !== undefined ? `, ${formatNumber(bank.partPeakCurrentRating)} A peak` : ''}`,
-        source: 'design tank_bank.part_*',
+        source: 'design tank.bank.part',
       });
       figures.push({
         label: 'layout',

@@ -8,7 +8,8 @@ import type { Design } from '../core/design.ts';
 import { designField } from '../core/design-field.ts';
 import type { NormalTree } from '../optimize/design-tree.ts';
 import { writeFileAtomicSync } from '../run/durable/atomic-write.ts';
-import { fieldError, InputError, optionError } from '../run/input-error.ts';
+import { fieldError, optionError } from '../run/input-error.ts';
+import { commandError } from './input-errors.ts';
 import type { CliIo } from './io.ts';
 import { loadDesignFile } from './load-design.ts';
 import { runDesign, runSpace } from './run-design.ts';
@@ -22,7 +23,7 @@ function comparedDesigns(source: string, rest: string[]): Compared[] {
   const found: { name: string; design: Design; tree: NormalTree; file: string }[] = [];
   if (isRun) {
     if (rest.length < 1)
-      throw new InputError(`compare: give the ranks to compare after the run (compare ${source} 1 3 7)`);
+      throw commandError('compare', `give the ranks to compare after the run (compare ${source} 1 3 7)`);
     const space = runSpace(source);
     for (const id of rest) {
       const design = runDesign(source, id, space);
@@ -34,7 +35,7 @@ function comparedDesigns(source: string, rest: string[]): Compared[] {
       found.push({ name: file, design: loaded.design, tree: loaded.tree, file });
     }
   }
-  if (found.length < 2) throw new InputError('compare: give at least two designs');
+  if (found.length < 2) throw commandError('compare', 'give at least two designs');
   return found.map((f) => {
     const field = designField(f.design);
     if (field.evaluation.problems.length > 0) {

@@ -34,6 +34,11 @@ export interface SectionSpec {
   fields: Record<string, FieldSpec>;
   /** Sections with several forms (topload shape, driver kind): the key and the form's own fields. */
   variants?: { key: string; forms: Record<string, Record<string, FieldSpec>> };
+  /**
+   * Sections nested inside this one (`tank: { bank: { part: { … } } }`), read after the fields. In the
+   * normal tree their fields sit in this section under dotted keys ('bank.part.capacitance').
+   */
+  subsections?: Record<string, SectionSpec>;
 }
 
 const length = (description: string, extra: Partial<FieldSpec & { type: 'quantity' }> = {}): FieldSpec => ({
@@ -43,6 +48,80 @@ const length = (description: string, extra: Partial<FieldSpec & { type: 'quantit
   description,
   ...extra,
 });
+
+/** The fields of one capacitor part of a tank bank (`tank.bank.part`). */
+const BANK_PART_FIELDS: Record<string, FieldSpec> = {
+  capacitance: { type: 'quantity', kind: 'capacitance', range: 'positive', description: 'capacitance of one part' },
+  voltage_rating: {
+    type: 'quantity',
+    kind: 'voltage',
+    range: 'positive',
+    plausible: [50, 1e6],
+    description: 'DC voltage rating of one part',
+  },
+  rms_current_rating: {
+    type: 'quantity',
+    kind: 'current',
+    range: 'positive',
+    description: 'rms current rating of one part',
+  },
+  peak_current_rating: {
+    type: 'quantity',
+    kind: 'current',
+    range: 'positive',
+    optional: true,
+    description: 'peak current rating of one part',
+  },
+};
+
+/** The layout fields of a tank bank, shared by `tank.bank` and its older spelling `tank_bank`. */
+const BANK_LAYOUT_FIELDS: Record<string, FieldSpec> = {
+  series: {
+    type: 'quantity',
+    kind: 'dimensionless',
+    range: 'positive',
+    integer: true,
+    optional: true,
+    auto: true,
+    description:
+      'parts in series per string, or auto (the default): the fewest that hold the working voltage × voltage_margin',
+  },
+  parallel: {
+    type: 'quantity',
+    kind: 'dimensionless',
+    range: 'positive',
+    integer: true,
+    optional: true,
+    auto: true,
+    description: "strings in parallel, or auto (the default): the nearest to the tank's capacitance",
+  },
+  voltage_margin: {
+    type: 'quantity',
+    kind: 'dimensionless',
+    range: 'positive',
+    optional: true,
+    default: 2,
+    description: 'part rating over the largest voltage across it (default 2, common practice)',
+  },
+  bleed_time: {
+    type: 'quantity',
+    kind: 'time',
+    range: 'positive',
+    optional: true,
+    default: 60,
+    description: 'time in which the bleeders bring the bank below 50 V (default 60 s, common practice)',
+  },
+};
+
+/** `tank.bank`: the tank capacitor built from identical parts; its `part` is a section of its own. */
+const TANK_BANK_SECTION: SectionSpec = {
+  description: 'the tank capacitor built from identical capacitor parts, series × parallel',
+  optional: true,
+  fields: BANK_LAYOUT_FIELDS,
+  subsections: {
+    part: { description: 'one capacitor part, as its maker rates it', optional: false, fields: BANK_PART_FIELDS },
+  },
+};
 
 export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
   secondary: {
@@ -190,6 +269,7 @@ export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
         description: 'DC rating of the capacitor bank, for the rating check',
       },
     },
+    subsections: { bank: TANK_BANK_SECTION },
   },
   driver: {
     description: 'what drives the primary',
@@ -333,70 +413,12 @@ export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
     },
   },
   tank_bank: {
-    description: 'the tank capacitor built from identical capacitor parts, series × parallel',
+    description:
+      'the older spelling of tank.bank, read as it: part_capacitance for part.capacitance and so on (tank.bank is the canonical form)',
     optional: true,
     fields: {
-      part_capacitance: {
-        type: 'quantity',
-        kind: 'capacitance',
-        range: 'positive',
-        description: 'capacitance of one part',
-      },
-      part_voltage_rating: {
-        type: 'quantity',
-        kind: 'voltage',
-        range: 'positive',
-        plausible: [50, 1e6],
-        description: 'DC voltage rating of one part',
-      },
-      part_rms_current_rating: {
-        type: 'quantity',
-        kind: 'current',
-        range: 'positive',
-        description: 'rms current rating of one part',
-      },
-      part_peak_current_rating: {
-        type: 'quantity',
-        kind: 'current',
-        range: 'positive',
-        optional: true,
-        description: 'peak current rating of one part',
-      },
-      series: {
-        type: 'quantity',
-        kind: 'dimensionless',
-        range: 'positive',
-        integer: true,
-        optional: true,
-        auto: true,
-        description:
-          'parts in series per string, or auto (the default): the fewest that hold the working voltage × voltage_margin',
-      },
-      parallel: {
-        type: 'quantity',
-        kind: 'dimensionless',
-        range: 'positive',
-        integer: true,
-        optional: true,
-        auto: true,
-        description: "strings in parallel, or auto (the default): the nearest to the tank's capacitance",
-      },
-      voltage_margin: {
-        type: 'quantity',
-        kind: 'dimensionless',
-        range: 'positive',
-        optional: true,
-        default: 2,
-        description: 'part rating over the largest voltage across it (default 2, common practice)',
-      },
-      bleed_time: {
-        type: 'quantity',
-        kind: 'time',
-        range: 'positive',
-        optional: true,
-        default: 60,
-        description: 'time in which the bleeders bring the bank below 50 V (default 60 s, common practice)',
-      },
+      ...Object.fromEntries(Object.entries(BANK_PART_FIELDS).map(([key, field]) => [`part_${key}`, field])),
+      ...BANK_LAYOUT_FIELDS,
     },
   },
   safety_gap: {
@@ -546,4 +568,30 @@ export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
 export function sectionFields(section: SectionSpec, form: string | undefined): Record<string, FieldSpec> {
   if (!section.variants || form === undefined) return section.fields;
   return { ...section.fields, ...(section.variants.forms[form] ?? {}) };
+}
+
+/**
+ * Every leaf field of a section by its dotted key in the normal tree ('capacitance',
+ * 'bank.part.capacitance'), in the forms that `values` (a normal section) names.
+ */
+export function flatFields(
+  section: SectionSpec,
+  values: Record<string, unknown> = {},
+  prefix = '',
+): Record<string, FieldSpec> {
+  const key = section.variants?.key;
+  const form = key !== undefined ? values[`${prefix}${key}`] : undefined;
+  const out: Record<string, FieldSpec> = {};
+  for (const [name, field] of Object.entries(sectionFields(section, typeof form === 'string' ? form : undefined)))
+    out[`${prefix}${name}`] = field;
+  for (const [name, sub] of Object.entries(section.subsections ?? {}))
+    Object.assign(out, flatFields(sub, values, `${prefix}${name}.`));
+  return out;
+}
+
+/** The spec of a section nested at a dotted path below `section` ('bank.part'), or undefined. */
+export function subsectionAt(section: SectionSpec, path: string): SectionSpec | undefined {
+  let at: SectionSpec | undefined = section;
+  for (const name of path.split('.')) at = at?.subsections?.[name];
+  return at;
 }

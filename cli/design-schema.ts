@@ -10,16 +10,17 @@
  */
 import * as z from 'zod';
 import { stringify as yamlStringify } from 'yaml';
-import { DESIGN_SECTIONS, sectionFields, type FieldSpec, type SectionSpec } from './design-fields.ts';
+import { DESIGN_SECTIONS, flatFields, sectionFields, type FieldSpec, type SectionSpec } from './design-fields.ts';
 import { describeValue, readQuantity, describeKind, type QuantityKind, unitsOf } from './units.ts';
 import type { InputIssue } from '../run/input-error.ts';
-import type {
-  Dimension,
-  DimensionSlot,
-  LeafValue,
-  NormalSection,
-  NormalTree,
-  WireValue,
+import {
+  isSlot,
+  type Dimension,
+  type DimensionSlot,
+  type LeafValue,
+  type NormalSection,
+  type NormalTree,
+  type WireValue,
 } from '../optimize/design-tree.ts';
 import { suggest } from './suggest.ts';
 import { must } from '../core/must.ts';
@@ -307,6 +308,35 @@ function readRange(
     });
     return undefined;
   }
+  const bounds = readRangeBounds(field, input, path, issues);
+  if (bounds === undefined) return undefined;
+  const { from, to } = bounds;
+  const options = readRangeOptions(field, input, path, from, issues);
+  if (options === undefined) return undefined;
+  if (options.integer && Math.floor(to) < Math.ceil(from)) {
+    issues.push({ path, message: `no integer lies between ${from} and ${to}` });
+    return undefined;
+  }
+  state.dimensions.push({
+    kind: 'range',
+    path,
+    quantity: field.kind,
+    from,
+    to,
+    scale: options.scale,
+    integer: options.integer || (field.integer ?? false),
+    step: options.step,
+  });
+  return { slot: state.dimensions.length - 1 };
+}
+
+/** A range's keys and its `from` below its `to`, SI; undefined after pushing the problem. */
+function readRangeBounds(
+  field: FieldSpec & { type: 'quantity' },
+  input: Record<string, unknown>,
+  path: string[],
+  issues: InputIssue[],
+): { from: number; to: number } | undefined {
   for (const key of Object.keys(input)) {
     if (!RANGE_KEYS.includes(key)) {
       issues.push({ path: [...path, key], message: unknownKeyMessage(key, RANGE_KEYS) });
@@ -333,6 +363,17 @@ function readRange(
     });
     return undefined;
   }
+  return { from, to };
+}
+
+/** A range's `integer`, `scale` and `step` (defaults: false, linear, none); undefined after pushing the problem. */
+function readRangeOptions(
+  field: FieldSpec & { type: 'quantity' },
+  input: Record<string, unknown>,
+  path: string[],
+  from: number,
+  issues: InputIssue[],
+): { integer: boolean; scale: 'linear' | 'log'; step: number | null } | undefined {
   let integer = false;
   if (input.integer !== undefined) {
     if (typeof input.integer !== 'boolean') {
@@ -370,21 +411,7 @@ function readRange(
     }
     step = value;
   }
-  if (integer && Math.floor(to) < Math.ceil(from)) {
-    issues.push({ path, message: `no integer lies between ${from} and ${to}` });
-    return undefined;
-  }
-  state.dimensions.push({
-    kind: 'range',
-    path,
-    quantity: field.kind,
-    from,
-    to,
-    scale,
-    integer: integer || (field.integer ?? false),
-    step,
-  });
-  return { slot: state.dimensions.length - 1 };
+  return { integer, scale, step };
 }
 
 function labelOf(input: unknown): string {
@@ -595,100 +622,172 @@ function readSection(
   path: string[],
   state: WalkState,
 ): NormalSection | DimensionSlot | undefined {
-  if (state.mode === 'sweep' && isMapping(input) && 'choose' in input) {
-    const slot = readChoose(
-      input,
-      path,
-      state,
-      (item, itemPath) =>
-        readSection(name, section, item, itemPath as string[], { ...state, mode: 'design' }) as
-          | NormalSection
-          | undefined,
-      undefined,
-      true,
-    );
-    if (slot) attachSectionFields(section, state.dimensions[slot.slot]);
-    return slot;
-  }
+  if (state.mode === 'sweep' && isMapping(input) && 'choose' in input)
+    return readSectionSet(name, section, input, path, state);
   if (!isMapping(input)) {
     state.issues.push({ path, message: `expected a mapping of ${name} fields, got ${describeValue(input)}` });
     return undefined;
   }
-  let form: string | undefined;
+  const form = readForm(section, input, path, state);
+  if (form === null) return undefined;
   const output: NormalSection = {};
-  if (section.variants) {
-    const key = section.variants.key;
-    const forms = Object.keys(section.variants.forms);
-    const given = input[key];
-    if (given === undefined) {
-      state.issues.push({ path: [...path, key], message: `required: one of ${forms.join(', ')}` });
-      return undefined;
-    }
-    if (typeof given !== 'string' || !forms.includes(given)) {
-      const guess = typeof given === 'string' ? suggest(given, forms) : null;
-      state.issues.push({
-        path: [...path, key],
-        message: `expected one of ${forms.join(', ')}, got ${describeValue(given)}${guess ? ` (did you mean '${guess}'?)` : ''}`,
-      });
-      return undefined;
-    }
-    form = given;
-    output[key] = given;
-  }
+  if (section.variants && form !== undefined) output[section.variants.key] = form;
   const fields = sectionFields(section, form);
-  const known = [...(section.variants ? [section.variants.key] : []), ...Object.keys(fields)];
-  for (const key of Object.keys(input)) {
-    if (!known.includes(key)) {
-      const inOtherForm = section.variants
-        ? Object.entries(section.variants.forms).find(([, f]) => key in f)?.[0]
-        : undefined;
-      state.issues.push({
-        path: [...path, key],
-        message: inOtherForm
-          ? `'${key}' belongs to ${must(section.variants).key} ${inOtherForm}, not ${form}`
-          : unknownKeyMessage(key, known),
-      });
-      return undefined;
-    }
-  }
+  if (!onlyKnownKeys(section, fields, form, input, path, state)) return undefined;
   for (const [key, field] of Object.entries(fields)) {
-    const value = input[key];
-    const fieldPath = [...path, key];
-    // A field that may be chosen by the core (a tank bank's counts): the word auto is the same as leaving it out.
-    if (value === 'auto' && field.type === 'quantity' && field.auto) continue;
-    if (value === undefined || value === null) {
-      if (!field.optional) {
-        state.issues.push({ path: fieldPath, message: `required: ${field.description}` });
-        return undefined;
-      }
-      continue;
-    }
-    if (
-      state.mode === 'sweep' &&
-      isMapping(value) &&
-      ('from' in value || 'to' in value || 'choose' in value || 'stock' in value)
-    ) {
-      const slot =
-        'stock' in value
-          ? readStock(field, value, fieldPath, state)
-          : 'choose' in value
-            ? readChoose(
-                value,
-                fieldPath,
-                state,
-                (item, itemPath) => readLeaf(field, item, itemPath, state.issues),
-                field,
-              )
-            : readRange(field, value, fieldPath, state);
-      if (slot === undefined) return undefined;
-      output[key] = slot;
-      continue;
-    }
-    const leaf = readLeaf(field, value, fieldPath, state.issues);
-    if (leaf === undefined) return undefined;
-    output[key] = leaf;
+    if (!readField(field, input[key], key, path, output, state)) return undefined;
+  }
+  for (const [key, sub] of Object.entries(section.subsections ?? {})) {
+    if (!readSubsection(key, sub, input[key], path, output, state)) return undefined;
   }
   return output;
+}
+
+/** A set of whole sections (`{ choose: [...] }` in a sweep): each choice read as a fixed section. */
+function readSectionSet(
+  name: string,
+  section: SectionSpec,
+  input: Record<string, unknown>,
+  path: string[],
+  state: WalkState,
+): DimensionSlot | undefined {
+  const slot = readChoose(
+    input,
+    path,
+    state,
+    (item, itemPath) =>
+      readSection(name, section, item, itemPath as string[], { ...state, mode: 'design' }) as NormalSection | undefined,
+    undefined,
+    true,
+  );
+  if (slot) attachSectionFields(section, state.dimensions[slot.slot]);
+  return slot;
+}
+
+/** The form a section with variants names (its key's value); undefined without variants, null after a problem. */
+function readForm(
+  section: SectionSpec,
+  input: Record<string, unknown>,
+  path: string[],
+  state: WalkState,
+): string | undefined | null {
+  if (!section.variants) return undefined;
+  const key = section.variants.key;
+  const forms = Object.keys(section.variants.forms);
+  const given = input[key];
+  if (given === undefined) {
+    state.issues.push({ path: [...path, key], message: `required: one of ${forms.join(', ')}` });
+    return null;
+  }
+  if (typeof given !== 'string' || !forms.includes(given)) {
+    const guess = typeof given === 'string' ? suggest(given, forms) : null;
+    state.issues.push({
+      path: [...path, key],
+      message: `expected one of ${forms.join(', ')}, got ${describeValue(given)}${guess ? ` (did you mean '${guess}'?)` : ''}`,
+    });
+    return null;
+  }
+  return given;
+}
+
+/** False after pushing the problem when the section holds a key that is neither a field nor a sub-section. */
+function onlyKnownKeys(
+  section: SectionSpec,
+  fields: Record<string, FieldSpec>,
+  form: string | undefined,
+  input: Record<string, unknown>,
+  path: string[],
+  state: WalkState,
+): boolean {
+  const known = [
+    ...(section.variants ? [section.variants.key] : []),
+    ...Object.keys(fields),
+    ...Object.keys(section.subsections ?? {}),
+  ];
+  const unknown = Object.keys(input).find((key) => !known.includes(key));
+  if (unknown === undefined) return true;
+  const inOtherForm = section.variants
+    ? Object.entries(section.variants.forms).find(([, f]) => unknown in f)?.[0]
+    : undefined;
+  state.issues.push({
+    path: [...path, unknown],
+    message: inOtherForm
+      ? `'${unknown}' belongs to ${must(section.variants).key} ${inOtherForm}, not ${form}`
+      : unknownKeyMessage(unknown, known),
+  });
+  return false;
+}
+
+/** One field of a section into `output`: a fixed value, or in a sweep a range or set; false after a problem. */
+function readField(
+  field: FieldSpec,
+  value: unknown,
+  key: string,
+  path: string[],
+  output: NormalSection,
+  state: WalkState,
+): boolean {
+  const fieldPath = [...path, key];
+  // A field that may be chosen by the core (a tank bank's counts): the word auto is the same as leaving it out.
+  if (value === 'auto' && field.type === 'quantity' && field.auto) return true;
+  if (value === undefined || value === null) {
+    if (field.optional) return true;
+    state.issues.push({ path: fieldPath, message: `required: ${field.description}` });
+    return false;
+  }
+  const read =
+    state.mode === 'sweep' &&
+    isMapping(value) &&
+    ('from' in value || 'to' in value || 'choose' in value || 'stock' in value)
+      ? readSweepLeaf(field, value, fieldPath, state)
+      : readLeaf(field, value, fieldPath, state.issues);
+  if (read === undefined) return false;
+  output[key] = read;
+  return true;
+}
+
+/** A sweep leaf written as a stock set, a set or a range: its dimension's slot. */
+function readSweepLeaf(
+  field: FieldSpec,
+  value: Record<string, unknown>,
+  path: string[],
+  state: WalkState,
+): DimensionSlot | undefined {
+  if ('stock' in value) return readStock(field, value, path, state);
+  if ('choose' in value)
+    return readChoose(value, path, state, (item, itemPath) => readLeaf(field, item, itemPath, state.issues), field);
+  return readRange(field, value, path, state);
+}
+
+/**
+ * A section nested in another (`bank` in `tank`), read like any section at its full path: its fields go
+ * into the outer section under dotted keys ('bank.part.capacitance'); a set of whole sub-sections
+ * stays one slot at its own key ('bank.part'), marked so that filling it spreads its fields there.
+ */
+function readSubsection(
+  name: string,
+  sub: SectionSpec,
+  value: unknown,
+  path: string[],
+  output: NormalSection,
+  state: WalkState,
+): boolean {
+  const subPath = [...path, name];
+  if (value === undefined || value === null) {
+    if (sub.optional) return true;
+    state.issues.push({ path: subPath, message: `required: ${sub.description}` });
+    return false;
+  }
+  const read = readSection(name, sub, value, subPath, state);
+  if (read === undefined) return false;
+  if (isSlot(read)) {
+    const dimension = state.dimensions[read.slot];
+    if (dimension?.kind === 'choose') dimension.subsection = true;
+    output[name] = read;
+    return true;
+  }
+  for (const [key, leaf] of Object.entries(read)) output[`${name}.${key}`] = leaf;
+  return true;
 }
 
 /** What reading a design tree gives: the normal tree and (in sweeps) the dimensions of the space. */
@@ -764,14 +863,11 @@ function attachSectionFields(section: SectionSpec, dimension: Dimension | undefi
   });
 }
 
-/** The field spec of a section's field, in its common fields or in any of its forms. */
+/** The field spec of a section's field (a dotted key for a sub-section's), in any of the choices' forms. */
 function fieldSpecIn(section: SectionSpec, choices: NormalSection[], name: string): FieldSpec | undefined {
-  if (section.fields[name]) return section.fields[name];
-  const variants = section.variants;
-  if (!variants) return undefined;
   for (const choice of choices) {
-    const form = variants.forms[String(choice[variants.key])];
-    if (form?.[name]) return form[name];
+    const spec = flatFields(section, choice)[name];
+    if (spec) return spec;
   }
   return undefined;
 }

@@ -9,35 +9,27 @@
  * Durability: every finished generation is appended to evolve-journal.log and synced; a run stopped at
  * any instant (kill -9 included) continues from its last generation when the same command is given
  * again, and ends in the same files. The journal is removed once the outputs are written.
+ * Ctrl-C or SIGTERM stops it after the generation in flight (cli/stage-signal.ts), and prints the
+ * command that resumes it.
  */
 import { existsSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
 import { DesignSpace, spaceDefinitionOf } from '../optimize/design-space.ts';
-import { type BatchEvaluator, inProcessEvaluator } from '../optimize/evaluate-batch.ts';
-import { type EvolveOutcome, evolveSweep, type GenerationRecord } from '../optimize/evolve-run.ts';
-import type { RankedEntry } from '../optimize/pareto/candidate-pool.ts';
-import type { PackedRow } from '../optimize/packed-row.ts';
+import { type EvolveOutcome, evolveSweep } from '../optimize/evolve-run.ts';
 import type { ShouldStop } from '../optimize/stage-stop.ts';
-import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
-import { journalRecords, openJournal } from '../run/durable/journal.ts';
+import { defaultWorkerCount } from '../workers/pool.ts';
+import { openEvaluator } from '../run/evaluator.ts';
+import { openEvolveJournal } from '../run/evolve-journal.ts';
 import { lockRunOrRefuse } from '../run/sweep-setup.ts';
-import { optionError } from '../run/input-error.ts';
+import { readRunRecord, RUN_FILES } from '../run/run-directory.ts';
 import type { CliIo } from './io.ts';
-import { readRunRecord, RUN_FILES, runDigits } from '../run/run-directory.ts';
-import { SAFETY_CAUTIONS } from './safety.ts';
-import {
-  designLines,
-  hypervolumeLines,
-  improvedDesigns,
-  readSweepState,
-  writeMergedFront,
-  writeStageDesigns,
-  writeSummarySection,
-} from './stage-outputs.ts';
+import { readSweepState } from './stage-outputs.ts';
+import { stageStop } from './stage-signal.ts';
+import { writeEvolveOutputs } from './stage-writes.ts';
 import { loadRunSpec } from './sweep-spec.ts';
-import type { SweepSpec } from './sweep-spec.ts';
-import { candidateNumbering, outputEntries, sortedFront } from './sweep-outputs.ts';
-import { fileError } from './input-errors.ts';
+import { candidateNumbering, outputEntries } from './sweep-outputs.ts';
+import { fileError, optionError } from './input-errors.ts';
+import { evolveConsole } from './views/stage-console.ts';
 
 export interface EvolveCommandOptions {
   evaluations: number;
@@ -60,6 +52,12 @@ function checkOptions(options: EvolveCommandOptions): void {
     throw optionError('--seed', `expected a whole number below 2^32, got ${options.seed}`);
 }
 
+/** The command that carries a stopped evolve on: the same settings (the journal's identity). */
+function resumeCommand(directory: string, options: EvolveCommandOptions): string {
+  const seed = options.seed !== undefined ? ` --seed ${options.seed}` : '';
+  return `npx coilfront evolve ${directory} --evaluations ${options.evaluations} --population ${options.population}${seed}`;
+}
+
 export async function evolveCommand(directory: string, options: EvolveCommandOptions, io: CliIo): Promise<number> {
   checkOptions(options);
   const record = readRunRecord(directory);
@@ -70,6 +68,7 @@ export async function evolveCommand(directory: string, options: EvolveCommandOpt
   if (state.pool.size === 0) throw fileError(directory, `the sweep has no candidates to evolve from`);
   const seed = options.seed ?? spec.seed;
   const lock = lockRunOrRefuse(directory);
+  const stop = stageStop(options.shouldStop, io);
   try {
     // The journal's first record names the stage it belongs to; one of other settings is started over.
     const identity = {
@@ -81,12 +80,11 @@ export async function evolveCommand(directory: string, options: EvolveCommandOpt
       population: options.population,
     };
     const journalPath = join(directory, RUN_FILES.evolveJournal);
-    const { journal, replay } = openEvolveJournal(journalPath, identity, directory, io);
+    const { journal, replay } = openEvolveJournal(journalPath, identity, directory, io.err);
     const candidates = candidateNumbering(outputEntries(state, record.keep).ranked);
     const threads = options.workers ?? defaultWorkerCount();
     const space = new DesignSpace(spaceDefinitionOf(spec));
-    const evaluator: BatchEvaluator =
-      threads === 0 ? inProcessEvaluator(space) : createWorkerPool(spaceDefinitionOf(spec), { threads });
+    const evaluator = openEvaluator(spec, threads);
     const started = performance.now();
     let lastProgress = started;
     let outcome: EvolveOutcome;
@@ -97,7 +95,7 @@ export async function evolveCommand(directory: string, options: EvolveCommandOpt
         population: options.population,
         batchSize: Math.max(8, record.batch_size),
         referencePoint: spec.referencePoint,
-        ...(options.shouldStop ? { shouldStop: options.shouldStop } : {}),
+        shouldStop: stop.shouldStop,
       };
       outcome = await evolveSweep(space, state, spec.samples, evaluator, runOptions, {
         replay,
@@ -112,6 +110,11 @@ export async function evolveCommand(directory: string, options: EvolveCommandOpt
           io.err(io.isTty ? `\r${text}` : `${text}\n`);
         },
       });
+    } catch (error) {
+      const kept = `every finished generation is kept in ${journalPath}`;
+      const code = stop.stopped(error, kept, resumeCommand(directory, options));
+      if (code === null) throw error;
+      return code;
     } finally {
       await evaluator.close();
       journal.close();
@@ -120,7 +123,8 @@ export async function evolveCommand(directory: string, options: EvolveCommandOpt
 
     const { improved, summaryPath } = await writeEvolveOutputs(directory, spec, record, outcome, {
       seed,
-      options,
+      population: options.population,
+      evaluationBudget: options.evaluations,
       candidates,
       wallSeconds: (performance.now() - started) / 1000,
       threads,
@@ -130,126 +134,7 @@ export async function evolveCommand(directory: string, options: EvolveCommandOpt
     io.out(evolveConsole(directory, spec, seed, outcome, improved, summaryPath, refinedEarlier).join('\n'));
     return 0;
   } finally {
+    stop.dispose();
     lock.release();
   }
-}
-
-/**
- * The evolve journal: kept when its first record names this stage's settings, else started over;
- * opened without keeping its records, and its generations replayed by streaming (flat memory).
- */
-function openEvolveJournal(
-  journalPath: string,
-  identity: object,
-  directory: string,
-  io: CliIo,
-): { journal: ReturnType<typeof openJournal>; replay: Iterable<GenerationRecord> } {
-  if (existsSync(journalPath)) {
-    // Only the first record is read here; the generations are streamed into the stage below.
-    const records = journalRecords(journalPath);
-    const first = records.next();
-    records.return(undefined as never);
-    if (!first.done && JSON.stringify(first.value) !== JSON.stringify(identity)) {
-      io.err(`${journalPath}: from an evolve with other settings or an earlier sweep; starting over\n`);
-      rmSync(journalPath, { force: true });
-    }
-  }
-  // Opened without keeping its records (a torn tail is cut off): memory stays flat in its length.
-  const journal = openJournal(journalPath, { keepRecords: false });
-  const replayCount = Math.max(0, journal.recordCount - 1);
-  if (replayCount > 0) io.err(`resuming evolve in ${directory}: ${replayCount} generations from the journal\n`);
-  if (journal.recordCount === 0) {
-    journal.append(identity);
-    journal.sync();
-  }
-  const replay: Iterable<GenerationRecord> = {
-    *[Symbol.iterator]() {
-      if (replayCount === 0) return;
-      let index = 0;
-      for (const record of journalRecords(journalPath)) {
-        // The identity first, then at most the generations counted when the journal was opened.
-        if (index > 0 && index <= replayCount) yield record as GenerationRecord;
-        if (++index > replayCount) return;
-      }
-    },
-  };
-  return { journal, replay };
-}
-
-/** evolved.csv and .json, the merged front and the summary's evolve section. */
-async function writeEvolveOutputs(
-  directory: string,
-  spec: SweepSpec,
-  record: ReturnType<typeof readRunRecord>,
-  outcome: EvolveOutcome,
-  run: {
-    seed: number;
-    options: EvolveCommandOptions;
-    candidates: ReturnType<typeof candidateNumbering>;
-    wallSeconds: number;
-    threads: number;
-  },
-) {
-  const { seed, options, candidates } = run;
-  const front = sortedFront(outcome.merged);
-  const improved = improvedDesigns(front, spec.samples);
-  const kept = new Set(improved);
-  const near = front.filter((entry) => entry.item.index >= spec.samples && !kept.has(entry));
-  const digits = runDigits(record);
-  const files = { csv: RUN_FILES.evolved, json: RUN_FILES.evolvedDesigns, digits };
-  writeStageDesigns(directory, spec, improved, 'e', files, near);
-  const ids = new Map(improved.map((entry, i) => [entry.item.index, `e${i + 1}`]));
-  await writeMergedFront(directory, spec, front, { candidates, ids, stageOf: () => 'evolved', digits }, improved);
-  const summaryPath = writeSummarySection(directory, 'evolve', {
-    seed,
-    population: options.population,
-    generations: outcome.generations,
-    evaluations: outcome.evaluations,
-    evaluation_budget: options.evaluations,
-    improved_designs: improved.length,
-    evolved_feasible: outcome.evolved.feasibleSize,
-    front_size: front.length,
-    hypervolume_before: outcome.hypervolumeBefore,
-    hypervolume_after: outcome.hypervolumeAfter,
-    reference_point: outcome.referencePoint,
-    timing: { wall_seconds: run.wallSeconds, workers: run.threads },
-  });
-  return { improved, summaryPath };
-}
-
-/** What evolve prints: the improved designs with units, the hypervolume explained, the files. */
-function evolveConsole(
-  directory: string,
-  spec: SweepSpec,
-  seed: number,
-  outcome: EvolveOutcome,
-  improved: readonly RankedEntry<PackedRow>[],
-  summaryPath: string,
-  refinedEarlier: boolean,
-): string[] {
-  const lines = [
-    `evolved ${outcome.generations} generations with ${outcome.evaluations} evaluations (seed ${seed}), starting from the sweep's kept candidates`,
-  ];
-  if (outcome.evolved.feasibleSize === 0) {
-    lines.push(
-      'no evolved design met every constraint: the front is unchanged (see the sweep for what rejects designs)',
-    );
-  } else if (improved.length === 0) {
-    lines.push('no evolved design extends the front: the sweep front already dominates every one');
-  } else {
-    lines.push(`${improved.length} evolved designs extend the front (in ${RUN_FILES.evolved}, shown by their id):`);
-    lines.push(...designLines(spec, improved, 'e', RUN_FILES.evolved));
-  }
-  lines.push(...hypervolumeLines(spec, outcome.hypervolumeBefore, outcome.hypervolumeAfter, outcome.referencePoint));
-  lines.push(
-    `files: ${join(directory, RUN_FILES.evolved)} (improved designs), ${join(directory, RUN_FILES.front)} (updated), ${summaryPath} (evolve section)`,
-  );
-  if (improved.length > 0) lines.push(`an evolved design: npx coilfront show ${directory} e1`);
-  if (refinedEarlier)
-    lines.push(
-      `refined.csv predates this evolve and front.csv no longer lists it: npx coilfront refine ${directory} polishes the evolved front`,
-    );
-  else lines.push(`to polish the evolved front: npx coilfront refine ${directory}`);
-  lines.push('', 'SAFETY', ...SAFETY_CAUTIONS, '');
-  return lines;
 }

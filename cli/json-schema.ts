@@ -76,11 +76,14 @@ function section(spec: SectionSpec, sweep: boolean): Schema {
     const properties: Schema = {};
     if (spec.variants) properties[spec.variants.key] = { const: form };
     for (const [key, field] of Object.entries(fields)) properties[key] = make(field);
+    const subsections = Object.entries(spec.subsections ?? {});
+    for (const [key, sub] of subsections) properties[key] = section(sub, sweep);
     const required = [
       ...(spec.variants ? [spec.variants.key] : []),
       ...Object.entries(fields)
         .filter(([, f]) => !f.optional)
         .map(([k]) => k),
+      ...subsections.filter(([, sub]) => !sub.optional).map(([k]) => k),
     ];
     return { type: 'object', properties, required, additionalProperties: false };
   });

@@ -7,8 +7,8 @@ import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { parse as parseCsv } from 'csv-parse/sync';
 import { DesignSpace, spaceDefinitionOf } from '../optimize/design-space.ts';
-import { isSlot, type NormalTree } from '../optimize/design-tree.ts';
-import { DESIGN_SECTIONS, sectionFields } from './design-fields.ts';
+import { isSlot, type LeafValue, type NormalTree } from '../optimize/design-tree.ts';
+import { DESIGN_SECTIONS, flatFields, type FieldSpec } from './design-fields.ts';
 import { KIND_DISPLAY, formatNumber, lengthText } from './display-units.ts';
 import { exactQuantityText } from './units.ts';
 import type { CliIo } from './io.ts';
@@ -22,34 +22,38 @@ export function treeToYaml(tree: NormalTree, heading: string[]): string {
   const lines = [...heading, SAFETY_LINE].map((line) => `# ${line}`);
   for (const [name, section] of Object.entries(tree)) {
     if (isSlot(section)) continue;
-    const spec = DESIGN_SECTIONS[name];
-    const form = spec.variants ? (section[spec.variants.key] as string) : undefined;
-    const fields = sectionFields(spec, form);
+    const fields = flatFields(DESIGN_SECTIONS[name], section);
     lines.push(`${name}:`);
+    // A sub-section's fields (dotted keys, 'bank.part.capacitance') are written nested, as the file has them.
+    const open: string[] = [];
     for (const [key, value] of Object.entries(section)) {
       if (isSlot(value)) continue;
-      const field = fields[key];
-      if (typeof value === 'object') {
-        lines.push(
-          'awg' in value
-            ? `  ${key}: AWG ${value.awg}`
-            : `  ${key}: ${value.bareDiameter}  # ${lengthText(value.bareDiameter, 6)}`,
-        );
-      } else if (typeof value === 'number' && field?.type === 'quantity' && field.kind !== 'dimensionless') {
-        // In a practical unit, with the fewest digits that read back to exactly this SI value.
-        const exact = exactQuantityText(value, field.kind);
-        const display = KIND_DISPLAY[field.kind];
-        lines.push(
-          exact !== null
-            ? `  ${key}: ${exact}`
-            : `  ${key}: ${value}  # ${formatNumber(value / display.divisor, 6)} ${display.label}`,
-        );
-      } else {
-        lines.push(`  ${key}: ${typeof value === 'string' ? value : String(value)}`);
+      const names = key.split('.');
+      let depth = 0;
+      while (depth < open.length && depth < names.length - 1 && open[depth] === names[depth]) depth++;
+      open.length = depth;
+      for (; depth < names.length - 1; depth++) {
+        lines.push(`${'  '.repeat(depth + 1)}${names[depth]}:`);
+        open.push(names[depth]);
       }
+      lines.push(`${'  '.repeat(depth + 1)}${names[depth]}: ${yamlValue(value, fields[key])}`);
     }
   }
   return `${lines.join('\n')}\n`;
+}
+
+/** One value of the normal tree as YAML: a wire, a quantity in a practical unit that reads back exactly, or as it is. */
+function yamlValue(value: LeafValue, field: FieldSpec | undefined): string {
+  if (typeof value === 'object') {
+    return 'awg' in value ? `AWG ${value.awg}` : `${value.bareDiameter}  # ${lengthText(value.bareDiameter, 6)}`;
+  }
+  if (typeof value === 'number' && field?.type === 'quantity' && field.kind !== 'dimensionless') {
+    // In a practical unit, with the fewest digits that read back to exactly this SI value.
+    const exact = exactQuantityText(value, field.kind);
+    const display = KIND_DISPLAY[field.kind];
+    return exact !== null ? exact : `${value}  # ${formatNumber(value / display.divisor, 6)} ${display.label}`;
+  }
+  return typeof value === 'string' ? value : String(value);
 }
 
 function readCsvRows(path: string): Record<string, string>[] {

@@ -1,8 +1,8 @@
 /**
  * The normal tree as plain JSON (SI numbers, file field names): wires become `{ awg }` or
- * `{ bare_diameter }`.
+ * `{ bare_diameter }`; a sub-section's fields are nested (`tank: { bank: { part: … } }`).
  */
-import { isSlot, type NormalTree } from '../optimize/design-tree.ts';
+import { isSlot, nestSection, type NormalTree } from '../optimize/design-tree.ts';
 
 export function treeToJson(tree: NormalTree): Record<string, unknown> {
   const out: Record<string, unknown> = {};
@@ -15,7 +15,7 @@ export function treeToJson(tree: NormalTree): Record<string, unknown> {
         fields[key] = 'awg' in value ? { awg: value.awg } : { bare_diameter: value.bareDiameter };
       } else fields[key] = value;
     }
-    out[name] = fields;
+    out[name] = nestSection(fields); // a sub-section's dotted keys nested as the file writes them
   }
   return out;
 }

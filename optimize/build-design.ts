@@ -241,6 +241,7 @@ function buildTank(s: NormalSection, b: SectionBuild): void {
   const rating = num(s, 'voltage_rating');
   if (charge !== undefined) design.tank.chargeVoltage = charge;
   if (rating !== undefined) design.tank.voltageRating = rating;
+  if (num(s, 'bank.part.capacitance') !== undefined) design.tankBank = tankBankSpec(s, 'bank.part.', 'bank.');
 }
 
 /** The `driver:` section. */
@@ -374,25 +375,38 @@ function buildSupply(s: NormalSection, b: SectionBuild): void {
   design.supply = spec;
 }
 
-/** The `tank_bank:` section. */
+/**
+ * The `tank_bank:` section: the older spelling of `tank.bank` (part_capacitance for
+ * part.capacitance, …), read into the same bank.
+ */
 function buildTankBank(s: NormalSection, b: SectionBuild): void {
   const { tree, design, issues, at } = b;
   if (!section(tree, 'tank'))
     issues.push({ path: at('tank_bank'), message: 'a tank bank needs a tank section (its target capacitance)' });
-  const spec: Design['tankBank'] = {
-    partCapacitance: num(s, 'part_capacitance') ?? Number.NaN,
-    partVoltageRating: num(s, 'part_voltage_rating') ?? Number.NaN,
-    partRmsCurrentRating: num(s, 'part_rms_current_rating') ?? Number.NaN,
-    voltageMargin: num(s, 'voltage_margin') ?? 2,
-    bleedTime: num(s, 'bleed_time') ?? 60,
+  if (design.tankBank !== undefined)
+    issues.push({
+      path: at('tank_bank'),
+      message: 'give the bank once: as tank.bank (canonical) or as tank_bank, not both',
+    });
+  design.tankBank = tankBankSpec(s, 'part_', '');
+}
+
+/** A tank bank from its fields: the part's under `part` (e.g. 'bank.part.' or 'part_'), the layout's under `layout`. */
+function tankBankSpec(s: NormalSection, part: string, layout: string): NonNullable<Design['tankBank']> {
+  const spec: NonNullable<Design['tankBank']> = {
+    partCapacitance: num(s, `${part}capacitance`) ?? Number.NaN,
+    partVoltageRating: num(s, `${part}voltage_rating`) ?? Number.NaN,
+    partRmsCurrentRating: num(s, `${part}rms_current_rating`) ?? Number.NaN,
+    voltageMargin: num(s, `${layout}voltage_margin`) ?? 2,
+    bleedTime: num(s, `${layout}bleed_time`) ?? 60,
   };
-  const peak = num(s, 'part_peak_current_rating');
-  const series = num(s, 'series');
-  const parallel = num(s, 'parallel');
+  const peak = num(s, `${part}peak_current_rating`);
+  const series = num(s, `${layout}series`);
+  const parallel = num(s, `${layout}parallel`);
   if (peak !== undefined) spec.partPeakCurrentRating = peak;
   if (series !== undefined) spec.series = series;
   if (parallel !== undefined) spec.parallel = parallel;
-  design.tankBank = spec;
+  return spec;
 }
 
 /** The `safety_gap:` section. */

@@ -15,7 +15,10 @@ export interface DimensionSlot {
   slot: number;
 }
 
-/** A section of the normal tree: field name → value (or a slot in a sweep). */
+/**
+ * A section of the normal tree: field name → value (or a slot in a sweep). A section nested in it
+ * (`tank: { bank: { part: … } }`) has its fields here under dotted keys ('bank.part.capacitance').
+ */
 export type NormalSection = Record<string, LeafValue | DimensionSlot>;
 
 /** The normal tree: section name → section (or a slot when a sweep chooses whole sections). */
@@ -52,6 +55,11 @@ export type Dimension =
        * column after the label (SI values per choice, null where a choice lacks the field).
        */
       sectionFields?: { name: string; quantity: string | null; values: Array<number | null> }[];
+      /**
+       * The choices are whole sub-sections (`tank.bank.part`): the slot sits at the sub-section's key
+       * ('bank.part') and filling it spreads the chosen fields under dotted keys ('bank.part.capacitance').
+       */
+      subsection?: boolean;
     };
 
 export function isSlot(value: unknown): value is DimensionSlot {
@@ -83,8 +91,42 @@ export function fillSlots(tree: NormalTree, dimensions: readonly Dimension[], va
       continue;
     }
     const out: NormalSection = {};
-    for (const [key, leaf] of Object.entries(section)) out[key] = isSlot(leaf) ? (slotValue(leaf) as LeafValue) : leaf;
+    for (const [key, leaf] of Object.entries(section)) {
+      if (!isSlot(leaf)) out[key] = leaf;
+      else if (isSubsectionSlot(dimensions, leaf)) {
+        for (const [field, value] of Object.entries(slotValue(leaf) as NormalSection)) out[`${key}.${field}`] = value;
+      } else out[key] = slotValue(leaf) as LeafValue;
+    }
     filled[name] = out;
   }
   return filled;
+}
+
+/** Whether a slot inside a section holds a set of whole sub-sections (their fields go under dotted keys). */
+function isSubsectionSlot(dimensions: readonly Dimension[], slot: DimensionSlot): boolean {
+  const dimension = dimensions[slot.slot];
+  return dimension?.kind === 'choose' && dimension.subsection === true;
+}
+
+/**
+ * A normal section with its dotted keys ('bank.part.capacitance') nested again as the file writes
+ * them (`bank: { part: { capacitance } }`), for output; key order kept.
+ */
+export function nestSection(section: Readonly<Record<string, unknown>>): Record<string, unknown> {
+  const out: Record<string, unknown> = {};
+  for (const [key, value] of Object.entries(section)) {
+    const names = key.split('.');
+    let at = out;
+    for (const name of names.slice(0, -1)) {
+      const inner = at[name];
+      if (typeof inner === 'object' && inner !== null && !Array.isArray(inner)) at = inner as Record<string, unknown>;
+      else {
+        const created: Record<string, unknown> = {};
+        at[name] = created;
+        at = created;
+      }
+    }
+    at[names[names.length - 1]] = value;
+  }
+  return out;
 }

@@ -102,7 +102,6 @@ export async function evolveSweep(
   journal: EvolveJournal,
 ): Promise<EvolveOutcome> {
   const dimensions = designSpace.definition.dimensions;
-  const objectiveCount = state.objectives.length;
   let lastResult: BatchResult | null = null;
   const problem = designProblem(dimensions, splitValuesTasks(evaluator, options.batchSize), state, (result) => {
     lastResult = result;
@@ -112,8 +111,48 @@ export async function evolveSweep(
     evaluations: options.evaluations,
     population: options.population,
   };
+  const seeds = seedsOf(state, problem);
+  const base = seeds.reduce((next, s) => Math.max(next, s.index + 1), 0);
+  const recorder = generationRecorder(state, journal, (members) => {
+    const result = lastResult;
+    if (!result) throw new Error('evolve: members evaluated without a result');
+    return members.map((m, row) => ({
+      index: sampleCount + (m.index - base),
+      violation: toJson(m.violation),
+      objectives: Array.from(m.objectives, toJson),
+      row: state.rowOf(result, row, dimensions.length),
+    }));
+  });
 
-  // The seeds: every kept candidate of the sweep, by its sample index; new members number on from there.
+  const replayed = recorder.replay();
+  let current: EvolveState;
+  if (replayed.last !== null) {
+    const last = replayed.last;
+    current = {
+      generation: last.generation,
+      used: last.used,
+      nextIndex: last.nextIndex,
+      population: last.population.map(memberOf),
+    };
+  } else {
+    current = await initialState(problem, engine, seeds, recorder.onEvaluated);
+    recorder.finish(current);
+  }
+  while (hasBudget(engine, current)) {
+    stopIfAsked(options.shouldStop, 'evolve');
+    current = await stepGeneration(problem, engine, current, recorder.onEvaluated);
+    recorder.finish(current);
+  }
+  return {
+    ...mergedFront(state, recorder.evolved, options.referencePoint),
+    evaluations: current.used,
+    generations: current.generation,
+    replayedGenerations: replayed.count,
+  };
+}
+
+/** The seeds: every kept candidate of the sweep, by its sample index; new members number on from there. */
+function seedsOf(state: SweepState, problem: ReturnType<typeof designProblem>): Individual[] {
   const seeds: Individual[] = state.pool.entries().map((entry) => ({
     index: entry.item.index,
     violation: entry.item.violation,
@@ -121,10 +160,28 @@ export async function evolveSweep(
     genome: problem.genomeOf(entry.payload.packed.subarray(0, entry.payload.dimensions)),
   }));
   seeds.sort((a, b) => a.index - b.index);
-  const base = seeds.reduce((next, s) => Math.max(next, s.index + 1), 0);
+  return seeds;
+}
 
-  const evolved = new CandidatePool<PackedRow>(state.keep, objectiveCount);
-  const take = (entry: GenerationRecord['evaluated'][number]): void => {
+type EvaluatedRows = GenerationRecord['evaluated'];
+
+/**
+ * The bookkeeping of the generations: `onEvaluated` keeps the rows of the members just evaluated (made by
+ * `rowsOf`), `finish` journals the finished generation with them and offers the feasible ones to `evolved`,
+ * `replay` offers those of an interrupted run's records and returns the last record and their count.
+ */
+function generationRecorder(
+  state: SweepState,
+  journal: EvolveJournal,
+  rowsOf: (members: Individual[]) => EvaluatedRows,
+): {
+  evolved: CandidatePool<PackedRow>;
+  onEvaluated: (members: Individual[]) => void;
+  finish: (next: EvolveState) => void;
+  replay: () => { last: GenerationRecord | null; count: number };
+} {
+  const evolved = new CandidatePool<PackedRow>(state.keep, state.objectives.length);
+  const take = (entry: EvaluatedRows[number]): void => {
     const violation = fromJson(entry.violation);
     if (violation !== 0) return;
     evolved.offer(
@@ -132,16 +189,9 @@ export async function evolveSweep(
       packRow(entry.row),
     );
   };
-  let pending: GenerationRecord['evaluated'] = [];
+  let pending: EvaluatedRows = [];
   const onEvaluated = (members: Individual[]): void => {
-    const result = lastResult;
-    if (!result) throw new Error('evolve: members evaluated without a result');
-    pending = members.map((m, row) => ({
-      index: sampleCount + (m.index - base),
-      violation: toJson(m.violation),
-      objectives: Array.from(m.objectives, toJson),
-      row: state.rowOf(result, row, dimensions.length),
-    }));
+    pending = rowsOf(members);
   };
   const finish = (next: EvolveState): void => {
     const record: GenerationRecord = {
@@ -155,40 +205,33 @@ export async function evolveSweep(
     pending = [];
     journal.append(record);
   };
+  const replay = (): { last: GenerationRecord | null; count: number } => {
+    let last: GenerationRecord | null = null;
+    let count = 0;
+    for (const record of journal.replay) {
+      for (const entry of record.evaluated) take(entry);
+      last = record;
+      count++;
+    }
+    return { last, count };
+  };
+  return { evolved, onEvaluated, finish, replay };
+}
 
-  let current: EvolveState;
-  let replayedCount = 0;
-  let last: GenerationRecord | null = null;
-  for (const record of journal.replay) {
-    for (const entry of record.evaluated) take(entry);
-    last = record;
-    replayedCount++;
-  }
-  if (last !== null) {
-    current = {
-      generation: last.generation,
-      used: last.used,
-      nextIndex: last.nextIndex,
-      population: last.population.map(memberOf),
-    };
-  } else {
-    current = await initialState(problem, engine, seeds, onEvaluated);
-    finish(current);
-  }
-  while (hasBudget(engine, current)) {
-    stopIfAsked(options.shouldStop, 'evolve');
-    current = await stepGeneration(problem, engine, current, onEvaluated);
-    finish(current);
-  }
-
+/** The sweep's front merged with the evolved designs, and the hypervolumes of both fronts. */
+function mergedFront(
+  state: SweepState,
+  evolved: CandidatePool<PackedRow>,
+  referencePoint: number[] | null,
+): Pick<EvolveOutcome, 'evolved' | 'merged' | 'hypervolumeBefore' | 'hypervolumeAfter' | 'referencePoint'> {
   const front = state.pool.front();
-  const merged = new CandidatePool<PackedRow>(state.keep, objectiveCount);
+  const merged = new CandidatePool<PackedRow>(state.keep, state.objectives.length);
   for (const entry of front) merged.offer(entry.item, entry.payload);
   for (const entry of evolved.feasibleEntries()) merged.offer(entry.item, entry.payload);
   const before = front.map((entry) => entry.item.objectives);
   const after = merged.front().map((entry) => entry.item.objectives);
-  const reference = options.referencePoint
-    ? Float64Array.from(options.referencePoint)
+  const reference = referencePoint
+    ? Float64Array.from(referencePoint)
     : before.length > 0
       ? defaultReferencePoint(before)
       : null;
@@ -198,8 +241,5 @@ export async function evolveSweep(
     hypervolumeBefore: reference && before.length > 0 ? hypervolume(before, reference) : null,
     hypervolumeAfter: reference && after.length > 0 ? hypervolume(after, reference) : null,
     referencePoint: reference ? Array.from(reference) : null,
-    evaluations: current.used,
-    generations: current.generation,
-    replayedGenerations: replayedCount,
   };
 }

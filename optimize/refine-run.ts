@@ -61,15 +61,51 @@ export async function refineSweep(
 ): Promise<RefineOutcome> {
   const dimensions: readonly Dimension[] = designSpace.definition.dimensions;
   const space = mixedSpaceOf(dimensions);
-  // A start's dimension values: its own row, or regenerated from its sample index.
-  const valuesOfEntry = (entry: PoolEntry<PackedRow>): number[] =>
-    Array.from(entry.payload.packed.subarray(0, entry.payload.dimensions));
-  const metricCount = METRIC_KEYS.length;
-  const objectiveCount = state.objectives.length;
+  const evaluateMixed = mixedEvaluator(dimensions, space, state, evaluator, options.shouldStop);
+  const cache = new EvaluationCache<RefineRecord>(coalesceBatches(evaluateMixed, { maxBatchSize: options.batchSize }));
 
-  // The evaluator of mixed points: dimension values to the pool as one 'values' task per chunk.
-  const evaluateMixed = async (points: MixedPoint[]): Promise<RefineRecord[]> => {
-    stopIfAsked(options.shouldStop, 'refine');
+  // Starts and their merits.
+  const feasible = state.pool.front();
+  const before = feasible.map((entry) => entry.item.objectives);
+  const reference = options.referencePoint
+    ? Float64Array.from(options.referencePoint)
+    : before.length > 0
+      ? defaultReferencePoint(before)
+      : null;
+  const { startValues, meritOfStart } = startsOf(state, feasible, options.starts);
+  const budget = Math.max(dimensions.length + 2, Math.floor(options.evaluations / Math.max(1, startValues.length)));
+  const startPoints = startValues.map((values) => pointOfValues(dimensions, space, values));
+  const startResults = await refineStarts(
+    startPoints.map((point) => ({ continuous: point.continuous, levels: point.levels })),
+    cache,
+    meritOfStart,
+    { levelCounts: space.levelCounts, maxEvaluations: budget },
+  );
+
+  const { refined, merged } = refinedPools(cache, state, feasible, sampleCount);
+  const after = merged.front().map((entry) => entry.item.objectives);
+  return {
+    refined,
+    merged,
+    hypervolumeBefore: reference && before.length > 0 ? hypervolume(before, reference) : null,
+    hypervolumeAfter: reference && after.length > 0 ? hypervolume(after, reference) : null,
+    referencePoint: reference ? Array.from(reference) : null,
+    evaluations: cache.evaluations,
+    startResults,
+  };
+}
+
+/** The evaluator of mixed points: dimension values to the pool as one 'values' task per chunk. */
+function mixedEvaluator(
+  dimensions: readonly Dimension[],
+  space: ReturnType<typeof mixedSpaceOf>,
+  state: SweepState,
+  evaluator: BatchEvaluator,
+  shouldStop: ShouldStop | undefined,
+): (points: MixedPoint[]) => Promise<RefineRecord[]> {
+  const metricCount = METRIC_KEYS.length;
+  return async (points) => {
+    stopIfAsked(shouldStop, 'refine');
     const values = new Float64Array(points.length * dimensions.length);
     points.forEach((point, i) => {
       values.set(valuesOfPoint(dimensions, space, point), i * dimensions.length);
@@ -86,49 +122,58 @@ export async function refineSweep(
       };
     });
   };
-  const cache = new EvaluationCache<RefineRecord>(coalesceBatches(evaluateMixed, { maxBatchSize: options.batchSize }));
+}
 
-  // Starts and their merits.
-  const feasible = state.pool.front();
-  let startValues: number[][];
-  let meritOfStart: (start: number) => (record: RefineRecord) => Merit;
-  const before = feasible.map((entry) => entry.item.objectives);
-  const reference = options.referencePoint
-    ? Float64Array.from(options.referencePoint)
-    : before.length > 0
-      ? defaultReferencePoint(before)
-      : null;
+/**
+ * The starts' dimension values and merits: spread over the front by Chebyshev scalarisations (several
+ * objectives), else the best ranked candidates by their single objective.
+ */
+function startsOf(
+  state: SweepState,
+  feasible: PoolEntry<PackedRow>[],
+  starts: number,
+): { startValues: number[][]; meritOfStart: (start: number) => (record: RefineRecord) => Merit } {
+  const objectiveCount = state.objectives.length;
+  // A start's dimension values: its own row, or regenerated from its sample index.
+  const valuesOfEntry = (entry: PoolEntry<PackedRow>): number[] =>
+    Array.from(entry.payload.packed.subarray(0, entry.payload.dimensions));
   if (objectiveCount >= 2 && feasible.length > 0) {
     const ordered = [...feasible].sort((a, b) => a.item.index - b.item.index);
     const plan = planChebyshevStarts(
       ordered.map((entry) => entry.item.objectives),
-      Math.min(options.starts, ordered.length),
+      Math.min(starts, ordered.length),
     );
-    startValues = plan.starts.map((start) => valuesOfEntry(ordered[start.frontIndex]));
-    meritOfStart = (start) => (record) => ({
-      violation: record.violation,
-      value: record.objectives
-        ? chebyshevMerit(record.objectives, plan.starts[start].weights, plan.reference, plan.nadir)
-        : Number.POSITIVE_INFINITY,
-    });
-  } else {
-    const ranked = state.pool.ranked(options.starts);
-    startValues = ranked.map((entry) => valuesOfEntry(entry));
-    meritOfStart = () => (record) => ({
+    return {
+      startValues: plan.starts.map((start) => valuesOfEntry(ordered[start.frontIndex])),
+      meritOfStart: (start) => (record) => ({
+        violation: record.violation,
+        value: record.objectives
+          ? chebyshevMerit(record.objectives, plan.starts[start].weights, plan.reference, plan.nadir)
+          : Number.POSITIVE_INFINITY,
+      }),
+    };
+  }
+  const ranked = state.pool.ranked(starts);
+  return {
+    startValues: ranked.map((entry) => valuesOfEntry(entry)),
+    meritOfStart: () => (record) => ({
       violation: record.violation,
       value: record.objectives && objectiveCount === 1 ? record.objectives[0] : 0,
-    });
-  }
-  const budget = Math.max(dimensions.length + 2, Math.floor(options.evaluations / Math.max(1, startValues.length)));
-  const startPoints = startValues.map((values) => pointOfValues(dimensions, space, values));
-  const startResults = await refineStarts(
-    startPoints.map((point) => ({ continuous: point.continuous, levels: point.levels })),
-    cache,
-    meritOfStart,
-    { levelCounts: space.levelCounts, maxEvaluations: budget },
-  );
+    }),
+  };
+}
 
-  // Every evaluated design, in a deterministic order (by its key), gets an index after the samples.
+/**
+ * Every evaluated design, in a deterministic order (by its key), gets an index after the samples: the
+ * feasible ones are ranked in `refined` and merged with the sweep's front in `merged`.
+ */
+function refinedPools(
+  cache: EvaluationCache<RefineRecord>,
+  state: SweepState,
+  feasible: PoolEntry<PackedRow>[],
+  sampleCount: number,
+): { refined: CandidatePool<PackedRow>; merged: CandidatePool<PackedRow> } {
+  const objectiveCount = state.objectives.length;
   const entries = cache
     .entries()
     .map((entry) => ({ key: mixedPointKey(entry.point), entry }))
@@ -144,14 +189,5 @@ export async function refineSweep(
     refined.offer(item, packed);
     merged.offer(item, packed);
   });
-  const after = merged.front().map((entry) => entry.item.objectives);
-  return {
-    refined,
-    merged,
-    hypervolumeBefore: reference && before.length > 0 ? hypervolume(before, reference) : null,
-    hypervolumeAfter: reference && after.length > 0 ? hypervolume(after, reference) : null,
-    referencePoint: reference ? Array.from(reference) : null,
-    evaluations: cache.evaluations,
-    startResults,
-  };
+  return { refined, merged };
 }

@@ -4,7 +4,7 @@
  * muted hollow marks. Columns by their CSV names; axis titles carry the units of the names.
  */
 import type { TopLevelSpec } from 'vega-lite';
-import { InputError } from '../../run/input-error.ts';
+import { optionError } from '../input-errors.ts';
 import { type RunTable, columnIndex } from './run-table.ts';
 import { PICTURE_CAUTION, type PointLabel, columnTitle, pointLabelLayers, wrapText } from './vega-render.ts';
 
@@ -47,7 +47,7 @@ interface Datum {
 
 function numericColumn(table: RunTable, name: string, option: string): number {
   const c = columnIndex(table, name, option);
-  if (!table.numeric[c]) throw new InputError(`${option}: column '${name}' holds text, not numbers`);
+  if (!table.numeric[c]) throw optionError(option, `column '${name}' holds text, not numbers`);
   return c;
 }
 

@@ -11,7 +11,7 @@ import { METRIC_KEYS } from '../../core/metrics.ts';
 import type { NormalTree } from '../../optimize/design-tree.ts';
 import { isSlot } from '../../optimize/design-tree.ts';
 import type { QuantityKind } from '../units.ts';
-import { DESIGN_SECTIONS, sectionFields } from '../design-fields.ts';
+import { DESIGN_SECTIONS, flatFields } from '../design-fields.ts';
 import { METRIC_DISPLAY, fieldDisplay, formatNumber, humanUnit, lengthText } from '../display-units.ts';
 import { safetyBlock } from '../safety.ts';
 import { designDrawingSvg } from './design-drawing.ts';
@@ -42,8 +42,7 @@ function parameters(tree: NormalTree): Map<string, Parameter> {
     if (isSlot(section)) continue;
     const spec = DESIGN_SECTIONS[name];
     if (!spec) continue;
-    const form = spec.variants ? (section[spec.variants.key] as string) : undefined;
-    const fields = sectionFields(spec, form);
+    const fields = flatFields(spec, section); // a sub-section's fields by their dotted keys
     for (const [key, value] of Object.entries(section)) {
       if (isSlot(value)) continue;
       const field = fields[key];

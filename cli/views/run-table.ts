@@ -5,7 +5,7 @@
  */
 import { existsSync, readFileSync } from 'node:fs';
 import { parse as parseCsv } from 'csv-parse/sync';
-import { InputError } from '../../run/input-error.ts';
+import { fileError, optionError } from '../input-errors.ts';
 
 export type TableCell = number | string | null;
 
@@ -35,7 +35,7 @@ export function parseRunTable(text: string): RunTable {
 
 /** Reads a run's CSV file (candidates.csv, front.csv, …) as a typed table. */
 export function readRunTable(path: string): RunTable {
-  if (!existsSync(path)) throw new InputError(`${path}: no such file`);
+  if (!existsSync(path)) throw fileError(path, 'no such file');
   return parseRunTable(readFileSync(path, 'utf8'));
 }
 
@@ -45,5 +45,5 @@ export function columnIndex(table: RunTable, name: string, option: string): numb
   if (index >= 0) return index;
   const near = table.header.filter((h) => h.startsWith(name) || h.includes(name));
   const hint = near.length > 0 ? `did you mean ${near.slice(0, 3).join(', ')}?` : `columns: ${table.header.join(', ')}`;
-  throw new InputError(`${option}: no column '${name}' in the run (${hint})`);
+  throw optionError(option, `no column '${name}' in the run (${hint})`);
 }

@@ -70,12 +70,69 @@ export const STEPS_PER_CYCLE = 256;
 const MAX_STEPS = 1_000_000;
 
 /**
+ * One accepted step of the burst, for an observer of the computed waveform: the state
+ * [v1, v2, i1, i2, W_R] at its start and end, its length, s, and the source e across the primary loop, V.
+ * The arrays are the integrator's own: copy what is kept.
+ */
+export type BurstStepObserver = (from: Float64Array, to: Float64Array, length: number, source: number) => void;
+
+/** The running sums and extremes of a burst (SolidStateBurst's fields, as they build up). */
+interface BurstTally {
+  time: number;
+  switchings: number;
+  energyFromSource: number;
+  currentSquared: number;
+  peakVoltage: number;
+  peakPrimaryCurrent: number;
+  peakTankVoltage: number;
+  breakoutTime: number | null;
+  breakoutCycles: number | null;
+}
+
+function emptyTally(): BurstTally {
+  return {
+    time: 0,
+    switchings: 0,
+    energyFromSource: 0,
+    currentSquared: 0,
+    peakVoltage: 0,
+    peakPrimaryCurrent: 0,
+    peakTankVoltage: 0,
+    breakoutTime: null,
+    breakoutCycles: null,
+  };
+}
+
+/** The burst as reported, from its tally, why it ended and the final state (with W_R). */
+function burstOutcome(tally: BurstTally, endReason: BurstEnd, state: Float64Array): SolidStateBurst {
+  return {
+    endTime: tally.time,
+    endReason,
+    cycles: tally.switchings / 2,
+    peakVoltage: tally.peakVoltage,
+    peakPrimaryCurrent: tally.peakPrimaryCurrent,
+    peakTankVoltage: tally.peakTankVoltage,
+    energyFromSource: tally.energyFromSource,
+    primaryCurrentSquared: tally.currentSquared,
+    energyDissipated: state[4],
+    finalState: state.slice(0, 4),
+    breakoutTime: tally.breakoutTime,
+    breakoutCycles: tally.breakoutCycles,
+  };
+}
+
+/**
  * Simulates one burst from rest (all voltages and currents zero).
  * @param circuit lumped values, SI (C1 is the tank capacitor in series with the bridge)
  * @param drive the bridge
+ * @param observe called with every accepted step (the computed waveform); it changes nothing
  * Needs onTime or cycles (else the burst runs to the step limit). Cost: 256 RK4 steps per cycle.
  */
-export function solidStateBurst(circuit: CoupledCircuit, drive: BridgeDrive): SolidStateBurst {
+export function solidStateBurst(
+  circuit: CoupledCircuit,
+  drive: BridgeDrive,
+  observe?: BurstStepObserver,
+): SolidStateBurst {
   const [, omegaHigh] = losslessModeFrequencies(circuit);
   const step = (2 * Math.PI) / omegaHigh / STEPS_PER_CYCLE;
   const constants = stepConstants(circuit);
@@ -86,22 +143,25 @@ export function solidStateBurst(circuit: CoupledCircuit, drive: BridgeDrive): So
   const onTime = drive.onTime ?? Infinity;
   const switchLimit = drive.cycles === undefined ? Infinity : 2 * drive.cycles;
   const currentLimit = drive.currentLimit ?? Infinity;
+  const tally = emptyTally();
+  const accept = (fraction: number, length: number, source: number, midpoint: Float64Array | null): void =>
+    acceptStep(
+      tally,
+      circuit.primaryCapacitance,
+      drive.breakoutVoltage ?? Infinity,
+      state,
+      trial,
+      fraction,
+      length,
+      source,
+      midpoint,
+      observe,
+    );
   let polarity = 1;
-  let switchings = 0;
-  let time = 0;
-  let energyFromSource = 0;
-  let currentSquared = 0;
-  let peakVoltage = 0;
-  let peakPrimaryCurrent = 0;
-  let peakTankVoltage = 0;
   let endReason: BurstEnd = 'step_limit';
-  const tankCapacitance = circuit.primaryCapacitance;
-  const breakoutVoltage = drive.breakoutVoltage ?? Infinity;
-  let breakoutTime: number | null = null;
-  let breakoutCycles: number | null = null;
 
   for (let n = 0; n < MAX_STEPS; n++) {
-    const remaining = onTime - time;
+    const remaining = onTime - tally.time;
     if (remaining <= 0) {
       endReason = 'on_time';
       break;
@@ -115,18 +175,7 @@ export function solidStateBurst(circuit: CoupledCircuit, drive: BridgeDrive): So
     const reversed = n > 0 && polarity * trial[2] < 0;
     if (!overLimit && !reversed) {
       // the common case: no event inside the step
-      energyFromSource += source * tankCapacitance * (trial[0] - state[0]);
-      currentSquared += 0.5 * (state[2] * state[2] + trial[2] * trial[2]) * length;
-      if (full) peakVoltage = Math.max(peakVoltage, Math.abs(middle[1]));
-      for (let c = 0; c < 5; c++) state[c] = trial[c];
-      peakVoltage = Math.max(peakVoltage, Math.abs(state[1]));
-      peakPrimaryCurrent = Math.max(peakPrimaryCurrent, Math.abs(state[2]));
-      peakTankVoltage = Math.max(peakTankVoltage, Math.abs(state[0]));
-      time += length;
-      if (breakoutTime === null && peakVoltage >= breakoutVoltage) {
-        breakoutTime = time;
-        breakoutCycles = switchings / 2;
-      }
+      accept(1, length, source, full ? middle : null);
       if (!full) {
         endReason = 'on_time';
         break;
@@ -143,42 +192,51 @@ export function solidStateBurst(circuit: CoupledCircuit, drive: BridgeDrive): So
     const reverseFraction = reversed ? locate(state, trial, length, (x) => polarity * x[2], advance) : Infinity;
     const fraction = Math.min(limitFraction, reverseFraction);
     advance(state, trial, fraction * length);
-    energyFromSource += source * tankCapacitance * (trial[0] - state[0]);
-    currentSquared += 0.5 * (state[2] * state[2] + trial[2] * trial[2]) * fraction * length;
-    state.set(trial);
-    peakVoltage = Math.max(peakVoltage, Math.abs(state[1]));
-    peakPrimaryCurrent = Math.max(peakPrimaryCurrent, Math.abs(state[2]));
-    peakTankVoltage = Math.max(peakTankVoltage, Math.abs(state[0]));
-    time += fraction * length;
-    if (breakoutTime === null && peakVoltage >= breakoutVoltage) {
-      breakoutTime = time;
-      breakoutCycles = switchings / 2;
-    }
+    accept(fraction, length, source, null);
     if (limitFraction <= reverseFraction) {
       endReason = 'current_limit';
       break;
     }
     polarity = -polarity;
-    switchings++;
-    if (switchings >= switchLimit) {
+    tally.switchings++;
+    if (tally.switchings >= switchLimit) {
       endReason = 'cycles';
       break;
     }
   }
-  return {
-    endTime: time,
-    endReason,
-    cycles: switchings / 2,
-    peakVoltage,
-    peakPrimaryCurrent,
-    peakTankVoltage,
-    energyFromSource,
-    primaryCurrentSquared: currentSquared,
-    energyDissipated: state[4],
-    finalState: state.slice(0, 4),
-    breakoutTime,
-    breakoutCycles,
-  };
+  return burstOutcome(tally, endReason, state);
+}
+
+/**
+ * Takes the step from `state` to `trial` (fraction × length long): the source's energy
+ * e·C1·Δv1, ∫ i1² dt by the trapezoidal rule, the extremes (|v2| also at the midpoint of an exact
+ * step), the time and the first breakout; then `state` becomes `trial`.
+ */
+function acceptStep(
+  tally: BurstTally,
+  tankCapacitance: number,
+  breakoutVoltage: number,
+  state: Float64Array,
+  trial: Float64Array,
+  fraction: number,
+  length: number,
+  source: number,
+  midpoint: Float64Array | null,
+  observe: BurstStepObserver | undefined,
+): void {
+  tally.energyFromSource += source * tankCapacitance * (trial[0] - state[0]);
+  tally.currentSquared += 0.5 * (state[2] * state[2] + trial[2] * trial[2]) * fraction * length;
+  if (midpoint) tally.peakVoltage = Math.max(tally.peakVoltage, Math.abs(midpoint[1]));
+  observe?.(state, trial, fraction * length, source);
+  state.set(trial);
+  tally.peakVoltage = Math.max(tally.peakVoltage, Math.abs(state[1]));
+  tally.peakPrimaryCurrent = Math.max(tally.peakPrimaryCurrent, Math.abs(state[2]));
+  tally.peakTankVoltage = Math.max(tally.peakTankVoltage, Math.abs(state[0]));
+  tally.time += fraction * length;
+  if (tally.breakoutTime === null && tally.peakVoltage >= breakoutVoltage) {
+    tally.breakoutTime = tally.time;
+    tally.breakoutCycles = tally.switchings / 2;
+  }
 }
 
 /**

@@ -66,11 +66,46 @@ export function sparkGapShot(circuit: CoupledCircuit, chargeVoltage: number, que
   // its limit (1.5 beats, never under 4 periods of the upper mode) only matters when W1 only decays.
   const searchEnd = Math.min(Math.max(1.5 * beat, 4 * SAMPLES_PER_CYCLE * step), MAX_SAMPLES * step);
 
-  // 1. The first energy transfer: the first minimum of W1 = ½C1v1² + ½L1i1². W1 carries a ripple
-  // at twice the carrier frequency (the mutual term is left out), so its minimum over each period
-  // of the upper mode is followed: the transfer is over when those minima rise again (by more than
-  // 1e-6 of the shot energy). When they never rise — the primary's energy simply decays, as with a
-  // heavily damped primary — there is no transfer to report.
+  const transfer = firstTransfer(circuit, modes, chargeVoltage, step, searchEnd);
+  const quenchTime = quench ? quenchAfter(circuit, modes, transfer.transferTime, step, beat) : null;
+  // 3. The peak secondary voltage, coupled before the quench and free ringing after it.
+  const secondaryPeriod = 2 * Math.PI * Math.sqrt(circuit.secondaryInductance * circuit.secondaryCapacitance);
+  const peakEnd = (transfer.transferTime ?? transfer.scanEnd) + secondaryPeriod / 2;
+  const { peakVoltage, peakTime } = peakSecondaryVoltage(circuit, modes, step, peakEnd, quenchTime);
+
+  return {
+    modeFrequencyLow,
+    modeFrequencyHigh,
+    transferTime: transfer.transferTime,
+    primaryEnergyAtTransfer: transfer.primaryEnergyAtTransfer,
+    quenchTime,
+    peakVoltage,
+    peakTime,
+    energyPerShot: 0.5 * circuit.primaryCapacitance * chargeVoltage * chargeVoltage,
+  };
+}
+
+/** Step 1's answer: the transfer time and the primary's energy then (both null without a transfer), and where the scan stopped, s. */
+interface Transfer {
+  transferTime: number | null;
+  primaryEnergyAtTransfer: number | null;
+  scanEnd: number;
+}
+
+/**
+ * 1. The first energy transfer: the first minimum of W1 = ½C1v1² + ½L1i1². W1 carries a ripple
+ * at twice the carrier frequency (the mutual term is left out), so its minimum over each period
+ * of the upper mode is followed: the transfer is over when those minima rise again (by more than
+ * 1e-6 of the shot energy). When they never rise — the primary's energy simply decays, as with a
+ * heavily damped primary — there is no transfer to report.
+ */
+function firstTransfer(
+  circuit: CoupledCircuit,
+  modes: CoupledModes,
+  chargeVoltage: number,
+  step: number,
+  searchEnd: number,
+): Transfer {
   const march = new ModalMarch(modes, 0, step);
   const initialEnergy = 0.5 * circuit.primaryCapacitance * chargeVoltage * chargeVoltage;
   const riseTolerance = 1e-6 * initialEnergy;
@@ -101,32 +136,48 @@ export function sparkGapShot(circuit: CoupledCircuit, chargeVoltage: number, que
     march.advance();
   }
   if (!rose && blockMinimum !== Infinity && blockMinimum > previousBlockMinimum + riseTolerance) rose = true; // a last partial period
+  const scanEnd = lastIndex * step;
+  if (!(rose && bestIndex > 0)) return { transferTime: null, primaryEnergyAtTransfer: null, scanEnd };
   const scratch = new Float64Array(4);
   const primaryEnergyAt = (time: number): number => {
     coupledStateAt(modes, time, scratch);
     return primaryEnergy(circuit, scratch[0], scratch[2]);
   };
-  let transferTime: number | null = null;
-  let primaryEnergyAtTransfer: number | null = null;
-  if (rose && bestIndex > 0) {
-    transferTime = goldenMinimum(primaryEnergyAt, (bestIndex - 1) * step, (bestIndex + 1) * step);
-    primaryEnergyAtTransfer = primaryEnergyAt(transferTime);
-  }
-  const scanEnd = lastIndex * step;
+  const transferTime = goldenMinimum(primaryEnergyAt, (bestIndex - 1) * step, (bestIndex + 1) * step);
+  return { transferTime, primaryEnergyAtTransfer: primaryEnergyAt(transferTime), scanEnd };
+}
 
-  // 2. Quench: the first primary current zero after the transfer. Near a full-transfer coupling the
-  // current zero and the energy minimum coincide, and round-off would decide whether that zero
-  // counts; a zero up to ⅛ of a primary period before the minimum (at most one fits there, and the
-  // primary holds next to no energy then) is therefore taken as the quench point.
-  let quenchTime: number | null = null;
-  if (quench && transferTime !== null) {
-    const primaryPeriod = 2 * Math.PI * Math.sqrt(circuit.primaryInductance * circuit.primaryCapacitance);
-    quenchTime = firstCurrentZero(modes, Math.max(0, transferTime - primaryPeriod / 8), step, beat);
-  }
+/**
+ * 2. Quench: the first primary current zero after the transfer (null without a transfer). Near a
+ * full-transfer coupling the current zero and the energy minimum coincide, and round-off would decide
+ * whether that zero counts; a zero up to ⅛ of a primary period before the minimum (at most one fits
+ * there, and the primary holds next to no energy then) is therefore taken as the quench point.
+ */
+function quenchAfter(
+  circuit: CoupledCircuit,
+  modes: CoupledModes,
+  transferTime: number | null,
+  step: number,
+  beat: number,
+): number | null {
+  if (transferTime === null) return null;
+  const primaryPeriod = 2 * Math.PI * Math.sqrt(circuit.primaryInductance * circuit.primaryCapacitance);
+  return firstCurrentZero(modes, Math.max(0, transferTime - primaryPeriod / 8), step, beat);
+}
 
-  // 3. The peak secondary voltage, coupled before the quench and free ringing after it.
-  const secondaryPeriod = 2 * Math.PI * Math.sqrt(circuit.secondaryInductance * circuit.secondaryCapacitance);
-  const peakEnd = (transferTime ?? scanEnd) + secondaryPeriod / 2;
+/**
+ * 3. The largest |v2| on [0, peakEnd] and when it happens: the coupled solution up to the quench
+ * (or throughout without one), the secondary's free ringing from the state at the quench after it;
+ * sampled at `step`, then refined by golden section between the neighbours of the largest sample.
+ */
+function peakSecondaryVoltage(
+  circuit: CoupledCircuit,
+  modes: CoupledModes,
+  step: number,
+  peakEnd: number,
+  quenchTime: number | null,
+): { peakVoltage: number; peakTime: number } {
+  const scratch = new Float64Array(4);
   const quenchState = new Float64Array(4);
   if (quenchTime !== null) coupledStateAt(modes, quenchTime, quenchState);
   const secondaryVoltageAt = (time: number): number => {
@@ -165,18 +216,7 @@ export function sparkGapShot(circuit: CoupledCircuit, chargeVoltage: number, que
   const lower = Math.max(0, (peakSample - 1) * step);
   const upper = Math.min(peakEnd, (peakSample + 1) * step);
   const peakTime = goldenMinimum((time) => -Math.abs(secondaryVoltageAt(time)), lower, upper);
-  const peakVoltage = Math.max(peakMagnitude, Math.abs(secondaryVoltageAt(peakTime)));
-
-  return {
-    modeFrequencyLow,
-    modeFrequencyHigh,
-    transferTime,
-    primaryEnergyAtTransfer,
-    quenchTime,
-    peakVoltage,
-    peakTime,
-    energyPerShot: 0.5 * circuit.primaryCapacitance * chargeVoltage * chargeVoltage,
-  };
+  return { peakTime, peakVoltage: Math.max(peakMagnitude, Math.abs(secondaryVoltageAt(peakTime))) };
 }
 
 /** First zero of i1 at or after `start`, by sampling and bisection; null if none within `limit`. */

@@ -75,26 +75,7 @@ export function electrostaticsStage(context: EvalContext): void {
   const totalCapacitance = resonator ? resonator.effectiveCapacitance : lumped.totalCapacitance;
   metrics.total_capacitance = totalCapacitance;
 
-  let onsetField: number | null = null;
-  let breakout: number | null = null;
-  const topload = arrangement.topload;
-  if (topload && surface.toploadCapacitance !== null && surface.toploadPeakFieldPerVolt !== null) {
-    metrics.topload_capacitance = surface.toploadCapacitance;
-    metrics.topload_field_per_volt = surface.toploadPeakFieldPerVolt;
-    metrics.topload_underside_field_per_volt = surface.toploadUndersideFieldPerVolt;
-    metrics.topload_peak_field_angle = surface.toploadPeakAngle;
-    onsetField =
-      topload.shape === 'toroid'
-        ? peekCylinderOnsetField(topload.minorRadius, airDensity, surfaceFactor)
-        : topload.shape === 'sphere'
-          ? peekSphereOnsetField(topload.radius, airDensity, surfaceFactor)
-          : null;
-    if (onsetField !== null) {
-      metrics.topload_onset_field = onsetField;
-      breakout = breakoutVoltage(onsetField, surface.toploadPeakFieldPerVolt);
-      metrics.breakout_voltage = breakout;
-    }
-  }
+  const { onsetField, breakout } = toploadBreakout(context, arrangement, surface, airDensity, surfaceFactor);
 
   if (secondary && arrangement.winding) {
     metrics.secondary_self_capacitance = lumped.selfCapacitance;
@@ -115,6 +96,41 @@ export function electrostaticsStage(context: EvalContext): void {
   };
   if (design.breakoutPoint || design.support)
     toploadParts(context, arrangement, surface, airDensity, surfaceFactor, breakout);
+}
+
+/**
+ * Sets the topload's capacitance, surface-field metrics, Peek onset field and breakout voltage; returns
+ * the onset field and the breakout voltage (null without a toroid or sphere topload in the solve).
+ */
+function toploadBreakout(
+  context: EvalContext,
+  arrangement: FieldArrangement,
+  surface: SurfaceFields,
+  airDensity: number,
+  surfaceFactor: number,
+): { onsetField: number | null; breakout: number | null } {
+  const metrics = context.metrics;
+  let onsetField: number | null = null;
+  let breakout: number | null = null;
+  const topload = arrangement.topload;
+  if (topload && surface.toploadCapacitance !== null && surface.toploadPeakFieldPerVolt !== null) {
+    metrics.topload_capacitance = surface.toploadCapacitance;
+    metrics.topload_field_per_volt = surface.toploadPeakFieldPerVolt;
+    metrics.topload_underside_field_per_volt = surface.toploadUndersideFieldPerVolt;
+    metrics.topload_peak_field_angle = surface.toploadPeakAngle;
+    onsetField =
+      topload.shape === 'toroid'
+        ? peekCylinderOnsetField(topload.minorRadius, airDensity, surfaceFactor)
+        : topload.shape === 'sphere'
+          ? peekSphereOnsetField(topload.radius, airDensity, surfaceFactor)
+          : null;
+    if (onsetField !== null) {
+      metrics.topload_onset_field = onsetField;
+      breakout = breakoutVoltage(onsetField, surface.toploadPeakFieldPerVolt);
+      metrics.breakout_voltage = breakout;
+    }
+  }
+  return { onsetField, breakout };
 }
 
 /** What the stage needs from either solve: the fields of the profile and the lumped cross-check. */

@@ -24,7 +24,22 @@ import { AXIAL_GRADIENT_LIMIT, formatNumber, formatQuantity, POINT_USEFUL_FRACTI
  * axial_gradient and primary_strike_margin, and pushes the builder's warnings, each with its number.
  */
 export function outcomeStage(context: EvalContext): void {
-  const { design, metrics, warnings } = context;
+  const sparkLength = heightAndSpark(context);
+  const uncapped = context.metrics.peak_voltage;
+  if (uncapped === null || !(uncapped > 0)) return;
+  const { peak, pointVoltage } = capAtPoint(context, uncapped);
+  breakoutChecks(context, peak, pointVoltage);
+  fieldChecks(context, peak);
+  gradientCheck(context, peak);
+  strikeChecks(context, peak, sparkLength);
+}
+
+/**
+ * Sets overall_height, spark_length, headroom_needed and loaded_resonant_frequency; returns the spark
+ * length estimate (null without an input power).
+ */
+function heightAndSpark(context: EvalContext): number | null {
+  const { design, metrics } = context;
   const secondary = context.secondary;
   const electrostatics = context.electrostatics;
   metrics.overall_height = overallHeight(design, secondary);
@@ -34,7 +49,6 @@ export function outcomeStage(context: EvalContext): void {
     metrics.overall_height = Math.max(secondary.topZ, overallHeight(design, threeCoil.winding) ?? 0);
   }
 
-  let peak = metrics.peak_voltage;
   const power = metrics.input_power;
   const sparkLength = power !== null && Number.isFinite(power) ? sparkLengthEstimate(power) : null;
   metrics.spark_length = sparkLength;
@@ -51,17 +65,28 @@ export function outcomeStage(context: EvalContext): void {
     const resonatorModel = context.threeCoil?.distributed;
     if (context.threeCoil) metrics.loaded_resonant_frequency = resonatorModel?.loadedFundamental(streamer) ?? null;
   }
-  if (peak === null || !(peak > 0)) return;
-  // A breakout point fires first and holds the top at its firing voltage.
-  const pointVoltage = electrostatics?.breakoutPointVoltage ?? null;
-  if (pointVoltage !== null && pointVoltage > 0) {
-    metrics.peak_voltage_without_point = peak;
-    pointWarnings(context, peak, pointVoltage);
-    peak = Math.min(peak, pointVoltage);
-    metrics.peak_voltage = peak;
-  }
+  return sparkLength;
+}
 
-  const breakout = electrostatics?.breakoutVoltage ?? null;
+/**
+ * A breakout point fires first and holds the top at its firing voltage: sets
+ * peak_voltage_without_point and the capped peak_voltage, with the point's warnings. Returns the peak
+ * the rest of the stage uses and the point's firing voltage (null without a point).
+ */
+function capAtPoint(context: EvalContext, uncapped: number): { peak: number; pointVoltage: number | null } {
+  const pointVoltage = context.electrostatics?.breakoutPointVoltage ?? null;
+  if (pointVoltage === null || !(pointVoltage > 0)) return { peak: uncapped, pointVoltage };
+  context.metrics.peak_voltage_without_point = uncapped;
+  pointWarnings(context, uncapped, pointVoltage);
+  const peak = Math.min(uncapped, pointVoltage);
+  context.metrics.peak_voltage = peak;
+  return { peak, pointVoltage };
+}
+
+/** Sets breakout_margin: the topload's breakout voltage over the (capped) peak, with its warnings. */
+function breakoutChecks(context: EvalContext, peak: number, pointVoltage: number | null): void {
+  const { metrics, warnings } = context;
+  const breakout = context.electrostatics?.breakoutVoltage ?? null;
   if (breakout !== null && breakout > 0 && pointVoltage !== null && pointVoltage > 0) {
     // The topload's margin above the point: how far above the (capped) top voltage it holds.
     const margin = breakout / peak;
@@ -87,6 +112,12 @@ export function outcomeStage(context: EvalContext): void {
       });
     }
   }
+}
+
+/** Sets topload_peak_field, support_peak_field and support_field_margin at the peak, with the support's warning. */
+function fieldChecks(context: EvalContext, peak: number): void {
+  const { metrics, warnings } = context;
+  const electrostatics = context.electrostatics;
   const fieldPerVolt = electrostatics?.toploadFieldPerVolt ?? null;
   if (fieldPerVolt !== null) metrics.topload_peak_field = fieldPerVolt * peak;
   const support = electrostatics?.support ?? null;
@@ -101,51 +132,63 @@ export function outcomeStage(context: EvalContext): void {
       });
     }
   }
+}
 
-  if (secondary) {
-    // three coils: the resonator's winding carries the top voltage
-    const gradient = threeCoil
-      ? peak * threeCoil.gradientPerVolt
-      : peak * gradientPerVolt(context, secondary.windingLength);
-    metrics.axial_gradient = gradient;
-    if (gradient > AXIAL_GRADIENT_LIMIT) {
-      warnings.push({
-        key: 'axial_gradient_high',
-        message: `axial gradient ${formatQuantity(gradient, 'V/m')} along the winding exceeds ${formatQuantity(AXIAL_GRADIENT_LIMIT, 'V/m')} (common practice, from memory): racing arcs likely`,
-      });
-    }
+/** Sets axial_gradient along the winding that carries the top voltage, with its warning. */
+function gradientCheck(context: EvalContext, peak: number): void {
+  const secondary = context.secondary;
+  if (!secondary) return;
+  const threeCoil = context.threeCoil;
+  // three coils: the resonator's winding carries the top voltage
+  const gradient = threeCoil
+    ? peak * threeCoil.gradientPerVolt
+    : peak * gradientPerVolt(context, secondary.windingLength);
+  context.metrics.axial_gradient = gradient;
+  if (gradient > AXIAL_GRADIENT_LIMIT) {
+    context.warnings.push({
+      key: 'axial_gradient_high',
+      message: `axial gradient ${formatQuantity(gradient, 'V/m')} along the winding exceeds ${formatQuantity(AXIAL_GRADIENT_LIMIT, 'V/m')} (common practice, from memory): racing arcs likely`,
+    });
   }
+}
 
+/**
+ * Sets primary_strike_margin between the outer primary ring and the winding, with its warning, and
+ * warns when the spark length estimate reaches that ring from the topload without a strike rail.
+ */
+function strikeChecks(context: EvalContext, peak: number, sparkLength: number | null): void {
+  const { design, metrics, warnings } = context;
+  const secondary = context.secondary;
   const primary = context.primary;
-  if (secondary && primary && primary.rings.length > 0 && design.secondary) {
-    const outerRing = primary.rings[primary.rings.length - 1];
-    const driver = design.driver;
-    const primaryVoltage = driver?.kind === 'solid_state' ? driver.busVoltage : (design.tank?.chargeVoltage ?? 0);
-    const strike = primaryStrikeMargin(
-      outerRing,
-      primary.conductorRadius,
-      secondary,
-      windingProfile(context),
-      threeCoil ? (metrics.junction_peak_voltage ?? peak) : peak,
-      primaryVoltage,
-    );
-    metrics.primary_strike_margin = Number.isFinite(strike.margin) ? strike.margin : null;
-    if (strike.margin < 1) {
-      warnings.push({
-        key: 'primary_strike_risk',
-        message: `primary-to-secondary strike risk: ${formatQuantity(strike.voltage, 'V')} across ${formatQuantity(strike.gap, 'm')} of air between the outer primary ring and the winding at its height (strike margin ${formatNumber(strike.margin)} at ${formatQuantity(LONG_GAP_WITHSTAND_GRADIENT, 'V/m')}, common practice)`,
-      });
-    }
-    if (design.topload && !threeCoil && !design.strikeRail && sparkLength !== null) {
-      const centre = toploadCentreHeight(design.topload, secondary.topZ);
-      if (centre !== null) {
-        const reach = toploadToRingDistance(design.topload, centre, outerRing);
-        if (sparkLength >= reach) {
-          warnings.push({
-            key: 'strike_rail_needed',
-            message: `spark length estimate ${formatQuantity(sparkLength, 'm')} (common practice) reaches the outer primary ring ${formatQuantity(reach, 'm')} from the topload: fit a grounded strike rail`,
-          });
-        }
+  const threeCoil = context.threeCoil;
+  if (!(secondary && primary && primary.rings.length > 0 && design.secondary)) return;
+  const outerRing = primary.rings[primary.rings.length - 1];
+  const driver = design.driver;
+  const primaryVoltage = driver?.kind === 'solid_state' ? driver.busVoltage : (design.tank?.chargeVoltage ?? 0);
+  const strike = primaryStrikeMargin(
+    outerRing,
+    primary.conductorRadius,
+    secondary,
+    windingProfile(context),
+    threeCoil ? (metrics.junction_peak_voltage ?? peak) : peak,
+    primaryVoltage,
+  );
+  metrics.primary_strike_margin = Number.isFinite(strike.margin) ? strike.margin : null;
+  if (strike.margin < 1) {
+    warnings.push({
+      key: 'primary_strike_risk',
+      message: `primary-to-secondary strike risk: ${formatQuantity(strike.voltage, 'V')} across ${formatQuantity(strike.gap, 'm')} of air between the outer primary ring and the winding at its height (strike margin ${formatNumber(strike.margin)} at ${formatQuantity(LONG_GAP_WITHSTAND_GRADIENT, 'V/m')}, common practice)`,
+    });
+  }
+  if (design.topload && !threeCoil && !design.strikeRail && sparkLength !== null) {
+    const centre = toploadCentreHeight(design.topload, secondary.topZ);
+    if (centre !== null) {
+      const reach = toploadToRingDistance(design.topload, centre, outerRing);
+      if (sparkLength >= reach) {
+        warnings.push({
+          key: 'strike_rail_needed',
+          message: `spark length estimate ${formatQuantity(sparkLength, 'm')} (common practice) reaches the outer primary ring ${formatQuantity(reach, 'm')} from the topload: fit a grounded strike rail`,
+        });
       }
     }
   }

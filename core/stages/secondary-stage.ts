@@ -21,7 +21,7 @@
  * - Wire length: helical, N √((2π r)² + p²); mass: copper only; DC resistance at the environment
  *   temperature (IEC 60028 copper).
  */
-import type { EvalContext, SecondaryGeometry } from '../context.ts';
+import type { DesignProblem, EvalContext, SecondaryGeometry } from '../context.ts';
 import type { SecondarySpec } from '../design.ts';
 import { insulatedDiameter, INSULATION_TABLE_RANGE } from '../wire/insulation.ts';
 import { copperMass, wireDcResistance } from '../wire/copper.ts';
@@ -80,57 +80,19 @@ function windingLayout(
 export function secondaryStage(context: EvalContext): void {
   const spec = context.design.secondary;
   if (!spec) return;
-  const { metrics, problems, warnings } = context;
+  const { metrics, problems } = context;
+  const overallDiameter = checkedWire(context, spec);
+  if (overallDiameter === null) return;
   const bareDiameter = spec.wire.bareDiameter;
-  if (!(spec.formDiameter > 0)) {
-    problems.push({
-      field: 'secondary.form_diameter',
-      reason: `the form diameter must be positive, got ${mm(spec.formDiameter)}`,
-    });
-    return;
-  }
-  if (!(bareDiameter > 0)) {
-    problems.push({ field: 'secondary.wire', reason: `the wire diameter must be positive, got ${mm(bareDiameter)}` });
-    return;
-  }
-  const overallDiameter = spec.wire.overallDiameter ?? insulatedDiameter(bareDiameter, spec.wire.insulation);
-  if (!(overallDiameter >= bareDiameter)) {
-    problems.push({
-      field: 'secondary.wire_overall_diameter',
-      reason: `the insulated diameter (${mm(overallDiameter)}) is smaller than the bare wire (${mm(bareDiameter)})`,
-    });
-    return;
-  }
-  if (
-    spec.wire.overallDiameter === undefined &&
-    spec.wire.insulation !== 'none' &&
-    (bareDiameter < INSULATION_TABLE_RANGE.minimum * (1 - 1e-9) ||
-      bareDiameter > INSULATION_TABLE_RANGE.maximum * (1 + 1e-9))
-  ) {
-    warnings.push({
-      key: 'wire_table_extrapolated',
-      message: `the wire (${mm(bareDiameter)}) is outside the enamel build table (${mm(INSULATION_TABLE_RANGE.minimum)} to ${mm(INSULATION_TABLE_RANGE.maximum)}); its insulated diameter ${mm(overallDiameter)} is extrapolated`,
-    });
-  }
   const layout = windingLayout(spec, overallDiameter);
   if ('field' in layout) {
     problems.push(layout);
     return;
   }
   const { turns, pitch, windingLength } = layout;
-  if (!(turns >= 1)) {
-    problems.push({
-      field: spec.turns !== undefined ? 'secondary.turns' : 'secondary.winding_length',
-      reason: `the winding needs at least one turn, got ${Number(turns.toPrecision(4))}`,
-    });
-    return;
-  }
-  if (turns > MAX_SECONDARY_TURNS) {
-    // The filament sum below costs one mutual per turn: bound it (common practice: a few thousand turns).
-    problems.push({
-      field: spec.turns !== undefined ? 'secondary.turns' : 'secondary.winding_length',
-      reason: `${Number(turns.toPrecision(4))} turns is beyond the ${MAX_SECONDARY_TURNS} this model handles`,
-    });
+  const turnsWrong = turnsProblem(spec, turns);
+  if (turnsWrong) {
+    problems.push(turnsWrong);
     return;
   }
   const radius = (spec.formDiameter + overallDiameter) / 2;
@@ -162,4 +124,60 @@ export function secondaryStage(context: EvalContext): void {
   metrics.secondary_dc_resistance = dcResistance;
   metrics.secondary_inductance = inductance;
   metrics.secondary_inductance_filament = filamentInductance;
+}
+
+/**
+ * The insulated wire diameter, m, after the form and wire checks; null when one of them pushed a
+ * problem. Warns when the enamel build comes from outside its table.
+ */
+function checkedWire(context: EvalContext, spec: SecondarySpec): number | null {
+  const { problems, warnings } = context;
+  const bareDiameter = spec.wire.bareDiameter;
+  if (!(spec.formDiameter > 0)) {
+    problems.push({
+      field: 'secondary.form_diameter',
+      reason: `the form diameter must be positive, got ${mm(spec.formDiameter)}`,
+    });
+    return null;
+  }
+  if (!(bareDiameter > 0)) {
+    problems.push({ field: 'secondary.wire', reason: `the wire diameter must be positive, got ${mm(bareDiameter)}` });
+    return null;
+  }
+  const overallDiameter = spec.wire.overallDiameter ?? insulatedDiameter(bareDiameter, spec.wire.insulation);
+  if (!(overallDiameter >= bareDiameter)) {
+    problems.push({
+      field: 'secondary.wire_overall_diameter',
+      reason: `the insulated diameter (${mm(overallDiameter)}) is smaller than the bare wire (${mm(bareDiameter)})`,
+    });
+    return null;
+  }
+  if (
+    spec.wire.overallDiameter === undefined &&
+    spec.wire.insulation !== 'none' &&
+    (bareDiameter < INSULATION_TABLE_RANGE.minimum * (1 - 1e-9) ||
+      bareDiameter > INSULATION_TABLE_RANGE.maximum * (1 + 1e-9))
+  ) {
+    warnings.push({
+      key: 'wire_table_extrapolated',
+      message: `the wire (${mm(bareDiameter)}) is outside the enamel build table (${mm(INSULATION_TABLE_RANGE.minimum)} to ${mm(INSULATION_TABLE_RANGE.maximum)}); its insulated diameter ${mm(overallDiameter)} is extrapolated`,
+    });
+  }
+  return overallDiameter;
+}
+
+/** Fewer than one turn, or more than this model handles, as the problem of the field that set the turns. */
+function turnsProblem(spec: SecondarySpec, turns: number): DesignProblem | null {
+  const field = spec.turns !== undefined ? 'secondary.turns' : 'secondary.winding_length';
+  if (!(turns >= 1)) {
+    return { field, reason: `the winding needs at least one turn, got ${Number(turns.toPrecision(4))}` };
+  }
+  if (turns > MAX_SECONDARY_TURNS) {
+    // The filament sum costs one mutual per turn: bound it (common practice: a few thousand turns).
+    return {
+      field,
+      reason: `${Number(turns.toPrecision(4))} turns is beyond the ${MAX_SECONDARY_TURNS} this model handles`,
+    };
+  }
+  return null;
 }

@@ -91,7 +91,7 @@ export function prepareTank(
   const solidAuto = bank !== undefined && driver?.kind === 'solid_state' && bank.series === undefined;
   if (solidAuto && bank.parallel !== undefined) {
     problems.push({
-      field: 'tank_bank.parallel',
+      field: 'tank.bank.parallel',
       reason:
         'with a solid-state driver and an automatic series count, leave the parallel count automatic too (the burst is simulated at the target capacitance, which only an automatic parallel count keeps)',
     });
@@ -150,7 +150,7 @@ function layoutBank(
   const working = solid ? undefined : chargeAt(tank.capacitance);
   if (working === undefined && bank.series === undefined) {
     problems.push({
-      field: 'tank_bank.series',
+      field: 'tank.bank.series',
       reason: 'give the series count, or a charge voltage to choose it from',
     });
     return null;
@@ -168,7 +168,7 @@ function layoutBank(
     }
     if (first === null) {
       problems.push({
-        field: 'tank_bank.part_voltage_rating',
+        field: 'tank.bank.part.voltage_rating',
         reason: `no series count up to ${MAX_AUTO_SERIES} holds ${formatNumber(bank.voltageMargin)}× the charge voltage with ${formatQuantity(part.voltageRating, 'V')} parts`,
       });
       return null;
@@ -353,7 +353,7 @@ function bankParts(context: EvalContext, driver: DriverSpec, currents: TankCurre
     }
     if (working > 0 && perPart * bank.voltageMargin > bank.partVoltageRating * (1 + 1e-12)) {
       problems.push({
-        field: 'tank_bank.series',
+        field: 'tank.bank.series',
         reason: `each of the ${layout.series} parts in series sees ${formatQuantity(perPart, 'V')}; ${formatNumber(bank.voltageMargin)}× that exceeds its ${formatQuantity(bank.partVoltageRating, 'V')} rating`,
       });
     }
@@ -362,7 +362,7 @@ function bankParts(context: EvalContext, driver: DriverSpec, currents: TankCurre
       metrics.tank_bank_part_rms_current = partRms;
       if (partRms > bank.partRmsCurrentRating) {
         problems.push({
-          field: 'tank_bank.part_rms_current_rating',
+          field: 'tank.bank.part.rms_current_rating',
           reason: `each part carries ${formatQuantity(partRms, 'A')} rms (${layout.parallel} strings share ${formatQuantity(rmsCurrent, 'A')}), above its ${formatQuantity(bank.partRmsCurrentRating, 'A')} rating`,
         });
       }
@@ -372,7 +372,7 @@ function bankParts(context: EvalContext, driver: DriverSpec, currents: TankCurre
       metrics.tank_bank_part_peak_current = partPeak;
       if (bank.partPeakCurrentRating !== undefined && partPeak > bank.partPeakCurrentRating) {
         problems.push({
-          field: 'tank_bank.part_peak_current_rating',
+          field: 'tank.bank.part.peak_current_rating',
           reason: `each part carries ${formatQuantity(partPeak, 'A')} peak (${layout.parallel} strings share ${formatQuantity(peakCurrent, 'A')}), above its ${formatQuantity(bank.partPeakCurrentRating, 'A')} rating`,
         });
       }

@@ -21,6 +21,10 @@
 import { dominatesAt } from './dominates.ts';
 
 const LEAF_SIZE = 16;
+/** What a node's box can hold (DominanceIndex.boxHolds). */
+const NO_MATCH = 0;
+const SOME_MATCH = 1;
+const ALL_MATCH = 2;
 
 export class DominanceIndex {
   readonly dimensions: number;
@@ -73,7 +77,89 @@ export class DominanceIndex {
    * once it reaches `limit` the search stops).
    */
   countDominators(point: ArrayLike<number>, limit: number): number {
+    return this.walk(point, true, limit, undefined);
+  }
+
+  /** Calls visit(slot) for every live point that p dominates (visit may remove that slot). */
+  forEachDominated(point: ArrayLike<number>, visit: (slot: number) => void): void {
+    this.walk(point, false, Infinity, visit);
+  }
+
+  /**
+   * What node's box can hold: NO_MATCH, SOME_MATCH, or (seeking dominators only) ALL_MATCH, when the box lies
+   * wholly in p's dominating region (every maximum ≤ p, one strictly below). Seeking dominators, a box with
+   * some minimum above p holds none; seeking dominated points, a box with some maximum below p holds none.
+   */
+  private boxHolds(node: number, point: ArrayLike<number>, seekDominators: boolean): number {
     const m = this.dimensions;
+    const base = node * m;
+    if (!seekDominators) {
+      for (let j = 0; j < m; j++) if (this.nodeMax[base + j] < point[j]) return NO_MATCH;
+      return SOME_MATCH;
+    }
+    let inside = true;
+    let strictly = false;
+    for (let j = 0; j < m; j++) {
+      const p = point[j];
+      if (this.nodeMin[base + j] > p) return NO_MATCH;
+      const high = this.nodeMax[base + j];
+      if (high > p) inside = false;
+      else if (high < p) strictly = true;
+    }
+    return inside && strictly ? ALL_MATCH : SOME_MATCH;
+  }
+
+  /**
+   * Counts, from `count` up to `limit`, the live points in slots [start, end) and on the overflow list from
+   * `overflow` that dominate p (seekDominators) or that p dominates, passing the latter to `visit`. The mode
+   * is chosen once per leaf: the slot loops stay as tight as two separate walks would have them.
+   */
+  private scanSlots(
+    point: ArrayLike<number>,
+    seekDominators: boolean,
+    start: number,
+    end: number,
+    overflow: number,
+    count: number,
+    limit: number,
+    visit: ((slot: number) => void) | undefined,
+  ): number {
+    const live = this.live;
+    if (seekDominators) {
+      for (let slot = start; slot < end; slot++) {
+        if (live[slot] === 1 && this.slotDominates(slot, point) && ++count >= limit) return count;
+      }
+      for (let slot = overflow; slot >= 0; slot = this.nextOverflow[slot]) {
+        if (live[slot] === 1 && this.slotDominates(slot, point) && ++count >= limit) return count;
+      }
+      return count;
+    }
+    for (let slot = start; slot < end; slot++) {
+      if (live[slot] === 1 && this.dominatesSlot(point, slot)) {
+        visit?.(slot);
+        if (++count >= limit) return count;
+      }
+    }
+    for (let slot = overflow; slot >= 0; slot = this.nextOverflow[slot]) {
+      if (live[slot] === 1 && this.dominatesSlot(point, slot)) {
+        visit?.(slot);
+        if (++count >= limit) return count;
+      }
+    }
+    return count;
+  }
+
+  /**
+   * The traversal behind both queries: the live points that dominate p (seekDominators) or that p dominates,
+   * counted up to `limit`, each passed to `visit` when one is given (a whole node is counted, never visited:
+   * that happens only when seeking dominators, which passes no visit). Returns the count.
+   */
+  private walk(
+    point: ArrayLike<number>,
+    seekDominators: boolean,
+    limit: number,
+    visit: ((slot: number) => void) | undefined,
+  ): number {
     let count = 0;
     if (this.nodeCount > 0) {
       const stack = this.stack;
@@ -82,83 +168,38 @@ export class DominanceIndex {
       while (top > 0) {
         const node = stack[--top];
         if (this.nodeLive[node] === 0) continue;
-        const base = node * m;
-        let possible = true;
-        let inside = true;
-        let strictly = false;
-        for (let j = 0; j < m; j++) {
-          const p = point[j];
-          if (this.nodeMin[base + j] > p) {
-            possible = false;
-            break;
-          }
-          const high = this.nodeMax[base + j];
-          if (high > p) inside = false;
-          else if (high < p) strictly = true;
-        }
-        if (!possible) continue;
-        if (inside && strictly) {
+        const holds = this.boxHolds(node, point, seekDominators);
+        if (holds === NO_MATCH) continue;
+        if (holds === ALL_MATCH) {
           count += this.nodeLive[node];
           if (count >= limit) return count;
           continue;
         }
         const left = this.nodeLeft[node];
-        if (left < 0) {
-          for (let slot = this.nodeStart[node], end = this.nodeEnd[node]; slot < end; slot++) {
-            if (this.live[slot] === 1 && this.slotDominates(slot, point) && ++count >= limit) return count;
-          }
-          for (let slot = this.leafOverflow[node]; slot >= 0; slot = this.nextOverflow[slot]) {
-            if (this.live[slot] === 1 && this.slotDominates(slot, point) && ++count >= limit) return count;
-          }
-        } else {
-          stack[top++] = left + 1; // the upper half later
-          stack[top++] = left; // the lower half first: it holds more dominators
+        if (left >= 0) {
+          // The half taken first is pushed last: dominators lie more in the lower half, dominated points in the upper.
+          stack[top++] = seekDominators ? left + 1 : left;
+          stack[top++] = seekDominators ? left : left + 1;
+          continue;
         }
+        // A leaf: it ends the walk only when one of its points took the count to the limit.
+        const before = count;
+        count = this.scanSlots(
+          point,
+          seekDominators,
+          this.nodeStart[node],
+          this.nodeEnd[node],
+          this.leafOverflow[node],
+          count,
+          limit,
+          visit,
+        );
+        if (count !== before && count >= limit) return count;
       }
     }
     // Before the first tree: a plain scan.
-    for (let slot = this.nodeCount > 0 ? this.slotCount : 0; slot < this.slotCount; slot++) {
-      if (this.live[slot] === 1 && this.slotDominates(slot, point) && ++count >= limit) return count;
-    }
-    return count;
-  }
-
-  /** Calls visit(slot) for every live point that p dominates (visit may remove that slot). */
-  forEachDominated(point: ArrayLike<number>, visit: (slot: number) => void): void {
-    const m = this.dimensions;
-    if (this.nodeCount > 0) {
-      const stack = this.stack;
-      let top = 0;
-      stack[top++] = 0;
-      while (top > 0) {
-        const node = stack[--top];
-        if (this.nodeLive[node] === 0) continue;
-        const base = node * m;
-        let possible = true;
-        for (let j = 0; j < m; j++) {
-          if (this.nodeMax[base + j] < point[j]) {
-            possible = false;
-            break;
-          }
-        }
-        if (!possible) continue;
-        const left = this.nodeLeft[node];
-        if (left < 0) {
-          for (let slot = this.nodeStart[node], end = this.nodeEnd[node]; slot < end; slot++) {
-            if (this.live[slot] === 1 && this.dominatesSlot(point, slot)) visit(slot);
-          }
-          for (let slot = this.leafOverflow[node]; slot >= 0; slot = this.nextOverflow[slot]) {
-            if (this.live[slot] === 1 && this.dominatesSlot(point, slot)) visit(slot);
-          }
-        } else {
-          stack[top++] = left;
-          stack[top++] = left + 1;
-        }
-      }
-    }
-    for (let slot = this.nodeCount > 0 ? this.slotCount : 0, end = this.slotCount; slot < end; slot++) {
-      if (this.live[slot] === 1 && this.dominatesSlot(point, slot)) visit(slot);
-    }
+    const from = this.nodeCount > 0 ? this.slotCount : 0;
+    return this.scanSlots(point, seekDominators, from, this.slotCount, -1, count, limit, visit);
   }
 
   /** Stores a point; may rebuild the tree (slots move: callers must not hold slot numbers across it). */

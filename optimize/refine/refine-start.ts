@@ -84,32 +84,11 @@ export async function refineStart<R>(
   meritOf: MeritOf<R>,
   options: RefineStartOptions = {},
 ): Promise<RefineStartResult> {
-  const levelCounts = options.levelCounts ?? [];
-  const startPoint = mixedPoint(start.continuous, start.levels ?? []);
-  if (startPoint.levels.length !== levelCounts.length) {
-    throw refineRangeError(
-      'refineStart',
-      `one level per discrete parameter (${levelCounts.length})`,
-      startPoint.levels.length,
-    );
-  }
-  levelCounts.forEach((count, d) => {
-    if (!Number.isInteger(count) || count < 1 || startPoint.levels[d] < 0 || startPoint.levels[d] >= count) {
-      throw refineRangeError('refineStart', `level ${d} in 0..${count - 1}`, startPoint.levels[d]);
-    }
-  });
+  const { startPoint, levelCounts, budget, maxRounds, maxNelderMeadRuns, nelderMeadOptions } = checkedStart(
+    start,
+    options,
+  );
   const dimension = startPoint.continuous.length;
-  const budget = options.maxEvaluations ?? 200 * (dimension + 1);
-  if (!Number.isInteger(budget) || budget < 1)
-    throw refineRangeError('refineStart', 'an integer maxEvaluations >= 1', budget);
-  const maxRounds = options.maxRounds ?? 8;
-  const maxNelderMeadRuns = options.maxNelderMeadRuns ?? 4;
-  if (!Number.isInteger(maxNelderMeadRuns) || maxNelderMeadRuns < 1)
-    throw refineRangeError('refineStart', 'an integer maxNelderMeadRuns >= 1', maxNelderMeadRuns);
-  const nelderMeadOptions = options.nelderMead ?? {};
-  if (!Number.isInteger(maxRounds) || maxRounds < 1)
-    throw refineRangeError('refineStart', 'an integer maxRounds >= 1', maxRounds);
-
   const ledger = new StartLedger(cache, meritOf, budget);
   const [startMerit] = await ledger.merits([startPoint]);
   let incumbent = { point: copyMixedPoint(startPoint), merit: startMerit };
@@ -127,14 +106,8 @@ export async function refineStart<R>(
       break;
     }
     rounds++;
-    for (let run = 0; dimension > 0 && run < maxNelderMeadRuns && ledger.remaining > 0; run++) {
-      const outcome = await nelderMeadWithLevels(incumbent, ledger, nelderMeadOptions);
-      nelderMeadRuns.push(outcome.result);
-      const improved = isBetterMerit(outcome.merit, incumbent.merit);
-      const gain = improved ? meritDistance(outcome.merit, incumbent.merit) : 0;
-      if (improved) incumbent = { point: outcome.point, merit: outcome.merit };
-      trace.push({ phase: 'nelder-mead', evaluationsUsed: ledger.used, merit: incumbent.merit, improved });
-      if (outcome.result.status !== 'converged' || gain <= (nelderMeadOptions.fatol ?? 1e-4)) break;
+    if (dimension > 0) {
+      incumbent = await nelderMeadPhase(incumbent, ledger, maxNelderMeadRuns, nelderMeadOptions, nelderMeadRuns, trace);
     }
     if (levelCounts.length === 0) {
       status = ledger.remaining === 0 ? 'max_evaluations' : 'converged';
@@ -166,6 +139,72 @@ export async function refineStart<R>(
     status,
     trace,
   };
+}
+
+/** The start as a mixed point and the options with their defaults, checked: a RangeError names the first one out of range. */
+function checkedStart(
+  start: { continuous: ArrayLike<number>; levels?: ArrayLike<number> },
+  options: RefineStartOptions,
+): {
+  startPoint: MixedPoint;
+  levelCounts: readonly number[];
+  budget: number;
+  maxRounds: number;
+  maxNelderMeadRuns: number;
+  nelderMeadOptions: NelderMeadOptions;
+} {
+  const levelCounts = options.levelCounts ?? [];
+  const startPoint = mixedPoint(start.continuous, start.levels ?? []);
+  if (startPoint.levels.length !== levelCounts.length) {
+    throw refineRangeError(
+      'refineStart',
+      `one level per discrete parameter (${levelCounts.length})`,
+      startPoint.levels.length,
+    );
+  }
+  levelCounts.forEach((count, d) => {
+    if (!Number.isInteger(count) || count < 1 || startPoint.levels[d] < 0 || startPoint.levels[d] >= count) {
+      throw refineRangeError('refineStart', `level ${d} in 0..${count - 1}`, startPoint.levels[d]);
+    }
+  });
+  const dimension = startPoint.continuous.length;
+  const budget = options.maxEvaluations ?? 200 * (dimension + 1);
+  if (!Number.isInteger(budget) || budget < 1)
+    throw refineRangeError('refineStart', 'an integer maxEvaluations >= 1', budget);
+  const maxRounds = options.maxRounds ?? 8;
+  const maxNelderMeadRuns = options.maxNelderMeadRuns ?? 4;
+  if (!Number.isInteger(maxNelderMeadRuns) || maxNelderMeadRuns < 1)
+    throw refineRangeError('refineStart', 'an integer maxNelderMeadRuns >= 1', maxNelderMeadRuns);
+  const nelderMeadOptions = options.nelderMead ?? {};
+  if (!Number.isInteger(maxRounds) || maxRounds < 1)
+    throw refineRangeError('refineStart', 'an integer maxRounds >= 1', maxRounds);
+  return { startPoint, levelCounts, budget, maxRounds, maxNelderMeadRuns, nelderMeadOptions };
+}
+
+/**
+ * One round's continuous phase: Nelder–Mead runs with the levels held, restarted from the incumbent while
+ * a run converges and gains more than fatol, up to `maxRuns` and the budget. Appends each run's result and
+ * trace entry; returns the incumbent after them.
+ */
+async function nelderMeadPhase<R>(
+  start: { point: MixedPoint; merit: Merit },
+  ledger: StartLedger<R>,
+  maxRuns: number,
+  options: NelderMeadOptions,
+  runs: MinimizeResult[],
+  trace: RefineTraceEntry[],
+): Promise<{ point: MixedPoint; merit: Merit }> {
+  let incumbent = start;
+  for (let run = 0; run < maxRuns && ledger.remaining > 0; run++) {
+    const outcome = await nelderMeadWithLevels(incumbent, ledger, options);
+    runs.push(outcome.result);
+    const improved = isBetterMerit(outcome.merit, incumbent.merit);
+    const gain = improved ? meritDistance(outcome.merit, incumbent.merit) : 0;
+    if (improved) incumbent = { point: outcome.point, merit: outcome.merit };
+    trace.push({ phase: 'nelder-mead', evaluationsUsed: ledger.used, merit: incumbent.merit, improved });
+    if (outcome.result.status !== 'converged' || gain <= (options.fatol ?? 1e-4)) break;
+  }
+  return incumbent;
 }
 
 async function nelderMeadWithLevels<R>(

@@ -188,44 +188,73 @@ export interface Journal {
  */
 export function openJournal(path: string, options: JournalOptions & { keepRecords?: boolean } = {}): Journal {
   const fileSystem = options.fileSystem ?? nodeFileSystem;
-  let fd: number;
+  const { fd, created } = openOrCreate(fileSystem, path);
   let recovered: JournalContents;
-  // With keepRecords false the file is checked record by record and `recovered.records` stays empty.
-  let recoveredCount = 0;
-  let created = false;
+  let recoveredCount: number;
   try {
-    try {
-      fd = fileSystem.openSync(path, 'r+');
-    } catch (error) {
-      if ((error as { code?: string }).code !== 'ENOENT') throw error;
-      fd = fileSystem.openSync(path, 'wx+', 0o644);
-      created = true;
-    }
-  } catch (error) {
-    throw toDiskError(error, path, 'open');
-  }
-  try {
-    if (created) recovered = { records: [], tornTail: false, validBytes: 0, totalBytes: 0, problem: null };
-    else if (options.keepRecords === false) {
-      const { recordCount: scanned, ...scan } = scanJournal(path, () => undefined, { parse: false });
-      recovered = { records: [], ...scan };
-      recoveredCount = scanned;
-    } else {
-      recovered = readJournal(path, { fileSystem });
-      recoveredCount = recovered.records.length;
-    }
-    if (recovered.tornTail) {
-      fileSystem.ftruncateSync(fd, recovered.validBytes);
-      fileSystem.fsyncSync(fd);
-    }
-    if (created) {
-      fileSystem.fsyncSync(fd);
-      syncDirectorySync(fileSystem, dirname(resolve(path)));
-    }
+    ({ recovered, recoveredCount } = recoverJournal(fileSystem, fd, path, created, options.keepRecords));
   } catch (error) {
     fileSystem.closeSync(fd);
     throw toDiskError(error, path, 'open');
   }
+  return journalHandle(fileSystem, fd, path, recovered, recoveredCount);
+}
+
+/** Opens the journal file for reading and writing, creating it when it does not exist. */
+function openOrCreate(fileSystem: DurableFileSystem, path: string): { fd: number; created: boolean } {
+  try {
+    try {
+      return { fd: fileSystem.openSync(path, 'r+'), created: false };
+    } catch (error) {
+      if ((error as { code?: string }).code !== 'ENOENT') throw error;
+      return { fd: fileSystem.openSync(path, 'wx+', 0o644), created: true };
+    }
+  } catch (error) {
+    throw toDiskError(error, path, 'open');
+  }
+}
+
+/**
+ * Reads what an existing journal holds and cuts a torn tail off (synced); syncs a new file and its
+ * folder. With keepRecords false the file is checked record by record and `recovered.records` stays empty.
+ */
+function recoverJournal(
+  fileSystem: DurableFileSystem,
+  fd: number,
+  path: string,
+  created: boolean,
+  keepRecords: boolean | undefined,
+): { recovered: JournalContents; recoveredCount: number } {
+  let recovered: JournalContents;
+  let recoveredCount = 0;
+  if (created) recovered = { records: [], tornTail: false, validBytes: 0, totalBytes: 0, problem: null };
+  else if (keepRecords === false) {
+    const { recordCount: scanned, ...scan } = scanJournal(path, () => undefined, { parse: false });
+    recovered = { records: [], ...scan };
+    recoveredCount = scanned;
+  } else {
+    recovered = readJournal(path, { fileSystem });
+    recoveredCount = recovered.records.length;
+  }
+  if (recovered.tornTail) {
+    fileSystem.ftruncateSync(fd, recovered.validBytes);
+    fileSystem.fsyncSync(fd);
+  }
+  if (created) {
+    fileSystem.fsyncSync(fd);
+    syncDirectorySync(fileSystem, dirname(resolve(path)));
+  }
+  return { recovered, recoveredCount };
+}
+
+/** The open journal's handle: appends at the known end of its valid records, syncs, closes. */
+function journalHandle(
+  fileSystem: DurableFileSystem,
+  fd: number,
+  path: string,
+  recovered: JournalContents,
+  recoveredCount: number,
+): Journal {
   let byteLength = recovered.validBytes;
   let recordCount = recoveredCount;
   let open = true;
@@ -317,6 +346,58 @@ export function scanJournal(
   }
 }
 
+/** What {@link readRecord} reads with: positioned reads of the file, a header buffer, the decoding. */
+interface RecordReader {
+  readAt: (into: Uint8Array, position: number) => number;
+  header: Uint8Array;
+  headerView: DataView;
+  /** Strict UTF-8 decoding (throws on a malformed body). */
+  decode: (bytes: Uint8Array) => string;
+  parse: boolean;
+}
+
+/**
+ * The record at `offset` (the file holds `totalBytes`): its payload (null unless parsed) and size in
+ * bytes, or what is wrong with it, named as record `count + 1`.
+ */
+function readRecord(
+  reader: RecordReader,
+  offset: number,
+  totalBytes: number,
+  count: number,
+): { payload: JournalPayload; size: number } | { problem: string } {
+  const { readAt, header, headerView } = reader;
+  const where = `record ${count + 1} at byte ${offset}`;
+  const remaining = totalBytes - offset;
+  if (remaining < HEADER_BYTES + TRAILER_BYTES) {
+    return { problem: `${where} is cut short (${remaining} bytes of at least ${HEADER_BYTES + TRAILER_BYTES})` };
+  }
+  readAt(header, offset);
+  if (!MAGIC.every((value, index) => header[index] === value)) {
+    return { problem: `${where} does not start with the record mark` };
+  }
+  const kind = headerView.getUint8(4);
+  const length = headerView.getUint32(5, true);
+  if (length > MAX_RECORD_BYTES) return { problem: `${where} declares ${length} bytes, more than a record may hold` };
+  const size = HEADER_BYTES + length + TRAILER_BYTES;
+  if (size > remaining) return { problem: `${where} is cut short (${remaining} bytes of ${size})` };
+  const record = new Uint8Array(size);
+  if (readAt(record, offset) < size) return { problem: `${where} is cut short (the file shrank while it was read)` };
+  const view = new DataView(record.buffer);
+  if (crc32(record.subarray(4, HEADER_BYTES + length)) !== view.getUint32(HEADER_BYTES + length, true)) {
+    return { problem: `${where} fails its CRC-32 check` };
+  }
+  if (kind !== KIND_JSON && kind !== KIND_BYTES) return { problem: `${where} has an unknown kind ${kind}` };
+  if (!reader.parse) return { payload: null, size };
+  const body = record.subarray(HEADER_BYTES, HEADER_BYTES + length);
+  if (kind === KIND_BYTES) return { payload: Uint8Array.from(body), size };
+  try {
+    return { payload: JSON.parse(reader.decode(body)), size };
+  } catch {
+    return { problem: `${where} passes its check but does not hold valid JSON` };
+  }
+}
+
 /**
  * The intact records of the journal at `path` as a generator, read one at a time (see
  * {@link scanJournal}); its return value is the scan's summary. Leaving a for-of loop early closes the file.
@@ -350,58 +431,16 @@ export function* journalRecords(
       }
       return got;
     };
+    const reader: RecordReader = { readAt, header, headerView, decode: (bytes) => decoder.decode(bytes), parse };
     while (offset < totalBytes) {
-      const where = `record ${count + 1} at byte ${offset}`;
-      const remaining = totalBytes - offset;
-      if (remaining < HEADER_BYTES + TRAILER_BYTES) {
-        problem = `${where} is cut short (${remaining} bytes of at least ${HEADER_BYTES + TRAILER_BYTES})`;
+      const next = readRecord(reader, offset, totalBytes, count);
+      if ('problem' in next) {
+        problem = next.problem;
         break;
       }
-      readAt(header, offset);
-      if (!MAGIC.every((value, index) => header[index] === value)) {
-        problem = `${where} does not start with the record mark`;
-        break;
-      }
-      const kind = headerView.getUint8(4);
-      const length = headerView.getUint32(5, true);
-      if (length > MAX_RECORD_BYTES) {
-        problem = `${where} declares ${length} bytes, more than a record may hold`;
-        break;
-      }
-      const size = HEADER_BYTES + length + TRAILER_BYTES;
-      if (size > remaining) {
-        problem = `${where} is cut short (${remaining} bytes of ${size})`;
-        break;
-      }
-      const record = new Uint8Array(size);
-      if (readAt(record, offset) < size) {
-        problem = `${where} is cut short (the file shrank while it was read)`;
-        break;
-      }
-      const view = new DataView(record.buffer);
-      if (crc32(record.subarray(4, HEADER_BYTES + length)) !== view.getUint32(HEADER_BYTES + length, true)) {
-        problem = `${where} fails its CRC-32 check`;
-        break;
-      }
-      let payload: JournalPayload = null;
-      if (kind !== KIND_JSON && kind !== KIND_BYTES) {
-        problem = `${where} has an unknown kind ${kind}`;
-        break;
-      }
-      if (parse) {
-        const body = record.subarray(HEADER_BYTES, HEADER_BYTES + length);
-        if (kind === KIND_JSON) {
-          try {
-            payload = JSON.parse(decoder.decode(body));
-          } catch {
-            problem = `${where} passes its check but does not hold valid JSON`;
-            break;
-          }
-        } else payload = Uint8Array.from(body);
-      }
-      offset += size;
+      offset += next.size;
       count++;
-      yield payload;
+      yield next.payload;
     }
   } catch (error) {
     throw toDiskError(error, path, 'read');

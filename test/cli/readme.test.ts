@@ -2,7 +2,7 @@ import { execFileSync } from 'node:child_process';
 import { readdirSync, readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { METRIC_KEYS } from '../../core/metrics.ts';
-import { DESIGN_SECTIONS } from '../../cli/design-fields.ts';
+import { DESIGN_SECTIONS, type SectionSpec } from '../../cli/design-fields.ts';
 import { SAFETY_CAUTIONS } from '../../cli/safety.ts';
 
 const readme = readFileSync('README.md', 'utf8');
@@ -23,13 +23,15 @@ describe('README.md', () => {
     for (const key of METRIC_KEYS) expect(readme).toContain(`\`${key}\``);
   });
 
-  it('documents every section and field of the design file', () => {
-    for (const [name, section] of Object.entries(DESIGN_SECTIONS)) {
+  it('documents every section, sub-section and field of the design file', () => {
+    const documented = (name: string, section: SectionSpec): void => {
       expect(readme).toContain(`\`${name}:\``);
       for (const key of Object.keys(section.fields)) expect(readme).toContain(`\`${key}\``);
       for (const form of Object.values(section.variants?.forms ?? {}))
         for (const key of Object.keys(form)) expect(readme).toContain(`\`${key}\``);
-    }
+      for (const [key, sub] of Object.entries(section.subsections ?? {})) documented(`${name}.${key}`, sub);
+    };
+    for (const [name, section] of Object.entries(DESIGN_SECTIONS)) documented(name, section);
   });
 
   it('the report cautions name the same dangers', () => {

@@ -149,12 +149,12 @@ describe('coilfront sheet', () => {
 
   test('refuses a design that cannot be built, naming the field', async () => {
     const value = parseYaml(readFileSync('examples/rotary-bank-coil.yaml', 'utf8'));
-    value.tank_bank.part_rms_current_rating = '0.5 A';
+    value.tank.bank.part.rms_current_rating = '0.5 A';
     const file = join(root, 'weak-bank.yaml');
     writeFileSync(file, stringifyYaml(value));
     const result = await cli(['sheet', file]);
     expect(result.code).toBe(2);
-    expect(result.err).toContain('tank_bank.part_rms_current_rating: cannot be built');
+    expect(result.err).toContain('tank.bank.part.rms_current_rating: cannot be built');
   });
 
   test('of a ranked candidate is the sheet of the design show prints for it', async () => {
@@ -178,7 +178,7 @@ describe('coilfront sheet', () => {
   });
 });
 
-describe('a sweep over the parallel count of a bank with weak parts', () => {
+describe('a sweep over the parallel count of a bank with weak parts, written as tank_bank (the older spelling)', () => {
   test('keeps the banks that hold and lists the others as infeasible with the rating they exceed', async () => {
     const root = mkdtempSync(join(tmpdir(), 'coilfront-bank-sweep-'));
     const spec = parseYaml(readFileSync('test/fixtures/sweep-small.yaml', 'utf8'));
@@ -198,7 +198,7 @@ describe('a sweep over the parallel count of a bank with weak parts', () => {
     const read = (name: string) =>
       parseCsv(readFileSync(join(run, name), 'utf8'), { columns: true }) as Record<string, string>[];
     const kept = read('candidates.csv');
-    const refused = read('infeasible.csv').filter((row) => row.reason.includes('tank_bank.part_rms_current_rating'));
+    const refused = read('infeasible.csv').filter((row) => row.reason.includes('tank.bank.part.rms_current_rating'));
     expect(kept.length).toBeGreaterThan(0);
     expect(refused.length).toBeGreaterThan(0);
     for (const row of kept) {

@@ -10,6 +10,7 @@ import type { Design } from '../../../core/design.ts';
 import { evaluateDesign, evaluateDesignInDetail } from '../../../core/evaluate.ts';
 import { coupledModes, coupledStateAt } from '../../../core/dynamics/coupled-modes.ts';
 import { sparkGapShot } from '../../../core/dynamics/spark-gap.ts';
+import { solidStateBurst } from '../../../core/dynamics/solid-state.ts';
 import type { CoupledCircuit } from '../../../core/dynamics/circuit.ts';
 import { RECTIFIED_MEAN_FACTOR } from '../../../core/supply/supply.ts';
 import { sphereGapAirDensity } from '../../../core/breakdown/sphere-gap.ts';
@@ -121,18 +122,18 @@ describe('a bank that cannot meet its ratings is infeasible with its reason', ()
 
   test('parts rated 1 A rms', () => {
     const result = evaluateDesign({ ...example, tankBank: { ...bank, partRmsCurrentRating: 1 } });
-    expect(result.problems[0]?.field).toBe('tank_bank.part_rms_current_rating');
+    expect(result.problems[0]?.field).toBe('tank.bank.part.rms_current_rating');
     expect(result.problems[0]?.reason).toMatch(/rms/);
   });
 
   test('parts rated 20 A peak', () => {
     const result = evaluateDesign({ ...example, tankBank: { ...bank, partPeakCurrentRating: 20 } });
-    expect(result.problems[0]?.field).toBe('tank_bank.part_peak_current_rating');
+    expect(result.problems[0]?.field).toBe('tank.bank.part.peak_current_rating');
   });
 
   test('a fixed series count too small for the charge', () => {
     const result = evaluateDesign({ ...example, tankBank: { ...bank, series: 4 } });
-    expect(result.problems[0]?.field).toBe('tank_bank.series');
+    expect(result.problems[0]?.field).toBe('tank.bank.series');
   });
 
   test('a static gap set above what the supply can reach never fires', () => {
@@ -241,14 +242,82 @@ describe('a solid-state bank with automatic counts (examples/solid-state-bench-c
     expect(rms).toBeGreaterThan(peakCurrent * Math.sqrt((100 * 40e-6) / 6) * 0.5);
   });
 
+  test('the rms tank current equals an independent Simpson integration of the computed burst waveform', () => {
+    const circuit = built.context.circuit;
+    if (!circuit) throw new Error('no circuit');
+    // The computed waveform: every step the integrator took (the same burst: its ∫i1²dt is the one evaluated).
+    const steps: { from: number[]; to: number[]; length: number; source: number }[] = [];
+    const driver = withBank.driver;
+    if (driver?.kind !== 'solid_state') throw new Error('a solid-state driver');
+    const drive = { driveVoltage: driver.busVoltage, currentLimit: driver.currentLimit, onTime: driver.onTime }; // full bridge
+    const burst = solidStateBurst(circuit, drive, (from, to, length, source) =>
+      steps.push({ from: Array.from(from.subarray(0, 4)), to: Array.from(to.subarray(0, 4)), length, source }),
+    );
+    expect(burst.primaryCurrentSquared).toBe(built.context.burstTankCurrentSquared);
+    // Each step resampled from its start by our own RK4 of the loop equations
+    //   L1 i1' + M i2' = e − R1 i1 − v1,  M i1' + L2 i2' = −R2 i2 − v2,  C1 v1' = i1,  C2 v2' = i2
+    // (Kirchhoff's voltage law, exact), with ∫ i1² dt by composite Simpson on 16 substeps.
+    const { primaryInductance: l1, secondaryInductance: l2, mutualInductance: mu } = circuit;
+    const det = l1 * l2 - mu * mu;
+    const slope = (y: number[], e: number): number[] => {
+      const a1 = e - circuit.primaryResistance * y[2] - y[0];
+      const a2 = -circuit.secondaryResistance * y[3] - y[1];
+      return [
+        y[2] / circuit.primaryCapacitance,
+        y[3] / circuit.secondaryCapacitance,
+        (l2 * a1 - mu * a2) / det,
+        (l1 * a2 - mu * a1) / det,
+      ];
+    };
+    const rk4 = (y: number[], e: number, h: number): number[] => {
+      const k1 = slope(y, e);
+      const k2 = slope(
+        y.map((v, c) => v + (h / 2) * k1[c]),
+        e,
+      );
+      const k3 = slope(
+        y.map((v, c) => v + (h / 2) * k2[c]),
+        e,
+      );
+      const k4 = slope(
+        y.map((v, c) => v + h * k3[c]),
+        e,
+      );
+      return y.map((v, c) => v + (h / 6) * (k1[c] + 2 * k2[c] + 2 * k3[c] + k4[c]));
+    };
+    const sub = 16;
+    let integral = 0;
+    let worstEnd = 0;
+    for (const { from, to, length, source } of steps) {
+      const h = length / sub;
+      let y = from;
+      let sum = y[2] * y[2];
+      for (let q = 1; q <= sub; q++) {
+        y = rk4(y, source, h);
+        sum += (q === sub ? 1 : q % 2 === 1 ? 4 : 2) * y[2] * y[2];
+      }
+      integral += (sum * h) / 3;
+      worstEnd = Math.max(worstEnd, Math.abs(y[2] - to[2]));
+    }
+    // the resample lands on the integrator's own step ends (one waveform, to 1e-6 of the peak current)
+    expect(worstEnd).toBeLessThan(1e-6 * burst.peakPrimaryCurrent);
+    // tank_rms_current = √(100 Hz · ∫i1²dt); the evaluation's trapezoidal rule on 256 steps per upper-mode
+    // period errs by about (2π/256)²/12 ≈ 5e-5 of the integral, so the rms agrees to 1e-4
+    const rms = Math.sqrt(100 * integral);
+    expect(Math.abs((b.tank_rms_current ?? Number.NaN) / rms - 1)).toBeLessThan(1e-4);
+    expect(
+      Math.abs((b.tank_bank_part_rms_current ?? Number.NaN) / (rms / (b.tank_bank_parallel ?? Number.NaN)) - 1),
+    ).toBeLessThan(1e-4);
+  });
+
   test('parts rated below the rms current make the design infeasible, naming the rating', () => {
     const rms = b.tank_bank_part_rms_current ?? 0;
     const weak = evaluateDesign({ ...withBank, tankBank: { ...bank, partRmsCurrentRating: rms / 2 } });
-    expect(weak.problems[0]?.field).toBe('tank_bank.part_rms_current_rating');
+    expect(weak.problems[0]?.field).toBe('tank.bank.part.rms_current_rating');
   });
 
   test('a fixed parallel count with an automatic series count is refused with its reason', () => {
     const fixed = evaluateDesign({ ...withBank, tankBank: { ...bank, parallel: 3 } });
-    expect(fixed.problems[0]?.field).toBe('tank_bank.parallel');
+    expect(fixed.problems[0]?.field).toBe('tank.bank.parallel');
   });
 });
