@@ -7,8 +7,7 @@
  */
 import { existsSync, mkdirSync, readdirSync } from 'node:fs';
 import { join } from 'node:path';
-import { DesignSpace, spaceDefinitionOf } from '../optimize/design-space.ts';
-import { inProcessEvaluator } from '../optimize/evaluate-batch.ts';
+import { spaceDefinitionOf } from '../optimize/design-space.ts';
 import type { ShouldStop } from '../optimize/stage-stop.ts';
 import {
   type SaltelliOutputs,
@@ -25,10 +24,11 @@ import {
   sensitivityShardDirectory,
   sensitivityShardFolder,
 } from '../run/sensitivity-run.ts';
+import { openEvaluator } from '../run/evaluator.ts';
 import { RUN_FILES } from '../run/run-directory.ts';
 import { describeShard, resolveShard } from '../run/shard.ts';
 import { lockRunOrRefuse } from '../run/sweep-setup.ts';
-import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
+import { defaultWorkerCount } from '../workers/pool.ts';
 import { commandError, fileError, optionError } from './input-errors.ts';
 import type { CliIo } from './io.ts';
 import { SAFETY_LINE, safetyBlock } from './safety.ts';
@@ -93,10 +93,7 @@ export async function sensitivityCommand(file: string, options: SensitivityOptio
   const lock = lockRunOrRefuse(directory);
   try {
     const threads = options.workers ?? defaultWorkerCount();
-    const evaluator =
-      threads === 0
-        ? inProcessEvaluator(new DesignSpace(plan.definition))
-        : createWorkerPool(plan.definition, { threads });
+    const evaluator = openEvaluator(plan.definition, threads);
     if (shard) io.err(`sensitivity: ${describeShard(shard)}\n`);
     const outputs = await runSensitivityStudy({
       journalPath: join(directory, SENSITIVITY_JOURNAL),
@@ -211,10 +208,7 @@ export async function sensitivityStage(
   const lock = lockRunOrRefuse(directory);
   try {
     const threads = options.workers ?? defaultWorkerCount();
-    const evaluator =
-      threads === 0
-        ? inProcessEvaluator(new DesignSpace(plan.definition))
-        : createWorkerPool(plan.definition, { threads });
+    const evaluator = openEvaluator(plan.definition, threads);
     const outputs = await runSensitivityStudy({
       journalPath: join(directory, SENSITIVITY_JOURNAL),
       identity,
