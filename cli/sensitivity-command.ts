@@ -7,8 +7,8 @@
  */
 import { existsSync, mkdirSync, readdirSync } from 'node:fs';
 import { join } from 'node:path';
-import { DesignSpace, spaceDefinitionOf } from '../optimize/design-space.ts';
-import { inProcessEvaluator } from '../optimize/evaluate-batch.ts';
+import { spaceDefinitionOf } from '../optimize/design-space.ts';
+import type { ShouldStop } from '../optimize/stage-stop.ts';
 import {
   type SaltelliOutputs,
   type SensitivityPlan,
@@ -24,13 +24,16 @@ import {
   sensitivityShardDirectory,
   sensitivityShardFolder,
 } from '../run/sensitivity-run.ts';
+import { openEvaluator } from '../run/evaluator.ts';
+import { RUN_FILES } from '../run/run-directory.ts';
 import { describeShard, resolveShard } from '../run/shard.ts';
 import { lockRunOrRefuse } from '../run/sweep-setup.ts';
-import { createWorkerPool, defaultWorkerCount } from '../workers/pool.ts';
+import { defaultWorkerCount } from '../workers/pool.ts';
 import { commandError, fileError, optionError } from './input-errors.ts';
 import type { CliIo } from './io.ts';
 import { SAFETY_LINE, safetyBlock } from './safety.ts';
-import { loadSweepFile } from './sweep-spec.ts';
+import { writeSummarySection } from './stage-outputs.ts';
+import { loadRunSpec, loadSweepFile, type SweepSpec } from './sweep-spec.ts';
 
 export interface SensitivityOptions {
   samples?: number;
@@ -54,7 +57,11 @@ function mergeDirectories(out: string, merge: string[] | boolean): string[] {
 }
 
 function planOf(file: string, samples: number): { plan: SensitivityPlan; identity: string } {
-  const spec = loadSweepFile(file);
+  return planOfSpec(loadSweepFile(file), file, samples);
+}
+
+/** The study of a read sweep file (`file` names it in messages): its plan, and its identity (the spec hash). */
+function planOfSpec(spec: SweepSpec, file: string, samples: number): { plan: SensitivityPlan; identity: string } {
   const k = spec.dimensions.length;
   if (k < 1 || k > 32) throw fileError(file, `sensitivity needs 1 to 32 swept fields, the file has ${k}`);
   const metrics = [...new Set([...spec.objectives.map((o) => o.metric), ...spec.constraints.map((c) => c.metric)])];
@@ -86,10 +93,7 @@ export async function sensitivityCommand(file: string, options: SensitivityOptio
   const lock = lockRunOrRefuse(directory);
   try {
     const threads = options.workers ?? defaultWorkerCount();
-    const evaluator =
-      threads === 0
-        ? inProcessEvaluator(new DesignSpace(plan.definition))
-        : createWorkerPool(plan.definition, { threads });
+    const evaluator = openEvaluator(plan.definition, threads);
     if (shard) io.err(`sensitivity: ${describeShard(shard)}\n`);
     const outputs = await runSensitivityStudy({
       journalPath: join(directory, SENSITIVITY_JOURNAL),
@@ -144,27 +148,81 @@ function basisLines(result: SpaceSensitivity, samples: number): string {
   return text;
 }
 
-/** Writes sensitivity.csv and sensitivity.json and prints the table with the cautions. */
-function writeSensitivityOutputs(out: string, plan: SensitivityPlan, outputs: SaltelliOutputs, io: CliIo): void {
+/**
+ * Writes sensitivity.csv and sensitivity.json and prints the table with the cautions; returns what
+ * sensitivity.json holds besides its safety line (a sweep's sensitivity stage puts it in summary.json).
+ */
+function writeSensitivityOutputs(
+  out: string,
+  plan: SensitivityPlan,
+  outputs: SaltelliOutputs,
+  io: CliIo,
+): Record<string, unknown> {
   const result = sensitivityOf(plan, outputs);
   const k = plan.definition.dimensions.length;
   const fields = plan.definition.dimensions.map((d) => d.path.join('.'));
   const rows = tableRows(fields, result, plan.samples);
   const header = ['field', 'metric', 'S1', 'S1_low', 'S1_high', 'ST', 'ST_low', 'ST_high', 'kept'];
   writeFileAtomicSync(join(out, 'sensitivity.csv'), toCsv(header, rows));
-  const json = {
-    safety: SAFETY_LINE,
+  const { feasible, impossible, points, indices } = result.feasibility;
+  const study = {
     samples: plan.samples,
     evaluations: plan.samples * (k + 2),
     fields,
     metrics: result.metrics,
-    feasibility: result.feasibility,
+    // The share of the 2N independent points that are feasible candidates, beside the counts it comes from.
+    feasibility: { feasible, impossible, points, share: feasible / points, indices },
   };
-  writeFileAtomicSync(join(out, 'sensitivity.json'), `${JSON.stringify(json, null, 2)}\n`);
+  writeFileAtomicSync(join(out, 'sensitivity.json'), `${JSON.stringify({ safety: SAFETY_LINE, ...study }, null, 2)}\n`);
   const fmt = (v: number | string | null) => (typeof v === 'number' ? v.toFixed(3).padStart(7) : String(v ?? '—'));
   io.out(`Sobol indices, N = ${plan.samples} (${plan.samples * (k + 2)} evaluations), 95 % bootstrap intervals\n`);
   for (const row of rows) {
     io.out(`${String(row[1]).padEnd(28)} ${String(row[0]).padEnd(28)} S1 ${fmt(row[2])}  ST ${fmt(row[5])}\n`);
   }
   io.out(`${basisLines(result, plan.samples)}\n${safetyBlock()}\n`);
+  return study;
+}
+
+/** The name of the section of summary.json that a sweep's sensitivity stage writes. */
+export const SOBOL_SECTION = 'sobol';
+
+export interface SensitivityStageOptions {
+  samples: number;
+  workers?: number;
+  /** Polled between batches (the stages' stop request): true stops with StageStopped, the journal kept. */
+  shouldStop?: ShouldStop;
+}
+
+/**
+ * A sweep's `- sensitivity: { samples }` stage on its finished run directory: the study of `coilfront
+ * sensitivity DIR/spec.yaml --samples N --out DIR` (the same plan, identity and journal, so the same files),
+ * and the `sobol` section of summary.json, which holds what sensitivity.json holds less its safety line.
+ */
+export async function sensitivityStage(
+  directory: string,
+  options: SensitivityStageOptions,
+  io: CliIo,
+): Promise<number> {
+  const file = join(directory, RUN_FILES.spec);
+  const { plan, identity } = planOfSpec(loadRunSpec(directory), file, options.samples);
+  const lock = lockRunOrRefuse(directory);
+  try {
+    const threads = options.workers ?? defaultWorkerCount();
+    const evaluator = openEvaluator(plan.definition, threads);
+    const outputs = await runSensitivityStudy({
+      journalPath: join(directory, SENSITIVITY_JOURNAL),
+      identity,
+      plan,
+      evaluator,
+      threads,
+      notice: (line) => io.err(`${line}\n`),
+      ...(options.shouldStop ? { shouldStop: options.shouldStop } : {}),
+    });
+    const study = writeSensitivityOutputs(directory, plan, outputs, io);
+    const path = writeSummarySection(directory, SOBOL_SECTION, study);
+    io.out(`the same indices are in the '${SOBOL_SECTION}' section of ${path}\n`);
+    return 0;
+  } finally {
+    lock.release();
+  }
 }

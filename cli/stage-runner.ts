@@ -1,12 +1,14 @@
 /**
  * Runs the stages of a sweep file (`sweep.stages`) on a finished run directory, each through the
- * function of its command (evolveCommand, refineCommand), exactly as if the user had typed them.
+ * function of its command (evolveCommand, refineCommand; sensitivityStage, the sensitivity command's study
+ * with its outputs also in summary.json), exactly as if the user had typed them.
  *
  * Progress: stages.json in the run directory lists the stages finished so far (written atomically
  * after the sweep's outputs and after each stage). `sweep --resume DIR` of a run with stages.json skips
  * the finished sweep and continues at the first stage not listed there; a stage cut off mid-way
  * continues from its own journal (evolve) or runs again from the sweep's checkpoint (refine, which is
- * a pure function of the run), so the files end byte-identical to an uninterrupted run.
+ * a pure function of the run; sensitivity from its journal), so the files end byte-identical to an
+ * uninterrupted run.
  */
 import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -17,6 +19,7 @@ import { RUN_FILES } from '../run/run-directory.ts';
 import { evolveCommand } from './evolve-command.ts';
 import type { CliIo } from './io.ts';
 import { refineCommand } from './refine-command.ts';
+import { sensitivityStage } from './sensitivity-command.ts';
 import { type StageSpec, stageCommand } from './sweep-stages.ts';
 
 /** What stages.json holds: the stages finished so far, in order, as the sweep file gave them. */
@@ -108,6 +111,8 @@ function runStage(
   io: CliIo,
 ): Promise<number> {
   const pool = workers !== undefined ? { workers } : {};
+  if (stage.stage === 'sensitivity')
+    return sensitivityStage(directory, { samples: stage.samples, ...pool, shouldStop }, io);
   if (stage.stage === 'evolve')
     return evolveCommand(
       directory,

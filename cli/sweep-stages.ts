@@ -1,16 +1,19 @@
 /**
- * The pipeline shorthand of sweep files: `sweep.stages`, a list of later stages (`evolve`, `refine`)
- * that `coilfront sweep` runs on the run directory once the sweep is finished, each exactly as the
- * command of the same name would (cli/stage-runner.ts). Here: reading and describing the list.
+ * The pipeline shorthand of sweep files: `sweep.stages`, a list of later stages (`evolve`, `refine`,
+ * `sensitivity`) that `coilfront sweep` runs on the run directory once the sweep is finished, each exactly
+ * as the command of the same name would (cli/stage-runner.ts). Here: reading and describing the list.
  */
+import { join } from 'node:path';
 import type { InputIssue } from '../run/input-error.ts';
+import { RUN_FILES } from '../run/run-directory.ts';
 import { suggest } from './suggest.ts';
 import { describeValue } from './units.ts';
 
-/** The defaults of the stages: those of the `evolve` and `refine` commands. */
+/** The defaults of the stages: those of the `evolve`, `refine` and `sensitivity` commands. */
 export const STAGE_DEFAULTS = {
   evolve: { evaluations: 2000, population: 100 },
   refine: { starts: 8, evaluations: 2000 },
+  sensitivity: { samples: 512 },
 } as const;
 
 /** The size of a sweep problem, from which a stage's unset settings are chosen. */
@@ -44,10 +47,11 @@ export function stageDefaults(size: ProblemSize): {
 
 export type StageSpec =
   | { stage: 'evolve'; evaluations: number; population: number; seed?: number }
-  | { stage: 'refine'; starts: number; evaluations: number };
+  | { stage: 'refine'; starts: number; evaluations: number }
+  | { stage: 'sensitivity'; samples: number };
 
 type StageName = StageSpec['stage'];
-const STAGE_NAMES: StageName[] = ['evolve', 'refine'];
+const STAGE_NAMES: StageName[] = ['evolve', 'refine', 'sensitivity'];
 /** Each stage's settings: the least value, and the greatest (seeds are below 2^32). */
 const STAGE_SETTINGS: Record<StageName, Record<string, [number, number]>> = {
   evolve: {
@@ -56,7 +60,11 @@ const STAGE_SETTINGS: Record<StageName, Record<string, [number, number]>> = {
     seed: [0, 2 ** 32 - 1],
   },
   refine: { starts: [1, Number.MAX_SAFE_INTEGER], evaluations: [1, Number.MAX_SAFE_INTEGER] },
+  sensitivity: { samples: [2, Number.MAX_SAFE_INTEGER] },
 };
+
+/** The most swept fields a sensitivity study takes (the Saltelli design's 2k Sobol dimensions). */
+export const SENSITIVITY_MAX_FIELDS = 32;
 
 function isMapping(value: unknown): value is Record<string, unknown> {
   return typeof value === 'object' && value !== null && !Array.isArray(value);
@@ -80,7 +88,7 @@ export function readStages(input: unknown, issues: InputIssue[], size?: ProblemS
   }
   const stages: StageSpec[] = [];
   for (let i = 0; i < input.length; i++) {
-    const stage = readStage(input[i], [...base, i], issues, defaults);
+    const stage = readStage(input[i], [...base, i], issues, defaults, size);
     if (stage === null) return [];
     stages.push(stage);
   }
@@ -93,6 +101,7 @@ function readStage(
   path: (string | number)[],
   issues: InputIssue[],
   defaults: ReturnType<typeof stageDefaults>,
+  size: ProblemSize | undefined,
 ): StageSpec | null {
   let name: string;
   let settings: unknown;
@@ -105,7 +114,7 @@ function readStage(
   } else {
     issues.push({
       path,
-      message: `expected one stage, { evolve: { ... } } or { refine: { ... } }, got ${describeValue(item)}`,
+      message: `expected one stage, { evolve: { ... } }, { refine: { ... } } or { sensitivity: { ... } }, got ${describeValue(item)}`,
     });
     return null;
   }
@@ -127,11 +136,20 @@ function readStage(
       population: values.population ?? defaults.evolve.population,
       ...(values.seed !== undefined ? { seed: values.seed } : {}),
     };
-  return {
-    stage,
-    starts: values.starts ?? defaults.refine.starts,
-    evaluations: values.evaluations ?? defaults.refine.evaluations,
-  };
+  if (stage === 'refine')
+    return {
+      stage,
+      starts: values.starts ?? defaults.refine.starts,
+      evaluations: values.evaluations ?? defaults.refine.evaluations,
+    };
+  if (size && (size.dimensions < 1 || size.dimensions > SENSITIVITY_MAX_FIELDS)) {
+    issues.push({
+      path,
+      message: `sensitivity needs 1 to ${SENSITIVITY_MAX_FIELDS} swept fields, the file has ${size.dimensions}`,
+    });
+    return null;
+  }
+  return { stage, samples: values.samples ?? STAGE_DEFAULTS.sensitivity.samples };
 }
 
 /** The settings of one stage at `path` (whole numbers within their bounds); null after pushing a problem. */
@@ -177,6 +195,8 @@ function readStageSettings(
 
 /** The command a stage stands for, as a user would type it after the sweep. */
 export function stageCommand(stage: StageSpec, directory: string): string {
+  if (stage.stage === 'sensitivity')
+    return `npx coilfront sensitivity ${join(directory, RUN_FILES.spec)} --samples ${stage.samples} --out ${directory}`;
   if (stage.stage === 'evolve')
     return `npx coilfront evolve ${directory} --evaluations ${stage.evaluations} --population ${stage.population}${stage.seed !== undefined ? ` --seed ${stage.seed}` : ''}`;
   return `npx coilfront refine ${directory} --starts ${stage.starts} --evaluations ${stage.evaluations}`;
@@ -184,6 +204,7 @@ export function stageCommand(stage: StageSpec, directory: string): string {
 
 /** A stage in words, for `check`: `evolve (2000 evaluations, population 100)`. */
 export function describeStage(stage: StageSpec): string {
+  if (stage.stage === 'sensitivity') return `sensitivity (${stage.samples} base samples)`;
   if (stage.stage === 'evolve')
     return `evolve (${stage.evaluations} evaluations, population ${stage.population}${stage.seed !== undefined ? `, seed ${stage.seed}` : ''})`;
   return `refine (${stage.starts} starts, ${stage.evaluations} evaluations)`;
@@ -206,12 +227,14 @@ export function stagesSchema(): Record<string, unknown> {
   });
   return {
     type: 'array',
-    description: 'stages run in order on the run directory after the sweep, as the evolve and refine commands',
+    description:
+      'stages run in order on the run directory after the sweep, as the evolve, refine and sensitivity commands',
     items: {
       oneOf: [
         { enum: [...STAGE_NAMES] },
         form('evolve', { evaluations: whole(1), population: whole(4), seed: whole(0, 4294967295) }),
         form('refine', { starts: whole(1), evaluations: whole(1) }),
+        form('sensitivity', { samples: whole(2) }),
       ],
     },
   };

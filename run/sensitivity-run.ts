@@ -11,6 +11,7 @@
 import { existsSync, unlinkSync } from 'node:fs';
 import { join } from 'node:path';
 import type { BatchEvaluator } from '../optimize/evaluate-batch.ts';
+import { type ShouldStop, StageStopped } from '../optimize/stage-stop.ts';
 import {
   recordSaltelliRows,
   SaltelliDesign,
@@ -39,6 +40,11 @@ export interface SensitivityStudy {
   threads: number;
   shard?: Shard | null;
   notice: (line: string) => void;
+  /**
+   * Polled between batches (a sweep's stages pass their stop request): true starts no further batch, awaits
+   * those in flight, keeps the journal and throws StageStopped.
+   */
+  shouldStop?: ShouldStop;
 }
 
 /** The first record of a study's journal. */
@@ -138,7 +144,7 @@ export async function runSensitivityStudy(study: SensitivityStudy): Promise<Salt
       batchCount: batches.length,
       threads: study.threads,
       taskOf: (b) => saltelliTask(plan.definition, design, batches[b][0], batches[b][1]),
-      stopRequested: () => false,
+      stopRequested: () => study.shouldStop?.() ?? false,
       take: (b, result) => {
         const [s, count] = batches[b];
         recordSaltelliRows(plan, outputs, s, result);
@@ -154,6 +160,7 @@ export async function runSensitivityStudy(study: SensitivityStudy): Promise<Salt
       },
     });
     if (failure) throw failure.error;
+    if (done < batches.length) throw new StageStopped('sensitivity');
   } finally {
     await study.evaluator.close();
     journal.close();

@@ -75,26 +75,36 @@ export interface SobolOptions {
   seed?: number;
 }
 
-/** The point estimates for the rows listed in `pick` (indices into 0 .. N − 1). */
+/**
+ * The point estimates for the rows listed in `pick` (indices into 0 .. N − 1). The values are centred on the
+ * mean of the picked A and B rows first: Vᵢ's expectation is unchanged by any constant c taken from f(B)
+ * (exact: E[f(AB⁽ⁱ⁾) − f(A)] = 0, the two rows having the same law), while uncentred the product carries the
+ * mean's square into its variance, and an output whose spread is a small fraction of its mean (a narrow
+ * tolerance box) gets first-order indices that are mostly noise (ΣS1 ≈ 3 measured on the coil model at
+ * ±1 %). The variance is computed about the same mean (two passes), free of the cancellation of Σy² − ȳ².
+ */
 function estimate(values: ArrayLike<number>, n: number, k: number, pick: Uint32Array | null) {
   let sum = 0;
+  for (let t = 0; t < n; t++) {
+    const j = pick === null ? t : pick[t];
+    sum += values[j] + values[n + j];
+  }
+  const mean = sum / (2 * n);
   let sumSq = 0;
   const first = new Float64Array(k);
   const total = new Float64Array(k);
   for (let t = 0; t < n; t++) {
     const j = pick === null ? t : pick[t];
-    const a = values[j];
-    const b = values[n + j];
-    sum += a + b;
+    const a = values[j] - mean;
+    const b = values[n + j] - mean;
     sumSq += a * a + b * b;
     for (let i = 0; i < k; i++) {
-      const ab = values[(i + 2) * n + j];
+      const ab = values[(i + 2) * n + j] - mean;
       first[i] += b * (ab - a);
       total[i] += (a - ab) * (a - ab);
     }
   }
-  const mean = sum / (2 * n);
-  const variance = sumSq / (2 * n) - mean * mean;
+  const variance = sumSq / (2 * n);
   for (let i = 0; i < k; i++) {
     first[i] = first[i] / n / variance;
     total[i] = total[i] / (2 * n) / variance;
