@@ -30,7 +30,7 @@ export function metricText(key: string, value: number | null | undefined): strin
 }
 
 /** The range a constraint allows, in display units: '≤ 400 kV/m', '≥ 1.2', '100 kHz … 300 kHz'. */
-function constraintText(constraint: ConstraintDefinition): string {
+export function constraintText(constraint: Pick<ConstraintDefinition, 'metric' | 'min' | 'max'>): string {
   const low = constraint.min === undefined ? null : metricText(constraint.metric, constraint.min);
   const high = constraint.max === undefined ? null : metricText(constraint.metric, constraint.max);
   if (low !== null && high !== null) return `${low} … ${high}`;

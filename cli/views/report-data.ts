@@ -7,6 +7,8 @@ import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { RUN_FILES } from '../../run/run-directory.ts';
 import { METRIC_DISPLAY } from '../display-units.ts';
+import { summaryQuantileSlots } from '../quantile-merits.ts';
+import { constraintText } from '../top-candidates.ts';
 import { KEY_FIGURES } from './design-drawing.ts';
 import type { ReportData } from './report-page.ts';
 import { readRunTable, type RunTable } from './run-table.ts';
@@ -18,6 +20,8 @@ export interface ReportSummary {
   impossible_by?: Record<string, number>;
   objectives?: { metric: string; sense: string }[];
   sensitivities?: Record<string, Record<string, number | null>>;
+  version?: number;
+  build_quantiles?: unknown;
 }
 
 /** The CSV column of a metric: its name with the display unit (`resonant_frequency_kHz`). */
@@ -30,15 +34,20 @@ function rowsOf(table: RunTable): Record<string, number | string | null>[] {
   return table.rows.map((row) => Object.fromEntries(table.header.map((h, c) => [h, row[c]])));
 }
 
-/** A constraint as a bar label: `resonant_frequency 90000 … 300000`. */
+/** A constraint as a bar label in display units: `resonant_frequency 90 kHz … 300 kHz`, `overall_height ≤ 2.4 m`. */
 function constraintLabel(constraint: { metric: string; min?: number; max?: number }): string {
-  const bounds = [
-    constraint.min !== undefined ? `≥ ${constraint.min}` : '',
-    constraint.max !== undefined ? `≤ ${constraint.max}` : '',
-  ]
-    .filter((b) => b !== '')
-    .join(' and ');
-  return `${constraint.metric} ${bounds} (SI)`;
+  return `${constraint.metric} ${constraintText(constraint)}`;
+}
+
+/** Column titles: the unit's title, and for a build_quantile_k column what it holds (summary.json version 2). */
+function columnTitles(header: readonly string[], summary: ReportSummary): Record<string, string> {
+  const slots = summaryQuantileSlots(summary);
+  return Object.fromEntries(
+    header.map((h) => {
+      const slot = slots.find((s) => h === s.column || h.startsWith(`${s.column}_`));
+      return [h, slot ? `${columnTitle(h)}: ${slot.label} over the tolerance draws` : columnTitle(h)];
+    }),
+  );
 }
 
 /** The columns of the report: the plot's axes, the key columns of a design, the table's columns. */
@@ -98,7 +107,7 @@ export function reportData(
     rejections,
     objectives,
     axisColumns,
-    titles: Object.fromEntries(candidates.header.map((h) => [h, columnTitle(h)])),
+    titles: columnTitles(candidates.header, summary),
     x,
     y,
     candidates: candidateRows,

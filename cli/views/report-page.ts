@@ -365,7 +365,7 @@ function studiesPart(parts: string[], data: ReportData): void {
   if (data.globalIndices) {
     parts.push('<section id="global-indices"><h2>Global sensitivity (Sobol indices)</h2>');
     parts.push(
-      '<p class="note">From sensitivity.csv in the run (npx coilfront sensitivity … --out RUN): S1 the share of a metric\'s variance a field explains alone, ST with its interactions, 95 % bootstrap intervals.</p>',
+      '<p class="note">From sensitivity.csv in the run (npx coilfront sensitivity … --out RUN): S1 the share of a metric\'s variance a field explains alone, ST with its interactions, 95 % bootstrap intervals. Rows whose metric is <code>feasible</code> are the indices of the 0/1 feasibility indicator over every sample; a metric\'s own indices use only the samples whose rows all have it (the kept column), so where designs could not be built they are indicative.</p>',
     );
     studyTable(parts, data.globalIndices, (value) => value.toFixed(3));
   }

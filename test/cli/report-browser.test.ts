@@ -49,6 +49,13 @@ describe('coilfront report (the file)', () => {
     expect(html).toContain('local electrical codes and licensed practice');
   });
 
+  it('labels the rejection bars in display units, as the sweep file wrote the limits', () => {
+    const html = readFileSync(reportPath, 'utf8');
+    expect(html).toContain('<div>overall_height ≤ 2.4 m</div>');
+    expect(html).toContain('<div>resonant_frequency 90 kHz … 300 kHz</div>');
+    expect(html).not.toContain('(SI)');
+  });
+
   it('inlines every script: no script or style element refers to another file', () => {
     const html = readFileSync(reportPath, 'utf8');
     expect(html).not.toMatch(/<script[^>]+src=/i);
