@@ -5,18 +5,11 @@
  * `--shard k/N` blocks merged with `--merge`. Writes sensitivity.csv and sensitivity.json into --out, each
  * written whole then renamed.
  */
-import { existsSync, mkdirSync, readdirSync } from 'node:fs';
+import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { spaceDefinitionOf } from '../optimize/design-space.ts';
 import type { ShouldStop } from '../optimize/stage-stop.ts';
-import {
-  type SaltelliOutputs,
-  type SensitivityPlan,
-  type SpaceSensitivity,
-  sensitivityOf,
-} from '../optimize/sensitivity/index.ts';
-import { toCsv } from '../run/csv.ts';
-import { writeFileAtomicSync } from '../run/durable/atomic-write.ts';
+import type { SensitivityPlan } from '../optimize/sensitivity/index.ts';
 import {
   readSensitivityShards,
   runSensitivityStudy,
@@ -31,7 +24,11 @@ import { lockRunOrRefuse } from '../run/sweep-setup.ts';
 import { defaultWorkerCount } from '../workers/pool.ts';
 import { commandError, fileError, optionError } from './input-errors.ts';
 import type { CliIo } from './io.ts';
-import { SAFETY_LINE, safetyBlock } from './safety.ts';
+import { shardDirectoriesToMerge } from './shard-directories.ts';
+import { SAFETY_LINE } from './safety.ts';
+import { writeSensitivityOutputs } from './sensitivity-outputs.ts';
+
+export { FEASIBLE_ROW } from './sensitivity-outputs.ts';
 import { writeSummarySection } from './stage-outputs.ts';
 import { loadRunSpec, loadSweepFile, type SweepSpec } from './sweep-spec.ts';
 
@@ -43,17 +40,6 @@ export interface SensitivityOptions {
   shard?: string;
   /** Merge the shards (these directories, or every one under `<out>/sensitivity-shards` when `true`). */
   merge?: string[] | boolean;
-}
-
-/** The name of the feasibility indicator's rows in sensitivity.csv. */
-export const FEASIBLE_ROW = 'feasible';
-
-function mergeDirectories(out: string, merge: string[] | boolean): string[] {
-  if (Array.isArray(merge) && merge.length > 0) return merge;
-  const folder = sensitivityShardFolder(out);
-  const found = existsSync(folder) ? readdirSync(folder).filter((name) => /^\d+-of-\d+$/.test(name)) : [];
-  if (found.length === 0) throw optionError('--merge', `no shard directories given, and none in ${folder}`);
-  return found.sort((a, b) => Number(a.split('-')[0]) - Number(b.split('-')[0])).map((name) => join(folder, name));
 }
 
 function planOf(file: string, samples: number): { plan: SensitivityPlan; identity: string } {
@@ -82,7 +68,11 @@ export async function sensitivityCommand(file: string, options: SensitivityOptio
   const { plan, identity } = planOf(file, samples);
   const out = options.out ?? '.';
   if (options.merge) {
-    const outputs = readSensitivityShards(identity, plan, mergeDirectories(out, options.merge));
+    const outputs = readSensitivityShards(
+      identity,
+      plan,
+      shardDirectoriesToMerge(sensitivityShardFolder(out), options.merge),
+    );
     mkdirSync(out, { recursive: true });
     writeSensitivityOutputs(out, plan, outputs, io);
     return 0;
@@ -116,71 +106,6 @@ export async function sensitivityCommand(file: string, options: SensitivityOptio
   } finally {
     lock.release();
   }
-}
-
-type Row = (string | number | null)[];
-
-function tableRows(fields: readonly string[], result: SpaceSensitivity, samples: number): Row[] {
-  const rows: Row[] = [];
-  const push = (metric: string, indices: SpaceSensitivity['metrics'][number]['indices'], kept: number) => {
-    for (let d = 0; d < fields.length; d++) {
-      const s = indices?.first[d];
-      const t = indices?.total[d];
-      rows.push([fields[d], metric, s?.value ?? null, s?.low ?? null, s?.high ?? null]);
-      rows[rows.length - 1].push(t?.value ?? null, t?.low ?? null, t?.high ?? null, kept);
-    }
-  };
-  for (const metric of result.metrics) push(metric.metric, metric.indices, metric.kept);
-  push(FEASIBLE_ROW, result.feasibility.indices, samples);
-  return rows;
-}
-
-/** The console lines on feasibility and on metrics whose samples were not all kept. */
-function basisLines(result: SpaceSensitivity, samples: number): string {
-  const f = result.feasibility;
-  const share = (count: number) => `${((100 * count) / f.points).toFixed(1)} %`;
-  let text = `feasible: ${f.feasible} of ${f.points} independent points (${share(f.feasible)}); infeasible ${share(f.points - f.feasible)}, of which could not be built ${share(f.impossible)}\n`;
-  if (f.indices === null) text += `feasibility does not vary over these points: no indices for '${FEASIBLE_ROW}'\n`;
-  for (const metric of result.metrics) {
-    if (metric.basis === 'all') continue;
-    text += `${metric.metric}: null at some points; indices over the ${metric.kept} of ${samples} samples whose every row has it (complete blocks: exact for a box-shaped region, otherwise indicative)\n`;
-  }
-  return text;
-}
-
-/**
- * Writes sensitivity.csv and sensitivity.json and prints the table with the cautions; returns what
- * sensitivity.json holds besides its safety line (a sweep's sensitivity stage puts it in summary.json).
- */
-function writeSensitivityOutputs(
-  out: string,
-  plan: SensitivityPlan,
-  outputs: SaltelliOutputs,
-  io: CliIo,
-): Record<string, unknown> {
-  const result = sensitivityOf(plan, outputs);
-  const k = plan.definition.dimensions.length;
-  const fields = plan.definition.dimensions.map((d) => d.path.join('.'));
-  const rows = tableRows(fields, result, plan.samples);
-  const header = ['field', 'metric', 'S1', 'S1_low', 'S1_high', 'ST', 'ST_low', 'ST_high', 'kept'];
-  writeFileAtomicSync(join(out, 'sensitivity.csv'), toCsv(header, rows));
-  const { feasible, impossible, points, indices } = result.feasibility;
-  const study = {
-    samples: plan.samples,
-    evaluations: plan.samples * (k + 2),
-    fields,
-    metrics: result.metrics,
-    // The share of the 2N independent points that are feasible candidates, beside the counts it comes from.
-    feasibility: { feasible, impossible, points, share: feasible / points, indices },
-  };
-  writeFileAtomicSync(join(out, 'sensitivity.json'), `${JSON.stringify({ safety: SAFETY_LINE, ...study }, null, 2)}\n`);
-  const fmt = (v: number | string | null) => (typeof v === 'number' ? v.toFixed(3).padStart(7) : String(v ?? '—'));
-  io.out(`Sobol indices, N = ${plan.samples} (${plan.samples * (k + 2)} evaluations), 95 % bootstrap intervals\n`);
-  for (const row of rows) {
-    io.out(`${String(row[1]).padEnd(28)} ${String(row[0]).padEnd(28)} S1 ${fmt(row[2])}  ST ${fmt(row[5])}\n`);
-  }
-  io.out(`${basisLines(result, plan.samples)}\n${safetyBlock()}\n`);
-  return study;
 }
 
 /** The name of the section of summary.json that a sweep's sensitivity stage writes. */

@@ -4,13 +4,12 @@
  * naming it) and the shard directories `--merge` reads. The study of a run's candidates is built in
  * cli/tolerance-candidates.ts.
  */
-import { existsSync, readdirSync } from 'node:fs';
-import { join } from 'node:path';
 import type { SpaceDefinition } from '../optimize/design-space.ts';
 import { ToleranceSetupError, toleranceSpace } from '../optimize/tolerance/index.ts';
 import type { ConstraintDefinition, ObjectiveDefinition } from '../optimize/sweep-state.ts';
 import { hashOf, shardFolder, type StudyCandidate } from '../run/tolerance-run.ts';
 import { fieldError, optionError } from './input-errors.ts';
+import { shardDirectoriesToMerge } from './shard-directories.ts';
 import { loadDesignFile } from './load-design.ts';
 import type { ToleranceFile } from './tolerance-file.ts';
 import { type StudySource, toleranceFiles } from './tolerance-outputs.ts';
@@ -86,9 +85,5 @@ export function studySpace(setup: StudySetup, options: ToleranceCommandOptions) 
 
 /** The shard directories `--merge` names, or every one the study's shards folder holds. */
 export function mergeDirectories(setup: StudySetup, merge: string[] | boolean): string[] {
-  if (Array.isArray(merge) && merge.length > 0) return merge;
-  const folder = shardFolder(setup.out, toleranceFiles(setup.source).journal);
-  const found = existsSync(folder) ? readdirSync(folder).filter((name) => /^\d+-of-\d+$/.test(name)) : [];
-  if (found.length === 0) throw optionError('--merge', `no shard directories given, and none in ${folder}`);
-  return found.sort((a, b) => Number(a.split('-')[0]) - Number(b.split('-')[0])).map((name) => join(folder, name));
+  return shardDirectoriesToMerge(shardFolder(setup.out, toleranceFiles(setup.source).journal), merge);
 }
