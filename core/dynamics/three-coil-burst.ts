@@ -35,14 +35,14 @@ export interface ThreeCoilBurst {
 const STEPS_PER_CYCLE = 256;
 const MAX_STEPS = 1_000_000;
 
+/** One RK4 step of the loop equations from y over dt with the bridge at e volts, into out. */
+type Stepper = (y: Float64Array, e: number, dt: number, out: Float64Array) => void;
+
 /**
  * One classical RK4 step (Butcher 2008, §23) of the three loop equations with the bridge voltage e
  * in the tank loop: L y'' = e·[1, 0, 0] − R y' − S y, the 2 × 2 inductance block inverted exactly.
  */
-function rk4Stepper(
-  circuit: ThreeCoilCircuit,
-  network: LoopNetwork,
-): (y: Float64Array, e: number, dt: number, out: Float64Array) => void {
+function rk4Stepper(circuit: ThreeCoilCircuit, network: LoopNetwork): Stepper {
   const { primaryInductance: l1, driverInductance: l2, mutualInductance: m, resonatorInductance: l3 } = circuit;
   const det = l1 * l2 - m * m;
   const s = network.elastance;
@@ -76,6 +76,83 @@ function rk4Stepper(
   return step;
 }
 
+/** Largest magnitudes over the burst: resonator top, junction and tank voltages, primary current. */
+interface BurstPeaks {
+  voltage: number;
+  junction: number;
+  tank: number;
+  current: number;
+}
+
+function recordPeaks(peaks: BurstPeaks, state: Float64Array, circuit: ThreeCoilCircuit): void {
+  peaks.voltage = Math.max(peaks.voltage, Math.abs(state[2] / circuit.resonatorCapacitance));
+  peaks.junction = Math.max(peaks.junction, Math.abs((state[1] - state[2]) / circuit.junctionCapacitance));
+  peaks.tank = Math.max(peaks.tank, Math.abs(state[0] / circuit.primaryCapacitance));
+  peaks.current = Math.max(peaks.current, Math.abs(state[3]));
+}
+
+type StepEvent = 'switch' | 'limit' | 'on_time' | null;
+
+/** The state a step of one drive polarity starts from, with the scratch it uses. */
+interface StepFrom {
+  step: Stepper;
+  y: Float64Array;
+  next: Float64Array;
+  trial: Float64Array;
+  /** The bridge's voltage with its polarity, V. */
+  e: number;
+  /** +1 or −1: the sign of the primary current the bridge drives. */
+  polarity: number;
+}
+
+/** Fraction of the step at which `crossed` first holds, by bisection (redoing the step). */
+function locateCrossing(from: StepFrom, crossed: (state: Float64Array) => boolean, dt: number): number {
+  let low = 0;
+  let high = dt;
+  for (let iteration = 0; iteration < 40; iteration++) {
+    const middle = 0.5 * (low + high);
+    from.step(from.y, from.e, middle, from.trial);
+    if (crossed(from.trial)) high = middle;
+    else low = middle;
+  }
+  return high;
+}
+
+/**
+ * One step of at most `h` from `from.y` into `from.next`, cut short at the drive's on time, at the
+ * current limit or where the primary current reverses (the bridge switches): its length and event.
+ */
+function eventStep(
+  from: StepFrom,
+  h: number,
+  time: number,
+  drive: BridgeDrive,
+  limit: number,
+): { dt: number; event: StepEvent } {
+  let dt = h;
+  let event: StepEvent = null;
+  if (drive.onTime !== undefined && time + dt >= drive.onTime) {
+    dt = drive.onTime - time;
+    event = 'on_time';
+  }
+  from.step(from.y, from.e, dt, from.next);
+  const reversed = (state: Float64Array) => from.polarity * state[3] < 0;
+  const overLimit = (state: Float64Array) => Math.abs(state[3]) >= limit;
+  if (overLimit(from.next)) {
+    dt = locateCrossing(from, overLimit, dt);
+    event = 'limit';
+  }
+  if (reversed(from.next) && time > 0) {
+    const at = locateCrossing(from, reversed, dt);
+    if (at <= dt) {
+      dt = at;
+      event = 'switch';
+    }
+  }
+  if (event !== null && event !== 'on_time') from.step(from.y, from.e, dt, from.next);
+  return { dt, event };
+}
+
 /**
  * Simulates one burst from rest.
  * @returns null when the circuit has no modes (L or S not positive definite)
@@ -97,58 +174,17 @@ export function threeCoilBurst(circuit: ThreeCoilCircuit, drive: BridgeDrive): T
   let switchings = 0;
   let fromSource = 0;
   let dissipated = 0;
-  let peakVoltage = 0;
-  let peakJunction = 0;
-  let peakTank = 0;
-  let peakCurrent = 0;
+  const peaks: BurstPeaks = { voltage: 0, junction: 0, tank: 0, current: 0 };
   let endReason: BurstEnd = 'step_limit';
   const E = drive.driveVoltage;
   const limit = drive.currentLimit ?? Number.POSITIVE_INFINITY;
-  const record = (state: Float64Array) => {
-    peakVoltage = Math.max(peakVoltage, Math.abs(state[2] / circuit.resonatorCapacitance));
-    peakJunction = Math.max(peakJunction, Math.abs((state[1] - state[2]) / circuit.junctionCapacitance));
-    peakTank = Math.max(peakTank, Math.abs(state[0] / circuit.primaryCapacitance));
-    peakCurrent = Math.max(peakCurrent, Math.abs(state[3]));
-  };
-  /** Fraction of the step at which `crossed` first holds, by bisection (redoing the step). */
-  const locate = (crossed: (state: Float64Array) => boolean, dt: number): number => {
-    let low = 0;
-    let high = dt;
-    for (let iteration = 0; iteration < 40; iteration++) {
-      const middle = 0.5 * (low + high);
-      step(y, polarity * E, middle, trial);
-      if (crossed(trial)) high = middle;
-      else low = middle;
-    }
-    return high;
-  };
   for (let n = 0; n < MAX_STEPS; n++) {
-    let dt = h;
-    let event: 'switch' | 'limit' | 'on_time' | null = null;
-    if (drive.onTime !== undefined && time + dt >= drive.onTime) {
-      dt = drive.onTime - time;
-      event = 'on_time';
-    }
-    step(y, polarity * E, dt, next);
-    const reversed = (state: Float64Array) => polarity * state[3] < 0;
-    const overLimit = (state: Float64Array) => Math.abs(state[3]) >= limit;
-    if (overLimit(next)) {
-      dt = locate(overLimit, dt);
-      event = 'limit';
-    }
-    if (reversed(next) && time > 0) {
-      const at = locate(reversed, dt);
-      if (at <= dt) {
-        dt = at;
-        event = 'switch';
-      }
-    }
-    if (event !== null && event !== 'on_time') step(y, polarity * E, dt, next);
+    const { dt, event } = eventStep({ step, y, next, trial, e: polarity * E, polarity }, h, time, drive, limit);
     fromSource += polarity * E * (next[0] - y[0]);
     dissipated += 0.5 * dt * (dissipation(y) + dissipation(next));
     time += dt;
     [y, next] = [next, y];
-    record(y);
+    recordPeaks(peaks, y, circuit);
     if (event === 'on_time') {
       endReason = 'on_time';
       break;
@@ -170,10 +206,10 @@ export function threeCoilBurst(circuit: ThreeCoilCircuit, drive: BridgeDrive): T
     endTime: time,
     endReason,
     cycles: switchings / 2,
-    peakVoltage,
-    peakJunctionVoltage: peakJunction,
-    peakTankVoltage: peakTank,
-    peakPrimaryCurrent: peakCurrent,
+    peakVoltage: peaks.voltage,
+    peakJunctionVoltage: peaks.junction,
+    peakTankVoltage: peaks.tank,
+    peakPrimaryCurrent: peaks.current,
     energyFromSource: fromSource,
     energyDissipated: dissipated,
     finalEnergy: loopEnergy(network, y),
