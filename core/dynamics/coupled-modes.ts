@@ -35,6 +35,28 @@ export interface CoupledModes {
  * Cost: a few microseconds.
  */
 export function coupledModes(circuit: CoupledCircuit, initialTankVoltage: number): CoupledModes | null {
+  const rates = modeRates(circuit);
+  if (!rates) return null;
+  const { vecRe, vecIm } = modeVectors(circuit, rates.rootRe, rates.rootIm);
+  // Solve Σ_j c_j φ_j = y0 (4 complex equations, one per component).
+  const coefficients = solveComplex4(vecRe, vecIm, [initialTankVoltage, 0, 0, 0]);
+  if (coefficients === null) return null;
+  const ampRe = new Float64Array(16);
+  const ampIm = new Float64Array(16);
+  for (let j = 0; j < 4; j++) {
+    const cRe = coefficients[0][j];
+    const cIm = coefficients[1][j];
+    for (let c = 0; c < 4; c++) {
+      ampRe[j * 4 + c] = cRe * vecRe[j * 4 + c] - cIm * vecIm[j * 4 + c];
+      ampIm[j * 4 + c] = cRe * vecIm[j * 4 + c] + cIm * vecRe[j * 4 + c];
+    }
+  }
+  if (!reconstructsStart(circuit, initialTankVoltage, ampRe, ampIm)) return null;
+  return { circuit, rateRe: rates.rootRe, rateIm: rates.rootIm, ampRe, ampIm };
+}
+
+/** The four eigenvalues s_j of the loop equations (the roots of their quartic), 1/s; null when there are none. */
+function modeRates(circuit: CoupledCircuit): { rootRe: Float64Array; rootIm: Float64Array } | null {
   const { primaryInductance: l1, primaryCapacitance: c1, primaryResistance: r1 } = circuit;
   const { secondaryInductance: l2, secondaryCapacitance: c2, secondaryResistance: r2 } = circuit;
   const m = circuit.mutualInductance;
@@ -64,8 +86,22 @@ export function coupledModes(circuit: CoupledCircuit, initialTankVoltage: number
     rootRe[j] *= scale;
     rootIm[j] *= scale;
   }
-  // Eigenvectors: (I1, I2) null vector of [[Z1, sM], [sM, Z2]]; take the better-conditioned row.
-  const vecRe = new Float64Array(16); // component-major per mode: [j*4 + c]
+  return { rootRe, rootIm };
+}
+
+/**
+ * The mode vectors (v1, v2, i1, i2) of the eigenvalues, component-major per mode ([j·4 + c]): the
+ * currents the null vector of [[Z1, sM], [sM, Z2]] from its better-conditioned row, V_k = I_k / (s C_k).
+ */
+function modeVectors(
+  circuit: CoupledCircuit,
+  rootRe: Float64Array,
+  rootIm: Float64Array,
+): { vecRe: Float64Array; vecIm: Float64Array } {
+  const { primaryInductance: l1, primaryCapacitance: c1, primaryResistance: r1 } = circuit;
+  const { secondaryInductance: l2, secondaryCapacitance: c2, secondaryResistance: r2 } = circuit;
+  const m = circuit.mutualInductance;
+  const vecRe = new Float64Array(16);
   const vecIm = new Float64Array(16);
   for (let j = 0; j < 4; j++) {
     const sRe = rootRe[j];
@@ -104,20 +140,18 @@ export function coupledModes(circuit: CoupledCircuit, initialTankVoltage: number
     vecRe[j * 4 + 3] = i2Re;
     vecIm[j * 4 + 3] = i2Im;
   }
-  // Solve Σ_j c_j φ_j = y0 (4 complex equations, one per component).
-  const coefficients = solveComplex4(vecRe, vecIm, [initialTankVoltage, 0, 0, 0]);
-  if (coefficients === null) return null;
-  const ampRe = new Float64Array(16);
-  const ampIm = new Float64Array(16);
-  for (let j = 0; j < 4; j++) {
-    const cRe = coefficients[0][j];
-    const cIm = coefficients[1][j];
-    for (let c = 0; c < 4; c++) {
-      ampRe[j * 4 + c] = cRe * vecRe[j * 4 + c] - cIm * vecIm[j * 4 + c];
-      ampIm[j * 4 + c] = cRe * vecIm[j * 4 + c] + cIm * vecRe[j * 4 + c];
-    }
-  }
-  // Check the reconstruction of y(0): an ill-conditioned (near-repeated) mode set is refused.
+  return { vecRe, vecIm };
+}
+
+/** Whether the modal amplitudes rebuild y(0): an ill-conditioned (near-repeated) mode set is refused. */
+function reconstructsStart(
+  circuit: CoupledCircuit,
+  initialTankVoltage: number,
+  ampRe: Float64Array,
+  ampIm: Float64Array,
+): boolean {
+  const { primaryInductance: l1, primaryCapacitance: c1 } = circuit;
+  const { secondaryInductance: l2, secondaryCapacitance: c2 } = circuit;
   for (let c = 0; c < 4; c++) {
     let sum = 0;
     let magnitude = 0;
@@ -128,9 +162,9 @@ export function coupledModes(circuit: CoupledCircuit, initialTankVoltage: number
     const target = c === 0 ? initialTankVoltage : 0;
     const reference =
       c < 2 ? Math.abs(initialTankVoltage) : Math.abs(initialTankVoltage) * Math.sqrt(Math.max(c1 / l1, c2 / l2));
-    if (Math.abs(sum - target) > 1e-9 * reference || magnitude > 1e6 * reference) return null;
+    if (Math.abs(sum - target) > 1e-9 * reference || magnitude > 1e6 * reference) return false;
   }
-  return { circuit, rateRe: rootRe, rateIm: rootIm, ampRe, ampIm };
+  return true;
 }
 
 /**
