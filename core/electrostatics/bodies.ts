@@ -8,6 +8,7 @@
  * panel count halves every panel and the convergence rule (doubling changes capacitance by
  * < 0.2 %) can be checked directly.
  */
+import { ROD_CAP_PANELS, rodOnAxisPanels } from './breakout-rod.ts';
 import type { PanelShape } from './panels.ts';
 
 /** Toroid: tube circle of radius `minorRadius` around (majorRadius, centerZ), SI. */
@@ -175,10 +176,6 @@ const CENTER_DISC_PANELS = 12;
 const CENTER_DISC_FOOT_PANELS = 3;
 /** Growth of the disc's panels away from a rod's foot. */
 const DISC_GROWTH = 1.3;
-/** Panels on a rod's hemispherical cap (as breakout-rod.ts). */
-const ROD_CAP_PANELS = 14;
-/** Growth of the rod's cylinder panels from the cap down (as breakout-rod.ts). */
-const ROD_GROWTH = 1.15;
 /** Growth of a sphere's panels away from a rod on its pole, and the largest as an angle (as breakout-rod.ts). */
 const SPHERE_ROD_GROWTH = 1.2;
 const SPHERE_ROD_LARGEST_PANEL = Math.PI / 24;
@@ -186,51 +183,6 @@ const SPHERE_ROD_LARGEST_PANEL = Math.PI / 24;
 /** Radius of a toroid's centre disc: it fills the hole to the tube's inner equator, m. */
 export function centerDiscRadius(body: ToroidBody): number {
   return body.majorRadius - body.minorRadius;
-}
-
-/**
- * The meridian panels of a rod on the axis whose foot is at height `footZ` on a surface it meets at
- * the rod's radius: the cylinder from `footZ` up (panels growing geometrically from the cap down, the
- * first as long as a cap panel), then the cap, ending at the apex (the last panel of the list).
- * `cylinder` is the length of the straight part (0 for a bare hemisphere on a plane).
- */
-function rodOnAxisPanels(footZ: number, cylinder: number, tipRadius: number, scale: number): PanelShape[] {
-  const capPanels = Math.max(2, Math.round(ROD_CAP_PANELS * scale));
-  const growth = 1 + (ROD_GROWTH - 1) / scale;
-  const shapes: PanelShape[] = [];
-  // A straight part shorter than a millionth of the tip radius (rounding of l = a) is none.
-  const straight = cylinder > 1e-6 * tipRadius ? cylinder : 0;
-  if (straight > 0) {
-    const edges: number[] = [straight];
-    let size = (0.5 * Math.PI * tipRadius) / capPanels;
-    let z = straight;
-    while (z - size > 0.5 * size) {
-      z -= size;
-      edges.push(z);
-      size *= growth;
-    }
-    edges.push(0);
-    for (let k = edges.length - 1; k > 0; k--) {
-      const z0 = footZ + edges[k];
-      const z1 = footZ + edges[k - 1];
-      shapes.push({ kind: 'line', r0: tipRadius, z0, r1: tipRadius, z1, position: 0.5 * (edges[k] + edges[k - 1]) });
-    }
-  }
-  const centreZ = footZ + straight;
-  for (let k = 0; k < capPanels; k++) {
-    const angle0 = (0.5 * Math.PI * k) / capPanels;
-    const angle1 = (0.5 * Math.PI * (k + 1)) / capPanels;
-    shapes.push({
-      kind: 'arc',
-      centerR: 0,
-      centerZ: centreZ,
-      radius: tipRadius,
-      angle0,
-      angle1,
-      position: straight + tipRadius * 0.5 * (angle0 + angle1),
-    });
-  }
-  return shapes;
 }
 
 /**

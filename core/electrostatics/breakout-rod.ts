@@ -19,8 +19,8 @@ import { buildPanelLayout, type PanelLayout, type PanelShape } from './panels.ts
 import { VACUUM_PERMITTIVITY } from './ring-kernel.ts';
 
 /** Panels on the hemispherical cap (uniform in angle). */
-const CAP_PANELS = 14;
-/** The cylinder's panels grow geometrically from the cap downward, first one a/CAP_PANELS·… long. */
+export const ROD_CAP_PANELS = 14;
+/** The cylinder's panels grow geometrically from the cap downward, first one a/ROD_CAP_PANELS·… long. */
 const CYLINDER_GROWTH = 1.15;
 
 /**
@@ -53,30 +53,42 @@ export function halfSpheroidEnhancement(height: number, baseRadius: number): num
 
 /** The meridian panels of a rod of height l and tip radius a on the plane z = 0. */
 export function rodPanels(height: number, tipRadius: number): PanelShape[] {
+  return rodOnAxisPanels(0, height - tipRadius, tipRadius, 1);
+}
+
+/**
+ * The meridian panels of a rod on the axis whose foot is at height `footZ` on a surface it meets at
+ * the rod's radius: the cylinder from `footZ` up (edges from the cap down, sizes s0·q^k with the
+ * first as long as a cap panel, the last piece stretched to reach the foot), then the cap, ending at
+ * the apex (the last panel of the list). `cylinder` is the length of the straight part (0 for a bare
+ * hemisphere on a plane); `scale` > 1 refines (more cap panels, slower growth).
+ */
+export function rodOnAxisPanels(footZ: number, cylinder: number, tipRadius: number, scale: number): PanelShape[] {
+  const capPanels = Math.max(2, Math.round(ROD_CAP_PANELS * scale));
+  const growth = 1 + (CYLINDER_GROWTH - 1) / scale;
   const shapes: PanelShape[] = [];
-  const cylinder = height - tipRadius;
-  if (cylinder > 0) {
-    // Edges from the cap down: sizes s0·q^k, the last piece stretched to reach the plane.
-    const first = (0.5 * Math.PI * tipRadius) / CAP_PANELS;
-    const edges: number[] = [cylinder];
-    let size = first;
-    let z = cylinder;
+  // A straight part shorter than a millionth of the tip radius (rounding of l = a) is none.
+  const straight = cylinder > 1e-6 * tipRadius ? cylinder : 0;
+  if (straight > 0) {
+    const edges: number[] = [straight];
+    let size = (0.5 * Math.PI * tipRadius) / capPanels;
+    let z = straight;
     while (z - size > 0.5 * size) {
       z -= size;
       edges.push(z);
-      size *= CYLINDER_GROWTH;
+      size *= growth;
     }
     edges.push(0);
     for (let k = edges.length - 1; k > 0; k--) {
-      const z0 = edges[k];
-      const z1 = edges[k - 1];
-      shapes.push({ kind: 'line', r0: tipRadius, z0, r1: tipRadius, z1, position: 0.5 * (z0 + z1) });
+      const z0 = footZ + edges[k];
+      const z1 = footZ + edges[k - 1];
+      shapes.push({ kind: 'line', r0: tipRadius, z0, r1: tipRadius, z1, position: 0.5 * (edges[k] + edges[k - 1]) });
     }
   }
-  const centreZ = Math.max(0, cylinder);
-  for (let k = 0; k < CAP_PANELS; k++) {
-    const angle0 = (0.5 * Math.PI * k) / CAP_PANELS;
-    const angle1 = (0.5 * Math.PI * (k + 1)) / CAP_PANELS;
+  const centreZ = footZ + straight;
+  for (let k = 0; k < capPanels; k++) {
+    const angle0 = (0.5 * Math.PI * k) / capPanels;
+    const angle1 = (0.5 * Math.PI * (k + 1)) / capPanels;
     shapes.push({
       kind: 'arc',
       centerR: 0,
@@ -84,7 +96,7 @@ export function rodPanels(height: number, tipRadius: number): PanelShape[] {
       radius: tipRadius,
       angle0,
       angle1,
-      position: centreZ + tipRadius * 0.5 * (angle0 + angle1),
+      position: straight + tipRadius * 0.5 * (angle0 + angle1),
     });
   }
   return shapes;
@@ -182,7 +194,7 @@ const SPHERE_LARGEST_PANEL = Math.PI / 24;
 export function sphereWithRodPanels(height: number, tipRadius: number, sphereRadius: number): PanelShape[] {
   const meet = Math.acos(tipRadius / sphereRadius);
   const edges: number[] = [meet];
-  let size = (0.5 * Math.PI * tipRadius) / CAP_PANELS / sphereRadius;
+  let size = (0.5 * Math.PI * tipRadius) / ROD_CAP_PANELS / sphereRadius;
   let angle = meet;
   while (angle - size > -Math.PI / 2 + 0.5 * size) {
     angle -= size;
