@@ -3,24 +3,15 @@ import { join } from 'node:path';
 import { parse as parseCsv } from 'csv-parse/sync';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { readJournal } from '../../run/durable/journal.ts';
-import type { CliIo } from '../../cli/io.ts';
-import { runCli } from '../../cli/program.ts';
 import { SAFETY_CAUTIONS } from '../../cli/safety.ts';
 import { expectOneLine, requireBuiltCli, SMALL_SWEEP, scratchArea, sleep, startCli } from './sweep-harness.ts';
+import { cli } from './in-process.ts';
 
 // The worker pool and the killed child run the built JS (dist/): `npm test` builds first. The fixture
 // is machinery test data (an invented scenario), not a physics check. The checks are the ones a user
 // can make on the files: byte-identical reruns, non-domination against the swept front, a hypervolume
 // recomputed from front.csv by an exact 2-D sweep (sum of rectangles), and `show eN` read back through
 // `evaluate` to the metrics evolved.csv lists.
-
-async function cli(args: string[]): Promise<{ code: number; out: string; err: string }> {
-  let out = '';
-  let err = '';
-  const io: CliIo = { out: (t) => (out += t), err: (t) => (err += t), isTty: false };
-  const code = await runCli(args, io);
-  return { code, out, err };
-}
 
 type Row = Record<string, string>;
 const readRows = (file: string): Row[] => parseCsv(readFileSync(file, 'utf8'), { columns: true }) as Row[];

@@ -11,20 +11,11 @@ import { join } from 'node:path';
 import { parse as parseCsv } from 'csv-parse/sync';
 import { describe, expect, test } from 'vitest';
 import { parse as parseYaml, stringify as stringifyYaml } from 'yaml';
-import type { CliIo } from '../../cli/io.ts';
 import { designSchema } from '../../cli/json-schema.ts';
 import { designFromValue, loadDesignFile } from '../../cli/load-design.ts';
-import { runCli } from '../../cli/program.ts';
 import { treeToJson } from '../../cli/tree-json.ts';
 import { evaluateDesign } from '../../core/evaluate.ts';
-
-async function cli(args: string[]): Promise<{ code: number; out: string; err: string }> {
-  let out = '';
-  let err = '';
-  const io: CliIo = { out: (t) => (out += t), err: (t) => (err += t), isTty: false };
-  const code = await runCli(args, io);
-  return { code, out, err };
-}
+import { cli } from './in-process.ts';
 
 /** The message of the InputError a design value is refused with ('' when it is read). */
 function refusal(value: unknown): string {

@@ -8,22 +8,13 @@ import { existsSync, mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { CliIo } from '../../cli/io.ts';
-import { runCli } from '../../cli/program.ts';
 import { parseRunTable } from '../../cli/views/run-table.ts';
+import { cli } from './in-process.ts';
 
 const CHROMIUM = '/usr/bin/chromium';
 const haveChromium = existsSync(CHROMIUM);
 if (!haveChromium) {
   console.warn(`report-browser.test.ts: SKIPPED: ${CHROMIUM} is missing (apt-get install chromium, as .ci/run does)`);
-}
-
-async function cli(args: string[]): Promise<{ code: number; out: string; err: string }> {
-  let out = '';
-  let err = '';
-  const io: CliIo = { out: (t) => (out += t), err: (t) => (err += t), isTty: false };
-  const code = await runCli(args, io);
-  return { code, out, err };
 }
 
 const root = mkdtempSync(join(tmpdir(), 'coilfront-report-'));

@@ -6,20 +6,11 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { runCli } from '../../cli/program.ts';
-import type { CliIo } from '../../cli/io.ts';
+import { cli } from './in-process.ts';
 
 const EXHIBIT = 'examples/exhibit-two-metre-coil.yaml';
 const dir = mkdtempSync(join(tmpdir(), 'retune-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
-
-async function cli(args: string[]): Promise<{ code: number; out: string; err: string }> {
-  let out = '';
-  let err = '';
-  const io: CliIo = { out: (t) => (out += t), err: (t) => (err += t), isTty: false };
-  const code = await runCli(args, io);
-  return { code, out, err };
-}
 
 async function refused(args: string[]): Promise<string> {
   const result = await cli(args);

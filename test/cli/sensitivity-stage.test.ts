@@ -1,25 +1,16 @@
 import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { CliIo } from '../../cli/io.ts';
 import { sweepSchema } from '../../cli/json-schema.ts';
-import { runCli } from '../../cli/program.ts';
 import { SAFETY_CAUTIONS, SAFETY_LINE } from '../../cli/safety.ts';
 import { readJournal } from '../../run/durable/journal.ts';
 import { expectOneLine, requireBuiltCli, SMALL_SWEEP, scratchArea, sleep, startCli } from './sweep-harness.ts';
+import { cli } from './in-process.ts';
 
 // Machinery tests of the sensitivity stage of sweep files (`- sensitivity: { samples }` in sweep.stages) on the
 // invented small-sweep fixture. The reference is the same study made by hand with `coilfront sensitivity` on the
 // same file: the stage must be exactly that command (its files byte for byte) with the same object as the
 // `sobol` section of summary.json. The killed child runs the built JS (dist/): `npm test` builds first.
-
-async function cli(args: string[]): Promise<{ code: number; out: string; err: string }> {
-  let out = '';
-  let err = '';
-  const io: CliIo = { out: (t) => (out += t), err: (t) => (err += t), isTty: false };
-  const code = await runCli(args, io);
-  return { code, out, err };
-}
 
 const area = scratchArea('sens-stage');
 const SAMPLES = 32;

@@ -20,21 +20,12 @@ import {
   sheetMarkdown,
 } from '../../cli/build-sheet.ts';
 import { METRIC_DISPLAY, formatNumber } from '../../cli/display-units.ts';
-import type { CliIo } from '../../cli/io.ts';
 import { loadDesignFile } from '../../cli/load-design.ts';
-import { runCli } from '../../cli/program.ts';
 import { SAFETY_CAUTIONS } from '../../cli/safety.ts';
 import { evaluateDesign } from '../../core/evaluate.ts';
 import { primaryInductanceAtTap, primaryInductanceTable } from '../../core/primary/inductance.ts';
 import { primaryRings } from '../../core/primary/rings.ts';
-
-async function cli(args: string[]): Promise<{ code: number; out: string; err: string }> {
-  let out = '';
-  let err = '';
-  const io: CliIo = { out: (t) => (out += t), err: (t) => (err += t), isTty: false };
-  const code = await runCli(args, io);
-  return { code, out, err };
-}
+import { cli } from './in-process.ts';
 
 const examples = readdirSync('examples')
   .filter((name) => name.endsWith('.yaml'))

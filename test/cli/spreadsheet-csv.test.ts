@@ -7,19 +7,10 @@ import { parse as parseCsv } from 'csv-parse/sync';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { writeFileSync } from 'node:fs';
 import { formatCsvNumber, toCsv } from '../../run/csv.ts';
-import type { CliIo } from '../../cli/io.ts';
-import { runCli } from '../../cli/program.ts';
+import { cli } from './in-process.ts';
 
 // The worker pool runs the built JS (dist/): `npm test` builds first. The fixture is invented test
 // data; the checks are the ones a spreadsheet user makes: every quantity column reads as numbers.
-
-async function cli(args: string[]): Promise<{ code: number; out: string; err: string }> {
-  let out = '';
-  let err = '';
-  const io: CliIo = { out: (t) => (out += t), err: (t) => (err += t), isTty: false };
-  const code = await runCli(args, io);
-  return { code, out, err };
-}
 
 const root = mkdtempSync(join(tmpdir(), 'coilfront-sheet-'));
 const run = join(root, 'run');

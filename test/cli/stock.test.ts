@@ -5,14 +5,13 @@
  */
 import { parse } from 'yaml';
 import { describe, expect, it } from 'vitest';
-import { runCli } from '../../cli/program.ts';
-import type { CliIo } from '../../cli/io.ts';
 import { InputError } from '../../run/input-error.ts';
 import { sweepFromValue } from '../../cli/sweep-spec.ts';
 import { sweepSchema } from '../../cli/json-schema.ts';
 import { STOCK_CATALOGUES, type StockCatalogue } from '../../cli/stock/catalogues.ts';
 import { ASTM_D1785_ROWS } from '../../cli/stock/pipe-astm-d1785.ts';
 import { ASTM_B88_ROWS } from '../../cli/stock/copper-tube.ts';
+import { cli } from './in-process.ts';
 
 const INCH = 0.0254;
 
@@ -27,14 +26,6 @@ function size(name: string, label: string) {
   const found = catalogue(name).sizes.find((s) => s.label === label);
   if (!found) throw new Error(`no size ${label} in ${name}`);
   return found;
-}
-
-async function cli(args: string[]): Promise<{ code: number; out: string; err: string }> {
-  let out = '';
-  let err = '';
-  const io: CliIo = { out: (t) => (out += t), err: (t) => (err += t), isTty: false };
-  const code = await runCli(args, io);
-  return { code, out, err };
 }
 
 describe('the stock catalogues against their standards', () => {

@@ -3,23 +3,14 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { parse as parseCsv } from 'csv-parse/sync';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { runCli } from '../../cli/program.ts';
-import type { CliIo } from '../../cli/io.ts';
 import { METRIC_DISPLAY } from '../../cli/display-units.ts';
 import { METRICS } from '../../core/metrics.ts';
 import { must } from '../../core/must.ts';
+import { cli } from './in-process.ts';
 
 // The worker pool runs the built JS (dist/): `npm test` builds first. The fixture is machinery test
 // data (an invented scenario), not a physics check; the checks below are the ones a user runs on the
 // files: constraints recomputed from the columns, non-domination, counts, an independent hypervolume.
-
-async function cli(args: string[]): Promise<{ code: number; out: string; err: string }> {
-  let out = '';
-  let err = '';
-  const io: CliIo = { out: (t) => (out += t), err: (t) => (err += t), isTty: false };
-  const code = await runCli(args, io);
-  return { code, out, err };
-}
 
 const root = mkdtempSync(join(tmpdir(), 'coilfront-outputs-'));
 const run = join(root, 'run');

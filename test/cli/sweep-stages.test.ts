@@ -1,24 +1,15 @@
 import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { CliIo } from '../../cli/io.ts';
-import { runCli } from '../../cli/program.ts';
 import { sweepSchema } from '../../cli/json-schema.ts';
 import { readJournal } from '../../run/durable/journal.ts';
 import { expectOneLine, requireBuiltCli, SMALL_SWEEP, scratchArea, sleep, startCli } from './sweep-harness.ts';
+import { cli } from './in-process.ts';
 
 // Machinery tests of the pipeline shorthand (sweep.stages) on the invented small-sweep fixture: the
 // reference is the same run made by hand, the sweep followed by the evolve and refine commands, so the
 // check is that the shorthand is exactly those commands (byte for byte, timing aside). The killed child
 // runs the built JS (dist/): `npm test` builds first.
-
-async function cli(args: string[]): Promise<{ code: number; out: string; err: string }> {
-  let out = '';
-  let err = '';
-  const io: CliIo = { out: (t) => (out += t), err: (t) => (err += t), isTty: false };
-  const code = await runCli(args, io);
-  return { code, out, err };
-}
 
 const area = scratchArea('stages');
 const EVOLVE = { evaluations: 96, population: 16 };
