@@ -4,7 +4,7 @@ import { parse as parseCsv } from 'csv-parse/sync';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { readJournal } from '../../run/durable/journal.ts';
 import { SAFETY_CAUTIONS } from '../../cli/safety.ts';
-import { expectOneLine, requireBuiltCli, SMALL_SWEEP, scratchArea, sleep, startCli } from './sweep-harness.ts';
+import { expectOneLine, requireBuiltCli, SMALL_SWEEP, scratchArea, signalWhenJournalled } from './sweep-harness.ts';
 import { cli } from './in-process.ts';
 
 // The worker pool and the killed child run the built JS (dist/): `npm test` builds first. The fixture
@@ -141,13 +141,9 @@ describe('coilfront evolve RUN_DIR', () => {
   it('after kill -9 mid-run, the same command continues from its journal to byte-identical files', async () => {
     const killed = copyOfSweep('killed');
     const journal = join(killed, 'evolve-journal.log');
-    const running = startCli(['evolve', killed, ...BUDGET, '--workers', '1']);
-    let ended = false;
-    void running.done.then(() => (ended = true));
     // Kill once the identity record and at least two generations are journaled.
-    while (!ended && !(existsSync(journal) && readJournal(journal).records.length >= 3)) await sleep(2);
-    running.child.kill('SIGKILL');
-    expect((await running.done).signal).toBe('SIGKILL');
+    const stopped = await signalWhenJournalled(['evolve', killed, ...BUDGET, '--workers', '1'], journal, 3, 'SIGKILL');
+    expect(stopped.signal).toBe('SIGKILL');
     expect(existsSync(join(killed, 'evolved.csv'))).toBe(false);
     const generations = readJournal(journal).records.length - 1;
     expect(generations).toBeGreaterThanOrEqual(2);

@@ -6,8 +6,7 @@ import { describe, expect, it } from 'vitest';
 import type { CliIo } from '../../cli/io.ts';
 import { runCli } from '../../cli/program.ts';
 import { SAFETY_CAUTIONS, SAFETY_LINE } from '../../cli/safety.ts';
-import { readJournal } from '../../run/durable/journal.ts';
-import { requireBuiltCli, SMALL_SWEEP, sleep, startCli } from './sweep-harness.ts';
+import { requireBuiltCli, SMALL_SWEEP, startCli, signalWhenJournalled } from './sweep-harness.ts';
 
 function capture() {
   const out: string[] = [];
@@ -104,13 +103,9 @@ describe('coilfront sensitivity', () => {
     expect((await reference.done).code).toBe(0);
     const killed = scratch();
     const journal = join(killed, 'sensitivity-journal.log');
-    const running = startCli([...args, '--workers', '1', '--out', killed]);
-    let ended = false;
-    void running.done.then(() => (ended = true));
     // Kill once the header and at least three batches are journaled (16 batches in all).
-    while (!ended && !(existsSync(journal) && readJournal(journal).records.length >= 4)) await sleep(2);
-    running.child.kill('SIGKILL');
-    expect((await running.done).signal).toBe('SIGKILL');
+    const stopped = await signalWhenJournalled([...args, '--workers', '1', '--out', killed], journal, 4, 'SIGKILL');
+    expect(stopped.signal).toBe('SIGKILL');
     expect(existsSync(join(killed, 'sensitivity.csv'))).toBe(false);
     const resumed = startCli([...args, '--workers', '1', '--out', killed]);
     const finished = await resumed.done;

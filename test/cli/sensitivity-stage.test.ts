@@ -3,8 +3,7 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sweepSchema } from '../../cli/json-schema.ts';
 import { SAFETY_CAUTIONS, SAFETY_LINE } from '../../cli/safety.ts';
-import { readJournal } from '../../run/durable/journal.ts';
-import { expectOneLine, requireBuiltCli, SMALL_SWEEP, scratchArea, sleep, startCli } from './sweep-harness.ts';
+import { expectOneLine, requireBuiltCli, SMALL_SWEEP, scratchArea, signalWhenJournalled } from './sweep-harness.ts';
 import { cli } from './in-process.ts';
 
 // Machinery tests of the sensitivity stage of sweep files (`- sensitivity: { samples }` in sweep.stages) on the
@@ -102,13 +101,14 @@ describe('coilfront sweep with a sensitivity stage', () => {
   it('after kill -9 in the stage, sweep --resume continues from its journal and ends in the same files', async () => {
     const directory = area.dir('killed');
     const journal = join(directory, 'sensitivity-journal.log');
-    const running = startCli(['sweep', staged, '--out', directory, '--workers', '1', '--batch-size', '8', '--quiet']);
-    let ended = false;
-    void running.done.then(() => (ended = true));
     // Kill once the stage has journalled its header and at least two of its 8 batches.
-    while (!ended && !(existsSync(journal) && readJournal(journal).records.length >= 3)) await sleep(2);
-    running.child.kill('SIGKILL');
-    expect((await running.done).signal).toBe('SIGKILL');
+    const stopped = await signalWhenJournalled(
+      ['sweep', staged, '--out', directory, '--workers', '1', '--batch-size', '8', '--quiet'],
+      journal,
+      3,
+      'SIGKILL',
+    );
+    expect(stopped.signal).toBe('SIGKILL');
     expect(existsSync(join(directory, 'sensitivity.csv'))).toBe(false);
     expect('sobol' in summaryWithoutTiming(directory)).toBe(false);
     const resumed = await cli(['sweep', '--resume', directory, '--workers', '1']);
@@ -121,12 +121,12 @@ describe('coilfront sweep with a sensitivity stage', () => {
   it('on SIGINT in the stage prints the sweep resume hint, exits 130, and resumes to the same files', async () => {
     const directory = area.dir('interrupted');
     const journal = join(directory, 'sensitivity-journal.log');
-    const running = startCli(['sweep', staged, '--out', directory, '--workers', '1', '--batch-size', '8', '--quiet']);
-    let ended = false;
-    void running.done.then(() => (ended = true));
-    while (!ended && !(existsSync(journal) && readJournal(journal).records.length >= 3)) await sleep(2);
-    running.child.kill('SIGINT');
-    const stopped = await running.done;
+    const stopped = await signalWhenJournalled(
+      ['sweep', staged, '--out', directory, '--workers', '1', '--batch-size', '8', '--quiet'],
+      journal,
+      3,
+      'SIGINT',
+    );
     expect(stopped.code, stopped.stderr).toBe(130); // 128 + SIGINT (2), the shells' convention
     expect(stopped.stderr).toContain(
       `stopped: SIGINT was received in stage 1 of 1; the sweep's outputs are in ${directory}`,

@@ -1,7 +1,6 @@
 import { cpSync, existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { readJournal } from '../../run/durable/journal.ts';
 import {
   type Finished,
   requireBuiltCli,
@@ -10,6 +9,7 @@ import {
   scratchArea,
   sleep,
   startCli,
+  signalWhenJournalled,
 } from './sweep-harness.ts';
 
 // Machinery tests of `coilfront refine RUN` and `coilfront evolve RUN` run by themselves (not as the
@@ -99,12 +99,12 @@ describe('a stage run by its own command and stopped by a signal', () => {
     await runCliOk(['evolve', reference, ...EVOLVE, '--workers', '0']);
     const directory = copyOfSweep('evolve-interrupted');
     const journal = join(directory, 'evolve-journal.log');
-    const running = startCli(['evolve', directory, ...EVOLVE, '--workers', '1']);
-    let ended = false;
-    void running.done.then(() => (ended = true));
-    while (!ended && !(existsSync(journal) && readJournal(journal).records.length >= 3)) await sleep(2);
-    running.child.kill('SIGTERM');
-    const stopped = await running.done;
+    const stopped = await signalWhenJournalled(
+      ['evolve', directory, ...EVOLVE, '--workers', '1'],
+      journal,
+      3,
+      'SIGTERM',
+    );
     expect(stopped.code, stopped.stderr).toBe(143); // 128 + SIGTERM (15), the shells' convention
     const args = resumeArguments(stopped, directory, `every finished generation is kept in ${journal}`, 'evolve');
     expect(existsSync(join(directory, 'evolved.csv'))).toBe(false);

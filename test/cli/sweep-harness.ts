@@ -11,6 +11,7 @@ import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { expect } from 'vitest';
 import { must } from '../../core/must.ts';
+import { readJournal } from '../../run/durable/journal.ts';
 
 export const REPO = resolve(dirname(fileURLToPath(import.meta.url)), '..', '..');
 /**
@@ -95,6 +96,24 @@ export async function runCliOk(args: string[], options: { env?: Record<string, s
 }
 
 export const sleep = (ms: number): Promise<void> => new Promise((resolveSleep) => setTimeout(resolveSleep, ms));
+
+/**
+ * Starts the CLI and sends it `signal` once `journal` holds at least `records` records (an identity
+ * or header record and the units after it), or lets it end if it finishes first; how it ended.
+ */
+export async function signalWhenJournalled(
+  args: string[],
+  journal: string,
+  records: number,
+  signal: NodeJS.Signals,
+): Promise<Finished> {
+  const running = startCli(args);
+  let ended = false;
+  void running.done.then(() => (ended = true));
+  while (!ended && !(existsSync(journal) && readJournal(journal).records.length >= records)) await sleep(2);
+  running.child.kill(signal);
+  return running.done;
+}
 
 /** A fingerprint of a run directory's durable files (journal sizes and the checkpoint's mtime). */
 export function durableFingerprint(directory: string): string {

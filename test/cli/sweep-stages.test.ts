@@ -2,8 +2,7 @@ import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sweepSchema } from '../../cli/json-schema.ts';
-import { readJournal } from '../../run/durable/journal.ts';
-import { expectOneLine, requireBuiltCli, SMALL_SWEEP, scratchArea, sleep, startCli } from './sweep-harness.ts';
+import { expectOneLine, requireBuiltCli, SMALL_SWEEP, scratchArea, signalWhenJournalled } from './sweep-harness.ts';
 import { cli } from './in-process.ts';
 
 // Machinery tests of the pipeline shorthand (sweep.stages) on the invented small-sweep fixture: the
@@ -95,13 +94,14 @@ describe('coilfront sweep with sweep.stages', () => {
   it('after kill -9 in the evolve stage, sweep --resume continues there and ends in the same files', async () => {
     const directory = area.dir('killed');
     const journal = join(directory, 'evolve-journal.log');
-    const running = startCli(['sweep', staged, '--out', directory, '--workers', '1', '--batch-size', '8', '--quiet']);
-    let ended = false;
-    void running.done.then(() => (ended = true));
     // Kill once the evolve stage has journalled its identity and at least two generations.
-    while (!ended && !(existsSync(journal) && readJournal(journal).records.length >= 3)) await sleep(2);
-    running.child.kill('SIGKILL');
-    expect((await running.done).signal).toBe('SIGKILL');
+    const stopped = await signalWhenJournalled(
+      ['sweep', staged, '--out', directory, '--workers', '1', '--batch-size', '8', '--quiet'],
+      journal,
+      3,
+      'SIGKILL',
+    );
+    expect(stopped.signal).toBe('SIGKILL');
     expect(existsSync(join(directory, 'evolved.csv'))).toBe(false);
     const resumed = await cli(['sweep', '--resume', directory, '--workers', '1']);
     expect(resumed.code, resumed.err).toBe(0);
@@ -114,12 +114,12 @@ describe('coilfront sweep with sweep.stages', () => {
   it('on SIGINT in the evolve stage prints the sweep resume hint, exits 130, and resumes to the same files', async () => {
     const directory = area.dir('interrupted');
     const journal = join(directory, 'evolve-journal.log');
-    const running = startCli(['sweep', staged, '--out', directory, '--workers', '1', '--batch-size', '8', '--quiet']);
-    let ended = false;
-    void running.done.then(() => (ended = true));
-    while (!ended && !(existsSync(journal) && readJournal(journal).records.length >= 3)) await sleep(2);
-    running.child.kill('SIGINT');
-    const stopped = await running.done;
+    const stopped = await signalWhenJournalled(
+      ['sweep', staged, '--out', directory, '--workers', '1', '--batch-size', '8', '--quiet'],
+      journal,
+      3,
+      'SIGINT',
+    );
     expect(stopped.code, stopped.stderr).toBe(130); // 128 + SIGINT (2), the shells' convention
     const lines = stopped.stderr.trimEnd().split('\n');
     expect(lines).toEqual([
