@@ -1,7 +1,7 @@
 import { execFileSync } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { join } from 'node:path';
+import { basename, join } from 'node:path';
 import ExcelJS from 'exceljs';
 import { parse as parseCsv } from 'csv-parse/sync';
 import { beforeAll, describe, expect, it } from 'vitest';
@@ -92,25 +92,23 @@ describe('candidates.csv as a spreadsheet reads it', () => {
     expect(seen.size).toBeGreaterThan(1);
   });
 
+  /** The workbook LibreOffice Calc makes of a CSV file (soffice --convert-to xlsx, its default CSV import). */
+  async function calcWorkbook(csv: string, outdir: string): Promise<ExcelJS.Workbook> {
+    const out = join(root, outdir);
+    const profile = `-env:UserInstallation=file://${join(root, 'lo-profile')}`;
+    execFileSync('/usr/bin/soffice', ['--headless', profile, '--convert-to', 'xlsx', '--outdir', out, csv], {
+      stdio: 'ignore',
+      timeout: 60_000,
+    });
+    const workbook = new ExcelJS.Workbook();
+    await workbook.xlsx.readFile(join(out, `${basename(csv, '.csv')}.xlsx`));
+    return workbook;
+  }
+
   it.skipIf(!existsSync('/usr/bin/soffice'))(
     'LibreOffice Calc converts it with every quantity column numeric',
     async () => {
-      const out = join(root, 'lo');
-      execFileSync(
-        '/usr/bin/soffice',
-        [
-          '--headless',
-          `-env:UserInstallation=file://${join(root, 'lo-profile')}`,
-          '--convert-to',
-          'xlsx',
-          '--outdir',
-          out,
-          join(run, 'candidates.csv'),
-        ],
-        { stdio: 'ignore', timeout: 60_000 },
-      );
-      const workbook = new ExcelJS.Workbook();
-      await workbook.xlsx.readFile(join(out, 'candidates.xlsx'));
+      const workbook = await calcWorkbook(join(run, 'candidates.csv'), 'lo');
       const sheet = workbook.worksheets[0];
       const header = (sheet.getRow(1).values as unknown[]).slice(1).map(String);
       let numbers = 0;
@@ -142,22 +140,7 @@ describe('candidates.csv as a spreadsheet reads it', () => {
           ],
         ),
       );
-      const out = join(root, 'lo-labels');
-      execFileSync(
-        '/usr/bin/soffice',
-        [
-          '--headless',
-          `-env:UserInstallation=file://${join(root, 'lo-profile')}`,
-          '--convert-to',
-          'xlsx',
-          '--outdir',
-          out,
-          file,
-        ],
-        { stdio: 'ignore', timeout: 60_000 },
-      );
-      const workbook = new ExcelJS.Workbook();
-      await workbook.xlsx.readFile(join(out, 'labels.xlsx'));
+      const workbook = await calcWorkbook(file, 'lo-labels');
       const sheet = workbook.worksheets[0];
       const cells = parseCsv(readFileSync(file, 'utf8')) as string[][];
       for (const [r, row] of cells.entries()) {
