@@ -43,7 +43,51 @@ export function readRunTable(path: string): RunTable {
 export function columnIndex(table: RunTable, name: string, option: string): number {
   const index = table.header.indexOf(name);
   if (index >= 0) return index;
-  const near = table.header.filter((h) => h.startsWith(name) || h.includes(name));
-  const hint = near.length > 0 ? `did you mean ${near.slice(0, 3).join(', ')}?` : `columns: ${table.header.join(', ')}`;
-  throw optionError(option, `no column '${name}' in the run (${hint})`);
+  throw optionError(option, `no column '${name}' in the run (${columnHint(table.header, name)})`);
+}
+
+/** Unit suffixes of the CSV column names (display-units.ts), left out when matching words. */
+const UNIT_WORDS = new Set([
+  'kv',
+  'pf',
+  'nf',
+  'mm',
+  'cm',
+  'khz',
+  'hz',
+  'uh',
+  'mh',
+  'us',
+  'ohm',
+  'mohm',
+  'per',
+  'deg',
+  'kg',
+]);
+
+/**
+ * The columns to suggest for a name that is not one: those containing it, else those sharing the
+ * most weight of its words (split at `_` and `.`, units and one-letter words left out), at most five; else
+ * where the full list is.
+ */
+function columnHint(header: readonly string[], name: string): string {
+  const near = header.filter((h) => h.startsWith(name) || h.includes(name));
+  if (near.length > 0) return `did you mean ${near.slice(0, 3).join(', ')}?`;
+  const words = (text: string): string[] =>
+    text
+      .toLowerCase()
+      .split(/[_.]/)
+      .filter((w) => w.length > 1 && !UNIT_WORDS.has(w));
+  // A later word weighs more (the quantity comes last: topload_voltage is a voltage first).
+  const wanted = new Map(words(name).map((w, k) => [w, k + 1]));
+  const scored = header
+    .map((h) => ({ h, shared: words(h).reduce((sum, w) => sum + (wanted.get(w) ?? 0), 0) }))
+    .filter((entry) => entry.shared > 0)
+    .sort((a, b) => b.shared - a.shared);
+  if (scored.length > 0)
+    return `did you mean ${scored
+      .slice(0, 5)
+      .map((entry) => entry.h)
+      .join(', ')}?`;
+  return `its ${header.length} columns are the header line of the CSV file`;
 }

@@ -143,5 +143,12 @@ describe('coilfront plot: any column against any other', () => {
     expect(() => columnPlotSpec(tables, { x: 'tank.capacitance', y: 'wire_mass_kg' })).toThrow(
       /--x: no column 'tank.capacitance'.*tank.capacitance_nF/,
     );
+    // No column contains the name: the columns sharing its last word are suggested, not all of them.
+    expect(() => columnPlotSpec(tables, { x: 'coil_mass', y: 'wire_mass_kg' })).toThrow(
+      /--x: no column 'coil_mass' in the run \(did you mean wire_mass_kg\?\)$/,
+    );
+    expect(() => columnPlotSpec(tables, { x: 'zzz', y: 'wire_mass_kg' })).toThrow(
+      /no column 'zzz' in the run \(its \d+ columns are the header line of the CSV file\)$/,
+    );
   });
 });
