@@ -10,6 +10,7 @@
  *       winding_length: ±1 %                      # a spread alone: uniform over ±1 %
  *     tank:
  *       capacitance: { spread: ±5 %, distribution: normal, sigmas: 2 }
+ *       bank: { part: { capacitance: ±5 % } }     # a sub-section's fields, nested as in the design file
  *     topload:
  *       height_above_winding: { spread: ±10 mm, distribution: truncated_normal, sigmas: 2 }
  *     environment:
@@ -247,12 +248,37 @@ function readDesignSection(
   }
   if (!isMapping(value))
     return problem([...path, name], `expected a mapping of field: spread, got ${describeValue(value)}`).issue;
-  const fields = allFields(spec);
   const createSection = spec.optional && !spec.variants && Object.values(spec.fields).every((f) => f.optional);
+  return readSectionFields(section, name, spec, '', createSection, value, [...path, name]);
+}
+
+/**
+ * Reads the fields of `spec` (the design section `name`, or a sub-section of it such as `tank.bank.part`,
+ * whose fields the design tree holds under dotted keys `prefix` + field: 'bank.part.capacitance').
+ */
+function readSectionFields(
+  section: ToleranceSection,
+  name: string,
+  spec: SectionSpec,
+  prefix: string,
+  createSection: boolean,
+  value: Record<string, unknown>,
+  at: Array<string | number>,
+): InputIssue | null {
+  const fields = allFields(spec);
   for (const [key, entry] of Object.entries(value)) {
-    const read = readField(name, fields, createSection, key, entry, [...path, name, key]);
+    const sub = spec.subsections?.[key];
+    if (sub) {
+      if (!isMapping(entry))
+        return problem([...at, key], `expected a mapping of field: spread, got ${describeValue(entry)}`).issue;
+      const issue = readSectionFields(section, name, sub, `${prefix}${key}.`, false, entry, [...at, key]);
+      if (issue) return issue;
+      continue;
+    }
+    const where = prefix ? `${name}.${prefix.slice(0, -1)}` : name;
+    const read = readField(where, fields, createSection, key, entry, [...at, key]);
     if ('issue' in read) return read.issue;
-    section.fields.push(read.value);
+    section.fields.push({ ...read.value, path: [name, `${prefix}${key}`] });
   }
   return null;
 }

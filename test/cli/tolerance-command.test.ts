@@ -42,6 +42,41 @@ function scratch(): string {
 }
 
 describe('coilfront tolerance of one design', () => {
+  it("spreads a tank bank's part: with the layout fixed the bank's capacitance is part × parallel / series in every build", async () => {
+    // The example's bank with its layout fixed at what auto chose (13 in series × 3 strings: see evaluate);
+    // the check is the bank arithmetic, exact by hand: C_bank = C_part · parallel / series.
+    const dir = scratch();
+    const design = readFileSync('examples/rotary-bank-coil.yaml', 'utf8')
+      .replace(/series: auto/, 'series: 13')
+      .replace(/parallel: auto/, 'parallel: 3')
+      // Parts rated higher than the example's, so that no build is impossible (a smaller bank charges higher).
+      .replace(/voltage_rating: 2 kV/, 'voltage_rating: 4 kV');
+    expect(design).toContain('series: 13');
+    expect(design).toContain('voltage_rating: 4 kV');
+    writeFileSync(join(dir, 'design.yaml'), design);
+    writeFileSync(
+      join(dir, 'tol.yaml'),
+      'tolerances:\n  draws: 32\n  tank: { bank: { part: { capacitance: ±10 % } } }\nmetrics: [tank_bank_capacitance]\n',
+    );
+    const { io, errors } = capture();
+    const args = ['tolerance', join(dir, 'design.yaml'), '--tolerances', join(dir, 'tol.yaml'), '--workers', '0'];
+    expect(await runCli([...args, '--out', dir], io), errors()).toBe(0);
+    const [row] = parseCsv(readFileSync(join(dir, 'tolerance.csv'), 'utf8'), { columns: true }) as Record<
+      string,
+      string
+    >[];
+    const nominal = (150 * 3) / 13; // nF
+    const p05 = Number(row.tank_bank_capacitance_p05_nF) / nominal;
+    const p95 = Number(row.tank_bank_capacitance_p95_nF) / nominal;
+    // Uniform over ±10 %: the 5 % and 95 % quantiles of the part sit near 0.91 and 1.09 (32 Sobol draws).
+    expect(p05).toBeGreaterThan(0.9);
+    expect(p05).toBeLessThan(0.93);
+    expect(p95).toBeGreaterThan(1.07);
+    expect(p95).toBeLessThan(1.1);
+    expect(Number(row.tank_bank_capacitance_p50_nF) / nominal).toBeCloseTo(1, 1);
+    expect(row.impossible).toBe('0');
+  });
+
   it("matches an independent Monte Carlo of the same draws through the core's evaluate", async () => {
     const dir = scratch();
     writeFileSync(join(dir, 'tol.yaml'), TOLERANCES);

@@ -41,6 +41,26 @@ describe('readTolerances', () => {
     expect(byPath['environment.streamer_length'].centre).toBeCloseTo(0.4, 15);
   });
 
+  it("reads a sub-section's fields nested as the design file writes them (tank.bank.part), under dotted keys", () => {
+    const { section, issues } = read({ tank: { bank: { part: { capacitance: '±5 %', voltage_rating: '±200 V' } } } });
+    expect(issues).toEqual([]);
+    expect(section?.fields.map((f) => f.path)).toEqual([
+      ['tank', 'bank.part.capacitance'],
+      ['tank', 'bank.part.voltage_rating'],
+    ]);
+    expect(section?.fields[0]).toMatchObject({ mode: 'relative', spread: 0.05, createSection: false });
+    expect(section?.fields[1].spread).toBeCloseTo(200, 12);
+    // Mistakes name the nested path; a layout count is a whole number and takes no spread.
+    expect(read({ tank: { bank: { part: { capacitence: '±5 %' } } } }).issues[0]).toEqual({
+      path: ['tolerances', 'tank', 'bank', 'part', 'capacitence'],
+      message: "unknown field 'capacitence' (did you mean 'capacitance'?)",
+    });
+    expect(read({ tank: { bank: { series: '±1' } } }).issues[0].message).toBe('a whole-number field takes no spread');
+    expect(read({ tank: { bank: { part: '±5 %' } } }).issues[0]).toMatchObject({
+      path: ['tolerances', 'tank', 'bank', 'part'],
+    });
+  });
+
   it('takes a spread of zero (no spread) and a plain number as an SI spread', () => {
     const { section } = read({ secondary: { turns: '±0 %', base_height: 0.005 } });
     expect(section?.fields.map((f) => [f.mode, f.spread])).toEqual([
