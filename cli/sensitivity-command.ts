@@ -9,7 +9,7 @@ import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { spaceDefinitionOf } from '../optimize/design-space.ts';
 import type { ShouldStop } from '../optimize/stage-stop.ts';
-import type { SensitivityPlan } from '../optimize/sensitivity/index.ts';
+import type { SaltelliOutputs, SensitivityPlan } from '../optimize/sensitivity/index.ts';
 import {
   readSensitivityShards,
   runSensitivityStudy,
@@ -19,12 +19,13 @@ import {
 } from '../run/sensitivity-run.ts';
 import { openEvaluator } from '../run/evaluator.ts';
 import { RUN_FILES } from '../run/run-directory.ts';
-import { describeShard, resolveShard } from '../run/shard.ts';
+import { describeShard, resolveShard, type Shard } from '../run/shard.ts';
 import { lockRunOrRefuse } from '../run/sweep-setup.ts';
 import { defaultWorkerCount } from '../workers/pool.ts';
 import { commandError, fileError, optionError } from './input-errors.ts';
 import type { CliIo } from './io.ts';
 import { shardDirectoriesToMerge } from './shard-directories.ts';
+import { stageStop } from './stage-signal.ts';
 import { SAFETY_LINE } from './safety.ts';
 import { writeSensitivityOutputs } from './sensitivity-outputs.ts';
 
@@ -80,29 +81,53 @@ export async function sensitivityCommand(file: string, options: SensitivityOptio
   const shard = resolveShard({ shardFlag: options.shard, env: process.env });
   const directory = shard ? sensitivityShardDirectory(out, shard) : out;
   mkdirSync(directory, { recursive: true });
+  // Run by its own command, Ctrl-C or SIGTERM stops it between batches, the journal kept (cli/stage-signal.ts).
+  const stop = stageStop(undefined, io);
+  let outputs: SaltelliOutputs;
+  try {
+    if (shard) io.err(`sensitivity: ${describeShard(shard)}\n`);
+    outputs = await lockedStudy(directory, plan, identity, { ...options, shard, shouldStop: stop.shouldStop }, io);
+  } catch (error) {
+    const kept = `every finished batch is kept in ${join(directory, SENSITIVITY_JOURNAL)}`;
+    const again = `npx coilfront sensitivity ${file} --samples ${samples} --out ${out}${shard ? ` --shard ${shard.index}/${shard.count}` : ''}`;
+    const code = stop.stopped(error, kept, again);
+    if (code === null) throw error;
+    return code;
+  } finally {
+    stop.dispose();
+  }
+  if (shard) {
+    io.out(
+      `sensitivity shard ${shard.index}/${shard.count}: its rows are evaluated into ${directory}\n` +
+        `when every shard has finished: npx coilfront sensitivity ${file} --merge (with the same --samples and --out)\n${SAFETY_LINE}\n`,
+    );
+    return 0;
+  }
+  writeSensitivityOutputs(out, plan, outputs, io);
+  return 0;
+}
+
+/** The study evaluated into `directory` (locked while it runs) through its journal. */
+async function lockedStudy(
+  directory: string,
+  plan: SensitivityPlan,
+  identity: string,
+  options: { workers?: number; shard?: Shard | null; shouldStop?: ShouldStop },
+  io: CliIo,
+): Promise<SaltelliOutputs> {
   const lock = lockRunOrRefuse(directory);
   try {
     const threads = options.workers ?? defaultWorkerCount();
-    const evaluator = openEvaluator(plan.definition, threads);
-    if (shard) io.err(`sensitivity: ${describeShard(shard)}\n`);
-    const outputs = await runSensitivityStudy({
+    return await runSensitivityStudy({
       journalPath: join(directory, SENSITIVITY_JOURNAL),
       identity,
       plan,
-      evaluator,
+      evaluator: openEvaluator(plan.definition, threads),
       threads,
-      shard,
+      shard: options.shard ?? null,
       notice: (line) => io.err(`${line}\n`),
+      ...(options.shouldStop ? { shouldStop: options.shouldStop } : {}),
     });
-    if (shard) {
-      io.out(
-        `sensitivity shard ${shard.index}/${shard.count}: its rows are evaluated into ${directory}\n` +
-          `when every shard has finished: npx coilfront sensitivity ${file} --merge (with the same --samples and --out)\n${SAFETY_LINE}\n`,
-      );
-      return 0;
-    }
-    writeSensitivityOutputs(out, plan, outputs, io);
-    return 0;
   } finally {
     lock.release();
   }
@@ -130,24 +155,9 @@ export async function sensitivityStage(
 ): Promise<number> {
   const file = join(directory, RUN_FILES.spec);
   const { plan, identity } = planOfSpec(loadRunSpec(directory), file, options.samples);
-  const lock = lockRunOrRefuse(directory);
-  try {
-    const threads = options.workers ?? defaultWorkerCount();
-    const evaluator = openEvaluator(plan.definition, threads);
-    const outputs = await runSensitivityStudy({
-      journalPath: join(directory, SENSITIVITY_JOURNAL),
-      identity,
-      plan,
-      evaluator,
-      threads,
-      notice: (line) => io.err(`${line}\n`),
-      ...(options.shouldStop ? { shouldStop: options.shouldStop } : {}),
-    });
-    const study = writeSensitivityOutputs(directory, plan, outputs, io);
-    const path = writeSummarySection(directory, SOBOL_SECTION, study);
-    io.out(`the same indices are in the '${SOBOL_SECTION}' section of ${path}\n`);
-    return 0;
-  } finally {
-    lock.release();
-  }
+  const outputs = await lockedStudy(directory, plan, identity, options, io);
+  const study = writeSensitivityOutputs(directory, plan, outputs, io);
+  const path = writeSummarySection(directory, SOBOL_SECTION, study);
+  io.out(`the same indices are in the '${SOBOL_SECTION}' section of ${path}\n`);
+  return 0;
 }

@@ -95,7 +95,7 @@ describe('coilfront sensitivity', () => {
     expect(other.errors()).toContain('the shard belongs to another study');
   }, 120_000);
 
-  it('after kill -9 mid-run, the same command continues from its journal to byte-identical files', async () => {
+  it('after kill -9 or Ctrl-C mid-run, the same command continues from its journal to byte-identical files', async () => {
     requireBuiltCli();
     const args = ['sensitivity', SMALL_SWEEP, '--samples', '64'];
     const whole = scratch();
@@ -112,7 +112,21 @@ describe('coilfront sensitivity', () => {
     expect(finished.code, finished.stderr).toBe(0);
     expect(finished.stderr).toMatch(/sensitivity: \d+ of 512 rows taken from the journal/);
     expect(filesOf(killed)).toBe(filesOf(whole));
-  }, 120_000);
+
+    // Ctrl-C: stops between batches with no output half-written, names what is kept and the resume
+    // command, exits 130 (128 + SIGINT's number 2, POSIX shell convention); that command finishes it.
+    const interrupted = scratch();
+    const stopJournal = join(interrupted, 'sensitivity-journal.log');
+    const intArgs = [...args, '--workers', '1', '--out', interrupted];
+    const halted = await signalWhenJournalled(intArgs, stopJournal, 4, 'SIGINT');
+    expect(halted.code, halted.stderr).toBe(130);
+    expect(halted.stderr).toContain(`every finished batch is kept in ${stopJournal}`);
+    expect(halted.stderr).toContain(`npx coilfront sensitivity ${SMALL_SWEEP} --samples 64 --out ${interrupted}`);
+    expect(existsSync(join(interrupted, 'sensitivity.csv'))).toBe(false);
+    const again = await startCli(intArgs).done;
+    expect(again.code, again.stderr).toBe(0);
+    expect(filesOf(interrupted)).toBe(filesOf(whole));
+  }, 180_000);
 
   it('bad --samples: one line naming the option, exit 2', async () => {
     const { io, err } = capture();
