@@ -9,20 +9,11 @@ import { fillSlots, type Dimension, type NormalTree } from './design-tree.ts';
 import { createSampler } from './sampling/create-sampler.ts';
 import type { UnitCubeSampler } from './sampling/unit-cube-sampler.ts';
 import { mapUnitToChoice, mapUnitToRange } from './sampling/unit-interval-mapping.ts';
-import type { RobustDefinition } from './tolerance/robust-yield.ts';
+import type { SpaceDefinition } from './space-definition.ts';
+
+export type { SpaceDefinition };
 
 /** What a worker needs to regenerate designs: plain data (structured-clone and JSON safe). */
-export interface SpaceDefinition {
-  tree: NormalTree;
-  dimensions: Dimension[];
-  method: 'sobol' | 'lhs' | 'grid' | 'random';
-  samples: number;
-  seed: number;
-  gridLevels: number[] | null;
-  /** A robust merit: each design's build_yield over a few tolerance draws (optimize/tolerance/robust-yield.ts). */
-  robust?: RobustDefinition;
-}
-
 /** The space definition alone (what a worker needs), picked out of a larger object such as a sweep file's. */
 export function spaceDefinitionOf(spec: SpaceDefinition): SpaceDefinition {
   return {

@@ -4,7 +4,16 @@
  * the same row in plain arrays, so the bounded store of a long sweep stays small; written to
  * checkpoints as plain JSON (null for NaN) and revived on resume.
  */
-import type { CandidateRow } from './sweep-state.ts';
+
+/** One candidate as stored: its dimension values, every metric (null where none), status and reason. */
+export interface CandidateRow {
+  values: number[];
+  metrics: Array<number | null>;
+  status: number;
+  reason: string | null;
+  /** The row's warnings as a bit mask over WARNING_KEYS (core/outcome/warnings.ts). */
+  warningMask: number;
+}
 
 export class PackedRow {
   constructor(

@@ -12,7 +12,9 @@ import { STATUS_FAILED, STATUS_OK, STATUS_PROBLEM, type BatchResult } from './ev
 import { CandidatePool, type CandidatePoolData } from './pareto/candidate-pool.ts';
 import { totalViolation } from './pareto/constraint-violation.ts';
 import { IndexSample, type IndexSampleData } from './sampling/index-sample.ts';
-import { PackedRow, packRow, type PackedRowData } from './packed-row.ts';
+import { type CandidateRow, PackedRow, packRow, type PackedRowData } from './packed-row.ts';
+
+export type { CandidateRow };
 import { must } from '../core/must.ts';
 
 /** One objective of a sweep. */
@@ -27,16 +29,6 @@ export interface ConstraintDefinition {
   metric: string;
   min?: number;
   max?: number;
-}
-
-/** One candidate as stored: its dimension values, every metric (null where none), status and reason. */
-export interface CandidateRow {
-  values: number[];
-  metrics: Array<number | null>;
-  status: number;
-  reason: string | null;
-  /** The row's warnings as a bit mask over WARNING_KEYS (core/outcome/warnings.ts). */
-  warningMask: number;
 }
 
 /** Violation given to designs that could not be built (after every evaluated infeasible design). */

@@ -29,6 +29,56 @@ function distanceToTopload(r: number, z: number, body: ToploadBody): number {
   return Math.hypot(Math.max(0, r - body.radius), z - body.centerZ);
 }
 
+/** The toroid or sphere at its centre height, or null with the problem of its own dimensions. */
+function shapedBody(topload: ToploadSpec, centerZ: number, problems: DesignProblem[]): ToploadBody | null {
+  if (topload.shape === 'toroid') {
+    if (!(topload.tubeDiameter > 0)) {
+      problems.push({
+        field: 'topload.tube_diameter',
+        reason: `the tube diameter (${mm(topload.tubeDiameter)}) must be positive`,
+      });
+      return null;
+    }
+    if (!(topload.tubeDiameter < topload.outerDiameter)) {
+      problems.push({
+        field: 'topload.tube_diameter',
+        reason: `the tube diameter (${mm(topload.tubeDiameter)}) is not smaller than the outer diameter (${mm(topload.outerDiameter)})`,
+      });
+      return null;
+    }
+    const body: ToploadBody = {
+      shape: 'toroid',
+      majorRadius: (topload.outerDiameter - topload.tubeDiameter) / 2,
+      minorRadius: topload.tubeDiameter / 2,
+      centerZ,
+    };
+    if (topload.centerDisc) body.centerDisc = true;
+    return body;
+  }
+  if (!(topload.diameter > 0)) {
+    problems.push({
+      field: 'topload.diameter',
+      reason: `the sphere diameter (${mm(topload.diameter)}) must be positive`,
+    });
+    return null;
+  }
+  return { shape: 'sphere', radius: topload.diameter / 2, centerZ };
+}
+
+/** Why the topload cuts into the winding below it, or null when it clears the winding. */
+function windingClash(body: ToploadBody, lowest: number, secondary: SecondaryGeometry): string | null {
+  const clearance =
+    body.shape === 'toroid'
+      ? distanceToWinding(body.majorRadius, body.centerZ, secondary) - body.minorRadius
+      : body.shape === 'sphere'
+        ? distanceToWinding(0, body.centerZ, secondary) - body.radius
+        : 1;
+  if (clearance > 0) return null;
+  return body.shape === 'toroid'
+    ? `the tube's inner edge (radius ${mm(body.majorRadius - body.minorRadius)}) reaches below the top of the winding (radius ${mm(secondary.radius)}) by ${mm(secondary.topZ - lowest)}`
+    : `the sphere (radius ${mm((body as { radius: number }).radius)}) encloses part of the winding (radius ${mm(secondary.radius)})`;
+}
+
 /**
  * The topload as a field body, or the problems that make it impossible.
  * @param topload the topload spec, SI
@@ -50,46 +100,15 @@ export function toploadBody(
     });
     return null;
   }
-  const centerZ = (secondary ? secondary.topZ : 0) + height;
-  let body: ToploadBody;
-  let lowest: number;
-  let name: string;
-  if (topload.shape === 'toroid') {
-    if (!(topload.tubeDiameter > 0)) {
-      problems.push({
-        field: 'topload.tube_diameter',
-        reason: `the tube diameter (${mm(topload.tubeDiameter)}) must be positive`,
-      });
-      return null;
-    }
-    if (!(topload.tubeDiameter < topload.outerDiameter)) {
-      problems.push({
-        field: 'topload.tube_diameter',
-        reason: `the tube diameter (${mm(topload.tubeDiameter)}) is not smaller than the outer diameter (${mm(topload.outerDiameter)})`,
-      });
-      return null;
-    }
-    body = {
-      shape: 'toroid',
-      majorRadius: (topload.outerDiameter - topload.tubeDiameter) / 2,
-      minorRadius: topload.tubeDiameter / 2,
-      centerZ,
-    };
-    if (topload.centerDisc) body.centerDisc = true;
-    lowest = centerZ - body.minorRadius;
-    name = 'toroid';
-  } else {
-    if (!(topload.diameter > 0)) {
-      problems.push({
-        field: 'topload.diameter',
-        reason: `the sphere diameter (${mm(topload.diameter)}) must be positive`,
-      });
-      return null;
-    }
-    body = { shape: 'sphere', radius: topload.diameter / 2, centerZ };
-    lowest = centerZ - body.radius;
-    name = 'sphere';
-  }
+  const body = shapedBody(topload, (secondary ? secondary.topZ : 0) + height, problems);
+  if (!body) return null;
+  const lowest =
+    body.shape === 'toroid'
+      ? body.centerZ - body.minorRadius
+      : body.shape === 'sphere'
+        ? body.centerZ - body.radius
+        : body.centerZ;
+  const name = body.shape === 'toroid' ? 'toroid' : 'sphere';
   if (!(lowest > 0)) {
     problems.push({
       field: heightField,
@@ -97,21 +116,10 @@ export function toploadBody(
     });
     return null;
   }
-  if (secondary) {
-    const clearance =
-      body.shape === 'toroid'
-        ? distanceToWinding(body.majorRadius, body.centerZ, secondary) - body.minorRadius
-        : body.shape === 'sphere'
-          ? distanceToWinding(0, body.centerZ, secondary) - body.radius
-          : 1;
-    if (!(clearance > 0)) {
-      const detail =
-        body.shape === 'toroid'
-          ? `the tube's inner edge (radius ${mm(body.majorRadius - body.minorRadius)}) reaches below the top of the winding (radius ${mm(secondary.radius)}) by ${mm(secondary.topZ - lowest)}`
-          : `the sphere (radius ${mm((body as { radius: number }).radius)}) encloses part of the winding (radius ${mm(secondary.radius)})`;
-      problems.push({ field: 'topload.height_above_winding', reason: `the ${name} intersects the winding: ${detail}` });
-      return null;
-    }
+  const clash = secondary ? windingClash(body, lowest, secondary) : null;
+  if (clash) {
+    problems.push({ field: 'topload.height_above_winding', reason: `the ${name} intersects the winding: ${clash}` });
+    return null;
   }
   return body;
 }

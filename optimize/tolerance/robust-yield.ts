@@ -13,8 +13,10 @@ import { DesignSpace } from '../design-space.ts';
 import { totalViolation } from '../pareto/constraint-violation.ts';
 import { ToleranceDraws } from './tolerance-draws.ts';
 import { sortedQuantile } from './quantile.ts';
-import type { ToleranceConstraint } from './tolerance-run.ts';
-import { drawRow, type ToleranceSpace } from './tolerance-space.ts';
+import type { RobustDefinition } from '../space-definition.ts';
+import { drawRow } from './tolerance-space.ts';
+
+export type { RobustDefinition, RobustQuantile } from '../space-definition.ts';
 
 /** The metric columns of the quantile merits, in slot order (core/metrics.ts). */
 export const QUANTILE_SLOTS: readonly string[] = [
@@ -27,25 +29,6 @@ export const QUANTILE_SLOTS: readonly string[] = [
 /** Whether a metric is a robust merit (computed over the draws, never a build's own metric). */
 export function isRobustMetric(metric: string): boolean {
   return metric === 'build_yield' || QUANTILE_SLOTS.includes(metric);
-}
-
-/** Quantile merit k: the p quantile of `metric` over the draws, written into QUANTILE_SLOTS[k]. */
-export interface RobustQuantile {
-  metric: string;
-  /** 0 < p < 1. */
-  p: number;
-}
-
-export interface RobustDefinition {
-  tolerance: ToleranceSpace;
-  draws: number;
-  seed: number;
-  /** The sweep's constraints (the robust merits' own left out). */
-  constraints: ToleranceConstraint[];
-  /** Metrics a build must have (the sweep's objectives, the robust merits left out). */
-  required: string[];
-  /** The quantile merits, in slot order (none: build_yield alone). */
-  quantiles?: RobustQuantile[];
 }
 
 /** The robust merits of one design. */

@@ -8,25 +8,11 @@
  * a set of quantities (the chosen one), a field inside a set of whole sections (the chosen section's), or
  * the field's default where the design leaves it out. An interval needs no nominal.
  */
-import type { SpaceDefinition } from '../design-space.ts';
+import type { NominalSource, SpaceDefinition, ToleranceSpace } from '../space-definition.ts';
 import { isSlot, type Dimension, type NormalSection, type NormalTree } from '../design-tree.ts';
 import { deviatedValue, type ToleranceField } from './tolerance-draws.ts';
 
-/** Where a field's nominal comes from, per candidate. */
-export type NominalSource =
-  | { kind: 'fixed'; value: number }
-  | { kind: 'range'; dimension: number }
-  | { kind: 'choice'; dimension: number; values: Array<number | null> }
-  | { kind: 'none' };
-
-export interface ToleranceSpace {
-  /** The space the pool evaluates: base dimensions, then one per field. */
-  definition: SpaceDefinition;
-  /** Number of the sweep's own dimensions (the first values of a row). */
-  baseDimensions: number;
-  fields: ToleranceField[];
-  nominals: NominalSource[];
-}
+export type { NominalSource, ToleranceSpace } from '../space-definition.ts';
 
 /** A field that cannot be toleranced in this design space, with the reason. */
 export class ToleranceSetupError extends Error {
