@@ -19,7 +19,7 @@ import { RUN_FILES } from '../run/run-directory.ts';
 import { evolveCommand } from './evolve-command.ts';
 import type { CliIo } from './io.ts';
 import { refineCommand } from './refine-command.ts';
-import { sensitivityStage } from './sensitivity-command.ts';
+import { sensitivityStage } from './sensitivity-study.ts';
 import { type StageSpec, stageCommand } from './sweep-stages.ts';
 
 /** What stages.json holds: the stages finished so far, in order, as the sweep file gave them. */
