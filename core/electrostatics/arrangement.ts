@@ -1,6 +1,7 @@
 /**
  * The field-solve arrangement of a design: where the topload, the winding, the grounded rings and
- * the floor are, and the reasons a geometry cannot be built (DESIGN.md conventions: the floor is
+ * the floor are, and the reasons a geometry cannot be built (conventions, as the README's design-file
+ * reference states them: the floor is
  * z = 0; a toroid's mid-plane sits `height_above_winding` above the top of the winding, or
  * `center_height` above the floor for a topload alone; major radius R = (outer − tube)/2, minor
  * radius r = tube/2; a sphere's centre sits at the same heights).

@@ -8,7 +8,7 @@ export type PointObjective = (point: Float64Array) => number | Merit;
 
 /**
  * An asynchronous batch objective: one Merit (or value) per point, in order. This is the shape a
- * worker pool provides (STYLE.md: optimize depends on evaluateBatch, not on threads).
+ * worker pool provides (DEVELOPERS.md: optimize depends on a BatchEvaluator, never on threads).
  */
 export type BatchObjective = (points: Float64Array[]) => Promise<ReadonlyArray<Merit | number>>;
 

@@ -1,5 +1,5 @@
 /**
- * The primary: ring positions (DESIGN.md convention), inductance as a function of the tap,
+ * The primary: ring positions (the README's design-file convention), inductance as a function of the tap,
  * tuning, coupling, and the primary stage's problems and warnings.
  */
 import { describe, expect, test } from 'vitest';
@@ -54,7 +54,7 @@ function directInductance(primary: PrimarySpec, tap: number): number {
   return total;
 }
 
-describe('primaryRings and ringWeights (DESIGN.md convention)', () => {
+describe('primaryRings and ringWeights (the README design-file convention)', () => {
   test('flat spiral: radius inner/2 + i·pitch, all at the secondary bottom + elevation', () => {
     const rings = primaryRings(flatSpiral({ elevation: 0.01 }), 0.5);
     expect(rings).toHaveLength(10);
