@@ -4,9 +4,12 @@
  * longer alive on this host, or the host rebooted since) is stale and taken over.
  *
  * The lock file is written completely to a temporary file and then hard-linked into place, which
- * fails if a lock exists (atomic, also on NFS), so a lock file is never seen half-written. Taking
- * over moves the stale file aside by rename (only one process can), checks it moved the stale lock
- * and not a fresh one, and then links its own.
+ * fails if a lock exists (atomic, also on NFS), so a lock file is never seen half-written. Only the
+ * process that holds the takeover guard (a second file, `run.lock.takeover`, created exclusively) may
+ * remove a stale lock: it reads the lock again under the guard, removes it only if it is still the
+ * stale one, drops the guard and then links its own like anyone else. So no process can remove a
+ * fresh lock that replaced the stale one, and at most one lock is ever held; the process that links
+ * first wins (it need not be the one that removed the stale lock).
  */
 import { mkdirSync, readFileSync } from 'node:fs';
 import { hostname as osHostname } from 'node:os';
@@ -153,7 +156,7 @@ export function acquireRunLock(directory: string, options: RunLockOptions = {}):
   }
   try {
     let tookOverFrom: RunLockHolder | null = null;
-    for (let attempt = 0; attempt < 8; attempt++) {
+    for (let attempt = 0; attempt < 16; attempt++) {
       try {
         createLockFile(fileSystem, temporary, path, text);
         return makeLock(fileSystem, path, holder, tookOverFrom);
@@ -163,7 +166,10 @@ export function acquireRunLock(directory: string, options: RunLockOptions = {}):
       const existingText = readText(fileSystem, path);
       if (existingText === null) continue; // released meanwhile: try again
       const existing = takeOverStale(fileSystem, directory, path, holder, existingText, alive);
-      if (existing === null) continue; // another process moved it first
+      if (existing === null) {
+        pause(1 + attempt); // another process is taking it over: give it a moment
+        continue;
+      }
       tookOverFrom = existing;
     }
     throw new RunLockError(
@@ -180,6 +186,11 @@ export function acquireRunLock(directory: string, options: RunLockOptions = {}):
   }
 }
 
+/** Blocks this thread for `milliseconds` (the lock is taken synchronously). */
+function pause(milliseconds: number): void {
+  Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, milliseconds);
+}
+
 /** This process as the lock's holder (the options stand in for the process in tests). */
 function holderOfThisProcess(options: RunLockOptions): RunLockHolder {
   return {
@@ -193,8 +204,9 @@ function holderOfThisProcess(options: RunLockOptions): RunLockHolder {
 
 /**
  * Moves the lock file holding `existingText` out of the way when its holder is stale, and returns that
- * holder; null when another process moved it first (try again). Throws a RunLockError when the file cannot
- * be read, its holder is alive (or on another host), or a fresh lock replaced it meanwhile.
+ * holder; null when another process is taking it over or it changed meanwhile (try again). Throws a
+ * RunLockError when the file cannot be read, its holder is alive (or on another host), or a takeover
+ * guard was left by a process that died.
  */
 function takeOverStale(
   fileSystem: DurableFileSystem,
@@ -223,32 +235,54 @@ function takeOverStale(
       existing,
     );
   }
-  // Move the stale lock aside; only one process can move a given file.
-  const aside = join(directory, `.${RUN_LOCK_FILE}.${holder.token}.stale`);
+  const guard = `${path}.takeover`;
   try {
-    fileSystem.renameSync(path, aside);
+    const fd = fileSystem.openSync(guard, 'wx', 0o644);
+    try {
+      writeAllSync(fileSystem, fd, Buffer.from(`${JSON.stringify(holder)}\n`, 'utf8'));
+    } finally {
+      fileSystem.closeSync(fd);
+    }
+  } catch (error) {
+    if ((error as { code?: string }).code !== 'EEXIST') throw toDiskError(error, guard, 'lock');
+    refuseStaleGuard(fileSystem, directory, guard, holder, alive);
+    return null; // another process is taking the stale lock over: try again
+  }
+  try {
+    // Under the guard no other process removes the lock file, and its dead holder never will.
+    if (readText(fileSystem, path) !== existingText) return null;
+    fileSystem.unlinkSync(path);
+    return existing;
   } catch (error) {
     if ((error as { code?: string }).code === 'ENOENT') return null;
     throw toDiskError(error, path, 'lock');
+  } finally {
+    fileSystem.unlinkSync(guard);
   }
-  const movedText = readText(fileSystem, aside);
-  if (movedText !== existingText) {
-    // A fresh lock replaced the stale one before our rename: put it back and report it.
-    try {
-      fileSystem.linkSync(aside, path);
-    } catch {
-      // a third lock is in place; ours stays out either way
-    }
-    fileSystem.unlinkSync(aside);
-    const fresh = movedText === null ? null : parseHolder(movedText);
-    throw new RunLockError(
-      `'${directory}' is in use by process ${fresh?.pid ?? '?'} since ${fresh?.startedAt ?? '?'}; wait for it to finish`,
-      path,
-      fresh,
-    );
-  }
-  fileSystem.unlinkSync(aside);
-  return existing;
+}
+
+/**
+ * Throws when the takeover guard was left by a process that died in the moment between creating and
+ * removing it (it is never removed automatically: two processes doing so at once could remove a
+ * live guard); returns quietly while its holder lives or it cannot be read (it is being written).
+ */
+function refuseStaleGuard(
+  fileSystem: DurableFileSystem,
+  directory: string,
+  guard: string,
+  holder: RunLockHolder,
+  alive: (pid: number) => boolean,
+): void {
+  const text = readText(fileSystem, guard);
+  const taker = text === null ? null : parseHolder(text);
+  if (taker === null || taker.hostname !== holder.hostname) return;
+  const rebooted = taker.bootId !== null && holder.bootId !== null && taker.bootId !== holder.bootId;
+  if (!rebooted && alive(taker.pid)) return;
+  throw new RunLockError(
+    `'${directory}': a process that was taking over a stale lock died and left '${guard}'; if no sweep runs there, delete it`,
+    guard,
+    null,
+  );
 }
 
 /**
