@@ -19,8 +19,8 @@ const here = (path: string): string => fileURLToPath(new URL(`../../../${path}`,
 const POINT: BreakoutPointSpec = { position: 'top', tipRadius: 0.002, fireAtFraction: 0.6 };
 const COLUMN: SupportSpec = { kind: 'column', from: 'winding_top', diameter: 0.06 };
 
-/** The three-coil exhibit with a breakout point and a support added (or others given). */
-function exhibit(point: BreakoutPointSpec | undefined = POINT, support: SupportSpec | undefined = COLUMN): Design {
+/** The three-coil exhibit with a breakout point and a support added (others given; null: none). */
+function exhibit(point: BreakoutPointSpec | null = POINT, support: SupportSpec | null = COLUMN): Design {
   const { design } = loadDesignFile(here('examples/three-coil-exhibit.yaml'));
   const out: Design = { ...design };
   delete out.breakoutPoint;
@@ -94,7 +94,7 @@ describe('the resonator field solve is the two-coil solve of its winding and top
 });
 
 describe('the breakout point caps the resonator top voltage (the two-coil rule of outcome-stage.ts)', () => {
-  const without = evaluateDesign(exhibit(undefined, undefined));
+  const without = evaluateDesign(exhibit(null, null));
   const withPoint = evaluateDesign(exhibit());
   const m = withPoint.metrics;
   test('fire_at_fraction 0.6 sizes the rod on the resonator topload to 0.6 of its bare breakout voltage', () => {
@@ -119,7 +119,7 @@ describe('the breakout point caps the resonator top voltage (the two-coil rule o
     expect(keys).not.toContain('topload_never_breaks_out');
   });
   test('a point the resonator never reaches and one that fires above the topload warn as for two coils', () => {
-    const result = evaluateDesign(exhibit({ position: 'top', tipRadius: 0.001, length: 0.001 }, undefined));
+    const result = evaluateDesign(exhibit({ position: 'top', tipRadius: 0.001, length: 0.001 }, null));
     const keys = result.warnings.map((w) => w.key);
     expect(keys).toContain('breakout_point_above_topload');
     expect(keys).toContain('breakout_point_never_fires');
@@ -145,7 +145,7 @@ describe('bad geometry on the resonator is a design problem naming the field', (
     [undefined, { position: 'top', tipRadius: 0.005, length: 0.002 }, 'breakout_point.length'],
     [undefined, { position: 'rim', tipRadius: 0.005, fireAtVoltage: 2e6 }, 'breakout_point.fire_at_voltage'],
   ] as const)('%j with point %j names %s', (support, point, field) => {
-    const design = exhibit(point ? { ...point } : undefined, support ? { ...support } : undefined);
+    const design = exhibit(point ? { ...point } : null, support ? { ...support } : null);
     expect(evaluateDesign(design).problems.map((p) => p.field)).toEqual([field]);
   });
 });
