@@ -149,3 +149,21 @@ describe('bad geometry on the resonator is a design problem naming the field', (
     expect(evaluateDesign(design).problems.map((p) => p.field)).toEqual([field]);
   });
 });
+
+describe("a solid-state burst reports when the resonator's top reaches the topload's breakout (as a two-coil burst)", () => {
+  test.each([
+    [12, false],
+    [30, true],
+  ])(
+    '%i cycles at 400 V: breakout_during_burst is %s, exactly when the peak reaches breakout_voltage',
+    (cycles, warned) => {
+      const { metrics, warnings } = evaluateDesign({
+        ...exhibit(null, null),
+        driver: { kind: 'solid_state', bridge: 'full', busVoltage: 400, cycles, repetitionRate: 100 },
+      });
+      const reached = (metrics.peak_voltage as number) >= (metrics.breakout_voltage as number);
+      expect(reached).toBe(warned);
+      expect(warnings.map((w) => w.key).includes('breakout_during_burst')).toBe(warned);
+    },
+  );
+});
