@@ -290,6 +290,15 @@ function drawStrikeRail(c: Canvas): void {
   }
 }
 
+/** A toroid's centre disc: it fills the hole at the mid-plane out to the tube's inner edge (bodies.ts). */
+function drawCenterDisc(c: Canvas, radius: number, centre: number): void {
+  const { X, Y, scale, out } = c;
+  const thickness = Math.max(1.2, 0.004 * scale);
+  out.push(
+    `<rect class="center-disc" x="${n(X(-radius))}" y="${n(Y(centre) - thickness / 2)}" width="${n(2 * radius * scale)}" height="${n(thickness)}" fill="${DRAWING_COLOURS.topload}" stroke="${DRAWING_COLOURS.ink}" stroke-width="0.6" data-diameter="${2 * radius}"/>`,
+  );
+}
+
 /** The topload, its peak-field spot and the strike distance. */
 function drawTopload(c: Canvas): void {
   const { design, field, metrics, topload, toploadCentre, X, Y, scale, axisX, out, callouts, obstacles } = c;
@@ -301,14 +310,7 @@ function drawTopload(c: Canvas): void {
         `<rect class="topload" x="${n(X(-outer))}" y="${n(Y(toploadCentre + tube))}" width="${n(2 * outer * scale)}" height="${n(2 * tube * scale)}" rx="${n(tube * scale)}" fill="${DRAWING_COLOURS.topload}" fill-opacity="0.85" stroke="${DRAWING_COLOURS.ink}" stroke-width="0.8" data-outer-diameter="${topload.outerDiameter}"/>`,
       );
       obstacles.push({ x0: X(-outer), y0: Y(toploadCentre + tube), x1: X(outer), y1: Y(toploadCentre - tube) });
-      if (topload.centerDisc) {
-        // the disc fills the hole at the mid-plane, out to the tube's inner edge (bodies.ts)
-        const inner = outer - 2 * tube;
-        const thickness = Math.max(1.2, 0.004 * scale);
-        out.push(
-          `<rect class="center-disc" x="${n(X(-inner))}" y="${n(Y(toploadCentre) - thickness / 2)}" width="${n(2 * inner * scale)}" height="${n(thickness)}" fill="${DRAWING_COLOURS.topload}" stroke="${DRAWING_COLOURS.ink}" stroke-width="0.6" data-diameter="${2 * inner}"/>`,
-        );
-      }
+      if (topload.centerDisc) drawCenterDisc(c, outer - 2 * tube, toploadCentre);
     } else {
       out.push(
         `<circle class="topload" cx="${n(axisX)}" cy="${n(Y(toploadCentre))}" r="${n((topload.diameter / 2) * scale)}" fill="${DRAWING_COLOURS.topload}" fill-opacity="0.85" stroke="${DRAWING_COLOURS.ink}" stroke-width="0.8" data-outer-diameter="${topload.diameter}"/>`,
