@@ -492,7 +492,7 @@ export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
   },
   breakout_point: {
     description:
-      'a rod with a hemispherical tip standing out of the topload, sized so that the discharge starts there (give one of length, fire_at_voltage, fire_at_fraction)',
+      'a rod with a hemispherical tip standing out of the topload (on the resonator in a three-coil design), sized so that the discharge starts there (give one of length, fire_at_voltage, fire_at_fraction)',
     optional: true,
     fields: {
       position: {
@@ -526,7 +526,7 @@ export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
   },
   supports: {
     description:
-      'insulating supports of the topload: a central column or a set of straight rods; the field along them is reported (their permittivity ignored)',
+      'insulating supports of the topload (on the resonator in a three-coil design): a central column or a set of straight rods; the field along them is reported (their permittivity ignored)',
     optional: true,
     fields: {
       diameter: length('diameter of the column or of each rod', { plausible: [1e-3, 1] }),
@@ -548,7 +548,7 @@ export const DESIGN_SECTIONS: Record<string, SectionSpec> = {
             optional: true,
             default: 'winding_top',
             description:
-              "where the column on the axis starts: the floor (inside the coil form) or the top of the winding; it ends at the topload (a sphere's underside, a toroid's mid-plane)",
+              "where the column on the axis starts: the floor (inside the coil form) or the top of the winding (the resonator's in a three-coil design); it ends at the topload (a sphere's underside, a toroid's mid-plane)",
           },
         },
         rods: {

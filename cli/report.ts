@@ -168,7 +168,7 @@ const GROUPS: Group[] = [
       'junction_peak_voltage',
       'resonator_separation_needed',
     ],
-    note: 'the secondary is solved without the topload; the topload, its breakout margin and field belong to the resonator',
+    note: 'the secondary is solved without the topload; the topload, its breakout margin and field, the breakout point and the supports belong to the resonator',
   },
 ];
 

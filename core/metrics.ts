@@ -241,7 +241,11 @@ export const METRICS: readonly MetricInfo[] = [
     's',
     "first full transfer to the resonator's top: the largest top voltage before its envelope (per period of the lowest mode) stops rising",
   ),
-  metric('resonator_peak_voltage', 'V', "the resonator's top voltage at resonator_transfer_time (also peak_voltage)"),
+  metric(
+    'resonator_peak_voltage',
+    'V',
+    "the resonator's top voltage at resonator_transfer_time (also peak_voltage; a breakout point caps both)",
+  ),
   metric('junction_peak_voltage', 'V', 'largest voltage at the junction (top of the secondary) up to that time'),
   metric(
     'resonator_ac_resistance',

@@ -8,7 +8,9 @@
  *
  * Scale: one metre is `scale` SVG units (the root element says so in data-scale, and the title block
  * as a ratio), the same on both axes; heights above the floor go up the page. Every body carries a
- * class (floor, primary-ring, strike-rail, coil-form, winding, topload, equipotential, peak-field,
+ * class (floor, primary-ring, strike-rail, coil-form, winding, topload, center-disc, support,
+ * breakout-point, equipotential, peak-field, resonator (a three-coil system's, on its own axis with its
+ * field, to the right), feed-line,
  * dimension) so that tests and style sheets can find it.
  */
 import { contours } from 'd3-contour';
@@ -288,6 +290,15 @@ function drawStrikeRail(c: Canvas): void {
   }
 }
 
+/** A toroid's centre disc: it fills the hole at the mid-plane out to the tube's inner edge (bodies.ts). */
+function drawCenterDisc(c: Canvas, radius: number, centre: number): void {
+  const { X, Y, scale, out } = c;
+  const thickness = Math.max(1.2, 0.004 * scale);
+  out.push(
+    `<rect class="center-disc" x="${n(X(-radius))}" y="${n(Y(centre) - thickness / 2)}" width="${n(2 * radius * scale)}" height="${n(thickness)}" fill="${DRAWING_COLOURS.topload}" stroke="${DRAWING_COLOURS.ink}" stroke-width="0.6" data-diameter="${2 * radius}"/>`,
+  );
+}
+
 /** The topload, its peak-field spot and the strike distance. */
 function drawTopload(c: Canvas): void {
   const { design, field, metrics, topload, toploadCentre, X, Y, scale, axisX, out, callouts, obstacles } = c;
@@ -299,6 +310,7 @@ function drawTopload(c: Canvas): void {
         `<rect class="topload" x="${n(X(-outer))}" y="${n(Y(toploadCentre + tube))}" width="${n(2 * outer * scale)}" height="${n(2 * tube * scale)}" rx="${n(tube * scale)}" fill="${DRAWING_COLOURS.topload}" fill-opacity="0.85" stroke="${DRAWING_COLOURS.ink}" stroke-width="0.8" data-outer-diameter="${topload.outerDiameter}"/>`,
       );
       obstacles.push({ x0: X(-outer), y0: Y(toploadCentre + tube), x1: X(outer), y1: Y(toploadCentre - tube) });
+      if (topload.centerDisc) drawCenterDisc(c, outer - 2 * tube, toploadCentre);
     } else {
       out.push(
         `<circle class="topload" cx="${n(axisX)}" cy="${n(Y(toploadCentre))}" r="${n((topload.diameter / 2) * scale)}" fill="${DRAWING_COLOURS.topload}" fill-opacity="0.85" stroke="${DRAWING_COLOURS.ink}" stroke-width="0.8" data-outer-diameter="${topload.diameter}"/>`,
@@ -381,16 +393,14 @@ function drawSupportAndPoint(c: Canvas): void {
     const toroid = topload.shape === 'toroid';
     const outer = toroid ? topload.outerDiameter / 2 : topload.diameter / 2;
     const rise = toroid ? topload.tubeDiameter / 2 : topload.diameter / 2;
-    const crownR = toroid ? (topload.outerDiameter - topload.tubeDiameter) / 2 : 0;
+    const onDisc = toroid && topload.centerDisc === true && point.position === 'top';
+    const crownR = toroid && !onDisc ? (topload.outerDiameter - topload.tubeDiameter) / 2 : 0;
+    // on a centre disc it stands on the axis from the disc (axis-point.ts)
+    const base = onDisc ? toploadCentre : toploadCentre + rise;
     // top: up from the crown (a sphere's pole, a toroid's crown on both sides); rim: out from the equator
     const ends: Array<[number, number, number, number]> =
       point.position === 'top'
-        ? (crownR === 0 ? [1] : [1, -1]).map((side) => [
-            side * crownR,
-            toploadCentre + rise,
-            side * crownR,
-            toploadCentre + rise + pointLength,
-          ])
+        ? (crownR === 0 ? [1] : [1, -1]).map((side) => [side * crownR, base, side * crownR, base + pointLength])
         : [1, -1].map((side) => [side * outer, toploadCentre, side * (outer + pointLength), toploadCentre]);
     const [, , labelR, labelZ] = ends[0] ?? [0, 0, 0, 0];
     callouts.push({
@@ -425,15 +435,24 @@ function drawOverallHeight(c: Canvas): void {
   }
 }
 
-/** The SVG drawing of a design (see the module comment). */
-export function designDrawingSvg(design: Design, field: DesignField, options: DrawingOptions): string {
-  const metrics = field.evaluation.metrics;
-  const secondary = field.secondary;
-  const primary = field.primary;
-  const topload = design.topload;
-  const toploadCentre = topload ? toploadCentreHeight(topload, secondary ? secondary.topZ : null) : null;
+/** The topload's half-width and its rise above its centre, m. */
+function toploadExtent(topload: NonNullable<Design['topload']>): { outer: number; rise: number } {
+  return topload.shape === 'toroid'
+    ? { outer: topload.outerDiameter / 2, rise: topload.tubeDiameter / 2 }
+    : { outer: topload.diameter / 2, rise: topload.diameter / 2 };
+}
 
-  // Extent of the picture in metres: the widest body and the highest point.
+/**
+ * Extent of the picture in metres: the half-width about the secondary's axis (the widest body,
+ * with room for the field), the reach to the right (a three-coil resonator's axis and its own
+ * half-width beyond it) and the highest point.
+ */
+function pictureExtent(
+  design: Design,
+  field: DesignField,
+  toploadCentre: number | null,
+): { halfWidth: number; right: number; resonatorHalf: number; top: number } {
+  const { secondary, primary, resonator } = field;
   let halfWidth = 0.1;
   let top = 0.1;
   if (secondary) {
@@ -442,20 +461,42 @@ export function designDrawingSvg(design: Design, field: DesignField, options: Dr
   }
   for (const ring of primary?.rings ?? []) halfWidth = Math.max(halfWidth, ring.r + (primary?.conductorRadius ?? 0));
   if (design.strikeRail) halfWidth = Math.max(halfWidth, design.strikeRail.diameter / 2);
+  const topload = design.topload;
+  let resonatorHalf = 0;
+  if (resonator) {
+    resonatorHalf = resonator.winding.radius + resonator.winding.overallDiameter;
+    top = Math.max(top, resonator.winding.topZ);
+  }
   if (topload && toploadCentre !== null) {
-    const outer = topload.shape === 'toroid' ? topload.outerDiameter / 2 : topload.diameter / 2;
-    const rise = topload.shape === 'toroid' ? topload.tubeDiameter / 2 : topload.diameter / 2;
-    halfWidth = Math.max(halfWidth, outer);
+    const { outer, rise } = toploadExtent(topload);
+    if (resonator) resonatorHalf = Math.max(resonatorHalf, outer);
+    else halfWidth = Math.max(halfWidth, outer);
     top = Math.max(top, toploadCentre + rise);
   }
   halfWidth *= 1.6;
+  if (!resonator) return { halfWidth, right: halfWidth, resonatorHalf: 0, top };
+  // the resonator's field is drawn on its own axis, short of the secondary's
+  resonatorHalf = Math.max(resonatorHalf, Math.min(1.6 * resonatorHalf, resonator.axisSpacing - halfWidth));
+  return { halfWidth, right: Math.max(halfWidth, resonator.axisSpacing + resonatorHalf), resonatorHalf, top };
+}
+
+/** The SVG drawing of a design (see the module comment). */
+export function designDrawingSvg(design: Design, field: DesignField, options: DrawingOptions): string {
+  const metrics = field.evaluation.metrics;
+  const secondary = field.secondary;
+  const primary = field.primary;
+  const topload = design.topload;
+  const toploadTop = field.resonator ? field.resonator.winding.topZ : secondary ? secondary.topZ : null;
+  const toploadCentre = topload ? toploadCentreHeight(topload, toploadTop) : null;
+
+  const { halfWidth, right, resonatorHalf, top } = pictureExtent(design, field, toploadCentre);
   const fieldTop = Math.max(top * 1.15 + 0.05, options.pictureTop ?? 0);
   const drawingHeight = options.height ?? 640;
   const scale = drawingHeight / fieldTop;
-  const drawingWidth = 2 * halfWidth * scale;
+  const drawingWidth = (halfWidth + right) * scale;
   const width = Math.ceil(drawingWidth + 2 * MARGIN + LABEL_ROOM + TITLE_BLOCK_WIDTH);
   const height = Math.ceil(drawingHeight + 2 * MARGIN);
-  const axisX = MARGIN + drawingWidth / 2;
+  const axisX = MARGIN + halfWidth * scale;
   const floorY = MARGIN + drawingHeight;
   const X = (r: number) => axisX + r * scale;
   const Y = (z: number) => floorY - z * scale;
@@ -475,7 +516,7 @@ export function designDrawingSvg(design: Design, field: DesignField, options: Dr
     metrics,
     secondary,
     primary,
-    topload,
+    topload: field.resonator ? undefined : topload,
     toploadCentre,
     X,
     Y,
@@ -490,13 +531,14 @@ export function designDrawingSvg(design: Design, field: DesignField, options: Dr
     callouts,
     obstacles,
   };
-  const levelsDrawn = drawField(c);
+  let levelsDrawn = drawField(c);
   drawFloor(c);
   drawSecondary(c);
   drawPrimary(c);
   drawStrikeRail(c);
   drawTopload(c);
   drawSupportAndPoint(c);
+  if (field.resonator) levelsDrawn += drawResonator(c, field.resonator, resonatorHalf);
   drawOverallHeight(c);
 
   const blockX = MARGIN * 1.5 + drawingWidth + LABEL_ROOM;
@@ -504,6 +546,53 @@ export function designDrawingSvg(design: Design, field: DesignField, options: Dr
   out.push(titleBlock(field, options.title, blockX, MARGIN, scale, levelsDrawn));
   out.push('</svg>');
   return `${out.join('\n')}\n`;
+}
+
+/**
+ * A three-coil system's resonator on its own axis, `axisSpacing` to the right: its field, form and
+ * winding, the topload with its breakout point and support (the same parts as the secondary's, on
+ * a canvas shifted to that axis), and the line from the secondary's top across to its base at the
+ * line's height (schematic: its route is not modelled beyond its length and height). Returns the equipotential levels drawn.
+ */
+function drawResonator(c: Canvas, resonator: NonNullable<DesignField['resonator']>, halfWidth: number): number {
+  const spec = c.design.resonator;
+  if (!spec) return 0;
+  const offset = resonator.axisSpacing;
+  const design: Design = { ...c.design, secondary: spec.winding };
+  delete design.strikeRail;
+  const shifted: Canvas = {
+    ...c,
+    design,
+    field: {
+      ...c.field,
+      secondary: resonator.winding,
+      primary: null,
+      arrangement: resonator.arrangement,
+      field: resonator.field,
+      profile: resonator.profile,
+      support: resonator.support,
+    },
+    secondary: resonator.winding,
+    primary: null,
+    topload: c.design.topload,
+    X: (r: number) => c.X(offset + r),
+    axisX: c.X(offset),
+    halfWidth,
+  };
+  // the line (drawn under the resonator): up from the secondary's top, across at its height, down to the resonator's base
+  const driverTop = c.secondary?.topZ ?? spec.line.height;
+  const h = spec.line.height;
+  const foot = offset - resonator.winding.radius;
+  c.out.push(
+    `<polyline class="feed-line" points="${n(c.X(0))},${n(c.Y(driverTop))} ${n(c.X(0))},${n(c.Y(h))} ${n(c.X(foot))},${n(c.Y(h))} ${n(c.X(foot))},${n(c.Y(resonator.winding.bottomZ))}" fill="none" stroke="${DRAWING_COLOURS.copper}" stroke-width="1.5" stroke-dasharray="6 3" data-length="${spec.line.length}" data-height="${h}"/>`,
+  );
+  c.out.push(`<g class="resonator" data-axis-spacing="${offset}">`);
+  const levels = drawField(shifted);
+  drawSecondary(shifted);
+  drawTopload(shifted);
+  drawSupportAndPoint(shifted);
+  c.out.push('</g>');
+  return levels;
 }
 
 /** A label of the drawing beside its point, with the class and colour it is drawn in. */

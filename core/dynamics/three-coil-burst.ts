@@ -7,7 +7,8 @@
  * (Butcher, Numerical Methods for Ordinary Differential Equations, 2008, §23) at 256 steps per
  * period of the upper mode; a step holding a switching or the current-limit instant is redone up
  * to that instant, found by bisection. The energy from the supply is exact per segment (e times
- * the charge through the tank, ∫ e i1 dt = e ΔQ1).
+ * the charge through the tank, ∫ e i1 dt = e ΔQ1). As in solid-state.ts, a breakout voltage of the
+ * drive does not cut the burst: the first time |v3| (the resonator's top) reaches it is reported.
  */
 import type { BridgeDrive, BurstEnd } from './solid-state.ts';
 import { type LoopNetwork, losslessLoopFrequencies, loopEnergy } from './loop-modes.ts';
@@ -30,6 +31,9 @@ export interface ThreeCoilBurst {
   energyDissipated: number;
   /** Stored energy at the end, J. */
   finalEnergy: number;
+  /** First time |v3| reached drive.breakoutVoltage (at the end of that step), s, and the cycles completed by then; null if never. */
+  breakoutTime: number | null;
+  breakoutCycles: number | null;
 }
 
 const STEPS_PER_CYCLE = 256;
@@ -178,6 +182,9 @@ export function threeCoilBurst(circuit: ThreeCoilCircuit, drive: BridgeDrive): T
   let endReason: BurstEnd = 'step_limit';
   const E = drive.driveVoltage;
   const limit = drive.currentLimit ?? Number.POSITIVE_INFINITY;
+  const breakout = drive.breakoutVoltage ?? Number.POSITIVE_INFINITY;
+  let breakoutTime: number | null = null;
+  let breakoutCycles: number | null = null;
   for (let n = 0; n < MAX_STEPS; n++) {
     const { dt, event } = eventStep({ step, y, next, trial, e: polarity * E, polarity }, h, time, drive, limit);
     fromSource += polarity * E * (next[0] - y[0]);
@@ -185,6 +192,7 @@ export function threeCoilBurst(circuit: ThreeCoilCircuit, drive: BridgeDrive): T
     time += dt;
     [y, next] = [next, y];
     recordPeaks(peaks, y, circuit);
+    if (breakoutTime === null && peaks.voltage >= breakout) [breakoutTime, breakoutCycles] = [time, switchings / 2];
     if (event === 'on_time') {
       endReason = 'on_time';
       break;
@@ -213,5 +221,7 @@ export function threeCoilBurst(circuit: ThreeCoilCircuit, drive: BridgeDrive): T
     energyFromSource: fromSource,
     energyDissipated: dissipated,
     finalEnergy: loopEnergy(network, y),
+    breakoutTime,
+    breakoutCycles,
   };
 }

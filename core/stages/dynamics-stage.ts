@@ -152,7 +152,7 @@ function runSparkGap(context: EvalContext, circuit: CoupledCircuit, driver: Spar
 }
 
 function runSolidState(context: EvalContext, circuit: CoupledCircuit, driver: SolidStateDriver): void {
-  const { metrics, warnings } = context;
+  const { metrics } = context;
   const upperPeriod =
     1 /
     (metrics.mode_frequency_high ??
@@ -172,12 +172,7 @@ function runSolidState(context: EvalContext, circuit: CoupledCircuit, driver: So
   metrics.peak_voltage = burst.peakVoltage;
   metrics.transfer_time = null; // a driven burst has no single transfer
   currentLimitCheck(context, driver, burst);
-  if (burst.breakoutTime !== null && breakoutVoltage) {
-    warnings.push({
-      key: 'breakout_during_burst',
-      message: `the topload reaches its breakout voltage ${formatQuantity(breakoutVoltage, 'V')} after ${formatNumber(burst.breakoutCycles ?? 0)} cycles (${formatQuantity(burst.breakoutTime, 's')}) of the ${formatQuantity(burst.endTime, 's')} burst; the peak voltage assumes it held`,
-    });
-  }
+  breakoutDuringBurst(context, breakoutVoltage, burst);
   context.burstPeakTankVoltage = burst.peakTankVoltage;
   context.burstPeakTankCurrent = burst.peakPrimaryCurrent;
   context.burstTankCurrentSquared = burst.primaryCurrentSquared;
@@ -338,7 +333,14 @@ function runThreeCoilBurst(
   const window = burstWindow(context, driver, upperPeriod);
   if (window === null) return;
   const driveVoltage = driver.bridge === 'full' ? driver.busVoltage : driver.busVoltage / 2;
-  const burst = threeCoilBurst(circuit, { driveVoltage, currentLimit: driver.currentLimit, ...window });
+  // the topload (on the resonator) breaks out at its own breakout voltage, as in a two-coil burst
+  const breakoutVoltage = context.electrostatics?.breakoutVoltage ?? undefined;
+  const burst = threeCoilBurst(circuit, {
+    driveVoltage,
+    currentLimit: driver.currentLimit,
+    ...window,
+    breakoutVoltage: breakoutVoltage ?? undefined,
+  });
   if (!burst) return;
   if (burst.endReason === 'step_limit') {
     warnings.push({
@@ -353,7 +355,21 @@ function runThreeCoilBurst(
   metrics.junction_peak_voltage = burst.peakJunctionVoltage;
   metrics.transfer_time = null; // a driven burst has no single transfer
   currentLimitCheck(context, driver, burst);
+  breakoutDuringBurst(context, breakoutVoltage, burst);
   tankRatingCheck(context, burst.peakTankVoltage, 'the peak tank voltage in the burst');
+}
+
+/** The breakout_during_burst warning of a burst whose top reached the topload's breakout voltage. */
+function breakoutDuringBurst(
+  context: EvalContext,
+  breakoutVoltage: number | undefined,
+  burst: { breakoutTime: number | null; breakoutCycles: number | null; endTime: number },
+): void {
+  if (burst.breakoutTime === null || !breakoutVoltage) return;
+  context.warnings.push({
+    key: 'breakout_during_burst',
+    message: `the topload reaches its breakout voltage ${formatQuantity(breakoutVoltage, 'V')} after ${formatNumber(burst.breakoutCycles ?? 0)} cycles (${formatQuantity(burst.breakoutTime, 's')}) of the ${formatQuantity(burst.endTime, 's')} burst; the peak voltage assumes it held`,
+  });
 }
 
 /**

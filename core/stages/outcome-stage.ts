@@ -70,7 +70,8 @@ function heightAndSpark(context: EvalContext): number | null {
 
 /**
  * A breakout point fires first and holds the top at its firing voltage: sets
- * peak_voltage_without_point and the capped peak_voltage, with the point's warnings. Returns the peak
+ * peak_voltage_without_point and the capped peak_voltage (and resonator_peak_voltage, the same top,
+ * in a three-coil system), with the point's warnings. Returns the peak
  * the rest of the stage uses and the point's firing voltage (null without a point).
  */
 function capAtPoint(context: EvalContext, uncapped: number): { peak: number; pointVoltage: number | null } {
@@ -80,6 +81,8 @@ function capAtPoint(context: EvalContext, uncapped: number): { peak: number; poi
   pointWarnings(context, uncapped, pointVoltage);
   const peak = Math.min(uncapped, pointVoltage);
   context.metrics.peak_voltage = peak;
+  // three coils: the point stands on the resonator's topload, so it holds the resonator's top
+  if (context.threeCoil) context.metrics.resonator_peak_voltage = peak;
   return { peak, pointVoltage };
 }
 

@@ -16,6 +16,10 @@
  *   the circuit the base follows the junction.
  * - The topload's metrics (capacitance, field per volt, onset field, breakout voltage) are those
  *   of the resonator's solve, so every margin and warning of the outcome applies to it.
+ * - The breakout point and the supports (topload-parts.ts) stand on the resonator's topload: they
+ *   are solved in the resonator's own solve, with its winding (a column from the winding top stands
+ *   on the resonator's winding, a rod may not cross it), so the point's firing voltage caps the
+ *   resonator's top voltage in the outcome stage exactly as a two-coil top voltage.
  */
 import type { DesignProblem, EvalContext, ThreeCoilParts } from '../context.ts';
 import type { Design } from '../design.ts';
@@ -34,6 +38,15 @@ const TOPLOAD_METRICS = [
   'topload_peak_field_angle',
   'topload_onset_field',
   'breakout_voltage',
+  'breakout_point_length',
+  'breakout_point_enhancement',
+  'breakout_point_base_field_per_volt',
+  'breakout_point_onset_field',
+  'breakout_point_voltage',
+  'support_peak_field_per_volt',
+  'support_peak_field_position',
+  'topload_low_field_angle',
+  'topload_low_field_per_volt',
 ] as const;
 
 function mm(metres: number): string {
@@ -48,6 +61,8 @@ function resonatorAlone(context: EvalContext, spec: NonNullable<Design['resonato
   const { design, problems } = context;
   const subDesign: Design = { secondary: spec.winding, environment: design.environment };
   if (design.topload) subDesign.topload = design.topload;
+  if (design.breakoutPoint) subDesign.breakoutPoint = design.breakoutPoint;
+  if (design.support) subDesign.support = design.support;
   const sub: EvalContext = { design: subDesign, metrics: emptyMetrics(), warnings: [], problems: [] };
   secondaryStage(sub);
   if (sub.problems.length === 0) electrostaticsStage(sub);
@@ -105,6 +120,9 @@ function recordThreeCoil(context: EvalContext, sub: EvalContext, parts: ThreeCoi
     onsetField: solved.onsetField,
     breakoutVoltage: solved.breakoutVoltage,
   };
+  if (solved.breakoutPointVoltage !== undefined)
+    context.electrostatics.breakoutPointVoltage = solved.breakoutPointVoltage;
+  if (solved.support !== undefined) context.electrostatics.support = solved.support;
 }
 
 export function resonatorStage(context: EvalContext): void {

@@ -158,3 +158,87 @@ describe('coilfront draw examples/gallery-coil-breakout-point.yaml', async () =>
     expect(top.length).toBeGreaterThan(0);
   });
 });
+
+describe('coilfront draw examples/three-coil-exhibit.yaml (a resonator on its own axis)', async () => {
+  const out = join(directory, 'three-coil.svg');
+  const result = await run(['draw', 'examples/three-coil-exhibit.yaml', '--out', out]);
+  const svg = readFileSync(out, 'utf8');
+  const scale = rootNumber(svg, 'data-scale');
+  const axisX = rootNumber(svg, 'data-axis-x');
+  const floorY = rootNumber(svg, 'data-floor-y');
+  const evaluated = await run(['evaluate', 'examples/three-coil-exhibit.yaml', '--json']);
+  const metrics = (JSON.parse(evaluated.out) as { metrics: Record<string, number | null> }).metrics;
+  // Check values: the design file's own dimensions (axis spacing 3 m, toroid 900 mm by 230 mm, a
+  // 60 mm column) and the evaluation's sized rod; drawing units are rounded to 0.01.
+  const resonatorX = axisX + 3 * scale;
+
+  it('draws the resonator group 3 m from the secondary, with its own winding and equipotentials', () => {
+    expect(result.code).toBe(0);
+    const [group] = elements(svg, 'resonator');
+    expect(Number(group?.['data-axis-spacing'])).toBe(3);
+    const resonatorPart = svg.slice(svg.indexOf('<g class="resonator"'));
+    expect(elements(resonatorPart, 'winding').length).toBe(1);
+    expect(elements(resonatorPart, 'equipotential').length).toBeGreaterThan(3);
+    expect(elements(svg, 'winding').length).toBe(2);
+    expect(elements(svg, 'feed-line').length).toBe(1);
+  });
+
+  it('draws the toroid once, on the resonator, 900 mm across, with its centre disc 440 mm across', () => {
+    const toploads = elements(svg, 'topload');
+    expect(toploads.length).toBe(1);
+    const [topload] = toploads;
+    expect(Number(topload.width) / scale).toBeCloseTo(0.9, 3);
+    expect(Math.abs(Number(topload.x) + Number(topload.width) / 2 - resonatorX)).toBeLessThan(0.02);
+    const [disc] = elements(svg, 'center-disc');
+    // the disc fills the hole: diameter = outer − 2 × tube = 900 − 460 mm
+    expect(Number(disc?.width) / scale).toBeCloseTo(0.44, 3);
+    expect(Math.abs(Number(disc?.x) + Number(disc?.width) / 2 - resonatorX)).toBeLessThan(0.02);
+  });
+
+  it('draws one breakout rod on the resonator axis at the sized length, and the column on that axis', () => {
+    const points = [
+      ...svg.matchAll(
+        /class="breakout-point" data-length="([^"]+)"><line x1="([^"]+)" y1="([^"]+)" x2="([^"]+)" y2="([^"]+)"/g,
+      ),
+    ];
+    expect(points.length).toBe(1);
+    const [, length, x1, y1, x2, y2] = points[0] ?? [];
+    expect(Number(length)).toBeCloseTo(metrics.breakout_point_length ?? Number.NaN, 12);
+    expect(Math.abs(Number(x1) - resonatorX)).toBeLessThan(0.02);
+    expect(Number(x2)).toBe(Number(x1));
+    expect((Number(y1) - Number(y2)) / scale).toBeCloseTo(Number(length), 4);
+    // the rod stands on the disc: its foot at the toroid's mid-plane, the overall height minus the tube's radius
+    const midPlane = (metrics.overall_height ?? Number.NaN) - 0.115;
+    expect(Math.abs((floorY - Number(y1)) / scale - midPlane)).toBeLessThan(0.05 / scale);
+    const [column] = elements(svg, 'support');
+    expect(Number(column?.['stroke-width']) / scale).toBeCloseTo(0.06, 4);
+    expect(Math.abs(Number(column?.x1) - resonatorX)).toBeLessThan(0.02);
+  });
+});
+
+describe('coilfront draw of a two-coil toroid with a centre disc', async () => {
+  // the gallery example with center_disc added: the rod then stands on the disc, on the axis
+  const source = join(directory, 'gallery-disc.yaml');
+  writeFileSync(
+    source,
+    readFileSync('examples/gallery-coil-breakout-point.yaml', 'utf8').replace(
+      'height_above_winding: 80 mm }',
+      'height_above_winding: 80 mm, center_disc: true }',
+    ),
+  );
+  const out = join(directory, 'gallery-disc.svg');
+  const result = await run(['draw', source, '--out', out]);
+  const svg = readFileSync(out, 'utf8');
+  const scale = rootNumber(svg, 'data-scale');
+  const axisX = rootNumber(svg, 'data-axis-x');
+
+  it('draws the disc 260 mm across (500 − 2 × 120 mm) and one rod on the axis', () => {
+    expect(result.code).toBe(0);
+    const [disc] = elements(svg, 'center-disc');
+    expect(Number(disc?.width) / scale).toBeCloseTo(0.26, 3);
+    const rods = [...svg.matchAll(/class="breakout-point" data-length="[^"]+"><line x1="([^"]+)"/g)];
+    expect(rods.length).toBe(1);
+    expect(Math.abs(Number(rods[0]?.[1]) - axisX)).toBeLessThan(0.02);
+    expect(elements(svg, 'resonator')).toEqual([]);
+  });
+});

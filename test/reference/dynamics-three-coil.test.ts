@@ -477,6 +477,26 @@ describe('threeCoilBurst (solid-state bridge)', () => {
     expect(burst.endReason).toBe('on_time');
   });
 
+  test('reports when the resonator top first reaches a breakout voltage, without cutting the burst (as solid-state.ts)', () => {
+    const free = threeCoilBurst(lossy, { driveVoltage: 300, onTime: 200e-6 });
+    if (!free) throw new Error('a burst expected');
+    const breakout = 0.6 * free.peakVoltage;
+    const burst = threeCoilBurst(lossy, { driveVoltage: 300, onTime: 200e-6, breakoutVoltage: breakout });
+    if (!burst) throw new Error('a burst expected');
+    expect(burst.peakVoltage).toBe(free.peakVoltage);
+    expect(free.breakoutTime).toBeNull();
+    const at = burst.breakoutTime ?? Number.NaN;
+    expect(at).toBeGreaterThan(0);
+    expect(at).toBeLessThan(200e-6);
+    expect(burst.breakoutCycles ?? -1).toBeGreaterThanOrEqual(0);
+    // just before the reported time the top was below breakout (a shorter burst stays under it);
+    // a burst cut at that time reaches it
+    const shorter = threeCoilBurst(lossy, { driveVoltage: 300, onTime: 0.98 * at });
+    const cut = threeCoilBurst(lossy, { driveVoltage: 300, onTime: at });
+    expect(shorter?.peakVoltage ?? Infinity).toBeLessThan(breakout);
+    expect(cut?.peakVoltage ?? 0).toBeGreaterThanOrEqual(breakout);
+  });
+
   test('the current limit ends the burst at the limit', () => {
     const burst = threeCoilBurst(lossy, { driveVoltage: 300, onTime: 1e-3, currentLimit: 50 });
     if (!burst) throw new Error('a burst expected');

@@ -8,6 +8,7 @@ import { describe, expect, test } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { loadDesignFile } from '../../../cli/load-design.ts';
+import type { Design } from '../../../core/design.ts';
 import { evaluateDesign } from '../../../core/evaluate.ts';
 import { coaxialLoopMutualInductance } from '../../../core/inductance/coaxial-loops.ts';
 import { lineCapacitance, lineInductance } from '../../../core/three-coil/line.ts';
@@ -147,7 +148,9 @@ describe('the three-coil example through the pipeline', () => {
       const v3 = Math.abs(y[2] / C3);
       if (v3 > best) [best, bestTime] = [v3, t + h];
     }
-    expect(Math.abs((metrics.resonator_peak_voltage ?? 0) / best - 1)).toBeLessThan(0.01);
+    // the example's breakout point caps the reported top voltage; the dynamics' own peak is kept beside it
+    expect(metrics.peak_voltage_without_point ?? 0).toBeGreaterThan(metrics.resonator_peak_voltage ?? Infinity);
+    expect(Math.abs((metrics.peak_voltage_without_point ?? 0) / best - 1)).toBeLessThan(0.01);
     expect(Math.abs((metrics.resonator_transfer_time ?? 0) / bestTime - 1)).toBeLessThan(0.01);
   });
 });
@@ -178,9 +181,12 @@ describe('bad three-coil geometry is a design problem naming the field', () => {
   });
 
   test('a resonator closer than the separation it needs keeps a warning, not a problem', () => {
-    // a small sphere instead of the toroid, so that the resonator may stand close
+    // a small sphere instead of the toroid (without the example's point and support), so that the resonator may stand close
+    const bare: Design = { ...design };
+    delete bare.breakoutPoint;
+    delete bare.support;
     const { problems, warnings, metrics } = evaluateDesign({
-      ...design,
+      ...bare,
       topload: { shape: 'sphere', diameter: 0.2, heightAboveWinding: 0.15 },
       resonator: { ...resonator, axisSpacing: 0.45 },
     });
