@@ -48,13 +48,35 @@ export function luFactor(matrix: Float64Array, n: number, leading = 0): Int32Arr
 
 /**
  * Step k of the elimination: the multipliers of column k below the pivot and the update of the
- * trailing rows. Two rows at a time, so that each entry of the pivot row is read once per pair (the
- * same operations on each row as one at a time, in the same order: the results are the same bits).
+ * trailing rows. Four rows at a time (then two, then one), so that each entry of the pivot row is
+ * read once per group (the same operations on each row as one at a time, in the same order: the
+ * results are the same bits).
  */
 function eliminateBelow(matrix: Float64Array, n: number, k: number): void {
   const pivotRowStart = k * n;
   const pivot = matrix[pivotRowStart + k];
   let i = k + 1;
+  for (; i + 3 < n; i += 4) {
+    const rowA = i * n;
+    const rowB = rowA + n;
+    const rowC = rowB + n;
+    const rowD = rowC + n;
+    const factorA = matrix[rowA + k] / pivot;
+    const factorB = matrix[rowB + k] / pivot;
+    const factorC = matrix[rowC + k] / pivot;
+    const factorD = matrix[rowD + k] / pivot;
+    matrix[rowA + k] = factorA;
+    matrix[rowB + k] = factorB;
+    matrix[rowC + k] = factorC;
+    matrix[rowD + k] = factorD;
+    for (let c = k + 1; c < n; c++) {
+      const u = matrix[pivotRowStart + c];
+      matrix[rowA + c] -= factorA * u;
+      matrix[rowB + c] -= factorB * u;
+      matrix[rowC + c] -= factorC * u;
+      matrix[rowD + c] -= factorD * u;
+    }
+  }
   for (; i + 1 < n; i += 2) {
     const rowA = i * n;
     const rowB = rowA + n;
@@ -100,5 +122,77 @@ export function luSolve(factors: Float64Array, n: number, pivots: Int32Array, rh
     const rowStart = i * n;
     for (let c = i + 1; c < size; c++) sum -= factors[rowStart + c] * rhs[c];
     rhs[i] = sum / factors[rowStart + i];
+  }
+}
+
+/**
+ * Solves A x = b in place for several right-hand sides: `rhs` holds them one after another, n
+ * numbers each (column l from l·n). Four columns go through the substitutions together, each with
+ * its own running sum, so that the four chains of dependent subtractions overlap in the processor
+ * where one column's chain waits on each step; every column sees exactly the operations of
+ * `luSolve` in the same order (the same bits).
+ */
+export function luSolveColumns(
+  factors: Float64Array,
+  n: number,
+  pivots: Int32Array,
+  rhs: Float64Array,
+  m: number,
+): void {
+  let l = 0;
+  for (; l + 3 < m; l += 4) solveFourColumns(factors, n, pivots, rhs, l * n);
+  for (; l < m; l++) luSolve(factors, n, pivots, rhs.subarray(l * n, (l + 1) * n));
+}
+
+/** The substitutions of `luSolve` on the four columns starting at `a` of `rhs` (see luSolveColumns). */
+function solveFourColumns(factors: Float64Array, n: number, pivots: Int32Array, rhs: Float64Array, a: number): void {
+  const b = a + n;
+  const c = b + n;
+  const d = c + n;
+  for (let k = 0; k < n; k++) {
+    const p = pivots[k];
+    if (p === k) continue;
+    for (let start = a; start <= d; start += n) {
+      const swap = rhs[start + k];
+      rhs[start + k] = rhs[start + p];
+      rhs[start + p] = swap;
+    }
+  }
+  for (let i = 0; i < n; i++) {
+    let sumA = rhs[a + i];
+    let sumB = rhs[b + i];
+    let sumC = rhs[c + i];
+    let sumD = rhs[d + i];
+    const rowStart = i * n;
+    for (let j = 0; j < i; j++) {
+      const factor = factors[rowStart + j];
+      sumA -= factor * rhs[a + j];
+      sumB -= factor * rhs[b + j];
+      sumC -= factor * rhs[c + j];
+      sumD -= factor * rhs[d + j];
+    }
+    rhs[a + i] = sumA;
+    rhs[b + i] = sumB;
+    rhs[c + i] = sumC;
+    rhs[d + i] = sumD;
+  }
+  for (let i = n - 1; i >= 0; i--) {
+    let sumA = rhs[a + i];
+    let sumB = rhs[b + i];
+    let sumC = rhs[c + i];
+    let sumD = rhs[d + i];
+    const rowStart = i * n;
+    for (let j = i + 1; j < n; j++) {
+      const factor = factors[rowStart + j];
+      sumA -= factor * rhs[a + j];
+      sumB -= factor * rhs[b + j];
+      sumC -= factor * rhs[c + j];
+      sumD -= factor * rhs[d + j];
+    }
+    const diagonal = factors[rowStart + i];
+    rhs[a + i] = sumA / diagonal;
+    rhs[b + i] = sumB / diagonal;
+    rhs[c + i] = sumC / diagonal;
+    rhs[d + i] = sumD / diagonal;
   }
 }

@@ -5,7 +5,7 @@
 import { describe, expect, test } from 'vitest';
 import fc from 'fast-check';
 import { ellipticKEComplement } from '../../../core/elliptic.ts';
-import { luFactor, luSolve } from '../../../core/electrostatics/dense-lu.ts';
+import { luFactor, luSolve, luSolveColumns } from '../../../core/electrostatics/dense-lu.ts';
 import {
   assembleCollocationMatrix,
   CLOSE_RATIO,
@@ -91,6 +91,32 @@ describe('luFactor / luSolve (Golub & Van Loan Alg. 3.4.1)', () => {
       let sum = 0;
       for (let j = 0; j < p; j++) sum += block[i * p + j] * fromWhole[j];
       expect(sum).toBeCloseTo(b[i], 12);
+    }
+  });
+  test('luSolveColumns solves seven right-hand sides of a pivoting 9 × 9 system, checked by the residual and equal bit for bit to luSolve on each', () => {
+    const n = 9;
+    const m = 7; // one group of four columns and three single ones
+    let seed = 5;
+    const next = () => {
+      seed = (seed * 16807) % 2147483647;
+      return seed / 2147483647 - 0.5;
+    };
+    const a = Float64Array.from({ length: n * n }, () => next());
+    a[0] = 0; // forces a row exchange at the first step
+    const factors = a.slice();
+    const pivots = must(luFactor(factors, n));
+    const columns = Float64Array.from({ length: n * m }, () => next());
+    const b = columns.slice();
+    luSolveColumns(factors, n, pivots, columns, m);
+    for (let l = 0; l < m; l++) {
+      const one = b.slice(l * n, (l + 1) * n);
+      luSolve(factors, n, pivots, one);
+      expect(Array.from(columns.subarray(l * n, (l + 1) * n))).toEqual(Array.from(one));
+      for (let i = 0; i < n; i++) {
+        let sum = 0;
+        for (let j = 0; j < n; j++) sum += a[i * n + j] * columns[l * n + j];
+        expect(sum).toBeCloseTo(b[l * n + i], 12);
+      }
     }
   });
   test('a singular leading block is refused even where the whole matrix is regular', () => {
