@@ -60,6 +60,14 @@ describe('luFactor / luSolve (Golub & Van Loan Alg. 3.4.1)', () => {
   }
   test('a leading-block factorisation solves the whole system, checked by the residual A x − b (block LU, Golub & Van Loan §3.2.9)', () => {
     const { a, n, p } = blockSystem();
+    checkLeadingBlock(a, n, p);
+  });
+  test('a leading block of odd size (its end inside a pair of elimination steps) keeps its pivots and solves the whole system (residual)', () => {
+    const { a, n } = blockSystem();
+    a[4 * n] = 20; // the largest of column 0 below a 3 × 3 block
+    checkLeadingBlock(a, n, 3);
+  });
+  function checkLeadingBlock(a: Float64Array, n: number, p: number): void {
     const factors = a.slice();
     const pivots = must(luFactor(factors, n, p));
     for (let k = 0; k < p; k++) expect(pivots[k]).toBeLessThan(p);
@@ -71,7 +79,7 @@ describe('luFactor / luSolve (Golub & Van Loan Alg. 3.4.1)', () => {
       for (let j = 0; j < n; j++) sum += a[i * n + j] * x[j];
       expect(sum).toBeCloseTo(b[i], 12);
     }
-  });
+  }
   test('the leading block of that factorisation is the factorisation of the block alone, bit for bit', () => {
     const { a, n, p } = blockSystem();
     const factors = a.slice();
