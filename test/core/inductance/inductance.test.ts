@@ -13,6 +13,7 @@ import {
   ringToTurnsMutualInductance,
 } from '../../../core/inductance/sheet-mutual.ts';
 import { currentSheetInductance } from '../../../core/inductance/nagaoka.ts';
+import { turnMutuals } from '../../../core/inductance/turn-mutuals.ts';
 import { gaussLegendreRule } from '../../../core/gauss-legendre.ts';
 
 const SEED = 20261201;
@@ -230,5 +231,23 @@ describe('ringToSheetMutualInductance against the sum over turns (ringToTurnsMut
 
   test('NaN for an empty winding', () => {
     expect(ringToSheetMutualInductance(0.1, 0, { radius: 0.05, bottomZ: 0, topZ: 0, turns: 10 })).toBeNaN();
+  });
+});
+
+describe('turnMutuals(radius, pitch, count)', () => {
+  test('is Maxwell’s mutual of two turns s pitches apart at index s, for one winding after another (the kept series is not reused for other numbers)', () => {
+    // Maxwell [maxwell1873] §701 through coaxialLoopMutualInductance (checked in test/reference).
+    for (const [radius, pitch, count] of [
+      [0.08, 0.0008, 50],
+      [0.08, 0.0008, 50],
+      [0.08, 0.0009, 50],
+      [0.1, 0.0009, 50],
+      [0.1, 0.0009, 7],
+      [0.1, 0.0009, 1],
+    ] as const) {
+      const mutuals = turnMutuals(radius, pitch, count);
+      expect(mutuals.length).toBe(count);
+      for (let s = 1; s < count; s++) expect(mutuals[s]).toBe(coaxialLoopMutualInductance(radius, radius, s * pitch));
+    }
   });
 });
