@@ -23,13 +23,14 @@
  */
 import { windingNodeFraction } from './bodies.ts';
 import { assembleCollocationMatrix } from './assembly.ts';
-import { luFactor, luSolve } from './dense-lu.ts';
+import { luFactor, luSolveColumns } from './dense-lu.ts';
 import {
   defaultPanelCounts,
   arrangementPanels,
   densityFields,
   type FieldArrangement,
   windingAloneCapacitance,
+  matrixScratch,
   type SurfaceFields,
   type VoltageShape,
 } from './field-solve.ts';
@@ -101,7 +102,7 @@ export function nodeCapacitanceMatrix(
   const toploadCount = shapes.length - leadingCount;
   const layout = buildPanelLayout(shapes);
   const n = layout.count;
-  const matrixA = assembleCollocationMatrix(layout, arrangement.floor, true);
+  const matrixA = assembleCollocationMatrix(layout, arrangement.floor, true, matrixScratch(n * n));
   const pivots = luFactor(matrixA, n, leadingCount);
   if (!pivots) return null;
   const selfCapacitance = windingAloneCapacitance(matrixA, n, pivots, layout, windingCount, leadingCount, {
@@ -111,15 +112,8 @@ export function nodeCapacitanceMatrix(
   const p = segments;
   const size = p + (toploadCount > 0 ? 1 : 0);
   const weights = hatWeights(windingCount, p);
-  const densities: Float64Array[] = [];
-  for (let l = 0; l < size; l++) {
-    const rhs = new Float64Array(n);
-    if (l < p) for (const { panel, weight } of weights[l]) rhs[panel] = weight;
-    else for (let j = leadingCount; j < n; j++) rhs[j] = 1;
-    luSolve(matrixA, n, pivots, rhs);
-    if (!rhs.every(Number.isFinite)) return null;
-    densities.push(rhs);
-  }
+  const densities = conductorDensities(matrixA, n, pivots, weights, size, leadingCount);
+  if (!densities) return null;
   const raw = projectedCharges(layout, densities, weights, size, leadingCount);
   const { matrix, asymmetry } = symmetrised(raw, size);
   const fractions = new Float64Array(p + 1);
@@ -137,6 +131,30 @@ export function nodeCapacitanceMatrix(
     unknowns: n,
     selfCapacitance,
   };
+}
+
+/**
+ * The densities for unit potential on each conductor: one solve of all the right-hand sides at once
+ * (the hats' weights on the winding panels, then 1 on the topload's panels); null when one is not
+ * finite.
+ */
+function conductorDensities(
+  factors: Float64Array,
+  n: number,
+  pivots: Int32Array,
+  weights: readonly { panel: number; weight: number }[][],
+  size: number,
+  leadingCount: number,
+): Float64Array[] | null {
+  const p = weights.length;
+  const block = new Float64Array(n * size);
+  for (let l = 0; l < p; l++) for (const { panel, weight } of weights[l]) block[l * n + panel] = weight;
+  if (size > p) block.fill(1, p * n + leadingCount, (p + 1) * n);
+  luSolveColumns(factors, n, pivots, block, size);
+  for (let i = 0; i < block.length; i++) if (!Number.isFinite(block[i])) return null;
+  const densities: Float64Array[] = [];
+  for (let l = 0; l < size; l++) densities.push(block.subarray(l * n, (l + 1) * n));
+  return densities;
 }
 
 /** The hat weights w_kj of nodes 1 … p on the winding panels j (each hat touches few panels). */

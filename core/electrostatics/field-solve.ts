@@ -317,9 +317,10 @@ let matrixBuffer = new Float64Array(0);
 /**
  * Scratch memory for the collocation matrix, reused from one solve to the next (a solve is
  * synchronous and nothing it returns refers to it), so that a sweep does not allocate and zero a
- * fresh n² array per design.
+ * fresh n² array per design. Shared with the node capacitance matrix (capacitance-matrix.ts), which
+ * never runs inside a field solve nor a field solve inside it.
  */
-function matrixScratch(size: number): Float64Array {
+export function matrixScratch(size: number): Float64Array {
   if (matrixBuffer.length < size) matrixBuffer = new Float64Array(Math.max(size, 2 * matrixBuffer.length));
   return matrixBuffer;
 }

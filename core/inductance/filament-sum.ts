@@ -3,7 +3,7 @@
  * a closed circular loop (pitch current ignored), self terms by loop.ts, mutual terms by Maxwell.
  */
 import type { CurrentDistribution } from './current-distribution.ts';
-import { coaxialLoopMutualInductance } from './coaxial-loops.ts';
+import { turnMutuals } from './turn-mutuals.ts';
 import { loopSelfInductance } from './loop.ts';
 
 /**
@@ -31,10 +31,11 @@ export function loopSumSolenoidInductance(
   const lastWeight = turns - (loopCount - 1);
   const self = loopSelfInductance(radius, wireRadius, distribution);
   let total = (loopCount - 1 + lastWeight * lastWeight) * self;
+  const mutuals = turnMutuals(radius, pitch, loopCount);
   for (let separation = 1; separation < loopCount; separation++) {
     // pairs (i, i + s): loopCount − s of them, one of which involves the last loop
     const pairWeight = loopCount - separation - 1 + lastWeight;
-    total += 2 * pairWeight * coaxialLoopMutualInductance(radius, radius, separation * pitch);
+    total += 2 * pairWeight * mutuals[separation];
   }
   return total;
 }

@@ -8,7 +8,7 @@
  * entries is exactly the loop sum of the whole winding, and the matrix is W F Wᵀ with F the
  * (positive-definite) inductance matrix of the loops.
  */
-import { coaxialLoopMutualInductance } from '../inductance/coaxial-loops.ts';
+import { turnMutuals } from '../inductance/turn-mutuals.ts';
 import type { CurrentDistribution } from '../inductance/current-distribution.ts';
 import { loopSelfInductance } from '../inductance/loop.ts';
 
@@ -191,10 +191,9 @@ function loopTables(winding: SegmentedWinding, count: number, distribution: Curr
     last.distribution === distribution
   )
     return last;
-  const loop = new Float64Array(count);
+  // The same turn-to-turn mutuals as the secondary's loop sum (computed once for both).
+  const loop = turnMutuals(winding.radius, winding.pitch, count).slice(0, count);
   loop[0] = loopSelfInductance(winding.radius, winding.wireRadius, distribution);
-  for (let s = 1; s < count; s++)
-    loop[s] = coaxialLoopMutualInductance(winding.radius, winding.radius, s * winding.pitch);
   // once(x) = S(x) − S(−1) for x = −count … count − 1: Σ_(s=0)^x F(s) for x ≥ 0 and
   // −Σ_(s=1)^(−x−1) F(s) for x < 0 (S is flat below −(count − 1): no loops that far apart).
   const once = new Float64Array(2 * count);

@@ -5,7 +5,7 @@
 import { describe, expect, test } from 'vitest';
 import fc from 'fast-check';
 import { ellipticKEComplement } from '../../../core/elliptic.ts';
-import { luFactor, luSolve } from '../../../core/electrostatics/dense-lu.ts';
+import { luFactor, luSolve, luSolveColumns } from '../../../core/electrostatics/dense-lu.ts';
 import {
   assembleCollocationMatrix,
   CLOSE_RATIO,
@@ -60,6 +60,14 @@ describe('luFactor / luSolve (Golub & Van Loan Alg. 3.4.1)', () => {
   }
   test('a leading-block factorisation solves the whole system, checked by the residual A x − b (block LU, Golub & Van Loan §3.2.9)', () => {
     const { a, n, p } = blockSystem();
+    checkLeadingBlock(a, n, p);
+  });
+  test('a leading block of odd size (its end inside a pair of elimination steps) keeps its pivots and solves the whole system (residual)', () => {
+    const { a, n } = blockSystem();
+    a[4 * n] = 20; // the largest of column 0 below a 3 × 3 block
+    checkLeadingBlock(a, n, 3);
+  });
+  function checkLeadingBlock(a: Float64Array, n: number, p: number): void {
     const factors = a.slice();
     const pivots = must(luFactor(factors, n, p));
     for (let k = 0; k < p; k++) expect(pivots[k]).toBeLessThan(p);
@@ -71,7 +79,7 @@ describe('luFactor / luSolve (Golub & Van Loan Alg. 3.4.1)', () => {
       for (let j = 0; j < n; j++) sum += a[i * n + j] * x[j];
       expect(sum).toBeCloseTo(b[i], 12);
     }
-  });
+  }
   test('the leading block of that factorisation is the factorisation of the block alone, bit for bit', () => {
     const { a, n, p } = blockSystem();
     const factors = a.slice();
@@ -91,6 +99,32 @@ describe('luFactor / luSolve (Golub & Van Loan Alg. 3.4.1)', () => {
       let sum = 0;
       for (let j = 0; j < p; j++) sum += block[i * p + j] * fromWhole[j];
       expect(sum).toBeCloseTo(b[i], 12);
+    }
+  });
+  test('luSolveColumns solves seven right-hand sides of a pivoting 9 × 9 system, checked by the residual and equal bit for bit to luSolve on each', () => {
+    const n = 9;
+    const m = 7; // one group of four columns and three single ones
+    let seed = 5;
+    const next = () => {
+      seed = (seed * 16807) % 2147483647;
+      return seed / 2147483647 - 0.5;
+    };
+    const a = Float64Array.from({ length: n * n }, () => next());
+    a[0] = 0; // forces a row exchange at the first step
+    const factors = a.slice();
+    const pivots = must(luFactor(factors, n));
+    const columns = Float64Array.from({ length: n * m }, () => next());
+    const b = columns.slice();
+    luSolveColumns(factors, n, pivots, columns, m);
+    for (let l = 0; l < m; l++) {
+      const one = b.slice(l * n, (l + 1) * n);
+      luSolve(factors, n, pivots, one);
+      expect(Array.from(columns.subarray(l * n, (l + 1) * n))).toEqual(Array.from(one));
+      for (let i = 0; i < n; i++) {
+        let sum = 0;
+        for (let j = 0; j < n; j++) sum += a[i * n + j] * columns[l * n + j];
+        expect(sum).toBeCloseTo(b[l * n + i], 12);
+      }
     }
   });
   test('a singular leading block is refused even where the whole matrix is regular', () => {

@@ -7,8 +7,13 @@ import fc from 'fast-check';
 import { coaxialLoopMutualInductance } from '../../../core/inductance/coaxial-loops.ts';
 import { roundWireSolenoidInductance } from '../../../core/inductance/rosa.ts';
 import { loopSumSolenoidInductance } from '../../../core/inductance/filament-sum.ts';
-import { ringToSheetMutualInductance, ringToTurnsMutualInductance } from '../../../core/inductance/sheet-mutual.ts';
+import {
+  ringToSheetMutualInductance,
+  ringToSheetSegmentMutuals,
+  ringToTurnsMutualInductance,
+} from '../../../core/inductance/sheet-mutual.ts';
 import { currentSheetInductance } from '../../../core/inductance/nagaoka.ts';
+import { turnMutuals } from '../../../core/inductance/turn-mutuals.ts';
 import { gaussLegendreRule } from '../../../core/gauss-legendre.ts';
 
 const SEED = 20261201;
@@ -144,6 +149,53 @@ describe('ringToSheetMutualInductance against the sum over turns (ringToTurnsMut
     }
   });
 
+  test('ringToSheetSegmentMutuals: each of 16 segments agrees with the sum over its own turns (Maxwell [maxwell1873] §701) to 2e-7, rings one pitch to far from the winding', () => {
+    // 40 000 turns, 2 500 to a segment: the turn sum over a segment is the midpoint rule of its
+    // sheet integral, well below 1e-7 from it (as in the whole-sheet check above).
+    const turns = 40000;
+    const fine = { radius: 0.1, bottomZ: 0.3, topZ: 1.1, turns };
+    const fractions = Array.from({ length: 17 }, (_, k) => k / 16);
+    const pitch = (fine.topZ - fine.bottomZ) / turns;
+    for (const [ringRadius, ringZ] of [
+      [0.1008, 0.7],
+      [0.101, 0.3],
+      [0.1005, 1.2],
+      [0.3, 0.2],
+      [0.16, 0.31],
+    ]) {
+      const segments = ringToSheetSegmentMutuals(ringRadius, ringZ, fine, fractions);
+      for (let k = 0; k < 16; k++) {
+        let byTurns = 0;
+        for (let j = 2500 * k; j < 2500 * (k + 1); j++)
+          byTurns += coaxialLoopMutualInductance(ringRadius, fine.radius, fine.bottomZ + (j + 0.5) * pitch - ringZ);
+        expect(Math.abs(segments[k] / byTurns - 1)).toBeLessThan(2e-7);
+      }
+    }
+  });
+
+  test('ringToSheetSegmentMutuals sums to the whole sheet’s mutual (12-point panels) within 1e-9 over random rings and node sets', () => {
+    fc.assert(
+      fc.property(
+        fc.double({ min: 0.03, max: 0.15, noNaN: true }),
+        fc.double({ min: 0.2, max: 1.2, noNaN: true }),
+        fc.double({ min: 1.002, max: 3.5, noNaN: true }), // ring radius over the winding radius
+        fc.double({ min: -0.3, max: 1.3, noNaN: true }), // ring height as a fraction of the length
+        fc.integer({ min: 1, max: 32 }),
+        (radius, length, ratio, heightFraction, segments) => {
+          const winding = { radius, bottomZ: 0.4, topZ: 0.4 + length, turns: 1000 };
+          const ringZ = winding.bottomZ + heightFraction * length;
+          const fractions = Array.from({ length: segments + 1 }, (_, k) => k / segments);
+          const parts = ringToSheetSegmentMutuals(radius * ratio, ringZ, winding, fractions);
+          const whole = ringToSheetMutualInductance(radius * ratio, ringZ, winding);
+          let sum = 0;
+          for (const part of parts) sum += part;
+          expect(Math.abs(sum / whole - 1)).toBeLessThan(1e-9);
+        },
+      ),
+      { seed: SEED, numRuns: 200 },
+    );
+  });
+
   test('integrated over a second coaxial sheet it gives the mutual inductance that Nagaoka’s formula implies', () => {
     // Two coaxial sheets of equal radius a and turn density n on [0, l1] and [l1 + g, l1 + g + l2]:
     // superposition of current-sheet self-inductances F(x) = L_s(a, x, n x) gives exactly
@@ -179,5 +231,23 @@ describe('ringToSheetMutualInductance against the sum over turns (ringToTurnsMut
 
   test('NaN for an empty winding', () => {
     expect(ringToSheetMutualInductance(0.1, 0, { radius: 0.05, bottomZ: 0, topZ: 0, turns: 10 })).toBeNaN();
+  });
+});
+
+describe('turnMutuals(radius, pitch, count)', () => {
+  test('is Maxwell’s mutual of two turns s pitches apart at index s, for one winding after another (the kept series is not reused for other numbers)', () => {
+    // Maxwell [maxwell1873] §701 through coaxialLoopMutualInductance (checked in test/reference).
+    for (const [radius, pitch, count] of [
+      [0.08, 0.0008, 50],
+      [0.08, 0.0008, 50],
+      [0.08, 0.0009, 50],
+      [0.1, 0.0009, 50],
+      [0.1, 0.0009, 7],
+      [0.1, 0.0009, 1],
+    ] as const) {
+      const mutuals = turnMutuals(radius, pitch, count);
+      expect(mutuals.length).toBe(count);
+      for (let s = 1; s < count; s++) expect(mutuals[s]).toBe(coaxialLoopMutualInductance(radius, radius, s * pitch));
+    }
   });
 });
