@@ -74,6 +74,14 @@ environment: { altitude: 300 m, temperature: 18 degC }
     expect(text.out).toMatch(/\(tuning error\) +0\n/);
   });
 
+  it('the readable report places every metric of every example in a titled section (no catch-all)', async () => {
+    for (const name of [...EXAMPLES, 'rotary-bank-coil', 'three-coil-exhibit']) {
+      const result = await run(['evaluate', `examples/${name}.yaml`]);
+      expect(result.code, name).toBe(0);
+      expect(result.out, name).not.toMatch(/^Other$/m);
+    }
+  });
+
   it('the readable report ends with the safety cautions', async () => {
     const result = await run(['evaluate', 'examples/tabletop-teaching-coil.yaml']);
     expect(result.code).toBe(0);
