@@ -2,7 +2,7 @@
 """A general-purpose NSGA-II (DEAP) driving `coilfront evaluate --batch -` through one open pipe.
 
 Not part of the test suite and not needed to build or use coilfront: it is the outside reference for
-the evolve stage's benchmark (bench/external/compare-nsga2.mjs), run by hand where DEAP is installed
+the evolve stage's benchmark (bench/external/nsga2-compare.ts), run by hand where DEAP is installed
 (Debian: `apt-get install python3-deap`). Population 100; simulated binary crossover and polynomial
 mutation (Deb & Agrawal 1995; Deb & Goyal 1996) as DEAP ships them, eta 20, crossover 0.9,
 mutation 1/d per gene; Deb's constraint rules by fitness: an infeasible design is dominated by every
