@@ -2,8 +2,8 @@
  * coilfront's default pipeline (sweep a quarter of the budget, evolve a half, refine the rest: the
  * rule of `sweep.stages`) against a general-purpose NSGA-II (DEAP, population 100) that drives
  * `coilfront evaluate --batch -` through one open pipe, at equal evaluation budgets, on the
- * science-centre example (2 objectives) and the same problem with the overall height as a third
- * objective. Hypervolume of each final front (feasible designs only; every evaluation counts for both),
+ * science-centre example (2 objectives), the same problem with the overall height as a third
+ * objective, and with the axial gradient as a fourth. Hypervolume of each final front (feasible designs only; every evaluation counts for both),
  * against one reference point per problem and seed: the default of optimize/pareto over both fronts.
  *
  * Not part of `npm test` or `npm run bench` (it needs Python and DEAP: Debian `apt-get install
@@ -26,9 +26,9 @@ const ROOT = resolve(import.meta.dirname, '..', '..', '..');
 const EXAMPLE = join(ROOT, 'examples', 'sweeps', 'science-centre-ceiling.yaml');
 const CHUNK = 125;
 
-function problemFile(extraObjective: Record<string, string> | null): string {
+function problemFile(extraObjectives: Array<Record<string, string>>): string {
   const spec = parse(readFileSync(EXAMPLE, 'utf8')) as Record<string, unknown[]>;
-  if (extraObjective) spec.objectives = [...(spec.objectives ?? []), extraObjective];
+  spec.objectives = [...(spec.objectives ?? []), ...extraObjectives];
   const path = join(mkdtempSync(join(tmpdir(), 'coilfront-nsga2-')), 'problem.yaml');
   writeFileSync(path, stringify(spec));
   return path;
@@ -88,9 +88,13 @@ export async function compareWithNsga2(budgets: number[], seeds: number[]): Prom
   const lines = [
     'problem\tbudget\tseed\tpipeline HV / NSGA-II HV\tfront sizes (pipeline, NSGA-II)\tNSGA-II evaluations',
   ];
-  const problems: Array<[string, Record<string, string> | null]> = [
-    ['2 objectives', null],
-    ['3 objectives (+ overall_height)', { minimize: 'overall_height' }],
+  const problems: Array<[string, Array<Record<string, string>>]> = [
+    ['2 objectives', []],
+    ['3 objectives (+ overall_height)', [{ minimize: 'overall_height' }]],
+    [
+      '4 objectives (+ overall_height, axial_gradient)',
+      [{ minimize: 'overall_height' }, { minimize: 'axial_gradient' }],
+    ],
   ];
   for (const [name, extra] of problems) {
     const file = problemFile(extra);
