@@ -16,17 +16,15 @@
  * Factors the n × n matrix in place (L unit lower, U upper) and returns the pivot rows, or null
  * when a pivot is exactly zero or not finite (singular matrix, or a singular leading block; the
  * matrix is then left part-way).
- * Steps go two at a time (`eliminatePair`) where two remain, one at the end.
+ * Steps go two at a time (`eliminatePair`); when n is odd the last step has no rows below it, and
+ * only its pivot is checked.
  * @param leading the size p of a leading block whose pivots stay inside it (0: plain partial pivoting)
  */
 export function luFactor(matrix: Float64Array, n: number, leading = 0): Int32Array | null {
   const pivots = new Int32Array(n);
   let k = 0;
   for (; k + 1 < n; k += 2) if (!eliminatePair(matrix, n, k, leading, pivots)) return null;
-  if (k < n) {
-    if (!choosePivot(matrix, n, k, leading, pivots)) return null;
-    eliminateBelow(matrix, n, k);
-  }
+  if (k < n && !choosePivot(matrix, n, k, leading, pivots)) return null;
   return pivots;
 }
 
@@ -62,7 +60,7 @@ function choosePivot(matrix: Float64Array, n: number, k: number, leading: number
 
 /**
  * Steps k and k + 1 of the elimination in one pass over the trailing rows: every entry sees the
- * same two subtractions in the same order as in two single steps (`eliminateBelow` twice), so the
+ * same two subtractions in the same order as in two single steps of Gaussian elimination, so the
  * factors are the same bits; the pass reads each trailing entry once where two steps read it
  * twice. Order: pivot of column k, its multipliers and their update of column k + 1 alone (all
  * that step k + 1's pivot search needs), the pivot of column k + 1 (its row swap carries rows that
@@ -111,58 +109,6 @@ function eliminatePair(matrix: Float64Array, n: number, k: number, leading: numb
       matrix[row + c] = matrix[row + c] - step * matrix[first + c] - next * matrix[second + c];
   }
   return true;
-}
-
-/**
- * Step k of the elimination: the multipliers of column k below the pivot and the update of the
- * trailing rows. Four rows at a time (then two, then one), so that each entry of the pivot row is
- * read once per group (the same operations on each row as one at a time, in the same order: the
- * results are the same bits).
- */
-function eliminateBelow(matrix: Float64Array, n: number, k: number): void {
-  const pivotRowStart = k * n;
-  const pivot = matrix[pivotRowStart + k];
-  let i = k + 1;
-  for (; i + 3 < n; i += 4) {
-    const rowA = i * n;
-    const rowB = rowA + n;
-    const rowC = rowB + n;
-    const rowD = rowC + n;
-    const factorA = matrix[rowA + k] / pivot;
-    const factorB = matrix[rowB + k] / pivot;
-    const factorC = matrix[rowC + k] / pivot;
-    const factorD = matrix[rowD + k] / pivot;
-    matrix[rowA + k] = factorA;
-    matrix[rowB + k] = factorB;
-    matrix[rowC + k] = factorC;
-    matrix[rowD + k] = factorD;
-    for (let c = k + 1; c < n; c++) {
-      const u = matrix[pivotRowStart + c];
-      matrix[rowA + c] -= factorA * u;
-      matrix[rowB + c] -= factorB * u;
-      matrix[rowC + c] -= factorC * u;
-      matrix[rowD + c] -= factorD * u;
-    }
-  }
-  for (; i + 1 < n; i += 2) {
-    const rowA = i * n;
-    const rowB = rowA + n;
-    const factorA = matrix[rowA + k] / pivot;
-    const factorB = matrix[rowB + k] / pivot;
-    matrix[rowA + k] = factorA;
-    matrix[rowB + k] = factorB;
-    for (let c = k + 1; c < n; c++) {
-      const u = matrix[pivotRowStart + c];
-      matrix[rowA + c] -= factorA * u;
-      matrix[rowB + c] -= factorB * u;
-    }
-  }
-  if (i < n) {
-    const rowStart = i * n;
-    const factor = matrix[rowStart + k] / pivot;
-    matrix[rowStart + k] = factor;
-    for (let c = k + 1; c < n; c++) matrix[rowStart + c] -= factor * matrix[pivotRowStart + c];
-  }
 }
 
 /**
