@@ -203,6 +203,16 @@ function holderOfThisProcess(options: RunLockOptions): RunLockHolder {
 }
 
 /**
+ * Whether a lock or guard file written by `writer` belongs to a process that is gone: same host as
+ * `holder` (another host's liveness cannot be told), and the host rebooted since or the pid is dead.
+ */
+function isStale(writer: RunLockHolder, holder: RunLockHolder, alive: (pid: number) => boolean): boolean {
+  if (writer.hostname !== holder.hostname) return false;
+  const rebooted = writer.bootId !== null && holder.bootId !== null && writer.bootId !== holder.bootId;
+  return rebooted || !alive(writer.pid);
+}
+
+/**
  * Moves the lock file holding `existingText` out of the way when its holder is stale, and returns that
  * holder; null when another process is taking it over or it changed meanwhile (try again). Throws a
  * RunLockError when the file cannot be read, its holder is alive (or on another host), or a takeover
@@ -224,10 +234,7 @@ function takeOverStale(
       null,
     );
   }
-  const stale =
-    existing.hostname === holder.hostname &&
-    ((existing.bootId !== null && holder.bootId !== null && existing.bootId !== holder.bootId) || !alive(existing.pid));
-  if (!stale) {
+  if (!isStale(existing, holder, alive)) {
     const where = existing.hostname === holder.hostname ? '' : ` on host ${existing.hostname}`;
     throw new RunLockError(
       `'${directory}' is in use by process ${existing.pid}${where} since ${existing.startedAt}; wait for it to finish, or if that run is gone, delete '${path}'`,
@@ -237,12 +244,7 @@ function takeOverStale(
   }
   const guard = `${path}.takeover`;
   try {
-    const fd = fileSystem.openSync(guard, 'wx', 0o644);
-    try {
-      writeAllSync(fileSystem, fd, Buffer.from(`${JSON.stringify(holder)}\n`, 'utf8'));
-    } finally {
-      fileSystem.closeSync(fd);
-    }
+    createDurably(fileSystem, guard, `${JSON.stringify(holder)}\n`);
   } catch (error) {
     if ((error as { code?: string }).code !== 'EEXIST') throw toDiskError(error, guard, 'lock');
     refuseStaleGuard(fileSystem, directory, guard, holder, alive);
@@ -275,9 +277,7 @@ function refuseStaleGuard(
 ): void {
   const text = readText(fileSystem, guard);
   const taker = text === null ? null : parseHolder(text);
-  if (taker === null || taker.hostname !== holder.hostname) return;
-  const rebooted = taker.bootId !== null && holder.bootId !== null && taker.bootId !== holder.bootId;
-  if (!rebooted && alive(taker.pid)) return;
+  if (taker === null || !isStale(taker, holder, alive)) return;
   throw new RunLockError(
     `'${directory}': a process that was taking over a stale lock died and left '${guard}'; if no sweep runs there, delete it`,
     guard,
