@@ -9,7 +9,7 @@
 import type { DesignProblem, SecondaryGeometry } from '../context.ts';
 import type { Design, ToploadSpec } from '../design.ts';
 import { MAX_PRIMARY_TURNS, primaryRings } from '../primary/rings.ts';
-import type { GroundedRing, ToploadBody } from './bodies.ts';
+import type { GroundedRing, SphereBody, ToploadBody, ToroidBody } from './bodies.ts';
 import type { FieldArrangement } from './field-solve.ts';
 
 /** A length as a one-line message number, mm. */
@@ -31,7 +31,7 @@ function distanceToTopload(r: number, z: number, body: ToploadBody): number {
 }
 
 /** The toroid or sphere at its centre height, or null with the problem of its own dimensions. */
-function shapedBody(topload: ToploadSpec, centerZ: number, problems: DesignProblem[]): ToploadBody | null {
+function shapedBody(topload: ToploadSpec, centerZ: number, problems: DesignProblem[]): ToroidBody | SphereBody | null {
   if (topload.shape === 'toroid') {
     if (!(topload.tubeDiameter > 0)) {
       problems.push({
@@ -47,7 +47,7 @@ function shapedBody(topload: ToploadSpec, centerZ: number, problems: DesignProbl
       });
       return null;
     }
-    const body: ToploadBody = {
+    const body: ToroidBody = {
       shape: 'toroid',
       majorRadius: (topload.outerDiameter - topload.tubeDiameter) / 2,
       minorRadius: topload.tubeDiameter / 2,
@@ -67,17 +67,13 @@ function shapedBody(topload: ToploadSpec, centerZ: number, problems: DesignProbl
 }
 
 /** Why the topload cuts into the winding below it, or null when it clears the winding. */
-function windingClash(body: ToploadBody, lowest: number, secondary: SecondaryGeometry): string | null {
-  const clearance =
-    body.shape === 'toroid'
-      ? distanceToWinding(body.majorRadius, body.centerZ, secondary) - body.minorRadius
-      : body.shape === 'sphere'
-        ? distanceToWinding(0, body.centerZ, secondary) - body.radius
-        : 1;
-  if (clearance > 0) return null;
-  return body.shape === 'toroid'
-    ? `the tube's inner edge (radius ${mm(body.majorRadius - body.minorRadius)}) reaches below the top of the winding (radius ${mm(secondary.radius)}) by ${mm(secondary.topZ - lowest)}`
-    : `the sphere (radius ${mm((body as { radius: number }).radius)}) encloses part of the winding (radius ${mm(secondary.radius)})`;
+function windingClash(body: ToroidBody | SphereBody, lowest: number, secondary: SecondaryGeometry): string | null {
+  if (body.shape === 'toroid') {
+    if (distanceToWinding(body.majorRadius, body.centerZ, secondary) - body.minorRadius > 0) return null;
+    return `the tube's inner edge (radius ${mm(body.majorRadius - body.minorRadius)}) reaches below the top of the winding (radius ${mm(secondary.radius)}) by ${mm(secondary.topZ - lowest)}`;
+  }
+  if (distanceToWinding(0, body.centerZ, secondary) - body.radius > 0) return null;
+  return `the sphere (radius ${mm(body.radius)}) encloses part of the winding (radius ${mm(secondary.radius)})`;
 }
 
 /**
@@ -103,13 +99,8 @@ export function toploadBody(
   }
   const body = shapedBody(topload, (secondary ? secondary.topZ : 0) + height, problems);
   if (!body) return null;
-  const lowest =
-    body.shape === 'toroid'
-      ? body.centerZ - body.minorRadius
-      : body.shape === 'sphere'
-        ? body.centerZ - body.radius
-        : body.centerZ;
-  const name = body.shape === 'toroid' ? 'toroid' : 'sphere';
+  const lowest = body.centerZ - (body.shape === 'toroid' ? body.minorRadius : body.radius);
+  const name = body.shape;
   if (!(lowest > 0)) {
     problems.push({
       field: heightField,
