@@ -9,7 +9,8 @@
  * is read as usual. The worker fills the slots (optimize/tolerance/robust-yield.ts).
  */
 import { METRIC_KEYS } from '../core/metrics.ts';
-import { isRobustMetric, QUANTILE_SLOTS, type RobustQuantile } from '../optimize/tolerance/robust-yield.ts';
+import type { RobustQuantile } from '../optimize/space-definition.ts';
+import { isRobustMetric, QUANTILE_SLOTS } from '../optimize/tolerance/robust-yield.ts';
 import type { InputIssue } from '../run/input-error.ts';
 import { metricKind } from './metric-kinds.ts';
 import { suggest } from './suggest.ts';

@@ -16,8 +16,6 @@ import { sortedQuantile } from './quantile.ts';
 import type { RobustDefinition } from '../space-definition.ts';
 import { drawRow } from './tolerance-space.ts';
 
-export type { RobustDefinition, RobustQuantile } from '../space-definition.ts';
-
 /** The metric columns of the quantile merits, in slot order (core/metrics.ts). */
 export const QUANTILE_SLOTS: readonly string[] = [
   'build_quantile_1',

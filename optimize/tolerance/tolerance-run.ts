@@ -9,14 +9,13 @@
 import { METRIC_KEYS, metricIndex } from '../../core/metrics.ts';
 import { STATUS_OK, type BatchEvaluator, type BatchResult } from '../evaluate-batch.ts';
 import { totalViolation } from '../pareto/constraint-violation.ts';
-import type { ToleranceConstraint } from '../space-definition.ts';
+import type { ToleranceConstraint, ToleranceSpace } from '../space-definition.ts';
 import { type ProportionInterval, wilsonInterval } from '../sensitivity/wilson.ts';
 import { sortedQuantile } from './quantile.ts';
 import { ToleranceDraws } from './tolerance-draws.ts';
-import { drawRow, type ToleranceSpace } from './tolerance-space.ts';
+import { drawRow } from './tolerance-space.ts';
 
 export { sortedQuantile };
-export type { ToleranceConstraint };
 
 export interface ToleranceSettings {
   draws: number;

@@ -12,8 +12,6 @@ import type { NominalSource, SpaceDefinition, ToleranceSpace } from '../space-de
 import { isSlot, type Dimension, type NormalSection, type NormalTree } from '../design-tree.ts';
 import { deviatedValue, type ToleranceField } from './tolerance-draws.ts';
 
-export type { NominalSource, ToleranceSpace } from '../space-definition.ts';
-
 /** A field that cannot be toleranced in this design space, with the reason. */
 export class ToleranceSetupError extends Error {
   constructor(
