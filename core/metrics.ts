@@ -94,7 +94,7 @@ export const METRICS: readonly MetricInfo[] = [
     'capacitor rating over the charge voltage (spark gap) or over the peak tank voltage of the burst (solid state)',
   ),
   // --- outcome ---
-  metric('overall_height', 'm', 'highest point of the topload (or winding) above the floor'),
+  metric('overall_height', 'm', 'highest conductor above the floor: topload, breakout point, winding or feed line'),
   metric('spark_length', 'm', 'spark length estimate from input power (common practice, rule of thumb)'),
   // --- appended: the parts of primary_resistance ---
   metric(

@@ -42,11 +42,16 @@ function heightAndSpark(context: EvalContext): number | null {
   const { design, metrics } = context;
   const secondary = context.secondary;
   const electrostatics = context.electrostatics;
-  metrics.overall_height = overallHeight(design, secondary);
+  const pointLength = metrics.breakout_point_length;
+  metrics.overall_height = overallHeight(design, secondary, pointLength);
   const threeCoil = context.threeCoil;
-  if (threeCoil && secondary) {
-    // The topload stands on the resonator; the driver's top may still be the highest point.
-    metrics.overall_height = Math.max(secondary.topZ, overallHeight(design, threeCoil.winding) ?? 0);
+  const line = design.resonator?.line;
+  if (threeCoil && secondary && line) {
+    // The topload stands on the resonator; the driver's top or the feed line (its conductor's top)
+    // may still be the highest conductor.
+    const lineTop = line.height + line.conductorDiameter / 2;
+    const resonatorTop = overallHeight(design, threeCoil.winding, pointLength) ?? 0;
+    metrics.overall_height = Math.max(secondary.topZ, lineTop, resonatorTop);
   }
 
   const power = metrics.input_power;

@@ -207,9 +207,15 @@ describe('coilfront draw examples/three-coil-exhibit.yaml (a resonator on its ow
     expect(Math.abs(Number(x1) - resonatorX)).toBeLessThan(0.02);
     expect(Number(x2)).toBe(Number(x1));
     expect((Number(y1) - Number(y2)) / scale).toBeCloseTo(Number(length), 4);
-    // the rod stands on the disc: its foot at the toroid's mid-plane, the overall height minus the tube's radius
-    const midPlane = (metrics.overall_height ?? Number.NaN) - 0.115;
-    expect(Math.abs((floorY - Number(y1)) / scale - midPlane)).toBeLessThan(0.05 / scale);
+    // the rod stands on the disc: its foot at the toroid's mid-plane, the centre of its drawn outline
+    const [topload] = elements(svg, 'topload');
+    const midPlaneY = Number(topload?.y) + Number(topload?.height) / 2;
+    expect(Math.abs(Number(y1) - midPlaneY)).toBeLessThan(0.02);
+    // the rod stays below the tube's top (1.02 + 0.06 + 0.115 m) and the feed line's conductor (1.2 m
+    // up, 50 mm across) is the highest conductor: the overall height is its top
+    expect(Number(length)).toBeLessThan(0.115);
+    expect(metrics.overall_height ?? Number.NaN).toBeCloseTo(1.2 + 0.025, 9);
+    expect((floorY - Number(y2)) / scale).toBeLessThan(metrics.overall_height ?? Number.NaN);
     const [column] = elements(svg, 'support');
     expect(Number(column?.['stroke-width']) / scale).toBeCloseTo(0.06, 4);
     expect(Math.abs(Number(column?.x1) - resonatorX)).toBeLessThan(0.02);

@@ -155,6 +155,28 @@ describe('the three-coil example through the pipeline', () => {
   });
 });
 
+describe('the overall height is that of the highest conductor (geometry)', () => {
+  const load = (): Design => loadDesignFile(here('examples/three-coil-exhibit.yaml')).design;
+  test('a feed line above everything else: the top of its conductor, line height + radius', () => {
+    const design = load();
+    if (!design.resonator) fail();
+    design.resonator.line.height = 2.5;
+    const { metrics, problems } = evaluateDesign(design);
+    expect(problems).toEqual([]);
+    expect(metrics.overall_height).toBeCloseTo(2.5 + 0.025, 12);
+  });
+  test('a rod on the centre disc rises from the mid-plane: apex − top of the tube = length − tube radius', () => {
+    const design = load();
+    if (!design.resonator) fail();
+    design.resonator.line.height = 0.8;
+    design.breakoutPoint = { position: 'top', tipRadius: 0.003, length: 0.25 };
+    const withRod = evaluateDesign(design).metrics.overall_height ?? Number.NaN;
+    delete design.breakoutPoint;
+    const bare = evaluateDesign(design).metrics.overall_height ?? Number.NaN;
+    expect(withRod - bare).toBeCloseTo(0.25 - 0.115, 12);
+  });
+});
+
 describe('bad three-coil geometry is a design problem naming the field', () => {
   const { design } = loadDesignFile(here('examples/three-coil-exhibit.yaml'));
   const resonator = design.resonator;
