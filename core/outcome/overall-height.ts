@@ -15,7 +15,7 @@ export function pointApexHeight(
   centreHeight: number,
   length: number | null,
 ): number | null {
-  if (!point || point.position !== 'top' || length === null || !Number.isFinite(length)) return null;
+  if (point?.position !== 'top' || length === null || !Number.isFinite(length)) return null;
   if (topload.shape === 'toroid' && topload.centerDisc === true) return centreHeight + length;
   return toploadTopHeight(topload, centreHeight) + length;
 }
