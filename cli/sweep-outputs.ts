@@ -13,8 +13,8 @@ import { defaultReferencePoint, hypervolume } from '../optimize/pareto/hypervolu
 import type { CandidatePool, RankedEntry } from '../optimize/pareto/candidate-pool.ts';
 import { type SweepState, sortedCounts } from '../optimize/sweep-state.ts';
 import { unpackRow, type PackedRow } from '../optimize/packed-row.ts';
-import { DEFAULT_DIGITS, toCsv, type Cell } from '../run/csv.ts';
-import { writeFileAtomicSync } from '../run/durable/atomic-write.ts';
+import { csvChunks, DEFAULT_DIGITS, type Cell } from '../run/csv.ts';
+import { writeChunksAtomicSync, writeFileAtomicSync } from '../run/durable/atomic-write.ts';
 import { candidateCells, columnSet } from './sweep-columns.ts';
 import { frontPlotSvg } from './plots.ts';
 import { SAFETY_LINE } from './safety.ts';
@@ -49,10 +49,20 @@ export function rankedRows(
   ranked: readonly RankedEntry<PackedRow>[],
   numbering?: ReadonlyMap<number, { rank: number; crowding: number }>,
 ): Cell[][] {
-  return ranked.map((entry, position) => {
+  return [...rankedRowsOneByOne(dimensions, ranked, numbering)];
+}
+
+/** The same rows made one at a time, as they are read (for csvChunks: no table of cells in memory). */
+export function* rankedRowsOneByOne(
+  dimensions: readonly Dimension[],
+  ranked: readonly RankedEntry<PackedRow>[],
+  numbering?: ReadonlyMap<number, { rank: number; crowding: number }>,
+): Generator<Cell[]> {
+  for (let position = 0; position < ranked.length; position++) {
+    const entry = ranked[position];
     // With a numbering (front.csv), a design carries its rank and crowding from candidates.csv.
     const known = numbering?.get(entry.item.index);
-    return candidateCells(
+    yield candidateCells(
       dimensions,
       {
         rank: numbering ? (known?.rank ?? null) : position + 1,
@@ -64,7 +74,7 @@ export function rankedRows(
       },
       unpackRow(entry.payload),
     );
-  });
+  }
 }
 
 /** Each candidates.csv design by its sample index: its rank there and its crowding distance. */
@@ -217,11 +227,12 @@ export async function writeSweepOutputs(
   const columns = columnSet(spec.dimensions);
   const { ranked, misses, front } = outputEntries(state, identity.keep);
   const digits = identity.digits ?? DEFAULT_DIGITS;
+  // Written chunk by chunk: a table of a thousand rows built whole was the run's peak of memory.
   const csv = (entries: readonly RankedEntry<PackedRow>[], numbering?: ReturnType<typeof candidateNumbering>) =>
-    toCsv(columns.header, rankedRows(spec.dimensions, entries, numbering), digits);
-  writeFileAtomicSync(join(directory, 'candidates.csv'), csv(ranked));
-  writeFileAtomicSync(join(directory, 'infeasible.csv'), csv(misses));
-  writeFileAtomicSync(join(directory, 'front.csv'), csv(front, candidateNumbering(ranked)));
+    csvChunks(columns.header, rankedRowsOneByOne(spec.dimensions, entries, numbering), digits);
+  writeChunksAtomicSync(join(directory, 'candidates.csv'), csv(ranked));
+  writeChunksAtomicSync(join(directory, 'infeasible.csv'), csv(misses));
+  writeChunksAtomicSync(join(directory, 'front.csv'), csv(front, candidateNumbering(ranked)));
   writeFileAtomicSync(
     join(directory, 'summary.json'),
     `${JSON.stringify(summaryObject(spec, state, identity, timing, complete, front), null, 2)}\n`,

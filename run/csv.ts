@@ -103,3 +103,28 @@ export function csvRows(rows: readonly (readonly Cell[])[], digits: number = DEF
     { record_delimiter: '\n' },
   );
 }
+
+/** Rows per chunk of {@link csvChunks}: small enough that each chunk's cells die young. */
+const ROWS_PER_CHUNK = 64;
+
+/**
+ * The same text as {@link toCsv}, as a sequence of chunks (the header, then at most ROWS_PER_CHUNK rows
+ * each), the rows read from `rows` only as each chunk is made: a large table never exists as one
+ * string or one array of cells (for {@link writeChunksAtomicSync}).
+ */
+export function* csvChunks(
+  header: readonly string[],
+  rows: Iterable<readonly Cell[]>,
+  digits: number = DEFAULT_DIGITS,
+): Generator<string> {
+  yield stringify([header.map((h) => guardText(h))], { record_delimiter: '\n' });
+  let chunk: (readonly Cell[])[] = [];
+  for (const row of rows) {
+    chunk.push(row);
+    if (chunk.length === ROWS_PER_CHUNK) {
+      yield csvRows(chunk, digits);
+      chunk = [];
+    }
+  }
+  if (chunk.length > 0) yield csvRows(chunk, digits);
+}
