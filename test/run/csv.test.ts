@@ -1,6 +1,6 @@
 import { parse } from 'csv-parse/sync';
 import { describe, expect, it } from 'vitest';
-import { asciiText, guardText, toCsv } from '../../run/csv.js';
+import { asciiText, csvChunks, guardText, toCsv } from '../../run/csv.js';
 
 // The character set a spreadsheet assumes for a CSV opened by double click is a Western 8-bit one
 // (observed here with LibreOffice Calc's headless import, with and without a byte-order mark; Excel's
@@ -31,5 +31,18 @@ describe('CSV text cells in ASCII', () => {
       ['topload', 'reason'],
       ['toroid 400x100 mm', 'primary cannot tune: needs 53.76 uH'],
     ]);
+  });
+});
+
+describe('csvChunks', () => {
+  // The streamed form must be the same text as the whole one (RFC 4180 quoting by csv-stringify in both).
+  it('concatenates to exactly what toCsv writes, across chunk boundaries and with quoted cells', () => {
+    const header = ['rank', 'label', 'value'];
+    const rows = Array.from({ length: 150 }, (_, i) => [i + 1, i % 7 === 0 ? 'a, "quoted" cell' : `d${i}`, i / 3]);
+    const whole = toCsv(header, rows, 6);
+    const chunks = [...csvChunks(header, rows, 6)];
+    expect(chunks.length).toBe(1 + 3);
+    expect(chunks.join('')).toBe(whole);
+    expect([...csvChunks(header, [], 6)].join('')).toBe(toCsv(header, [], 6));
   });
 });
