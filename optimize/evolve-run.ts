@@ -12,7 +12,8 @@ import type { DesignSpace } from './design-space.ts';
 import type { BatchEvaluator, BatchResult } from './evaluate-batch.ts';
 import { designProblem } from './evolve/design-problem.ts';
 import { type EvolveOptions, type EvolveState, hasBudget, initialState, stepGeneration } from './evolve/evolve.ts';
-import type { Individual } from './evolve/selection.ts';
+import type { VariationSettings } from './evolve/operators.ts';
+import type { Diversity, Individual } from './evolve/selection.ts';
 import { packRow, type PackedRow } from './packed-row.ts';
 import { CandidatePool, type JsonNumber } from './pareto/candidate-pool.ts';
 import { defaultReferencePoint, hypervolume } from './pareto/hypervolume.ts';
@@ -31,6 +32,10 @@ export interface EvolveRunOptions {
   referencePoint: number[] | null;
   /** Polled after each journalled generation: true stops the stage with StageStopped (the journal stays). */
   shouldStop?: ShouldStop;
+  /** Operator settings other than the engine's defaults (benchmarks); unset: DEFAULT_VARIATION. */
+  variation?: Partial<VariationSettings>;
+  /** The diversity measure of the last admitted front; unset: 'auto'. */
+  diversity?: Diversity;
 }
 
 /** A member as journaled: numbers that JSON cannot hold (Infinity) as strings. */
@@ -110,6 +115,8 @@ export async function evolveSweep(
     seed: options.seed,
     evaluations: options.evaluations,
     population: options.population,
+    ...(options.variation ? { variation: options.variation } : {}),
+    ...(options.diversity ? { diversity: options.diversity } : {}),
   };
   const seeds = seedsOf(state, problem);
   const base = seeds.reduce((next, s) => Math.max(next, s.index + 1), 0);

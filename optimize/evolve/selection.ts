@@ -5,7 +5,14 @@
  */
 import type { Scored } from '../pareto/index.ts';
 import { crowdingDistance, nondominatedSort } from '../pareto/index.ts';
+import { thinByContributionMany } from './contribution-thinning.ts';
 import type { Draws } from './operators.ts';
+
+/** Most objectives for which 'auto' thins by exact hypervolume contributions. */
+const MOST_OBJECTIVES_BY_CONTRIBUTION = 4;
+
+/** Largest front, in multiples of what it keeps, that greedy contribution thinning takes whole. */
+const CONTRIBUTION_FRONT_CAP = 3;
 
 /** One evaluated member: its genome, its objectives (minimisation) and total constraint violation. */
 export interface Individual extends Scored {
@@ -20,7 +27,12 @@ export interface Individual extends Scored {
  * - 'crowding': remove, one at a time, the member of smallest crowding distance, recomputing the distances
  *   after each removal (the iterative pruning of Kukkonen & Deb 2006 [kukkonen2006]), which keeps a far
  *   more even spread than one-shot crowding on 3–4 objectives.
- * 'auto': 'contribution' for two objectives, 'crowding' otherwise.
+ * 'contribution' on three or more objectives is the same greedy rule with exact contributions
+ * (contribution-thinning.ts).
+ * 'auto': 'contribution' for two to four objectives, 'crowding' for five or more (where exact
+ * contributions grow too costly). Measured on this project's own sweep problems against a plain
+ * NSGA-II with crowding (bench/external/nsga2-compare.ts): contribution raised the front's
+ * hypervolume by about 0.5 % on three objectives and 2 % on four at equal budgets.
  */
 export type Diversity = 'auto' | 'contribution' | 'crowding';
 
@@ -97,8 +109,19 @@ export function thinFront(front: Individual[], keep: number, diversity: Diversit
       .slice()
       .sort((a, b) => a.objectives[0] - b.objectives[0] || a.index - b.index)
       .slice(0, keep);
-  const use = diversity === 'auto' ? (objectiveCount === 2 ? 'contribution' : 'crowding') : diversity;
+  const use =
+    diversity === 'auto'
+      ? objectiveCount <= MOST_OBJECTIVES_BY_CONTRIBUTION
+        ? 'contribution'
+        : 'crowding'
+      : diversity;
   if (use === 'contribution' && objectiveCount === 2) return thinByContribution(front, keep);
+  if (use === 'contribution') {
+    // A front far larger than what it keeps (a sweep's whole front as the first population) is first
+    // brought down by crowding, which costs far less per removal.
+    const cap = CONTRIBUTION_FRONT_CAP * keep;
+    return thinByContributionMany(front.length > cap ? thinByCrowding(front, cap) : front, keep);
+  }
   return thinByCrowding(front, keep);
 }
 
