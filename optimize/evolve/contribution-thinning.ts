@@ -52,15 +52,21 @@ function exclusiveContribution(points: Float64Array[], alive: boolean[], p: numb
     const shadow = Float64Array.from(own, (v, j) => Math.max(v, points[q][j]));
     shadows.push(shadow);
   }
-  // In four or more objectives the sweep's cost grows with the square of the points: only the shadows
-  // that no other shadow dominates bound the covered part (of equal ones the first is kept).
-  const bounding =
-    own.length < 4
-      ? shadows
-      : shadows.filter(
-          (s, i) => !shadows.some((t, k) => k !== i && weaklyDominates(t, s) && (k < i || !weaklyDominates(s, t))),
-        );
-  return Math.max(0, box - hypervolume(bounding, reference));
+  return Math.max(0, box - hypervolume(own.length < 4 ? shadows : nondominated(shadows), reference));
+}
+
+/**
+ * The points that no other weakly dominates (of equal ones, one): in four or more objectives the
+ * hypervolume sweep's cost grows with the square of the points, and most shadows are dominated. By
+ * increasing coordinate sum a point can be dominated only by one before it, and (dominance being
+ * transitive) by one already kept if by any, so each is compared with the kept ones only.
+ */
+function nondominated(points: Float64Array[]): Float64Array[] {
+  const sums = points.map((p) => p.reduce((a, b) => a + b, 0));
+  const order = points.map((_, i) => i).sort((a, b) => sums[a] - sums[b] || a - b);
+  const kept: Float64Array[] = [];
+  for (const i of order) if (!kept.some((k) => weaklyDominates(k, points[i]))) kept.push(points[i]);
+  return kept;
 }
 
 /**
