@@ -8,8 +8,9 @@
  */
 import { resolve } from 'node:path';
 import { loadSweepFile } from '../cli/sweep-spec.ts';
+import { STAGE_DEFAULTS } from '../cli/sweep-stages.ts';
 import { DesignSpace, spaceDefinitionOf } from '../optimize/design-space.ts';
-import { inProcessEvaluator } from '../optimize/evaluate-batch.ts';
+import { type BatchResult, inProcessEvaluator } from '../optimize/evaluate-batch.ts';
 import { evolveSweep } from '../optimize/evolve-run.ts';
 import { defaultReferencePoint, hypervolume } from '../optimize/pareto/index.ts';
 import { refineSweep } from '../optimize/refine-run.ts';
@@ -24,8 +25,25 @@ export const SPLITS: ReadonlyArray<readonly [number, number, number]> = [
   [0.5, 0.4, 0.1],
   [0.5, 0.25, 0.25],
   [0.25, 0.5, 0.25],
+  [0.1, 0.9, 0],
+  [1 / 11, 9 / 11, 1 / 11],
 ];
-const CHUNK = 125;
+const CHUNK = 50;
+
+/** The first `count` rows of an indices batch (a sweep whose samples end inside a chunk). */
+function prefixOf(batch: BatchResult, count: number): BatchResult {
+  const dimensions = batch.values.length / batch.count;
+  const metrics = batch.metrics.length / batch.count;
+  return {
+    start: batch.start,
+    count,
+    values: batch.values.subarray(0, count * dimensions),
+    metrics: batch.metrics.subarray(0, count * metrics),
+    status: batch.status.subarray(0, count),
+    reasons: batch.reasons.filter(([row]) => row < count),
+    warningMasks: batch.warningMasks.subarray(0, count),
+  };
+}
 
 /** Lines `budget  split  normalised hypervolume per seed  mean  evaluations used (seed 1)`. */
 export async function benchStageSplit(options: { budgets?: number[]; seeds?: number[] } = {}): Promise<string[]> {
@@ -45,10 +63,14 @@ export async function benchStageSplit(options: { budgets?: number[]; seeds?: num
         chunks.push(await evaluator.evaluate({ kind: 'indices', start, count: Math.min(CHUNK, budget - start) }));
       const fronts: Float64Array[][] = [];
       for (const [k, [sweepShare, evolveShare, refineShare]] of SPLITS.entries()) {
-        const samples = Math.round((sweepShare * budget) / CHUNK) * CHUNK;
-        const evolveBudget = Math.round(evolveShare * budget);
+        const samples = Math.round(sweepShare * budget);
+        const evolveBudget = Math.round((sweepShare + evolveShare) * budget) - samples;
         const state = new SweepState(spec.objectives, spec.constraints, 100, seed);
-        for (const chunk of chunks) if (chunk.start < samples) state.offerBatch(chunk, spec.dimensions.length);
+        for (const chunk of chunks) {
+          if (chunk.start + chunk.count <= samples) state.offerBatch(chunk, spec.dimensions.length);
+          else if (chunk.start < samples)
+            state.offerBatch(prefixOf(chunk, samples - chunk.start), spec.dimensions.length);
+        }
         let evaluations = samples;
         let next = samples;
         if (evolveBudget > 0) {
@@ -57,7 +79,13 @@ export async function benchStageSplit(options: { budgets?: number[]; seeds?: num
             state,
             samples,
             evaluator,
-            { seed, evaluations: evolveBudget, population: 100, batchSize: 64, referencePoint: null },
+            {
+              seed,
+              evaluations: evolveBudget,
+              population: STAGE_DEFAULTS.evolve.population,
+              batchSize: 64,
+              referencePoint: null,
+            },
             { replay: [], append: () => {} },
           );
           for (const entry of evolved.evolved.feasibleEntries()) state.pool.offer(entry.item, entry.payload);

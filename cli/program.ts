@@ -19,6 +19,7 @@ import { mergeCommand } from './merge-command.ts';
 import { demoCommand } from './demo-command.ts';
 import { refineCommand, type RefineCommandOptions } from './refine-command.ts';
 import { evolveCommand, type EvolveCommandOptions } from './evolve-command.ts';
+import { STAGE_DEFAULTS } from './sweep-stages.ts';
 import { sensitivityCommand, type SensitivityOptions } from './sensitivity-command.ts';
 import { sheetCommand, type SheetCommandOptions } from './sheet-command.ts';
 import { stockCommand } from './stock-command.ts';
@@ -205,7 +206,12 @@ function registerStudyCommands(program: Command, io: CliIo, setExit: (code: numb
     .description("carry a sweep's kept candidates further with a multi-objective genetic algorithm")
     .argument('<run>', 'run directory of a sweep')
     .option('--evaluations <n>', 'new evaluations to spend', integer('--evaluations'), 2000)
-    .option('--population <n>', 'designs per generation (at least 4)', integer('--population'), 100)
+    .option(
+      '--population <n>',
+      'designs per generation (at least 4)',
+      integer('--population'),
+      STAGE_DEFAULTS.evolve.population,
+    )
     .option('--seed <n>', "seed of the stage's random draws (default: the sweep's)", integer('--seed'))
     .option('--workers <n>', 'worker threads (default: available parallelism)', integer('--workers'))
     .action(async (run: string, options: EvolveCommandOptions) => {

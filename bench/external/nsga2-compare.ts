@@ -1,6 +1,6 @@
 /**
- * coilfront's default pipeline (sweep a quarter of the budget, evolve a half, refine the rest: the
- * rule of `sweep.stages`) against a general-purpose NSGA-II (DEAP, population 100) that drives
+ * coilfront's default pipeline (the rule of `sweep.stages`: sweep S samples, evolve 9·S at population
+ * 60, refine S; S an eleventh of the budget) against a general-purpose NSGA-II (DEAP, population 100) that drives
  * `coilfront evaluate --batch -` through one open pipe, at equal evaluation budgets, on the
  * science-centre example (2 objectives), the same problem with the overall height as a third
  * objective, and with the axial gradient as a fourth. Hypervolume of each final front (feasible designs only; every evaluation counts for both),
@@ -15,6 +15,7 @@ import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { parse, stringify } from 'yaml';
 import { loadSweepFile } from '../../cli/sweep-spec.ts';
+import { stageDefaults } from '../../cli/sweep-stages.ts';
 import { DesignSpace, spaceDefinitionOf } from '../../optimize/design-space.ts';
 import { inProcessEvaluator } from '../../optimize/evaluate-batch.ts';
 import { evolveSweep } from '../../optimize/evolve-run.ts';
@@ -37,24 +38,28 @@ function problemFile(extraObjectives: Array<Record<string, string>>): string {
 /** The pipeline's front (minimisation convention, SI), from the stages' own run functions. */
 async function pipelineFront(file: string, budget: number, seed: number): Promise<Float64Array[]> {
   const spec = loadSweepFile(file, { force: true });
-  const samples = Math.round(budget / 4 / CHUNK) * CHUNK;
+  // The default rule of sweep.stages: samples S, evolve 9·S, refine S, so S is an eleventh of the budget.
+  const samples = Math.round(budget / 11);
+  const defaults = stageDefaults({ samples, dimensions: spec.dimensions.length, objectives: spec.objectives.length });
   const space = new DesignSpace({ ...spaceDefinitionOf(spec), seed, samples });
   const evaluator = inProcessEvaluator(space);
   const state = new SweepState(spec.objectives, spec.constraints, 100, seed);
-  for (let start = 0; start < samples; start += CHUNK)
-    state.offerBatch(await evaluator.evaluate({ kind: 'indices', start, count: CHUNK }), spec.dimensions.length);
+  for (let start = 0; start < samples; start += CHUNK) {
+    const count = Math.min(CHUNK, samples - start);
+    state.offerBatch(await evaluator.evaluate({ kind: 'indices', start, count }), spec.dimensions.length);
+  }
   const evolved = await evolveSweep(
     space,
     state,
     samples,
     evaluator,
-    { seed, evaluations: Math.round(budget / 2), population: 100, batchSize: 64, referencePoint: null },
+    { seed, ...defaults.evolve, batchSize: 64, referencePoint: null },
     { replay: [], append: () => {} },
   );
   for (const entry of evolved.evolved.feasibleEntries()) state.pool.offer(entry.item, entry.payload);
   const used = samples + evolved.evaluations;
   const refined = await refineSweep(space, state, used, evaluator, {
-    starts: 8,
+    starts: defaults.refine.starts,
     evaluations: budget - used,
     referencePoint: null,
     batchSize: 64,
@@ -118,6 +123,6 @@ export async function compareWithNsga2(budgets: number[], seeds: number[]): Prom
 
 if (process.argv[1]?.endsWith('nsga2-compare.js')) {
   const list = (text: string | undefined, fallback: number[]) => text?.split(',').map(Number) ?? fallback;
-  for (const line of await compareWithNsga2(list(process.argv[2], [2000, 5000]), list(process.argv[3], [1, 2])))
+  for (const line of await compareWithNsga2(list(process.argv[2], [2000, 5000]), list(process.argv[3], [1, 2, 3, 4])))
     console.log(line);
 }

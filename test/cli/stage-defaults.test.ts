@@ -6,11 +6,12 @@ import { stageDefaults } from '../../cli/sweep-stages.ts';
 import { SMALL_SWEEP } from './sweep-harness.ts';
 
 // The default budget split of sweep.stages (a rule of ours, measured by bench/stage-split.ts): the
-// sweep's samples are a quarter of the budget, evolve half, refine a quarter, with floors.
+// sweep's samples are a tenth of sweep + evolve, evolve nine tenths at population 60, refine the samples
+// again when listed, with floors.
 describe('stageDefaults', () => {
-  it('gives evolve twice the samples and refine the samples, over four starts per objective', () => {
+  it('gives evolve nine times the samples and refine the samples, over four starts per objective', () => {
     expect(stageDefaults({ samples: 5000, dimensions: 8, objectives: 2 })).toEqual({
-      evolve: { evaluations: 10_000, population: 100 },
+      evolve: { evaluations: 45_000, population: 60 },
       refine: { starts: 8, evaluations: 5000 },
     });
     expect(stageDefaults({ samples: 20_000, dimensions: 6, objectives: 3 }).refine).toEqual({
@@ -21,7 +22,7 @@ describe('stageDefaults', () => {
 
   it('keeps ten generations of evolve and dimensions + 2 evaluations per refine start on a small sweep', () => {
     expect(stageDefaults({ samples: 10, dimensions: 30, objectives: 4 })).toEqual({
-      evolve: { evaluations: 1000, population: 100 },
+      evolve: { evaluations: 600, population: 60 },
       refine: { starts: 16, evaluations: 16 * 32 },
     });
   });
@@ -34,7 +35,7 @@ describe('stageDefaults', () => {
     const spec = sweepFromValue(parseInputText(text, 'small.yaml'), 'small.yaml');
     expect(spec.samples).toBe(256);
     expect(spec.stages).toEqual([
-      { stage: 'evolve', evaluations: 1000, population: 100 },
+      { stage: 'evolve', evaluations: 2304, population: 60 },
       { stage: 'refine', starts: 3, evaluations: 256 },
     ]);
   });
