@@ -9,15 +9,8 @@
  * dominated by p and the removed member w and by no one else, which is impossible when max(p, w) is
  * weakly dominated by a third member; the others are recomputed, so the result is the exact greedy one.
  */
-import { hypervolume } from '../pareto/index.ts';
+import { defaultReferencePoint, hypervolume } from '../pareto/index.ts';
 import type { Scored } from '../pareto/index.ts';
-
-/**
- * Normalised margin of the reference point beyond the front's worst value in each objective (common
- * practice for hypervolume-based selection: a little beyond the nadir, so that the members at the edge
- * of the front keep a contribution).
- */
-const REFERENCE_MARGIN = 0.1;
 
 /** Does a weakly dominate b (minimisation)? */
 function weaklyDominates(a: Float64Array, b: Float64Array): boolean {
@@ -73,15 +66,17 @@ function nondominated(points: Float64Array[]): Float64Array[] {
  * Thins `members` (mutually non-dominated, ≥ 3 objectives) to `keep` by greedy exclusive-contribution
  * removal. The member with the smallest value of each objective always stays (as the two extremes do
  * in two objectives). Ties: the newer member (larger index) goes first, so results never depend on list
- * order. Objectives are normalised by the front's own range; the reference point is REFERENCE_MARGIN
- * beyond its worst value.
+ * order. Objectives are normalised by the front's own range; the reference point is that of
+ * defaultReferencePoint (optimize/pareto/hypervolume.ts) on the normalised front.
  */
 export function thinByContributionMany<T extends Scored>(members: readonly T[], keep: number): T[] {
   const count = members.length;
   if (count <= keep) return members.slice();
   const d = members[0].objectives.length;
   const points = normalised(members);
-  const reference = new Float64Array(d).fill(1 + REFERENCE_MARGIN);
+  // The project's default reference point of the normalised front: 10 % of the range beyond its worst
+  // value (1.1), so that the members at the edge keep a contribution.
+  const reference = defaultReferencePoint(points);
   const alive = new Array<boolean>(count).fill(true);
   const extreme = new Array<boolean>(count).fill(false);
   for (let j = 0; j < d; j++) {
@@ -95,6 +90,7 @@ export function thinByContributionMany<T extends Scored>(members: readonly T[], 
   }
   const value = new Float64Array(count);
   for (let i = 0; i < count; i++) value[i] = extreme[i] ? Infinity : exclusiveContribution(points, alive, i, reference);
+  const corner = new Float64Array(d);
   for (let left = count; left > keep; left--) {
     let worst = -1;
     for (let i = 0; i < count; i++) {
@@ -110,7 +106,7 @@ export function thinByContributionMany<T extends Scored>(members: readonly T[], 
     const removed = points[worst];
     for (let p = 0; p < count; p++) {
       if (!alive[p] || extreme[p]) continue;
-      const corner = Float64Array.from(points[p], (v, j) => Math.max(v, removed[j]));
+      for (let j = 0; j < d; j++) corner[j] = Math.max(points[p][j], removed[j]);
       let covered = false;
       for (let q = 0; q < count && !covered; q++)
         if (q !== p && alive[q] && weaklyDominates(points[q], corner)) covered = true;
