@@ -90,9 +90,7 @@ export function toCsv(
   rows: readonly (readonly Cell[])[],
   digits: number = DEFAULT_DIGITS,
 ): string {
-  return stringify([header.map((h) => guardText(h)), ...rows.map((row) => row.map((cell) => cellText(cell, digits)))], {
-    record_delimiter: '\n',
-  });
+  return [...csvChunks(header, rows, digits)].join('');
 }
 
 /** CSV text of rows only (for streaming appends). */

@@ -43,7 +43,6 @@ function heightAndSpark(context: EvalContext): number | null {
   const secondary = context.secondary;
   const electrostatics = context.electrostatics;
   const pointLength = metrics.breakout_point_length;
-  metrics.overall_height = overallHeight(design, secondary, pointLength);
   const threeCoil = context.threeCoil;
   const line = design.resonator?.line;
   if (threeCoil && secondary && line) {
@@ -52,6 +51,8 @@ function heightAndSpark(context: EvalContext): number | null {
     const lineTop = line.height + line.conductorDiameter / 2;
     const resonatorTop = overallHeight(design, threeCoil.winding, pointLength) ?? 0;
     metrics.overall_height = Math.max(secondary.topZ, lineTop, resonatorTop);
+  } else {
+    metrics.overall_height = overallHeight(design, secondary, pointLength);
   }
 
   const power = metrics.input_power;
