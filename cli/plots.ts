@@ -227,7 +227,8 @@ export function frontPlotSpec(
       rank === null || rank === undefined ? '' : String(rank),
     );
   });
-  const heading = `Trade-offs: ${front.length} non-dominated designs among ${candidates.length} ranked candidates`;
+  // After a stage the points behind the front are its listed designs (evolved.csv, refined.csv), not the ranked ones.
+  const heading = `Trade-offs: ${front.length} non-dominated designs and the ${candidates.length} listed candidates`;
   if (objectives.length === 1) return oneObjectiveSpec(objectives[0], candidates);
   return objectives.length === 2
     ? twoObjectiveSpec(objectives, data, heading)
